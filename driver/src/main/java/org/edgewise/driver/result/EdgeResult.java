@@ -1,0 +1,79 @@
+package org.edgewise.driver.result;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * The JSON result of {@code edges} (and the input of {@code report} and {@code compare}).
+ *
+ * @param method                 {@code order} (given order), {@code exact} (DP over all orders) or {@code mcmc}
+ * @param variables              variable names in store order
+ * @param logEvidence            log evidence, order-modular convention (given order or exact); null for MCMC
+ * @param logEvidenceNormalized  log evidence with the prior renormalised per order (given order only)
+ * @param evidenceConvention     which evidence an unknown-order method weighs orders by
+ * @param order                  the given order (method {@code order}), else null
+ * @param settings               score, ESS, prior, d, constraints used
+ * @param store                  where the counts came from
+ * @param edges                  one entry per ordered pair of distinct variables
+ * @param parentSets             per variable, its most probable parent sets
+ * @param bestNetwork            the single highest-scoring network (under the order, when given)
+ * @param diagnostics            MCMC diagnostics, else null
+ * @param features               further features (ancestor relations, Markov-blanket membership)
+ * @param sensitivity            the same edges under other ESS values, when several were asked
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record EdgeResult(String method, List<String> variables, Double logEvidence,
+                         Double logEvidenceNormalized, String evidenceConvention, List<String> order,
+                         Settings settings, Provenance store, List<Edge> edges,
+                         List<VariableParents> parentSets, Network bestNetwork,
+                         Diagnostics diagnostics, List<Feature> features,
+                         List<Sensitivity> sensitivity) {
+
+    /** An edge posterior; {@code mcse} and {@code rhat} only for MCMC. */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Edge(String from, String to, double posterior, Double mcse, Double rhat) {
+        public Edge(String from, String to, double posterior) {
+            this(from, to, posterior, null, null);
+        }
+    }
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Settings(String score, double ess, String prior, int maxParents,
+                           List<String> forbid, List<String> require, List<List<String>> tiers) {
+    }
+
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Provenance(String path, List<String> input, long rows, String fingerprint,
+                             String createdAt, String storedScore, double storedEss,
+                             Map<String, List<String>> candidates) {
+    }
+
+    public record ParentSet(List<String> parents, double posterior) {
+    }
+
+    public record VariableParents(String variable, List<ParentSet> top) {
+    }
+
+    /** A single network: each variable's parents, and its total log score (plus log prior). */
+    public record Network(double logScore, Map<String, List<String>> parents) {
+    }
+
+    /**
+     * MCMC diagnostics. {@code rhat}: largest split-R̂ over edges; {@code ess}: smallest bulk
+     * effective sample size; {@code traces}: log evidence per chain (thinned), for trace plots.
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
+                              double rhat, double ess, boolean converged, List<List<Double>> traces,
+                              int traceThin) {
+    }
+
+    /** A feature beyond a single edge: {@code kind} {@code ancestor} (from ⇝ to) or {@code markov-blanket}. */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Feature(String kind, String from, String to, double posterior, Double mcse) {
+    }
+
+    public record Sensitivity(double ess, Double logEvidence, List<Edge> edges) {
+    }
+}

@@ -1,0 +1,49 @@
+package org.edgewise.driver.store;
+
+import com.fasterxml.jackson.annotation.JsonIgnore;
+import com.fasterxml.jackson.annotation.JsonInclude;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * {@code manifest.json} of a score store — the contract between the tally job and the driver.
+ *
+ * @param formatVersion   {@link StoreFormat#VERSION}
+ * @param variables       every variable, in store order (variable index = position)
+ * @param maxParents      the in-degree bound d
+ * @param candidates      per child name, its candidate parents when pruned ({@code --candidates K});
+ *                        null when every other variable is a candidate
+ * @param forbidden       edges forbidden at tally time
+ * @param required        edges required at tally time
+ * @param tiers           tiers (no parent from a later tier); empty when none
+ * @param score           score kind of the stored log scores ({@code bdeu} or {@code k2})
+ * @param ess             equivalent sample size of the stored scores (BDeu)
+ * @param parts           the Parquet parts; filled in by the writer
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record Manifest(int formatVersion, String program, String programVersion, String createdAt,
+                       InputInfo input, List<Variable> variables, int maxParents,
+                       Map<String, List<String>> candidates, List<EdgeRule> forbidden,
+                       List<EdgeRule> required, List<List<String>> tiers, String score, double ess,
+                       StoreParts parts) {
+
+    public Manifest withParts(StoreParts newParts) {
+        return new Manifest(formatVersion, program, programVersion, createdAt, input, variables,
+                maxParents, candidates, forbidden, required, tiers, score, ess, newParts);
+    }
+
+    /** Index of a variable by name, or −1. */
+    public int variableIndex(String name) {
+        for (int i = 0; i < variables.size(); i++) {
+            if (variables.get(i).name().equals(name)) {
+                return i;
+            }
+        }
+        return -1;
+    }
+
+    @JsonIgnore
+    public int variableCount() {
+        return variables.size();
+    }
+}

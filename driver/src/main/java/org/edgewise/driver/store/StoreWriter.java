@@ -1,0 +1,172 @@
+package org.edgewise.driver.store;
+
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.SerializationFeature;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.UncheckedIOException;
+import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.FileAlreadyExistsException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.StandardCopyOption;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.util.Comparator;
+import java.util.HexFormat;
+import java.util.List;
+import java.util.UUID;
+import java.util.stream.Stream;
+import org.apache.hadoop.conf.Configuration;
+import org.apache.hadoop.fs.FileSystem;
+import org.apache.parquet.example.data.Group;
+import org.apache.parquet.example.data.simple.SimpleGroupFactory;
+import org.apache.parquet.hadoop.ParquetFileWriter;
+import org.apache.parquet.hadoop.ParquetWriter;
+import org.apache.parquet.hadoop.example.ExampleParquetWriter;
+import org.apache.parquet.hadoop.metadata.CompressionCodecName;
+import org.apache.parquet.hadoop.util.HadoopOutputFile;
+import org.edgewise.driver.UserError;
+
+/**
+ * Writes a score store atomically: everything goes to a hidden temporary sibling of the target,
+ * which is renamed into place only when complete. An existing store is replaced only with
+ * {@code overwrite}; a failure leaves the target as it was.
+ */
+public final class StoreWriter {
+    private static final ObjectMapper JSON = new ObjectMapper().enable(SerializationFeature.INDENT_OUTPUT);
+
+    private StoreWriter() {
+    }
+
+    /**
+     * Writes {@code families} (grouped by child, increasing) with their {@code logScores}.
+     * The manifest's {@code parts} are filled in here.
+     */
+    public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
+                             double[] logScores, boolean overwrite) {
+        Path abs = target.toAbsolutePath().normalize();
+        if (Files.exists(abs) && !overwrite) {
+            throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
+        }
+        Path parent = abs.getParent();
+        Path tmp = parent.resolve("." + abs.getFileName() + ".tmp-" + UUID.randomUUID());
+        try {
+            Files.createDirectories(parent);
+            Files.createDirectory(tmp);
+            long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
+            writeScores(tmp.resolve(StoreFormat.SCORES), families, logScores);
+            StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
+                    sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
+                    sha256(tmp.resolve(StoreFormat.COUNTS)));
+            JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), manifest.withParts(parts));
+            publish(tmp, abs, overwrite);
+        } catch (IOException e) {
+            deleteTree(tmp);
+            throw new UncheckedIOException("could not write store " + target + ": " + e.getMessage(), e);
+        } catch (RuntimeException e) {
+            deleteTree(tmp);
+            throw e;
+        }
+    }
+
+    private static void publish(Path tmp, Path target, boolean overwrite) throws IOException {
+        Path old = null;
+        if (Files.exists(target)) {
+            if (!overwrite) {
+                throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
+            }
+            old = target.resolveSibling("." + target.getFileName() + ".old-" + UUID.randomUUID());
+            Files.move(target, old, StandardCopyOption.ATOMIC_MOVE);
+        }
+        try {
+            Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE);
+        } catch (FileAlreadyExistsException e) {
+            throw new UserError("output " + target + " appeared while writing; nothing was replaced");
+        } catch (AtomicMoveNotSupportedException e) {
+            throw new IOException("the filesystem of " + target + " cannot rename atomically", e);
+        }
+        if (old != null) {
+            deleteTree(old);
+        }
+    }
+
+    private static Configuration localConf() throws IOException {
+        Configuration conf = new Configuration(false);
+        conf.set("fs.file.impl", "org.apache.hadoop.fs.LocalFileSystem");
+        FileSystem.getLocal(conf).setWriteChecksum(false);
+        return conf;
+    }
+
+    private static ParquetWriter<Group> open(Path file, org.apache.parquet.schema.MessageType schema)
+            throws IOException {
+        Configuration conf = localConf();
+        return ExampleParquetWriter.builder(HadoopOutputFile.fromPath(
+                        new org.apache.hadoop.fs.Path(file.toUri()), conf))
+                .withConf(conf)
+                .withType(schema)
+                .withCompressionCodec(CompressionCodecName.SNAPPY)
+                .withWriteMode(ParquetFileWriter.Mode.CREATE)
+                .build();
+    }
+
+    private static long writeCounts(Path file, List<FamilyCounts> families) throws IOException {
+        SimpleGroupFactory groups = new SimpleGroupFactory(StoreFormat.COUNTS_SCHEMA);
+        long rows = 0;
+        try (ParquetWriter<Group> w = open(file, StoreFormat.COUNTS_SCHEMA)) {
+            for (int f = 0; f < families.size(); f++) {
+                FamilyCounts fc = families.get(f);
+                int r = fc.configs().length == 0 ? 0 : fc.counts().length / fc.configs().length;
+                for (int m = 0; m < fc.configs().length; m++) {
+                    Group g = groups.newGroup().append("family", f).append("config", fc.configs()[m]);
+                    for (int k = 0; k < r; k++) {
+                        g.add("counts", fc.counts()[m * r + k]);
+                    }
+                    w.write(g);
+                    rows++;
+                }
+            }
+        }
+        return rows;
+    }
+
+    private static void writeScores(Path file, List<FamilyCounts> families, double[] logScores) throws IOException {
+        SimpleGroupFactory groups = new SimpleGroupFactory(StoreFormat.SCORES_SCHEMA);
+        try (ParquetWriter<Group> w = open(file, StoreFormat.SCORES_SCHEMA)) {
+            for (int f = 0; f < families.size(); f++) {
+                FamilyCounts fc = families.get(f);
+                Group g = groups.newGroup().append("family", f).append("child", fc.child());
+                for (int p : fc.parents()) {
+                    g.add("parents", p);
+                }
+                g.add("log_score", logScores[f]);
+                w.write(g);
+            }
+        }
+    }
+
+    /** SHA-256 of a file, lower-case hex. */
+    static String sha256(Path file) throws IOException {
+        try (InputStream in = Files.newInputStream(file)) {
+            MessageDigest md = MessageDigest.getInstance("SHA-256");
+            byte[] buf = new byte[1 << 16];
+            for (int n; (n = in.read(buf)) > 0; ) {
+                md.update(buf, 0, n);
+            }
+            return HexFormat.of().formatHex(md.digest());
+        } catch (NoSuchAlgorithmException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    static void deleteTree(Path dir) {
+        if (dir == null || !Files.exists(dir)) {
+            return;
+        }
+        try (Stream<Path> walk = Files.walk(dir)) {
+            walk.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+        } catch (IOException ignored) {
+            // best effort: a leftover hidden temporary never looks like a store
+        }
+    }
+}
