@@ -61,11 +61,12 @@ public final class TallyJob {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
         Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter());
+        // every name the user gave is checked against the header before any pass over the data
+        List<String> names = TableScan.selected(table, o);
+        Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
         List<Variable> variables = enc.variables();
-        List<String> names = variables.stream().map(Variable::name).toList();
-        Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         int[] arity = enc.arities();
         LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
                 names.size(), describeArities(names, arity));

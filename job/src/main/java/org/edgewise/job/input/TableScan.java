@@ -54,7 +54,8 @@ public final class TableScan {
         boolean test(Row r);
     }
 
-    public static Result scan(Table table, TallyOptions o) {
+    /** The selected variables' names, in column order; unknown names in --columns/--exclude/--discretize refused. */
+    public static List<String> selected(Table table, TallyOptions o) {
         List<String> header = table.columns();
         for (String c : o.columns()) {
             if (!header.contains(c)) {
@@ -69,12 +70,10 @@ public final class TableScan {
             }
         }
         List<String> names = new ArrayList<>();
-        List<Integer> fieldList = new ArrayList<>();
         for (int i = 0; i < header.size(); i++) {
             String c = header.get(i);
             if ((o.columns().isEmpty() || o.columns().contains(c)) && !o.exclude().contains(c)) {
                 names.add(c);
-                fieldList.add(i);
             }
         }
         if (names.isEmpty()) {
@@ -85,6 +84,16 @@ public final class TableScan {
                 throw new UserError("--discretize: no variable '" + c + "' among the selected columns ("
                         + String.join(", ", names) + ")");
             }
+        }
+        return names;
+    }
+
+    public static Result scan(Table table, TallyOptions o) {
+        List<String> header = table.columns();
+        List<String> names = selected(table, o);
+        List<Integer> fieldList = new ArrayList<>();
+        for (String name : names) {
+            fieldList.add(header.indexOf(name));
         }
         int n = names.size();
         int[] fields = fieldList.stream().mapToInt(Integer::intValue).toArray();
