@@ -61,18 +61,20 @@ public final class TallyJob {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
         Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter());
+        // every name the user gave is checked against the header before any pass over the data
+        List<String> names = TableScan.selected(table, o);
+        Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
         List<Variable> variables = enc.variables();
-        List<String> names = variables.stream().map(Variable::name).toList();
-        Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         int[] arity = enc.arities();
         LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
                 names.size(), describeArities(names, arity));
 
-        JavaRDD<Block> blocks = scan.rows().mapPartitions(enc::blocks).persist(StorageLevel.MEMORY_AND_DISK_SER());
+        JavaRDD<Block> blocks = scan.rawBlocks().map(enc::encode).persist(StorageLevel.MEMORY_AND_DISK_SER());
         try {
             long[] fp = blocks.map(Block::fingerprint).reduce((a, b) -> new long[] {a[0] + b[0], a[1] + b[1], a[2] ^ b[2]});
+            scan.rawBlocks().unpersist(false);
             long rows = fp[0];
             if (rows != scan.countedRows()) {
                 throw new IllegalStateException("encoded " + rows + " rows, expected " + scan.countedRows());
@@ -125,6 +127,7 @@ public final class TallyJob {
                     counted.batches(), plan.totalCells(), secs, fingerprint);
         } finally {
             blocks.unpersist(false);
+            scan.rawBlocks().unpersist(false);
         }
     }
 
