@@ -249,6 +249,8 @@ public final class CasePredictor {
         for (int h : hidden) {
             isHidden[h] = true;
         }
+        // Split every dependent factor into the sets that touch no hidden variable (summed once per
+        // child state, in base) and the sets that do (re-evaluated for every joint state).
         double constant = 0;
         List<Integer> dep = new ArrayList<>();
         for (int c = 0; c < n; c++) {
@@ -266,14 +268,48 @@ public final class CasePredictor {
             }
         }
         int[] dependent = dep.stream().mapToInt(Integer::intValue).toArray();
+        double[][] base = new double[dependent.length][];
+        int[][] varying = new int[dependent.length][];
+        for (int d = 0; d < dependent.length; d++) {
+            int c = dependent[d];
+            int[][] ps = parents[c];
+            int[] vary = new int[ps.length];
+            int nv = 0;
+            double[] b = new double[arity[c]];
+            int saved = x[c];
+            for (int t = 0; t < ps.length; t++) {
+                boolean touches = false;
+                for (int p : ps[t]) {
+                    touches |= isHidden[p];
+                }
+                if (touches) {
+                    vary[nv++] = t;
+                } else if (isHidden[c]) {
+                    for (int k = 0; k < arity[c]; k++) {
+                        x[c] = k;
+                        b[k] += term(c, t, x);
+                    }
+                } else {
+                    b[saved] += term(c, t, x);
+                }
+            }
+            x[c] = saved;
+            base[d] = b;
+            varying[d] = Arrays.copyOf(vary, nv);
+        }
         for (int h : hidden) {
             x[h] = 0;
         }
         double acc = Double.NEGATIVE_INFINITY;
         while (true) {
             double lp = 0;
-            for (int c : dependent) {
-                lp += logFactor(c, x);
+            for (int d = 0; d < dependent.length; d++) {
+                int c = dependent[d];
+                double f = base[d][x[c]];
+                for (int t : varying[d]) {
+                    f += term(c, t, x);
+                }
+                lp += Math.log(f);
             }
             acc = LogSum.add(acc, lp);
             int i = 0;
@@ -366,26 +402,28 @@ public final class CasePredictor {
      * search over the family's sorted observed configurations (0 when j was never observed).
      */
     private double logFactor(int c, int[] x) {
-        int r = arity[c];
-        int k = x[c];
-        int[][] ps = parents[c];
-        double[] w = weight[c];
         double f = 0;
-        for (int t = 0; t < ps.length; t++) {
-            long j = 0;
-            for (int p : ps[t]) {
-                j = j * arity[p] + x[p];
-            }
-            int row = Arrays.binarySearch(configs[c][t], j);
-            long nijk = 0;
-            long nij = 0;
-            if (row >= 0) {
-                nijk = counts[c][t][row * r + k];
-                nij = rowTotals[c][t][row];
-            }
-            f += w[t] * score.predictive(nijk, nij, r, q[c][t]);
+        for (int t = 0; t < parents[c].length; t++) {
+            f += term(c, t, x);
         }
         return Math.log(f);
+    }
+
+    /** w_c(U_t) · (N_ijk + α_ijk)/(N_ij + α_ij) for parent set t of child c, with j, k read from {@code x}. */
+    private double term(int c, int t, int[] x) {
+        int r = arity[c];
+        long j = 0;
+        for (int p : parents[c][t]) {
+            j = j * arity[p] + x[p];
+        }
+        int row = Arrays.binarySearch(configs[c][t], j);
+        long nijk = 0;
+        long nij = 0;
+        if (row >= 0) {
+            nijk = counts[c][t][row * r + x[c]];
+            nij = rowTotals[c][t][row];
+        }
+        return weight[c][t] * score.predictive(nijk, nij, r, q[c][t]);
     }
 
     private String names(int[] vars) {
