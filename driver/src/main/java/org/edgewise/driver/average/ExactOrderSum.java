@@ -55,10 +55,12 @@ public final class ExactOrderSum {
      * @param logOrderSum   log Σ_≺ exp(logEvidence(≺)) over the allowed orders
      * @param logOrderCount log N
      * @param edgePosterior {@code [from][to]} posterior of the edge from → to
+     * @param setPosterior  per child, the posterior of each allowed parent set (aligned with
+     *                      {@link LocalScores#masks(int)}): β_i(U) Γ_i(U) / Z
      * @param sampledOrders orders drawn from P(≺ | D) (empty when none were asked)
      */
     public record Result(double logEvidence, double logOrderSum, double logOrderCount, double[][] edgePosterior,
-                         int[][] sampledOrders) {
+                         double[][] setPosterior, int[][] sampledOrders) {
     }
 
     /** Memory and time needed for n variables, and the largest n whose memory fits {@code maxBytes}. */
@@ -195,6 +197,7 @@ public final class ExactOrderSum {
 
         // Edges: γ_i(S) = F(S) B(S ∪ {i}) into α_i's array, superset transform, then the sets.
         double[][] edges = new double[n][n];
+        double[][] sets = new double[n][];
         IntStream.range(0, n).parallel().forEach(i -> {
             double[] g = alpha[i];
             alpha[i] = null;
@@ -207,16 +210,16 @@ public final class ExactOrderSum {
             double[] w = ls.weights(i);
             int[] cand = ls.candidates(i);
             double[] col = new double[n];
+            double[] setPost = new double[masks.length];
             for (int s = 0; s < masks.length; s++) {
                 long m = masks[s];
-                if (m == 0) {
-                    continue;
-                }
                 double p = Math.exp(w[s] + g[compress(globalMask(m, cand), i)] - logZ);
+                setPost[s] = p;
                 for (; m != 0; m &= m - 1) {
                     col[cand[Long.numberOfTrailingZeros(m)]] += p;
                 }
             }
+            sets[i] = setPost;
             synchronized (edges) {
                 for (int j = 0; j < n; j++) {
                     edges[j][i] = Math.min(1.0, col[j]);
@@ -224,7 +227,7 @@ public final class ExactOrderSum {
             }
             tick.accept((long) (n - 1) * (half / 2));
         });
-        return new Result(logZ - oc.logOrderCount(), logZ, oc.logOrderCount(), edges, samples);
+        return new Result(logZ - oc.logOrderCount(), logZ, oc.logOrderCount(), edges, sets, samples);
     }
 
     /**
