@@ -48,6 +48,9 @@ public final class EdgesCommand implements Callable<Integer> {
     @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: over unknown orders")
     String method;
 
+    @Mixin
+    UnknownOrderOptions unknown = new UnknownOrderOptions();
+
     @Option(names = "--top-parents", paramLabel = "K", defaultValue = "5", description = "most probable parent sets listed per variable (default ${DEFAULT-VALUE})")
     int topParents;
 
@@ -101,8 +104,17 @@ public final class EdgesCommand implements Callable<Integer> {
                 }
                 return givenOrder(esses);
             case "exact":
-            case "mcmc":
-                throw new UserError("--method " + m + " is not available in this build");
+            case "mcmc": {
+                if (order != null) {
+                    throw new UserError("--order and --method " + m + " exclude each other: " + m + " averages over unknown orders");
+                }
+                List<org.edgewise.driver.average.ScoringOptions> opts = new ArrayList<>();
+                for (double e : esses) {
+                    opts.add(scoring.options(e));
+                }
+                return UnknownOrderEdges.compute(m, StoreReader.read(scoring.store), scoring.store, opts, unknown,
+                        topParents, spec.commandLine().getErr());
+            }
             default:
                 throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
         }
@@ -136,8 +148,13 @@ public final class EdgesCommand implements Callable<Integer> {
                 r.order() == null ? r.method() : "order " + String.join(" < ", r.order()),
                 s.score(), num(s.ess()), s.prior(), s.maxParents()));
         if (r.logEvidence() != null) {
-            sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",
-                    r.logEvidence(), r.evidenceConvention(), r.logEvidenceNormalized()));
+            if (r.logEvidenceNormalized() != null) {
+                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",
+                        r.logEvidence(), r.evidenceConvention(), r.logEvidenceNormalized()));
+            } else {
+                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s, uniform prior over the allowed orders)%n",
+                        r.logEvidence(), r.evidenceConvention()));
+            }
         }
         List<EdgeResult.Edge> sorted = new ArrayList<>(r.edges());
         sorted.sort(Comparator.comparingDouble(EdgeResult.Edge::posterior).reversed());
@@ -178,6 +195,7 @@ public final class EdgesCommand implements Callable<Integer> {
                 sb.append(String.format(Locale.ROOT, "  %-" + width + "s  %s%n", vp.variable(), String.join("   ", parts)));
             }
         }
+        sb.append(UnknownOrderEdges.summary(r));
         if (r.bestNetwork() != null) {
             sb.append(String.format(Locale.ROOT, "%nBest single network under the order (log score %.6f)%n", r.bestNetwork().logScore()));
             for (Map.Entry<String, List<String>> e : r.bestNetwork().parents().entrySet()) {

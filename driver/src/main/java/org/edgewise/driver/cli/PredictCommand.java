@@ -18,7 +18,9 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
+import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.store.Manifest;
@@ -47,8 +49,14 @@ public final class PredictCommand implements Callable<Integer> {
     @Mixin
     ScoringMixin scoring = new ScoringMixin();
 
-    @Option(names = "--order", required = true, paramLabel = "a,b,c,…", description = "variable order, first to last")
+    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last")
     String order;
+
+    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: averaged over unknown orders")
+    String method;
+
+    @Mixin
+    UnknownOrderOptions unknown = new UnknownOrderOptions();
 
     @Option(names = "--case", paramLabel = "a=x,b=y", description = "one case; variables left out are hidden")
     String caseText;
@@ -94,14 +102,37 @@ public final class PredictCommand implements Callable<Integer> {
         var options = scoring.options();
         ScoreStore store = StoreReader.read(scoring.store);
         Manifest m = store.manifest();
-        int[] ord = VariableOrder.parse(m, order);
+        String meth = method == null ? (order != null ? "order" : null) : method.trim().toLowerCase(Locale.ROOT);
+        if (meth == null) {
+            throw new UserError("give --order a,b,c,… (prediction given an order) or --method exact|mcmc (over unknown orders)");
+        }
+        if (!meth.equals("order") && !meth.equals("exact") && !meth.equals("mcmc")) {
+            throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
+        }
+        if (meth.equals("order") && order == null) {
+            throw new UserError("--method order needs --order a,b,c,…");
+        }
+        if (!meth.equals("order") && order != null) {
+            throw new UserError("--order and --method " + meth + " exclude each other: " + meth + " averages over unknown orders");
+        }
+        int[] ord = order == null ? null : VariableOrder.parse(m, order);
         int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
         int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
         CaseCsv table = casesFile == null ? null : CaseCsv.read(casesFile, m);
         LocalScores ls = LocalScores.build(store, options);
-        OrderPosterior op = OrderPosterior.of(ls, ord);
-        CasePredictor avg = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates);
-        CasePredictor best = CasePredictor.bestNetwork(op).withMaxHiddenStates(maxHiddenStates);
+        CaseProbability avg;
+        CasePredictor best;
+        if (ord != null) {
+            OrderPosterior op = OrderPosterior.of(ls, ord);
+            avg = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates);
+            best = CasePredictor.bestNetwork(op).withMaxHiddenStates(maxHiddenStates);
+        } else {
+            OrderMixture mix = UnknownOrderPredict.mixture(meth, ls, unknown, tailMass, maxHiddenStates,
+                    spec.commandLine().getErr());
+            avg = mix;
+            best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
+            averagedOver = meth + ": " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
+        }
         if (given != null) {
             checkEvidence(avg, given);
             checkEvidence(best, given);
@@ -112,17 +143,20 @@ public final class PredictCommand implements Callable<Integer> {
         return batch(table, avg, best, given);
     }
 
-    private void checkEvidence(CasePredictor p, int[] given) {
+    /** For unknown orders: what the prediction was averaged over; null given an order. */
+    private String averagedOver;
+
+    private void checkEvidence(CaseProbability p, int[] given) {
         if (p.logProbability(given) == Double.NEGATIVE_INFINITY) {
             throw new UserError("--given " + givenText + " has probability zero under this order and store; a conditional on it is undefined");
         }
     }
 
-    private static double lp(CasePredictor p, int[] target, int[] given) {
+    private static double lp(CaseProbability p, int[] target, int[] given) {
         return given == null ? p.logProbability(target) : p.logConditional(target, given);
     }
 
-    private int one(Manifest m, int[] ord, LocalScores ls, CasePredictor avg, CasePredictor best,
+    private int one(Manifest m, int[] ord, LocalScores ls, CaseProbability avg, CaseProbability best,
                     int[] target, int[] given, String fmt) {
         double a = lp(avg, target, given);
         double b = lp(best, target, given);
@@ -140,15 +174,20 @@ public final class PredictCommand implements Callable<Integer> {
         }
         double states = avg.hiddenJointStates(joint);
         Prediction p = new Prediction(named(m, target), given == null ? null : named(m, given), Math.exp(a), a,
-                Math.exp(b), b, hidden, states, VariableOrder.names(m, ord), ls.familyScore().kind().label(),
+                Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
                 ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(), avg.skippedMass(), NOTE);
         PrintWriter w = spec.commandLine().getOut();
         if (fmt.equals("json")) {
             w.println(ResultJson.toJson(p));
         } else {
             String what = "P(" + CaseParser.format(m, target) + (given == null ? "" : " | " + CaseParser.format(m, given)) + ")";
-            w.printf(Locale.ROOT, "%s averaged over networks consistent with the order: %.6g (log %.6f)%n", what, p.probability(), a);
-            w.printf(Locale.ROOT, "%s under the single best network:                 %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            if (ord != null) {
+                w.printf(Locale.ROOT, "%s averaged over networks consistent with the order: %.6g (log %.6f)%n", what, p.probability(), a);
+                w.printf(Locale.ROOT, "%s under the single best network:                 %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            } else {
+                w.printf(Locale.ROOT, "%s averaged over orders (%s) and their networks: %.6g (log %.6f)%n", what, averagedOver, p.probability(), a);
+                w.printf(Locale.ROOT, "%s under the best network of the highest-evidence order among them: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            }
             if (!hidden.isEmpty()) {
                 w.printf(Locale.ROOT, "hidden variables summed out: %s (%.0f joint states)%n", String.join(", ", hidden), states);
             }
@@ -168,7 +207,7 @@ public final class PredictCommand implements Callable<Integer> {
         return out;
     }
 
-    private int batch(CaseCsv table, CasePredictor avg, CasePredictor best, int[] given) {
+    private int batch(CaseCsv table, CaseProbability avg, CaseProbability best, int[] given) {
         int rows = table.cases().length;
         double[] a = new double[rows];
         double[] b = new double[rows];

@@ -37,7 +37,7 @@ import org.edgewise.driver.store.ScoreStore;
  *
  * <p>Immutable and thread-safe.
  */
-public final class CasePredictor {
+public final class CasePredictor implements CaseProbability {
     /** Default limit on the joint states of hidden variables enumerated for one case. */
     public static final long DEFAULT_MAX_HIDDEN_STATES = 1_000_000L;
 

@@ -119,7 +119,8 @@ class EdgesCommandTest {
                 "edges", "--store", s, "--order", ORDER, "--require", "v0->v2,v1->v2,v4->v2");
         refused("edges: give --order a,b,c,… (averaging given an order) or --method exact|mcmc (over unknown orders)",
                 "edges", "--store", s);
-        refused("edges: --method exact is not available in this build", "edges", "--store", s, "--method", "exact");
+        refused("edges: --order and --method exact exclude each other: exact averages over unknown orders",
+                "edges", "--store", s, "--method", "exact", "--order", ORDER);
         refused("edges: --method must be order, exact or mcmc, got 'best'", "edges", "--store", s, "--method", "best");
         refused("edges: --format must be table or json, got 'xml'", "edges", "--store", s, "--order", ORDER, "--format", "xml");
         // A damaged store: one byte of the counts changed.
