@@ -175,10 +175,16 @@ public final class Charts {
                 double y1 = y[a] + boxH / 2;
                 double x2 = x[b];
                 double y2 = y[b] - boxH / 2;
-                boolean back = lay.layer()[b] <= lay.layer()[a];
+                int la = lay.layer()[a];
+                int lb = lay.layer()[b];
                 double cx;
                 double cy;
-                if (back) { // against the layering: arc out to the side
+                if (la == lb) { // same layer (an edge kept out of the layering): arc below the row
+                    y1 = y[a] + boxH / 2;
+                    y2 = y[b] + boxH / 2;
+                    cx = (x1 + x2) / 2;
+                    cy = y1 + 48;
+                } else if (lb < la) { // against the layering (a cycle): arc out to the right
                     y1 = y[a];
                     y2 = y[b];
                     x1 = x[a] + boxW / 2;
@@ -186,8 +192,8 @@ public final class Charts {
                     cx = Math.max(x1, x2) + 60;
                     cy = (y1 + y2) / 2;
                 } else {
-                    cx = (x1 + x2) / 2 + (lay.layer()[b] - lay.layer()[a] > 1 ? 40 : 0);
                     cy = (y1 + y2) / 2;
+                    cx = route(x1, y1, x2, y2, x, y, lay.layer(), la, lb, boxW, boxH);
                 }
                 String title = esc(m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(p, 3)
                         + (missed ? " (true edge, below the threshold)" : ""));
@@ -215,6 +221,48 @@ public final class Charts {
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
         }
         return s.append("</svg>").toString();
+    }
+
+    /**
+     * The control point's x for a quadratic edge from layer la down to layer lb that avoids the
+     * boxes of the layers in between: with cy the midpoint, y is linear in the curve parameter,
+     * so the curve crosses layer l's row at t = (y_l − y1)/(y2 − y1); offsets 0, ±60, ±120, … are
+     * tried and the first with no crossing inside a box (8 px margin) wins, else the one with fewest.
+     */
+    private static double route(double x1, double y1, double x2, double y2, double[] x, double[] y, int[] layer,
+                                int la, int lb, double boxW, double boxH) {
+        double mid = (x1 + x2) / 2;
+        if (lb - la <= 1) {
+            return mid;
+        }
+        double best = mid;
+        int bestHits = Integer.MAX_VALUE;
+        for (int k = 0; k <= 16; k++) {
+            double off = (k + 1) / 2 * 60.0 * (k % 2 == 1 ? 1 : -1);
+            double cx = mid + off;
+            int hits = 0;
+            for (int v = 0; v < x.length; v++) {
+                if (layer[v] <= la || layer[v] >= lb) {
+                    continue;
+                }
+                for (double dy : new double[] {-boxH / 2, 0, boxH / 2}) {
+                    double t = (y[v] + dy - y1) / (y2 - y1);
+                    double xt = (1 - t) * (1 - t) * x1 + 2 * t * (1 - t) * cx + t * t * x2;
+                    if (Math.abs(xt - x[v]) < boxW / 2 + 8) {
+                        hits++;
+                        break;
+                    }
+                }
+            }
+            if (hits < bestHits) {
+                best = cx;
+                bestHits = hits;
+                if (hits == 0) {
+                    break;
+                }
+            }
+        }
+        return best;
     }
 
     /** Trace plot: log evidence per chain against the trace sample index. */

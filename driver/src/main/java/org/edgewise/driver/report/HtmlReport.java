@@ -23,6 +23,8 @@ public final class HtmlReport {
     public static final double RHAT_LIMIT = 1.01;
     /** An edge whose posterior moves more than this across ESS values is listed as sensitive. */
     public static final double SENSITIVITY_CHANGE = 0.1;
+    /** Parent sets shown per variable. */
+    public static final int TOP_PARENT_SETS = 3;
 
     private static final String CSS = """
             body{font-family:system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;margin:24px auto;max-width:1150px;color:#1f2d3d;line-height:1.45;padding:0 16px}
@@ -231,7 +233,7 @@ public final class HtmlReport {
                 .append(r.bestNetwork() != null ? "<th>in the best network</th>" : "").append("</tr>\n");
         for (EdgeResult.VariableParents vp : r.parentSets()) {
             List<EdgeResult.ParentSet> top = vp.top() == null ? List.of() : vp.top();
-            int k = Math.min(top.size(), 5);
+            int k = Math.min(top.size(), TOP_PARENT_SETS);
             List<String> best = r.bestNetwork() != null && r.bestNetwork().parents() != null
                     ? r.bestNetwork().parents().get(vp.variable()) : null;
             for (int i = 0; i < k; i++) {
