@@ -36,6 +36,8 @@ class NetworkReaderTest {
         assertArrayEquals(new int[] {n.indexOf("door_openings"), n.indexOf("setpoint_drift")}, n.parents()[exc]);
         // mixed radix, first parent most significant: (door_openings=many, setpoint_drift=small) is row 1*3+1 = 4
         assertEquals(0.43, n.probability(exc, 4, 1), 0);
+        // the file lists parents before children (scripts/demo uses the CSV header as an order)
+        assertArrayEquals(java.util.stream.IntStream.range(0, 13).toArray(), n.topoOrder());
         // topological order: every parent before its child
         int[] pos = new int[n.size()];
         for (int i = 0; i < n.size(); i++) {
@@ -46,6 +48,17 @@ class NetworkReaderTest {
                 assertEquals(true, pos[p] < pos[c], n.names().get(p) + " before " + n.names().get(c));
             }
         }
+    }
+
+    /** The example in docs/report.md parses and means what the text says about its rows. */
+    @Test
+    void documentedExampleParses() throws Exception {
+        String doc = Files.readString(Path.of("..", "docs", "report.md"));
+        int start = doc.indexOf("```json\n") + 8;
+        Network n = NetworkReader.parse("docs/report.md", doc.substring(start, doc.indexOf("```", start)));
+        int wet = n.indexOf("wet");
+        assertEquals(0.9, n.probability(wet, 1, 1), 0); // rain = no, sprinkler = on
+        assertEquals(0.8, n.probability(wet, 2, 1), 0); // rain = yes, sprinkler = off
     }
 
     @Test
