@@ -59,7 +59,13 @@ public final class HtmlReport {
         boolean[][] g = m.consensus(threshold);
         boolean[][] t = truth == null ? null : EdgeRecovery.truthMatrix(m, truth, truthName);
         EdgeRecovery rec = truth == null ? null : EdgeRecovery.of(m, truth, truthName, threshold);
-        ConsensusLayout lay = ConsensusLayout.of(m, g, "order".equals(r.method()) ? r.order() : null);
+        boolean[][] drawn = new boolean[m.size()][m.size()];
+        for (int a = 0; a < m.size(); a++) {
+            for (int b = 0; b < m.size(); b++) {
+                drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[b][a];
+            }
+        }
+        ConsensusLayout lay = ConsensusLayout.of(m, g, drawn, "order".equals(r.method()) ? r.order() : null);
         StringBuilder h = new StringBuilder(64 * 1024);
         h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
                 .append("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n")
