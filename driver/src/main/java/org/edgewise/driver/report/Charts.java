@@ -113,7 +113,7 @@ public final class Charts {
             s.append("<text x=\"").append(c(lx + 23)).append("\" y=\"").append(c(y + 4)).append("\">")
                     .append(Html.f(i / 4.0, 2)).append("</text>\n");
         }
-        s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 8)).append("\">posterior</text>\n");
+        s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 16)).append("\">posterior</text>\n");
         s.append("<text x=\"").append(c(left)).append("\" y=\"").append(c(top + n * cell + 24))
                 .append("\" fill=\"#444444\">row = from (parent), column = to (child)")
                 .append(truth != null ? "; green outline = edge of the known network" : "").append("</text>\n");

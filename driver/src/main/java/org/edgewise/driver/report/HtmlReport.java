@@ -89,7 +89,7 @@ public final class HtmlReport {
         if (t != null) {
             h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(Charts.TRUE_COLOUR)
                     .append("\"></i>in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.REVERSED_COLOUR)
-                    .append("\"></i>reversed</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
+                    .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
                     .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.MISSED_COLOUR)
                     .append("\"></i>known edge below the threshold (dashed)</span></p>\n");
         }
