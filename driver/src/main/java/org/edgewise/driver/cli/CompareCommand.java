@@ -75,6 +75,7 @@ final class CompareCommand implements Callable<Integer> {
         sb.append(String.format(Locale.ROOT, "%-10s %9s %9s %8s %8s%n", "", "AUROC", "avg prec", "pos", "neg"));
         row(sb, "directed", r.directed());
         row(sb, "skeleton", r.skeleton());
+        sb.append("(skeleton: unordered pairs scored ").append(r.skeletonScore()).append(")\n");
         EdgeRecovery.Consensus c = r.consensus();
         sb.append(String.format(Locale.ROOT, "%nconsensus edges %d, correctly directed %d%n", c.edges(), c.correct()));
         sb.append(String.format(Locale.ROOT, "precision %s  recall %s  (skeleton: precision %s  recall %s)%n",

@@ -3,6 +3,8 @@ package org.edgewise.driver.cli;
 import java.io.BufferedOutputStream;
 import java.io.IOException;
 import java.io.OutputStream;
+import java.io.PrintWriter;
+import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
@@ -54,9 +56,21 @@ final class SimulateCommand implements Callable<Integer> {
         Network net = NetworkReader.read(network);
         ForwardSampler sampler = new ForwardSampler(net);
         if (out == null) {
-            OutputStream o = new BufferedOutputStream(System.out, 1 << 16);
+            PrintWriter w = spec.commandLine().getOut();
+            // the sampler writes whole labels per chunk, so decoding chunk by chunk never splits a character
+            OutputStream o = new OutputStream() {
+                @Override
+                public void write(int b) {
+                    w.write(b);
+                }
+
+                @Override
+                public void write(byte[] b, int off, int len) {
+                    w.write(new String(b, off, len, StandardCharsets.UTF_8));
+                }
+            };
             sampler.writeCsv(rows, seed, o, n -> { });
-            o.flush();
+            w.flush();
             return 0;
         }
         Path abs = out.toAbsolutePath();

@@ -284,12 +284,15 @@ public final class NetworkReader {
             }
             v = next;
         }
-        List<Integer> list = new ArrayList<>(path).subList(at.get(v), path.size());
-        // we walked child -> parent; print in edge direction parent -> child
+        List<Integer> walked = new ArrayList<>(path).subList(at.get(v), path.size());
+        // we walked child -> parent; reverse to edge direction and start at the first-listed variable
+        List<Integer> cyc = new ArrayList<>(walked);
+        java.util.Collections.reverse(cyc);
+        int start = cyc.indexOf(java.util.Collections.min(cyc));
         StringBuilder sb = new StringBuilder();
-        for (int i = list.size() - 1; i >= 0; i--) {
-            sb.append(names.get(list.get(i))).append(" -> ");
+        for (int i = 0; i <= cyc.size(); i++) {
+            sb.append(i == 0 ? "" : " -> ").append(names.get(cyc.get((start + i) % cyc.size())));
         }
-        return sb.append(names.get(list.get(list.size() - 1))).toString();
+        return sb.toString();
     }
 }

@@ -113,7 +113,7 @@ public final class Charts {
             s.append("<text x=\"").append(c(lx + 23)).append("\" y=\"").append(c(y + 4)).append("\">")
                     .append(Html.f(i / 4.0, 2)).append("</text>\n");
         }
-        s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 8)).append("\">posterior</text>\n");
+        s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 16)).append("\">posterior</text>\n");
         s.append("<text x=\"").append(c(left)).append("\" y=\"").append(c(top + n * cell + 24))
                 .append("\" fill=\"#444444\">row = from (parent), column = to (child)")
                 .append(truth != null ? "; green outline = edge of the known network" : "").append("</text>\n");
@@ -122,28 +122,15 @@ public final class Charts {
 
     /**
      * The consensus graph: edges with posterior above the threshold, stroke width 1 + 5p and a
-     * label p, layered by {@link ConsensusLayout}. With {@code truth}: correct edges green,
+     * label p, laid out by {@link ConsensusLayout}. With {@code truth}: correct edges green,
      * reversed orange, extra red, true edges the consensus lacks dashed grey.
      */
     public static String graph(EdgeMatrix m, boolean[][] g, ConsensusLayout lay, boolean[][] truth) {
         int n = m.size();
-        double slotW = 170;
-        double layerH = 110;
-        double boxW = 150;
-        double boxH = 34;
-        double w = Math.max(lay.widest() * slotW + 40, 420);
-        double h = lay.layers() * layerH + 40;
-        int[] count = new int[lay.layers()];
-        for (int v = 0; v < n; v++) {
-            count[lay.layer()[v]]++;
-        }
-        double[] x = new double[n];
-        double[] y = new double[n];
-        for (int v = 0; v < n; v++) {
-            int l = lay.layer()[v];
-            x[v] = w / 2 + (lay.slot()[v] - (count[l] - 1) / 2.0) * slotW;
-            y[v] = 20 + l * layerH + boxH / 2 + 10;
-        }
+        double boxW = ConsensusLayout.BOX_W;
+        double boxH = ConsensusLayout.BOX_H;
+        double w = lay.width();
+        double h = lay.height();
         StringBuilder s = new StringBuilder();
         s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"graph\" role=\"img\" width=\"").append(c(w))
                 .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
@@ -155,9 +142,10 @@ public final class Charts {
                     .append("<path d=\"M0,0 L10,5 L0,10 z\" fill=\"").append(col).append("\"/></marker>");
         }
         s.append("</defs>\n");
+        int[] order = lay.order();
         int[] pos = new int[n];
         for (int i = 0; i < n; i++) {
-            pos[lay.order()[i]] = i;
+            pos[order[i]] = i;
         }
         StringBuilder labels = new StringBuilder();
         for (int a = 0; a < n; a++) {
@@ -171,34 +159,46 @@ public final class Charts {
                         : truth[a][b] ? TRUE_COLOUR
                         : truth[b][a] ? REVERSED_COLOUR : EXTRA_COLOUR;
                 double p = m.p()[a][b];
-                double x1 = x[a];
-                double y1 = y[a] + boxH / 2;
-                double x2 = x[b];
-                double y2 = y[b] - boxH / 2;
-                boolean back = lay.layer()[b] <= lay.layer()[a];
-                double cx;
-                double cy;
-                if (back) { // against the layering: arc out to the side
-                    y1 = y[a];
-                    y2 = y[b];
-                    x1 = x[a] + boxW / 2;
-                    x2 = x[b] + boxW / 2 + 1;
-                    cx = Math.max(x1, x2) + 60;
-                    cy = (y1 + y2) / 2;
-                } else {
-                    cx = (x1 + x2) / 2 + (lay.layer()[b] - lay.layer()[a] > 1 ? 40 : 0);
-                    cy = (y1 + y2) / 2;
+                StringBuilder d = new StringBuilder();
+                double lx;
+                double ly;
+                double[][] pts = lay.route(a, b);
+                if (pts != null) { // downward: vertical S-curves through the virtual slots
+                    d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
+                    for (int i = 0; i + 1 < pts.length; i++) {
+                        double k = (pts[i + 1][1] - pts[i][1]) / 2;
+                        d.append(" C").append(c(pts[i][0])).append(',').append(c(pts[i][1] + k)).append(' ')
+                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1] - k)).append(' ')
+                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1]));
+                    }
+                    int mid = (pts.length - 1) / 2;
+                    lx = pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2;
+                    ly = pts.length % 2 == 1 ? pts[mid][1] : (pts[mid][1] + pts[mid + 1][1]) / 2;
+                } else if (lay.layer(a) == lay.layer(b)) { // same layer (kept out of the layering): arc below
+                    double x1 = lay.x(a);
+                    double x2 = lay.x(b);
+                    double y1 = lay.y(a) + boxH / 2;
+                    d.append('M').append(c(x1)).append(',').append(c(y1)).append(" Q").append(c((x1 + x2) / 2)).append(',')
+                            .append(c(y1 + 48)).append(' ').append(c(x2)).append(',').append(c(y1));
+                    lx = (x1 + x2) / 2;
+                    ly = y1 + 24;
+                } else { // against the layering (a cycle): arc out to the right
+                    double x1 = lay.x(a) + boxW / 2;
+                    double x2 = lay.x(b) + boxW / 2 + 1;
+                    double cx = Math.max(x1, x2) + 60;
+                    double cy = (lay.y(a) + lay.y(b)) / 2;
+                    d.append('M').append(c(x1)).append(',').append(c(lay.y(a))).append(" Q").append(c(cx)).append(',')
+                            .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(lay.y(b)));
+                    lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
+                    ly = cy;
                 }
                 String title = esc(m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(p, 3)
                         + (missed ? " (true edge, below the threshold)" : ""));
-                s.append("<path d=\"M").append(c(x1)).append(',').append(c(y1)).append(" Q").append(c(cx)).append(',')
-                        .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(y2)).append("\" fill=\"none\" stroke=\"")
+                s.append("<path d=\"").append(d).append("\" fill=\"none\" stroke=\"")
                         .append(col).append("\" stroke-width=\"").append(c(missed ? 1.2 : 1 + 5 * p)).append('"')
                         .append(missed ? " stroke-dasharray=\"5,4\"" : "").append(" marker-end=\"url(#arrow-")
                         .append(col.substring(1)).append(")\"><title>").append(title).append("</title></path>\n");
-                double lxp = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
-                double lyp = 0.25 * y1 + 0.5 * cy + 0.25 * y2;
-                labels.append("<text x=\"").append(c(lxp)).append("\" y=\"").append(c(lyp + 4))
+                labels.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(ly + 4))
                         .append("\" text-anchor=\"middle\" font-size=\"11\" fill=\"").append(col)
                         .append("\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">")
                         .append(esc(Html.prob(p))).append("</text>\n");
@@ -207,11 +207,13 @@ public final class Charts {
         s.append(labels);
         for (int v = 0; v < n; v++) {
             String name = m.variables().get(v);
+            double x = lay.x(v);
+            double y = lay.y(v);
             s.append("<g><title>").append(esc(name)).append(" (position ").append(pos[v] + 1).append(" in the order)</title>")
-                    .append("<rect x=\"").append(c(x[v] - boxW / 2)).append("\" y=\"").append(c(y[v] - boxH / 2))
+                    .append("<rect x=\"").append(c(x - boxW / 2)).append("\" y=\"").append(c(y - boxH / 2))
                     .append("\" width=\"").append(c(boxW)).append("\" height=\"").append(c(boxH))
                     .append("\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
-                    .append("<text x=\"").append(c(x[v])).append("\" y=\"").append(c(y[v] + 4))
+                    .append("<text x=\"").append(c(x)).append("\" y=\"").append(c(y + 4))
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
         }
         return s.append("</svg>").toString();

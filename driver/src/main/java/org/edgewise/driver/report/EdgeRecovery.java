@@ -25,7 +25,9 @@ import org.edgewise.driver.network.Network;
  * variables the result lacks are listed in {@code truthOnly}.
  */
 public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranking directed, Ranking skeleton,
-                           Consensus consensus, List<String> truthOnly) {
+                           String skeletonScore, Consensus consensus, List<String> truthOnly) {
+    /** How a pair is scored for the skeleton figures (stated in the JSON output). */
+    public static final String SKELETON_SCORE = "min(1, P(a->b) + P(b->a))";
 
     /** AUROC and AP over {@code positives + negatives} items; null figures when undefined. */
     public record Ranking(long positives, long negatives, Double auroc, Double averagePrecision) {
@@ -89,7 +91,7 @@ public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranki
             }
         }
         return new EdgeRecovery(threshold, n, trueEdges, ranking(dScore, dPos), ranking(sScore, sPos),
-                consensus(m, t, threshold), truthOnly);
+                SKELETON_SCORE, consensus(m, t, threshold), truthOnly);
     }
 
     private static Ranking ranking(double[] s, boolean[] pos) {

@@ -23,6 +23,8 @@ public final class HtmlReport {
     public static final double RHAT_LIMIT = 1.01;
     /** An edge whose posterior moves more than this across ESS values is listed as sensitive. */
     public static final double SENSITIVITY_CHANGE = 0.1;
+    /** Parent sets shown per variable. */
+    public static final int TOP_PARENT_SETS = 3;
 
     private static final String CSS = """
             body{font-family:system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;margin:24px auto;max-width:1150px;color:#1f2d3d;line-height:1.45;padding:0 16px}
@@ -57,7 +59,13 @@ public final class HtmlReport {
         boolean[][] g = m.consensus(threshold);
         boolean[][] t = truth == null ? null : EdgeRecovery.truthMatrix(m, truth, truthName);
         EdgeRecovery rec = truth == null ? null : EdgeRecovery.of(m, truth, truthName, threshold);
-        ConsensusLayout lay = ConsensusLayout.of(m, g, "order".equals(r.method()) ? r.order() : null);
+        boolean[][] drawn = new boolean[m.size()][m.size()];
+        for (int a = 0; a < m.size(); a++) {
+            for (int b = 0; b < m.size(); b++) {
+                drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[b][a];
+            }
+        }
+        ConsensusLayout lay = ConsensusLayout.of(m, g, drawn, "order".equals(r.method()) ? r.order() : null);
         StringBuilder h = new StringBuilder(64 * 1024);
         h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
                 .append("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n")
@@ -81,7 +89,7 @@ public final class HtmlReport {
         if (t != null) {
             h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(Charts.TRUE_COLOUR)
                     .append("\"></i>in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.REVERSED_COLOUR)
-                    .append("\"></i>reversed</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
+                    .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
                     .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.MISSED_COLOUR)
                     .append("\"></i>known edge below the threshold (dashed)</span></p>\n");
         }
@@ -231,7 +239,7 @@ public final class HtmlReport {
                 .append(r.bestNetwork() != null ? "<th>in the best network</th>" : "").append("</tr>\n");
         for (EdgeResult.VariableParents vp : r.parentSets()) {
             List<EdgeResult.ParentSet> top = vp.top() == null ? List.of() : vp.top();
-            int k = Math.min(top.size(), 5);
+            int k = Math.min(top.size(), TOP_PARENT_SETS);
             List<String> best = r.bestNetwork() != null && r.bestNetwork().parents() != null
                     ? r.bestNetwork().parents().get(vp.variable()) : null;
             for (int i = 0; i < k; i++) {
