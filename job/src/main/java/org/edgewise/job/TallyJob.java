@@ -1,0 +1,214 @@
+package org.edgewise.job;
+
+import java.nio.file.Files;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Collections;
+import java.util.HexFormat;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.apache.spark.api.java.JavaRDD;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.storage.StorageLevel;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.cli.EdgewiseCli;
+import org.edgewise.driver.score.FamilyScore;
+import org.edgewise.driver.store.FamilyCounts;
+import org.edgewise.driver.store.InputInfo;
+import org.edgewise.driver.store.Manifest;
+import org.edgewise.driver.store.StoreFormat;
+import org.edgewise.driver.store.StoreWriter;
+import org.edgewise.driver.store.Variable;
+import org.edgewise.job.count.CoverBatch;
+import org.edgewise.job.count.Marginal;
+import org.edgewise.job.input.Block;
+import org.edgewise.job.input.Encoding;
+import org.edgewise.job.input.Table;
+import org.edgewise.job.input.TableScan;
+import org.edgewise.job.plan.Candidates;
+import org.edgewise.job.plan.Constraints;
+import org.edgewise.job.plan.FamilyPlan;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The tally: read and check the input, encode it once into cached column-major blocks, plan the
+ * families and their shared variable sets, count each batch of sets in one pass, marginalise and
+ * score every family on the Spark driver, and write the store atomically. Nothing is written
+ * unless everything succeeded.
+ */
+public final class TallyJob {
+    private static final Logger LOG = LoggerFactory.getLogger(TallyJob.class);
+
+    private TallyJob() {
+    }
+
+    /** What a finished tally did. */
+    public record Summary(long rows, long droppedRows, int variables, int families, int coverSets,
+                          int batches, long cells, double seconds, String fingerprint) {
+    }
+
+    /** Families counted and scored, in plan order. */
+    record Counted(FamilyCounts[] families, double[] scores, int batches) {
+    }
+
+    public static Summary run(SparkSession spark, TallyOptions o) {
+        long start = System.nanoTime();
+        if (Files.exists(o.out()) && !o.overwrite()) {
+            throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
+        }
+        Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter());
+        // every name the user gave is checked against the header before any pass over the data
+        List<String> names = TableScan.selected(table, o);
+        Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
+        TableScan.Result scan = TableScan.scan(table, o);
+        Encoding enc = scan.encoding();
+        List<Variable> variables = enc.variables();
+        int[] arity = enc.arities();
+        LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
+                names.size(), describeArities(names, arity));
+
+        JavaRDD<Block> blocks = scan.rows().mapPartitions(enc::blocks).persist(StorageLevel.MEMORY_AND_DISK_SER());
+        try {
+            long[] fp = blocks.map(Block::fingerprint).reduce((a, b) -> new long[] {a[0] + b[0], a[1] + b[1], a[2] ^ b[2]});
+            long rows = fp[0];
+            if (rows != scan.countedRows()) {
+                throw new IllegalStateException("encoded " + rows + " rows, expected " + scan.countedRows());
+            }
+            String fingerprint = HexFormat.of().toHexDigits(fp[1]) + HexFormat.of().toHexDigits(fp[2]);
+            FamilyScore score = FamilyScore.of(o.score(), o.ess());
+
+            int[][] cand = cons.candidates();
+            int[][] req = cons.required();
+            Map<String, List<String>> candidateMap = null;
+            if (o.candidates() != null) {
+                if (Candidates.needed(cand, o.candidates())) {
+                    FamilyPlan pairs = FamilyPlan.pairs(arity, cand);
+                    LOG.info("candidates: pairwise pass over {} variable pairs for --candidates {}", pairs.coverCount(),
+                            o.candidates());
+                    Counted pc = count(blocks, pairs, score, o.memoryBudget(), names, rows, "pairs");
+                    cand = Candidates.prune(cand, req, gains(pairs, pc, names.size()), o.candidates());
+                }
+                candidateMap = new LinkedHashMap<>();
+                for (int i = 0; i < names.size(); i++) {
+                    List<String> cs = new ArrayList<>();
+                    for (int c : cand[i]) {
+                        cs.add(names.get(c));
+                    }
+                    candidateMap.put(names.get(i), cs);
+                }
+            }
+            FamilyPlan plan = FamilyPlan.families(arity, cand, req, o.maxParents());
+            double bound = plan.storedBytesBound(rows);
+            long heap = Runtime.getRuntime().maxMemory();
+            if (bound > heap / 2.0) {
+                throw new UserError("cannot fit the tally: " + plan.familyCount() + " families could hold up to "
+                        + FamilyPlan.bytes(bound) + " of counts, more than half the driver's memory ("
+                        + FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K"
+                        + " (or give the driver more memory)");
+            }
+            Counted counted = count(blocks, plan, score, o.memoryBudget(), names, rows, "families");
+            List<FamilyCounts> families = Arrays.asList(counted.families());
+            Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", EdgewiseCli.programVersion(),
+                    Instant.now().toString(),
+                    new InputInfo(o.inputs(), table.isCsv() ? "csv" : "parquet", rows, scan.stats().dropped(),
+                            o.missing().label(), fingerprint),
+                    variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
+                    o.score().label(), o.ess(), null);
+            StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite());
+            double secs = (System.nanoTime() - start) / 1e9;
+            LOG.info("wrote {}: {} families from {} rows in {} s", o.out(), plan.familyCount(), rows,
+                    String.format(Locale.ROOT, "%.1f", secs));
+            return new Summary(rows, scan.stats().dropped(), names.size(), plan.familyCount(), plan.coverCount(),
+                    counted.batches(), plan.totalCells(), secs, fingerprint);
+        } finally {
+            blocks.unpersist(false);
+        }
+    }
+
+    /** Counts every family of a plan, batch by batch (one pass over the blocks per batch), and scores it. */
+    static Counted count(JavaRDD<Block> blocks, FamilyPlan plan, FamilyScore score, long budget,
+                         List<String> names, long rows, String what) {
+        List<int[]> batches = plan.batches(budget, names);
+        LOG.info("plan ({}): {} families from {} variable sets, {} count cells, {} {} (per-task budget {})", what,
+                plan.familyCount(), plan.coverCount(), String.format(Locale.ROOT, "%,d", plan.totalCells()),
+                batches.size(), batches.size() == 1 ? "batch" : "batches", FamilyPlan.bytes(budget));
+        int[] arity = plan.arity();
+        // families of each cover set
+        List<List<Integer>> byCover = new ArrayList<>();
+        for (int s = 0; s < plan.coverCount(); s++) {
+            byCover.add(new ArrayList<>());
+        }
+        for (int f = 0; f < plan.familyCount(); f++) {
+            byCover.get(plan.coverOf(f)).add(f);
+        }
+        FamilyCounts[] out = new FamilyCounts[plan.familyCount()];
+        double[] scores = new double[plan.familyCount()];
+        int done = 0;
+        for (int b = 0; b < batches.size(); b++) {
+            long t0 = System.nanoTime();
+            int[] ids = batches.get(b);
+            int[][] sets = new int[ids.length][];
+            for (int k = 0; k < ids.length; k++) {
+                sets[k] = plan.cover(ids[k]);
+            }
+            CoverBatch cb = new CoverBatch(sets, arity);
+            long[] dense = blocks.mapPartitions(it -> Collections.singletonList(cb.countPartition(it)).iterator())
+                    .treeReduce(CoverBatch::sum, 2);
+            for (int k = 0; k < ids.length; k++) {
+                for (int f : byCover.get(ids[k])) {
+                    FamilyCounts fc = Marginal.family(dense, cb.offset(k), sets[k], arity, plan.child(f), plan.parents(f));
+                    if (fc.total() != rows) {
+                        throw new IllegalStateException("family " + f + " sums to " + fc.total() + ", not " + rows);
+                    }
+                    double q = 1;
+                    for (int p : fc.parents()) {
+                        q *= arity[p];
+                    }
+                    out[f] = fc;
+                    scores[f] = score.logScore(fc.counts(), arity[fc.child()], q);
+                    done++;
+                }
+            }
+            double secs = (System.nanoTime() - t0) / 1e9;
+            LOG.info("batch {}/{} ({}): {}/{} families done, {} rows in {} s ({} rows/s)", b + 1, batches.size(), what,
+                    done, plan.familyCount(), rows, String.format(Locale.ROOT, "%.1f", secs),
+                    String.format(Locale.ROOT, "%,.0f", rows / Math.max(secs, 1e-9)));
+        }
+        return new Counted(out, scores, batches.size());
+    }
+
+    /** gain[i][j] = s(i,{j}) − s(i,∅) from the pairwise pass. */
+    static double[][] gains(FamilyPlan pairs, Counted c, int n) {
+        double[] empty = new double[n];
+        for (int f = 0; f < pairs.familyCount(); f++) {
+            if (pairs.parents(f).length == 0) {
+                empty[pairs.child(f)] = c.scores()[f];
+            }
+        }
+        double[][] g = new double[n][n];
+        for (int f = 0; f < pairs.familyCount(); f++) {
+            if (pairs.parents(f).length == 1) {
+                g[pairs.child(f)][pairs.parents(f)[0]] = c.scores()[f] - empty[pairs.child(f)];
+            }
+        }
+        return g;
+    }
+
+    private static String describeArities(List<String> names, int[] arity) {
+        StringBuilder sb = new StringBuilder();
+        for (int v = 0; v < names.size() && v < 12; v++) {
+            if (v > 0) {
+                sb.append(", ");
+            }
+            sb.append(names.get(v)).append(':').append(arity[v]);
+        }
+        if (names.size() > 12) {
+            sb.append(", …");
+        }
+        return sb.toString();
+    }
+}

@@ -1,0 +1,302 @@
+package org.edgewise.job;
+
+import java.io.File;
+import java.io.PrintWriter;
+import java.net.URISyntaxException;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.apache.spark.sql.SparkSession;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.cli.EdgewiseCli;
+import org.edgewise.driver.score.ScoreKind;
+import org.edgewise.driver.store.EdgeRule;
+import org.edgewise.job.TallyOptions.MissingPolicy;
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+
+/**
+ * {@code edgewise tally}: the Spark job's command line. Thin: parse, check, start Spark (embedded
+ * {@code local[*]} unless {@code --master} says otherwise), run {@link TallyJob}, print a summary.
+ * User mistakes are one line on stderr and exit status 2 (the driver's error handling).
+ */
+@Command(name = "tally", mixinStandardHelpOptions = true, versionProvider = EdgewiseCli.Version.class,
+        sortOptions = false,
+        description = {"Scan a table once on Spark and write a score store: the contingency counts and the log score of "
+                + "every family (child, parent set of at most d candidates).",
+                "Input: CSV with a header line, or Parquet; a local path or any filesystem URI Spark supports."})
+public final class TallyMain implements Callable<Integer> {
+    @Option(names = "--input", required = true, paramLabel = "PATH", description = "input file or directory (repeatable; every input must have the same columns)")
+    List<String> inputs;
+
+    @Option(names = "--format", defaultValue = "auto", paramLabel = "csv|parquet|auto", description = "input format (default ${DEFAULT-VALUE}: by file extension)")
+    String format;
+
+    @Option(names = "--delimiter", defaultValue = ",", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default '${DEFAULT-VALUE}')")
+    String delimiter;
+
+    @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)")
+    Path out;
+
+    @Option(names = "--overwrite", description = "replace an existing store")
+    boolean overwrite;
+
+    @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})")
+    int maxParents;
+
+    @Option(names = "--master", defaultValue = "local[*]", paramLabel = "URL", description = "Spark master (default ${DEFAULT-VALUE}: embedded Spark on every core)")
+    String master;
+
+    @Option(names = "--columns", split = ",", paramLabel = "a,b,c", description = "keep only these columns as variables")
+    List<String> columns = new ArrayList<>();
+
+    @Option(names = "--exclude", split = ",", paramLabel = "a,b", description = "leave these columns out")
+    List<String> exclude = new ArrayList<>();
+
+    @Option(names = "--candidates", paramLabel = "K", description = "keep the K best single parents per child (by score gain over no parent), plus required ones")
+    Integer candidates;
+
+    @Option(names = "--forbid", split = ",", paramLabel = "a->b", description = "edges no family may contain (repeatable)")
+    List<String> forbid = new ArrayList<>();
+
+    @Option(names = "--require", split = ",", paramLabel = "a->b", description = "edges every family of the child must contain (repeatable)")
+    List<String> require = new ArrayList<>();
+
+    @Option(names = "--tiers", paramLabel = "\"a,b;c;d,e\"", description = "tiers separated by ';': no parent from a later tier")
+    String tiers;
+
+    @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'")
+    String missing;
+
+    @Option(names = "--max-states", defaultValue = "32", paramLabel = "N", description = "most states a variable may have, at most 255 (default ${DEFAULT-VALUE})")
+    int maxStates;
+
+    @Option(names = "--discretize", split = ",", paramLabel = "COL=k", description = "cut numeric column COL into k equal-frequency bins (repeatable)")
+    List<String> discretize = new ArrayList<>();
+
+    @Option(names = "--score", defaultValue = "bdeu", paramLabel = "bdeu|k2", description = "family score to store (default ${DEFAULT-VALUE})")
+    String score;
+
+    @Option(names = "--ess", defaultValue = "1", paramLabel = "A", description = "BDeu equivalent sample size (default ${DEFAULT-VALUE})")
+    double ess;
+
+    @Option(names = "--partitions", paramLabel = "N", description = "repartition the input into N partitions")
+    Integer partitions;
+
+    @Option(names = "--memory-budget", defaultValue = "256m", paramLabel = "SIZE", description = "count-array memory per task, e.g. 512m, 2g (default ${DEFAULT-VALUE})")
+    String memoryBudget;
+
+    @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)")
+    List<String> conf = new ArrayList<>();
+
+    /** A session to use instead of starting one (tests). */
+    private final SparkSession given;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
+
+    TallyMain(SparkSession given) {
+        this.given = given;
+    }
+
+    public static void main(String[] args) {
+        System.exit(execute(null, new PrintWriter(System.out, true), new PrintWriter(System.err, true), args));
+    }
+
+    /** Runs the command line on {@code spark} (or a new session when null) and returns the exit status. */
+    public static int execute(SparkSession spark, PrintWriter out, PrintWriter err, String... args) {
+        return EdgewiseCli.configure(new CommandLine(new TallyMain(spark)), out, err).execute(args);
+    }
+
+    @Override
+    public Integer call() {
+        TallyOptions o = options();
+        Map<String, String> extra = confPairs();
+        SparkSession spark = given != null ? given : session(master, extra);
+        try {
+            TallyJob.Summary s = TallyJob.run(spark, o);
+            PrintWriter w = spec.commandLine().getOut();
+            w.printf(Locale.ROOT, "tally: wrote %s — %d families over %d variables from %d rows (%d dropped), "
+                            + "%d variable sets in %d %s, %.1f s%n", o.out(), s.families(), s.variables(), s.rows(),
+                    s.droppedRows(), s.coverSets(), s.batches(), s.batches() == 1 ? "pass" : "passes", s.seconds());
+            w.flush();
+            return 0;
+        } finally {
+            if (given == null) {
+                spark.stop();
+            }
+        }
+    }
+
+    /** Checks and collects the options (no Spark needed). */
+    TallyOptions options() {
+        if (maxParents < 0) {
+            throw new UserError("--max-parents must be 0 or more, got " + maxParents);
+        }
+        if (maxStates < 1 || maxStates > 255) {
+            throw new UserError("--max-states must be between 1 and 255, got " + maxStates);
+        }
+        if (candidates != null && candidates < 0) {
+            throw new UserError("--candidates must be 0 or more, got " + candidates);
+        }
+        if (partitions != null && partitions < 1) {
+            throw new UserError("--partitions must be 1 or more, got " + partitions);
+        }
+        if (!(ess > 0) || Double.isInfinite(ess)) {
+            throw new UserError("--ess must be a positive number, got " + ess);
+        }
+        ScoreKind kind;
+        try {
+            kind = ScoreKind.parse(score);
+        } catch (IllegalArgumentException e) {
+            throw new UserError("--score: " + e.getMessage());
+        }
+        MissingPolicy policy;
+        try {
+            policy = MissingPolicy.valueOf(missing.trim().toUpperCase(Locale.ROOT));
+        } catch (IllegalArgumentException e) {
+            throw new UserError("--missing must be error, drop or state, got '" + missing + "'");
+        }
+        String fmt = format.toLowerCase(Locale.ROOT);
+        if (!List.of("csv", "parquet", "auto").contains(fmt)) {
+            throw new UserError("--format must be csv, parquet or auto, got '" + format + "'");
+        }
+        Map<String, Integer> bins = new LinkedHashMap<>();
+        for (String d : discretize) {
+            int eq = d.lastIndexOf('=');
+            int k;
+            try {
+                k = eq > 0 ? Integer.parseInt(d.substring(eq + 1).trim()) : -1;
+            } catch (NumberFormatException e) {
+                k = -1;
+            }
+            if (eq <= 0 || k < 2 || k > maxStates) {
+                throw new UserError("--discretize: '" + d + "' must be COL=k with 2 <= k <= --max-states (" + maxStates + ")");
+            }
+            bins.put(d.substring(0, eq).trim(), k);
+        }
+        List<List<String>> tierList = new ArrayList<>();
+        if (tiers != null && !tiers.isBlank()) {
+            for (String t : tiers.split(";")) {
+                List<String> names = new ArrayList<>();
+                for (String name : t.split(",")) {
+                    if (!name.isBlank()) {
+                        names.add(name.trim());
+                    }
+                }
+                if (names.isEmpty()) {
+                    throw new UserError("--tiers: '" + tiers + "' has an empty tier");
+                }
+                tierList.add(names);
+            }
+        }
+        return new TallyOptions(inputs, fmt, delimiterChar(delimiter), out, overwrite, maxParents,
+                trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
+                tierList, policy, maxStates, bins, kind, ess, partitions, parseBytes(memoryBudget));
+    }
+
+    static char delimiterChar(String d) {
+        if (d.equalsIgnoreCase("tab") || d.equals("\\t")) {
+            return '\t';
+        }
+        if (d.length() != 1) {
+            throw new UserError("--delimiter must be one character or 'tab', got '" + d + "'");
+        }
+        return d.charAt(0);
+    }
+
+    private static List<String> trimmed(List<String> xs) {
+        return xs.stream().map(String::trim).filter(s -> !s.isEmpty()).toList();
+    }
+
+    private static List<EdgeRule> edges(List<String> xs, String option) {
+        List<EdgeRule> out = new ArrayList<>();
+        for (String x : xs) {
+            out.add(EdgeRule.parse(x.trim(), option));
+        }
+        return out;
+    }
+
+    /** Parses 512m, 2g, 100k, 1048576 (bytes). */
+    static long parseBytes(String text) {
+        String t = text.trim().toLowerCase(Locale.ROOT);
+        long mult = 1;
+        if (t.endsWith("b")) {
+            t = t.substring(0, t.length() - 1);
+        }
+        if (!t.isEmpty()) {
+            switch (t.charAt(t.length() - 1)) {
+                case 'k' -> mult = 1L << 10;
+                case 'm' -> mult = 1L << 20;
+                case 'g' -> mult = 1L << 30;
+                case 't' -> mult = 1L << 40;
+                default -> mult = 1;
+            }
+            if (mult > 1) {
+                t = t.substring(0, t.length() - 1);
+            }
+        }
+        try {
+            double v = Double.parseDouble(t);
+            if (!(v > 0)) {
+                throw new NumberFormatException();
+            }
+            return (long) (v * mult);
+        } catch (NumberFormatException e) {
+            throw new UserError("--memory-budget: '" + text + "' is not a size such as 512m or 2g");
+        }
+    }
+
+    private Map<String, String> confPairs() {
+        Map<String, String> m = new LinkedHashMap<>();
+        for (String c : conf) {
+            int eq = c.indexOf('=');
+            if (eq <= 0) {
+                throw new UserError("--conf: '" + c + "' must be key=value");
+            }
+            m.put(c.substring(0, eq).trim(), c.substring(eq + 1).trim());
+        }
+        return m;
+    }
+
+    /**
+     * Starts Spark: embedded for {@code local…} (no web UI, loopback), otherwise the given master;
+     * for a standalone cluster ({@code spark://}) the job and driver jars are shipped via
+     * {@code spark.jars}.
+     */
+    static SparkSession session(String master, Map<String, String> extra) {
+        SparkSession.Builder b = SparkSession.builder().appName("edgewise tally").master(master);
+        if (master.startsWith("local")) {
+            b.config("spark.ui.enabled", "false");
+            if (System.getenv("SPARK_LOCAL_IP") == null) {
+                b.config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1");
+            }
+        }
+        if (master.startsWith("spark://")) {
+            b.config("spark.jars", jarOf(TallyMain.class) + "," + jarOf(EdgewiseCli.class));
+        }
+        extra.forEach(b::config);
+        SparkSession s = b.getOrCreate();
+        s.sparkContext().setLogLevel("WARN");
+        return s;
+    }
+
+    /** The jar a class was loaded from (for shipping to a cluster). */
+    static String jarOf(Class<?> c) {
+        try {
+            File f = new File(c.getProtectionDomain().getCodeSource().getLocation().toURI());
+            if (!f.isFile()) {
+                throw new UserError("--master spark://…: " + c.getSimpleName() + " was not loaded from a jar (" + f
+                        + "); build the jars with mvn package and start tally through scripts/edgewise");
+            }
+            return f.getAbsolutePath();
+        } catch (URISyntaxException | NullPointerException e) {
+            throw new UserError("--master spark://…: cannot find the jar of " + c.getSimpleName());
+        }
+    }
+}

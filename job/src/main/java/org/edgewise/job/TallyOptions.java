@@ -1,0 +1,56 @@
+package org.edgewise.job;
+
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Map;
+import org.edgewise.driver.score.ScoreKind;
+import org.edgewise.driver.store.EdgeRule;
+
+/**
+ * Everything a tally needs, already parsed (names are resolved against the header later).
+ *
+ * @param inputs       input paths or filesystem URIs (CSV with a header, or Parquet)
+ * @param format       {@code csv}, {@code parquet} or {@code auto} (by extension)
+ * @param delimiter    CSV field delimiter
+ * @param out          the store directory to write
+ * @param maxParents   the in-degree bound d
+ * @param columns      variables to keep (empty: every column)
+ * @param exclude      columns to drop
+ * @param candidates   K best single parents per child, or null for no pruning
+ * @param tiers        tiers of variable names, earliest first (empty: none)
+ * @param missing      missing-value policy
+ * @param maxStates    largest number of states a variable may have
+ * @param discretize   column name → number of equal-frequency bins
+ * @param partitions   repartition the input into this many partitions (null: as read)
+ * @param memoryBudget per-task budget for the count arrays, bytes
+ */
+public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
+                           int maxParents, List<String> columns, List<String> exclude, Integer candidates,
+                           List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
+                           MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
+                           ScoreKind score, double ess, Integer partitions, long memoryBudget) {
+
+    /** What to do with an empty field. */
+    public enum MissingPolicy {
+        /** refuse the table (default). */
+        ERROR,
+        /** drop every row with a missing value in a selected column. */
+        DROP,
+        /** treat a missing value as one more state of that variable. */
+        STATE;
+
+        public String label() {
+            return name().toLowerCase(java.util.Locale.ROOT);
+        }
+    }
+
+    public TallyOptions {
+        inputs = List.copyOf(inputs);
+        columns = List.copyOf(columns);
+        exclude = List.copyOf(exclude);
+        forbid = List.copyOf(forbid);
+        require = List.copyOf(require);
+        tiers = tiers.stream().map(List::copyOf).toList();
+        discretize = Map.copyOf(discretize);
+    }
+}

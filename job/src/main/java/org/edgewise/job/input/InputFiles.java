@@ -1,0 +1,173 @@
+package org.edgewise.job.input;
+
+import java.io.BufferedReader;
+import java.io.FileNotFoundException;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.InputStreamReader;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import org.apache.hadoop.conf.Configuration;
+import org.apache.hadoop.fs.FileStatus;
+import org.apache.hadoop.fs.FileSystem;
+import org.apache.hadoop.fs.Path;
+import org.apache.hadoop.io.compress.CompressionCodec;
+import org.apache.hadoop.io.compress.CompressionCodecFactory;
+import org.edgewise.driver.UserError;
+
+/**
+ * Resolves the {@code --input} arguments to data files through Hadoop's FileSystem (so any URI
+ * Spark supports works: local paths, {@code file:}, {@code hdfs:}, {@code s3a:} …), decides the
+ * format and reads CSV header lines. Every failure is a {@link UserError} naming the input.
+ */
+public final class InputFiles {
+    private InputFiles() {
+    }
+
+    /** One resolved data file: the argument it came from, its full URI, and its format. */
+    public record DataFile(String argument, String uri, String format) {
+    }
+
+    /** Resolves every argument; a directory stands for its visible files (sorted by name). */
+    public static List<DataFile> resolve(List<String> inputs, String format, Configuration conf) {
+        if (inputs.isEmpty()) {
+            throw new UserError("no --input given");
+        }
+        List<DataFile> out = new ArrayList<>();
+        for (String arg : inputs) {
+            Path p = new Path(arg);
+            try {
+                FileSystem fs = p.getFileSystem(conf);
+                if (!fs.exists(p)) {
+                    throw new UserError("input " + arg + ": no such file or directory");
+                }
+                FileStatus st = fs.getFileStatus(p);
+                List<FileStatus> files = new ArrayList<>();
+                if (st.isDirectory()) {
+                    for (FileStatus c : fs.listStatus(p)) {
+                        String name = c.getPath().getName();
+                        if (c.isFile() && !name.startsWith(".") && !name.startsWith("_")) {
+                            files.add(c);
+                        }
+                    }
+                    files.sort(Comparator.comparing(c -> c.getPath().getName()));
+                    if (files.isEmpty()) {
+                        throw new UserError("input " + arg + ": the directory holds no data files");
+                    }
+                } else {
+                    files.add(st);
+                }
+                for (FileStatus f : files) {
+                    out.add(new DataFile(arg, f.getPath().toString(), formatOf(arg, f.getPath().getName(), format)));
+                }
+            } catch (IOException e) {
+                throw new UserError("input " + arg + ": cannot read (" + oneLine(e) + ")");
+            }
+        }
+        String first = out.get(0).format();
+        for (DataFile f : out) {
+            if (!f.format().equals(first)) {
+                throw new UserError("input " + f.argument() + " is " + f.format() + " but " + out.get(0).argument()
+                        + " is " + first + "; give inputs of one format");
+            }
+        }
+        return out;
+    }
+
+    static String formatOf(String arg, String fileName, String format) {
+        String f = format.toLowerCase(Locale.ROOT);
+        if (f.equals("csv") || f.equals("parquet")) {
+            return f;
+        }
+        if (!f.equals("auto")) {
+            throw new UserError("--format must be csv, parquet or auto, got '" + format + "'");
+        }
+        String n = fileName.toLowerCase(Locale.ROOT);
+        if (n.endsWith(".parquet") || n.endsWith(".parq")) {
+            return "parquet";
+        }
+        if (n.endsWith(".csv") || n.endsWith(".csv.gz") || n.endsWith(".tsv") || n.endsWith(".txt")
+                || n.endsWith(".csv.bz2")) {
+            return "csv";
+        }
+        throw new UserError("input " + arg + ": cannot tell the format of " + fileName
+                + " from its name; pass --format csv or --format parquet");
+    }
+
+    /**
+     * The header of a CSV file: its column names, checked (not empty, no blank or duplicate names).
+     */
+    public static List<String> csvHeader(DataFile file, char delimiter, Configuration conf) {
+        String line;
+        Path p = new Path(file.uri());
+        try {
+            FileSystem fs = p.getFileSystem(conf);
+            CompressionCodec codec = new CompressionCodecFactory(conf).getCodec(p);
+            try (InputStream raw = fs.open(p);
+                 InputStream in = codec == null ? raw : codec.createInputStream(raw);
+                 BufferedReader r = new BufferedReader(new InputStreamReader(in, StandardCharsets.UTF_8))) {
+                line = r.readLine();
+                while (line != null && line.isBlank()) {
+                    line = r.readLine();
+                }
+            }
+        } catch (FileNotFoundException e) {
+            throw new UserError("input " + file.argument() + ": no such file");
+        } catch (IOException e) {
+            throw new UserError("input " + file.argument() + ": cannot read (" + oneLine(e) + ")");
+        }
+        if (line == null) {
+            throw new UserError("input " + display(file) + ": the file is empty (no header line)");
+        }
+        if (!line.isEmpty() && line.charAt(0) == '\uFEFF') {
+            line = line.substring(1);
+        }
+        List<String> names = CsvLine.split(line, delimiter);
+        for (int i = 0; i < names.size(); i++) {
+            if (names.get(i).isBlank()) {
+                throw new UserError("input " + display(file) + " line 1: column " + (i + 1) + " has no name");
+            }
+            for (int j = 0; j < i; j++) {
+                if (names.get(j).equals(names.get(i))) {
+                    throw new UserError("input " + display(file) + " line 1: duplicate column name '" + names.get(i)
+                            + "' (columns " + (j + 1) + " and " + (i + 1) + ")");
+                }
+            }
+        }
+        return names;
+    }
+
+    /** The file as the user would recognise it: the argument itself, or argument/name for a directory. */
+    public static String display(DataFile f) {
+        String name = new Path(f.uri()).getName();
+        return f.argument().endsWith(name) ? f.argument() : f.argument().replaceAll("/+$", "") + "/" + name;
+    }
+
+    static String oneLine(Throwable e) {
+        String m = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+        int nl = m.indexOf('\n');
+        return nl < 0 ? m : m.substring(0, nl);
+    }
+
+    /** Checks that every file has the same columns as the first. */
+    public static void sameColumns(List<DataFile> files, List<List<String>> headers) {
+        for (int i = 1; i < files.size(); i++) {
+            if (!headers.get(i).equals(headers.get(0))) {
+                throw new UserError("input " + display(files.get(i)) + ": columns " + headers.get(i)
+                        + " differ from those of " + display(files.get(0)) + " " + headers.get(0));
+            }
+        }
+    }
+
+    static String[] uris(List<DataFile> files) {
+        return files.stream().map(DataFile::uri).toArray(String[]::new);
+    }
+
+    static List<String> list(String... xs) {
+        return Arrays.asList(xs);
+    }
+}

@@ -1,0 +1,160 @@
+package org.edgewise.job.input;
+
+import static org.apache.spark.sql.functions.col;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructField;
+import org.apache.spark.sql.types.StructType;
+import org.edgewise.driver.UserError;
+import org.edgewise.job.input.InputFiles.DataFile;
+
+/**
+ * The input table as Spark reads it: every header column as a string (field i of a row is column
+ * i; null = missing), and for CSV one more field holding the raw line of a malformed row (too many
+ * or too few fields; Spark's PERMISSIVE mode), null for a good row.
+ */
+public final class Table {
+    /** Name of the extra column Spark fills with the raw text of a malformed CSV row. */
+    public static final String CORRUPT = "__edgewise_malformed_row";
+
+    private final SparkSession spark;
+    private final List<DataFile> files;
+    private final List<String> columns;
+    private final boolean csv;
+    private final char delimiter;
+
+    private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter) {
+        this.spark = spark;
+        this.files = List.copyOf(files);
+        this.columns = List.copyOf(columns);
+        this.csv = csv;
+        this.delimiter = delimiter;
+    }
+
+    /** Resolves the inputs and reads their headers (no Spark job runs yet). */
+    public static Table open(SparkSession spark, List<String> inputs, String format, char delimiter) {
+        var conf = spark.sparkContext().hadoopConfiguration();
+        List<DataFile> files = InputFiles.resolve(inputs, format, conf);
+        boolean csv = files.get(0).format().equals("csv");
+        List<String> columns;
+        if (csv) {
+            List<List<String>> headers = new ArrayList<>();
+            for (DataFile f : files) {
+                headers.add(InputFiles.csvHeader(f, delimiter, conf));
+            }
+            InputFiles.sameColumns(files, headers);
+            columns = headers.get(0);
+        } else {
+            List<List<String>> headers = new ArrayList<>();
+            for (DataFile f : files) {
+                headers.add(parquetColumns(spark, f));
+            }
+            InputFiles.sameColumns(files, headers);
+            columns = headers.get(0);
+        }
+        return new Table(spark, files, columns, csv, delimiter);
+    }
+
+    private static List<String> parquetColumns(SparkSession spark, DataFile f) {
+        StructType schema;
+        try {
+            schema = spark.read().parquet(f.uri()).schema();
+        } catch (RuntimeException e) {
+            throw new UserError("input " + InputFiles.display(f) + ": not a readable Parquet file ("
+                    + InputFiles.oneLine(e) + ")");
+        }
+        List<String> names = new ArrayList<>();
+        for (StructField field : schema.fields()) {
+            DataType t = field.dataType();
+            if (t instanceof StructType || t instanceof org.apache.spark.sql.types.ArrayType
+                    || t instanceof org.apache.spark.sql.types.MapType || t instanceof org.apache.spark.sql.types.BinaryType) {
+                throw new UserError("input " + InputFiles.display(f) + ": column '" + field.name() + "' has type "
+                        + t.simpleString() + ", not a discrete value; drop it with --exclude " + field.name());
+            }
+            if (names.contains(field.name())) {
+                throw new UserError("input " + InputFiles.display(f) + ": duplicate column name '" + field.name() + "'");
+            }
+            if (field.name().isBlank()) {
+                throw new UserError("input " + InputFiles.display(f) + ": column " + (names.size() + 1) + " has no name");
+            }
+            names.add(field.name());
+        }
+        if (names.isEmpty()) {
+            throw new UserError("input " + InputFiles.display(f) + ": the file has no columns");
+        }
+        return names;
+    }
+
+    public List<DataFile> files() {
+        return files;
+    }
+
+    public List<String> columns() {
+        return columns;
+    }
+
+    public boolean isCsv() {
+        return csv;
+    }
+
+    /** Index of the malformed-row field in a row (CSV only), or −1. */
+    public int corruptField() {
+        return csv ? columns.size() : -1;
+    }
+
+    /** Every input file's rows. */
+    public Dataset<Row> rows() {
+        return read(InputFiles.uris(files));
+    }
+
+    /** The rows of one file, in file order (for locating a bad row's line). */
+    public Dataset<Row> rowsOf(DataFile f) {
+        return read(f.uri());
+    }
+
+    private Dataset<Row> read(String... uris) {
+        if (csv) {
+            List<StructField> fields = new ArrayList<>();
+            for (String c : columns) {
+                fields.add(DataTypes.createStructField(c, DataTypes.StringType, true));
+            }
+            fields.add(DataTypes.createStructField(CORRUPT, DataTypes.StringType, true));
+            return spark.read().format("csv")
+                    .schema(DataTypes.createStructType(fields))
+                    .option("header", "true")
+                    .option("enforceSchema", "true")
+                    .option("sep", String.valueOf(delimiter))
+                    .option("mode", "PERMISSIVE")
+                    .option("columnNameOfCorruptRecord", CORRUPT)
+                    .option("multiLine", "false")
+                    .load(uris);
+        }
+        Dataset<Row> d = spark.read().parquet(uris);
+        List<Column> cs = new ArrayList<>();
+        for (String c : columns) {
+            cs.add(col("`" + c.replace("`", "``") + "`").cast(DataTypes.StringType).as(c));
+        }
+        return d.select(cs.toArray(Column[]::new));
+    }
+
+    /** "line" for CSV (header = line 1), "row" for Parquet. */
+    public String unit() {
+        return csv ? "line" : "row";
+    }
+
+    /** The line (CSV) or row (Parquet) number of the zero-based data-row index within its file. */
+    public long lineOf(long index) {
+        return csv ? index + 2 : index + 1;
+    }
+
+    public char delimiter() {
+        return delimiter;
+    }
+}

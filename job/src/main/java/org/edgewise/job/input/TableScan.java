@@ -1,0 +1,290 @@
+package org.edgewise.job.input;
+
+import static org.apache.spark.sql.functions.col;
+import static org.apache.spark.sql.functions.count;
+import static org.apache.spark.sql.functions.countDistinct;
+
+import java.io.Serializable;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.Comparator;
+import java.util.List;
+import org.apache.spark.api.java.JavaRDD;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.types.DataTypes;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.store.Variable;
+import org.edgewise.job.TallyOptions;
+import org.edgewise.job.TallyOptions.MissingPolicy;
+import org.edgewise.job.input.InputFiles.DataFile;
+import scala.Tuple2;
+
+/**
+ * Picks the variables, runs the one statistics pass over the input, refuses bad input with a
+ * one-line {@link UserError} (naming the file and the line, column or variable), and derives the
+ * {@link Encoding}: ordered states per variable (numeric order when every value is a number,
+ * otherwise lexicographic), bins for discretised columns, the missing-value state.
+ *
+ * <p>Line numbers are found only on the error path, by re-reading the offending file alone with
+ * {@code zipWithIndex} (data row i is line i + 2 of a CSV file with its header on line 1; blank
+ * lines are skipped by the reader and not counted).
+ */
+public final class TableScan {
+    /** Label of the extra state of a variable with missing values under {@code --missing state}. */
+    public static final String MISSING_STATE = "(missing)";
+    /** Relative error of the approximate quantiles behind {@code --discretize}. */
+    public static final double QUANTILE_ERROR = 1e-4;
+    /** A column is called ID-like when at least this share of its values are distinct (common practice). */
+    static final double ID_SHARE = 0.9;
+
+    private TableScan() {
+    }
+
+    /** The outcome: the encoding, the raw rows to encode, and the statistics. */
+    public record Result(Encoding encoding, JavaRDD<Row> rows, ColumnStats stats) {
+        /** Rows that will be counted. */
+        public long countedRows() {
+            return stats.rows() - stats.dropped();
+        }
+    }
+
+    /** A serialisable row predicate for locating the first bad row. */
+    interface RowTest extends Serializable {
+        boolean test(Row r);
+    }
+
+    /** The selected variables' names, in column order; unknown names in --columns/--exclude/--discretize refused. */
+    public static List<String> selected(Table table, TallyOptions o) {
+        List<String> header = table.columns();
+        for (String c : o.columns()) {
+            if (!header.contains(c)) {
+                throw new UserError("--columns: no column '" + c + "' in " + inputs(table) + " (columns: "
+                        + String.join(", ", header) + ")");
+            }
+        }
+        for (String c : o.exclude()) {
+            if (!header.contains(c)) {
+                throw new UserError("--exclude: no column '" + c + "' in " + inputs(table) + " (columns: "
+                        + String.join(", ", header) + ")");
+            }
+        }
+        List<String> names = new ArrayList<>();
+        for (int i = 0; i < header.size(); i++) {
+            String c = header.get(i);
+            if ((o.columns().isEmpty() || o.columns().contains(c)) && !o.exclude().contains(c)) {
+                names.add(c);
+            }
+        }
+        if (names.isEmpty()) {
+            throw new UserError("no variables left after --columns/--exclude");
+        }
+        for (String c : o.discretize().keySet()) {
+            if (!names.contains(c)) {
+                throw new UserError("--discretize: no variable '" + c + "' among the selected columns ("
+                        + String.join(", ", names) + ")");
+            }
+        }
+        return names;
+    }
+
+    public static Result scan(Table table, TallyOptions o) {
+        List<String> header = table.columns();
+        List<String> names = selected(table, o);
+        List<Integer> fieldList = new ArrayList<>();
+        for (String name : names) {
+            fieldList.add(header.indexOf(name));
+        }
+        int n = names.size();
+        int[] fields = fieldList.stream().mapToInt(Integer::intValue).toArray();
+        boolean[] binned = new boolean[n];
+        for (int v = 0; v < n; v++) {
+            binned[v] = o.discretize().containsKey(names.get(v));
+        }
+
+        JavaRDD<Row> raw = table.rows().javaRDD();
+        if (o.partitions() != null) {
+            raw = raw.repartition(o.partitions());
+        }
+        int cap = o.maxStates();
+        boolean drop = o.missing() == MissingPolicy.DROP;
+        int corrupt = table.corruptField();
+        ColumnStats stats = raw.mapPartitions(it -> Collections.singletonList(
+                        new ColumnStats(fields, binned, cap, drop, corrupt).addAll(it)).iterator())
+                .reduce(ColumnStats::merge);
+
+        if (stats.rows() == 0) {
+            throw new UserError("input " + inputs(table) + ": no data rows (only a header)");
+        }
+        if (stats.malformed() > 0) {
+            Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table, r -> !r.isNullAt(corrupt));
+            String text = bad._2()._1().getString(corrupt);
+            int got = CsvLine.split(text, table.delimiter()).size();
+            throw new UserError("input " + InputFiles.display(bad._1()) + " line " + table.lineOf(bad._2()._2())
+                    + ": " + got + (got == 1 ? " field" : " fields") + ", the header has " + header.size()
+                    + " (" + stats.malformed() + " malformed " + (stats.malformed() == 1 ? "row" : "rows") + " in all)");
+        }
+        if (stats.rows() == stats.dropped()) {
+            throw new UserError("input " + inputs(table) + ": every row has a missing value; nothing is left to count"
+                    + " after --missing drop");
+        }
+        if (o.missing() == MissingPolicy.ERROR) {
+            long total = 0;
+            for (int v = 0; v < n; v++) {
+                total += stats.missing(v);
+            }
+            if (total > 0) {
+                Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table, r -> {
+                    for (int f : fields) {
+                        if (ColumnStats.isMissing(r, f)) {
+                            return true;
+                        }
+                    }
+                    return false;
+                });
+                Row r = bad._2()._1();
+                String column = null;
+                for (int v = 0; v < n && column == null; v++) {
+                    if (ColumnStats.isMissing(r, fields[v])) {
+                        column = names.get(v);
+                    }
+                }
+                throw new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
+                        + table.lineOf(bad._2()._2()) + ", column '" + column + "': missing value (" + total
+                        + " missing " + (total == 1 ? "value" : "values") + " in all); choose --missing drop or --missing state");
+            }
+        }
+        for (int v = 0; v < n; v++) {
+            if (binned[v] && !stats.numeric(v)) {
+                int f = fields[v];
+                if (stats.missing(v) + stats.dropped() >= stats.rows()) {
+                    throw new UserError("--discretize " + names.get(v) + ": the column has no values");
+                }
+                Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table,
+                        r -> !ColumnStats.isMissing(r, f) && Double.isNaN(ColumnStats.parse(r.getString(f))));
+                throw new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
+                        + table.lineOf(bad._2()._2()) + ", column '" + names.get(v) + "': '" + bad._2()._1().getString(f)
+                        + "' is not a number, but --discretize " + names.get(v) + "=" + o.discretize().get(names.get(v))
+                        + " needs numbers");
+            }
+        }
+        for (int v = 0; v < n; v++) {
+            if (stats.overflow(v)) {
+                throw tooManyStates(table, names.get(v), o.maxStates(), stats.numeric(v));
+            }
+        }
+
+        List<Variable> variables = new ArrayList<>();
+        int[] missingState = new int[n];
+        for (int v = 0; v < n; v++) {
+            List<String> states = new ArrayList<>();
+            List<Double> edges = null;
+            if (binned[v]) {
+                edges = binEdges(table, names.get(v), o.discretize().get(names.get(v)), stats.min(v));
+                states.addAll(binLabels(edges, stats.min(v), stats.max(v)));
+            } else {
+                states.addAll(orderStates(stats.distinct(v), stats.numeric(v)));
+            }
+            missingState[v] = -1;
+            if (o.missing() == MissingPolicy.STATE && stats.missing(v) > 0) {
+                missingState[v] = states.size();
+                states.add(MISSING_STATE);
+            }
+            if (states.size() > 256) {
+                throw new UserError("variable '" + names.get(v) + "' has " + states.size() + " states; at most 256 are supported");
+            }
+            variables.add(new Variable(names.get(v), states, edges));
+        }
+        return new Result(new Encoding(fields, variables, missingState, drop), raw, stats);
+    }
+
+    /** States in numeric order when every value is a number (ties by text), otherwise lexicographic. */
+    static List<String> orderStates(java.util.Set<String> values, boolean numeric) {
+        List<String> states = new ArrayList<>(values);
+        if (numeric) {
+            states.sort(Comparator.comparingDouble(ColumnStats::parse).thenComparing(Comparator.naturalOrder()));
+        } else {
+            Collections.sort(states);
+        }
+        return states;
+    }
+
+    /** Interior cut points of k equal-frequency bins (approximate quantiles), duplicates and ≤ min removed. */
+    static List<Double> binEdges(Table table, String name, int k, double min) {
+        double[] probs = new double[k - 1];
+        for (int i = 1; i < k; i++) {
+            probs[i - 1] = (double) i / k;
+        }
+        double[] q = table.rows().select(quoted(name).cast(DataTypes.DoubleType).as("x"))
+                .stat().approxQuantile("x", probs, QUANTILE_ERROR);
+        List<Double> edges = new ArrayList<>();
+        for (double e : q) {
+            if (e > min && (edges.isEmpty() || e > edges.get(edges.size() - 1))) {
+                edges.add(e);
+            }
+        }
+        return edges;
+    }
+
+    /** Labels [lo,hi) of the bins, the last closed at the maximum: [min,e1), [e1,e2), …, [e_m,max]. */
+    static List<String> binLabels(List<Double> edges, double min, double max) {
+        List<String> out = new ArrayList<>();
+        double lo = min;
+        for (double e : edges) {
+            out.add("[" + num(lo) + "," + num(e) + ")");
+            lo = e;
+        }
+        out.add("[" + num(lo) + "," + num(max) + "]");
+        return out;
+    }
+
+    static String num(double x) {
+        if (x == Math.rint(x) && Math.abs(x) < 1e15) {
+            return Long.toString((long) x);
+        }
+        return Double.toString(x);
+    }
+
+    private static UserError tooManyStates(Table table, String name, int maxStates, boolean numeric) {
+        Row r = table.rows().select(countDistinct(quoted(name)), count(quoted(name))).first();
+        long distinct = r.getLong(0);
+        long present = r.getLong(1);
+        String head = "input " + inputs(table) + ": column '" + name + "' has " + distinct + " distinct"
+                + (numeric ? " numeric" : "") + " values, more than --max-states " + maxStates + "; ";
+        if (distinct >= ID_SHARE * present) {
+            return new UserError(head + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude "
+                    + name);
+        }
+        if (numeric) {
+            return new UserError(head + "discretise it, e.g. --discretize " + name + "=4, or raise --max-states");
+        }
+        return new UserError(head + "raise --max-states or leave it out with --exclude " + name);
+    }
+
+    static Column quoted(String name) {
+        return col("`" + name.replace("`", "``") + "`");
+    }
+
+    /** The first row (in file order) that passes {@code test}: its file and (row, zero-based index). */
+    private static Tuple2<DataFile, Tuple2<Row, Long>> first(Table table, RowTest test) {
+        for (DataFile f : table.files()) {
+            List<Tuple2<Row, Long>> hit = table.rowsOf(f).javaRDD().zipWithIndex()
+                    .filter(t -> test.test(t._1())).take(1);
+            if (!hit.isEmpty()) {
+                return new Tuple2<>(f, hit.get(0));
+            }
+        }
+        throw new IllegalStateException("a bad row was counted but not found again");
+    }
+
+    /** The input arguments, as given. */
+    static String inputs(Table table) {
+        List<String> args = new ArrayList<>();
+        for (DataFile f : table.files()) {
+            if (!args.contains(f.argument())) {
+                args.add(f.argument());
+            }
+        }
+        return String.join(", ", args);
+    }
+}

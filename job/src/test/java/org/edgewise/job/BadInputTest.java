@@ -1,0 +1,146 @@
+package org.edgewise.job;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.stream.Stream;
+import org.apache.spark.sql.SparkSession;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * Every bad input is refused with one line naming the file and line, column or variable, exit
+ * status 2, and no store (nor a temporary sibling) is left behind. Messages are asserted word for
+ * word: users read them.
+ */
+class BadInputTest {
+    static SparkSession spark;
+    @TempDir
+    static Path dir;
+    static Path good;
+    static int cases;
+
+    @BeforeAll
+    static void start() {
+        spark = SharedSpark.session();
+        good = TestTables.write(dir.resolve("good.csv"), "u,v\n1,a\n2,b\n1,b\n");
+    }
+
+    /** Runs tally on {@code input} into a fresh folder and checks the refusal and that nothing was written. */
+    static void refused(String expected, Path input, String... extra) {
+        Path outDir = dir.resolve("out" + (cases++));
+        List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", outDir.resolve("store").toString()));
+        args.addAll(List.of(extra));
+        TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));
+        assertEquals(2, r.status(), r.err());
+        assertEquals(expected, r.err());
+        assertFalse(r.err().contains("\n"), "one line");
+        if (Files.exists(outDir)) {
+            try (Stream<Path> s = Files.list(outDir)) {
+                assertEquals(List.of(), s.toList(), "nothing written, no temporary left");
+            } catch (IOException e) {
+                throw new AssertionError(e);
+            }
+        }
+    }
+
+    static Path file(String name, String text) {
+        return TestTables.write(dir.resolve(name), text);
+    }
+
+    @Test
+    void missingOrEmptyFiles() {
+        Path none = dir.resolve("none.csv");
+        refused("tally: input " + none + ": no such file or directory", none);
+        Path empty = file("empty.csv", "");
+        refused("tally: input " + empty + ": the file is empty (no header line)", empty);
+        Path header = file("header.csv", "a,b,c\n");
+        refused("tally: input " + header + ": no data rows (only a header)", header);
+    }
+
+    @Test
+    void malformedHeadersAndRows() {
+        Path dup = file("dup.csv", "a,b,a\n1,2,3\n");
+        refused("tally: input " + dup + " line 1: duplicate column name 'a' (columns 1 and 3)", dup);
+        Path many = file("many.csv", "a,b,c\n1,2,3\n1,2,3\n1,2,3,4\n1,2,3\n");
+        refused("tally: input " + many + " line 4: 4 fields, the header has 3 (1 malformed row in all)", many);
+        Path few = file("few.csv", "a,b,c\n1,2,3\n1,2\n1\n");
+        refused("tally: input " + few + " line 3: 2 fields, the header has 3 (2 malformed rows in all)", few);
+    }
+
+    @Test
+    void tooManyStates() {
+        StringBuilder id = new StringBuilder("id,x\n");
+        StringBuilder wide = new StringBuilder("v,x\n");
+        for (int t = 0; t < 200; t++) {
+            if (t < 50) {
+                id.append(t + 1).append(',').append(t % 2 == 0 ? "a" : "b").append('\n');
+            }
+            wide.append(t % 40).append(',').append(t % 2 == 0 ? "a" : "b").append('\n');
+        }
+        Path ids = file("ids.csv", id.toString());
+        refused("tally: input " + ids + ": column 'id' has 50 distinct numeric values, more than --max-states 32; "
+                + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude id", ids);
+        Path num = file("wide.csv", wide.toString());
+        refused("tally: input " + num + ": column 'v' has 40 distinct numeric values, more than --max-states 32; "
+                + "discretise it, e.g. --discretize v=4, or raise --max-states", num);
+        Path text = file("text.csv", "w\np\nq\nr\ns\np\nq\nr\ns\np\nq\n");
+        refused("tally: input " + text + ": column 'w' has 4 distinct values, more than --max-states 3; "
+                + "raise --max-states or leave it out with --exclude w", text, "--max-states", "3");
+    }
+
+    @Test
+    void missingValuesAndNonNumbers() {
+        Path holes = file("holes.csv", "u,v\n1,a\n1,\n,b\n");
+        refused("tally: input " + holes + " line 3, column 'v': missing value (2 missing values in all); "
+                + "choose --missing drop or --missing state", holes);
+        Path allHoles = file("allholes.csv", "u,v\n1,\n,b\n");
+        refused("tally: input " + allHoles + ": every row has a missing value; nothing is left to count after "
+                + "--missing drop", allHoles, "--missing", "drop");
+        Path text = file("nan.csv", "x,y\n1.5,a\n2.5,b\nabc,a\n");
+        refused("tally: input " + text + " line 4, column 'x': 'abc' is not a number, but --discretize x=2 needs numbers",
+                text, "--discretize", "x=2");
+    }
+
+    @Test
+    void unknownNames() {
+        refused("tally: --columns: no column 'z' in " + good + " (columns: u, v)", good, "--columns", "u,z");
+        refused("tally: --exclude: no column 'z' in " + good + " (columns: u, v)", good, "--exclude", "z");
+        refused("tally: --forbid u->z: no variable 'z' (variables: u, v)", good, "--forbid", "u->z");
+        refused("tally: --require z->u: no variable 'z' (variables: u, v)", good, "--require", "z->u");
+        refused("tally: --tiers: no variable 'z' (variables: u, v)", good, "--tiers", "u;z");
+        refused("tally: --discretize: no variable 'z' among the selected columns (u, v)", good, "--discretize", "z=3");
+        refused("tally: --require u->v contradicts --forbid u->v", good, "--require", "u->v", "--forbid", "u->v");
+        refused("tally: --require v->u contradicts --tiers: 'v' is in a later tier than 'u'", good,
+                "--require", "v->u", "--tiers", "u;v");
+    }
+
+    @Test
+    void planThatCannotFitIsRefusedAtOnce() {
+        refused("tally: cannot fit the tally: the variable set {u(2), v(2)} needs 4 count cells (48 B) in one task, "
+                + "more than --memory-budget 40 B; lower --max-parents, use --candidates K, exclude or discretise wide "
+                + "variables, or raise --memory-budget", good, "--memory-budget", "40");
+    }
+
+    @Test
+    void existingStoreIsNotReplacedWithoutOverwrite() throws IOException {
+        Path out = dir.resolve("existing");
+        Files.createDirectories(out);
+        Files.writeString(out.resolve("keep.txt"), "mine");
+        TestTables.Run r = TestTables.tally(spark, "--input", good.toString(), "--out", out.toString());
+        assertEquals(2, r.status());
+        assertEquals("tally: output " + out + " already exists; pass --overwrite to replace it", r.err());
+        assertEquals("mine", Files.readString(out.resolve("keep.txt")));
+        TestTables.Run bad = TestTables.tally(spark, "--input", good.toString(), "--out", out.toString(),
+                "--max-parents", "two");
+        assertEquals(2, bad.status());
+        assertTrue(bad.err().startsWith("tally: Invalid value for option '--max-parents'"), bad.err());
+    }
+}

@@ -1,0 +1,133 @@
+package org.edgewise.job;
+
+import java.io.IOException;
+import java.io.StringWriter;
+import java.io.PrintWriter;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Random;
+import org.apache.spark.sql.SparkSession;
+import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.store.StoreReader;
+import org.edgewise.driver.store.Variable;
+
+/** Small tables for the tests, and a way to run the tally command line on the shared session. */
+final class TestTables {
+    private TestTables() {
+    }
+
+    /** The result of one command-line run. */
+    record Run(int status, String out, String err) {
+    }
+
+    static Run tally(SparkSession spark, String... args) {
+        StringWriter out = new StringWriter();
+        StringWriter err = new StringWriter();
+        int status = TallyMain.execute(spark, new PrintWriter(out, true), new PrintWriter(err, true), args);
+        return new Run(status, out.toString(), err.toString().strip());
+    }
+
+    static Path write(Path file, String text) {
+        try {
+            Files.writeString(file, text);
+            return file;
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** A CSV with a header of {@code names} and the given string rows. */
+    static Path csv(Path file, List<String> names, List<String[]> rows) {
+        StringBuilder sb = new StringBuilder(String.join(",", names)).append('\n');
+        for (String[] r : rows) {
+            sb.append(String.join(",", r)).append('\n');
+        }
+        return write(file, sb.toString());
+    }
+
+    /**
+     * Rows sampled from a small random network over {@code arity.length} variables (each variable
+     * depends on up to two earlier ones through a random conditional table), as state indices.
+     */
+    static int[][] sample(int[] arity, int rows, long seed) {
+        Random rnd = new Random(seed);
+        int n = arity.length;
+        int[][] parents = new int[n][];
+        double[][][] cpt = new double[n][][];
+        for (int v = 0; v < n; v++) {
+            List<Integer> ps = new ArrayList<>();
+            for (int u = 0; u < v && ps.size() < 2; u++) {
+                if (rnd.nextDouble() < 0.5) {
+                    ps.add(u);
+                }
+            }
+            parents[v] = ps.stream().mapToInt(Integer::intValue).toArray();
+            int q = 1;
+            for (int p : parents[v]) {
+                q *= arity[p];
+            }
+            cpt[v] = new double[q][arity[v]];
+            for (int j = 0; j < q; j++) {
+                double s = 0;
+                for (int k = 0; k < arity[v]; k++) {
+                    cpt[v][j][k] = Math.pow(rnd.nextDouble(), 2) + 0.05;
+                    s += cpt[v][j][k];
+                }
+                for (int k = 0; k < arity[v]; k++) {
+                    cpt[v][j][k] /= s;
+                }
+            }
+        }
+        int[][] out = new int[rows][n];
+        for (int t = 0; t < rows; t++) {
+            for (int v = 0; v < n; v++) {
+                int j = 0;
+                for (int p : parents[v]) {
+                    j = j * arity[p] + out[t][p];
+                }
+                double u = rnd.nextDouble();
+                int k = 0;
+                while (k < arity[v] - 1 && (u -= cpt[v][j][k]) > 0) {
+                    k++;
+                }
+                out[t][v] = k;
+            }
+        }
+        return out;
+    }
+
+    /** Writes sampled rows as CSV with labels {@code labels[v][state]}. */
+    static Path csvOf(Path file, List<String> names, String[][] labels, int[][] rows) {
+        List<String[]> text = new ArrayList<>();
+        for (int[] r : rows) {
+            String[] s = new String[r.length];
+            for (int v = 0; v < r.length; v++) {
+                s[v] = labels[v][r[v]];
+            }
+            text.add(s);
+        }
+        return csv(file, names, text);
+    }
+
+    /** Re-encodes labelled rows with a store's own state labels (for an independent recount). */
+    static int[][] encodeWith(List<Variable> vars, String[][] labels, int[][] rows) {
+        int[][] out = new int[rows.length][vars.size()];
+        for (int t = 0; t < rows.length; t++) {
+            for (int v = 0; v < vars.size(); v++) {
+                int s = vars.get(v).stateIndex(labels[v][rows[t][v]]);
+                if (s < 0) {
+                    throw new IllegalStateException("label " + labels[v][rows[t][v]] + " missing from the store");
+                }
+                out[t][v] = s;
+            }
+        }
+        return out;
+    }
+
+    static ScoreStore read(Path store) {
+        return StoreReader.read(store);
+    }
+}
