@@ -23,3 +23,15 @@ edgewise_driver_classpath() {
 edgewise_job_classpath() {
   echo "$root/job/target/edgewise-job.jar:$root/driver/target/edgewise-driver.jar:$(cat "$root/job/target/classpath.txt")"
 }
+
+# The jars a cluster's executors need beyond the Spark it ships, comma-separated (the value of
+# spark.jars / spark-submit --jars): the thin job jar, the Spark-free driver library and those
+# of the driver's dependencies that a Spark distribution lacks. Executors fetch them from the
+# driver; nothing of Edgewise has to be installed on the workers.
+edgewise_app_jars() {
+  local extra
+  extra=$(tr ':' '\n' < "$root/job/target/classpath.txt" \
+    | grep -E '/(picocli|progressbar|jline-[a-z]+)-[0-9][^/]*\.jar$' | paste -sd, -)
+  echo "$root/job/target/edgewise-job.jar,$root/driver/target/edgewise-driver.jar${extra:+,$extra}"
+}
+

@@ -56,6 +56,9 @@ public final class StoreWriter {
             Files.createDirectory(tmp);
             long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
             writeScores(tmp.resolve(StoreFormat.SCORES), families, logScores);
+            // the same counts and scores give the same bytes (and SHA-256) in every run
+            ParquetFooters.canonicalize(tmp.resolve(StoreFormat.COUNTS));
+            ParquetFooters.canonicalize(tmp.resolve(StoreFormat.SCORES));
             StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
                     sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
                     sha256(tmp.resolve(StoreFormat.COUNTS)));
