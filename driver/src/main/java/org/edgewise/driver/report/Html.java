@@ -50,7 +50,10 @@ public final class Html {
 
     /** A coordinate for SVG (one decimal). */
     public static String c(double v) {
-        return String.format(Locale.ROOT, "%.1f", v);
+        long tenths = Math.round(v * 10); // as "%.1f" but without the formatter (SVGs hold many coordinates)
+        String sign = tenths < 0 ? "-" : "";
+        long t = Math.abs(tenths);
+        return sign + t / 10 + "." + t % 10;
     }
 
     /** A probability for people: two decimals, "&lt;0.01" / "&gt;0.99" near the ends. */

@@ -25,6 +25,8 @@ public final class HtmlReport {
     public static final double SENSITIVITY_CHANGE = 0.1;
     /** Parent sets shown per variable. */
     public static final int TOP_PARENT_SETS = 3;
+    /** Rows of the sensitivity table at most. */
+    public static final int MAX_SENSITIVE_ROWS = 100;
 
     private static final String CSS = """
             body{font-family:system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;margin:24px auto;max-width:1150px;color:#1f2d3d;line-height:1.45;padding:0 16px}
@@ -362,7 +364,11 @@ public final class HtmlReport {
             idx[i] = i;
         }
         java.util.Arrays.sort(idx, Comparator.comparingDouble(i -> -spread.get(i)));
+        int shown = 0;
         for (int i : idx) {
+            if (shown++ == MAX_SENSITIVE_ROWS) {
+                break;
+            }
             int a = changed.get(i)[0];
             int b = changed.get(i)[1];
             h.append("<tr><td>").append(esc(main.variables().get(a) + " \u2192 " + main.variables().get(b))).append("</td>");
@@ -373,6 +379,10 @@ public final class HtmlReport {
             h.append("<td class=\"num\">").append(f(spread.get(i), 3)).append("</td></tr>\n");
         }
         h.append("</table>\n");
+        if (changed.size() > MAX_SENSITIVE_ROWS) {
+            h.append("<p class=\"cap\">").append(changed.size()).append(" edges change; the ").append(MAX_SENSITIVE_ROWS)
+                    .append(" that change most are shown.</p>\n");
+        }
         if (changed.isEmpty()) {
             h.append("<p>No edge posterior changes by more than ").append(f(SENSITIVITY_CHANGE, 1))
                     .append(" across these ESS values.</p>\n");

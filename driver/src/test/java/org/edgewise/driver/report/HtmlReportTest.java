@@ -66,6 +66,34 @@ class HtmlReportTest {
         assertTrue(heat.getElementsByTagName("rect").getLength() >= 13 * 13 + 1);
     }
 
+    /** Forty variables with random posteriors (a dense, messy consensus graph) still give well-formed SVG. */
+    @Test
+    void manyVariablesStayWellFormed() throws Exception {
+        int n = 40;
+        List<String> names = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            names.add("variable_" + i);
+        }
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(1);
+        List<EdgeResult.Edge> edges = new ArrayList<>();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a != b) {
+                    edges.add(new EdgeResult.Edge(names.get(a), names.get(b), Math.pow(rng.nextDouble(), 6)));
+                }
+            }
+        }
+        EdgeResult r = new EdgeResult("mcmc", names, null, null, null, null, null, null, edges, null, null, null, null, null);
+        String html = HtmlReport.render(r, "big.json", null, null, 0.3);
+        List<String> svgs = svgs(html);
+        assertEquals(2, svgs.size());
+        for (String svg : svgs) {
+            parseXml(svg);
+        }
+        assertTrue(html.contains("(the first 60)"), "the strongest-edges table is capped");
+        assertEquals("-0.1 0.0 12.3 -12.3", Html.c(-0.06) + " " + Html.c(0.04) + " " + Html.c(12.34) + " " + Html.c(-12.34));
+    }
+
     @Test
     void namesFromTheDataAreEscaped() throws Exception {
         EdgeResult r = ReportFixtures.tiny(List.of(EVIL, "b & 'c'", "\"q\""));
