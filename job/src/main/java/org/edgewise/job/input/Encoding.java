@@ -9,7 +9,7 @@ import org.edgewise.driver.store.Variable;
 /**
  * How raw values become state indices: per variable its ordered state labels (a map from label
  * to index) or, for a discretised column, its bin edges; the state of a missing value (when the
- * policy is {@code state}); whether rows with a missing value are dropped.
+ * policy is {@code state}). Rows dropped for missing values never reach it.
  */
 public final class Encoding implements Serializable {
     private static final long serialVersionUID = 1L;
@@ -21,20 +21,17 @@ public final class Encoding implements Serializable {
     private final HashMap<String, Integer>[] index;
     private final double[][] edges;
     private final int[] missingState;
-    private final boolean drop;
 
     /**
      * @param fields       row field of each variable
      * @param variables    the variables (labels; bin edges for discretised ones)
      * @param missingState per variable, the state index of a missing value, or −1
-     * @param drop         skip rows with a missing value
      */
     @SuppressWarnings("unchecked")
-    public Encoding(int[] fields, List<Variable> variables, int[] missingState, boolean drop) {
+    public Encoding(int[] fields, List<Variable> variables, int[] missingState) {
         this.fields = fields.clone();
         this.variables = List.copyOf(variables);
         this.missingState = missingState.clone();
-        this.drop = drop;
         int n = fields.length;
         this.arity = new int[n];
         for (int v = 0; v < n; v++) {

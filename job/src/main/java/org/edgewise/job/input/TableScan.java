@@ -217,7 +217,7 @@ public final class TableScan {
             }
             variables.add(new Variable(names.get(v), states, edges));
         }
-        return new Result(new Encoding(fields, variables, missingState, o.missing() == MissingPolicy.DROP), rawBlocks, stats);
+        return new Result(new Encoding(fields, variables, missingState), rawBlocks, stats);
     }
 
     /** States in numeric order when every value is a number (ties by text), otherwise lexicographic. */
