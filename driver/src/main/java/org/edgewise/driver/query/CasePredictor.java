@@ -343,6 +343,43 @@ public final class CasePredictor {
             base[d] = b;
             varying[d] = Arrays.copyOf(vary, nv);
         }
+        // Tabulate each dependent factor over the joint states of the hidden variables it depends
+        // on (usually one or two), so the enumeration below only looks values up.
+        double[][] logTable = new double[dependent.length][];
+        int[][] on = new int[dependent.length][];
+        for (int d = 0; d < dependent.length; d++) {
+            int c = dependent[d];
+            boolean[] uses = new boolean[n];
+            uses[c] = isHidden[c];
+            for (int t : varying[d]) {
+                for (int p : parents[c][t]) {
+                    uses[p] |= isHidden[p];
+                }
+            }
+            int[] hs = Arrays.stream(hidden).filter(h -> uses[h]).toArray();
+            int size = 1;
+            for (int h : hs) {
+                size *= arity[h];
+            }
+            double[] table = new double[size];
+            for (int h : hs) {
+                x[h] = 0;
+            }
+            for (int cell = 0; cell < size; cell++) {
+                double f = base[d][x[c]];
+                for (int t : varying[d]) {
+                    f += term(c, t, x);
+                }
+                table[cell] = Math.log(f);
+                int i = hs.length - 1;
+                while (i >= 0 && ++x[hs[i]] == arity[hs[i]]) {
+                    x[hs[i]] = 0;
+                    i--;
+                }
+            }
+            logTable[d] = table;
+            on[d] = hs;
+        }
         for (int h : hidden) {
             x[h] = 0;
         }
@@ -350,12 +387,11 @@ public final class CasePredictor {
         while (true) {
             double lp = 0;
             for (int d = 0; d < dependent.length; d++) {
-                int c = dependent[d];
-                double f = base[d][x[c]];
-                for (int t : varying[d]) {
-                    f += term(c, t, x);
+                int cell = 0;
+                for (int h : on[d]) {
+                    cell = cell * arity[h] + x[h];
                 }
-                lp += Math.log(f);
+                lp += logTable[d][cell];
             }
             acc = LogSum.add(acc, lp);
             int i = 0;

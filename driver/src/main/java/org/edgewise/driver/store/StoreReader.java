@@ -77,6 +77,14 @@ public final class StoreReader {
 
     /** Reads the whole store and checks that its parts agree with the manifest. */
     public static ScoreStore read(Path dir) {
+        return read(dir, true);
+    }
+
+    /**
+     * As {@link #read(Path)}; {@code columnLevel = false} forces record-by-record reading, the
+     * fallback for parts whose schema differs from {@link StoreFormat}'s (for benchmarks).
+     */
+    public static ScoreStore read(Path dir, boolean columnLevel) {
         Manifest m = readManifest(dir);
         StoreParts parts = m.parts();
         Path scoresFile = dir.resolve(parts.scoresFile());
@@ -91,7 +99,7 @@ public final class StoreReader {
         List<long[]> configs = new ArrayList<>(families);
         List<long[]> counts = new ArrayList<>(families);
         try {
-            if (isColumnar(scoresFile, StoreFormat.SCORES_SCHEMA)) {
+            if (columnLevel && isColumnar(scoresFile, StoreFormat.SCORES_SCHEMA)) {
                 readScoresColumnar(dir, parts, scoresFile, n, childOf, parentsOf, scores);
             } else {
                 readScoresByRecord(dir, parts, scoresFile, n, childOf, parentsOf, scores);
@@ -102,7 +110,7 @@ public final class StoreReader {
         long rows;
         try {
             CountsSink sink = new CountsSink(dir, parts, m, childOf, configs, counts);
-            if (isColumnar(countsFile, StoreFormat.COUNTS_SCHEMA)) {
+            if (columnLevel && isColumnar(countsFile, StoreFormat.COUNTS_SCHEMA)) {
                 readCountsColumnar(countsFile, sink);
             } else {
                 readCountsByRecord(countsFile, sink);
