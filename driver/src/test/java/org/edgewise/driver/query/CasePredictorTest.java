@@ -92,6 +92,8 @@ class CasePredictorTest {
             int[] x = complete.get(c);
             ratio[c] = logEvidence(HeldOutData.plus(rows, x), d, fs, o) - base;
             assertEquals(ratio[c], p.logProbability(x), 1e-9, "complete case " + Arrays.toString(x));
+            // Binary search over the stored configurations instead of dense tables: same value.
+            assertEquals(ratio[c], p.sparse().logProbability(x), 1e-9, "sparse lookup " + Arrays.toString(x));
         }
         int[][] partial = {{1, H, H, H}, {H, 2, H, H}, {H, H, 1, H}, {0, H, 1, 2}, {H, 0, H, 1}, {1, 1, H, H}};
         for (int[] x : partial) {
@@ -102,6 +104,7 @@ class CasePredictorTest {
                 }
             }
             assertEquals(Math.log(sum), p.logProbability(x), 1e-9, "partial case " + Arrays.toString(x));
+            assertEquals(Math.log(sum), p.sparse().logProbability(x), 1e-9, "sparse lookup " + Arrays.toString(x));
         }
     }
 
