@@ -27,6 +27,7 @@ final class ChildTables {
         }
         Arrays.sort(byK, (a, b) -> Integer.compare(ls.candidates(a).length, ls.candidates(b).length));
         long used = 0;
+        java.util.List<Integer> chosen = new java.util.ArrayList<>();
         for (int i : byK) {
             int k = ls.candidates(i).length;
             long bytes = 8L << k;
@@ -34,6 +35,11 @@ final class ChildTables {
                 break;
             }
             used += bytes;
+            chosen.add(i);
+        }
+        // children are independent: build their tables on all cores
+        chosen.parallelStream().forEach(i -> {
+            int k = ls.candidates(i).length;
             double[] t = new double[1 << k];
             Arrays.fill(t, Double.NEGATIVE_INFINITY);
             long[] masks = ls.masks(i);
@@ -44,7 +50,7 @@ final class ChildTables {
             }
             ExactOrderSum.subsetZeta(t, k);
             table[i] = t;
-        }
+        });
     }
 
     /** The table of {@code child}, or null when it is summed directly. */

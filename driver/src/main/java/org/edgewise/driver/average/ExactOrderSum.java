@@ -44,8 +44,12 @@ import org.edgewise.driver.UserError;
 public final class ExactOrderSum {
     /** Largest n the array layout supports (2^n entries per array must fit an int index). */
     public static final int MAX_VARIABLES = 30;
-    /** Nanoseconds per log-addition on one core, measured by the benchmark (scripts/bench unknown-order). */
-    static final double NANOS_PER_OP = 12.0;
+    /**
+     * Nanoseconds per log-addition on one idle core (a rough figure: about 10–20 ns on current x86
+     * cores; the benchmark, scripts/bench unknown-order, measured ~100 ns per op and core on a
+     * machine shared with a load average of 12, see docs/unknown-order.md).
+     */
+    static final double NANOS_PER_OP = 20.0;
 
     private ExactOrderSum() {
     }
@@ -67,13 +71,20 @@ public final class ExactOrderSum {
     public record Estimate(int n, long bytes, double seconds, int largestN) {
         @Override
         public String toString() {
-            return String.format("exact sum over orders for n = %d needs about %.1f GiB and %.0f s here; this JVM allows n <= %d",
-                    n, bytes / (double) (1L << 30), seconds, largestN);
+            double gib = 8.0 * (n * Math.pow(2, n - 1) + 2 * Math.pow(2, n)) / (1L << 30);
+            return String.format(java.util.Locale.ROOT,
+                    "exact sum over orders for n = %d needs about %s GiB and %s s on idle cores here; this JVM allows n <= %d",
+                    n, gib < 1e4 ? String.format(java.util.Locale.ROOT, "%.1f", gib) : String.format(java.util.Locale.ROOT, "%.1e", gib),
+                    seconds < 1e6 ? String.format(java.util.Locale.ROOT, "%.0f", seconds) : String.format(java.util.Locale.ROOT, "%.1e", seconds),
+                    largestN);
         }
     }
 
     /** Bytes the DP arrays take for n variables. */
     public static long bytes(int n) {
+        if (n > 50) {
+            return Long.MAX_VALUE; // far beyond any heap (and beyond a long's shifts)
+        }
         return 8L * ((long) n * (1L << (n - 1)) + 2L * (1L << n));
     }
 
@@ -205,8 +216,12 @@ public final class ExactOrderSum {
                 int s = expand(c, i);
                 g[c] = fwd[s] + bwd[s | (1 << i)];
             }
-            supersetZeta(g, n - 1);
             long[] masks = ls.masks(i);
+            int dMax = 0;
+            for (long m : masks) {
+                dMax = Math.max(dMax, Long.bitCount(m));
+            }
+            supersetZetaUpTo(g, n - 1, dMax);
             double[] w = ls.weights(i);
             int[] cand = ls.candidates(i);
             double[] col = new double[n];
@@ -353,6 +368,51 @@ public final class ExactOrderSum {
                     a[k] = logAdd(a[k], a[k + b]);
                 }
             }
+        }
+    }
+
+    /**
+     * As {@link #supersetZeta}, but correct only at the entries with at most {@code d} bits set
+     * (the others are left partly summed): an entry T lacking bit b needs updating at the stage of
+     * bit b only while T has at most d of the bits already processed, since later stages never
+     * read entries with more. Work Σ_b C(b, ≤d)·2^(bits−1−b) ≈ 2^(bits−1)·Σ_{k≤d} 2 = (d+1)·2^bits
+     * log-additions instead of bits·2^(bits−1) — a third at n = 25, d = 3 (Koivisto 2006 uses
+     * truncated transforms in the same spirit).
+     */
+    static void supersetZetaUpTo(double[] a, int bits, int d) {
+        if (d >= bits) {
+            supersetZeta(a, bits);
+            return;
+        }
+        for (int b = 0; b < bits; b++) {
+            int[] lows = lowMasks(b, d);
+            int bit = 1 << b;
+            int highCount = 1 << (bits - 1 - b);
+            for (int hi = 0; hi < highCount; hi++) {
+                int base = hi << (b + 1);
+                for (int lo : lows) {
+                    int k = base | lo;
+                    a[k] = logAdd(a[k], a[k | bit]);
+                }
+            }
+        }
+    }
+
+    /** All masks over {@code b} bits with at most {@code d} bits set, increasing. */
+    static int[] lowMasks(int b, int d) {
+        java.util.List<Integer> out = new java.util.ArrayList<>();
+        collect(b, d, 0, 0, out);
+        int[] r = out.stream().mapToInt(Integer::intValue).sorted().toArray();
+        return r;
+    }
+
+    private static void collect(int b, int d, int from, int mask, java.util.List<Integer> out) {
+        out.add(mask);
+        if (d == 0) {
+            return;
+        }
+        for (int x = from; x < b; x++) {
+            collect(b, d - 1, x + 1, mask | (1 << x), out);
         }
     }
 

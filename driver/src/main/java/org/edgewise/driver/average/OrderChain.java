@@ -39,6 +39,7 @@ final class OrderChain {
     private final double[] logSum;
     private double score;
     private final SplittableRandom rng;
+    private final SplittableRandom featureRng;
     private final long[][] cacheKey;
     private final double[][] cacheVal;
     private final boolean[][] cacheUsed;
@@ -68,6 +69,8 @@ final class OrderChain {
         this.edgeCount = edgeOffset[n];
         this.features = features;
         this.rng = rng;
+        // split off before any use, features on or off, so the chain's own stream is the same either way
+        this.featureRng = rng.split();
         this.cacheKey = new long[n][];
         this.cacheVal = new double[n][];
         this.cacheUsed = new boolean[n][];
@@ -282,7 +285,7 @@ final class OrderChain {
         trace.add(score);
         orderDraws.add(order.clone());
         if (features) {
-            featureDraws.add(DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, rng), order));
+            featureDraws.add(DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order));
         }
     }
 }

@@ -82,9 +82,16 @@ public final class OrderConstraints {
                 }
             }
         }
-        for (EdgeRule e : ls.options().require()) {
+        List<EdgeRule> required = new ArrayList<>(ls.options().require());
+        if (ls.store().manifest().required() != null) {
+            required.addAll(ls.store().manifest().required());
+        }
+        for (EdgeRule e : required) {
             int a = ls.store().manifest().variableIndex(e.from());
             int b = ls.store().manifest().variableIndex(e.to());
+            if (a < 0 || b < 0) {
+                continue;
+            }
             if (tier[a] >= 0 && tier[b] >= 0 && tier[a] > tier[b]) {
                 throw new UserError("--require " + e + " contradicts --tiers: " + e.from() + " is in a later tier than " + e.to());
             }

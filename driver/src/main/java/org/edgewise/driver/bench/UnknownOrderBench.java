@@ -34,9 +34,23 @@ public final class UnknownOrderBench {
             case "mcmc-cand" -> mcmc(Integer.parseInt(args[1]), Integer.parseInt(args[3]), Long.parseLong(args[4]),
                     Integer.parseInt(args[2]));
             case "exact" -> exact(Integer.parseInt(args[1]), Integer.parseInt(args[2]));
+            case "zeta" -> zeta(Integer.parseInt(args[1]), Integer.parseInt(args[2]));
             case "estimate" -> System.out.println(ExactOrderSum.estimateHere(Integer.parseInt(args[1])));
             default -> throw new IllegalArgumentException("unknown benchmark " + what);
         }
+    }
+
+    /** CPU time of this process (all threads), seconds: the machine is shared, so wall time alone misleads. */
+    static double cpu() {
+        var os = java.lang.management.ManagementFactory.getOperatingSystemMXBean();
+        if (os instanceof com.sun.management.OperatingSystemMXBean sun) {
+            return sun.getProcessCpuTime() / 1e9;
+        }
+        return Double.NaN;
+    }
+
+    static double load() {
+        return java.lang.management.ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage();
     }
 
     static LocalScores scores(int n, int d, int k) {
@@ -83,21 +97,45 @@ public final class UnknownOrderBench {
         OrderMcmc.Settings s = OrderMcmc.Settings.defaults(1).withSteps(steps, steps / 4).withChains(1);
         OrderMcmc.run(ls, OrderConstraints.none(n), s.withSteps(Math.min(steps, 20_000), 1000), null); // warm-up
         long t0 = System.nanoTime();
+        double c0 = cpu();
         OrderMcmc.Result r1 = OrderMcmc.run(ls, OrderConstraints.none(n), s, null);
         double sec1 = (System.nanoTime() - t0) / 1e9;
+        double cpu1 = cpu() - c0;
         long total = steps + steps / 4;
         System.out.printf("mcmc n=%d d=%d%s: 1 chain %d steps in %.2f s = %.0f steps/s per chain (acceptance %.3f; tables %.2f s before)%n",
                 n, d, k < 0 ? "" : " candidates<=" + 2 * k, total, r1.samplingSeconds(), total / r1.samplingSeconds(),
                 r1.acceptance(), r1.setupSeconds());
         t0 = System.nanoTime();
+        c0 = cpu();
         OrderMcmc.Result r4 = OrderMcmc.run(ls, OrderConstraints.none(n), s.withChains(4), null);
         double sec4 = (System.nanoTime() - t0) / 1e9;
+        double cpu4 = cpu() - c0;
         System.out.printf("mcmc n=%d d=%d%s: 4 chains x %d steps in %.2f s = %.0f steps/s per chain; max R-hat %.4f, min ESS %.0f%n",
                 n, d, k < 0 ? "" : " candidates<=" + 2 * k, total, r4.samplingSeconds(), total / r4.samplingSeconds(),
                 r4.maxRhat(), r4.minEss());
-        System.out.printf("  (wall time including tables and diagnostics: 1 chain %.2f s, 4 chains %.2f s; %d processors, load average %.1f)%n",
-                sec1, sec4, Runtime.getRuntime().availableProcessors(),
-                java.lang.management.ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage());
+        System.out.printf("  (whole runs including tables and diagnostics: 1 chain %.2f s wall / %.2f s CPU, 4 chains %.2f s wall / %.2f s CPU;"
+                + " %d processors, load average %.1f)%n", sec1, cpu1, sec4, cpu4, Runtime.getRuntime().availableProcessors(), load());
+    }
+
+    /** Full vs truncated superset transform on one child's array of 2^(n-1), side by side. */
+    static void zeta(int n, int d) {
+        double[] base = new double[1 << (n - 1)];
+        java.util.SplittableRandom r = new java.util.SplittableRandom(5);
+        for (int k = 0; k < base.length; k++) {
+            base[k] = -1000 * r.nextDouble();
+        }
+        for (int rep = 0; rep < 2; rep++) {
+            double[] a = base.clone();
+            double c0 = cpu();
+            org.edgewise.driver.average.ZetaAccess.full(a, n - 1);
+            double full = cpu() - c0;
+            a = base.clone();
+            c0 = cpu();
+            org.edgewise.driver.average.ZetaAccess.upTo(a, n - 1, d);
+            double trunc = cpu() - c0;
+            System.out.printf("superset transform over 2^%d entries: full %.2f s CPU, truncated to |U| <= %d %.2f s CPU (ratio %.2f)%n",
+                    n - 1, full, d, trunc, full / trunc);
+        }
     }
 
     static void exact(int n, int d) {
@@ -105,12 +143,14 @@ public final class UnknownOrderBench {
         LocalScores ls = scores(n, d, -1);
         Runtime rt = Runtime.getRuntime();
         long t0 = System.nanoTime();
+        double c0 = cpu();
         ExactOrderSum.Result r = ExactOrderSum.run(ls, OrderConstraints.none(n));
         double sec = (System.nanoTime() - t0) / 1e9;
+        double cpuSec = cpu() - c0;
         long used = rt.totalMemory() - rt.freeMemory();
         double maxEdge = Arrays.stream(r.edgePosterior()).flatMapToDouble(Arrays::stream).max().orElse(0);
-        System.out.printf("exact n=%d d=%d: all %d edge posteriors in %.1f s, DP arrays %.2f GiB (heap in use after %.2f GiB, max %.1f GiB); logEvidence %.3f, largest edge posterior %.3f%n",
-                n, d, n * (n - 1), sec, ExactOrderSum.bytes(n) / (double) (1L << 30), used / (double) (1L << 30),
+        System.out.printf("exact n=%d d=%d: all %d edge posteriors in %.1f s wall, %.1f s CPU (~%.1f s on 2 idle cores), load average %.1f; DP arrays %.2f GiB (heap in use after %.2f GiB, max %.1f GiB); logEvidence %.3f, largest edge posterior %.3f%n",
+                n, d, n * (n - 1), sec, cpuSec, cpuSec / 2, load(), ExactOrderSum.bytes(n) / (double) (1L << 30), used / (double) (1L << 30),
                 rt.maxMemory() / (double) (1L << 30), r.logEvidence(), maxEdge);
     }
 }

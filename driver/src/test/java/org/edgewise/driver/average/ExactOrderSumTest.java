@@ -98,6 +98,8 @@ class ExactOrderSumTest {
         assertEquals(8L * (30L * (1L << 29) + 2L * (1L << 30)), e.bytes());
         assertEquals(25, e.largestN());
         assertTrue(e.toString().contains("this JVM allows n <= 25"), e.toString());
+        assertTrue(e.toString().startsWith("exact sum over orders for n = 30 needs about 136.0 GiB"), e.toString());
+        assertTrue(ExactOrderSum.estimate(100, 2, 4L << 30).toString().contains("needs about 4.9e+23 GiB"));
     }
 
     @Test
@@ -124,6 +126,22 @@ class ExactOrderSumTest {
             }
             assertEquals(ds, sub[s], 1e-12);
             assertEquals(dp, sup[s], 1e-12);
+        }
+        // truncated superset transform: exact on the entries with at most d bits
+        double[] y = new double[1 << 7];
+        for (int k = 0; k < y.length; k++) {
+            y[k] = r.nextDouble() * 20 - 10;
+        }
+        double[] full = y.clone();
+        ExactOrderSum.supersetZeta(full, 7);
+        for (int d = 0; d <= 7; d++) {
+            double[] t = y.clone();
+            ExactOrderSum.supersetZetaUpTo(t, 7, d);
+            for (int k = 0; k < y.length; k++) {
+                if (Integer.bitCount(k) <= d) {
+                    assertEquals(full[k], t[k], 1e-12, "d=" + d + " k=" + k);
+                }
+            }
         }
         assertThrows(UserError.class, () -> { throw new UserError("x"); });
     }
