@@ -71,9 +71,10 @@ public final class TallyJob {
         LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
                 names.size(), describeArities(names, arity));
 
-        JavaRDD<Block> blocks = scan.rows().mapPartitions(enc::blocks).persist(StorageLevel.MEMORY_AND_DISK_SER());
+        JavaRDD<Block> blocks = scan.rawBlocks().map(enc::encode).persist(StorageLevel.MEMORY_AND_DISK_SER());
         try {
             long[] fp = blocks.map(Block::fingerprint).reduce((a, b) -> new long[] {a[0] + b[0], a[1] + b[1], a[2] ^ b[2]});
+            scan.rawBlocks().unpersist(false);
             long rows = fp[0];
             if (rows != scan.countedRows()) {
                 throw new IllegalStateException("encoded " + rows + " rows, expected " + scan.countedRows());
@@ -126,6 +127,7 @@ public final class TallyJob {
                     counted.batches(), plan.totalCells(), secs, fingerprint);
         } finally {
             blocks.unpersist(false);
+            scan.rawBlocks().unpersist(false);
         }
     }
 

@@ -109,6 +109,17 @@ public final class LocalScores {
                     requiredMask |= 1L << pos;
                 }
             }
+            if (Long.bitCount(requiredMask) > m.maxParents()) {
+                List<String> req = new ArrayList<>();
+                for (int pos = 0; pos < cand.length; pos++) {
+                    if ((requiredMask >>> pos & 1L) != 0) {
+                        req.add(m.variables().get(cand[pos]).name());
+                    }
+                }
+                throw new UserError("--require is impossible: variable " + m.variables().get(child).name() + " would need "
+                        + req.size() + " parents (" + String.join(", ", req) + ") but the store's in-degree bound d is "
+                        + m.maxParents());
+            }
             List<Integer> kept = new ArrayList<>();
             List<Long> keptMasks = new ArrayList<>();
             for (int f = from; f < to; f++) {

@@ -14,7 +14,9 @@ import picocli.CommandLine.Command;
 @Command(name = "edgewise", mixinStandardHelpOptions = true, versionProvider = EdgewiseCli.Version.class,
         description = "Bayesian model averaging over network structures for discrete tables.%n"
                 + "Commands: tally (Spark job: counts and family scores into a score store), then any of the others on the store.",
-        subcommands = {CommandLine.HelpCommand.class, TallyPlaceholder.class, ScoresCommand.class})
+        subcommands = {CommandLine.HelpCommand.class, TallyPlaceholder.class, ScoresCommand.class,
+                EdgesCommand.class, PredictCommand.class, SimulateCommand.class, ReportCommand.class,
+                CompareCommand.class})
 public final class EdgewiseCli implements Runnable {
     /** Exit status for a user mistake (bad option, bad file, damaged store). */
     public static final int USER_ERROR = 2;

@@ -142,12 +142,31 @@ public final class CoverBatch implements Serializable {
                     }
                 }
             }
-            for (int s : groupMembers[g]) {
-                int[] set = sets[s];
+            int[] ms = groupMembers[g];
+            int i = 0;
+            // members two at a time: one load of the prefix index feeds two independent increment
+            // chains, which hides the latency of repeated increments of the same cell
+            for (; i + 1 < ms.length; i += 2) {
+                int[] s1 = sets[ms[i]];
+                int[] s2 = sets[ms[i + 1]];
+                byte[] l1 = cols[s1[s1.length - 1]];
+                byte[] l2 = cols[s2[s2.length - 1]];
+                int r1 = arity[s1[s1.length - 1]];
+                int r2 = arity[s2[s2.length - 1]];
+                int o1 = offset[ms[i]];
+                int o2 = offset[ms[i + 1]];
+                for (int t = 0; t < n; t++) {
+                    int p = pre[t];
+                    counts[o1 + p * r1 + (l1[t] & 0xFF)]++;
+                    counts[o2 + p * r2 + (l2[t] & 0xFF)]++;
+                }
+            }
+            if (i < ms.length) {
+                int[] set = sets[ms[i]];
                 int last = set[set.length - 1];
                 byte[] cl = cols[last];
                 int r = arity[last];
-                int off = offset[s];
+                int off = offset[ms[i]];
                 for (int t = 0; t < n; t++) {
                     counts[off + pre[t] * r + (cl[t] & 0xFF)]++;
                 }

@@ -1,31 +1,36 @@
 package org.edgewise.job.input;
 
 import java.io.Serializable;
-import java.util.HashSet;
-import java.util.Iterator;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.Map;
 import java.util.Set;
 import org.apache.spark.sql.Row;
 
 /**
- * What one pass over the rows learns about the selected columns: distinct values (at most
- * {@code cap} kept per column — beyond that only "too many" is known), missing counts, whether
- * every value parses as a number (and the range), and the number of rows, malformed rows and rows
- * dropped for missing values. One instance per partition, merged on the driver.
+ * What the one pass over the rows learns about the selected columns, for one block of rows or
+ * (merged) for the whole table: the distinct values of each column with a block-local code (at
+ * most {@code cap} kept — beyond that only "too many" is known), missing counts, for discretised
+ * columns whether every value is a number and the range, and the numbers of rows read, malformed
+ * rows and rows dropped for missing values.
  *
  * <p>Memory: at most {@code cap} strings per column plus a few primitives — independent of the
  * number of rows.
  */
 public final class ColumnStats implements Serializable {
-    private static final long serialVersionUID = 1L;
+    private static final long serialVersionUID = 2L;
+    /** Block-local code of a missing value. */
+    static final int MISSING_CODE = 255;
 
     final int[] fields;
     final boolean[] binned;
     final int cap;
     final boolean dropMissing;
     final int corruptField;
-    final HashSet<String>[] distinct;
+    final HashMap<String, Integer>[] codes;
     final boolean[] overflow;
     final long[] missing;
+    /** binned columns: every value so far a number; other columns: only meaningful after overflow. */
     final boolean[] numeric;
     final double[] min;
     final double[] max;
@@ -35,8 +40,8 @@ public final class ColumnStats implements Serializable {
 
     /**
      * @param fields       row field index of each selected column
-     * @param binned       whether each selected column is to be discretised (distinct values not kept)
-     * @param cap          distinct values kept per column
+     * @param binned       whether each selected column is to be discretised (values kept as numbers)
+     * @param cap          distinct values kept per column (at most 255)
      * @param dropMissing  rows with a missing selected value are dropped (and not counted in the states)
      * @param corruptField field holding the malformed-row text, or −1
      */
@@ -48,40 +53,43 @@ public final class ColumnStats implements Serializable {
         this.cap = cap;
         this.dropMissing = dropMissing;
         this.corruptField = corruptField;
-        this.distinct = new HashSet[n];
+        this.codes = new HashMap[n];
         for (int i = 0; i < n; i++) {
-            distinct[i] = new HashSet<>();
+            codes[i] = new HashMap<>();
         }
         this.overflow = new boolean[n];
         this.missing = new long[n];
         this.numeric = new boolean[n];
-        java.util.Arrays.fill(numeric, true);
+        Arrays.fill(numeric, true);
         this.min = new double[n];
         this.max = new double[n];
-        java.util.Arrays.fill(min, Double.POSITIVE_INFINITY);
-        java.util.Arrays.fill(max, Double.NEGATIVE_INFINITY);
+        Arrays.fill(min, Double.POSITIVE_INFINITY);
+        Arrays.fill(max, Double.NEGATIVE_INFINITY);
     }
 
-    /** Adds every row of a partition and returns {@code this}. */
-    public ColumnStats addAll(Iterator<Row> it) {
-        while (it.hasNext()) {
-            add(it.next());
-        }
-        return this;
+    /** A fresh, empty instance with the same settings. */
+    ColumnStats empty() {
+        return new ColumnStats(fields, binned, cap, dropMissing, corruptField);
     }
 
-    void add(Row r) {
+    /**
+     * Adds one row and writes its block-local codes (categorical columns, {@link #MISSING_CODE} for
+     * missing) or values (discretised columns, NaN for missing or not a number) into slot t.
+     *
+     * @return false when the row is malformed or dropped (slot t not used)
+     */
+    boolean add(Row r, byte[][] out, double[][] values, int t) {
         rows++;
         if (corruptField >= 0 && !r.isNullAt(corruptField)) {
             malformed++;
-            return;
+            return false;
         }
         int n = fields.length;
         if (dropMissing) {
             for (int i = 0; i < n; i++) {
                 if (isMissing(r, fields[i])) {
                     dropped++;
-                    return;
+                    return false;
                 }
             }
         }
@@ -89,25 +97,53 @@ public final class ColumnStats implements Serializable {
             String v = r.isNullAt(fields[i]) ? null : r.getString(fields[i]);
             if (v == null || v.isEmpty()) {
                 missing[i]++;
+                if (binned[i]) {
+                    values[i][t] = Double.NaN;
+                } else {
+                    out[i][t] = (byte) MISSING_CODE;
+                }
                 continue;
             }
-            if (numeric[i]) {
+            if (binned[i]) {
                 double x = parse(v);
+                values[i][t] = x;
                 if (Double.isNaN(x)) {
                     numeric[i] = false;
                 } else {
                     min[i] = Math.min(min[i], x);
                     max[i] = Math.max(max[i], x);
                 }
-            }
-            if (!binned[i] && !overflow[i]) {
-                distinct[i].add(v);
-                if (distinct[i].size() > cap) {
-                    overflow[i] = true;
-                    distinct[i].clear();
+            } else if (!overflow[i]) {
+                Integer c = codes[i].get(v);
+                if (c == null) {
+                    if (codes[i].size() >= cap) {
+                        setOverflow(i);
+                        continue;
+                    }
+                    c = codes[i].size();
+                    codes[i].put(v, c);
                 }
+                out[i][t] = (byte) (int) c;
+            } else if (numeric[i] && Double.isNaN(parse(v))) {
+                numeric[i] = false;
             }
         }
+        return true;
+    }
+
+    private void setOverflow(int i) {
+        overflow[i] = true;
+        numeric[i] = allNumeric(codes[i].keySet());
+        codes[i].clear();
+    }
+
+    static boolean allNumeric(Set<String> values) {
+        for (String s : values) {
+            if (Double.isNaN(parse(s))) {
+                return false;
+            }
+        }
+        return true;
     }
 
     static boolean isMissing(Row r, int field) {
@@ -128,27 +164,37 @@ public final class ColumnStats implements Serializable {
         }
     }
 
-    /** Merges {@code o} into this and returns this. */
+    /** Merges {@code o} into this (codes are renumbered: only the distinct values matter) and returns this. */
     public ColumnStats merge(ColumnStats o) {
         rows += o.rows;
         malformed += o.malformed;
         dropped += o.dropped;
         for (int i = 0; i < fields.length; i++) {
             missing[i] += o.missing[i];
-            numeric[i] &= o.numeric[i];
             min[i] = Math.min(min[i], o.min[i]);
             max[i] = Math.max(max[i], o.max[i]);
+            if (binned[i]) {
+                numeric[i] &= o.numeric[i];
+                continue;
+            }
+            boolean otherNumeric = o.overflow[i] ? o.numeric[i] : allNumeric(o.codes[i].keySet());
             if (!overflow[i]) {
                 if (o.overflow[i]) {
-                    overflow[i] = true;
-                    distinct[i].clear();
+                    setOverflow(i);
                 } else {
-                    distinct[i].addAll(o.distinct[i]);
-                    if (distinct[i].size() > cap) {
-                        overflow[i] = true;
-                        distinct[i].clear();
+                    for (String s : o.codes[i].keySet()) {
+                        if (!codes[i].containsKey(s)) {
+                            if (codes[i].size() >= cap) {
+                                setOverflow(i);
+                                break;
+                            }
+                            codes[i].put(s, codes[i].size());
+                        }
                     }
                 }
+            }
+            if (overflow[i]) {
+                numeric[i] &= otherNumeric;
             }
         }
         return this;
@@ -174,13 +220,25 @@ public final class ColumnStats implements Serializable {
         return overflow[i];
     }
 
+    /** Distinct values of a categorical column (empty after overflow). */
     public Set<String> distinct(int i) {
-        return distinct[i];
+        return codes[i].keySet();
+    }
+
+    /** Block-local codes of a categorical column's values. */
+    Map<String, Integer> codes(int i) {
+        return codes[i];
     }
 
     /** True when every non-missing value of column i is a finite number (and there is at least one). */
     public boolean numeric(int i) {
-        return numeric[i] && min[i] <= max[i];
+        if (binned[i]) {
+            return numeric[i] && min[i] <= max[i];
+        }
+        if (overflow[i]) {
+            return numeric[i];
+        }
+        return !codes[i].isEmpty() && allNumeric(codes[i].keySet());
     }
 
     public double min(int i) {

@@ -3,10 +3,7 @@ package org.edgewise.job.input;
 import java.io.Serializable;
 import java.util.ArrayList;
 import java.util.HashMap;
-import java.util.Iterator;
 import java.util.List;
-import java.util.NoSuchElementException;
-import org.apache.spark.sql.Row;
 import org.edgewise.driver.store.Variable;
 
 /**
@@ -64,25 +61,40 @@ public final class Encoding implements Serializable {
         return variables;
     }
 
-    /** Encodes row {@code r} into column slot {@code t}; false when the row is dropped. */
-    boolean encode(Row r, byte[][] cols, int t) {
-        for (int v = 0; v < fields.length; v++) {
-            int f = fields[v];
-            String s = r.isNullAt(f) ? null : r.getString(f);
-            int state;
-            if (s == null || s.isEmpty()) {
-                if (drop) {
-                    return false;
+    /**
+     * Turns a raw block (block-local codes, raw numbers) into a block of global state indices:
+     * a 256-entry table per categorical column maps local codes to states; discretised values are
+     * binned. Missing values get the missing state (rows dropped for missing values never got here).
+     */
+    public Block encode(RawBlock raw) {
+        int n = fields.length;
+        int rows = raw.rows;
+        byte[][] cols = new byte[n][rows];
+        int[] table = new int[256];
+        for (int v = 0; v < n; v++) {
+            byte[] out = cols[v];
+            if (edges[v] != null) {
+                double[] x = raw.values[v];
+                for (int t = 0; t < rows; t++) {
+                    out[t] = (byte) (Double.isNaN(x[t]) ? missingState[v] : bin(edges[v], x[t]));
                 }
-                state = missingState[v];
-            } else if (edges[v] != null) {
-                state = bin(edges[v], ColumnStats.parse(s));
             } else {
-                state = index[v].get(s);
+                java.util.Arrays.fill(table, -1);
+                for (var e : raw.stats.codes(v).entrySet()) {
+                    table[e.getValue()] = index[v].get(e.getKey());
+                }
+                table[ColumnStats.MISSING_CODE] = missingState[v];
+                byte[] in = raw.codes[v];
+                for (int t = 0; t < rows; t++) {
+                    int s = table[in[t] & 0xFF];
+                    if (s < 0) {
+                        throw new IllegalStateException("value without a state in column " + v);
+                    }
+                    out[t] = (byte) s;
+                }
             }
-            cols[v][t] = (byte) state;
         }
-        return true;
+        return new Block(rows, cols);
     }
 
     /** Number of edges ≤ x: bin k is [e_{k−1}, e_k). */
@@ -98,46 +110,6 @@ public final class Encoding implements Serializable {
             }
         }
         return lo;
-    }
-
-    /** Encodes a partition's rows into blocks of {@link Block#ROWS} rows, lazily. */
-    public Iterator<Block> blocks(Iterator<Row> rows) {
-        int n = fields.length;
-        return new Iterator<>() {
-            Block next;
-
-            @Override
-            public boolean hasNext() {
-                if (next == null && rows.hasNext()) {
-                    byte[][] cols = new byte[n][Block.ROWS];
-                    int t = 0;
-                    while (t < Block.ROWS && rows.hasNext()) {
-                        if (encode(rows.next(), cols, t)) {
-                            t++;
-                        }
-                    }
-                    if (t > 0) {
-                        if (t < Block.ROWS) {
-                            for (int v = 0; v < n; v++) {
-                                cols[v] = java.util.Arrays.copyOf(cols[v], t);
-                            }
-                        }
-                        next = new Block(t, cols);
-                    }
-                }
-                return next != null;
-            }
-
-            @Override
-            public Block next() {
-                if (!hasNext()) {
-                    throw new NoSuchElementException();
-                }
-                Block b = next;
-                next = null;
-                return b;
-            }
-        };
     }
 
     /** Arity of every variable. */

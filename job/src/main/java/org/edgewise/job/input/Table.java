@@ -92,6 +92,10 @@ public final class Table {
         return names;
     }
 
+    public SparkSession spark() {
+        return spark;
+    }
+
     public List<DataFile> files() {
         return files;
     }

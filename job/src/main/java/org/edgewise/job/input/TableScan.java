@@ -11,8 +11,9 @@ import java.util.Comparator;
 import java.util.List;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
-import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.storage.StorageLevel;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.Variable;
 import org.edgewise.job.TallyOptions;
@@ -42,7 +43,7 @@ public final class TableScan {
     }
 
     /** The outcome: the encoding, the raw rows to encode, and the statistics. */
-    public record Result(Encoding encoding, JavaRDD<Row> rows, ColumnStats stats) {
+    public record Result(Encoding encoding, JavaRDD<RawBlock> rawBlocks, ColumnStats stats) {
         /** Rows that will be counted. */
         public long countedRows() {
             return stats.rows() - stats.dropped();
@@ -109,9 +110,30 @@ public final class TableScan {
         int cap = o.maxStates();
         boolean drop = o.missing() == MissingPolicy.DROP;
         int corrupt = table.corruptField();
-        ColumnStats stats = raw.mapPartitions(it -> Collections.singletonList(
-                        new ColumnStats(fields, binned, cap, drop, corrupt).addAll(it)).iterator())
-                .reduce(ColumnStats::merge);
+        ColumnStats template = new ColumnStats(fields, binned, Math.min(cap, 255), drop, corrupt);
+        // the one read of the input: block-local codes plus per-block statistics, kept for encoding
+        JavaRDD<RawBlock> rawBlocks = raw.mapPartitions(it -> RawBlock.read(it, template))
+                .persist(StorageLevel.MEMORY_AND_DISK_SER());
+        ColumnStats stats;
+        try {
+            stats = rawBlocks.map(b -> b.stats().empty().merge(b.stats())).reduce(ColumnStats::merge);
+        } catch (RuntimeException e) {
+            rawBlocks.unpersist(false);
+            throw e;
+        }
+        try {
+            return finish(table, o, names, fields, binned, rawBlocks, stats);
+        } catch (RuntimeException e) {
+            rawBlocks.unpersist(false);
+            throw e;
+        }
+    }
+
+    private static Result finish(Table table, TallyOptions o, List<String> names, int[] fields, boolean[] binned,
+                                 JavaRDD<RawBlock> rawBlocks, ColumnStats stats) {
+        List<String> header = table.columns();
+        int n = names.size();
+        int corrupt = table.corruptField();
 
         if (stats.rows() == 0) {
             throw new UserError("input " + inputs(table) + ": no data rows (only a header)");
@@ -180,7 +202,7 @@ public final class TableScan {
             List<String> states = new ArrayList<>();
             List<Double> edges = null;
             if (binned[v]) {
-                edges = binEdges(table, names.get(v), o.discretize().get(names.get(v)), stats.min(v));
+                edges = binEdges(table, rawBlocks, v, o.discretize().get(names.get(v)), stats.min(v));
                 states.addAll(binLabels(edges, stats.min(v), stats.max(v)));
             } else {
                 states.addAll(orderStates(stats.distinct(v), stats.numeric(v)));
@@ -195,7 +217,7 @@ public final class TableScan {
             }
             variables.add(new Variable(names.get(v), states, edges));
         }
-        return new Result(new Encoding(fields, variables, missingState, drop), raw, stats);
+        return new Result(new Encoding(fields, variables, missingState, o.missing() == MissingPolicy.DROP), rawBlocks, stats);
     }
 
     /** States in numeric order when every value is a number (ties by text), otherwise lexicographic. */
@@ -210,12 +232,22 @@ public final class TableScan {
     }
 
     /** Interior cut points of k equal-frequency bins (approximate quantiles), duplicates and ≤ min removed. */
-    static List<Double> binEdges(Table table, String name, int k, double min) {
+    static List<Double> binEdges(Table table, JavaRDD<RawBlock> rawBlocks, int v, int k, double min) {
         double[] probs = new double[k - 1];
         for (int i = 1; i < k; i++) {
             probs[i - 1] = (double) i / k;
         }
-        double[] q = table.rows().select(quoted(name).cast(DataTypes.DoubleType).as("x"))
+        JavaRDD<Double> xs = rawBlocks.flatMap(b -> {
+            List<Double> out = new ArrayList<>(b.rows);
+            for (int t = 0; t < b.rows; t++) {
+                double x = b.values[v][t];
+                if (!Double.isNaN(x)) {
+                    out.add(x);
+                }
+            }
+            return out.iterator();
+        });
+        double[] q = table.spark().createDataset(xs.rdd(), Encoders.DOUBLE()).toDF("x")
                 .stat().approxQuantile("x", probs, QUANTILE_ERROR);
         List<Double> edges = new ArrayList<>();
         for (double e : q) {

@@ -1,0 +1,130 @@
+package org.edgewise.driver.cli;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.store.Manifest;
+
+/**
+ * A CSV table of cases for {@code predict --cases}: a header of variable names (any subset, any
+ * order), then one case per line; a blank cell is a hidden variable. Fields follow RFC 4180
+ * quoting on one line. Every mistake names the file, line and column.
+ *
+ * <p>Memory: the raw lines plus one int per cell.
+ */
+record CaseCsv(List<String> header, List<String> lines, int[][] cases) {
+
+    static CaseCsv read(Path file, Manifest m) {
+        if (!Files.isRegularFile(file)) {
+            throw new UserError("--cases: file " + file + " does not exist");
+        }
+        List<String> raw;
+        try (BufferedReader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            raw = new ArrayList<>();
+            for (String line; (line = r.readLine()) != null; ) {
+                raw.add(line);
+            }
+        } catch (IOException e) {
+            throw new UserError("--cases: cannot read " + file + ": " + e.getMessage());
+        }
+        if (raw.isEmpty()) {
+            throw new UserError(file + ": empty file; the first line must name the variables");
+        }
+        String first = raw.get(0);
+        if (first.startsWith("\uFEFF")) {
+            first = first.substring(1);
+        }
+        List<String> header = fields(file, 1, first);
+        int[] column = new int[header.size()];
+        boolean[] seen = new boolean[m.variableCount()];
+        for (int c = 0; c < header.size(); c++) {
+            String where = file + ": line 1, column " + (c + 1);
+            int v = CaseParser.variable(m, header.get(c).trim(), where);
+            if (seen[v]) {
+                throw new UserError(where + ": variable '" + header.get(c).trim() + "' appears twice in the header");
+            }
+            seen[v] = true;
+            column[c] = v;
+        }
+        List<String> lines = new ArrayList<>();
+        List<int[]> cases = new ArrayList<>();
+        for (int i = 1; i < raw.size(); i++) {
+            String line = raw.get(i);
+            if (line.isEmpty()) {
+                continue;
+            }
+            List<String> f = fields(file, i + 1, line);
+            if (f.size() != header.size()) {
+                throw new UserError(file + ": line " + (i + 1) + " has " + f.size() + " fields, the header has " + header.size());
+            }
+            int[] states = new int[m.variableCount()];
+            Arrays.fill(states, CaseParser.HIDDEN);
+            for (int c = 0; c < f.size(); c++) {
+                String cell = f.get(c).trim();
+                if (!cell.isEmpty()) {
+                    states[column[c]] = CaseParser.state(m.variables().get(column[c]), cell,
+                            file + ": line " + (i + 1) + ", column " + (c + 1));
+                }
+            }
+            lines.add(line);
+            cases.add(states);
+        }
+        return new CaseCsv(header, lines, cases.toArray(new int[0][]));
+    }
+
+    /** Splits one line into fields, RFC 4180 quoting; an unterminated quote names its column. */
+    static List<String> fields(Path file, int lineNo, String line) {
+        List<String> out = new ArrayList<>();
+        StringBuilder cur = new StringBuilder();
+        int i = 0;
+        int column = 1;
+        while (true) {
+            if (i < line.length() && line.charAt(i) == '"') {
+                int start = i;
+                i++;
+                while (true) {
+                    if (i >= line.length()) {
+                        throw new UserError(file + ": line " + lineNo + ", column " + column
+                                + ": unterminated quote (opened at character " + (start + 1) + ")");
+                    }
+                    char ch = line.charAt(i);
+                    if (ch == '"') {
+                        if (i + 1 < line.length() && line.charAt(i + 1) == '"') {
+                            cur.append('"');
+                            i += 2;
+                        } else {
+                            i++;
+                            break;
+                        }
+                    } else {
+                        cur.append(ch);
+                        i++;
+                    }
+                }
+                if (i < line.length() && line.charAt(i) != ',') {
+                    throw new UserError(file + ": line " + lineNo + ", column " + column
+                            + ": text after a closing quote");
+                }
+            } else {
+                while (i < line.length() && line.charAt(i) != ',') {
+                    cur.append(line.charAt(i));
+                    i++;
+                }
+            }
+            out.add(cur.toString());
+            cur.setLength(0);
+            if (i >= line.length()) {
+                return out;
+            }
+            i++; // the comma
+            column++;
+        }
+    }
+}

@@ -1,0 +1,222 @@
+package org.edgewise.driver.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.ResultBuilder;
+import org.edgewise.driver.result.ResultJson;
+import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.store.StoreReader;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+
+/**
+ * {@code edges}: model-averaged edge posteriors. {@code --method order} (the default when
+ * {@code --order} is given) sums over every DAG consistent with the order in closed form; the
+ * unknown-order methods are dispatched by {@link #compute}.
+ */
+@Command(name = "edges", mixinStandardHelpOptions = true,
+        description = {"Model-averaged edge posteriors, most probable parent sets and the best network, from a score store.",
+                "An edge posterior is evidence of statistical dependence under the stated assumptions "
+                        + "(order, in-degree bound, score, prior), not proof of causation; interpret it with domain experts."})
+public final class EdgesCommand implements Callable<Integer> {
+    /** Edges shown in the terminal table; JSON lists every ordered pair. */
+    static final int TABLE_EDGES = 40;
+
+    @Spec
+    CommandSpec spec;
+
+    @Mixin
+    ScoringMixin scoring = new ScoringMixin();
+
+    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last: a variable's parents come before it")
+    String order;
+
+    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: over unknown orders")
+    String method;
+
+    @Mixin
+    UnknownOrderOptions unknown = new UnknownOrderOptions();
+
+    @Option(names = "--top-parents", paramLabel = "K", defaultValue = "5", description = "most probable parent sets listed per variable (default ${DEFAULT-VALUE})")
+    int topParents;
+
+    @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here")
+    Path out;
+
+    @Option(names = "--format", paramLabel = "table|json", description = "standard output as a table (default) or JSON")
+    String format;
+
+    @Override
+    public Integer call() {
+        String fmt = format == null ? (out != null ? "json" : "table") : format.toLowerCase(Locale.ROOT);
+        if (!fmt.equals("json") && !fmt.equals("table")) {
+            throw new UserError("--format must be table or json, got '" + format + "'");
+        }
+        if (topParents < 0) {
+            throw new UserError("--top-parents must be 0 or more, got " + topParents);
+        }
+        List<Double> esses = scoring.ess.isEmpty() ? List.of(Double.NaN) : scoring.ess;
+        for (double e : esses) {
+            scoring.options(e); // refuses ESS <= 0 before the store is read
+        }
+        EdgeResult result = compute(esses);
+        if (out != null) {
+            ResultJson.write(out, result);
+            if (format == null) {
+                spec.commandLine().getErr().println("edges: wrote " + out);
+                return 0;
+            }
+        }
+        PrintWriter w = spec.commandLine().getOut();
+        if (fmt.equals("json")) {
+            w.println(ResultJson.toJson(result));
+        } else {
+            w.print(table(result, esses.size() > 1));
+        }
+        w.flush();
+        return 0;
+    }
+
+    /** Dispatches on the method; every method returns an {@link EdgeResult} built by {@link ResultBuilder}. */
+    EdgeResult compute(List<Double> esses) {
+        String m = method == null ? (order != null ? "order" : null) : method.trim().toLowerCase(Locale.ROOT);
+        if (m == null) {
+            throw new UserError("give --order a,b,c,… (averaging given an order) or --method exact|mcmc (over unknown orders)");
+        }
+        switch (m) {
+            case "order":
+                if (order == null) {
+                    throw new UserError("--method order needs --order a,b,c,…");
+                }
+                return givenOrder(esses);
+            case "exact":
+            case "mcmc": {
+                if (order != null) {
+                    throw new UserError("--order and --method " + m + " exclude each other: " + m + " averages over unknown orders");
+                }
+                List<org.edgewise.driver.average.ScoringOptions> opts = new ArrayList<>();
+                for (double e : esses) {
+                    opts.add(scoring.options(e));
+                }
+                return UnknownOrderEdges.compute(m, StoreReader.read(scoring.store), scoring.store, opts, unknown,
+                        topParents, spec.commandLine().getErr());
+            }
+            default:
+                throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
+        }
+    }
+
+    private EdgeResult givenOrder(List<Double> esses) {
+        ScoreStore store = StoreReader.read(scoring.store);
+        int[] ord = VariableOrder.parse(store.manifest(), order);
+        OrderPosterior primary = null;
+        List<EdgeResult.Sensitivity> sens = new ArrayList<>();
+        for (double e : esses) {
+            OrderPosterior op = OrderPosterior.of(LocalScores.build(store, scoring.options(e)), ord);
+            if (primary == null) {
+                primary = op;
+            }
+            if (esses.size() > 1) {
+                sens.add(ResultBuilder.sensitivity(op));
+            }
+        }
+        if (!sens.isEmpty()) {
+            sens.remove(0);
+        }
+        return ResultBuilder.forOrder(primary, scoring.store, topParents, sens);
+    }
+
+    /** The result for people: edges by posterior, top parent sets, best network, the caution. */
+    static String table(EdgeResult r, boolean sweep) {
+        StringBuilder sb = new StringBuilder();
+        EdgeResult.Settings s = r.settings();
+        sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; score %s, ESS %s, prior %s, d = %d)%n",
+                r.order() == null ? r.method() : "order " + String.join(" < ", r.order()),
+                s.score(), num(s.ess()), s.prior(), s.maxParents()));
+        if (r.logEvidence() != null) {
+            if (r.logEvidenceNormalized() != null) {
+                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",
+                        r.logEvidence(), r.evidenceConvention(), r.logEvidenceNormalized()));
+            } else {
+                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s, uniform prior over the allowed orders)%n",
+                        r.logEvidence(), r.evidenceConvention()));
+            }
+        }
+        List<EdgeResult.Edge> sorted = new ArrayList<>(r.edges());
+        sorted.sort(Comparator.comparingDouble(EdgeResult.Edge::posterior).reversed());
+        int width = 4;
+        for (String v : r.variables()) {
+            width = Math.max(width, v.length());
+        }
+        sb.append('\n').append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s", "from", "to", "posterior"));
+        if (sweep) {
+            for (EdgeResult.Sensitivity x : r.sensitivity()) {
+                sb.append(String.format(Locale.ROOT, "  %9s", "ESS " + num(x.ess())));
+            }
+        }
+        sb.append('\n');
+        int shown = 0;
+        for (EdgeResult.Edge e : sorted) {
+            if (shown == TABLE_EDGES || e.posterior() < 0.001) {
+                break;
+            }
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -> %-" + width + "s  %9.4f", e.from(), e.to(), e.posterior()));
+            if (sweep) {
+                for (EdgeResult.Sensitivity x : r.sensitivity()) {
+                    sb.append(String.format(Locale.ROOT, "  %9.4f", find(x.edges(), e.from(), e.to())));
+                }
+            }
+            sb.append('\n');
+            shown++;
+        }
+        sb.append(String.format(Locale.ROOT, "  (%d of %d ordered pairs shown: posterior >= 0.001, at most %d; the JSON lists every pair)%n",
+                shown, sorted.size(), TABLE_EDGES));
+        if (r.parentSets() != null) {
+            sb.append("\nMost probable parent sets\n");
+            for (EdgeResult.VariableParents vp : r.parentSets()) {
+                List<String> parts = new ArrayList<>();
+                for (EdgeResult.ParentSet ps : vp.top()) {
+                    parts.add("{" + String.join(", ", ps.parents()) + "} " + String.format(Locale.ROOT, "%.4f", ps.posterior()));
+                }
+                sb.append(String.format(Locale.ROOT, "  %-" + width + "s  %s%n", vp.variable(), String.join("   ", parts)));
+            }
+        }
+        sb.append(UnknownOrderEdges.summary(r));
+        if (r.bestNetwork() != null) {
+            sb.append(String.format(Locale.ROOT, "%nBest single network under the order (log score %.6f)%n", r.bestNetwork().logScore()));
+            for (Map.Entry<String, List<String>> e : r.bestNetwork().parents().entrySet()) {
+                sb.append(String.format(Locale.ROOT, "  %-" + width + "s  <- {%s}%n", e.getKey(), String.join(", ", e.getValue())));
+            }
+        }
+        sb.append("\nAn edge posterior is evidence of statistical dependence under the stated assumptions (this order,\n"
+                + "d, score and prior), not proof of causation. Interpret it with domain experts.\n");
+        return sb.toString();
+    }
+
+    private static double find(List<EdgeResult.Edge> edges, String from, String to) {
+        for (EdgeResult.Edge e : edges) {
+            if (e.from().equals(from) && e.to().equals(to)) {
+                return e.posterior();
+            }
+        }
+        return Double.NaN;
+    }
+
+    static String num(double x) {
+        return x == Math.rint(x) && Math.abs(x) < 1e15 ? Long.toString((long) x) : Double.toString(x);
+    }
+}

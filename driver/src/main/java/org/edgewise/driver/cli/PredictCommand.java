@@ -1,0 +1,252 @@
+package org.edgewise.driver.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.Callable;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.stream.IntStream;
+import me.tongfei.progressbar.ProgressBar;
+import me.tongfei.progressbar.ProgressBarBuilder;
+import me.tongfei.progressbar.ConsoleProgressBarConsumer;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.CaseProbability;
+import org.edgewise.driver.query.CasePredictor;
+import org.edgewise.driver.query.OrderMixture;
+import org.edgewise.driver.query.Prediction;
+import org.edgewise.driver.result.ResultJson;
+import org.edgewise.driver.store.Manifest;
+import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.store.StoreReader;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+
+/**
+ * {@code predict}: probability of a new case (or of a table of cases) given the data and an
+ * order, averaged over every DAG consistent with the order, and under the single best network.
+ */
+@Command(name = "predict", mixinStandardHelpOptions = true,
+        description = {"P(case | D, order) averaged over every network consistent with the order, and under the single best network.",
+                "Variables left out of a case are hidden and summed out; --given makes it a conditional P(case | given, D, order)."})
+public final class PredictCommand implements Callable<Integer> {
+    static final String NOTE = "Probability of a new case under the stated assumptions (this order, d, score, prior); "
+            + "a model-based estimate, not a measured frequency. Interpret it with domain experts.";
+
+    @Spec
+    CommandSpec spec;
+
+    @Mixin
+    ScoringMixin scoring = new ScoringMixin();
+
+    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last")
+    String order;
+
+    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: averaged over unknown orders")
+    String method;
+
+    @Mixin
+    UnknownOrderOptions unknown = new UnknownOrderOptions();
+
+    @Option(names = "--case", paramLabel = "a=x,b=y", description = "one case; variables left out are hidden")
+    String caseText;
+
+    @Option(names = "--given", paramLabel = "c=z", description = "evidence: report P(case | given) (with --cases: for every row)")
+    String givenText;
+
+    @Option(names = "--cases", paramLabel = "FILE", description = "CSV of cases: header = variable names, blank cells hidden")
+    Path casesFile;
+
+    @Option(names = "--out", paramLabel = "FILE", description = "with --cases: write the scored table here (default: standard output)")
+    Path out;
+
+    @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON")
+    String format;
+
+    @Option(names = "--tail-mass", paramLabel = "E", defaultValue = "1e-12",
+            description = "per variable, skip the least probable parent sets whose combined posterior is at most E and renormalise (default ${DEFAULT-VALUE}; 0 = exact)")
+    double tailMass;
+
+    @Option(names = "--max-hidden-states", paramLabel = "N", defaultValue = "1000000",
+            description = "refuse a case whose hidden variables need more joint states than this to sum out (default ${DEFAULT-VALUE})")
+    long maxHiddenStates;
+
+    @Override
+    public Integer call() {
+        if ((caseText == null) == (casesFile == null)) {
+            throw new UserError("give exactly one of --case a=x,b=y or --cases FILE");
+        }
+        if (scoring.ess.size() > 1) {
+            throw new UserError("predict takes one --ess value, got " + scoring.ess.size());
+        }
+        String fmt = format == null ? "table" : format.toLowerCase(Locale.ROOT);
+        if (!fmt.equals("json") && !fmt.equals("table")) {
+            throw new UserError("--format must be table or json, got '" + format + "'");
+        }
+        if (!(tailMass >= 0 && tailMass < 1)) {
+            throw new UserError("--tail-mass must be in [0, 1), got " + tailMass);
+        }
+        if (maxHiddenStates < 1) {
+            throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
+        }
+        var options = scoring.options();
+        ScoreStore store = StoreReader.read(scoring.store);
+        Manifest m = store.manifest();
+        String meth = method == null ? (order != null ? "order" : null) : method.trim().toLowerCase(Locale.ROOT);
+        if (meth == null) {
+            throw new UserError("give --order a,b,c,… (prediction given an order) or --method exact|mcmc (over unknown orders)");
+        }
+        if (!meth.equals("order") && !meth.equals("exact") && !meth.equals("mcmc")) {
+            throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
+        }
+        if (meth.equals("order") && order == null) {
+            throw new UserError("--method order needs --order a,b,c,…");
+        }
+        if (!meth.equals("order") && order != null) {
+            throw new UserError("--order and --method " + meth + " exclude each other: " + meth + " averages over unknown orders");
+        }
+        int[] ord = order == null ? null : VariableOrder.parse(m, order);
+        int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
+        int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
+        CaseCsv table = casesFile == null ? null : CaseCsv.read(casesFile, m);
+        LocalScores ls = LocalScores.build(store, options);
+        CaseProbability avg;
+        CasePredictor best;
+        if (ord != null) {
+            OrderPosterior op = OrderPosterior.of(ls, ord);
+            avg = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates);
+            best = CasePredictor.bestNetwork(op).withMaxHiddenStates(maxHiddenStates);
+        } else {
+            OrderMixture mix = UnknownOrderPredict.mixture(meth, ls, unknown, tailMass, maxHiddenStates,
+                    spec.commandLine().getErr());
+            avg = mix;
+            best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
+            averagedOver = meth + ": " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
+        }
+        if (given != null) {
+            checkEvidence(avg, given);
+            checkEvidence(best, given);
+        }
+        if (single != null) {
+            return one(m, ord, ls, avg, best, single, given, fmt);
+        }
+        return batch(table, avg, best, given);
+    }
+
+    /** For unknown orders: what the prediction was averaged over; null given an order. */
+    private String averagedOver;
+
+    private void checkEvidence(CaseProbability p, int[] given) {
+        if (p.logProbability(given) == Double.NEGATIVE_INFINITY) {
+            throw new UserError("--given " + givenText + " has probability zero under this order and store; a conditional on it is undefined");
+        }
+    }
+
+    private static double lp(CaseProbability p, int[] target, int[] given) {
+        return given == null ? p.logProbability(target) : p.logConditional(target, given);
+    }
+
+    private int one(Manifest m, int[] ord, LocalScores ls, CaseProbability avg, CaseProbability best,
+                    int[] target, int[] given, String fmt) {
+        double a = lp(avg, target, given);
+        double b = lp(best, target, given);
+        int[] joint = target.clone();
+        if (given != null) {
+            for (int v = 0; v < joint.length; v++) {
+                if (joint[v] == CaseParser.HIDDEN) {
+                    joint[v] = given[v];
+                }
+            }
+        }
+        List<String> hidden = new ArrayList<>();
+        for (int v : avg.hiddenToSumOut(joint)) {
+            hidden.add(m.variables().get(v).name());
+        }
+        double states = avg.hiddenJointStates(joint);
+        Prediction p = new Prediction(named(m, target), given == null ? null : named(m, given), Math.exp(a), a,
+                Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
+                ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(), avg.skippedMass(), NOTE);
+        PrintWriter w = spec.commandLine().getOut();
+        if (fmt.equals("json")) {
+            w.println(ResultJson.toJson(p));
+        } else {
+            String what = "P(" + CaseParser.format(m, target) + (given == null ? "" : " | " + CaseParser.format(m, given)) + ")";
+            if (ord != null) {
+                w.printf(Locale.ROOT, "%s averaged over networks consistent with the order: %.6g (log %.6f)%n", what, p.probability(), a);
+                w.printf(Locale.ROOT, "%s under the single best network:                 %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            } else {
+                w.printf(Locale.ROOT, "%s averaged over orders (%s) and their networks: %.6g (log %.6f)%n", what, averagedOver, p.probability(), a);
+                w.printf(Locale.ROOT, "%s under the best network of the highest-evidence order among them: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            }
+            if (!hidden.isEmpty()) {
+                w.printf(Locale.ROOT, "hidden variables summed out: %s (%.0f joint states)%n", String.join(", ", hidden), states);
+            }
+            w.println(NOTE);
+        }
+        w.flush();
+        return 0;
+    }
+
+    private static Map<String, String> named(Manifest m, int[] states) {
+        Map<String, String> out = new LinkedHashMap<>();
+        for (int v = 0; v < states.length; v++) {
+            if (states[v] != CaseParser.HIDDEN) {
+                out.put(m.variables().get(v).name(), m.variables().get(v).states().get(states[v]));
+            }
+        }
+        return out;
+    }
+
+    private int batch(CaseCsv table, CaseProbability avg, CaseProbability best, int[] given) {
+        int rows = table.cases().length;
+        double[] a = new double[rows];
+        double[] b = new double[rows];
+        AtomicLong done = new AtomicLong();
+        boolean bar = System.console() != null && rows >= 10_000;
+        try (ProgressBar pb = bar ? new ProgressBarBuilder().setTaskName("predict").setInitialMax(rows)
+                .setConsumer(new ConsoleProgressBarConsumer(System.err)).build() : null) {
+            IntStream.range(0, rows).parallel().forEach(i -> {
+                try {
+                    a[i] = lp(avg, table.cases()[i], given);
+                    b[i] = lp(best, table.cases()[i], given);
+                } catch (UserError e) {
+                    throw new UserError(casesFile + ": case " + (i + 1) + ": " + e.getMessage());
+                }
+                if (pb != null && done.incrementAndGet() % 1000 == 0) {
+                    pb.stepTo(done.get());
+                }
+            });
+            if (pb != null) {
+                pb.stepTo(rows);
+            }
+        }
+        StringBuilder sb = new StringBuilder(rows * 64);
+        List<String> head = new ArrayList<>();
+        for (String h : table.header()) {
+            head.add(Csv.field(h));
+        }
+        sb.append(String.join(",", head)).append(",probability,logProbability,bestNetworkProbability,bestNetworkLogProbability\n");
+        for (int i = 0; i < rows; i++) {
+            sb.append(table.lines().get(i)).append(',').append(Math.exp(a[i])).append(',').append(a[i])
+                    .append(',').append(Math.exp(b[i])).append(',').append(b[i]).append('\n');
+        }
+        if (out != null) {
+            ResultJson.writeText(out, sb.toString());
+        } else {
+            PrintWriter w = spec.commandLine().getOut();
+            w.print(sb);
+            w.flush();
+        }
+        return 0;
+    }
+}

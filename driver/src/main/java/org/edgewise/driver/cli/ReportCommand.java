@@ -1,0 +1,71 @@
+package org.edgewise.driver.cli;
+
+import java.io.PrintWriter;
+import java.nio.file.Path;
+import java.util.Locale;
+import java.util.concurrent.Callable;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.NetworkReader;
+import org.edgewise.driver.report.DotWriter;
+import org.edgewise.driver.report.EdgeMatrix;
+import org.edgewise.driver.report.EdgeRecovery;
+import org.edgewise.driver.report.HtmlReport;
+import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.ResultJson;
+import picocli.CommandLine.Command;
+import picocli.CommandLine.Option;
+import picocli.CommandLine.Spec;
+import picocli.CommandLine.Model.CommandSpec;
+
+/** {@code report}: a self-contained HTML report (or the consensus graph as DOT) from a result. */
+@Command(name = "report", mixinStandardHelpOptions = true,
+        description = "Write a self-contained HTML report of an edges result (heatmap, consensus graph, parent sets, "
+                + "MCMC diagnostics, ESS sensitivity, provenance, cautions), or the consensus graph as DOT.")
+final class ReportCommand implements Callable<Integer> {
+    @Spec
+    CommandSpec spec;
+
+    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges")
+    Path result;
+
+    @Option(names = "--truth", paramLabel = "FILE", description = "a known network (network JSON) to mark and compare against")
+    Path truth;
+
+    @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)")
+    Path out;
+
+    @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
+            description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
+    double threshold;
+
+    @Option(names = "--format", defaultValue = "html", paramLabel = "html|dot", description = "output format (default ${DEFAULT-VALUE})")
+    String format;
+
+    @Override
+    public Integer call() {
+        String fmt = format.toLowerCase(Locale.ROOT);
+        if (!fmt.equals("html") && !fmt.equals("dot")) {
+            throw new IllegalArgumentException("--format must be html or dot, got '" + format + "'");
+        }
+        CompareCommand.checkThreshold(threshold);
+        EdgeResult r = ResultJson.readEdges(result);
+        Network net = truth == null ? null : NetworkReader.read(truth);
+        String name = result.getFileName().toString();
+        String text;
+        if (fmt.equals("dot")) {
+            EdgeMatrix m = EdgeMatrix.of(r);
+            text = DotWriter.write(m, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()));
+        } else {
+            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold);
+        }
+        if (out != null) {
+            ResultJson.writeText(out, text);
+            spec.commandLine().getErr().println("report: wrote " + out);
+        } else {
+            PrintWriter w = spec.commandLine().getOut();
+            w.print(text);
+            w.flush();
+        }
+        return 0;
+    }
+}

@@ -1,0 +1,79 @@
+package org.edgewise.driver.query;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.store.Manifest;
+import org.edgewise.driver.store.Variable;
+
+/**
+ * Parses a case written {@code name=state,name=state} into a state vector: {@code states[v]} the
+ * state index of variable v, or {@link #HIDDEN} when the case leaves v out.
+ */
+public final class CaseParser {
+    /** Marks a variable the case does not observe. */
+    public static final int HIDDEN = -1;
+
+    private CaseParser() {
+    }
+
+    /** {@code option} names the option in messages (e.g. {@code --case}). */
+    public static int[] parse(Manifest m, String text, String option) {
+        int[] states = new int[m.variableCount()];
+        Arrays.fill(states, HIDDEN);
+        if (text == null || text.isBlank()) {
+            return states;
+        }
+        for (String part : text.split(",", -1)) {
+            int eq = part.indexOf('=');
+            if (eq <= 0) {
+                throw new UserError(option + ": '" + part.trim() + "' is not name=state, e.g. "
+                        + m.variables().get(0).name() + "=" + m.variables().get(0).states().get(0));
+            }
+            String name = part.substring(0, eq).trim();
+            String label = part.substring(eq + 1).trim();
+            int v = variable(m, name, option);
+            if (states[v] != HIDDEN) {
+                throw new UserError(option + ": variable '" + name + "' is given more than once");
+            }
+            states[v] = state(m.variables().get(v), label, option);
+        }
+        return states;
+    }
+
+    /** Index of a variable by name, or a one-line error listing the valid names. */
+    public static int variable(Manifest m, String name, String where) {
+        int v = m.variableIndex(name);
+        if (v < 0) {
+            List<String> names = new ArrayList<>();
+            for (Variable x : m.variables()) {
+                names.add(x.name());
+            }
+            throw new UserError(where + ": unknown variable '" + name + "' (variables: " + String.join(", ", names) + ")");
+        }
+        return v;
+    }
+
+    /** Index of a state label of {@code v}, or a one-line error listing its valid states. */
+    public static int state(Variable v, String label, String where) {
+        int k = v.stateIndex(label);
+        if (k < 0) {
+            throw new UserError(where + ": variable '" + v.name() + "' has no state '" + label
+                    + "' (valid states: " + String.join(", ", v.states()) + ")");
+        }
+        return k;
+    }
+
+    /** The case as {@code name=state,…} in store order (hidden variables left out). */
+    public static String format(Manifest m, int[] states) {
+        List<String> parts = new ArrayList<>();
+        for (int v = 0; v < states.length; v++) {
+            if (states[v] != HIDDEN) {
+                Variable x = m.variables().get(v);
+                parts.add(x.name() + "=" + x.states().get(states[v]));
+            }
+        }
+        return String.join(",", parts);
+    }
+}

@@ -1,0 +1,436 @@
+package org.edgewise.driver.query;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.LogSum;
+import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.score.FamilyScore;
+import org.edgewise.driver.store.FamilyCounts;
+import org.edgewise.driver.store.ScoreStore;
+
+/**
+ * Probability of a new case given the data and an order, averaged over every DAG consistent with
+ * the order (in-degree ≤ d). With parameter independence and an order-modular prior the sum over
+ * DAGs factorises per variable, so for a complete case x
+ * <pre>
+ *   P(x | D, ≺) = P(D, x | ≺) / P(D | ≺) = Π_i Σ_{U ⊆ pred(i)} w_i(U) · (N_ijk + α_ijk) / (N_ij + α_ij)
+ * </pre>
+ * with w_i(U) = P(U | D, ≺) the parent-set posterior, j the configuration of U in x and k the
+ * state of X_i in x (Buntine 1991; Heckerman, Geiger &amp; Chickering 1995, eq. 23 for the
+ * posterior-mean parameters). The same class with one parent set per child of weight 1 gives the
+ * probability under a single network.
+ *
+ * <p>Each factor f_i(x_i | x_pred(i)) is a distribution over x_i, so a hidden variable that no
+ * kept factor conditions on sums out to 1. Working backwards through the order, a variable is
+ * <em>relevant</em> when it is observed or is a parent (in some weighted set) of a relevant one;
+ * the others drop out without enumeration. The relevant hidden variables are summed out exactly by
+ * enumerating their joint states, refused with a {@link UserError} above a limit.
+ *
+ * <p>Sets whose total posterior per variable is at most {@code tailMass} (smallest first) may be
+ * skipped and the remaining weights renormalised; 0 keeps every set (exact).
+ *
+ * <p>Memory: per kept parent set its parent list, the family's stored configurations and counts
+ * (shared with the store) and one long per configuration for N_ij.
+ *
+ * <p>Immutable and thread-safe.
+ */
+public final class CasePredictor implements CaseProbability {
+    /** Default limit on the joint states of hidden variables enumerated for one case. */
+    public static final long DEFAULT_MAX_HIDDEN_STATES = 1_000_000L;
+
+    private final ScoreStore store;
+    private final FamilyScore score;
+    private final int n;
+    private final int[] order;
+    private final int[] arity;
+    private final int[][][] parents;
+    private final long[][][] configs;
+    private final long[][][] counts;
+    private final long[][][] rowTotals;
+    private final double[][] q;
+    private final double[][] weight;
+    private final int[][] parentUnion;
+    private final double skippedMass;
+    private final long maxHiddenStates;
+
+    private CasePredictor(ScoreStore store, FamilyScore score, int[] order, int[][][] parents, long[][][] configs,
+                          long[][][] counts, long[][][] rowTotals, double[][] q, double[][] weight,
+                          int[][] parentUnion, double skippedMass, long maxHiddenStates) {
+        this.store = store;
+        this.score = score;
+        this.n = store.variableCount();
+        this.order = order;
+        this.arity = new int[n];
+        for (int v = 0; v < n; v++) {
+            arity[v] = store.arity(v);
+        }
+        this.parents = parents;
+        this.configs = configs;
+        this.counts = counts;
+        this.rowTotals = rowTotals;
+        this.q = q;
+        this.weight = weight;
+        this.parentUnion = parentUnion;
+        this.skippedMass = skippedMass;
+        this.maxHiddenStates = maxHiddenStates;
+    }
+
+    /** Averaged over parent sets with their posteriors under the order; see the class comment for {@code tailMass}. */
+    public static CasePredictor averaged(OrderPosterior op, double tailMass) {
+        if (!(tailMass >= 0) || tailMass >= 1) {
+            throw new IllegalArgumentException("tail mass must be in [0, 1), got " + tailMass);
+        }
+        LocalScores ls = op.scores();
+        int n = ls.variableCount();
+        int[][] sets = new int[n][];
+        double[][] w = new double[n][];
+        double skipped = 0;
+        for (int c = 0; c < n; c++) {
+            double[] p = op.setPosteriors()[c];
+            Integer[] idx = new Integer[p.length];
+            int m = 0;
+            for (int s = 0; s < p.length; s++) {
+                if (p[s] > 0) {
+                    idx[m++] = s;
+                }
+            }
+            Integer[] live = Arrays.copyOf(idx, m);
+            Arrays.sort(live, (a, b) -> Double.compare(p[a], p[b]));
+            // Skip the smallest sets while their combined posterior stays within tailMass.
+            int first = 0;
+            double tail = 0;
+            while (first < live.length - 1 && tail + p[live[first]] <= tailMass) {
+                tail += p[live[first]];
+                first++;
+            }
+            skipped += tail;
+            int k = live.length - first;
+            sets[c] = new int[k];
+            w[c] = new double[k];
+            double kept = 0;
+            for (int t = 0; t < k; t++) {
+                sets[c][t] = live[live.length - 1 - t];
+                kept += p[sets[c][t]];
+            }
+            for (int t = 0; t < k; t++) {
+                w[c][t] = p[sets[c][t]] / kept;
+            }
+        }
+        return build(op, sets, w, skipped);
+    }
+
+    /** The single best network under the order: each child's highest-weight parent set, weight 1. */
+    public static CasePredictor bestNetwork(OrderPosterior op) {
+        int[] best = op.bestSets();
+        int n = best.length;
+        int[][] sets = new int[n][];
+        double[][] w = new double[n][];
+        for (int c = 0; c < n; c++) {
+            sets[c] = new int[] {best[c]};
+            w[c] = new double[] {1.0};
+        }
+        return build(op, sets, w, 0);
+    }
+
+    private static CasePredictor build(OrderPosterior op, int[][] sets, double[][] w, double skipped) {
+        LocalScores ls = op.scores();
+        ScoreStore store = ls.store();
+        int n = ls.variableCount();
+        int[][][] parents = new int[n][][];
+        long[][][] configs = new long[n][][];
+        long[][][] counts = new long[n][][];
+        long[][][] totals = new long[n][][];
+        double[][] q = new double[n][];
+        int[][] union = new int[n][];
+        for (int c = 0; c < n; c++) {
+            int k = sets[c].length;
+            parents[c] = new int[k][];
+            configs[c] = new long[k][];
+            counts[c] = new long[k][];
+            totals[c] = new long[k][];
+            q[c] = new double[k];
+            int r = store.arity(c);
+            boolean[] in = new boolean[n];
+            for (int t = 0; t < k; t++) {
+                FamilyCounts fc = store.family(ls.families(c)[sets[c][t]]);
+                parents[c][t] = fc.parents();
+                configs[c][t] = fc.configs();
+                counts[c][t] = fc.counts();
+                long[] tot = new long[fc.rows()];
+                for (int row = 0; row < tot.length; row++) {
+                    long s = 0;
+                    for (int x = 0; x < r; x++) {
+                        s += fc.counts()[row * r + x];
+                    }
+                    tot[row] = s;
+                }
+                totals[c][t] = tot;
+                q[c][t] = store.configurations(fc.parents());
+                for (int p : fc.parents()) {
+                    in[p] = true;
+                }
+            }
+            List<Integer> u = new ArrayList<>();
+            for (int v = 0; v < n; v++) {
+                if (in[v]) {
+                    u.add(v);
+                }
+            }
+            union[c] = u.stream().mapToInt(Integer::intValue).toArray();
+        }
+        return new CasePredictor(store, ls.familyScore(), op.order(), parents, configs, counts, totals, q, w,
+                union, skipped, DEFAULT_MAX_HIDDEN_STATES);
+    }
+
+    /** The same predictor with another limit on the hidden joint states enumerated per case. */
+    public CasePredictor withMaxHiddenStates(long limit) {
+        if (limit < 1) {
+            throw new IllegalArgumentException("--max-hidden-states must be at least 1, got " + limit);
+        }
+        return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, parentUnion,
+                skippedMass, limit);
+    }
+
+    /** Posterior mass skipped in total over all variables (0 when exact). */
+    public double skippedMass() {
+        return skippedMass;
+    }
+
+    /** Number of parent sets kept, summed over variables. */
+    public long keptSets() {
+        long s = 0;
+        for (double[] w : weight) {
+            s += w.length;
+        }
+        return s;
+    }
+
+    /**
+     * log P(case | D, ≺) for a case with {@code states[v]} the state of v or
+     * {@link CaseParser#HIDDEN}; hidden variables are summed out. 0 for an empty case.
+     */
+    public double logProbability(int[] states) {
+        boolean complete = true;
+        for (int s : states) {
+            if (s == CaseParser.HIDDEN) {
+                complete = false;
+                break;
+            }
+        }
+        if (complete) {
+            double lp = 0;
+            for (int c = 0; c < n; c++) {
+                lp += logFactor(c, states);
+            }
+            return lp;
+        }
+        int[] x = states.clone();
+        boolean[] keep = relevant(x);
+        int[] hidden = relevantHidden(x, keep);
+        if (hidden.length == 0) {
+            double lp = 0;
+            for (int c = 0; c < n; c++) {
+                if (keep[c]) {
+                    lp += logFactor(c, x);
+                }
+            }
+            return lp;
+        }
+        double joint = jointStates(hidden);
+        if (joint > maxHiddenStates) {
+            throw new UserError("summing out hidden variables " + names(hidden) + " would enumerate "
+                    + String.format(java.util.Locale.ROOT, "%.0f", joint) + " joint states (limit "
+                    + maxHiddenStates + "); observe some of them or raise --max-hidden-states");
+        }
+        boolean[] isHidden = new boolean[n];
+        for (int h : hidden) {
+            isHidden[h] = true;
+        }
+        // Split every dependent factor into the sets that touch no hidden variable (summed once per
+        // child state, in base) and the sets that do (re-evaluated for every joint state).
+        double constant = 0;
+        List<Integer> dep = new ArrayList<>();
+        for (int c = 0; c < n; c++) {
+            if (!keep[c]) {
+                continue;
+            }
+            boolean depends = isHidden[c];
+            for (int p : parentUnion[c]) {
+                depends |= isHidden[p];
+            }
+            if (depends) {
+                dep.add(c);
+            } else {
+                constant += logFactor(c, x);
+            }
+        }
+        int[] dependent = dep.stream().mapToInt(Integer::intValue).toArray();
+        double[][] base = new double[dependent.length][];
+        int[][] varying = new int[dependent.length][];
+        for (int d = 0; d < dependent.length; d++) {
+            int c = dependent[d];
+            int[][] ps = parents[c];
+            int[] vary = new int[ps.length];
+            int nv = 0;
+            double[] b = new double[arity[c]];
+            int saved = x[c];
+            for (int t = 0; t < ps.length; t++) {
+                boolean touches = false;
+                for (int p : ps[t]) {
+                    touches |= isHidden[p];
+                }
+                if (touches) {
+                    vary[nv++] = t;
+                } else if (isHidden[c]) {
+                    for (int k = 0; k < arity[c]; k++) {
+                        x[c] = k;
+                        b[k] += term(c, t, x);
+                    }
+                } else {
+                    b[saved] += term(c, t, x);
+                }
+            }
+            x[c] = saved;
+            base[d] = b;
+            varying[d] = Arrays.copyOf(vary, nv);
+        }
+        for (int h : hidden) {
+            x[h] = 0;
+        }
+        double acc = Double.NEGATIVE_INFINITY;
+        while (true) {
+            double lp = 0;
+            for (int d = 0; d < dependent.length; d++) {
+                int c = dependent[d];
+                double f = base[d][x[c]];
+                for (int t : varying[d]) {
+                    f += term(c, t, x);
+                }
+                lp += Math.log(f);
+            }
+            acc = LogSum.add(acc, lp);
+            int i = 0;
+            while (i < hidden.length && ++x[hidden[i]] == arity[hidden[i]]) {
+                x[hidden[i]] = 0;
+                i++;
+            }
+            if (i == hidden.length) {
+                break;
+            }
+        }
+        return constant + acc;
+    }
+
+    /** The hidden variables {@link #logProbability} must sum out for this case (the others drop out). */
+    public int[] hiddenToSumOut(int[] states) {
+        int[] x = states.clone();
+        return relevantHidden(x, relevant(x));
+    }
+
+    /** Number of joint states of hidden variables that {@link #logProbability} would enumerate for this case. */
+    public double hiddenJointStates(int[] states) {
+        int[] hidden = hiddenToSumOut(states);
+        return hidden.length == 0 ? 0 : jointStates(hidden);
+    }
+
+    /**
+     * log P(target | given, D, ≺) = log P(target ∪ given) − log P(given); −∞ when the two
+     * disagree on a variable. Throws a {@link UserError} when the evidence has probability zero.
+     */
+    public double logConditional(int[] target, int[] given) {
+        double lg = logProbability(given);
+        if (lg == Double.NEGATIVE_INFINITY) {
+            throw new UserError("--given has probability zero under this order and store; a conditional on it is undefined");
+        }
+        int[] joint = given.clone();
+        for (int v = 0; v < n; v++) {
+            if (target[v] != CaseParser.HIDDEN) {
+                if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
+                    return Double.NEGATIVE_INFINITY;
+                }
+                joint[v] = target[v];
+            }
+        }
+        return logProbability(joint) - lg;
+    }
+
+    /** Backward pass through the order: which factors matter for this case. */
+    private boolean[] relevant(int[] x) {
+        boolean[] needed = new boolean[n];
+        boolean[] keep = new boolean[n];
+        for (int p = n - 1; p >= 0; p--) {
+            int v = order[p];
+            if (x[v] != CaseParser.HIDDEN || needed[v]) {
+                keep[v] = true;
+                for (int u : parentUnion[v]) {
+                    needed[u] = true;
+                }
+            }
+        }
+        return keep;
+    }
+
+    private int[] relevantHidden(int[] x, boolean[] keep) {
+        int count = 0;
+        for (int v = 0; v < n; v++) {
+            if (keep[v] && x[v] == CaseParser.HIDDEN) {
+                count++;
+            }
+        }
+        int[] out = new int[count];
+        for (int v = 0, i = 0; v < n; v++) {
+            if (keep[v] && x[v] == CaseParser.HIDDEN) {
+                out[i++] = v;
+            }
+        }
+        return out;
+    }
+
+    private double jointStates(int[] hidden) {
+        double joint = 1;
+        for (int h : hidden) {
+            joint *= arity[h];
+        }
+        return joint;
+    }
+
+    /**
+     * log f_c(x_c | x_pred) = log Σ_U w_c(U) (N_ijk + α_ijk)/(N_ij + α_ij), with N_ij found by binary
+     * search over the family's sorted observed configurations (0 when j was never observed).
+     */
+    private double logFactor(int c, int[] x) {
+        double f = 0;
+        for (int t = 0; t < parents[c].length; t++) {
+            f += term(c, t, x);
+        }
+        return Math.log(f);
+    }
+
+    /** w_c(U_t) · (N_ijk + α_ijk)/(N_ij + α_ij) for parent set t of child c, with j, k read from {@code x}. */
+    private double term(int c, int t, int[] x) {
+        int r = arity[c];
+        long j = 0;
+        for (int p : parents[c][t]) {
+            j = j * arity[p] + x[p];
+        }
+        int row = Arrays.binarySearch(configs[c][t], j);
+        long nijk = 0;
+        long nij = 0;
+        if (row >= 0) {
+            nijk = counts[c][t][row * r + x[c]];
+            nij = rowTotals[c][t][row];
+        }
+        return weight[c][t] * score.predictive(nijk, nij, r, q[c][t]);
+    }
+
+    private String names(int[] vars) {
+        List<String> out = new ArrayList<>();
+        for (int v : vars) {
+            out.add(store.variables().get(v).name());
+        }
+        return String.join(", ", out);
+    }
+}

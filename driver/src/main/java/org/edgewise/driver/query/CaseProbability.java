@@ -1,0 +1,22 @@
+package org.edgewise.driver.query;
+
+/**
+ * A model that gives the probability of a case with hidden variables summed out: a single order
+ * ({@link CasePredictor}) or a mixture over orders ({@link OrderMixture}).
+ */
+public interface CaseProbability {
+    /** log P(case | D); {@code states[v]} a state index or {@link CaseParser#HIDDEN}. */
+    double logProbability(int[] states);
+
+    /** log P(target | given, D); −∞ when the two disagree on a variable. */
+    double logConditional(int[] target, int[] given);
+
+    /** The hidden variables that must be summed out for this case. */
+    int[] hiddenToSumOut(int[] states);
+
+    /** Joint states enumerated to sum them out. */
+    double hiddenJointStates(int[] states);
+
+    /** Parent-set posterior mass skipped (0 = exact). */
+    double skippedMass();
+}

@@ -1,0 +1,157 @@
+package org.edgewise.driver.query;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.TreeSet;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.LogSum;
+import org.edgewise.driver.average.OrderPosterior;
+
+/**
+ * Prediction when the order is unknown: a mixture over orders of the given-order predictors,
+ * <pre>
+ *   P(x | D) = Σ_≺ P(≺ | D) P(x | D, ≺),   P(≺ | D) ∝ exp(logEvidence(≺))   (order-modular, uniform order prior)
+ * </pre>
+ * over either every allowed order with its exact posterior weight ({@link #exact}), or a sample
+ * of orders each weighted by its frequency ({@link #sampled}: orders drawn from the exact
+ * posterior, or stored by order MCMC). Conditionals are ratios of the mixed joints,
+ * P(t | g, D) = P(t, g | D) / P(g | D) — not a mixture of per-order conditionals.
+ *
+ * <p>Memory: one {@link CasePredictor} per distinct order kept. Immutable, thread-safe.
+ */
+public final class OrderMixture implements CaseProbability {
+    private final CasePredictor[] parts;
+    private final double[] logWeight;
+    private final int[] bestOrder;
+
+    private OrderMixture(CasePredictor[] parts, double[] logWeight, int[] bestOrder) {
+        this.parts = parts;
+        this.logWeight = logWeight;
+        this.bestOrder = bestOrder;
+    }
+
+    /** Every order in {@code orders} with weight ∝ exp(logEvidence(≺)) (orders of zero likelihood dropped). */
+    public static OrderMixture exact(LocalScores ls, List<int[]> orders, double tailMass, long maxHidden) {
+        List<CasePredictor> ps = new ArrayList<>();
+        List<Double> lw = new ArrayList<>();
+        int[] best = null;
+        double bestEv = Double.NEGATIVE_INFINITY;
+        for (int[] o : orders) {
+            OrderPosterior op;
+            try {
+                op = OrderPosterior.of(ls, o);
+            } catch (UserError e) {
+                continue; // a required parent after its child: likelihood zero under this order
+            }
+            double ev = op.result().logEvidence();
+            ps.add(CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHidden));
+            lw.add(ev);
+            if (ev > bestEv) {
+                bestEv = ev;
+                best = o.clone();
+            }
+        }
+        double[] w = lw.stream().mapToDouble(Double::doubleValue).toArray();
+        double z = LogSum.of(w);
+        for (int k = 0; k < w.length; k++) {
+            w[k] -= z;
+        }
+        return new OrderMixture(ps.toArray(new CasePredictor[0]), w, best);
+    }
+
+    /** Sampled orders, each distinct order weighted by its share of the sample. */
+    public static OrderMixture sampled(LocalScores ls, List<int[]> orders, double tailMass, long maxHidden) {
+        Map<String, int[]> distinct = new HashMap<>();
+        Map<String, Integer> count = new HashMap<>();
+        for (int[] o : orders) {
+            String key = java.util.Arrays.toString(o);
+            distinct.putIfAbsent(key, o);
+            count.merge(key, 1, Integer::sum);
+        }
+        List<String> keys = new ArrayList<>(new TreeSet<>(distinct.keySet()));
+        CasePredictor[] ps = new CasePredictor[keys.size()];
+        double[] w = new double[keys.size()];
+        int[] best = null;
+        double bestEv = Double.NEGATIVE_INFINITY;
+        for (int k = 0; k < keys.size(); k++) {
+            int[] o = distinct.get(keys.get(k));
+            OrderPosterior op = OrderPosterior.of(ls, o);
+            ps[k] = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHidden);
+            w[k] = Math.log(count.get(keys.get(k)) / (double) orders.size());
+            if (op.result().logEvidence() > bestEv) {
+                bestEv = op.result().logEvidence();
+                best = o.clone();
+            }
+        }
+        return new OrderMixture(ps, w, best);
+    }
+
+    /** Number of distinct orders mixed. */
+    public int size() {
+        return parts.length;
+    }
+
+    /** The order of highest evidence among those mixed (for a single-network comparison). */
+    public int[] bestOrder() {
+        return bestOrder.clone();
+    }
+
+    @Override
+    public double logProbability(int[] states) {
+        double acc = Double.NEGATIVE_INFINITY;
+        for (int k = 0; k < parts.length; k++) {
+            acc = LogSum.add(acc, logWeight[k] + parts[k].logProbability(states));
+        }
+        return acc;
+    }
+
+    @Override
+    public double logConditional(int[] target, int[] given) {
+        double lg = logProbability(given);
+        if (lg == Double.NEGATIVE_INFINITY) {
+            throw new UserError("--given has probability zero under the store; a conditional on it is undefined");
+        }
+        int[] joint = given.clone();
+        for (int v = 0; v < joint.length; v++) {
+            if (target[v] != CaseParser.HIDDEN) {
+                if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
+                    return Double.NEGATIVE_INFINITY;
+                }
+                joint[v] = target[v];
+            }
+        }
+        return logProbability(joint) - lg;
+    }
+
+    @Override
+    public int[] hiddenToSumOut(int[] states) {
+        TreeSet<Integer> all = new TreeSet<>();
+        for (CasePredictor p : parts) {
+            for (int v : p.hiddenToSumOut(states)) {
+                all.add(v);
+            }
+        }
+        return all.stream().mapToInt(Integer::intValue).toArray();
+    }
+
+    @Override
+    public double hiddenJointStates(int[] states) {
+        double max = 0;
+        for (CasePredictor p : parts) {
+            max = Math.max(max, p.hiddenJointStates(states));
+        }
+        return max;
+    }
+
+    @Override
+    public double skippedMass() {
+        double s = 0;
+        for (int k = 0; k < parts.length; k++) {
+            s += Math.exp(logWeight[k]) * parts[k].skippedMass();
+        }
+        return s;
+    }
+}

@@ -1,0 +1,33 @@
+package org.edgewise.driver.query;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * The JSON result of {@code predict} for one case.
+ *
+ * @param caseStates                  the case, variable → state (hidden variables left out)
+ * @param given                       the evidence of a conditional, else null
+ * @param probability                 P(case | given, D, ≺), averaged over every DAG consistent with the order
+ * @param logProbability              its natural log
+ * @param bestNetworkProbability      the same under the single best network under the order
+ * @param bestNetworkLogProbability   its natural log
+ * @param hiddenSummedOut             hidden variables that had to be summed out (the rest drop out)
+ * @param hiddenJointStates           joint states enumerated to sum them out
+ * @param order                       the order
+ * @param score                       score kind
+ * @param ess                         ESS
+ * @param prior                       structure prior
+ * @param maxParents                  in-degree bound d
+ * @param skippedPosteriorMass        parent-set posterior mass skipped (total over variables; 0 = exact)
+ * @param note                        how to read it
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") Map<String, String> caseStates,
+                         Map<String, String> given, double probability, double logProbability,
+                         double bestNetworkProbability, double bestNetworkLogProbability,
+                         List<String> hiddenSummedOut, double hiddenJointStates, List<String> order,
+                         String score, double ess, String prior, int maxParents, double skippedPosteriorMass,
+                         String note) {
+}

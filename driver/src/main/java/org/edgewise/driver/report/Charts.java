@@ -1,0 +1,297 @@
+package org.edgewise.driver.report;
+
+import static org.edgewise.driver.report.Html.c;
+import static org.edgewise.driver.report.Html.esc;
+
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * The report's inline SVG figures. Each method returns one well-formed {@code <svg>} element
+ * (XML: numeric character references only, every name escaped by {@link Html#esc}).
+ */
+public final class Charts {
+    /** ColorBrewer "Blues" (9 classes; Brewer, colorbrewer2.org), interpolated linearly. */
+    private static final int[] BLUES = {0xf7fbff, 0xdeebf7, 0xc6dbef, 0x9ecae1, 0x6baed6, 0x4292c6, 0x2171b5,
+        0x08519c, 0x08306b};
+    /** Distinct line colours for chains (the "Tableau 10" set, common practice). */
+    private static final String[] CHAIN = {"#4e79a7", "#f28e2b", "#e15759", "#76b7b2", "#59a14f", "#edc948",
+        "#b07aa1", "#ff9da7", "#9c755f", "#bab0ac"};
+    static final String TRUE_COLOUR = "#1a7f37";
+    static final String REVERSED_COLOUR = "#b35c00";
+    static final String EXTRA_COLOUR = "#c0254a";
+    static final String PLAIN_COLOUR = "#34495e";
+    static final String MISSED_COLOUR = "#8a8a8a";
+
+    private Charts() {
+    }
+
+    /** The colour of posterior p in [0, 1] on the Blues scale, as #rrggbb. */
+    public static String colour(double p) {
+        double x = Math.max(0, Math.min(1, p)) * (BLUES.length - 1);
+        int i = Math.min((int) Math.floor(x), BLUES.length - 2);
+        double t = x - i;
+        int a = BLUES[i];
+        int b = BLUES[i + 1];
+        int r = (int) Math.round(((a >> 16) & 255) * (1 - t) + ((b >> 16) & 255) * t);
+        int g = (int) Math.round(((a >> 8) & 255) * (1 - t) + ((b >> 8) & 255) * t);
+        int bl = (int) Math.round((a & 255) * (1 - t) + (b & 255) * t);
+        return String.format(Locale.ROOT, "#%02x%02x%02x", r, g, bl);
+    }
+
+    /**
+     * Heatmap of P(row → column): rows are parents ("from"), columns children ("to"). With
+     * {@code truth} non-null, cells of true edges get a green outline. A colour legend on the right.
+     */
+    public static String heatmap(EdgeMatrix m, boolean[][] truth) {
+        int n = m.size();
+        double cell = n <= 16 ? 32 : Math.max(9, 520.0 / n);
+        int maxLen = 0;
+        for (String v : m.variables()) {
+            maxLen = Math.max(maxLen, Html.shorten(v, 24).length());
+        }
+        double label = 7.2 * maxLen + 12;
+        double left = label;
+        double top = label * 0.72 + 14;
+        double w = left + n * cell + 110;
+        double h = top + n * cell + 40;
+        boolean values = cell >= 24;
+        StringBuilder s = new StringBuilder();
+        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"heatmap\" role=\"img\" width=\"").append(c(w))
+                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
+                .append("\" font-family=\"sans-serif\" font-size=\"12\">\n");
+        s.append("<title>Edge posterior heatmap: row = parent (from), column = child (to)</title>\n");
+        s.append("<defs><linearGradient id=\"hm-scale\" x1=\"0\" y1=\"1\" x2=\"0\" y2=\"0\">");
+        for (int i = 0; i < BLUES.length; i++) {
+            s.append(String.format(Locale.ROOT, "<stop offset=\"%.3f\" stop-color=\"#%06x\"/>", i / (double) (BLUES.length - 1), BLUES[i]));
+        }
+        s.append("</linearGradient></defs>\n");
+        for (int i = 0; i < n; i++) {
+            String name = esc(Html.shorten(m.variables().get(i), 24));
+            double y = top + i * cell + cell / 2 + 4;
+            s.append("<text x=\"").append(c(left - 6)).append("\" y=\"").append(c(y))
+                    .append("\" text-anchor=\"end\">").append(name).append("</text>\n");
+            double x = left + i * cell + cell / 2;
+            s.append("<text transform=\"translate(").append(c(x + 4)).append(',').append(c(top - 6))
+                    .append(") rotate(-45)\">").append(name).append("</text>\n");
+        }
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                double x = left + b * cell;
+                double y = top + a * cell;
+                if (a == b) {
+                    s.append("<rect x=\"").append(c(x)).append("\" y=\"").append(c(y)).append("\" width=\"").append(c(cell))
+                            .append("\" height=\"").append(c(cell)).append("\" fill=\"#e6e6e6\"/>\n");
+                    continue;
+                }
+                double p = m.p()[a][b];
+                s.append("<rect x=\"").append(c(x)).append("\" y=\"").append(c(y)).append("\" width=\"").append(c(cell))
+                        .append("\" height=\"").append(c(cell)).append("\" fill=\"").append(colour(p))
+                        .append("\" stroke=\"#ffffff\" stroke-width=\"0.5\"><title>")
+                        .append(esc(m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": " + Html.f(p, 3)))
+                        .append(truth != null && truth[a][b] ? " (true edge)" : "").append("</title></rect>\n");
+                if (truth != null && truth[a][b]) {
+                    s.append("<rect x=\"").append(c(x + 2)).append("\" y=\"").append(c(y + 2)).append("\" width=\"")
+                            .append(c(cell - 4)).append("\" height=\"").append(c(cell - 4))
+                            .append("\" fill=\"none\" stroke=\"").append(TRUE_COLOUR).append("\" stroke-width=\"2.5\"/>\n");
+                }
+                if (values && p >= 0.005) {
+                    s.append("<text x=\"").append(c(x + cell / 2)).append("\" y=\"").append(c(y + cell / 2 + 4))
+                            .append("\" text-anchor=\"middle\" font-size=\"10\" fill=\"").append(p > 0.55 ? "#ffffff" : "#1f2d3d")
+                            .append("\">").append(esc(Html.prob(p))).append("</text>\n");
+                }
+            }
+        }
+        double lx = left + n * cell + 24;
+        double lh = Math.max(100, n * cell);
+        s.append("<rect x=\"").append(c(lx)).append("\" y=\"").append(c(top)).append("\" width=\"16\" height=\"")
+                .append(c(lh)).append("\" fill=\"url(#hm-scale)\" stroke=\"#999999\" stroke-width=\"0.5\"/>\n");
+        for (int i = 0; i <= 4; i++) {
+            double y = top + lh * (1 - i / 4.0);
+            s.append("<line x1=\"").append(c(lx + 16)).append("\" x2=\"").append(c(lx + 20)).append("\" y1=\"").append(c(y))
+                    .append("\" y2=\"").append(c(y)).append("\" stroke=\"#555555\"/>");
+            s.append("<text x=\"").append(c(lx + 23)).append("\" y=\"").append(c(y + 4)).append("\">")
+                    .append(Html.f(i / 4.0, 2)).append("</text>\n");
+        }
+        s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 16)).append("\">posterior</text>\n");
+        s.append("<text x=\"").append(c(left)).append("\" y=\"").append(c(top + n * cell + 24))
+                .append("\" fill=\"#444444\">row = from (parent), column = to (child)")
+                .append(truth != null ? "; green outline = edge of the known network" : "").append("</text>\n");
+        return s.append("</svg>").toString();
+    }
+
+    /**
+     * The consensus graph: edges with posterior above the threshold, stroke width 1 + 5p and a
+     * label p, laid out by {@link ConsensusLayout}. With {@code truth}: correct edges green,
+     * reversed orange, extra red, true edges the consensus lacks dashed grey.
+     */
+    public static String graph(EdgeMatrix m, boolean[][] g, ConsensusLayout lay, boolean[][] truth) {
+        int n = m.size();
+        double boxW = ConsensusLayout.BOX_W;
+        double boxH = ConsensusLayout.BOX_H;
+        double w = lay.width();
+        double h = lay.height();
+        StringBuilder s = new StringBuilder();
+        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"graph\" role=\"img\" width=\"").append(c(w))
+                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
+                .append("\" font-family=\"sans-serif\" font-size=\"12\">\n");
+        s.append("<title>Consensus graph</title>\n<defs>");
+        for (String col : new String[] {PLAIN_COLOUR, TRUE_COLOUR, REVERSED_COLOUR, EXTRA_COLOUR, MISSED_COLOUR}) {
+            s.append("<marker id=\"arrow-").append(col.substring(1)).append("\" viewBox=\"0 0 10 10\" refX=\"10\" refY=\"5\" ")
+                    .append("markerUnits=\"userSpaceOnUse\" markerWidth=\"11\" markerHeight=\"11\" orient=\"auto\">")
+                    .append("<path d=\"M0,0 L10,5 L0,10 z\" fill=\"").append(col).append("\"/></marker>");
+        }
+        s.append("</defs>\n");
+        int[] order = lay.order();
+        int[] pos = new int[n];
+        for (int i = 0; i < n; i++) {
+            pos[order[i]] = i;
+        }
+        StringBuilder labels = new StringBuilder();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                boolean missed = truth != null && truth[a][b] && !g[a][b] && !g[b][a];
+                if (!g[a][b] && !missed) {
+                    continue;
+                }
+                String col = truth == null ? PLAIN_COLOUR
+                        : missed ? MISSED_COLOUR
+                        : truth[a][b] ? TRUE_COLOUR
+                        : truth[b][a] ? REVERSED_COLOUR : EXTRA_COLOUR;
+                double p = m.p()[a][b];
+                StringBuilder d = new StringBuilder();
+                double lx;
+                double ly;
+                double[][] pts = lay.route(a, b);
+                if (pts != null) { // downward: vertical S-curves through the virtual slots
+                    d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
+                    for (int i = 0; i + 1 < pts.length; i++) {
+                        double k = (pts[i + 1][1] - pts[i][1]) / 2;
+                        d.append(" C").append(c(pts[i][0])).append(',').append(c(pts[i][1] + k)).append(' ')
+                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1] - k)).append(' ')
+                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1]));
+                    }
+                    int mid = (pts.length - 1) / 2;
+                    lx = pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2;
+                    ly = pts.length % 2 == 1 ? pts[mid][1] : (pts[mid][1] + pts[mid + 1][1]) / 2;
+                } else if (lay.layer(a) == lay.layer(b)) { // same layer (kept out of the layering): arc below
+                    double x1 = lay.x(a);
+                    double x2 = lay.x(b);
+                    double y1 = lay.y(a) + boxH / 2;
+                    d.append('M').append(c(x1)).append(',').append(c(y1)).append(" Q").append(c((x1 + x2) / 2)).append(',')
+                            .append(c(y1 + 48)).append(' ').append(c(x2)).append(',').append(c(y1));
+                    lx = (x1 + x2) / 2;
+                    ly = y1 + 24;
+                } else { // against the layering (a cycle): arc out to the right
+                    double x1 = lay.x(a) + boxW / 2;
+                    double x2 = lay.x(b) + boxW / 2 + 1;
+                    double cx = Math.max(x1, x2) + 60;
+                    double cy = (lay.y(a) + lay.y(b)) / 2;
+                    d.append('M').append(c(x1)).append(',').append(c(lay.y(a))).append(" Q").append(c(cx)).append(',')
+                            .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(lay.y(b)));
+                    lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
+                    ly = cy;
+                }
+                String title = esc(m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(p, 3)
+                        + (missed ? " (true edge, below the threshold)" : ""));
+                s.append("<path d=\"").append(d).append("\" fill=\"none\" stroke=\"")
+                        .append(col).append("\" stroke-width=\"").append(c(missed ? 1.2 : 1 + 5 * p)).append('"')
+                        .append(missed ? " stroke-dasharray=\"5,4\"" : "").append(" marker-end=\"url(#arrow-")
+                        .append(col.substring(1)).append(")\"><title>").append(title).append("</title></path>\n");
+                labels.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(ly + 4))
+                        .append("\" text-anchor=\"middle\" font-size=\"11\" fill=\"").append(col)
+                        .append("\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">")
+                        .append(esc(Html.prob(p))).append("</text>\n");
+            }
+        }
+        s.append(labels);
+        for (int v = 0; v < n; v++) {
+            String name = m.variables().get(v);
+            double x = lay.x(v);
+            double y = lay.y(v);
+            s.append("<g><title>").append(esc(name)).append(" (position ").append(pos[v] + 1).append(" in the order)</title>")
+                    .append("<rect x=\"").append(c(x - boxW / 2)).append("\" y=\"").append(c(y - boxH / 2))
+                    .append("\" width=\"").append(c(boxW)).append("\" height=\"").append(c(boxH))
+                    .append("\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
+                    .append("<text x=\"").append(c(x)).append("\" y=\"").append(c(y + 4))
+                    .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
+        }
+        return s.append("</svg>").toString();
+    }
+
+    /** Trace plot: log evidence per chain against the trace sample index. */
+    public static String traces(List<List<Double>> traces, int thin) {
+        double w = 760;
+        double h = 260;
+        double left = 80;
+        double right = 110;
+        double top = 14;
+        double bottom = 40;
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        int len = 1;
+        for (List<Double> t : traces) {
+            len = Math.max(len, t.size());
+            for (Double v : t) {
+                if (v != null && Double.isFinite(v)) {
+                    lo = Math.min(lo, v);
+                    hi = Math.max(hi, v);
+                }
+            }
+        }
+        if (!(lo <= hi)) {
+            lo = 0;
+            hi = 1;
+        }
+        if (hi - lo < 1e-9) {
+            lo -= 1;
+            hi += 1;
+        }
+        double pw = w - left - right;
+        double ph = h - top - bottom;
+        StringBuilder s = new StringBuilder();
+        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"trace\" role=\"img\" width=\"").append(c(w))
+                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
+                .append("\" font-family=\"sans-serif\" font-size=\"11\">\n<title>Log evidence per chain</title>\n");
+        s.append("<rect x=\"").append(c(left)).append("\" y=\"").append(c(top)).append("\" width=\"").append(c(pw))
+                .append("\" height=\"").append(c(ph)).append("\" fill=\"#fbfbfb\" stroke=\"#999999\"/>\n");
+        for (int i = 0; i <= 4; i++) {
+            double v = lo + (hi - lo) * i / 4;
+            double yy = top + ph * (1 - i / 4.0);
+            s.append("<line x1=\"").append(c(left - 4)).append("\" x2=\"").append(c(left)).append("\" y1=\"").append(c(yy))
+                    .append("\" y2=\"").append(c(yy)).append("\" stroke=\"#555555\"/><text x=\"").append(c(left - 6))
+                    .append("\" y=\"").append(c(yy + 4)).append("\" text-anchor=\"end\">").append(Html.f(v, 1)).append("</text>\n");
+        }
+        for (int i = 0; i <= 4; i++) {
+            double xx = left + pw * i / 4.0;
+            long step = Math.round((len - 1) * i / 4.0) * Math.max(thin, 1);
+            s.append("<line x1=\"").append(c(xx)).append("\" x2=\"").append(c(xx)).append("\" y1=\"").append(c(top + ph))
+                    .append("\" y2=\"").append(c(top + ph + 4)).append("\" stroke=\"#555555\"/><text x=\"").append(c(xx))
+                    .append("\" y=\"").append(c(top + ph + 16)).append("\" text-anchor=\"middle\">").append(step).append("</text>\n");
+        }
+        s.append("<text x=\"").append(c(left + pw / 2)).append("\" y=\"").append(c(h - 6))
+                .append("\" text-anchor=\"middle\">step (trace kept every ").append(Math.max(thin, 1)).append(" steps)</text>\n");
+        s.append("<text transform=\"translate(14,").append(c(top + ph / 2)).append(") rotate(-90)\" text-anchor=\"middle\">log evidence of the order</text>\n");
+        for (int k = 0; k < traces.size(); k++) {
+            List<Double> t = traces.get(k);
+            String col = CHAIN[k % CHAIN.length];
+            StringBuilder pts = new StringBuilder();
+            for (int i = 0; i < t.size(); i++) {
+                Double v = t.get(i);
+                if (v == null || !Double.isFinite(v)) {
+                    continue;
+                }
+                double xx = left + (len == 1 ? 0 : pw * i / (len - 1.0));
+                double yy = top + ph * (1 - (v - lo) / (hi - lo));
+                pts.append(c(xx)).append(',').append(c(yy)).append(' ');
+            }
+            s.append("<polyline fill=\"none\" stroke=\"").append(col).append("\" stroke-width=\"1.2\" points=\"")
+                    .append(pts.toString().trim()).append("\"/>\n");
+            s.append("<line x1=\"").append(c(w - right + 12)).append("\" x2=\"").append(c(w - right + 32)).append("\" y1=\"")
+                    .append(c(top + 10 + 16 * k)).append("\" y2=\"").append(c(top + 10 + 16 * k)).append("\" stroke=\"")
+                    .append(col).append("\" stroke-width=\"2\"/><text x=\"").append(c(w - right + 36)).append("\" y=\"")
+                    .append(c(top + 14 + 16 * k)).append("\">chain ").append(k + 1).append("</text>\n");
+        }
+        return s.append("</svg>").toString();
+    }
+}

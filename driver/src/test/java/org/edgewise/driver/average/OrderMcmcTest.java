@@ -1,0 +1,106 @@
+package org.edgewise.driver.average;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.List;
+import org.edgewise.driver.store.EdgeRule;
+import org.edgewise.driver.store.ScoreStore;
+import org.junit.jupiter.api.Test;
+
+/** Order MCMC (Friedman & Koller 2003) against the exact sum over orders (Koivisto & Sood 2004). */
+class OrderMcmcTest {
+
+    static double maxDiff(OrderMcmc.Result mc, double[][] exact) {
+        double worst = 0;
+        int n = exact.length;
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                double p = mc.edges()[a][b] == null ? 0 : mc.edges()[a][b].mean();
+                worst = Math.max(worst, Math.abs(p - exact[a][b]));
+            }
+        }
+        return worst;
+    }
+
+    @Test
+    void agreesWithExactWithinToleranceOnNineVariables() {
+        // tolerance 0.05 on every edge: the acceptance figure for the default run
+        ScoreStore s = TestStores.random(9, 2, 3, 500, 31);
+        LocalScores ls = TestStores.scores(s);
+        double[][] exact = ExactOrderSum.run(ls, OrderConstraints.none(9)).edgePosterior();
+        OrderMcmc.Result mc = OrderMcmc.run(ls, OrderConstraints.none(9),
+                OrderMcmc.Settings.defaults(5).withSteps(40_000, 10_000), null);
+        assertTrue(maxDiff(mc, exact) < 0.05, "max |mcmc - exact| = " + maxDiff(mc, exact));
+        assertTrue(mc.maxRhat() < 1.05, "rhat " + mc.maxRhat());
+        assertTrue(mc.acceptance() > 0 && mc.acceptance() < 1);
+        // every estimate within 5 Monte Carlo standard errors (+0.005 for edges whose draws barely vary)
+        for (int a = 0; a < 9; a++) {
+            for (int b = 0; b < 9; b++) {
+                OrderMcmc.Estimate e = mc.edges()[a][b];
+                if (e != null && !Double.isNaN(e.mcse())) {
+                    assertEquals(exact[a][b], e.mean(), 5 * e.mcse() + 0.005, a + "->" + b);
+                }
+            }
+        }
+    }
+
+    @Test
+    void agreesWithExactUnderTiersAndRequiredEdges() {
+        ScoreStore s = TestStores.random(8, 2, 2, 400, 17);
+        LocalScores ls = TestStores.scores(s, List.of(new EdgeRule("v1", "v2")), List.of(new EdgeRule("v6", "v0")));
+        OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3", "v4"), List.of("v1", "v2")));
+        double[][] exact = ExactOrderSum.run(ls, oc).edgePosterior();
+        OrderMcmc.Result mc = OrderMcmc.run(ls, oc, OrderMcmc.Settings.defaults(2).withSteps(40_000, 10_000), null);
+        assertTrue(maxDiff(mc, exact) < 0.05, "max |mcmc - exact| = " + maxDiff(mc, exact));
+        assertEquals(1.0, mc.edges()[6][0].mean(), 1e-12);
+        assertEquals(0.0, mc.edges()[1][2].mean(), 0.0);
+        for (int[] order : mc.orders()) {
+            assertTrue(oc.allows(order));
+        }
+    }
+
+    @Test
+    void sameSeedSameResultWhateverTheThreads() {
+        ScoreStore s = TestStores.random(8, 2, 2, 300, 4);
+        LocalScores ls = TestStores.scores(s);
+        OrderMcmc.Settings st = OrderMcmc.Settings.defaults(99).withSteps(5000, 1000).withDraws(100);
+        OrderMcmc.Result a = OrderMcmc.run(ls, OrderConstraints.none(8), st, null);
+        OrderMcmc.Result b = OrderMcmc.run(ls, OrderConstraints.none(8), st, null);
+        OrderMcmc.Result c = OrderMcmc.run(ls, OrderConstraints.none(8), st.withSeed(100), null);
+        boolean differs = false;
+        for (int i = 0; i < 8; i++) {
+            for (int j = 0; j < 8; j++) {
+                if (a.edges()[i][j] != null) {
+                    assertEquals(a.edges()[i][j], b.edges()[i][j]);
+                    differs |= a.edges()[i][j].mean() != c.edges()[i][j].mean();
+                }
+            }
+        }
+        assertEquals(a.acceptance(), b.acceptance(), 0.0);
+        assertTrue(differs, "another seed must give other draws");
+    }
+
+    @Test
+    void tooShortRunOnAMultimodalPosteriorReportsRhatAboveThreshold() {
+        // 5,000 rows of a network with sharp tables: the order posterior has separated modes and
+        // 60 steps per chain from random starts cannot mix — R̂ must say so (> 1.01); the same
+        // diagnostic passes (≤ 1.01 is not demanded, < 1.1) on a long run of easy data above.
+        ScoreStore s = TestStores.random(10, 2, 2, 5000, 77);
+        LocalScores ls = TestStores.scores(s);
+        OrderMcmc.Result mc = OrderMcmc.run(ls, OrderConstraints.none(10),
+                OrderMcmc.Settings.defaults(3).withSteps(60, 0).withDraws(20), null);
+        assertTrue(mc.maxRhat() > 1.01, "rhat " + mc.maxRhat());
+        assertTrue(!mc.converged());
+    }
+
+    @Test
+    void untilRhatRunsLongerThanAsked() {
+        ScoreStore s = TestStores.random(8, 2, 2, 2000, 78);
+        LocalScores ls = TestStores.scores(s);
+        OrderMcmc.Result mc = OrderMcmc.run(ls, OrderConstraints.none(8),
+                OrderMcmc.Settings.defaults(3).withSteps(400, 0).withDraws(20).withUntilRhat(1.01, 200_000), null);
+        assertTrue(mc.stepsPerChain() > 400, "steps " + mc.stepsPerChain());
+        assertTrue(mc.converged() == (mc.maxRhat() < 1.01));
+    }
+}

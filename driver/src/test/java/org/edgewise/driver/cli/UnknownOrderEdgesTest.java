@@ -1,0 +1,109 @@
+package org.edgewise.driver.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.nio.file.Path;
+import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.store.ScoreStore;
+import org.junit.jupiter.api.BeforeEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** {@code edges --method exact|mcmc} end to end: JSON shape, agreement with the library, refusals word for word. */
+class UnknownOrderEdgesTest {
+    static final ObjectMapper JSON = new ObjectMapper();
+
+    @TempDir
+    Path dir;
+    Path store;
+    ScoreStore mem;
+
+    @BeforeEach
+    void setUp() {
+        store = dir.resolve("store");
+        mem = CliRun.store(store, 5_003L, 2);
+    }
+
+    private static double edge(JsonNode j, String from, String to) {
+        for (JsonNode e : j.get("edges")) {
+            if (e.get("from").asText().equals(from) && e.get("to").asText().equals(to)) {
+                return e.get("posterior").asDouble();
+            }
+        }
+        throw new AssertionError(from + "->" + to);
+    }
+
+    @Test
+    void exactAndMcmcAgreeAndReportTheirDiagnostics() throws Exception {
+        CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
+                "--features", "ancestors,markov-blanket", "--order-samples", "2000");
+        assertEquals(0, ex.status(), ex.err());
+        JsonNode e = JSON.readTree(ex.out());
+        assertEquals("exact", e.get("method").asText());
+        assertEquals(20, e.get("edges").size());
+        ExactOrderSum.Result lib = ExactOrderSum.run(LocalScores.build(mem, ScoringOptions.asStored()), OrderConstraints.none(5));
+        assertEquals(lib.logEvidence(), e.get("logEvidence").asDouble(), 1e-9);
+        assertEquals(lib.edgePosterior()[0][1], edge(e, "v0", "v1"), 1e-12);
+        // 20 ancestor pairs + 10 unordered Markov-blanket pairs
+        assertEquals(30, e.get("features").size());
+
+        CliRun mc = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
+                "--steps", "20000", "--seed", "7");
+        assertEquals(0, mc.status(), mc.err());
+        JsonNode m = JSON.readTree(mc.out());
+        assertEquals("mcmc", m.get("method").asText());
+        JsonNode d = m.get("diagnostics");
+        assertEquals(4, d.get("chains").asInt());
+        assertEquals(20000, d.get("steps").asLong());
+        assertEquals(5000, d.get("burnIn").asLong());
+        assertTrue(d.get("rhat").asDouble() < 1.05, d.toString());
+        assertEquals(4, d.get("traces").size());
+        for (JsonNode x : e.get("edges")) {
+            double p = edge(m, x.get("from").asText(), x.get("to").asText());
+            assertEquals(x.get("posterior").asDouble(), p, 0.05, x.toString());
+        }
+        // the same seed: the same JSON numbers
+        CliRun again = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
+                "--steps", "20000", "--seed", "7");
+        assertEquals(m.get("edges"), JSON.readTree(again.out()).get("edges"));
+    }
+
+    @Test
+    void tableShowsDiagnosticsAndTheCaution() {
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "2000", "--draws", "100");
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.out().contains("largest split-R-hat"), r.out());
+        assertTrue(r.out().contains("not proof of causation"), r.out());
+    }
+
+    @Test
+    void tooShortRunWarns() {
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "8", "--draws", "4",
+                "--burn-in", "0", "--chains", "4", "--format", "json");
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.err().contains("WARNING: the chains disagree"), r.err());
+    }
+
+    @Test
+    void refusals() {
+        String s = store.toString();
+        assertEquals("edges: --tiers: unknown variable 'zz'",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v0,zz").errLine());
+        assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket)",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());
+        assertEquals("edges: --until-rhat must be above 1 (e.g. 1.01), got 0.9",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "0.9").errLine());
+        assertEquals("edges: --chains must be at least 1, got 0",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--chains", "0").errLine());
+        assertEquals("edges: --require v0->v1 contradicts --tiers: v0 is in a later tier than v1",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v1", "--tiers", "v0", "--require", "v0->v1").errLine());
+        assertEquals("edges: the required edges and tiers form a cycle through variable v0: no order satisfies them",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--require", "v0->v1,v1->v2,v2->v0").errLine());
+    }
+}

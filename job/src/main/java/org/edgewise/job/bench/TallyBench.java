@@ -1,0 +1,226 @@
+package org.edgewise.job.bench;
+
+import java.io.BufferedWriter;
+import java.io.IOException;
+import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryPoolMXBean;
+import java.lang.management.MemoryType;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.Random;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.storage.StorageLevel;
+import org.edgewise.driver.score.ScoreKind;
+import org.edgewise.job.TallyJob;
+import org.edgewise.job.TallyOptions;
+
+/**
+ * {@code scripts/bench tally}: times the tally of a synthetic table (by default 2,000,000 rows ×
+ * 20 variables of 2–4 states sampled from a random network with a fixed seed, d = 3, local[2]) and,
+ * in the same run on the same cached data, the plain Spark SQL way — one
+ * {@code groupBy(child, parents…).count()} per family — on a sample of families, and prints the
+ * per-family speedup. Not a test: speed is measured here, never in unit tests.
+ *
+ * <p>Options: {@code --rows N --vars N --max-parents d --sample K --master URL --dir PATH}.
+ */
+public final class TallyBench {
+    private TallyBench() {
+    }
+
+    public static void main(String[] args) throws IOException {
+        Map<String, String> o = new LinkedHashMap<>(Map.of("--rows", "2000000", "--vars", "20", "--max-parents", "3",
+                "--sample", "8", "--master", "local[2]", "--dir", "job/target/bench", "--seed", "20261201"));
+        for (int i = 0; i + 1 < args.length; i += 2) {
+            if (!o.containsKey(args[i])) {
+                System.err.println("bench tally: unknown option " + args[i] + " (known: " + o.keySet() + ")");
+                System.exit(2);
+            }
+            o.put(args[i], args[i + 1]);
+        }
+        int rows = Integer.parseInt(o.get("--rows"));
+        int vars = Integer.parseInt(o.get("--vars"));
+        int d = Integer.parseInt(o.get("--max-parents"));
+        int sample = Integer.parseInt(o.get("--sample"));
+        long seed = Long.parseLong(o.get("--seed"));
+        Path dir = Path.of(o.get("--dir")).toAbsolutePath();
+        Files.createDirectories(dir);
+        Path csv = dir.resolve("synthetic-" + rows + "x" + vars + "-" + seed + ".csv");
+        if (!Files.exists(csv)) {
+            long t0 = System.nanoTime();
+            generate(csv, rows, vars, seed);
+            System.out.printf(Locale.ROOT, "generated %s (%d rows × %d variables) in %.1f s%n", csv.getFileName(), rows,
+                    vars, (System.nanoTime() - t0) / 1e9);
+        }
+
+        SparkSession spark = SparkSession.builder().appName("edgewise bench tally").master(o.get("--master"))
+                .config("spark.ui.enabled", "false")
+                .config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1")
+                .getOrCreate();
+        spark.sparkContext().setLogLevel("WARN");
+        try {
+            Path store = dir.resolve("store-" + rows + "x" + vars);
+            TallyOptions opts = new TallyOptions(List.of(csv.toString()), "csv", ',', store, true, d, List.of(),
+                    List.of(), null, List.of(), List.of(), List.of(), TallyOptions.MissingPolicy.ERROR, 32, Map.of(),
+                    ScoreKind.BDEU, 1.0, null, 256L << 20);
+            long t0 = System.nanoTime();
+            TallyJob.Summary s = TallyJob.run(spark, opts);
+            double wall = (System.nanoTime() - t0) / 1e9;
+            double perFamily = wall / s.families();
+            double familyRows = (double) s.families() * s.rows();
+
+            // the plain way, on the same data cached in Spark's columnar cache (favourable to it)
+            Dataset<Row> df = spark.read().option("header", "true").csv(csv.toString())
+                    .persist(StorageLevel.MEMORY_AND_DISK());
+            df.count();
+            Random rnd = new Random(seed);
+            List<String> names = Arrays.asList(df.columns());
+            double plainTotal = 0;
+            long check = 0;
+            List<String> sampled = new ArrayList<>();
+            for (int k = 0; k < sample; k++) {
+                List<String> fam = new ArrayList<>(names);
+                java.util.Collections.shuffle(fam, rnd);
+                fam = fam.subList(0, d + 1);
+                long f0 = System.nanoTime();
+                List<Row> groups = df.groupBy(fam.stream().map(Column::new).toArray(Column[]::new)).count().collectAsList();
+                plainTotal += (System.nanoTime() - f0) / 1e9;
+                for (Row g : groups) {
+                    check += g.getLong(d + 1);
+                }
+                sampled.add(fam.get(0) + "<-" + String.join(",", fam.subList(1, fam.size())));
+            }
+            df.unpersist();
+            if (check != (long) sample * rows) {
+                throw new IllegalStateException("plain counts sum to " + check);
+            }
+            double plainPerFamily = plainTotal / sample;
+            long peakHeap = 0;
+            for (MemoryPoolMXBean p : ManagementFactory.getMemoryPoolMXBeans()) {
+                if (p.getType() == MemoryType.HEAP) {
+                    peakHeap += p.getPeakUsage().getUsed();
+                }
+            }
+            String rss = peakRss();
+            StringBuilder r = new StringBuilder();
+            r.append(String.format(Locale.ROOT, "tally: %d rows × %d variables, d = %d, %s, %d cores available%n", rows,
+                    vars, d, o.get("--master"), Runtime.getRuntime().availableProcessors()));
+            r.append(String.format(Locale.ROOT, "  families %,d from %,d variable sets (%,d cells) in %d pass(es)%n",
+                    s.families(), s.coverSets(), s.cells(), s.batches()));
+            r.append(String.format(Locale.ROOT, "  wall time (read + check + encode + count + score + write): %.1f s%n", wall));
+            r.append(String.format(Locale.ROOT, "  family-rows per second: %,.0f (%,.0f family-rows)%n", familyRows / wall, familyRows));
+            r.append(String.format(Locale.ROOT, "  per family: %.3f ms%n", perFamily * 1e3));
+            r.append(String.format(Locale.ROOT, "  peak JVM heap used: %,d MB; peak RSS: %s%n", peakHeap >> 20, rss));
+            r.append(String.format(Locale.ROOT, "plain Spark SQL groupBy(child, parents…).count() on %d sampled families of %d variables (cached input):%n",
+                    sample, d + 1));
+            r.append(String.format(Locale.ROOT, "  per family: %.3f s (total %.1f s)%n", plainPerFamily, plainTotal));
+            r.append(String.format(Locale.ROOT, "speedup per family: %.0f× (target ≥ 50×); whole tally %.1f s (target ≤ 60 s)%n",
+                    plainPerFamily / perFamily, wall));
+            System.out.print(r);
+            Files.writeString(dir.resolve("tally-report.txt"), r + "sampled families: " + sampled + "\n");
+        } finally {
+            spark.stop();
+        }
+    }
+
+    /** Peak resident set size from /proc (Linux), or "n/a". */
+    static String peakRss() {
+        try {
+            for (String line : Files.readAllLines(Path.of("/proc/self/status"))) {
+                if (line.startsWith("VmHWM:")) {
+                    long kb = Long.parseLong(line.replaceAll("[^0-9]", ""));
+                    return String.format(Locale.ROOT, "%,d MB", kb >> 10);
+                }
+            }
+        } catch (IOException | RuntimeException e) {
+            return "n/a";
+        }
+        return "n/a";
+    }
+
+    /**
+     * Samples rows from a random network: variable v has 2–4 states and up to three parents among
+     * the earlier variables, with conditional tables drawn from a skewed distribution.
+     */
+    static void generate(Path csv, int rows, int n, long seed) throws IOException {
+        Random rnd = new Random(seed);
+        int[] arity = new int[n];
+        int[][] parents = new int[n][];
+        double[][][] cdf = new double[n][][];
+        for (int v = 0; v < n; v++) {
+            arity[v] = 2 + rnd.nextInt(3);
+            List<Integer> ps = new ArrayList<>();
+            for (int u = Math.max(0, v - 6); u < v && ps.size() < 3; u++) {
+                if (rnd.nextDouble() < 0.4) {
+                    ps.add(u);
+                }
+            }
+            parents[v] = ps.stream().mapToInt(Integer::intValue).toArray();
+            int q = 1;
+            for (int p : parents[v]) {
+                q *= arity[p];
+            }
+            cdf[v] = new double[q][arity[v]];
+            for (int j = 0; j < q; j++) {
+                double sum = 0;
+                double[] w = new double[arity[v]];
+                for (int k = 0; k < arity[v]; k++) {
+                    w[k] = Math.pow(rnd.nextDouble(), 3) + 0.02;
+                    sum += w[k];
+                }
+                double acc = 0;
+                for (int k = 0; k < arity[v]; k++) {
+                    acc += w[k] / sum;
+                    cdf[v][j][k] = acc;
+                }
+            }
+        }
+        String[][] labels = new String[n][];
+        for (int v = 0; v < n; v++) {
+            labels[v] = new String[arity[v]];
+            for (int k = 0; k < arity[v]; k++) {
+                labels[v][k] = "s" + k;
+            }
+        }
+        Path tmp = csv.resolveSibling(csv.getFileName() + ".tmp");
+        try (BufferedWriter w = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
+            for (int v = 0; v < n; v++) {
+                w.write((v > 0 ? "," : "") + "x" + (v + 1));
+            }
+            w.newLine();
+            int[] row = new int[n];
+            StringBuilder sb = new StringBuilder();
+            for (int t = 0; t < rows; t++) {
+                sb.setLength(0);
+                for (int v = 0; v < n; v++) {
+                    int j = 0;
+                    for (int p : parents[v]) {
+                        j = j * arity[p] + row[p];
+                    }
+                    double u = rnd.nextDouble();
+                    int k = 0;
+                    while (k < arity[v] - 1 && u > cdf[v][j][k]) {
+                        k++;
+                    }
+                    row[v] = k;
+                    if (v > 0) {
+                        sb.append(',');
+                    }
+                    sb.append(labels[v][k]);
+                }
+                sb.append('\n');
+                w.write(sb.toString());
+            }
+        }
+        Files.move(tmp, csv, java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+    }
+}
