@@ -122,8 +122,12 @@ class ClusterIT {
     void clusterStoreEqualsLocalStore() throws Exception {
         Set<String> before = apps();
         Path out = dir.resolve("cluster-store");
-        Process p = tally(out, cluster.masterUrl(), "cluster", "--partitions", "4");
-        assertEquals(0, waitFor(p, 600), "cluster tally failed:\n" + log("cluster"));
+        // through spark-submit (scripts/submit), as on a user's own cluster
+        List<String> cmd = new ArrayList<>(List.of("bash", root.resolve("scripts/submit").toString(),
+                "--master", cluster.masterUrl(), "--conf", "spark.executor.memory=1g", "--"));
+        cmd.addAll(tallyArgs(out, "--partitions", "4"));
+        Process p = start(cmd, "cluster");
+        assertEquals(0, waitFor(p, 600), "cluster tally through scripts/submit failed:\n" + log("cluster"));
         assertSameStore(localStore(), out);
 
         // The Edgewise classes reached the executors as the application jar, fetched from the driver:
@@ -231,8 +235,19 @@ class ClusterIT {
     /** Starts {@code scripts/edgewise tally} on {@code master}; output goes to {@code <name>.log}. */
     private static Process tally(Path out, String master, String name, String... extra) throws IOException {
         List<String> cmd = new ArrayList<>(List.of("bash", root.resolve("scripts/edgewise").toString(), "tally",
-                "--input", table.toString(), "--out", out.toString(), "--max-parents", "2", "--master", master));
-        cmd.addAll(List.of(extra));
+                "--master", master));
+        cmd.addAll(tallyArgs(out, extra));
+        return start(cmd, name);
+    }
+
+    private static List<String> tallyArgs(Path out, String... extra) {
+        List<String> a = new ArrayList<>(List.of("--input", table.toString(), "--out", out.toString(),
+                "--max-parents", "2"));
+        a.addAll(List.of(extra));
+        return a;
+    }
+
+    private static Process start(List<String> cmd, String name) throws IOException {
         ProcessBuilder pb = new ProcessBuilder(cmd).directory(dir.toFile()).redirectErrorStream(true)
                 .redirectOutput(dir.resolve(name + ".log").toFile());
         pb.environment().put("EDGEWISE_JAVA_OPTS", "-Xmx1g");
