@@ -110,11 +110,12 @@ public final class OrderMcmc {
      * @param minEss      smallest ESS over quantities that vary
      * @param traces      per chain, the log evidence of the stored draws
      * @param orders      all stored orders (chain by chain), for averaging predictions
+     * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
      */
     public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket, double maxRhat,
                          double minEss, double acceptance, long stepsPerChain, long burnIn, long thin,
                          List<double[]> traces, List<int[]> orders, boolean converged, double rhatThreshold,
-                         double setupSeconds, double samplingSeconds) {
+                         double setupSeconds, double samplingSeconds, double chainCpuSeconds) {
     }
 
     /** Runs the chains. {@code listener} may be null. */
@@ -294,8 +295,12 @@ public final class OrderMcmc {
         }
         double maxRhat = worst[0];
         double minEss = worst[1] == Double.POSITIVE_INFINITY ? Double.NaN : worst[1];
+        double cpu = 0;
+        for (OrderChain c : chains) {
+            cpu += c.cpuSeconds();
+        }
         return new Result(edges, anc, mb, maxRhat, minEss, acceptance(chains), done - s.burnIn(), s.burnIn(), thin,
-                traces, orders, maxRhat < threshold, threshold, setup, sampling);
+                traces, orders, maxRhat < threshold, threshold, setup, sampling, cpu);
     }
 
     private static void fill(double[][] x, List<OrderChain> chains, int bit, int draws) {
