@@ -96,6 +96,11 @@ public final class OrderMcmc {
     /** Receives progress between rounds and while chains run (on the calling thread). */
     public interface Listener {
         void progress(long stepsDone, long stepsPlanned, double acceptance, double maxRhat);
+
+        /** Whether the current largest R̂ is shown (it costs a pass over all draws per round). */
+        default boolean wantsRhat() {
+            return true;
+        }
     }
 
     /** One estimated quantity with its diagnostics. */
@@ -169,7 +174,9 @@ public final class OrderMcmc {
                 }
                 waitFor(futures, chains, rhat, listener, target);
                 done += len;
-                rhat = maxRhat(chains, offset[n]);
+                if (s.untilRhat() > 1 || (listener != null && listener.wantsRhat())) {
+                    rhat = maxRhat(chains, offset[n]);
+                }
                 if (listener != null) {
                     listener.progress(done * chains.size(), target * chains.size(), acceptance(chains), rhat);
                 }
