@@ -50,6 +50,7 @@ final class OrderChain {
     private int chCount;
 
     private long stepsDone;
+    private long cpuNanos;
     private long accepted;
     private volatile long publishedSteps;
     private volatile long publishedAccepted;
@@ -140,6 +141,8 @@ final class OrderChain {
 
     /** Runs {@code count} steps; stores a draw whenever the step count passes burn-in and is a multiple of {@code thin}. */
     void advance(long count, long burnIn, long thin) {
+        var mx = java.lang.management.ManagementFactory.getThreadMXBean();
+        long cpu0 = mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() : 0;
         for (long k = 0; k < count; k++) {
             step();
             stepsDone++;
@@ -153,6 +156,12 @@ final class OrderChain {
         }
         publishedSteps = stepsDone;
         publishedAccepted = accepted;
+        cpuNanos += mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() - cpu0 : 0;
+    }
+
+    /** CPU time this chain's steps have used, seconds (the machine may be shared: wall time misleads). */
+    double cpuSeconds() {
+        return cpuNanos / 1e9;
     }
 
     private void step() {

@@ -96,6 +96,11 @@ public final class OrderMcmc {
     /** Receives progress between rounds and while chains run (on the calling thread). */
     public interface Listener {
         void progress(long stepsDone, long stepsPlanned, double acceptance, double maxRhat);
+
+        /** Whether the current largest R̂ is shown (it costs a pass over all draws per round). */
+        default boolean wantsRhat() {
+            return true;
+        }
     }
 
     /** One estimated quantity with its diagnostics. */
@@ -110,11 +115,12 @@ public final class OrderMcmc {
      * @param minEss      smallest ESS over quantities that vary
      * @param traces      per chain, the log evidence of the stored draws
      * @param orders      all stored orders (chain by chain), for averaging predictions
+     * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
      */
     public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket, double maxRhat,
                          double minEss, double acceptance, long stepsPerChain, long burnIn, long thin,
                          List<double[]> traces, List<int[]> orders, boolean converged, double rhatThreshold,
-                         double setupSeconds, double samplingSeconds) {
+                         double setupSeconds, double samplingSeconds, double chainCpuSeconds) {
     }
 
     /** Runs the chains. {@code listener} may be null. */
@@ -168,7 +174,9 @@ public final class OrderMcmc {
                 }
                 waitFor(futures, chains, rhat, listener, target);
                 done += len;
-                rhat = maxRhat(chains, offset[n]);
+                if (s.untilRhat() > 1 || (listener != null && listener.wantsRhat())) {
+                    rhat = maxRhat(chains, offset[n]);
+                }
                 if (listener != null) {
                     listener.progress(done * chains.size(), target * chains.size(), acceptance(chains), rhat);
                 }
@@ -294,8 +302,12 @@ public final class OrderMcmc {
         }
         double maxRhat = worst[0];
         double minEss = worst[1] == Double.POSITIVE_INFINITY ? Double.NaN : worst[1];
+        double cpu = 0;
+        for (OrderChain c : chains) {
+            cpu += c.cpuSeconds();
+        }
         return new Result(edges, anc, mb, maxRhat, minEss, acceptance(chains), done - s.burnIn(), s.burnIn(), thin,
-                traces, orders, maxRhat < threshold, threshold, setup, sampling);
+                traces, orders, maxRhat < threshold, threshold, setup, sampling, cpu);
     }
 
     private static void fill(double[][] x, List<OrderChain> chains, int bit, int draws) {

@@ -113,6 +113,8 @@ public final class UnknownOrderBench {
         System.out.printf("mcmc n=%d d=%d%s: 4 chains x %d steps in %.2f s = %.0f steps/s per chain; max R-hat %.4f, min ESS %.0f%n",
                 n, d, k < 0 ? "" : " candidates<=" + 2 * k, total, r4.samplingSeconds(), total / r4.samplingSeconds(),
                 r4.maxRhat(), r4.minEss());
+        System.out.printf("  per CPU-second of a chain's own thread: 1 chain %.0f steps/s, 4 chains %.0f steps/s per chain%n",
+                total / r1.chainCpuSeconds(), 4 * total / r4.chainCpuSeconds());
         System.out.printf("  (whole runs including tables and diagnostics: 1 chain %.2f s wall / %.2f s CPU, 4 chains %.2f s wall / %.2f s CPU;"
                 + " %d processors, load average %.1f)%n", sec1, cpu1, sec4, cpu4, Runtime.getRuntime().availableProcessors(), load());
     }

@@ -115,13 +115,21 @@ final class UnknownOrderEdges {
         OrderMcmc.Result r;
         try (Progress p = Progress.start("order MCMC", (burn + o.steps) * o.chains)) {
             long[] shown = {0};
-            r = OrderMcmc.run(ls, oc, s, (done, planned, acc, rhat) -> {
-                if (done > shown[0]) {
-                    p.step(done - shown[0]);
-                    shown[0] = done;
+            r = OrderMcmc.run(ls, oc, s, new OrderMcmc.Listener() {
+                @Override
+                public void progress(long done, long planned, double acc, double rhat) {
+                    if (done > shown[0]) {
+                        p.step(done - shown[0]);
+                        shown[0] = done;
+                    }
+                    p.extra(String.format(Locale.ROOT, "acceptance %.3f  max R-hat %s", acc,
+                            Double.isNaN(rhat) ? "-" : String.format(Locale.ROOT, "%.3f", rhat)));
                 }
-                p.extra(String.format(Locale.ROOT, "acceptance %.3f  max R-hat %s", acc,
-                        Double.isNaN(rhat) ? "-" : String.format(Locale.ROOT, "%.3f", rhat)));
+
+                @Override
+                public boolean wantsRhat() {
+                    return p.visible();
+                }
             });
         }
         List<String> names = names(ls);
