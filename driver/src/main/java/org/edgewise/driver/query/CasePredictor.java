@@ -298,7 +298,8 @@ public final class CasePredictor {
         // Split every dependent factor into the sets that touch no hidden variable (summed once per
         // child state, in base) and the sets that do (re-evaluated for every joint state).
         double constant = 0;
-        List<Integer> dep = new ArrayList<>();
+        int[] dependent = new int[n];
+        int nd = 0;
         for (int c = 0; c < n; c++) {
             if (!keep[c]) {
                 continue;
@@ -308,12 +309,12 @@ public final class CasePredictor {
                 depends |= isHidden[p];
             }
             if (depends) {
-                dep.add(c);
+                dependent[nd++] = c;
             } else {
                 constant += logFactor(c, x);
             }
         }
-        int[] dependent = dep.stream().mapToInt(Integer::intValue).toArray();
+        dependent = Arrays.copyOf(dependent, nd);
         double[][] base = new double[dependent.length][];
         int[][] varying = new int[dependent.length][];
         for (int d = 0; d < dependent.length; d++) {
@@ -347,16 +348,25 @@ public final class CasePredictor {
         // on (usually one or two), so the enumeration below only looks values up.
         double[][] logTable = new double[dependent.length][];
         int[][] on = new int[dependent.length][];
+        boolean[] uses = new boolean[n];
+        int[] hsBuf = new int[hidden.length];
         for (int d = 0; d < dependent.length; d++) {
             int c = dependent[d];
-            boolean[] uses = new boolean[n];
             uses[c] = isHidden[c];
             for (int t : varying[d]) {
                 for (int p : parents[c][t]) {
                     uses[p] |= isHidden[p];
                 }
             }
-            int[] hs = Arrays.stream(hidden).filter(h -> uses[h]).toArray();
+            int m = 0;
+            for (int h : hidden) {
+                if (uses[h]) {
+                    hsBuf[m++] = h;
+                    uses[h] = false;
+                }
+            }
+            uses[c] = false;
+            int[] hs = Arrays.copyOf(hsBuf, m);
             logTable[d] = tabulate(c, x, hs, isHidden[c], base[d], varying[d]);
             on[d] = hs;
         }
