@@ -61,6 +61,8 @@ public final class CasePredictor {
     private final double[][] weight;
     private final double[][][] dense;
     private final int[][] parentUnion;
+    /** Per kept set, its parents as a bitmask over variable indices (only when n ≤ 64, else null). */
+    private final long[][] setMask;
     private final double skippedMass;
     private final long maxHiddenStates;
 
@@ -83,6 +85,17 @@ public final class CasePredictor {
         this.weight = weight;
         this.dense = dense;
         this.parentUnion = parentUnion;
+        this.setMask = n <= 64 ? new long[n][] : null;
+        if (setMask != null) {
+            for (int c = 0; c < n; c++) {
+                setMask[c] = new long[parents[c].length];
+                for (int t = 0; t < parents[c].length; t++) {
+                    for (int p : parents[c][t]) {
+                        setMask[c][t] |= 1L << p;
+                    }
+                }
+            }
+        }
         this.skippedMass = skippedMass;
         this.maxHiddenStates = maxHiddenStates;
     }
@@ -292,8 +305,10 @@ public final class CasePredictor {
                     + maxHiddenStates + "); observe some of them or raise --max-hidden-states");
         }
         boolean[] isHidden = new boolean[n];
+        long hiddenMask = 0;
         for (int h : hidden) {
             isHidden[h] = true;
+            hiddenMask |= n <= 64 ? 1L << h : 0;
         }
         // Split every dependent factor into the sets that touch no hidden variable (summed once per
         // child state, in base) and the sets that do (re-evaluated for every joint state).
@@ -326,8 +341,12 @@ public final class CasePredictor {
             int saved = x[c];
             for (int t = 0; t < ps.length; t++) {
                 boolean touches = false;
-                for (int p : ps[t]) {
-                    touches |= isHidden[p];
+                if (setMask != null) {
+                    touches = (setMask[c][t] & hiddenMask) != 0;
+                } else {
+                    for (int p : ps[t]) {
+                        touches |= isHidden[p];
+                    }
                 }
                 if (touches) {
                     vary[nv++] = t;
@@ -472,23 +491,39 @@ public final class CasePredictor {
             }
         }
         double constant = childHidden ? 0 : base[x[c]];
+        // stride[g][i]: how far group g's sub-index moves when digit i moves by one (0 when the
+        // group does not involve hs[i]); sub-indices are updated as the digits count up.
+        int[][] stride = new int[groups][m];
+        for (int g = 0; g < groups; g++) {
+            int st = 1;
+            for (int i = m - 1; i >= 0; i--) {
+                if ((keys[g] >>> i & 1) != 0) {
+                    stride[g][i] = st;
+                    st *= arity[hs[i]];
+                }
+            }
+        }
         double[] table = new double[size];
         int[] digit = new int[m];
+        int[] sub = new int[groups];
         for (int cell = 0; cell < size; cell++) {
             double f = constant;
             for (int g = 0; g < groups; g++) {
-                int sub = 0;
-                for (int i = 0; i < m; i++) {
-                    if ((keys[g] >>> i & 1) != 0) {
-                        sub = sub * arity[hs[i]] + digit[i];
-                    }
-                }
-                f += sums[g][sub];
+                f += sums[g][sub[g]];
             }
             table[cell] = Math.log(f);
             int i = m - 1;
-            while (i >= 0 && ++digit[i] == arity[hs[i]]) {
+            while (i >= 0) {
+                if (++digit[i] < arity[hs[i]]) {
+                    for (int g = 0; g < groups; g++) {
+                        sub[g] += stride[g][i];
+                    }
+                    break;
+                }
                 digit[i] = 0;
+                for (int g = 0; g < groups; g++) {
+                    sub[g] -= (arity[hs[i]] - 1) * stride[g][i];
+                }
                 i--;
             }
         }
