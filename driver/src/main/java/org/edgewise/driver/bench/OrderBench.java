@@ -49,6 +49,7 @@ public final class OrderBench {
         Path work = Path.of(args.length > 0 ? args[0] : "target/bench-order");
         int rows = args.length > 1 ? Integer.parseInt(args[1]) : 20_000;
         int cases = args.length > 2 ? Integer.parseInt(args[2]) : 100_000;
+        boolean reuse = args.length > 3 && args[3].equals("--reuse-store");
         Files.createDirectories(work);
         int[] arity = new int[N];
         for (int v = 0; v < N; v++) {
@@ -67,6 +68,14 @@ public final class OrderBench {
         System.out.printf(Locale.ROOT, "bench order: n = %d, d = %d, %,d rows, %d cores%n", N, D, rows,
                 Runtime.getRuntime().availableProcessors());
 
+        Path dir = work.resolve("store");
+        if (!reuse || !Files.isDirectory(dir)) {
+            build(vars, arity, cols, rows, dir);
+        }
+        measure(vars, net, dir, work, cases);
+    }
+
+    static void build(List<Variable> vars, int[] arity, byte[][] cols, int rows, Path dir) throws IOException {
         long t0 = mark();
         ScoreStore store = tally(vars, arity, cols, rows);
         long countRows = 0;
@@ -75,14 +84,13 @@ public final class OrderBench {
         }
         report("tally (in-memory, subset counting)", t0, String.format(Locale.ROOT, "%,d families, %,d count rows",
                 store.families().size(), countRows));
-        Path dir = work.resolve("store");
         t0 = mark();
         StoreWriter.write(dir, store.manifest(), store.families(), store.logScores(), true);
         report("write store (StoreWriter)", t0, String.format(Locale.ROOT, "%,d bytes on disk", size(dir)));
-        store = null;
-        System.gc();
+    }
 
-        t0 = mark();
+    static void measure(List<Variable> vars, Network net, Path dir, Path work, int cases) throws IOException {
+        long t0 = mark();
         ScoreStore read = StoreReader.read(dir);
         report("load store (StoreReader.read)", t0, String.format(Locale.ROOT, "%,d families", read.families().size()));
         // A second read: the JIT is warm. Then the record-by-record fallback, side by side.

@@ -61,6 +61,8 @@ public final class CasePredictor implements CaseProbability {
     private final double[][] weight;
     private final double[][][] dense;
     private final int[][] parentUnion;
+    /** Per kept set, its parents as a bitmask over variable indices (only when n ≤ 64, else null). */
+    private final long[][] setMask;
     private final double skippedMass;
     private final long maxHiddenStates;
 
@@ -83,6 +85,17 @@ public final class CasePredictor implements CaseProbability {
         this.weight = weight;
         this.dense = dense;
         this.parentUnion = parentUnion;
+        this.setMask = n <= 64 ? new long[n][] : null;
+        if (setMask != null) {
+            for (int c = 0; c < n; c++) {
+                setMask[c] = new long[parents[c].length];
+                for (int t = 0; t < parents[c].length; t++) {
+                    for (int p : parents[c][t]) {
+                        setMask[c][t] |= 1L << p;
+                    }
+                }
+            }
+        }
         this.skippedMass = skippedMass;
         this.maxHiddenStates = maxHiddenStates;
     }
@@ -292,13 +305,16 @@ public final class CasePredictor implements CaseProbability {
                     + maxHiddenStates + "); observe some of them or raise --max-hidden-states");
         }
         boolean[] isHidden = new boolean[n];
+        long hiddenMask = 0;
         for (int h : hidden) {
             isHidden[h] = true;
+            hiddenMask |= n <= 64 ? 1L << h : 0;
         }
         // Split every dependent factor into the sets that touch no hidden variable (summed once per
         // child state, in base) and the sets that do (re-evaluated for every joint state).
         double constant = 0;
-        List<Integer> dep = new ArrayList<>();
+        int[] dependent = new int[n];
+        int nd = 0;
         for (int c = 0; c < n; c++) {
             if (!keep[c]) {
                 continue;
@@ -308,12 +324,12 @@ public final class CasePredictor implements CaseProbability {
                 depends |= isHidden[p];
             }
             if (depends) {
-                dep.add(c);
+                dependent[nd++] = c;
             } else {
                 constant += logFactor(c, x);
             }
         }
-        int[] dependent = dep.stream().mapToInt(Integer::intValue).toArray();
+        dependent = Arrays.copyOf(dependent, nd);
         double[][] base = new double[dependent.length][];
         int[][] varying = new int[dependent.length][];
         for (int d = 0; d < dependent.length; d++) {
@@ -325,8 +341,12 @@ public final class CasePredictor implements CaseProbability {
             int saved = x[c];
             for (int t = 0; t < ps.length; t++) {
                 boolean touches = false;
-                for (int p : ps[t]) {
-                    touches |= isHidden[p];
+                if (setMask != null) {
+                    touches = (setMask[c][t] & hiddenMask) != 0;
+                } else {
+                    for (int p : ps[t]) {
+                        touches |= isHidden[p];
+                    }
                 }
                 if (touches) {
                     vary[nv++] = t;
@@ -347,16 +367,25 @@ public final class CasePredictor implements CaseProbability {
         // on (usually one or two), so the enumeration below only looks values up.
         double[][] logTable = new double[dependent.length][];
         int[][] on = new int[dependent.length][];
+        boolean[] uses = new boolean[n];
+        int[] hsBuf = new int[hidden.length];
         for (int d = 0; d < dependent.length; d++) {
             int c = dependent[d];
-            boolean[] uses = new boolean[n];
             uses[c] = isHidden[c];
             for (int t : varying[d]) {
                 for (int p : parents[c][t]) {
                     uses[p] |= isHidden[p];
                 }
             }
-            int[] hs = Arrays.stream(hidden).filter(h -> uses[h]).toArray();
+            int m = 0;
+            for (int h : hidden) {
+                if (uses[h]) {
+                    hsBuf[m++] = h;
+                    uses[h] = false;
+                }
+            }
+            uses[c] = false;
+            int[] hs = Arrays.copyOf(hsBuf, m);
             logTable[d] = tabulate(c, x, hs, isHidden[c], base[d], varying[d]);
             on[d] = hs;
         }
@@ -462,23 +491,39 @@ public final class CasePredictor implements CaseProbability {
             }
         }
         double constant = childHidden ? 0 : base[x[c]];
+        // stride[g][i]: how far group g's sub-index moves when digit i moves by one (0 when the
+        // group does not involve hs[i]); sub-indices are updated as the digits count up.
+        int[][] stride = new int[groups][m];
+        for (int g = 0; g < groups; g++) {
+            int st = 1;
+            for (int i = m - 1; i >= 0; i--) {
+                if ((keys[g] >>> i & 1) != 0) {
+                    stride[g][i] = st;
+                    st *= arity[hs[i]];
+                }
+            }
+        }
         double[] table = new double[size];
         int[] digit = new int[m];
+        int[] sub = new int[groups];
         for (int cell = 0; cell < size; cell++) {
             double f = constant;
             for (int g = 0; g < groups; g++) {
-                int sub = 0;
-                for (int i = 0; i < m; i++) {
-                    if ((keys[g] >>> i & 1) != 0) {
-                        sub = sub * arity[hs[i]] + digit[i];
-                    }
-                }
-                f += sums[g][sub];
+                f += sums[g][sub[g]];
             }
             table[cell] = Math.log(f);
             int i = m - 1;
-            while (i >= 0 && ++digit[i] == arity[hs[i]]) {
+            while (i >= 0) {
+                if (++digit[i] < arity[hs[i]]) {
+                    for (int g = 0; g < groups; g++) {
+                        sub[g] += stride[g][i];
+                    }
+                    break;
+                }
                 digit[i] = 0;
+                for (int g = 0; g < groups; g++) {
+                    sub[g] -= (arity[hs[i]] - 1) * stride[g][i];
+                }
                 i--;
             }
         }
