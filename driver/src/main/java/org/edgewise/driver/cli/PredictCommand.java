@@ -67,7 +67,7 @@ public final class PredictCommand implements Callable<Integer> {
     @Option(names = "--cases", paramLabel = "FILE", description = "CSV of cases: header = variable names, blank cells hidden")
     Path casesFile;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "with --cases: write the scored table here (default: standard output)")
+    @Option(names = "--out", paramLabel = "FILE", description = "write the result here: the scored CSV with --cases, the JSON with --case (default: standard output)")
     Path out;
 
     @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON")
@@ -177,6 +177,12 @@ public final class PredictCommand implements Callable<Integer> {
                 Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
                 ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(), avg.skippedMass(), NOTE);
         PrintWriter w = spec.commandLine().getOut();
+        if (out != null) {
+            ResultJson.write(out, p);
+            if (format == null) {
+                return 0;
+            }
+        }
         if (fmt.equals("json")) {
             w.println(ResultJson.toJson(p));
         } else {

@@ -357,27 +357,7 @@ public final class CasePredictor implements CaseProbability {
                 }
             }
             int[] hs = Arrays.stream(hidden).filter(h -> uses[h]).toArray();
-            int size = 1;
-            for (int h : hs) {
-                size *= arity[h];
-            }
-            double[] table = new double[size];
-            for (int h : hs) {
-                x[h] = 0;
-            }
-            for (int cell = 0; cell < size; cell++) {
-                double f = base[d][x[c]];
-                for (int t : varying[d]) {
-                    f += term(c, t, x);
-                }
-                table[cell] = Math.log(f);
-                int i = hs.length - 1;
-                while (i >= 0 && ++x[hs[i]] == arity[hs[i]]) {
-                    x[hs[i]] = 0;
-                    i--;
-                }
-            }
-            logTable[d] = table;
+            logTable[d] = tabulate(c, x, hs, isHidden[c], base[d], varying[d]);
             on[d] = hs;
         }
         for (int h : hidden) {
@@ -404,6 +384,118 @@ public final class CasePredictor implements CaseProbability {
             }
         }
         return constant + acc;
+    }
+
+    /**
+     * log f_c over the joint states of {@code hs} (the hidden variables factor c depends on; c
+     * itself among them when hidden), mixed radix with hs[0] most significant. Each parent set
+     * touches only the hidden variables it contains, so its terms are evaluated over those alone,
+     * summed into one small table per distinct subset, and the subsets are broadcast once.
+     * Memory: the result (one double per joint state) plus one small table per subset.
+     */
+    private double[] tabulate(int c, int[] x, int[] hs, boolean childHidden, double[] base, int[] varying) {
+        int m = hs.length;
+        int size = 1;
+        for (int h : hs) {
+            size *= arity[h];
+        }
+        int childBit = 0;
+        if (childHidden) {
+            for (int i = 0; i < m; i++) {
+                if (hs[i] == c) {
+                    childBit = 1 << i;
+                }
+            }
+        }
+        int[] keys = new int[4];
+        double[][] sums = new double[4][];
+        int groups = 0;
+        if (childHidden) {
+            keys[0] = childBit;
+            sums[0] = base.clone();
+            groups = 1;
+        }
+        int[] saved = new int[m];
+        for (int i = 0; i < m; i++) {
+            saved[i] = x[hs[i]];
+        }
+        for (int t : varying) {
+            int key = childBit;
+            for (int p : parents[c][t]) {
+                for (int i = 0; i < m; i++) {
+                    if (hs[i] == p) {
+                        key |= 1 << i;
+                    }
+                }
+            }
+            int g = 0;
+            while (g < groups && keys[g] != key) {
+                g++;
+            }
+            if (g == groups) {
+                if (groups == keys.length) {
+                    keys = Arrays.copyOf(keys, groups * 2);
+                    sums = Arrays.copyOf(sums, groups * 2);
+                }
+                keys[g] = key;
+                sums[g] = new double[subStates(hs, key)];
+                groups++;
+            }
+            double[] sum = sums[g];
+            for (int i = 0; i < m; i++) {
+                if ((key >>> i & 1) != 0) {
+                    x[hs[i]] = 0;
+                }
+            }
+            for (int cell = 0; cell < sum.length; cell++) {
+                sum[cell] += term(c, t, x);
+                int i = m - 1;
+                while (i >= 0) {
+                    if ((key >>> i & 1) != 0) {
+                        if (++x[hs[i]] < arity[hs[i]]) {
+                            break;
+                        }
+                        x[hs[i]] = 0;
+                    }
+                    i--;
+                }
+            }
+        }
+        double constant = childHidden ? 0 : base[x[c]];
+        double[] table = new double[size];
+        int[] digit = new int[m];
+        for (int cell = 0; cell < size; cell++) {
+            double f = constant;
+            for (int g = 0; g < groups; g++) {
+                int sub = 0;
+                for (int i = 0; i < m; i++) {
+                    if ((keys[g] >>> i & 1) != 0) {
+                        sub = sub * arity[hs[i]] + digit[i];
+                    }
+                }
+                f += sums[g][sub];
+            }
+            table[cell] = Math.log(f);
+            int i = m - 1;
+            while (i >= 0 && ++digit[i] == arity[hs[i]]) {
+                digit[i] = 0;
+                i--;
+            }
+        }
+        for (int i = 0; i < m; i++) {
+            x[hs[i]] = saved[i];
+        }
+        return table;
+    }
+
+    private int subStates(int[] hs, int key) {
+        int s = 1;
+        for (int i = 0; i < hs.length; i++) {
+            if ((key >>> i & 1) != 0) {
+                s *= arity[hs[i]];
+            }
+        }
+        return s;
     }
 
     /** The hidden variables {@link #logProbability} must sum out for this case (the others drop out). */

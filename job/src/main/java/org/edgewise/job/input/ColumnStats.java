@@ -5,7 +5,10 @@ import java.util.Arrays;
 import java.util.HashMap;
 import java.util.Map;
 import java.util.Set;
+import java.util.LinkedHashSet;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.unsafe.types.UTF8String;
 
 /**
  * What the one pass over the rows learns about the selected columns, for one block of rows or
@@ -27,7 +30,8 @@ public final class ColumnStats implements Serializable {
     final int cap;
     final boolean dropMissing;
     final int corruptField;
-    final HashMap<String, Integer>[] codes;
+    /** value → block-local code (UTF-8 bytes as Spark holds them: no String decoding per row). */
+    final HashMap<UTF8String, Integer>[] codes;
     final boolean[] overflow;
     final long[] missing;
     /** binned columns: every value so far a number; other columns: only meaningful after overflow. */
@@ -78,7 +82,7 @@ public final class ColumnStats implements Serializable {
      *
      * @return false when the row is malformed or dropped (slot t not used)
      */
-    boolean add(Row r, byte[][] out, double[][] values, int t) {
+    boolean add(InternalRow r, byte[][] out, double[][] values, int t) {
         rows++;
         if (corruptField >= 0 && !r.isNullAt(corruptField)) {
             malformed++;
@@ -94,8 +98,8 @@ public final class ColumnStats implements Serializable {
             }
         }
         for (int i = 0; i < n; i++) {
-            String v = r.isNullAt(fields[i]) ? null : r.getString(fields[i]);
-            if (v == null || v.isEmpty()) {
+            UTF8String v = r.isNullAt(fields[i]) ? null : r.getUTF8String(fields[i]);
+            if (v == null || v.numBytes() == 0) {
                 missing[i]++;
                 if (binned[i]) {
                     values[i][t] = Double.NaN;
@@ -105,7 +109,7 @@ public final class ColumnStats implements Serializable {
                 continue;
             }
             if (binned[i]) {
-                double x = parse(v);
+                double x = parse(v.toString());
                 values[i][t] = x;
                 if (Double.isNaN(x)) {
                     numeric[i] = false;
@@ -121,10 +125,11 @@ public final class ColumnStats implements Serializable {
                         continue;
                     }
                     c = codes[i].size();
-                    codes[i].put(v, c);
+                    // the row's bytes are reused by the reader: keep a copy as the key
+                    codes[i].put(v.clone(), c);
                 }
                 out[i][t] = (byte) (int) c;
-            } else if (numeric[i] && Double.isNaN(parse(v))) {
+            } else if (numeric[i] && Double.isNaN(parse(v.toString()))) {
                 numeric[i] = false;
             }
         }
@@ -137,9 +142,9 @@ public final class ColumnStats implements Serializable {
         codes[i].clear();
     }
 
-    static boolean allNumeric(Set<String> values) {
-        for (String s : values) {
-            if (Double.isNaN(parse(s))) {
+    static boolean allNumeric(Set<UTF8String> values) {
+        for (UTF8String s : values) {
+            if (Double.isNaN(parse(s.toString()))) {
                 return false;
             }
         }
@@ -148,6 +153,10 @@ public final class ColumnStats implements Serializable {
 
     static boolean isMissing(Row r, int field) {
         return r.isNullAt(field) || r.getString(field).isEmpty();
+    }
+
+    static boolean isMissing(InternalRow r, int field) {
+        return r.isNullAt(field) || r.getUTF8String(field).numBytes() == 0;
     }
 
     /** The value as a finite number, or NaN when it is not one. */
@@ -182,7 +191,7 @@ public final class ColumnStats implements Serializable {
                 if (o.overflow[i]) {
                     setOverflow(i);
                 } else {
-                    for (String s : o.codes[i].keySet()) {
+                    for (UTF8String s : o.codes[i].keySet()) {
                         if (!codes[i].containsKey(s)) {
                             if (codes[i].size() >= cap) {
                                 setOverflow(i);
@@ -222,11 +231,15 @@ public final class ColumnStats implements Serializable {
 
     /** Distinct values of a categorical column (empty after overflow). */
     public Set<String> distinct(int i) {
-        return codes[i].keySet();
+        Set<String> out = new LinkedHashSet<>();
+        for (UTF8String s : codes[i].keySet()) {
+            out.add(s.toString());
+        }
+        return out;
     }
 
     /** Block-local codes of a categorical column's values. */
-    Map<String, Integer> codes(int i) {
+    Map<UTF8String, Integer> codes(int i) {
         return codes[i];
     }
 

@@ -78,7 +78,7 @@ public final class Encoding implements Serializable {
             } else {
                 java.util.Arrays.fill(table, -1);
                 for (var e : raw.stats.codes(v).entrySet()) {
-                    table[e.getValue()] = index[v].get(e.getKey());
+                    table[e.getValue()] = index[v].get(e.getKey().toString());
                 }
                 table[ColumnStats.MISSING_CODE] = missingState[v];
                 byte[] in = raw.codes[v];

@@ -3,7 +3,7 @@ package org.edgewise.job.input;
 import java.io.Serializable;
 import java.util.Iterator;
 import java.util.NoSuchElementException;
-import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.InternalRow;
 
 /**
  * Up to {@link Block#ROWS} input rows after the one read of the input, before the global states
@@ -34,7 +34,7 @@ public final class RawBlock implements Serializable {
     }
 
     /** Reads a partition's rows into raw blocks, lazily; {@code template} gives the settings. */
-    public static Iterator<RawBlock> read(Iterator<Row> rows, ColumnStats template) {
+    public static Iterator<RawBlock> read(Iterator<InternalRow> rows, ColumnStats template) {
         int n = template.fields.length;
         return new Iterator<>() {
             boolean started;

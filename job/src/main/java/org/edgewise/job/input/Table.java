@@ -118,6 +118,14 @@ public final class Table {
         return read(InputFiles.uris(files));
     }
 
+    /**
+     * Every input file's rows as Spark's internal rows (values as UTF-8 bytes, no per-value String):
+     * what the one full read uses. The rows are reused by the reader: copy one to keep it.
+     */
+    public org.apache.spark.api.java.JavaRDD<org.apache.spark.sql.catalyst.InternalRow> internalRows() {
+        return rows().queryExecution().toRdd().toJavaRDD();
+    }
+
     /** The rows of one file, in file order (for locating a bad row's line). */
     public Dataset<Row> rowsOf(DataFile f) {
         return read(f.uri());

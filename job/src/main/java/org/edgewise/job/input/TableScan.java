@@ -13,6 +13,7 @@ import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.InternalRow;
 import org.apache.spark.storage.StorageLevel;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.Variable;
@@ -103,9 +104,9 @@ public final class TableScan {
             binned[v] = o.discretize().containsKey(names.get(v));
         }
 
-        JavaRDD<Row> raw = table.rows().javaRDD();
+        JavaRDD<InternalRow> raw = table.internalRows();
         if (o.partitions() != null) {
-            raw = raw.repartition(o.partitions());
+            raw = raw.map(InternalRow::copy).repartition(o.partitions());
         }
         int cap = o.maxStates();
         boolean drop = o.missing() == MissingPolicy.DROP;
