@@ -37,10 +37,10 @@ import picocli.CommandLine.Model.CommandSpec;
  * order, averaged over every DAG consistent with the order, and under the single best network.
  */
 @Command(name = "predict", mixinStandardHelpOptions = true,
-        description = {"P(case | D, order) averaged over every network consistent with the order, and under the single best network.",
+        description = {"P(case | D, order) averaged over every network consistent with a given order (--order), or also over unknown orders (--method exact|mcmc), and under the single best network.",
                 "Variables left out of a case are hidden and summed out; --given makes it a conditional P(case | given, D, order)."})
 public final class PredictCommand implements Callable<Integer> {
-    static final String NOTE = "Probability of a new case under the stated assumptions (this order, d, score, prior); "
+    static final String NOTE = "Probability of a new case under the stated assumptions (the order, or the orders averaged over; d, score, prior); "
             + "a model-based estimate, not a measured frequency. Interpret it with domain experts.";
 
     @Spec
