@@ -49,7 +49,7 @@ public final class TallyMain implements Callable<Integer> {
     @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})")
     int maxParents;
 
-    @Option(names = "--master", defaultValue = "local[*]", paramLabel = "URL", description = "Spark master (default ${DEFAULT-VALUE}: embedded Spark on every core)")
+    @Option(names = "--master", defaultValue = "${sys:spark.master:-local[*]}", paramLabel = "URL", description = "Spark master (default ${DEFAULT-VALUE}: embedded Spark on every core, or the master spark-submit was given)")
     String master;
 
     @Option(names = "--columns", split = ",", paramLabel = "a,b,c", description = "keep only these columns as variables")
@@ -266,8 +266,8 @@ public final class TallyMain implements Callable<Integer> {
 
     /**
      * Starts Spark: embedded for {@code local…} (no web UI, loopback), otherwise the given master;
-     * for a standalone cluster ({@code spark://}) the job and driver jars are shipped via
-     * {@code spark.jars}.
+     * for any cluster master the job and driver jars are added to {@code spark.jars} (keeping
+     * what is already there), so executors fetch them from the driver.
      */
     static SparkSession session(String master, Map<String, String> extra) {
         SparkSession.Builder b = SparkSession.builder().appName("edgewise tally").master(master);
@@ -277,10 +277,20 @@ public final class TallyMain implements Callable<Integer> {
                 b.config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1");
             }
         }
-        if (master.startsWith("spark://")) {
-            b.config("spark.jars", jarOf(TallyMain.class) + "," + jarOf(EdgewiseCli.class));
-        }
         extra.forEach(b::config);
+        if (!master.startsWith("local")) {
+            // Executors need our jars; keep whatever spark-submit or --conf already ships.
+            java.util.LinkedHashSet<String> jars = new java.util.LinkedHashSet<>();
+            String existing = extra.getOrDefault("spark.jars", System.getProperty("spark.jars", ""));
+            for (String j : existing.split(",")) {
+                if (!j.isBlank()) {
+                    jars.add(j.trim());
+                }
+            }
+            jars.add(jarOf(TallyMain.class));
+            jars.add(jarOf(EdgewiseCli.class));
+            b.config("spark.jars", String.join(",", jars));
+        }
         SparkSession s = b.getOrCreate();
         s.sparkContext().setLogLevel("WARN");
         return s;

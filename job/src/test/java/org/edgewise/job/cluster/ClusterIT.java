@@ -71,7 +71,7 @@ class ClusterIT {
                 }
             }
         }
-        deleteTree(state.resolve("work"));
+        deleteTree(state.resolve("worker-dirs"));
         deleteTree(state.resolve("local"));
         Files.createDirectories(dir);
         table = dir.resolve("table.csv");

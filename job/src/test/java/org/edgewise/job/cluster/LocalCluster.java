@@ -93,7 +93,7 @@ public final class LocalCluster implements AutoCloseable {
 
     /** Application ids (app-…) that have executor folders on worker {@code i}. */
     public Set<String> applicationsOn(int i) throws IOException {
-        Path work = state.resolve("work/worker-" + i);
+        Path work = state.resolve("worker-dirs/worker-" + i);
         if (!Files.isDirectory(work)) {
             return Set.of();
         }
@@ -104,7 +104,7 @@ public final class LocalCluster implements AutoCloseable {
 
     /** Everything the executors of application {@code app} on worker {@code i} wrote to stderr. */
     public String executorLog(int i, String app) throws IOException {
-        Path dir = state.resolve("work/worker-" + i).resolve(app);
+        Path dir = state.resolve("worker-dirs/worker-" + i).resolve(app);
         if (!Files.isDirectory(dir)) {
             return "";
         }
