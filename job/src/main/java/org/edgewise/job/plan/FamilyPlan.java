@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.store.InMemoryTally;
 
 /**
  * Which families to count and how the counting work is shared.
@@ -62,7 +63,7 @@ public final class FamilyPlan {
             int[] free = Arrays.stream(cand).filter(c -> Arrays.binarySearch(req, c) < 0).toArray();
             List<int[]> sets = new ArrayList<>();
             for (int size = req.length; size <= Math.min(maxParents, cand.length); size++) {
-                for (int[] extra : subsets(free, size - req.length)) {
+                for (int[] extra : InMemoryTally.subsets(free, size - req.length)) {
                     int[] u = concatSorted(req, extra);
                     sets.add(u);
                 }
@@ -173,24 +174,6 @@ public final class FamilyPlan {
         System.arraycopy(b, 0, out, a.length, b.length);
         Arrays.sort(out);
         return out;
-    }
-
-    /** All {@code size}-subsets of {@code items} (sorted), lexicographically. */
-    static List<int[]> subsets(int[] items, int size) {
-        List<int[]> out = new ArrayList<>();
-        build(items, size, 0, new int[size], 0, out);
-        return out;
-    }
-
-    private static void build(int[] items, int size, int from, int[] cur, int depth, List<int[]> out) {
-        if (depth == size) {
-            out.add(cur.clone());
-            return;
-        }
-        for (int i = from; i <= items.length - (size - depth); i++) {
-            cur[depth] = items[i];
-            build(items, size, i + 1, cur, depth + 1, out);
-        }
     }
 
     /**
