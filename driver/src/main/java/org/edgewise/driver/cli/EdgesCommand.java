@@ -42,11 +42,8 @@ public final class EdgesCommand implements Callable<Integer> {
     @Mixin
     ScoringMixin scoring = new ScoringMixin();
 
-    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last: a variable's parents come before it")
-    String order;
-
-    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: over unknown orders")
-    String method;
+    @Mixin
+    MethodMixin methodOptions = new MethodMixin();
 
     @Mixin
     UnknownOrderOptions unknown = new UnknownOrderOptions();
@@ -93,36 +90,21 @@ public final class EdgesCommand implements Callable<Integer> {
 
     /** Dispatches on the method; every method returns an {@link EdgeResult} built by {@link ResultBuilder}. */
     EdgeResult compute(List<Double> esses) {
-        String m = method == null ? (order != null ? "order" : null) : method.trim().toLowerCase(Locale.ROOT);
-        if (m == null) {
-            throw new UserError("give --order a,b,c,… (averaging given an order) or --method exact|mcmc (over unknown orders)");
+        String m = methodOptions.resolve("averaging");
+        if (m.equals("order")) {
+            return givenOrder(esses);
         }
-        switch (m) {
-            case "order":
-                if (order == null) {
-                    throw new UserError("--method order needs --order a,b,c,…");
-                }
-                return givenOrder(esses);
-            case "exact":
-            case "mcmc": {
-                if (order != null) {
-                    throw new UserError("--order and --method " + m + " exclude each other: " + m + " averages over unknown orders");
-                }
-                List<org.edgewise.driver.average.ScoringOptions> opts = new ArrayList<>();
-                for (double e : esses) {
-                    opts.add(scoring.options(e));
-                }
-                return UnknownOrderEdges.compute(m, StoreReader.read(scoring.store), scoring.store, opts, unknown,
-                        topParents, spec.commandLine().getErr());
-            }
-            default:
-                throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
+        List<org.edgewise.driver.average.ScoringOptions> opts = new ArrayList<>();
+        for (double e : esses) {
+            opts.add(scoring.options(e));
         }
+        return UnknownOrderEdges.compute(m, StoreReader.read(scoring.store), scoring.store, opts, unknown,
+                topParents, spec.commandLine().getErr());
     }
 
     private EdgeResult givenOrder(List<Double> esses) {
         ScoreStore store = StoreReader.read(scoring.store);
-        int[] ord = VariableOrder.parse(store.manifest(), order);
+        int[] ord = VariableOrder.parse(store.manifest(), methodOptions.order);
         OrderPosterior primary = null;
         List<EdgeResult.Sensitivity> sens = new ArrayList<>();
         for (double e : esses) {

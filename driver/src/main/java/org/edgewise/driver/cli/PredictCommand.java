@@ -49,11 +49,8 @@ public final class PredictCommand implements Callable<Integer> {
     @Mixin
     ScoringMixin scoring = new ScoringMixin();
 
-    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last")
-    String order;
-
-    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: averaged over unknown orders")
-    String method;
+    @Mixin
+    MethodMixin methodOptions = new MethodMixin();
 
     @Mixin
     UnknownOrderOptions unknown = new UnknownOrderOptions();
@@ -102,20 +99,8 @@ public final class PredictCommand implements Callable<Integer> {
         var options = scoring.options();
         ScoreStore store = StoreReader.read(scoring.store);
         Manifest m = store.manifest();
-        String meth = method == null ? (order != null ? "order" : null) : method.trim().toLowerCase(Locale.ROOT);
-        if (meth == null) {
-            throw new UserError("give --order a,b,c,… (prediction given an order) or --method exact|mcmc (over unknown orders)");
-        }
-        if (!meth.equals("order") && !meth.equals("exact") && !meth.equals("mcmc")) {
-            throw new UserError("--method must be order, exact or mcmc, got '" + method + "'");
-        }
-        if (meth.equals("order") && order == null) {
-            throw new UserError("--method order needs --order a,b,c,…");
-        }
-        if (!meth.equals("order") && order != null) {
-            throw new UserError("--order and --method " + meth + " exclude each other: " + meth + " averages over unknown orders");
-        }
-        int[] ord = order == null ? null : VariableOrder.parse(m, order);
+        String meth = methodOptions.resolve("prediction");
+        int[] ord = methodOptions.order == null ? null : VariableOrder.parse(m, methodOptions.order);
         int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
         int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
         CaseCsv table = casesFile == null ? null : CaseCsv.read(casesFile, m);
