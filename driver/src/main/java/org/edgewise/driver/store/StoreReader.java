@@ -164,7 +164,6 @@ public final class StoreReader {
         int families = childOf.length;
         MessageType schema = StoreFormat.SCORES_SCHEMA;
         int f = 0;
-        int[] buf = new int[16];
         try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
                 new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
             String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
@@ -182,20 +181,10 @@ public final class StoreReader {
                         throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
                     }
                     int c = child.nextInt();
-                    int np = 0;
-                    if (parents.definitionLevel() < parents.maxDefinition) {
-                        parents.skip();
-                    } else {
-                        do {
-                            if (np == buf.length) {
-                                buf = Arrays.copyOf(buf, np * 2);
-                            }
-                            buf[np++] = parents.nextInt();
-                        } while (parents.more() && parents.repetitionLevel() > 0);
-                    }
-                    checkFamily(dir, parts, f, families, c, buf, np, n);
+                    int np = parents.nextInts();
+                    checkFamily(dir, parts, f, families, c, parents.ints, np, n);
                     childOf[f] = c;
-                    parentsOf[f] = Arrays.copyOf(buf, np);
+                    parentsOf[f] = Arrays.copyOf(parents.ints, np);
                     scores[f] = score.nextDouble();
                 }
             }
@@ -233,7 +222,6 @@ public final class StoreReader {
 
     private static void readCountsColumnar(Path file, CountsSink sink) throws IOException {
         MessageType schema = StoreFormat.COUNTS_SCHEMA;
-        long[] buf = new long[16];
         try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
                 new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
             String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
@@ -247,18 +235,8 @@ public final class StoreReader {
                 for (long row = 0; row < groupRows; row++) {
                     int f = family.nextInt();
                     long cfg = config.nextLong();
-                    int k = 0;
-                    if (counts.definitionLevel() < counts.maxDefinition) {
-                        counts.skip();
-                    } else {
-                        do {
-                            if (k == buf.length) {
-                                buf = Arrays.copyOf(buf, k * 2);
-                            }
-                            buf[k++] = counts.nextLong();
-                        } while (counts.more() && counts.repetitionLevel() > 0);
-                    }
-                    sink.row(f, cfg, buf, k);
+                    int k = counts.nextLongs();
+                    sink.row(f, cfg, counts.longs, k);
                 }
             }
         }
@@ -321,6 +299,43 @@ public final class StoreReader {
             long v = reader.getLong();
             skip();
             return v;
+        }
+
+        /** Values of the current record's repeated field, filled by {@link #nextInts()}; reused. */
+        int[] ints = new int[8];
+        /** Values of the current record's repeated field, filled by {@link #nextLongs()}; reused. */
+        long[] longs = new long[8];
+
+        /** Reads one record's repeated int field into {@link #ints}; returns how many (0 for an empty list). */
+        int nextInts() {
+            if (definitionLevel() < maxDefinition) {
+                skip();
+                return 0;
+            }
+            int k = 0;
+            do {
+                if (k == ints.length) {
+                    ints = Arrays.copyOf(ints, k * 2);
+                }
+                ints[k++] = nextInt();
+            } while (more() && repetitionLevel() > 0);
+            return k;
+        }
+
+        /** Reads one record's repeated long field into {@link #longs}; returns how many (0 for an empty list). */
+        int nextLongs() {
+            if (definitionLevel() < maxDefinition) {
+                skip();
+                return 0;
+            }
+            int k = 0;
+            do {
+                if (k == longs.length) {
+                    longs = Arrays.copyOf(longs, k * 2);
+                }
+                longs[k++] = nextLong();
+            } while (more() && repetitionLevel() > 0);
+            return k;
         }
 
         double nextDouble() {
