@@ -3,12 +3,32 @@
 root=${root:-$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)}
 export SPARK_LOCAL_IP=${SPARK_LOCAL_IP:-127.0.0.1}
 
+core_jar=$root/driver/core/target/edgewise-core.jar
+cli_jar=$root/driver/cli/target/edgewise-cli.jar
+job_jar=$root/job/target/edgewise-job.jar
+
 edgewise_build_if_needed() {
-  if [ "${EDGEWISE_REBUILD:-0}" = "1" ] || [ ! -f "$root/driver/target/edgewise-driver.jar" ] \
-     || [ ! -f "$root/job/target/edgewise-job.jar" ] || [ ! -f "$root/job/target/classpath.txt" ]; then
+  if [ "${EDGEWISE_REBUILD:-0}" = "1" ] || [ ! -f "$core_jar" ] || [ ! -f "$cli_jar" ] || [ ! -f "$job_jar" ] \
+     || [ ! -f "$root/job/target/classpath-runtime.txt" ] || [ ! -f "$root/driver/cli/target/classpath-runtime.txt" ]; then
     echo "edgewise: building (mvn -DskipTests package; first time takes a few minutes)…" >&2
     (cd "$root" && mvn -B -q -DskipTests package >&2)
   fi
+}
+
+# A module's runtime classpath: its "compile" (compile + provided) and "runtime" (compile +
+# runtime) classpath files joined, duplicates dropped, order kept. Never test-scoped jars
+# (NOTES-deps pitfall 8): those are only in classpath-test.txt, which the benchmarks use.
+edgewise_module_classpath() {
+  local dir=$1
+  { tr ':' '\n' < "$dir/target/classpath-compile.txt"; tr ':' '\n' < "$dir/target/classpath-runtime.txt"; } \
+    | awk 'NF && !seen[$0]++' | paste -sd: -
+}
+
+# A module's benchmark classpath: its classes, test classes (src/bench/java is compiled with the
+# tests) and every scope's jars.
+edgewise_bench_classpath() {
+  local dir=$1
+  echo "$dir/target/test-classes:$dir/target/classes:$(cat "$dir/target/classpath-test.txt")"
 }
 
 # Spark 3.5 on Java 17 needs these module flags (org.apache.spark.launcher.JavaModuleOptions).
@@ -17,21 +37,21 @@ edgewise_java17_flags() {
 }
 
 edgewise_driver_classpath() {
-  echo "$root/driver/target/edgewise-driver.jar:$(cat "$root/driver/target/classpath.txt")"
+  echo "$cli_jar:$(edgewise_module_classpath "$root/driver/cli")"
 }
 
 edgewise_job_classpath() {
-  echo "$root/job/target/edgewise-job.jar:$root/driver/target/edgewise-driver.jar:$(cat "$root/job/target/classpath.txt")"
+  echo "$job_jar:$(edgewise_module_classpath "$root/job")"
 }
 
-# The jars a cluster's executors need beyond the Spark it ships, comma-separated (the value of
-# spark.jars / spark-submit --jars): the thin job jar, the Spark-free driver library and those
-# of the driver's dependencies that a Spark distribution lacks. Executors fetch them from the
-# driver; nothing of Edgewise has to be installed on the workers.
+# The jars a cluster needs beyond the Spark it ships, comma-separated (spark.jars / spark-submit
+# --jars): the thin job jar, the Spark-free core library and tally's command-line parser (picocli,
+# used in the Spark driver JVM only). Executors fetch them from the driver; nothing of Edgewise has
+# to be installed on the workers. The core's other dependencies (Commons Math, Jackson, Parquet,
+# Hadoop, SLF4J) are part of every Spark 3.5 distribution.
 edgewise_app_jars() {
   local extra
-  extra=$(tr ':' '\n' < "$root/job/target/classpath.txt" \
-    | grep -E '/(picocli|progressbar|jline-[a-z]+)-[0-9][^/]*\.jar$' | paste -sd, -)
-  echo "$root/job/target/edgewise-job.jar,$root/driver/target/edgewise-driver.jar${extra:+,$extra}"
+  extra=$(tr ':' '\n' < "$root/job/target/classpath-runtime.txt" \
+    | grep -E '/picocli-[0-9][^/]*\.jar$' | paste -sd, -)
+  echo "$job_jar,$core_jar${extra:+,$extra}"
 }
-

@@ -14,7 +14,7 @@ import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.storage.StorageLevel;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.cli.EdgewiseCli;
+import org.edgewise.driver.Version;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.InputInfo;
@@ -113,7 +113,7 @@ public final class TallyJob {
             }
             Counted counted = count(blocks, plan, score, o.memoryBudget(), names, rows, "families");
             List<FamilyCounts> families = Arrays.asList(counted.families());
-            Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", EdgewiseCli.programVersion(),
+            Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", Version.PROGRAM,
                     Instant.now().toString(),
                     new InputInfo(o.inputs(), table.isCsv() ? "csv" : "parquet", rows, scan.stats().dropped(),
                             o.missing().label(), fingerprint),

@@ -11,8 +11,9 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.apache.spark.sql.SparkSession;
+import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.cli.EdgewiseCli;
+import org.edgewise.driver.Version;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.job.TallyOptions.MissingPolicy;
@@ -25,7 +26,7 @@ import picocli.CommandLine.Option;
  * {@code local[*]} unless {@code --master} says otherwise), run {@link TallyJob}, print a summary.
  * User mistakes are one line on stderr and exit status 2 (the driver's error handling).
  */
-@Command(name = "tally", mixinStandardHelpOptions = true, versionProvider = EdgewiseCli.Version.class,
+@Command(name = "tally", mixinStandardHelpOptions = true, versionProvider = TallyMain.VersionText.class,
         sortOptions = false,
         description = {"Scan a table once on Spark and write a score store: the contingency counts and the log score of "
                 + "every family (child, parent set of at most d candidates).",
@@ -110,7 +111,25 @@ public final class TallyMain implements Callable<Integer> {
 
     /** Runs the command line on {@code spark} (or a new session when null) and returns the exit status. */
     public static int execute(SparkSession spark, PrintWriter out, PrintWriter err, String... args) {
-        return EdgewiseCli.configure(new CommandLine(new TallyMain(spark)), out, err).execute(args);
+        CommandLine cl = new CommandLine(new TallyMain(spark));
+        cl.setOut(out);
+        cl.setErr(err);
+        cl.setCaseInsensitiveEnumValuesAllowed(true);
+        cl.setParameterExceptionHandler((ex, a) -> {
+            err.println("tally: " + ex.getMessage() + " (see tally --help)");
+            err.flush();
+            return ErrorReport.USER_MISTAKE;
+        });
+        cl.setExecutionExceptionHandler((ex, c, parsed) -> ErrorReport.report("tally", ex, err));
+        return cl.execute(args);
+    }
+
+    /** {@code tally --version}: the program version from the build. */
+    public static final class VersionText implements CommandLine.IVersionProvider {
+        @Override
+        public String[] getVersion() {
+            return new String[] {"edgewise tally " + Version.PROGRAM};
+        }
     }
 
     @Override
@@ -288,7 +307,7 @@ public final class TallyMain implements Callable<Integer> {
                 }
             }
             jars.add(jarOf(TallyMain.class));
-            jars.add(jarOf(EdgewiseCli.class));
+            jars.add(jarOf(Version.class)); // the core library
             b.config("spark.jars", String.join(",", jars));
         }
         SparkSession s = b.getOrCreate();

@@ -7,7 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.store.InMemoryTally;
+import org.edgewise.driver.store.ParentSets;
 
 /**
  * Which families to count and how the counting work is shared.
@@ -63,7 +63,7 @@ public final class FamilyPlan {
             int[] free = Arrays.stream(cand).filter(c -> Arrays.binarySearch(req, c) < 0).toArray();
             List<int[]> sets = new ArrayList<>();
             for (int size = req.length; size <= Math.min(maxParents, cand.length); size++) {
-                for (int[] extra : InMemoryTally.subsets(free, size - req.length)) {
+                for (int[] extra : ParentSets.subsets(free, size - req.length)) {
                     int[] u = concatSorted(req, extra);
                     sets.add(u);
                 }

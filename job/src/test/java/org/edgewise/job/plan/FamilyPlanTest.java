@@ -9,6 +9,7 @@ import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
+import org.edgewise.driver.store.ParentSets;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.InMemoryTally;
 import org.junit.jupiter.api.Test;
@@ -33,7 +34,7 @@ class FamilyPlanTest {
             int finalChild = child;
             int[] others = java.util.stream.IntStream.range(0, n).filter(v -> v != finalChild).toArray();
             for (int size = 0; size <= d; size++) {
-                for (int[] u : InMemoryTally.subsets(others, size)) {
+                for (int[] u : ParentSets.subsets(others, size)) {
                     assertEquals(child, plan.child(f));
                     assertArrayEquals(u, plan.parents(f), "family " + f);
                     f++;
@@ -48,7 +49,7 @@ class FamilyPlanTest {
             assertEquals(d + 1, plan.cover(s).length);
             covers.add(Arrays.toString(plan.cover(s)));
         }
-        for (int[] s : InMemoryTally.subsets(new int[] {0, 1, 2, 3, 4, 5}, 3)) {
+        for (int[] s : ParentSets.subsets(new int[] {0, 1, 2, 3, 4, 5}, 3)) {
             assertTrue(covers.contains(Arrays.toString(s)), Arrays.toString(s));
         }
         for (int g = 0; g < plan.familyCount(); g++) {
@@ -60,7 +61,7 @@ class FamilyPlanTest {
         }
         // cells: Π arities of each cover
         long cells = 0;
-        for (int[] s : InMemoryTally.subsets(new int[] {0, 1, 2, 3, 4, 5}, 3)) {
+        for (int[] s : ParentSets.subsets(new int[] {0, 1, 2, 3, 4, 5}, 3)) {
             cells += (long) arity[s[0]] * arity[s[1]] * arity[s[2]];
         }
         assertEquals(cells, plan.totalCells());

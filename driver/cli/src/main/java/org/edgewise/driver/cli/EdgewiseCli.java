@@ -1,0 +1,76 @@
+package org.edgewise.driver.cli;
+
+import java.io.PrintWriter;
+import org.edgewise.driver.ErrorReport;
+import org.edgewise.driver.Version;
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+
+/**
+ * Entry point of the Spark-free commands. Thin: each subcommand parses, calls the library and
+ * prints. A {@link UserError} or a bad option becomes one line on stderr and exit status 2; only a
+ * bug prints a stack trace (exit 1). {@code tally} is the Spark job, started by the launcher from
+ * the job module's classpath; it is listed here so {@code --help} shows every command.
+ */
+@Command(name = "edgewise", mixinStandardHelpOptions = true, versionProvider = EdgewiseCli.VersionText.class,
+        description = "Bayesian model averaging over network structures for discrete tables.%n"
+                + "Commands: tally (Spark job: counts and family scores into a score store), then any of the others on the store.",
+        subcommands = {CommandLine.HelpCommand.class, TallyPlaceholder.class, ScoresCommand.class,
+                EdgesCommand.class, PredictCommand.class, SimulateCommand.class, ReportCommand.class,
+                CompareCommand.class})
+public final class EdgewiseCli implements Runnable {
+    /** Exit status for a user mistake (bad option, bad file, damaged store). */
+    public static final int USER_ERROR = ErrorReport.USER_MISTAKE;
+
+    @CommandLine.Spec
+    CommandLine.Model.CommandSpec spec;
+
+    @Override
+    public void run() {
+        spec.commandLine().usage(spec.commandLine().getOut());
+    }
+
+    public static void main(String[] args) {
+        System.exit(execute(args));
+    }
+
+    /** Runs a command line and returns its exit status (for tests and for {@link #main}). */
+    public static int execute(String... args) {
+        return commandLine(new PrintWriter(System.out, true), new PrintWriter(System.err, true)).execute(args);
+    }
+
+    /** A configured command line writing to {@code out} and {@code err}. */
+    public static CommandLine commandLine(PrintWriter out, PrintWriter err) {
+        return configure(new CommandLine(new EdgewiseCli()), out, err);
+    }
+
+    /** Applies Edgewise's error handling to any command line (the job's {@code tally} uses it too). */
+    public static CommandLine configure(CommandLine cl, PrintWriter out, PrintWriter err) {
+        cl.setOut(out);
+        cl.setErr(err);
+        cl.setCaseInsensitiveEnumValuesAllowed(true);
+        cl.setParameterExceptionHandler((ex, a) -> {
+            CommandLine c = ex.getCommandLine();
+            c.getErr().println(c.getCommandName() + ": " + ex.getMessage()
+                    + " (see " + c.getCommandSpec().qualifiedName() + " --help)");
+            return USER_ERROR;
+        });
+        cl.setExecutionExceptionHandler((ex, c, parsed) -> {
+            if (ErrorReport.userError(ex) == null && ex instanceof IllegalArgumentException iae && iae.getMessage() != null) {
+                // TODO(layers): library checks still throw IllegalArgumentException for user input.
+                c.getErr().println(c.getCommandName() + ": " + iae.getMessage());
+                return USER_ERROR;
+            }
+            return ErrorReport.report(c.getCommandName(), ex, c.getErr());
+        });
+        return cl;
+    }
+
+    /** The program version, from the build (the core's {@link Version}). */
+    public static final class VersionText implements CommandLine.IVersionProvider {
+        @Override
+        public String[] getVersion() {
+            return new String[] {"edgewise " + Version.PROGRAM};
+        }
+    }
+}
