@@ -1,5 +1,6 @@
 package org.edgewise.driver.network;
 
+import org.edgewise.driver.ProjectFiles;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
@@ -22,7 +23,7 @@ class ForwardSamplerTest {
     static final int ROWS = 20_000;
 
     static Network fleet() {
-        return NetworkReader.read(Path.of("..", "sample-data", "fleet-network.json"));
+        return NetworkReader.read(ProjectFiles.path("sample-data", "fleet-network.json"));
     }
 
     static int[][] sample(Network net, int rows, long seed) {

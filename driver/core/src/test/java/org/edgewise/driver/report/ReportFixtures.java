@@ -1,5 +1,6 @@
 package org.edgewise.driver.report;
 
+import org.edgewise.driver.ProjectFiles;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Comparator;
@@ -27,7 +28,7 @@ final class ReportFixtures {
 
     /** The demo network of sample-data/ (tests run in driver/). */
     static Network fleet() {
-        return NetworkReader.read(Path.of("..", "sample-data", "fleet-network.json"));
+        return NetworkReader.read(ProjectFiles.path("sample-data", "fleet-network.json"));
     }
 
     /**
