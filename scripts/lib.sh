@@ -20,7 +20,7 @@ edgewise_build_if_needed() {
 # (NOTES-deps pitfall 8): those are only in classpath-test.txt, which the benchmarks use.
 edgewise_module_classpath() {
   local dir=$1
-  { tr ':' '\n' < "$dir/target/classpath-compile.txt"; tr ':' '\n' < "$dir/target/classpath-runtime.txt"; } \
+  { tr ':' '\n' < "$dir/target/classpath-compile.txt"; echo; tr ':' '\n' < "$dir/target/classpath-runtime.txt"; echo; } \
     | awk 'NF && !seen[$0]++' | paste -sd: -
 }
 

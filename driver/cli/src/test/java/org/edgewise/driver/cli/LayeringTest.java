@@ -1,0 +1,48 @@
+package org.edgewise.driver.cli;
+
+import static com.tngtech.archunit.lang.syntax.ArchRuleDefinition.noClasses;
+
+import com.tngtech.archunit.core.domain.JavaClasses;
+import com.tngtech.archunit.core.importer.ClassFileImporter;
+import com.tngtech.archunit.core.importer.ImportOption;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+
+/**
+ * The driver's layers (DEVELOPERS.md): the core library knows nothing of the command line or of
+ * Spark; within the core, the engines do not reach up into reports. The Maven modules already keep
+ * picocli and Spark off the core's compile classpath; these rules make the intent explicit and
+ * catch a package-level slip (e.g. a core class calling back into the CLI through reflection-free
+ * code after someone adds the dependency).
+ */
+class LayeringTest {
+    private static JavaClasses classes;
+
+    @BeforeAll
+    static void load() {
+        classes = new ClassFileImporter().withImportOption(ImportOption.Predefined.DO_NOT_INCLUDE_TESTS)
+                .importPackages("org.edgewise.driver");
+    }
+
+    @Test
+    void coreNeverImportsTheCliPicocliOrSpark() {
+        noClasses().that().resideOutsideOfPackage("org.edgewise.driver.cli..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.cli..", "picocli..",
+                        "me.tongfei..", "org.jline..", "org.apache.spark..", "scala..")
+                .because("the core is a library that the job ships to executors and other programs embed")
+                .check(classes);
+    }
+
+    @Test
+    void enginesDoNotDependOnReportsOrResults() {
+        noClasses().that().resideInAnyPackage("org.edgewise.driver.score..", "org.edgewise.driver.store..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.average..",
+                        "org.edgewise.driver.query..", "org.edgewise.driver.report..", "org.edgewise.driver.result..")
+                .because("score math and the store contract sit below the averaging engines and the writers")
+                .check(classes);
+        noClasses().that().resideInAnyPackage("org.edgewise.driver.average..", "org.edgewise.driver.query..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.report..")
+                .because("engines compute; report writers present")
+                .check(classes);
+    }
+}
