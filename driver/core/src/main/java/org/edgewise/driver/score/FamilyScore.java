@@ -42,10 +42,6 @@ public final class FamilyScore {
         return new FamilyScore(kind, newEss);
     }
 
-    public FamilyScore withKind(ScoreKind newKind) {
-        return new FamilyScore(newKind, ess);
-    }
-
     public ScoreKind kind() {
         return kind;
     }
