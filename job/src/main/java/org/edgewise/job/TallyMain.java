@@ -1,5 +1,6 @@
 package org.edgewise.job;
 
+import org.edgewise.driver.Checks;
 import java.io.File;
 import java.io.PrintWriter;
 import java.net.URISyntaxException;
@@ -166,13 +167,11 @@ public final class TallyMain implements Callable<Integer> {
         if (partitions != null && partitions < 1) {
             throw new UserError("--partitions must be 1 or more, got " + partitions);
         }
-        if (!(ess > 0) || Double.isInfinite(ess)) {
-            throw new UserError("--ess must be a positive number, got " + ess);
-        }
+        Checks.ess(ess, "--ess");
         ScoreKind kind;
         try {
             kind = ScoreKind.parse(score);
-        } catch (IllegalArgumentException e) {
+        } catch (UserError e) {
             throw new UserError("--score: " + e.getMessage());
         }
         MissingPolicy policy;

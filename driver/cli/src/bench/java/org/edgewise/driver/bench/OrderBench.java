@@ -94,13 +94,10 @@ public final class OrderBench {
         long t0 = mark();
         ScoreStore read = StoreReader.read(dir);
         report("load store (StoreReader.read)", t0, String.format(Locale.ROOT, "%,d families", read.families().size()));
-        // A second read: the JIT is warm. Then the record-by-record fallback, side by side.
+        // A second read: the JIT is warm.
         t0 = mark();
         read = StoreReader.read(dir);
         report("load store again (warm JVM)", t0, "column-level Parquet reading");
-        t0 = mark();
-        StoreReader.read(dir, false);
-        report("load store record by record (the old reader)", t0, "for comparison");
 
         int[] order = IntStream.range(0, N).toArray();
         StringBuilder orderText = new StringBuilder();

@@ -130,11 +130,11 @@ public final class UnknownOrderBench {
         for (int rep = 0; rep < 2; rep++) {
             double[] a = base.clone();
             double c0 = cpu();
-            org.edgewise.driver.average.ZetaAccess.full(a, n - 1);
+            org.edgewise.driver.average.ZetaBench.full(a, n - 1);
             double full = cpu() - c0;
             a = base.clone();
             c0 = cpu();
-            org.edgewise.driver.average.ZetaAccess.upTo(a, n - 1, d);
+            org.edgewise.driver.average.ZetaBench.upTo(a, n - 1, d);
             double trunc = cpu() - c0;
             System.out.printf("superset transform over 2^%d entries: full %.2f s CPU, truncated to |U| <= %d %.2f s CPU (ratio %.2f)%n",
                     n - 1, full, d, trunc, full / trunc);

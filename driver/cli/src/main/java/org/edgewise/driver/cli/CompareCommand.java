@@ -1,5 +1,6 @@
 package org.edgewise.driver.cli;
 
+import org.edgewise.driver.UserError;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.List;
@@ -44,7 +45,7 @@ final class CompareCommand implements Callable<Integer> {
     public Integer call() {
         String fmt = format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("json") && !fmt.equals("table")) {
-            throw new IllegalArgumentException("--format must be table or json, got '" + format + "'");
+            throw new UserError("--format must be table or json, got '" + format + "'");
         }
         checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);
@@ -63,7 +64,7 @@ final class CompareCommand implements Callable<Integer> {
 
     static void checkThreshold(double t) {
         if (!(t >= 0 && t < 1)) {
-            throw new IllegalArgumentException("--threshold must be in [0, 1), got " + t);
+            throw new UserError("--threshold must be in [0, 1), got " + t);
         }
     }
 

@@ -9,11 +9,11 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.EssSweep;
+import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.result.EdgeResult;
-import org.edgewise.driver.result.ResultBuilder;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
@@ -88,38 +88,21 @@ public final class EdgesCommand implements Callable<Integer> {
         return 0;
     }
 
-    /** Dispatches on the method; every method returns an {@link EdgeResult} built by {@link ResultBuilder}. */
+    /** Dispatches on the method: the core's {@link EssSweep} given an order or over unknown orders. */
     EdgeResult compute(List<Double> esses) {
         String m = methodOptions.resolve("averaging");
-        if (m.equals("order")) {
-            return givenOrder(esses);
-        }
-        List<org.edgewise.driver.average.ScoringOptions> opts = new ArrayList<>();
+        UnknownOrderSettings settings = m.equals("order") ? null
+                : unknown.settings(UnknownOrderSettings.Method.valueOf(m.toUpperCase(Locale.ROOT)), topParents);
+        List<ScoringOptions> opts = new ArrayList<>();
         for (double e : esses) {
             opts.add(scoring.options(e));
         }
-        return UnknownOrderEdges.compute(m, StoreReader.read(scoring.store), scoring.store, opts, unknown,
-                topParents, spec.commandLine().getErr());
-    }
-
-    private EdgeResult givenOrder(List<Double> esses) {
         ScoreStore store = StoreReader.read(scoring.store);
-        int[] ord = VariableOrder.parse(store.manifest(), methodOptions.order);
-        OrderPosterior primary = null;
-        List<EdgeResult.Sensitivity> sens = new ArrayList<>();
-        for (double e : esses) {
-            OrderPosterior op = OrderPosterior.of(LocalScores.build(store, scoring.options(e)), ord);
-            if (primary == null) {
-                primary = op;
-            }
-            if (esses.size() > 1) {
-                sens.add(ResultBuilder.sensitivity(op));
-            }
+        if (settings == null) {
+            return EssSweep.givenOrder(store, scoring.store, VariableOrder.parse(store.manifest(), methodOptions.order),
+                    opts, topParents);
         }
-        if (!sens.isEmpty()) {
-            sens.remove(0);
-        }
-        return ResultBuilder.forOrder(primary, scoring.store, topParents, sens);
+        return UnknownOrderEdges.compute(store, scoring.store, opts, settings, spec.commandLine().getErr());
     }
 
     /** The result for people: edges by posterior, top parent sets, best network, the caution. */

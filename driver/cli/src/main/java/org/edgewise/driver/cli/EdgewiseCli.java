@@ -8,14 +8,17 @@ import picocli.CommandLine.Command;
 
 /**
  * Entry point of the Spark-free commands. Thin: each subcommand parses, calls the library and
- * prints. A {@link UserError} or a bad option becomes one line on stderr and exit status 2; only a
- * bug prints a stack trace (exit 1). {@code tally} is the Spark job, started by the launcher from
- * the job module's classpath; it is listed here so {@code --help} shows every command.
+ * prints. A {@link org.edgewise.driver.UserError} or a bad option becomes one line on stderr and exit
+ * status 2; anything else is a bug and prints a stack trace (exit 1), an
+ * {@code IllegalArgumentException} included. {@code tally} is the Spark job, started by the launcher
+ * from the job module's classpath; the usage footer names it so {@code --help} shows every command.
  */
 @Command(name = "edgewise", mixinStandardHelpOptions = true, versionProvider = EdgewiseCli.VersionText.class,
         description = "Bayesian model averaging over network structures for discrete tables.%n"
                 + "Commands: tally (Spark job: counts and family scores into a score store), then any of the others on the store.",
-        subcommands = {CommandLine.HelpCommand.class, TallyPlaceholder.class, ScoresCommand.class,
+        footer = {"%nThe Spark job, started by scripts/edgewise from the job's classpath:",
+                "  tally     Scan a table once and write a score store (see 'scripts/edgewise tally --help')."},
+        subcommands = {CommandLine.HelpCommand.class, ScoresCommand.class,
                 EdgesCommand.class, PredictCommand.class, SimulateCommand.class, ReportCommand.class,
                 CompareCommand.class})
 public final class EdgewiseCli implements Runnable {
@@ -56,11 +59,6 @@ public final class EdgewiseCli implements Runnable {
             return USER_ERROR;
         });
         cl.setExecutionExceptionHandler((ex, c, parsed) -> {
-            if (ErrorReport.userError(ex) == null && ex instanceof IllegalArgumentException iae && iae.getMessage() != null) {
-                // TODO(layers): library checks still throw IllegalArgumentException for user input.
-                c.getErr().println(c.getCommandName() + ": " + iae.getMessage());
-                return USER_ERROR;
-            }
             return ErrorReport.report(c.getCommandName(), ex, c.getErr());
         });
         return cl;

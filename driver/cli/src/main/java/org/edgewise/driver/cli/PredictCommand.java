@@ -8,20 +8,20 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
-import java.util.concurrent.atomic.AtomicLong;
-import java.util.stream.IntStream;
-import me.tongfei.progressbar.ProgressBar;
-import me.tongfei.progressbar.ProgressBarBuilder;
-import me.tongfei.progressbar.ConsoleProgressBarConsumer;
+import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.TooLargeForExact;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.query.BatchPrediction;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.query.Prediction;
+import org.edgewise.driver.query.UnknownOrderPrediction;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
@@ -42,6 +42,9 @@ import picocli.CommandLine.Model.CommandSpec;
 public final class PredictCommand implements Callable<Integer> {
     static final String NOTE = "Probability of a new case under the stated assumptions (the order, or the orders averaged over; d, score, prior); "
             + "a model-based estimate, not a measured frequency. Interpret it with domain experts.";
+
+    /** Rows from which a batch shows a progress bar (on a terminal). */
+    static final int BAR_ROWS = 10_000;
 
     @Spec
     CommandSpec spec;
@@ -97,9 +100,11 @@ public final class PredictCommand implements Callable<Integer> {
             throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
         }
         var options = scoring.options();
+        String meth = methodOptions.resolve("prediction");
+        UnknownOrderSettings settings = meth.equals("order") ? null
+                : unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
         ScoreStore store = StoreReader.read(scoring.store);
         Manifest m = store.manifest();
-        String meth = methodOptions.resolve("prediction");
         int[] ord = methodOptions.order == null ? null : VariableOrder.parse(m, methodOptions.order);
         int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
         int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
@@ -112,8 +117,18 @@ public final class PredictCommand implements Callable<Integer> {
             avg = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates);
             best = CasePredictor.bestNetwork(op).withMaxHiddenStates(maxHiddenStates);
         } else {
-            OrderMixture mix = UnknownOrderPredict.mixture(meth, ls, unknown, tailMass, maxHiddenStates,
-                    spec.commandLine().getErr());
+            UnknownOrderPrediction.Mixture um;
+            try {
+                um = UnknownOrderPrediction.mixture(ls, settings, tailMass, maxHiddenStates, ProgressBars.onTerminal());
+            } catch (TooLargeForExact e) {
+                throw UnknownOrderEdges.tooLarge(e);
+            }
+            if (!um.converged()) {
+                spec.commandLine().getErr().println(String.format(Locale.ROOT,
+                        "predict: WARNING: the chains disagree (largest split-R-hat %.3f > %.2f): the prediction is not reliable; run longer",
+                        um.maxRhat(), UnknownOrderEdges.RHAT_WARN));
+            }
+            OrderMixture mix = um.mixture();
             avg = mix;
             best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
             averagedOver = meth + ": " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
@@ -138,7 +153,7 @@ public final class PredictCommand implements Callable<Integer> {
     }
 
     private static double lp(CaseProbability p, int[] target, int[] given) {
-        return given == null ? p.logProbability(target) : p.logConditional(target, given);
+        return BatchPrediction.logProbability(p, target, given);
     }
 
     private int one(Manifest m, int[] ord, LocalScores ls, CaseProbability avg, CaseProbability best,
@@ -200,27 +215,15 @@ public final class PredictCommand implements Callable<Integer> {
 
     private int batch(CaseCsv table, CaseProbability avg, CaseProbability best, int[] given) {
         int rows = table.cases().length;
-        double[] a = new double[rows];
-        double[] b = new double[rows];
-        AtomicLong done = new AtomicLong();
-        boolean bar = System.console() != null && rows >= 10_000;
-        try (ProgressBar pb = bar ? new ProgressBarBuilder().setTaskName("predict").setInitialMax(rows)
-                .setConsumer(new ConsoleProgressBarConsumer(System.err)).build() : null) {
-            IntStream.range(0, rows).parallel().forEach(i -> {
-                try {
-                    a[i] = lp(avg, table.cases()[i], given);
-                    b[i] = lp(best, table.cases()[i], given);
-                } catch (UserError e) {
-                    throw new UserError(casesFile + ": case " + (i + 1) + ": " + e.getMessage());
-                }
-                if (pb != null && done.incrementAndGet() % 1000 == 0) {
-                    pb.stepTo(done.get());
-                }
-            });
-            if (pb != null) {
-                pb.stepTo(rows);
-            }
+        BatchPrediction.Result r;
+        try {
+            r = BatchPrediction.run(avg, best, table.cases(), given,
+                    rows >= BAR_ROWS ? ProgressBars.onTerminal() : ProgressListener.NONE);
+        } catch (UserError e) {
+            throw new UserError(casesFile + ": " + e.getMessage(), e);
         }
+        double[] a = r.averaged();
+        double[] b = r.best();
         StringBuilder sb = new StringBuilder(rows * 64);
         List<String> head = new ArrayList<>();
         for (String h : table.header()) {

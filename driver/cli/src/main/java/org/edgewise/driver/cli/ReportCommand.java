@@ -1,5 +1,6 @@
 package org.edgewise.driver.cli;
 
+import org.edgewise.driver.UserError;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.Locale;
@@ -45,7 +46,7 @@ final class ReportCommand implements Callable<Integer> {
     public Integer call() {
         String fmt = format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("html") && !fmt.equals("dot")) {
-            throw new IllegalArgumentException("--format must be html or dot, got '" + format + "'");
+            throw new UserError("--format must be html or dot, got '" + format + "'");
         }
         CompareCommand.checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);

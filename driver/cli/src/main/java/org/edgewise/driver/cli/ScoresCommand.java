@@ -1,5 +1,7 @@
 package org.edgewise.driver.cli;
 
+import org.edgewise.driver.Checks;
+import org.edgewise.driver.UserError;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -46,10 +48,10 @@ final class ScoresCommand implements Callable<Integer> {
     public Integer call() {
         String fmt = format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("json") && !fmt.equals("csv")) {
-            throw new IllegalArgumentException("--format must be json or csv, got '" + format + "'");
+            throw new UserError("--format must be json or csv, got '" + format + "'");
         }
-        if (ess != null && !(ess > 0)) {
-            throw new IllegalArgumentException("--ess must be positive, got " + ess);
+        if (ess != null) {
+            Checks.ess(ess, "--ess");
         }
         ScoreStore s = StoreReader.read(store);
         Manifest m = s.manifest();

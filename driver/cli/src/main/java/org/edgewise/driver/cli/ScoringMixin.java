@@ -3,6 +3,7 @@ package org.edgewise.driver.cli;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.score.StructurePrior;
@@ -31,8 +32,8 @@ public final class ScoringMixin {
 
     /** The options for one ESS value (NaN = as stored). */
     public ScoringOptions options(double essValue) {
-        if (!Double.isNaN(essValue) && !(essValue > 0)) {
-            throw new IllegalArgumentException("--ess must be positive, got " + essValue);
+        if (!Double.isNaN(essValue)) {
+            Checks.ess(essValue, "--ess");
         }
         return new ScoringOptions(score == null ? null : ScoreKind.parse(score), essValue,
                 StructurePrior.parse(prior), rules(forbid, "--forbid"), rules(require, "--require"));

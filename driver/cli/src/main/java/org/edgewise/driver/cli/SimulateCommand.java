@@ -48,10 +48,10 @@ final class SimulateCommand implements Callable<Integer> {
     @Override
     public Integer call() throws IOException {
         if (!format.toLowerCase(Locale.ROOT).equals("csv")) {
-            throw new IllegalArgumentException("--format must be csv, got '" + format + "'");
+            throw new UserError("--format must be csv, got '" + format + "'");
         }
         if (rows < 0) {
-            throw new IllegalArgumentException("--rows must be 0 or more, got " + rows);
+            throw new UserError("--rows must be 0 or more, got " + rows);
         }
         Network net = NetworkReader.read(network);
         ForwardSampler sampler = new ForwardSampler(net);

@@ -3,7 +3,9 @@ package org.edgewise.driver.cli;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import picocli.CommandLine.Option;
 
 /** Options of the unknown-order methods ({@code edges --method exact|mcmc}, {@code predict --method …}). */
@@ -38,6 +40,30 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--order-samples", paramLabel = "K", defaultValue = "10000", description = "exact: orders drawn from the exact order posterior for --features (default ${DEFAULT-VALUE})")
     public int orderSamples;
+
+    /**
+     * The core's settings for {@code method}, the options checked first so that the messages name
+     * them ({@code --chains must be at least 1, got 0}).
+     */
+    public UnknownOrderSettings settings(UnknownOrderSettings.Method method, int topParents) {
+        if (method == UnknownOrderSettings.Method.MCMC) {
+            Checks.atLeast(chains, 1, "--chains");
+            Checks.atLeast(steps, 1, "--steps");
+            if (burnIn != null) {
+                Checks.notNegative(burnIn, "--burn-in");
+            }
+            if (untilRhat != null && !(untilRhat > 1)) {
+                throw new UserError("--until-rhat must be above 1 (e.g. 1.01), got " + untilRhat);
+            }
+        }
+        boolean anc = ancestors();
+        boolean mb = markovBlanket();
+        if (method == UnknownOrderSettings.Method.EXACT && (anc || mb)) {
+            Checks.atLeast(orderSamples, 1, "--order-samples");
+        }
+        return new UnknownOrderSettings(method, tierLists(), seed, chains, steps, burnIn, draws, untilRhat, maxSteps,
+                anc, mb, orderSamples, topParents);
+    }
 
     /** The tiers as lists of names. */
     public List<List<String>> tierLists() {

@@ -125,8 +125,7 @@ public final class ExactOrderSum {
         Estimate est = estimateHere(n);
         if (n > MAX_VARIABLES || est.bytes() > (long) ((Runtime.getRuntime().maxMemory()
                 - (Runtime.getRuntime().totalMemory() - Runtime.getRuntime().freeMemory())) * 0.9)) {
-            throw new UserError(est + " (heap " + (Runtime.getRuntime().maxMemory() >> 20)
-                    + " MiB; raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or use --method mcmc)");
+            throw new TooLargeForExact(est, Runtime.getRuntime().maxMemory());
         }
         final int full = (1 << n) - 1;
         final int half = 1 << (n - 1);

@@ -235,16 +235,4 @@ public final class LocalScores {
         }
         return mask;
     }
-
-    /** Mask over {@code candidates(child)} of the variables in {@code variables} (a global-index bitmask, n ≤ 64). */
-    public long candidateMask(int child, long variables) {
-        int[] cand = candidates[child];
-        long mask = 0;
-        for (int pos = 0; pos < cand.length; pos++) {
-            if ((variables >>> cand[pos] & 1L) != 0) {
-                mask |= 1L << pos;
-            }
-        }
-        return mask;
-    }
 }

@@ -127,10 +127,6 @@ final class OrderChain {
         return v;
     }
 
-    double score() {
-        return score;
-    }
-
     long steps() {
         return publishedSteps;
     }

@@ -1,5 +1,6 @@
 package org.edgewise.driver.average;
 
+import org.edgewise.driver.Checks;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -50,15 +51,9 @@ public final class OrderMcmc {
     public record Settings(int chains, long steps, long burnIn, long seed, int draws, double untilRhat,
                            long maxSteps, boolean features, long tableBudget) {
         public Settings {
-            if (chains < 1) {
-                throw new UserError("--chains must be at least 1, got " + chains);
-            }
-            if (steps < 1) {
-                throw new UserError("--steps must be at least 1, got " + steps);
-            }
-            if (burnIn < 0) {
-                throw new UserError("--burn-in must not be negative, got " + burnIn);
-            }
+            Checks.atLeast(chains, 1, "the number of chains");
+            Checks.atLeast(steps, 1, "the steps per chain");
+            Checks.notNegative(burnIn, "the burn-in");
             if (draws < 4) {
                 throw new UserError("at least 4 stored draws per chain are needed for split-R̂, got " + draws);
             }
@@ -255,7 +250,7 @@ public final class OrderMcmc {
         int m = chains.size();
         int draws = chains.get(0).edgeDraws.size();
         if (draws < 4) {
-            throw new UserError("only " + draws + " draws per chain were stored; run more --steps (at least "
+            throw new UserError("only " + draws + " draws per chain were stored; run more steps (at least "
                     + 4 * thin + ") or lower the thinning");
         }
         double[][] x = new double[m][draws];

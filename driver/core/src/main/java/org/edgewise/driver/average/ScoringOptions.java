@@ -27,10 +27,6 @@ public record ScoringOptions(ScoreKind score, double ess, StructurePrior prior,
         return new ScoringOptions(score, newEss, prior, forbid, require);
     }
 
-    public ScoringOptions withScore(ScoreKind newScore) {
-        return new ScoringOptions(newScore, ess, prior, forbid, require);
-    }
-
     public ScoringOptions withPrior(StructurePrior newPrior) {
         return new ScoringOptions(score, ess, newPrior, forbid, require);
     }

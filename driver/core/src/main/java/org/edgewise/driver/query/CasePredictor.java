@@ -1,5 +1,6 @@
 package org.edgewise.driver.query;
 
+import org.edgewise.driver.Checks;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -102,9 +103,7 @@ public final class CasePredictor implements CaseProbability {
 
     /** Averaged over parent sets with their posteriors under the order; see the class comment for {@code tailMass}. */
     public static CasePredictor averaged(OrderPosterior op, double tailMass) {
-        if (!(tailMass >= 0) || tailMass >= 1) {
-            throw new IllegalArgumentException("tail mass must be in [0, 1), got " + tailMass);
-        }
+        Checks.unitInterval(tailMass, "the tail mass");
         LocalScores ls = op.scores();
         int n = ls.variableCount();
         int[][] sets = new int[n][];
@@ -236,9 +235,7 @@ public final class CasePredictor implements CaseProbability {
 
     /** The same predictor with another limit on the hidden joint states enumerated per case. */
     public CasePredictor withMaxHiddenStates(long limit) {
-        if (limit < 1) {
-            throw new IllegalArgumentException("--max-hidden-states must be at least 1, got " + limit);
-        }
+        Checks.atLeast(limit, 1, "the limit on hidden joint states");
         return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, dense,
                 parentUnion, skippedMass, limit);
     }

@@ -1,5 +1,6 @@
 package org.edgewise.driver.score;
 
+import org.edgewise.driver.Checks;
 import org.apache.commons.math3.special.Gamma;
 
 /**
@@ -23,9 +24,7 @@ public final class FamilyScore {
     private final double ess;
 
     private FamilyScore(ScoreKind kind, double ess) {
-        if (!(ess > 0) || Double.isInfinite(ess)) {
-            throw new IllegalArgumentException("ESS must be a positive number, got " + ess);
-        }
+        Checks.ess(ess, "ESS");
         this.kind = kind;
         this.ess = ess;
     }
@@ -41,10 +40,6 @@ public final class FamilyScore {
 
     public FamilyScore withEss(double newEss) {
         return new FamilyScore(kind, newEss);
-    }
-
-    public FamilyScore withKind(ScoreKind newKind) {
-        return new FamilyScore(newKind, ess);
     }
 
     public ScoreKind kind() {

@@ -1,6 +1,7 @@
 package org.edgewise.driver.score;
 
 import java.util.Locale;
+import org.edgewise.driver.UserError;
 
 /**
  * The Dirichlet prior a family score uses.
@@ -22,7 +23,7 @@ public enum ScoreKind {
         try {
             return valueOf(text.trim().toUpperCase(Locale.ROOT));
         } catch (IllegalArgumentException e) {
-            throw new IllegalArgumentException("unknown score '" + text + "' (valid: bdeu, k2)");
+            throw new UserError("unknown score '" + text + "' (valid: bdeu, k2)");
         }
     }
 

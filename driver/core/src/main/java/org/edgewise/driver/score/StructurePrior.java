@@ -1,5 +1,6 @@
 package org.edgewise.driver.score;
 
+import org.edgewise.driver.UserError;
 import java.util.Locale;
 import org.apache.commons.math3.util.CombinatoricsUtils;
 
@@ -20,7 +21,7 @@ public enum StructurePrior {
         try {
             return valueOf(text.trim().toUpperCase(Locale.ROOT));
         } catch (IllegalArgumentException e) {
-            throw new IllegalArgumentException("unknown prior '" + text + "' (valid: uniform, size)");
+            throw new UserError("unknown prior '" + text + "' (valid: uniform, size)");
         }
     }
 

@@ -5,6 +5,7 @@ import com.fasterxml.jackson.databind.DeserializationFeature;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.IOException;
+import org.apache.parquet.ParquetRuntimeException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -82,9 +83,9 @@ public final class StoreReader {
 
     /**
      * As {@link #read(Path)}; {@code columnLevel = false} forces record-by-record reading, the
-     * fallback for parts whose schema differs from {@link StoreFormat}'s (for benchmarks).
+     * fallback for parts whose schema differs from {@link StoreFormat}'s.
      */
-    public static ScoreStore read(Path dir, boolean columnLevel) {
+    private static ScoreStore read(Path dir, boolean columnLevel) {
         Manifest m = readManifest(dir);
         StoreParts parts = m.parts();
         Path scoresFile = dir.resolve(parts.scoresFile());
@@ -104,7 +105,7 @@ public final class StoreReader {
             } else {
                 readScoresByRecord(dir, parts, scoresFile, n, childOf, parentsOf, scores);
             }
-        } catch (IOException | RuntimeException e) {
+        } catch (IOException | ParquetRuntimeException e) {
             throw wrap(dir, parts.scoresFile(), e);
         }
         long rows;
@@ -116,7 +117,7 @@ public final class StoreReader {
                 readCountsByRecord(countsFile, sink);
             }
             rows = sink.finish();
-        } catch (IOException | RuntimeException e) {
+        } catch (IOException | ParquetRuntimeException e) {
             throw wrap(dir, parts.countsFile(), e);
         }
         if (rows != parts.countRows()) {
@@ -451,10 +452,11 @@ public final class StoreReader {
         return new UserError("store " + dir + " is damaged: " + part + " " + what);
     }
 
+    /**
+     * What a damaged part really throws — an {@link IOException} (truncated file, bad footer) or a
+     * Parquet decoding error — as the user's problem; anything else propagates as a bug.
+     */
     private static UserError wrap(Path dir, String part, Exception e) {
-        if (e instanceof UserError u) {
-            return u;
-        }
         return new UserError("store " + dir + " is damaged: cannot read " + part + " (" + e.getClass().getSimpleName()
                 + (e.getMessage() == null ? "" : ": " + e.getMessage().lines().findFirst().orElse("")) + ")");
     }

@@ -1,0 +1,59 @@
+package org.edgewise.driver.cli;
+
+import java.util.Locale;
+import org.edgewise.driver.ProgressListener;
+
+/**
+ * The core's {@link ProgressListener} shown as a {@link Progress} bar on standard error (only on a
+ * terminal): one bar per task, MCMC's acceptance and largest R-hat after it.
+ */
+final class ProgressBars implements ProgressListener {
+    private final boolean show;
+    private Progress bar;
+    private long shown;
+
+    private ProgressBars(boolean show) {
+        this.show = show;
+    }
+
+    /** Bars on standard error when running on a terminal. */
+    static ProgressListener onTerminal() {
+        return new ProgressBars(System.console() != null);
+    }
+
+    @Override
+    public synchronized void start(String task, long total) {
+        finish();
+        bar = Progress.start(task, total, show);
+        shown = 0;
+    }
+
+    @Override
+    public synchronized void done(long done) {
+        if (bar != null && done > shown) {
+            bar.step(done - shown);
+            shown = done;
+        }
+    }
+
+    @Override
+    public synchronized void chainState(double acceptance, double maxRhat) {
+        if (bar != null) {
+            bar.extra(String.format(Locale.ROOT, "acceptance %.3f  max R-hat %s", acceptance,
+                    Double.isNaN(maxRhat) ? "-" : String.format(Locale.ROOT, "%.3f", maxRhat)));
+        }
+    }
+
+    @Override
+    public synchronized boolean wantsRhat() {
+        return bar != null && bar.visible();
+    }
+
+    @Override
+    public synchronized void finish() {
+        if (bar != null) {
+            bar.close();
+            bar = null;
+        }
+    }
+}

@@ -1,0 +1,75 @@
+package org.edgewise.driver;
+
+import java.util.Locale;
+
+/**
+ * Argument checks of values a user chooses (an ESS, a count of chains, a tail mass), in one place
+ * with their message templates, as Commons Statistics keeps its argument checks. Each check throws
+ * a {@link UserError} whose message starts with {@code what}: the caller names the value the way
+ * its user knows it (the CLI passes its option, {@code --ess}; a library caller passes {@code ESS}).
+ * Values a program computes are not checked here: a wrong one is a bug and throws
+ * {@link IllegalArgumentException}.
+ */
+public final class Checks {
+    /** Template of {@link #ess}: {@code what}, the value. */
+    static final String NOT_POSITIVE = "%s must be positive, got %s";
+    /** Template of {@link #ess} for an infinite value. */
+    static final String NOT_FINITE = "%s must be finite, got %s";
+    /** Template of {@link #atLeast}: {@code what}, the minimum, the value. */
+    static final String TOO_SMALL = "%s must be at least %d, got %d";
+    /** Template of {@link #notNegative}: {@code what}, the value. */
+    static final String NEGATIVE = "%s must not be negative, got %d";
+    /** Template of {@link #zeroOrMore}: {@code what}, the value. */
+    static final String BELOW_ZERO = "%s must be 0 or more, got %d";
+    /** Template of {@link #unitInterval}: {@code what}, the value. */
+    static final String NOT_IN_UNIT_INTERVAL = "%s must be in [0, 1), got %s";
+
+    private Checks() {
+    }
+
+    /**
+     * An equivalent sample size (BDeu's ESS): a positive, finite number. One check for every
+     * program that takes an ESS (the job's {@code tally}, the driver's commands, {@code FamilyScore}).
+     */
+    public static double ess(double ess, String what) {
+        if (!(ess > 0)) {
+            throw new UserError(String.format(Locale.ROOT, NOT_POSITIVE, what, ess));
+        }
+        if (Double.isInfinite(ess)) {
+            throw new UserError(String.format(Locale.ROOT, NOT_FINITE, what, ess));
+        }
+        return ess;
+    }
+
+    /** {@code value ≥ min}. */
+    public static long atLeast(long value, long min, String what) {
+        if (value < min) {
+            throw new UserError(String.format(Locale.ROOT, TOO_SMALL, what, min, value));
+        }
+        return value;
+    }
+
+    /** {@code value ≥ 0}, worded "must not be negative". */
+    public static long notNegative(long value, String what) {
+        if (value < 0) {
+            throw new UserError(String.format(Locale.ROOT, NEGATIVE, what, value));
+        }
+        return value;
+    }
+
+    /** {@code value ≥ 0}, worded "must be 0 or more". */
+    public static long zeroOrMore(long value, String what) {
+        if (value < 0) {
+            throw new UserError(String.format(Locale.ROOT, BELOW_ZERO, what, value));
+        }
+        return value;
+    }
+
+    /** {@code 0 ≤ value < 1} (a tail mass, a threshold). */
+    public static double unitInterval(double value, String what) {
+        if (!(value >= 0 && value < 1)) {
+            throw new UserError(String.format(Locale.ROOT, NOT_IN_UNIT_INTERVAL, what, value));
+        }
+        return value;
+    }
+}

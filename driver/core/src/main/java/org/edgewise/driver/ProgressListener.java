@@ -1,0 +1,31 @@
+package org.edgewise.driver;
+
+/**
+ * Progress of a long computation, reported by the engines (exact sum over orders, order MCMC,
+ * batch prediction) to whoever shows it — the CLI adapts it to its progress bar; a library user
+ * passes {@link #NONE}. Calls may come from several threads; {@link #done} is cumulative.
+ */
+public interface ProgressListener {
+    /** Ignores everything. */
+    ProgressListener NONE = done -> { };
+
+    /** Work named {@code task} with {@code total} units (≤ 0: unknown) begins. */
+    default void start(String task, long total) {
+    }
+
+    /** {@code done} units of the current task are complete (non-decreasing, at most the total). */
+    void done(long done);
+
+    /** Order MCMC: the acceptance rate so far and the largest split-R̂ (NaN while unknown). */
+    default void chainState(double acceptance, double maxRhat) {
+    }
+
+    /** Whether {@link #chainState} should carry the largest R̂ (it costs a pass over all draws per round). */
+    default boolean wantsRhat() {
+        return false;
+    }
+
+    /** The current task ended (normally or not). */
+    default void finish() {
+    }
+}

@@ -1,0 +1,196 @@
+package org.edgewise.driver.average;
+
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.ResultBuilder;
+
+/**
+ * Edge posteriors over unknown orders as an {@link EdgeResult}: runs {@link ExactOrderSum} or
+ * {@link OrderMcmc} with the settings' budget (the per-child tables get a quarter of the heap),
+ * burn-in and step caps, then assembles the result — edges, top parent sets (from at most
+ * {@value #SET_ORDERS} evenly spaced stored orders), features, and for MCMC the diagnostics with
+ * traces thinned to at most {@value #TRACE_POINTS} points per chain.
+ */
+public final class UnknownOrderAveraging {
+    /** R̂ above this is reported as not converged (Vehtari et al. 2021 recommend 1.01). */
+    public static final double RHAT_WARN = 1.01;
+    /** Points kept per chain trace in the result. */
+    static final int TRACE_POINTS = 500;
+    /** Stored orders used for the parent-set posteriors of an MCMC result. */
+    static final int SET_ORDERS = 1000;
+
+    private UnknownOrderAveraging() {
+    }
+
+    /** The averaged edges (and features) of {@code ls}; {@code storePath} goes into the provenance. */
+    public static EdgeResult edges(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
+        return s.method() == UnknownOrderSettings.Method.EXACT ? exact(ls, storePath, s, progress)
+                : mcmc(ls, storePath, s, progress);
+    }
+
+    private static EdgeResult.Settings settings(LocalScores ls, OrderConstraints oc) {
+        EdgeResult.Settings s = ResultBuilder.settings(ls);
+        return new EdgeResult.Settings(s.score(), s.ess(), s.prior(), s.maxParents(), s.forbid(), s.require(),
+                oc.tierNames().isEmpty() ? null : oc.tierNames());
+    }
+
+    private static EdgeResult exact(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
+        OrderConstraints oc = s.constraints(ls);
+        boolean feats = s.features();
+        ExactOrderSum.Result r;
+        progress.start("exact sum over orders", 1_000_000);
+        try {
+            long[] last = {0};
+            r = ExactOrderSum.run(ls, oc, feats ? s.orderSamples() : 0, s.seed(), ppm -> {
+                synchronized (last) {
+                    if (ppm > last[0]) {
+                        last[0] = ppm;
+                        progress.done(ppm);
+                    }
+                }
+            });
+        } finally {
+            progress.finish();
+        }
+        List<String> names = names(ls);
+        List<EdgeResult.Feature> features = null;
+        if (feats) {
+            double[][][] f = SampledOrders.features(ls, Arrays.asList(r.sampledOrders()), s.seed() + 1);
+            features = features(names, s, f[0], f[2], f[1], f[3]);
+        }
+        return new EdgeResult("exact", names, r.logEvidence(), null, ResultBuilder.ORDER_MODULAR, null,
+                settings(ls, oc), ResultBuilder.provenance(ls.store(), storePath),
+                ResultBuilder.edges(names, r.edgePosterior()),
+                ResultBuilder.topParents(ls, r.setPosterior(), s.topParents()), null, null, features, null);
+    }
+
+    private static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
+        int n = ls.variableCount();
+        OrderConstraints oc = s.constraints(ls);
+        boolean feats = s.features();
+        OrderMcmc.Result r = runMcmc(ls, oc, s, feats, progress);
+        List<String> names = names(ls);
+        List<EdgeResult.Edge> edges = new ArrayList<>();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a == b) {
+                    continue;
+                }
+                OrderMcmc.Estimate e = r.edges()[a][b];
+                edges.add(e == null ? new EdgeResult.Edge(names.get(a), names.get(b), 0.0, 0.0, null)
+                        : new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse()), finite(e.rhat())));
+            }
+        }
+        List<EdgeResult.Feature> features = null;
+        if (feats) {
+            double[][][] f = new double[4][n][n];
+            for (int a = 0; a < n; a++) {
+                for (int b = 0; b < n; b++) {
+                    if (a != b) {
+                        f[0][a][b] = r.ancestors()[a][b].mean();
+                        f[1][a][b] = r.ancestors()[a][b].mcse();
+                        f[2][a][b] = r.blanket()[a][b].mean();
+                        f[3][a][b] = r.blanket()[a][b].mcse();
+                    }
+                }
+            }
+            features = features(names, s, f[0], f[1], f[2], f[3]);
+        }
+        int traceEvery = Math.max(1, r.traces().get(0).length / TRACE_POINTS);
+        List<List<Double>> traces = new ArrayList<>();
+        for (double[] t : r.traces()) {
+            List<Double> l = new ArrayList<>();
+            for (int k = 0; k < t.length; k += traceEvery) {
+                l.add(t[k]);
+            }
+            traces.add(l);
+        }
+        EdgeResult.Diagnostics d = new EdgeResult.Diagnostics(s.chains(), r.stepsPerChain(), r.burnIn(), s.seed(),
+                r.acceptance(), r.maxRhat(), Double.isNaN(r.minEss()) ? 0 : r.minEss(), r.converged(), traces,
+                (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery));
+        return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
+                ResultBuilder.provenance(ls.store(), storePath), edges,
+                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, evenlySpaced(r.orders(), SET_ORDERS)),
+                        s.topParents()), null, d, features, null);
+    }
+
+    /** Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and R̂ to {@code progress}. */
+    public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
+                                           boolean withFeatures, ProgressListener progress) {
+        OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        progress.start("order MCMC", (ms.burnIn() + ms.steps()) * ms.chains());
+        try {
+            long[] shown = {0};
+            return OrderMcmc.run(ls, oc, ms, new OrderMcmc.Listener() {
+                @Override
+                public void progress(long done, long planned, double acc, double rhat) {
+                    if (done > shown[0]) {
+                        shown[0] = done;
+                        progress.done(done);
+                    }
+                    progress.chainState(acc, rhat);
+                }
+
+                @Override
+                public boolean wantsRhat() {
+                    return progress.wantsRhat();
+                }
+            });
+        } finally {
+            progress.finish();
+        }
+    }
+
+    /** At most about {@code max} elements of {@code all}, evenly spaced, first included. */
+    public static List<int[]> evenlySpaced(List<int[]> all, int max) {
+        List<int[]> few = new ArrayList<>();
+        int every = Math.max(1, all.size() / max);
+        for (int k = 0; k < all.size(); k += every) {
+            few.add(all.get(k));
+        }
+        return few;
+    }
+
+    private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,
+                                                     double[][] ancSe, double[][] mb, double[][] mbSe) {
+        int n = names.size();
+        List<EdgeResult.Feature> out = new ArrayList<>();
+        if (s.ancestors()) {
+            for (int a = 0; a < n; a++) {
+                for (int b = 0; b < n; b++) {
+                    if (a != b) {
+                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(anc[a][b]), finite(ancSe[a][b])));
+                    }
+                }
+            }
+        }
+        if (s.markovBlanket()) {
+            for (int a = 0; a < n; a++) {
+                for (int b = a + 1; b < n; b++) {
+                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(mb[a][b]), finite(mbSe[a][b])));
+                }
+            }
+        }
+        return out;
+    }
+
+    private static Double finite(double x) {
+        return Double.isFinite(x) ? x : null;
+    }
+
+    private static double clamp(double p) {
+        return p < 0 ? 0 : Math.min(p, 1.0);
+    }
+
+    private static List<String> names(LocalScores ls) {
+        List<String> out = new ArrayList<>();
+        for (var v : ls.store().variables()) {
+            out.add(v.name());
+        }
+        return out;
+    }
+}

@@ -1,0 +1,84 @@
+package org.edgewise.driver.query;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.UnknownOrderAveraging;
+import org.edgewise.driver.average.UnknownOrderSettings;
+
+/**
+ * The case predictor mixed over unknown orders. Exact: every allowed order with its exact
+ * posterior weight when n ≤ {@link #ENUMERATE_MAX} (at most 5,040 orders), else orders drawn from
+ * the exact order posterior (Koivisto &amp; Sood 2004). MCMC: the stored orders of the chains. At
+ * most {@link #MAX_ORDERS} sampled orders are mixed (evenly spaced).
+ */
+public final class UnknownOrderPrediction {
+    public static final int ENUMERATE_MAX = 7;
+    public static final int MAX_ORDERS = 1000;
+
+    /**
+     * The mixture, and for MCMC whether the chains agreed.
+     *
+     * @param converged true for exact; for MCMC whether the largest split-R̂ is below the threshold
+     * @param maxRhat   the largest split-R̂ (NaN for exact)
+     */
+    public record Mixture(OrderMixture mixture, boolean converged, double maxRhat) {
+    }
+
+    private UnknownOrderPrediction() {
+    }
+
+    public static Mixture mixture(LocalScores ls, UnknownOrderSettings s, double tailMass, long maxHidden,
+                                  ProgressListener progress) {
+        int n = ls.variableCount();
+        OrderConstraints oc = s.constraints(ls);
+        if (s.method() == UnknownOrderSettings.Method.EXACT) {
+            if (n <= ENUMERATE_MAX) {
+                return new Mixture(OrderMixture.exact(ls, allowedOrders(oc, n), tailMass, maxHidden), true, Double.NaN);
+            }
+            int k = Math.max(1, Math.min(s.orderSamples(), MAX_ORDERS));
+            ExactOrderSum.Result r = ExactOrderSum.run(ls, oc, k, s.seed(), null);
+            return new Mixture(OrderMixture.sampled(ls, Arrays.asList(r.sampledOrders()), tailMass, maxHidden),
+                    true, Double.NaN);
+        }
+        OrderMcmc.Result r = UnknownOrderAveraging.runMcmc(ls, oc, s, false, progress);
+        return new Mixture(OrderMixture.sampled(ls, UnknownOrderAveraging.evenlySpaced(r.orders(), MAX_ORDERS),
+                tailMass, maxHidden), r.converged(), r.maxRhat());
+    }
+
+    /** Every order of {@code n} variables that {@code oc} allows, in lexicographic order. */
+    public static List<int[]> allowedOrders(OrderConstraints oc, int n) {
+        List<int[]> all = new ArrayList<>();
+        permute(new int[n], new boolean[n], 0, oc, all);
+        return all;
+    }
+
+    private static void permute(int[] cur, boolean[] used, int depth, OrderConstraints oc, List<int[]> out) {
+        int n = cur.length;
+        if (depth == n) {
+            out.add(cur.clone());
+            return;
+        }
+        for (int v = 0; v < n; v++) {
+            if (used[v]) {
+                continue;
+            }
+            boolean ok = true;
+            for (int u = 0; u < n && ok; u++) {
+                ok = used[u] || !oc.mustPrecede(u, v);
+            }
+            if (!ok) {
+                continue;
+            }
+            used[v] = true;
+            cur[depth] = v;
+            permute(cur, used, depth + 1, oc, out);
+            used[v] = false;
+        }
+    }
+}
