@@ -9,7 +9,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.EssSweep;
+import org.edgewise.driver.analysis.EssSweep;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;

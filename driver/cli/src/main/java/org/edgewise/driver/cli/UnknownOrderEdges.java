@@ -5,7 +5,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
-import org.edgewise.driver.average.EssSweep;
+import org.edgewise.driver.analysis.EssSweep;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.TooLargeForExact;
@@ -21,7 +21,7 @@ import org.edgewise.driver.UserError;
  */
 final class UnknownOrderEdges {
     /** R̂ above this is reported as not converged. */
-    static final double RHAT_WARN = org.edgewise.driver.average.UnknownOrderAveraging.RHAT_WARN;
+    static final double RHAT_WARN = org.edgewise.driver.analysis.UnknownOrderAveraging.RHAT_WARN;
 
     private UnknownOrderEdges() {
     }

@@ -1,6 +1,7 @@
 package org.edgewise.driver.cli;
 
 import static com.tngtech.archunit.lang.syntax.ArchRuleDefinition.noClasses;
+import static com.tngtech.archunit.library.dependencies.SlicesRuleDefinition.slices;
 
 import com.tngtech.archunit.core.domain.JavaClasses;
 import com.tngtech.archunit.core.importer.ClassFileImporter;
@@ -20,7 +21,9 @@ class LayeringTest {
 
     @BeforeAll
     static void load() {
+        // Main classes only: neither this module's tests nor the core's test-jar (shared fixtures).
         classes = new ClassFileImporter().withImportOption(ImportOption.Predefined.DO_NOT_INCLUDE_TESTS)
+                .withImportOption(location -> !location.contains("-tests.jar"))
                 .importPackages("org.edgewise.driver");
     }
 
@@ -43,6 +46,22 @@ class LayeringTest {
         noClasses().that().resideInAnyPackage("org.edgewise.driver.average..", "org.edgewise.driver.query..")
                 .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.report..")
                 .because("engines compute; report writers present")
+                .check(classes);
+    }
+
+    @Test
+    void packagesFormNoCycles() {
+        slices().matching("org.edgewise.driver.(*)..").should().beFreeOfCycles()
+                .because("each layer may use the ones below it only (DEVELOPERS.md, 'Layers')")
+                .check(classes);
+    }
+
+    @Test
+    void theResultAssemblyDoesNotRunEngines() {
+        noClasses().that().resideInAnyPackage("org.edgewise.driver.average..", "org.edgewise.driver.query..",
+                        "org.edgewise.driver.result..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.analysis..")
+                .because("analysis/ runs the engines for a request and assembles results; nothing below calls up")
                 .check(classes);
     }
 }

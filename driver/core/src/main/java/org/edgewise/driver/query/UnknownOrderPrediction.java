@@ -8,7 +8,7 @@ import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.UnknownOrderAveraging;
+import org.edgewise.driver.average.OrderSampling;
 import org.edgewise.driver.average.UnknownOrderSettings;
 
 /**
@@ -46,8 +46,8 @@ public final class UnknownOrderPrediction {
             return new Mixture(OrderMixture.sampled(ls, Arrays.asList(r.sampledOrders()), tailMass, maxHidden),
                     true, Double.NaN);
         }
-        OrderMcmc.Result r = UnknownOrderAveraging.runMcmc(ls, oc, s, false, progress);
-        return new Mixture(OrderMixture.sampled(ls, UnknownOrderAveraging.evenlySpaced(r.orders(), MAX_ORDERS),
+        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, false, progress);
+        return new Mixture(OrderMixture.sampled(ls, OrderSampling.evenlySpaced(r.orders(), MAX_ORDERS),
                 tailMass, maxHidden), r.converged(), r.maxRhat());
     }
 

@@ -1,10 +1,17 @@
-package org.edgewise.driver.average;
+package org.edgewise.driver.analysis;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.OrderSampling;
+import org.edgewise.driver.average.SampledOrders;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultBuilder;
 
@@ -72,7 +79,7 @@ public final class UnknownOrderAveraging {
         int n = ls.variableCount();
         OrderConstraints oc = s.constraints(ls);
         boolean feats = s.features();
-        OrderMcmc.Result r = runMcmc(ls, oc, s, feats, progress);
+        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, feats, progress);
         List<String> names = names(ls);
         List<EdgeResult.Edge> edges = new ArrayList<>();
         for (int a = 0; a < n; a++) {
@@ -114,45 +121,8 @@ public final class UnknownOrderAveraging {
                 (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery));
         return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
                 ResultBuilder.provenance(ls.store(), storePath), edges,
-                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, evenlySpaced(r.orders(), SET_ORDERS)),
+                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
                         s.topParents()), null, d, features, null);
-    }
-
-    /** Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and R̂ to {@code progress}. */
-    public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
-                                           boolean withFeatures, ProgressListener progress) {
-        OrderMcmc.Settings ms = s.mcmc(withFeatures);
-        progress.start("order MCMC", (ms.burnIn() + ms.steps()) * ms.chains());
-        try {
-            long[] shown = {0};
-            return OrderMcmc.run(ls, oc, ms, new OrderMcmc.Listener() {
-                @Override
-                public void progress(long done, long planned, double acc, double rhat) {
-                    if (done > shown[0]) {
-                        shown[0] = done;
-                        progress.done(done);
-                    }
-                    progress.chainState(acc, rhat);
-                }
-
-                @Override
-                public boolean wantsRhat() {
-                    return progress.wantsRhat();
-                }
-            });
-        } finally {
-            progress.finish();
-        }
-    }
-
-    /** At most about {@code max} elements of {@code all}, evenly spaced, first included. */
-    public static List<int[]> evenlySpaced(List<int[]> all, int max) {
-        List<int[]> few = new ArrayList<>();
-        int every = Math.max(1, all.size() / max);
-        for (int k = 0; k < all.size(); k += every) {
-            few.add(all.get(k));
-        }
-        return few;
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,

@@ -1,10 +1,14 @@
-package org.edgewise.driver.average;
+package org.edgewise.driver.analysis;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultBuilder;
 import org.edgewise.driver.store.ScoreStore;

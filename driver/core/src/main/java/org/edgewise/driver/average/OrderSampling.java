@@ -1,0 +1,48 @@
+package org.edgewise.driver.average;
+
+import java.util.ArrayList;
+import java.util.List;
+import org.edgewise.driver.ProgressListener;
+
+/** Running order MCMC for a request with progress, and thinning the orders it kept. */
+public final class OrderSampling {
+    private OrderSampling() {
+    }
+
+    /** Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and R̂ to {@code progress}. */
+    public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
+                                           boolean withFeatures, ProgressListener progress) {
+        OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        progress.start("order MCMC", (ms.burnIn() + ms.steps()) * ms.chains());
+        try {
+            long[] shown = {0};
+            return OrderMcmc.run(ls, oc, ms, new OrderMcmc.Listener() {
+                @Override
+                public void progress(long done, long planned, double acc, double rhat) {
+                    if (done > shown[0]) {
+                        shown[0] = done;
+                        progress.done(done);
+                    }
+                    progress.chainState(acc, rhat);
+                }
+
+                @Override
+                public boolean wantsRhat() {
+                    return progress.wantsRhat();
+                }
+            });
+        } finally {
+            progress.finish();
+        }
+    }
+
+    /** At most about {@code max} elements of {@code all}, evenly spaced, first included. */
+    public static List<int[]> evenlySpaced(List<int[]> all, int max) {
+        List<int[]> few = new ArrayList<>();
+        int every = Math.max(1, all.size() / max);
+        for (int k = 0; k < all.size(); k += every) {
+            few.add(all.get(k));
+        }
+        return few;
+    }
+}
