@@ -7,7 +7,6 @@ import java.io.InputStream;
 import java.io.InputStreamReader;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
 import java.util.Locale;
@@ -165,9 +164,5 @@ public final class InputFiles {
 
     static String[] uris(List<DataFile> files) {
         return files.stream().map(DataFile::uri).toArray(String[]::new);
-    }
-
-    static List<String> list(String... xs) {
-        return Arrays.asList(xs);
     }
 }
