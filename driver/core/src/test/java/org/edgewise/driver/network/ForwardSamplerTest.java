@@ -22,7 +22,7 @@ class ForwardSamplerTest {
     static final int ROWS = 20_000;
 
     static Network fleet() {
-        return NetworkReader.read(Path.of("..", "sample-data", "fleet-network.json"));
+        return NetworkReader.read(Path.of("..", "..", "sample-data", "fleet-network.json"));
     }
 
     static int[][] sample(Network net, int rows, long seed) {

@@ -29,7 +29,7 @@ class NetworkReaderTest {
 
     @Test
     void readsTheDemoNetwork() {
-        Network n = NetworkReader.read(Path.of("..", "sample-data", "fleet-network.json"));
+        Network n = NetworkReader.read(Path.of("..", "..", "sample-data", "fleet-network.json"));
         assertEquals(13, n.size());
         assertEquals(14, n.edges().size(), "the 14 edges listed in sample-data/README.md");
         int exc = n.indexOf("temp_excursion");
@@ -53,7 +53,7 @@ class NetworkReaderTest {
     /** The example in docs/report.md parses and means what the text says about its rows. */
     @Test
     void documentedExampleParses() throws Exception {
-        String doc = Files.readString(Path.of("..", "docs", "report.md"));
+        String doc = Files.readString(Path.of("..", "..", "docs", "report.md"));
         int start = doc.indexOf("```json\n") + 8;
         Network n = NetworkReader.parse("docs/report.md", doc.substring(start, doc.indexOf("```", start)));
         int wet = n.indexOf("wet");

@@ -27,7 +27,7 @@ final class ReportFixtures {
 
     /** The demo network of sample-data/ (tests run in driver/). */
     static Network fleet() {
-        return NetworkReader.read(Path.of("..", "sample-data", "fleet-network.json"));
+        return NetworkReader.read(Path.of("..", "..", "sample-data", "fleet-network.json"));
     }
 
     /**
