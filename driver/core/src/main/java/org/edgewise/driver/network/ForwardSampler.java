@@ -53,6 +53,16 @@ public final class ForwardSampler {
         }
     }
 
+    /** {@code rows} rows drawn with {@code seed}: {@code out[t][v]} = state index of variable v in row t. */
+    public int[][] sample(int rows, long seed) {
+        SplittableRandom rng = new SplittableRandom(seed);
+        int[][] out = new int[rows][net.size()];
+        for (int[] row : out) {
+            draw(rng, row);
+        }
+        return out;
+    }
+
     /**
      * Writes a header and {@code rows} sampled rows as CSV (state labels, columns in file order,
      * RFC 4180 quoting) to {@code out}. {@code progress} receives the number of rows written
