@@ -92,8 +92,8 @@ public final class UnknownOrderBench {
         }
         ScoreStore base = InMemoryTally.tally(vars.subList(0, 1), new int[][] {{0}}, 0, fs);
         Manifest m0 = base.manifest();
-        Manifest m = new Manifest(m0.formatVersion(), m0.program(), m0.programVersion(), m0.createdAt(), m0.input(),
-                vars, d, null, List.of(), List.of(), List.of(), m0.score(), m0.ess(), null);
+        Manifest m = Manifest.of(m0.program(), m0.programVersion(), m0.createdAt(), m0.input(),
+                vars, d, null, List.of(), List.of(), List.of(), m0.score(), m0.ess());
         return new ScoreStore(m, fams, sc.stream().mapToDouble(Double::doubleValue).toArray());
     }
 

@@ -50,7 +50,7 @@ public final class StoreWriter {
                 StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
                         sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
                         sha256(tmp.resolve(StoreFormat.COUNTS)));
-                JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), manifest.withParts(parts));
+                JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), StoreFormat.stamp(manifest, parts));
             });
         } catch (IOException e) {
             throw new UncheckedIOException("could not write store " + target + ": " + e.getMessage(), e);

@@ -69,9 +69,9 @@ public final class InMemoryTally {
             System.arraycopy(scoresByChild[c], 0, scores, at, scoresByChild[c].length);
             at += scoresByChild[c].length;
         }
-        Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", "in-memory", Instant.EPOCH.toString(),
+        Manifest m = Manifest.of("edgewise", "in-memory", Instant.EPOCH.toString(),
                 new InputInfo(List.of("(in memory)"), "memory", rows.length, 0, "error", "0"),
-                variables, maxParents, null, List.of(), List.of(), List.of(), score.kind().label(), score.ess(), null);
+                variables, maxParents, null, List.of(), List.of(), List.of(), score.kind().label(), score.ess());
         return new ScoreStore(m, families, scores);
     }
 
