@@ -13,6 +13,7 @@ import java.util.stream.IntStream;
 import me.tongfei.progressbar.ProgressBar;
 import me.tongfei.progressbar.ProgressBarBuilder;
 import me.tongfei.progressbar.ConsoleProgressBarConsumer;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
@@ -224,7 +225,7 @@ public final class PredictCommand implements Callable<Integer> {
         StringBuilder sb = new StringBuilder(rows * 64);
         List<String> head = new ArrayList<>();
         for (String h : table.header()) {
-            head.add(Csv.field(h));
+            head.add(CsvFields.quote(h));
         }
         sb.append(String.join(",", head)).append(",probability,logProbability,bestNetworkProbability,bestNetworkLogProbability\n");
         for (int i = 0; i < rows; i++) {

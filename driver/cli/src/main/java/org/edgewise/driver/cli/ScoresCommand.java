@@ -1,13 +1,12 @@
 package org.edgewise.driver.cli;
 
-import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.FamilyCounts;
@@ -44,10 +43,7 @@ final class ScoresCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        String fmt = format.toLowerCase(Locale.ROOT);
-        if (!fmt.equals("json") && !fmt.equals("csv")) {
-            throw new IllegalArgumentException("--format must be json or csv, got '" + format + "'");
-        }
+        String fmt = Output.format(format, "json", "csv");
         if (ess != null && !(ess > 0)) {
             throw new IllegalArgumentException("--ess must be positive, got " + ess);
         }
@@ -73,7 +69,7 @@ final class ScoresCommand implements Callable<Integer> {
                 parents.add(m.variables().get(p).name());
             }
             if (fmt.equals("csv")) {
-                sb.append(Csv.field(child)).append(',').append(Csv.field(String.join(";", parents)))
+                sb.append(CsvFields.quote(child)).append(',').append(CsvFields.quote(String.join(";", parents)))
                         .append(',').append(Double.toString(lp)).append('\n');
             } else {
                 Map<String, Object> row = new LinkedHashMap<>();
@@ -84,13 +80,7 @@ final class ScoresCommand implements Callable<Integer> {
             }
         }
         String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(rows) + "\n";
-        if (out != null) {
-            ResultJson.writeText(out, text);
-        } else {
-            PrintWriter w = spec.commandLine().getOut();
-            w.print(text);
-            w.flush();
-        }
+        Output.write(spec, out, text);
         return 0;
     }
 }

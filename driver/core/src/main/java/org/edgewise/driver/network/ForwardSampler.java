@@ -5,6 +5,7 @@ import java.io.OutputStream;
 import java.nio.charset.StandardCharsets;
 import java.util.SplittableRandom;
 import java.util.function.LongConsumer;
+import org.edgewise.driver.CsvFields;
 
 /**
  * Forward (ancestral) sampling of a {@link Network} (Henrion 1988, "probabilistic logic
@@ -75,9 +76,9 @@ public final class ForwardSampler {
         for (int i = 0; i < n; i++) {
             labels[i] = new byte[net.arity(i)][];
             for (int k = 0; k < net.arity(i); k++) {
-                labels[i][k] = csvField(net.states().get(i).get(k)).getBytes(StandardCharsets.UTF_8);
+                labels[i][k] = CsvFields.quote(net.states().get(i).get(k)).getBytes(StandardCharsets.UTF_8);
             }
-            header.append(i == 0 ? "" : ",").append(csvField(net.names().get(i)));
+            header.append(i == 0 ? "" : ",").append(CsvFields.quote(net.names().get(i)));
         }
         out.write(header.append('\n').toString().getBytes(StandardCharsets.UTF_8));
         SplittableRandom rng = new SplittableRandom(seed);
@@ -107,13 +108,5 @@ public final class ForwardSampler {
         }
         out.write(buf, 0, len);
         progress.accept(pending);
-    }
-
-    /** RFC 4180: quote a field holding a comma, quote or line break. */
-    static String csvField(String s) {
-        if (s.indexOf(',') < 0 && s.indexOf('"') < 0 && s.indexOf('\n') < 0 && s.indexOf('\r') < 0) {
-            return s;
-        }
-        return '"' + s.replace("\"", "\"\"") + '"';
     }
 }
