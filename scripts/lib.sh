@@ -45,13 +45,14 @@ edgewise_job_classpath() {
 }
 
 # The jars a cluster needs beyond the Spark it ships, comma-separated (spark.jars / spark-submit
-# --jars): the thin job jar, the Spark-free core library and tally's command-line parser (picocli,
-# used in the Spark driver JVM only). Executors fetch them from the driver; nothing of Edgewise has
-# to be installed on the workers. The core's other dependencies (Commons Math, Jackson, Parquet,
-# Hadoop, SLF4J) are part of every Spark 3.5 distribution.
+# --jars): the thin job jar, the Spark-free core library, tally's command-line parser (picocli,
+# used in the Spark driver JVM only) and Commons CSV (the core's CSV field reader; not in Spark).
+# Executors fetch them from the driver; nothing of Edgewise has to be installed on the workers. The
+# core's other dependencies (Commons Math, Jackson, Parquet, Hadoop, SLF4J, and the Commons IO and
+# Codec that Commons CSV uses) are part of every Spark 3.5 distribution.
 edgewise_app_jars() {
   local extra
   extra=$(tr ':' '\n' < "$root/job/target/classpath-runtime.txt" \
-    | grep -E '/picocli-[0-9][^/]*\.jar$' | paste -sd, -)
+    | grep -E '/(picocli|commons-csv)-[0-9][^/]*\.jar$' | paste -sd, -)
   echo "$job_jar,$core_jar${extra:+,$extra}"
 }

@@ -19,7 +19,6 @@ import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.InputInfo;
 import org.edgewise.driver.store.Manifest;
-import org.edgewise.driver.store.StoreFormat;
 import org.edgewise.driver.store.StoreWriter;
 import org.edgewise.driver.store.Variable;
 import org.edgewise.job.count.CoverBatch;
@@ -113,12 +112,12 @@ public final class TallyJob {
             }
             Counted counted = count(blocks, plan, score, o.memoryBudget(), names, rows, "families");
             List<FamilyCounts> families = Arrays.asList(counted.families());
-            Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", Version.PROGRAM,
+            Manifest m = Manifest.of("edgewise", Version.PROGRAM,
                     Instant.now().toString(),
                     new InputInfo(o.inputs(), table.isCsv() ? "csv" : "parquet", rows, scan.stats().dropped(),
                             o.missing().label(), fingerprint),
                     variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
-                    o.score().label(), o.ess(), null);
+                    o.score().label(), o.ess());
             StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite());
             double secs = (System.nanoTime() - start) / 1e9;
             LOG.info("wrote {}: {} families from {} rows in {} s", o.out(), plan.familyCount(), rows,

@@ -284,7 +284,7 @@ public final class TallyMain implements Callable<Integer> {
 
     /**
      * Starts Spark: embedded for {@code local…} (no web UI, loopback), otherwise the given master;
-     * for any cluster master the job and driver jars are added to {@code spark.jars} (keeping
+     * for any cluster master the job and core jars and Commons CSV are added to {@code spark.jars} (keeping
      * what is already there), so executors fetch them from the driver.
      */
     static SparkSession session(String master, Map<String, String> extra) {
@@ -307,6 +307,7 @@ public final class TallyMain implements Callable<Integer> {
             }
             jars.add(jarOf(TallyMain.class));
             jars.add(jarOf(Version.class)); // the core library
+            jars.add(jarOf(org.apache.commons.csv.CSVFormat.class)); // the core's CSV reader, not part of Spark
             b.config("spark.jars", String.join(",", jars));
         }
         SparkSession s = b.getOrCreate();

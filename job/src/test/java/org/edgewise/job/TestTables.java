@@ -8,8 +8,10 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Random;
 import org.apache.spark.sql.SparkSession;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.RandomNetwork;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
 import org.edgewise.driver.store.Variable;
@@ -49,54 +51,13 @@ final class TestTables {
     }
 
     /**
-     * Rows sampled from a small random network over {@code arity.length} variables (each variable
-     * depends on up to two earlier ones through a random conditional table), as state indices.
+     * Rows sampled by the one {@link ForwardSampler} from a small {@link RandomNetwork} over
+     * {@code arity.length} variables (each depends on up to two earlier ones through a random
+     * conditional table, rows u² + 0.05 normalised), as state indices.
      */
     static int[][] sample(int[] arity, int rows, long seed) {
-        Random rnd = new Random(seed);
-        int n = arity.length;
-        int[][] parents = new int[n][];
-        double[][][] cpt = new double[n][][];
-        for (int v = 0; v < n; v++) {
-            List<Integer> ps = new ArrayList<>();
-            for (int u = 0; u < v && ps.size() < 2; u++) {
-                if (rnd.nextDouble() < 0.5) {
-                    ps.add(u);
-                }
-            }
-            parents[v] = ps.stream().mapToInt(Integer::intValue).toArray();
-            int q = 1;
-            for (int p : parents[v]) {
-                q *= arity[p];
-            }
-            cpt[v] = new double[q][arity[v]];
-            for (int j = 0; j < q; j++) {
-                double s = 0;
-                for (int k = 0; k < arity[v]; k++) {
-                    cpt[v][j][k] = Math.pow(rnd.nextDouble(), 2) + 0.05;
-                    s += cpt[v][j][k];
-                }
-                for (int k = 0; k < arity[v]; k++) {
-                    cpt[v][j][k] /= s;
-                }
-            }
-        }
-        int[][] out = new int[rows][n];
-        for (int t = 0; t < rows; t++) {
-            for (int v = 0; v < n; v++) {
-                int j = 0;
-                for (int p : parents[v]) {
-                    j = j * arity[p] + out[t][p];
-                }
-                double u = rnd.nextDouble();
-                int k = 0;
-                while (k < arity[v] - 1 && (u -= cpt[v][j][k]) > 0) {
-                    k++;
-                }
-                out[t][v] = k;
-            }
-        }
-        return out;
+        Network net = RandomNetwork.generate("x", arity, 2, arity.length, 2, 0.05, seed);
+        return new ForwardSampler(net).sample(rows, seed + 1);
     }
 
     /** Writes sampled rows as CSV with labels {@code labels[v][state]}. */

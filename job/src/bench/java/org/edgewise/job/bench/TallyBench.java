@@ -1,11 +1,9 @@
 package org.edgewise.job.bench;
 
-import java.io.BufferedWriter;
 import java.io.IOException;
 import java.lang.management.ManagementFactory;
 import java.lang.management.MemoryPoolMXBean;
 import java.lang.management.MemoryType;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -57,7 +55,7 @@ public final class TallyBench {
         Path csv = dir.resolve("synthetic-" + rows + "x" + vars + "-" + seed + ".csv");
         if (!Files.exists(csv)) {
             long t0 = System.nanoTime();
-            generate(csv, rows, vars, seed);
+            SyntheticTable.generate(csv, rows, vars, 3, 6, seed);
             System.out.printf(Locale.ROOT, "generated %s (%d rows × %d variables) in %.1f s%n", csv.getFileName(), rows,
                     vars, (System.nanoTime() - t0) / 1e9);
         }
@@ -166,82 +164,5 @@ public final class TallyBench {
             return "n/a";
         }
         return "n/a";
-    }
-
-    /**
-     * Samples rows from a random network: variable v has 2–4 states and up to three parents among
-     * the earlier variables, with conditional tables drawn from a skewed distribution.
-     */
-    static void generate(Path csv, int rows, int n, long seed) throws IOException {
-        Random rnd = new Random(seed);
-        int[] arity = new int[n];
-        int[][] parents = new int[n][];
-        double[][][] cdf = new double[n][][];
-        for (int v = 0; v < n; v++) {
-            arity[v] = 2 + rnd.nextInt(3);
-            List<Integer> ps = new ArrayList<>();
-            for (int u = Math.max(0, v - 6); u < v && ps.size() < 3; u++) {
-                if (rnd.nextDouble() < 0.4) {
-                    ps.add(u);
-                }
-            }
-            parents[v] = ps.stream().mapToInt(Integer::intValue).toArray();
-            int q = 1;
-            for (int p : parents[v]) {
-                q *= arity[p];
-            }
-            cdf[v] = new double[q][arity[v]];
-            for (int j = 0; j < q; j++) {
-                double sum = 0;
-                double[] w = new double[arity[v]];
-                for (int k = 0; k < arity[v]; k++) {
-                    w[k] = Math.pow(rnd.nextDouble(), 3) + 0.02;
-                    sum += w[k];
-                }
-                double acc = 0;
-                for (int k = 0; k < arity[v]; k++) {
-                    acc += w[k] / sum;
-                    cdf[v][j][k] = acc;
-                }
-            }
-        }
-        String[][] labels = new String[n][];
-        for (int v = 0; v < n; v++) {
-            labels[v] = new String[arity[v]];
-            for (int k = 0; k < arity[v]; k++) {
-                labels[v][k] = "s" + k;
-            }
-        }
-        Path tmp = csv.resolveSibling(csv.getFileName() + ".tmp");
-        try (BufferedWriter w = Files.newBufferedWriter(tmp, StandardCharsets.UTF_8)) {
-            for (int v = 0; v < n; v++) {
-                w.write((v > 0 ? "," : "") + "x" + (v + 1));
-            }
-            w.newLine();
-            int[] row = new int[n];
-            StringBuilder sb = new StringBuilder();
-            for (int t = 0; t < rows; t++) {
-                sb.setLength(0);
-                for (int v = 0; v < n; v++) {
-                    int j = 0;
-                    for (int p : parents[v]) {
-                        j = j * arity[p] + row[p];
-                    }
-                    double u = rnd.nextDouble();
-                    int k = 0;
-                    while (k < arity[v] - 1 && u > cdf[v][j][k]) {
-                        k++;
-                    }
-                    row[v] = k;
-                    if (v > 0) {
-                        sb.append(',');
-                    }
-                    sb.append(labels[v][k]);
-                }
-                sb.append('\n');
-                w.write(sb.toString());
-            }
-        }
-        Files.move(tmp, csv, java.nio.file.StandardCopyOption.REPLACE_EXISTING);
     }
 }

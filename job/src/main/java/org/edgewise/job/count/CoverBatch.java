@@ -80,14 +80,6 @@ public final class CoverBatch implements Serializable {
         return cells;
     }
 
-    public int sets() {
-        return sets.length;
-    }
-
-    public int[] set(int s) {
-        return sets[s];
-    }
-
     public int offset(int s) {
         return offset[s];
     }

@@ -31,11 +31,6 @@ public final class Block implements Serializable {
         return cols;
     }
 
-    /** State of variable v in row t. */
-    public int state(int v, int t) {
-        return cols[v][t] & 0xFF;
-    }
-
     /**
      * Fingerprint contribution {rows, Σ h, ⊕ h} with h a 64-bit mix of each encoded row; summing
      * and xor-ing make it independent of row order and partitioning.

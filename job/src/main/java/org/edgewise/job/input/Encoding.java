@@ -1,7 +1,6 @@
 package org.edgewise.job.input;
 
 import java.io.Serializable;
-import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import org.edgewise.driver.store.Variable;
@@ -112,13 +111,5 @@ public final class Encoding implements Serializable {
     /** Arity of every variable. */
     public int[] arities() {
         return arity.clone();
-    }
-
-    static List<String> names(List<Variable> vs) {
-        List<String> out = new ArrayList<>();
-        for (Variable v : vs) {
-            out.add(v.name());
-        }
-        return out;
     }
 }

@@ -7,7 +7,6 @@ import java.io.InputStream;
 import java.io.InputStreamReader;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
-import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
 import java.util.Locale;
@@ -17,6 +16,7 @@ import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.Path;
 import org.apache.hadoop.io.compress.CompressionCodec;
 import org.apache.hadoop.io.compress.CompressionCodecFactory;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 
 /**
@@ -126,7 +126,14 @@ public final class InputFiles {
         if (!line.isEmpty() && line.charAt(0) == '\uFEFF') {
             line = line.substring(1);
         }
-        List<String> names = CsvLine.split(line, delimiter);
+        List<String> names;
+        try {
+            names = CsvFields.split(line, delimiter);
+        } catch (CsvFields.Malformed e) {
+            throw new UserError("input " + display(file) + " line 1: column " + e.column() + ": "
+                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
+                    : "text after a closing quote"));
+        }
         for (int i = 0; i < names.size(); i++) {
             if (names.get(i).isBlank()) {
                 throw new UserError("input " + display(file) + " line 1: column " + (i + 1) + " has no name");
@@ -165,9 +172,5 @@ public final class InputFiles {
 
     static String[] uris(List<DataFile> files) {
         return files.stream().map(DataFile::uri).toArray(String[]::new);
-    }
-
-    static List<String> list(String... xs) {
-        return Arrays.asList(xs);
     }
 }

@@ -15,6 +15,7 @@ import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.catalyst.InternalRow;
 import org.apache.spark.storage.StorageLevel;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.Variable;
 import org.edgewise.job.TallyOptions;
@@ -142,7 +143,7 @@ public final class TableScan {
         if (stats.malformed() > 0) {
             Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table, r -> !r.isNullAt(corrupt));
             String text = bad._2()._1().getString(corrupt);
-            int got = CsvLine.split(text, table.delimiter()).size();
+            int got = fieldCount(text, table.delimiter());
             throw new UserError("input " + InputFiles.display(bad._1()) + " line " + table.lineOf(bad._2()._2())
                     + ": " + got + (got == 1 ? " field" : " fields") + ", the header has " + header.size()
                     + " (" + stats.malformed() + " malformed " + (stats.malformed() == 1 ? "row" : "rows") + " in all)");
@@ -319,5 +320,14 @@ public final class TableScan {
             }
         }
         return String.join(", ", args);
+    }
+
+    /** Fields of a malformed row for the message; a row with a broken quote counts up to its bad field. */
+    private static int fieldCount(String text, char delimiter) {
+        try {
+            return CsvFields.split(text, delimiter).size();
+        } catch (CsvFields.Malformed e) {
+            return e.column();
+        }
     }
 }

@@ -4,14 +4,11 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.time.Instant;
-import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import java.util.Random;
 import java.util.stream.IntStream;
-import org.edgewise.driver.store.ParentSets;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
@@ -21,11 +18,11 @@ import org.edgewise.driver.result.ResultBuilder;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.RandomNetwork;
 import org.edgewise.driver.store.InMemoryTally;
-import org.edgewise.driver.store.InputInfo;
-import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.StoreFormat;
 import org.edgewise.driver.store.StoreReader;
 import org.edgewise.driver.store.StoreWriter;
 import org.edgewise.driver.store.Variable;
@@ -35,9 +32,8 @@ import org.edgewise.driver.store.Variable;
  * synthetic table, writes it with {@link StoreWriter}, and measures loading it, {@code edges}
  * given an order, and {@code predict} on 100,000 cases. Arguments: [work dir] [rows] [cases].
  *
- * <p>Counting: every variable subset S with |S| ≤ d + 1 is counted once over the rows (a dense
- * joint table of at most 3^4 cells), and each family (i, S \ {i}) is read off it — C(40,≤4) row
- * passes instead of one per family. Memory: the table as bytes (n per row) plus the store.
+ * <p>Data: a {@link RandomNetwork} sampled by the one {@link ForwardSampler}, counted by the
+ * reference {@link InMemoryTally}. Memory: the table (4 bytes per cell) plus the store.
  */
 public final class OrderBench {
     static final int N = 40;
@@ -56,41 +52,36 @@ public final class OrderBench {
         for (int v = 0; v < N; v++) {
             arity[v] = v % 3 == 0 ? 3 : 2;
         }
-        List<Variable> vars = new ArrayList<>();
-        for (int v = 0; v < N; v++) {
-            List<String> states = new ArrayList<>();
-            for (int k = 0; k < arity[v]; k++) {
-                states.add(Character.toString('a' + k));
-            }
-            vars.add(new Variable(String.format(Locale.ROOT, "x%02d", v), states));
-        }
-        Network net = Network.random(arity, new Random(40_003L));
-        byte[][] cols = net.sampleColumns(rows, new Random(40_004L));
+        // Up to three earlier parents per variable; skewed rows (u³ + 0.02) give dependencies of varied strength.
+        Network net = RandomNetwork.generate("x", arity, 3, N, 3, 0.02, 40_003L);
+        List<Variable> vars = RandomNetwork.variables(net);
+        ForwardSampler sampler = new ForwardSampler(net);
+        int[][] data = sampler.sample(rows, 40_004L);
         System.out.printf(Locale.ROOT, "bench order: n = %d, d = %d, %,d rows, %d cores%n", N, D, rows,
                 Runtime.getRuntime().availableProcessors());
 
         Path dir = work.resolve("store");
         if (!reuse || !Files.isDirectory(dir)) {
-            build(vars, arity, cols, rows, dir);
+            build(vars, data, dir);
         }
-        measure(vars, net, dir, work, cases);
+        measure(vars, sampler, dir, work, cases);
     }
 
-    static void build(List<Variable> vars, int[] arity, byte[][] cols, int rows, Path dir) throws IOException {
+    static void build(List<Variable> vars, int[][] data, Path dir) throws IOException {
         long t0 = mark();
-        ScoreStore store = tally(vars, arity, cols, rows);
+        ScoreStore store = InMemoryTally.tally(vars, data, D, FamilyScore.withDefaults());
         long countRows = 0;
         for (FamilyCounts fc : store.families()) {
             countRows += fc.rows();
         }
-        report("tally (in-memory, subset counting)", t0, String.format(Locale.ROOT, "%,d families, %,d count rows",
+        report("tally (InMemoryTally, a child per thread)", t0, String.format(Locale.ROOT, "%,d families, %,d count rows",
                 store.families().size(), countRows));
         t0 = mark();
         StoreWriter.write(dir, store.manifest(), store.families(), store.logScores(), true);
         report("write store (StoreWriter)", t0, String.format(Locale.ROOT, "%,d bytes on disk", size(dir)));
     }
 
-    static void measure(List<Variable> vars, Network net, Path dir, Path work, int cases) throws IOException {
+    static void measure(List<Variable> vars, ForwardSampler sampler, Path dir, Path work, int cases) throws IOException {
         long t0 = mark();
         ScoreStore read = StoreReader.read(dir);
         report("load store (StoreReader.read)", t0, String.format(Locale.ROOT, "%,d families", read.families().size()));
@@ -120,14 +111,12 @@ public final class OrderBench {
         report("edges command end to end (load + compute + write)", t0, "exit " + status);
 
         // 100,000 held-out cases from the generating network; 10% of cells hidden.
-        byte[][] caseCols = net.sampleColumns(cases, new Random(40_005L));
+        int[][] full = sampler.sample(cases, 40_005L);
         Random hide = new Random(40_006L);
-        int[][] full = new int[cases][N];
         int[][] partial = new int[cases][N];
         for (int c = 0; c < cases; c++) {
             for (int v = 0; v < N; v++) {
-                full[c][v] = caseCols[v][c];
-                partial[c][v] = hide.nextDouble() < 0.1 ? -1 : caseCols[v][c];
+                partial[c][v] = hide.nextDouble() < 0.1 ? -1 : full[c][v];
             }
         }
         t0 = mark();
@@ -213,166 +202,5 @@ public final class OrderBench {
             sb.append('\n');
         }
         Files.writeString(csv, sb);
-    }
-
-    /** Counts every family of at most D parents by counting each variable subset of size ≤ D+1 once. */
-    static ScoreStore tally(List<Variable> vars, int[] arity, byte[][] cols, int rows) {
-        FamilyScore fs = FamilyScore.withDefaults();
-        int[] all = IntStream.range(0, N).toArray();
-        List<int[]> subsets = new ArrayList<>();
-        for (int size = 1; size <= D + 1; size++) {
-            subsets.addAll(ParentSets.subsets(all, size));
-        }
-        @SuppressWarnings("unchecked")
-        List<FamilyCounts>[] perSubset = new List[subsets.size()];
-        IntStream.range(0, subsets.size()).parallel().forEach(si -> {
-            int[] s = subsets.get(si);
-            int cells = 1;
-            for (int v : s) {
-                cells *= arity[v];
-            }
-            long[] joint = new long[cells];
-            for (int t = 0; t < rows; t++) {
-                int code = 0;
-                for (int v : s) {
-                    code = code * arity[v] + cols[v][t];
-                }
-                joint[code]++;
-            }
-            List<FamilyCounts> fams = new ArrayList<>(s.length);
-            int[] digit = new int[s.length];
-            for (int ci = 0; ci < s.length; ci++) {
-                int child = s[ci];
-                int r = arity[child];
-                int[] parents = new int[s.length - 1];
-                int q = 1;
-                for (int i = 0, k = 0; i < s.length; i++) {
-                    if (i != ci) {
-                        parents[k++] = s[i];
-                        q *= arity[s[i]];
-                    }
-                }
-                long[] dense = new long[q * r];
-                for (int code = 0; code < cells; code++) {
-                    if (joint[code] == 0) {
-                        continue;
-                    }
-                    int rest = code;
-                    for (int i = s.length - 1; i >= 0; i--) {
-                        digit[i] = rest % arity[s[i]];
-                        rest /= arity[s[i]];
-                    }
-                    int j = 0;
-                    for (int i = 0; i < s.length; i++) {
-                        if (i != ci) {
-                            j = j * arity[s[i]] + digit[i];
-                        }
-                    }
-                    dense[j * r + digit[ci]] += joint[code];
-                }
-                int observed = 0;
-                for (int j = 0; j < q; j++) {
-                    long nij = 0;
-                    for (int k = 0; k < r; k++) {
-                        nij += dense[j * r + k];
-                    }
-                    observed += nij > 0 ? 1 : 0;
-                }
-                long[] configs = new long[observed];
-                long[] counts = new long[observed * r];
-                for (int j = 0, m = 0; j < q; j++) {
-                    long nij = 0;
-                    for (int k = 0; k < r; k++) {
-                        nij += dense[j * r + k];
-                    }
-                    if (nij > 0) {
-                        configs[m] = j;
-                        System.arraycopy(dense, j * r, counts, m * r, r);
-                        m++;
-                    }
-                }
-                fams.add(new FamilyCounts(child, parents, configs, counts));
-            }
-            perSubset[si] = fams;
-        });
-        List<List<FamilyCounts>> byChild = new ArrayList<>();
-        for (int v = 0; v < N; v++) {
-            byChild.add(new ArrayList<>());
-        }
-        for (List<FamilyCounts> l : perSubset) {
-            for (FamilyCounts fc : l) {
-                byChild.get(fc.child()).add(fc);
-            }
-        }
-        List<FamilyCounts> families = new ArrayList<>();
-        for (List<FamilyCounts> l : byChild) {
-            l.sort((a, b) -> a.parents().length != b.parents().length ? Integer.compare(a.parents().length, b.parents().length)
-                    : Arrays.compare(a.parents(), b.parents()));
-            families.addAll(l);
-        }
-        double[] scores = new double[families.size()];
-        IntStream.range(0, scores.length).parallel().forEach(f -> {
-            FamilyCounts fc = families.get(f);
-            double q = 1;
-            for (int p : fc.parents()) {
-                q *= arity[p];
-            }
-            scores[f] = fs.logScore(fc.counts(), arity[fc.child()], q);
-        });
-        Manifest m = new Manifest(StoreFormat.VERSION, "edgewise", "bench", Instant.now().toString(),
-                new InputInfo(List.of("(synthetic, bench order)"), "memory", rows, 0, "error", "0"),
-                vars, D, null, List.of(), List.of(), List.of(), fs.kind().label(), fs.ess(), null);
-        return new ScoreStore(m, families, scores);
-    }
-
-    /** A random generating network over x00 … x39 in index order: each variable has 0–3 earlier parents. */
-    record Network(int[] arity, int[][] parents, double[][][] cpt) {
-        static Network random(int[] arity, Random rnd) {
-            int n = arity.length;
-            int[][] parents = new int[n][];
-            double[][][] cpt = new double[n][][];
-            for (int v = 0; v < n; v++) {
-                int k = Math.min(v, rnd.nextInt(4));
-                int[] ps = rnd.ints(0, Math.max(v, 1)).distinct().limit(k).sorted().toArray();
-                parents[v] = v == 0 ? new int[0] : ps;
-                int q = 1;
-                for (int p : parents[v]) {
-                    q *= arity[p];
-                }
-                cpt[v] = new double[q][arity[v]];
-                for (int j = 0; j < q; j++) {
-                    double s = 0;
-                    for (int x = 0; x < arity[v]; x++) {
-                        // Skewed draws give dependencies of varied strength.
-                        cpt[v][j][x] = Math.pow(rnd.nextDouble(), 3) + 0.02;
-                        s += cpt[v][j][x];
-                    }
-                    for (int x = 0; x < arity[v]; x++) {
-                        cpt[v][j][x] /= s;
-                    }
-                }
-            }
-            return new Network(arity, parents, cpt);
-        }
-
-        byte[][] sampleColumns(int rows, Random rnd) {
-            int n = arity.length;
-            byte[][] cols = new byte[n][rows];
-            for (int t = 0; t < rows; t++) {
-                for (int v = 0; v < n; v++) {
-                    int j = 0;
-                    for (int p : parents[v]) {
-                        j = j * arity[p] + cols[p][t];
-                    }
-                    double u = rnd.nextDouble();
-                    int x = 0;
-                    while (x < arity[v] - 1 && (u -= cpt[v][j][x]) > 0) {
-                        x++;
-                    }
-                    cols[v][t] = (byte) x;
-                }
-            }
-            return cols;
-        }
     }
 }

@@ -10,6 +10,9 @@ import org.edgewise.driver.average.OrderMcmc;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.RandomNetwork;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
@@ -21,7 +24,7 @@ import org.edgewise.driver.store.Variable;
  * (candidates: each variable's K nearest predecessors and successors in the generating order,
  * standing in for a store tallied with {@code --candidates K}), {@code estimate N}.
  *
- * <p>Data: {@link SyntheticNetwork} with ternary variables, 2,000 rows, tallied by
+ * <p>Data: {@link RandomNetwork} with ternary variables, 2,000 rows, tallied by
  * {@link InMemoryTally} (BDeu, ESS 1).
  */
 public final class UnknownOrderBench {
@@ -56,10 +59,11 @@ public final class UnknownOrderBench {
 
     static LocalScores scores(int n, int d, int k) {
         long t0 = System.nanoTime();
-        SyntheticNetwork net = SyntheticNetwork.random(n, 3, 2, 6, 1.5, 42);
-        int[][] rows = net.sample(2000, 43);
-        ScoreStore store = k < 0 ? InMemoryTally.tally(net.variables(), rows, d, FamilyScore.withDefaults())
-                : tallyWithCandidates(net.variables(), rows, d, k);
+        Network net = RandomNetwork.generate("v", n, 3, 2, 6, 1.5, 0, 42);
+        int[][] rows = new ForwardSampler(net).sample(2000, 43);
+        List<Variable> vars = RandomNetwork.variables(net);
+        ScoreStore store = k < 0 ? InMemoryTally.tally(vars, rows, d, FamilyScore.withDefaults())
+                : tallyWithCandidates(vars, rows, d, k);
         LocalScores ls = LocalScores.build(store, ScoringOptions.asStored());
         System.out.printf("  data: n=%d d=%d rows=2000 families=%d (tally %.1f s)%n", n, d, store.families().size(),
                 (System.nanoTime() - t0) / 1e9);
@@ -88,8 +92,8 @@ public final class UnknownOrderBench {
         }
         ScoreStore base = InMemoryTally.tally(vars.subList(0, 1), new int[][] {{0}}, 0, fs);
         Manifest m0 = base.manifest();
-        Manifest m = new Manifest(m0.formatVersion(), m0.program(), m0.programVersion(), m0.createdAt(), m0.input(),
-                vars, d, null, List.of(), List.of(), List.of(), m0.score(), m0.ess(), null);
+        Manifest m = Manifest.of(m0.program(), m0.programVersion(), m0.createdAt(), m0.input(),
+                vars, d, null, List.of(), List.of(), List.of(), m0.score(), m0.ess());
         return new ScoreStore(m, fams, sc.stream().mapToDouble(Double::doubleValue).toArray());
     }
 

@@ -8,6 +8,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.store.Manifest;
@@ -15,7 +16,7 @@ import org.edgewise.driver.store.Manifest;
 /**
  * A CSV table of cases for {@code predict --cases}: a header of variable names (any subset, any
  * order), then one case per line; a blank cell is a hidden variable. Fields follow RFC 4180
- * quoting on one line. Every mistake names the file, line and column.
+ * quoting on one line (read by {@link CsvFields}). Every mistake names the file, line and column.
  *
  * <p>Memory: the raw lines plus one int per cell.
  */
@@ -79,52 +80,14 @@ record CaseCsv(List<String> header, List<String> lines, int[][] cases) {
         return new CaseCsv(header, lines, cases.toArray(new int[0][]));
     }
 
-    /** Splits one line into fields, RFC 4180 quoting; an unterminated quote names its column. */
+    /** Splits one line into fields (RFC 4180, {@link CsvFields}); a malformed quote names its column. */
     static List<String> fields(Path file, int lineNo, String line) {
-        List<String> out = new ArrayList<>();
-        StringBuilder cur = new StringBuilder();
-        int i = 0;
-        int column = 1;
-        while (true) {
-            if (i < line.length() && line.charAt(i) == '"') {
-                int start = i;
-                i++;
-                while (true) {
-                    if (i >= line.length()) {
-                        throw new UserError(file + ": line " + lineNo + ", column " + column
-                                + ": unterminated quote (opened at character " + (start + 1) + ")");
-                    }
-                    char ch = line.charAt(i);
-                    if (ch == '"') {
-                        if (i + 1 < line.length() && line.charAt(i + 1) == '"') {
-                            cur.append('"');
-                            i += 2;
-                        } else {
-                            i++;
-                            break;
-                        }
-                    } else {
-                        cur.append(ch);
-                        i++;
-                    }
-                }
-                if (i < line.length() && line.charAt(i) != ',') {
-                    throw new UserError(file + ": line " + lineNo + ", column " + column
-                            + ": text after a closing quote");
-                }
-            } else {
-                while (i < line.length() && line.charAt(i) != ',') {
-                    cur.append(line.charAt(i));
-                    i++;
-                }
-            }
-            out.add(cur.toString());
-            cur.setLength(0);
-            if (i >= line.length()) {
-                return out;
-            }
-            i++; // the comma
-            column++;
+        try {
+            return CsvFields.split(line, ',');
+        } catch (CsvFields.Malformed e) {
+            throw new UserError(file + ": line " + lineNo + ", column " + e.column() + ": "
+                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
+                    : "text after a closing quote"));
         }
     }
 }

@@ -1,8 +1,7 @@
 package org.edgewise.driver.cli;
 
-import org.edgewise.driver.UserError;
-import java.io.PrintWriter;
 import java.nio.file.Path;
+import org.edgewise.driver.UserError;
 import java.util.List;
 import java.util.Locale;
 import java.util.concurrent.Callable;
@@ -43,22 +42,13 @@ final class CompareCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        String fmt = format.toLowerCase(Locale.ROOT);
-        if (!fmt.equals("json") && !fmt.equals("table")) {
-            throw new UserError("--format must be table or json, got '" + format + "'");
-        }
+        String fmt = Output.format(format, "table", "json");
         checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);
         Network net = NetworkReader.read(truth);
         EdgeRecovery rec = EdgeRecovery.of(EdgeMatrix.of(r), net, truth.toString(), threshold);
         String text = fmt.equals("json") ? ResultJson.toJson(rec) + "\n" : table(rec);
-        if (out != null) {
-            ResultJson.writeText(out, text);
-        } else {
-            PrintWriter w = spec.commandLine().getOut();
-            w.print(text);
-            w.flush();
-        }
+        Output.write(spec, out, text);
         return 0;
     }
 

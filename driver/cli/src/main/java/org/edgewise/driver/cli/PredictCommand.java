@@ -9,6 +9,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.TooLargeForExact;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -227,7 +228,7 @@ public final class PredictCommand implements Callable<Integer> {
         StringBuilder sb = new StringBuilder(rows * 64);
         List<String> head = new ArrayList<>();
         for (String h : table.header()) {
-            head.add(Csv.field(h));
+            head.add(CsvFields.quote(h));
         }
         sb.append(String.join(",", head)).append(",probability,logProbability,bestNetworkProbability,bestNetworkLogProbability\n");
         for (int i = 0; i < rows; i++) {

@@ -1,9 +1,6 @@
 package org.edgewise.driver.cli;
 
-import org.edgewise.driver.UserError;
-import java.io.PrintWriter;
 import java.nio.file.Path;
-import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.network.NetworkReader;
@@ -44,10 +41,7 @@ final class ReportCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        String fmt = format.toLowerCase(Locale.ROOT);
-        if (!fmt.equals("html") && !fmt.equals("dot")) {
-            throw new UserError("--format must be html or dot, got '" + format + "'");
-        }
+        String fmt = Output.format(format, "html", "dot");
         CompareCommand.checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);
         Network net = truth == null ? null : NetworkReader.read(truth);
@@ -59,13 +53,9 @@ final class ReportCommand implements Callable<Integer> {
         } else {
             text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold);
         }
+        Output.write(spec, out, text);
         if (out != null) {
-            ResultJson.writeText(out, text);
             spec.commandLine().getErr().println("report: wrote " + out);
-        } else {
-            PrintWriter w = spec.commandLine().getOut();
-            w.print(text);
-            w.flush();
         }
         return 0;
     }

@@ -1,15 +1,13 @@
 package org.edgewise.driver.cli;
 
-import org.edgewise.driver.Checks;
-import org.edgewise.driver.UserError;
-import java.io.PrintWriter;
 import java.nio.file.Path;
+import org.edgewise.driver.Checks;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.FamilyCounts;
@@ -46,10 +44,7 @@ final class ScoresCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        String fmt = format.toLowerCase(Locale.ROOT);
-        if (!fmt.equals("json") && !fmt.equals("csv")) {
-            throw new UserError("--format must be json or csv, got '" + format + "'");
-        }
+        String fmt = Output.format(format, "json", "csv");
         if (ess != null) {
             Checks.ess(ess, "--ess");
         }
@@ -75,7 +70,7 @@ final class ScoresCommand implements Callable<Integer> {
                 parents.add(m.variables().get(p).name());
             }
             if (fmt.equals("csv")) {
-                sb.append(Csv.field(child)).append(',').append(Csv.field(String.join(";", parents)))
+                sb.append(CsvFields.quote(child)).append(',').append(CsvFields.quote(String.join(";", parents)))
                         .append(',').append(Double.toString(lp)).append('\n');
             } else {
                 Map<String, Object> row = new LinkedHashMap<>();
@@ -86,13 +81,7 @@ final class ScoresCommand implements Callable<Integer> {
             }
         }
         String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(rows) + "\n";
-        if (out != null) {
-            ResultJson.writeText(out, text);
-        } else {
-            PrintWriter w = spec.commandLine().getOut();
-            w.print(text);
-            w.flush();
-        }
+        Output.write(spec, out, text);
         return 0;
     }
 }

@@ -7,9 +7,9 @@ import java.io.PrintWriter;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.util.Locale;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.AtomicWrite;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
@@ -73,23 +73,17 @@ final class SimulateCommand implements Callable<Integer> {
             w.flush();
             return 0;
         }
-        Path abs = out.toAbsolutePath();
-        if (Files.exists(abs) && !overwrite) {
+        if (Files.exists(out) && !overwrite) {
             throw new UserError("output " + out + " already exists; pass --overwrite to replace it");
         }
-        if (abs.getParent() != null) {
-            Files.createDirectories(abs.getParent());
-        }
-        Path tmp = abs.resolveSibling("." + abs.getFileName() + ".tmp");
-        try (Progress p = Progress.start("simulate", rows);
-             OutputStream o = new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16)) {
-            sampler.writeCsv(rows, seed, o, p::step);
-            o.close();
-            Files.move(tmp, abs, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
+        try (Progress p = Progress.start("simulate", rows)) {
+            AtomicWrite.file(out, tmp -> {
+                try (OutputStream o = new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16)) {
+                    sampler.writeCsv(rows, seed, o, p::step);
+                }
+            });
         } catch (IOException e) {
             throw new UserError("cannot write " + out + ": " + e.getMessage());
-        } finally {
-            Files.deleteIfExists(tmp); // nothing half-written is left behind
         }
         spec.commandLine().getErr().println("simulate: wrote " + rows + " rows of " + net.size()
                 + " variables to " + out + " (seed " + seed + ")");

@@ -5,8 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import java.io.PrintWriter;
-import java.io.StringWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
@@ -20,14 +18,8 @@ class ReportCommandsTest {
     @TempDir
     Path dir;
 
-    record Run(int status, String out, String err) {
-    }
-
-    static Run run(String... args) {
-        StringWriter out = new StringWriter();
-        StringWriter err = new StringWriter();
-        int status = EdgewiseCli.commandLine(new PrintWriter(out, true), new PrintWriter(err, true)).execute(args);
-        return new Run(status, out.toString(), err.toString());
+    static CliRun run(String... args) {
+        return CliRun.of(args);
     }
 
     static final String NET = "{\"edgewiseNetwork\":1,\"variables\":["
@@ -50,15 +42,15 @@ class ReportCommandsTest {
     void simulateWritesAReproducibleCsv() throws Exception {
         files();
         Path out = dir.resolve("d.csv");
-        Run r = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3", "--out", out.toString());
+        CliRun r = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3", "--out", out.toString());
         assertEquals(0, r.status(), r.err());
         List<String> lines = Files.readAllLines(out);
         assertEquals(1001, lines.size());
         assertEquals("a,b,c", lines.get(0));
-        Run again = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3", "--out", out.toString());
+        CliRun again = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3", "--out", out.toString());
         assertEquals(2, again.status());
         assertEquals("simulate: output " + out + " already exists; pass --overwrite to replace it\n", again.err());
-        Run stdout = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3");
+        CliRun stdout = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3");
         assertEquals(Files.readString(out), stdout.out(), "standard output carries the same rows");
     }
 
@@ -67,7 +59,7 @@ class ReportCommandsTest {
         Path bad = dir.resolve("bad.json");
         Files.writeString(bad, NET.replace("[0.9,0.1],[0.1,0.9]]},{\"name\":\"c\"", "[0.9,0.2],[0.1,0.9]]},{\"name\":\"c\""));
         Path out = dir.resolve("d.csv");
-        Run r = run("simulate", "--network", bad.toString(), "--rows", "10", "--out", out.toString());
+        CliRun r = run("simulate", "--network", bad.toString(), "--rows", "10", "--out", out.toString());
         assertEquals(2, r.status());
         assertEquals("simulate: network " + bad + ": variable 'b': cpt row 1 (a=0) sums to 1.1, not 1\n", r.err());
         assertFalse(Files.exists(out));
@@ -79,7 +71,7 @@ class ReportCommandsTest {
     @Test
     void compareJsonAndTable() throws Exception {
         files();
-        Run j = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--format", "json");
+        CliRun j = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--format", "json");
         assertEquals(0, j.status(), j.err());
         JsonNode n = ResultJson.MAPPER.readTree(j.out());
         // consensus {a→b, c→b}: b→c reversed, SHD 1 (hand count)
@@ -87,11 +79,11 @@ class ReportCommandsTest {
         assertEquals("b -> c", n.path("consensus").path("reversed").get(0).asText());
         // directed positives a→b 0.9, b→c 0.3 vs negatives 0.05, 0.6, 0.1, 0.2: U = 4 + 3 = 7 of 8
         assertEquals(7.0 / 8, n.path("directed").path("auroc").asDouble(), 1e-12);
-        Run t = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString());
+        CliRun t = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString());
         assertEquals(0, t.status());
         assertTrue(t.out().contains("directed       0.875"), t.out());
         assertTrue(t.out().contains("SHD 1 = missing 0 + extra 0 + reversed 1"), t.out());
-        Run bad = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--threshold", "1.5");
+        CliRun bad = run("compare", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--threshold", "1.5");
         assertEquals(2, bad.status());
         assertEquals("compare: --threshold must be in [0, 1), got 1.5\n", bad.err());
     }
@@ -100,18 +92,35 @@ class ReportCommandsTest {
     void reportHtmlAndDot() throws Exception {
         files();
         Path html = dir.resolve("out.html");
-        Run r = run("report", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--out", html.toString());
+        CliRun r = run("report", "--result", dir.resolve("r.json").toString(), "--truth", dir.resolve("net.json").toString(), "--out", html.toString());
         assertEquals(0, r.status(), r.err());
         String text = Files.readString(html);
         assertTrue(text.startsWith("<!DOCTYPE html>"));
         assertTrue(text.contains("not proof of causation"));
-        Run dot = run("report", "--result", dir.resolve("r.json").toString(), "--format", "dot", "--threshold", "0.5");
+        CliRun dot = run("report", "--result", dir.resolve("r.json").toString(), "--format", "dot", "--threshold", "0.5");
         assertEquals(0, dot.status());
         assertTrue(dot.out().contains("\"a\" -> \"b\" [label=\"0.90\", penwidth=5.50];"), dot.out());
         assertTrue(dot.out().contains("\"c\" -> \"b\" [label=\"0.60\""));
         assertFalse(dot.out().contains("\"b\" -> \"c\""));
-        Run missing = run("report", "--result", dir.resolve("nope.json").toString(), "--out", html.toString());
+        CliRun missing = run("report", "--result", dir.resolve("nope.json").toString(), "--out", html.toString());
         assertEquals(2, missing.status());
         assertEquals("report: result file " + dir.resolve("nope.json") + " does not exist\n", missing.err());
+    }
+
+    /** The edges result's formatVersion (ResultJson): report and compare refuse another one in one line naming the file. */
+    @Test
+    void reportAndCompareRefuseAResultOfAnotherFormatVersion() throws Exception {
+        files();
+        Path r = dir.resolve("r.json");
+        Files.writeString(r, Files.readString(r).replace("\"formatVersion\" : 1", "\"formatVersion\" : 2"));
+        String truth = dir.resolve("net.json").toString();
+        for (String command : List.of("report", "compare")) {
+            Path out = dir.resolve(command + ".out");
+            CliRun run = run(command, "--result", r.toString(), "--truth", truth, "--out", out.toString());
+            assertEquals(2, run.status(), run.err());
+            assertEquals(command + ": result file " + r + " has format version 2; this Edgewise reads edges results of"
+                    + " format version 1\n", run.err());
+            assertFalse(Files.exists(out));
+        }
     }
 }

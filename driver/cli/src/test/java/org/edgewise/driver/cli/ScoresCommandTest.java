@@ -5,8 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
-import java.io.PrintWriter;
-import java.io.StringWriter;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -23,14 +21,8 @@ class ScoresCommandTest {
     @TempDir
     Path dir;
 
-    record Run(int status, String out, String err) {
-    }
-
-    static Run run(String... args) {
-        StringWriter out = new StringWriter();
-        StringWriter err = new StringWriter();
-        int status = EdgewiseCli.commandLine(new PrintWriter(out, true), new PrintWriter(err, true)).execute(args);
-        return new Run(status, out.toString(), err.toString());
+    static CliRun run(String... args) {
+        return CliRun.of(args);
     }
 
     static final List<Variable> VARS = List.of(new Variable("a", List.of("0", "1")),
@@ -77,7 +69,7 @@ class ScoresCommandTest {
     @Test
     void csvHasOneRowPerFamily() {
         Path s = store("s", FamilyScore.withDefaults());
-        Run r = run("scores", "--store", s.toString(), "--format", "csv");
+        CliRun r = run("scores", "--store", s.toString(), "--format", "csv");
         assertEquals(0, r.status(), r.err());
         List<String> lines = r.out().lines().toList();
         assertEquals("child,parents,logScore", lines.get(0));
@@ -89,7 +81,7 @@ class ScoresCommandTest {
     @Test
     void badInputIsOneLineAndExitTwo() {
         Path s = store("s", FamilyScore.withDefaults());
-        Run r = run("scores", "--store", s.toString(), "--format", "xml");
+        CliRun r = run("scores", "--store", s.toString(), "--format", "xml");
         assertEquals(2, r.status());
         assertEquals("scores: --format must be json or csv, got 'xml'\n", r.err());
         r = run("scores", "--store", s.toString(), "--ess", "0");

@@ -175,7 +175,7 @@ public final class ExactOrderSum {
                     t[m++] = v;
                     max = Math.max(max, v);
                 }
-                fwd[s] = sumExp(t, m, max);
+                fwd[s] = LogSum.of(t, m, max);
             });
         }
         tick.accept((long) n << n);
@@ -193,7 +193,7 @@ public final class ExactOrderSum {
                     t[m++] = v;
                     max = Math.max(max, v);
                 }
-                bwd[s] = sumExp(t, m, max);
+                bwd[s] = LogSum.of(t, m, max);
             });
         }
         tick.accept((long) n << n);
@@ -316,17 +316,6 @@ public final class ExactOrderSum {
         });
     }
 
-    private static double sumExp(double[] t, int m, double max) {
-        if (max == Double.NEGATIVE_INFINITY) {
-            return max;
-        }
-        double sum = 0;
-        for (int k = 0; k < m; k++) {
-            sum += Math.exp(t[k] - max);
-        }
-        return max + Math.log(sum);
-    }
-
     /** Global variable bitmask of a parent-set mask over {@code cand}. */
     static int globalMask(long candMask, int[] cand) {
         int g = 0;
@@ -352,7 +341,7 @@ public final class ExactOrderSum {
         for (int b = 1; b < size; b <<= 1) {
             for (int base = 0; base < size; base += b << 1) {
                 for (int k = base; k < base + b; k++) {
-                    a[k + b] = logAdd(a[k + b], a[k]);
+                    a[k + b] = LogSum.addTruncated(a[k + b], a[k]);
                 }
             }
         }
@@ -364,7 +353,7 @@ public final class ExactOrderSum {
         for (int b = 1; b < size; b <<= 1) {
             for (int base = 0; base < size; base += b << 1) {
                 for (int k = base; k < base + b; k++) {
-                    a[k] = logAdd(a[k], a[k + b]);
+                    a[k] = LogSum.addTruncated(a[k], a[k + b]);
                 }
             }
         }
@@ -391,7 +380,7 @@ public final class ExactOrderSum {
                 int base = hi << (b + 1);
                 for (int lo : lows) {
                     int k = base | lo;
-                    a[k] = logAdd(a[k], a[k | bit]);
+                    a[k] = LogSum.addTruncated(a[k], a[k | bit]);
                 }
             }
         }
@@ -413,19 +402,5 @@ public final class ExactOrderSum {
         for (int x = from; x < b; x++) {
             collect(b, d - 1, x + 1, mask | (1 << x), out);
         }
-    }
-
-    /**
-     * log(e^x + e^y). A term more than 40 nats below the other changes the sum by less than
-     * e^−40 ≈ 4·10^−18, below half an ulp of 1, so it is dropped exactly as the rounding would;
-     * log(1 + t) with t ∈ [e^−40, 1] loses nothing of the absolute accuracy that matters here.
-     */
-    static double logAdd(double x, double y) {
-        double hi = Math.max(x, y);
-        double d = Math.min(x, y) - hi;
-        if (!(d > -40.0)) {
-            return hi;
-        }
-        return hi + Math.log(1.0 + Math.exp(d));
     }
 }

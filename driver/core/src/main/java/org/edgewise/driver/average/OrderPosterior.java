@@ -103,4 +103,22 @@ public final class OrderPosterior {
     public int[] bestSets() {
         return best.clone();
     }
+
+    /**
+     * The indices of the parent sets with positive posterior in {@code p} (one child's row of
+     * {@link #setPosteriors()}), in index order, boxed for sorting by a comparator over {@code p}.
+     */
+    public static Integer[] positiveSets(double[] p) {
+        int m = 0;
+        for (double x : p) {
+            m += x > 0 ? 1 : 0;
+        }
+        Integer[] live = new Integer[m];
+        for (int s = 0, k = 0; s < p.length; s++) {
+            if (p[s] > 0) {
+                live[k++] = s;
+            }
+        }
+        return live;
+    }
 }

@@ -26,46 +26,12 @@ public final class OrderSum {
 
     /** log Σ_{U allowed, U ⊆ pred} exp(weight(U)) for one child; −∞ when no set fits. */
     public static double childLogSum(LocalScores ls, int child, long predMask) {
-        long[] masks = ls.masks(child);
-        double[] w = ls.weights(child);
-        double max = Double.NEGATIVE_INFINITY;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~predMask) == 0 && w[s] > max) {
-                max = w[s];
-            }
-        }
-        if (max == Double.NEGATIVE_INFINITY) {
-            return max;
-        }
-        double sum = 0;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~predMask) == 0) {
-                sum += Math.exp(w[s] - max);
-            }
-        }
-        return max + Math.log(sum);
+        return LogSum.ofSubsets(ls.masks(child), ls.weights(child), predMask);
     }
 
     /** log Σ_{U allowed, U ⊆ pred} ρ_i(U): the prior mass renormalising one child's sum. */
     public static double childLogPriorMass(LocalScores ls, int child, long predMask) {
-        long[] masks = ls.masks(child);
-        double[] lp = ls.logPriors(child);
-        double max = Double.NEGATIVE_INFINITY;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~predMask) == 0 && lp[s] > max) {
-                max = lp[s];
-            }
-        }
-        if (max == Double.NEGATIVE_INFINITY) {
-            return max;
-        }
-        double sum = 0;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~predMask) == 0) {
-                sum += Math.exp(lp[s] - max);
-            }
-        }
-        return max + Math.log(sum);
+        return LogSum.ofSubsets(ls.masks(child), ls.logPriors(child), predMask);
     }
 
     /**

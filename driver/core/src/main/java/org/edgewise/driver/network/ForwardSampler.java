@@ -5,6 +5,7 @@ import java.io.OutputStream;
 import java.nio.charset.StandardCharsets;
 import java.util.SplittableRandom;
 import java.util.function.LongConsumer;
+import org.edgewise.driver.CsvFields;
 
 /**
  * Forward (ancestral) sampling of a {@link Network} (Henrion 1988, "probabilistic logic
@@ -53,6 +54,16 @@ public final class ForwardSampler {
         }
     }
 
+    /** {@code rows} rows drawn with {@code seed}: {@code out[t][v]} = state index of variable v in row t. */
+    public int[][] sample(int rows, long seed) {
+        SplittableRandom rng = new SplittableRandom(seed);
+        int[][] out = new int[rows][net.size()];
+        for (int[] row : out) {
+            draw(rng, row);
+        }
+        return out;
+    }
+
     /**
      * Writes a header and {@code rows} sampled rows as CSV (state labels, columns in file order,
      * RFC 4180 quoting) to {@code out}. {@code progress} receives the number of rows written
@@ -65,9 +76,9 @@ public final class ForwardSampler {
         for (int i = 0; i < n; i++) {
             labels[i] = new byte[net.arity(i)][];
             for (int k = 0; k < net.arity(i); k++) {
-                labels[i][k] = csvField(net.states().get(i).get(k)).getBytes(StandardCharsets.UTF_8);
+                labels[i][k] = CsvFields.quote(net.states().get(i).get(k)).getBytes(StandardCharsets.UTF_8);
             }
-            header.append(i == 0 ? "" : ",").append(csvField(net.names().get(i)));
+            header.append(i == 0 ? "" : ",").append(CsvFields.quote(net.names().get(i)));
         }
         out.write(header.append('\n').toString().getBytes(StandardCharsets.UTF_8));
         SplittableRandom rng = new SplittableRandom(seed);
@@ -97,13 +108,5 @@ public final class ForwardSampler {
         }
         out.write(buf, 0, len);
         progress.accept(pending);
-    }
-
-    /** RFC 4180: quote a field holding a comma, quote or line break. */
-    static String csvField(String s) {
-        if (s.indexOf(',') < 0 && s.indexOf('"') < 0 && s.indexOf('\n') < 0 && s.indexOf('\r') < 0) {
-            return s;
-        }
-        return '"' + s.replace("\"", "\"\"") + '"';
     }
 }

@@ -111,14 +111,7 @@ public final class CasePredictor implements CaseProbability {
         double skipped = 0;
         for (int c = 0; c < n; c++) {
             double[] p = op.setPosteriors()[c];
-            Integer[] idx = new Integer[p.length];
-            int m = 0;
-            for (int s = 0; s < p.length; s++) {
-                if (p[s] > 0) {
-                    idx[m++] = s;
-                }
-            }
-            Integer[] live = Arrays.copyOf(idx, m);
+            Integer[] live = OrderPosterior.positiveSets(p);
             Arrays.sort(live, (a, b) -> Double.compare(p[a], p[b]));
             // Skip the smallest sets while their combined posterior stays within tailMass.
             int first = 0;

@@ -90,14 +90,7 @@ public final class ResultBuilder {
         for (int child = 0; child < n; child++) {
             double[] p = setPosterior[child];
             final int c = child;
-            Integer[] idx = new Integer[p.length];
-            int m = 0;
-            for (int s = 0; s < p.length; s++) {
-                if (p[s] > 0) {
-                    idx[m++] = s;
-                }
-            }
-            Integer[] live = Arrays.copyOf(idx, m);
+            Integer[] live = OrderPosterior.positiveSets(p);
             Arrays.sort(live, (a, b) -> {
                 int cmp = Double.compare(p[b], p[a]);
                 if (cmp != 0) {

@@ -1,16 +1,28 @@
 package org.edgewise.driver.result;
 
 import com.fasterxml.jackson.databind.DeserializationFeature;
+import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.SerializationFeature;
+import com.fasterxml.jackson.databind.node.ObjectNode;
 import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
+import org.edgewise.driver.AtomicWrite;
 import org.edgewise.driver.UserError;
 
-/** Reading and writing result JSON; writes go to a temporary sibling and are renamed into place. */
+/**
+ * Reading and writing result JSON; writes go to a temporary sibling and are renamed into place.
+ *
+ * <p>An edges result ({@link EdgeResult}) is written with {@code "formatVersion": }
+ * {@value #EDGES_FORMAT_VERSION} as its first field, and {@link #readEdges} refuses a file with
+ * another version or none (e.g. from an older build), naming the file, before reading the rest.
+ * Raise the version when a field of the result changes meaning or a required field is added.
+ */
 public final class ResultJson {
+    /** The format version of an edges result that this build writes and reads. */
+    public static final int EDGES_FORMAT_VERSION = 1;
+
     public static final ObjectMapper MAPPER = new ObjectMapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
             .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false);
@@ -20,7 +32,7 @@ public final class ResultJson {
 
     public static String toJson(Object value) {
         try {
-            return MAPPER.writeValueAsString(value);
+            return MAPPER.writeValueAsString(value instanceof EdgeResult r ? versioned(r) : value);
         } catch (IOException e) {
             throw new IllegalStateException(e);
         }
@@ -33,22 +45,19 @@ public final class ResultJson {
 
     /** Writes text to {@code file} atomically (temporary sibling, then rename). */
     public static void writeText(Path file, String text) {
-        Path abs = file.toAbsolutePath();
-        Path tmp = abs.resolveSibling("." + abs.getFileName() + ".tmp");
         try {
-            if (abs.getParent() != null) {
-                Files.createDirectories(abs.getParent());
-            }
-            Files.writeString(tmp, text);
-            Files.move(tmp, abs, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
+            AtomicWrite.text(file, text);
         } catch (IOException e) {
-            try {
-                Files.deleteIfExists(tmp);
-            } catch (IOException ignored) {
-                // nothing more to do
-            }
             throw new UserError("cannot write " + file + ": " + e.getMessage());
         }
+    }
+
+    /** The result as a JSON object with {@code formatVersion} first. */
+    private static ObjectNode versioned(EdgeResult r) {
+        ObjectNode node = MAPPER.createObjectNode();
+        node.put("formatVersion", EDGES_FORMAT_VERSION);
+        node.setAll((ObjectNode) MAPPER.valueToTree(r));
+        return node;
     }
 
     public static EdgeResult readEdges(Path file) {
@@ -56,6 +65,16 @@ public final class ResultJson {
             throw new UserError("result file " + file + " does not exist");
         }
         try {
+            JsonNode tree = MAPPER.readTree(file.toFile());
+            if (tree == null || tree.get("variables") == null || tree.get("edges") == null) {
+                throw new UserError("result file " + file + " is not an edges result (no variables or edges)");
+            }
+            JsonNode version = tree.get("formatVersion");
+            if (version == null || !version.canConvertToInt() || version.asInt() != EDGES_FORMAT_VERSION) {
+                throw new UserError("result file " + file + " has " + (version == null ? "no format version"
+                        : "format version " + version) + "; this Edgewise reads edges results of format version "
+                        + EDGES_FORMAT_VERSION);
+            }
             EdgeResult r = MAPPER.readValue(file.toFile(), EdgeResult.class);
             if (r.variables() == null || r.edges() == null) {
                 throw new UserError("result file " + file + " is not an edges result (no variables or edges)");

@@ -8,7 +8,8 @@ import java.util.Map;
 /**
  * {@code manifest.json} of a score store — the contract between the tally job and the driver.
  *
- * @param formatVersion   {@link StoreFormat#VERSION}
+ * @param formatVersion   {@link StoreFormat#VERSION} once written: {@link StoreWriter} stamps it; 0 for a
+ *                        manifest built in memory by {@link #of} and not yet written
  * @param variables       every variable, in store order (variable index = position)
  * @param maxParents      the in-degree bound d
  * @param candidates      per child name, its candidate parents when pruned ({@code --candidates K});
@@ -18,7 +19,7 @@ import java.util.Map;
  * @param tiers           tiers (no parent from a later tier); empty when none
  * @param score           score kind of the stored log scores ({@code bdeu} or {@code k2})
  * @param ess             equivalent sample size of the stored scores (BDeu)
- * @param parts           the Parquet parts; filled in by the writer
+ * @param parts           the Parquet parts; filled in by the writer (null until written)
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record Manifest(int formatVersion, String program, String programVersion, String createdAt,
@@ -27,9 +28,16 @@ public record Manifest(int formatVersion, String program, String programVersion,
                        List<EdgeRule> required, List<List<String>> tiers, String score, double ess,
                        StoreParts parts) {
 
-    public Manifest withParts(StoreParts newParts) {
-        return new Manifest(formatVersion, program, programVersion, createdAt, input, variables,
-                maxParents, candidates, forbidden, required, tiers, score, ess, newParts);
+    /**
+     * A manifest for a store about to be written or held in memory: the writer fills in the
+     * format version and the parts.
+     */
+    public static Manifest of(String program, String programVersion, String createdAt, InputInfo input,
+                              List<Variable> variables, int maxParents, Map<String, List<String>> candidates,
+                              List<EdgeRule> forbidden, List<EdgeRule> required, List<List<String>> tiers,
+                              String score, double ess) {
+        return new Manifest(0, program, programVersion, createdAt, input, variables, maxParents, candidates,
+                forbidden, required, tiers, score, ess, null);
     }
 
     /** Index of a variable by name, or −1. */

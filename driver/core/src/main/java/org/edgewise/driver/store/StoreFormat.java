@@ -1,9 +1,28 @@
 package org.edgewise.driver.store;
 
+import com.fasterxml.jackson.databind.JsonNode;
+import java.nio.file.Path;
+import java.util.List;
 import org.apache.parquet.schema.MessageType;
 import org.apache.parquet.schema.MessageTypeParser;
+import org.edgewise.driver.UserError;
 
-/** Names, schemas and the version of the score-store format: defined here and nowhere else. */
+/**
+ * Names, schemas and the version of the score-store format, and the one place that stamps and
+ * checks the format version and the data fingerprint: {@link StoreWriter} calls
+ * {@link #stamp}, {@link StoreReader} calls {@link #checkVersion} and {@link #checkFingerprint}.
+ *
+ * <p><b>What the fingerprint check means.</b> The fingerprint of a tally is the triple
+ * {rows, Σ h, ⊕ h} over a 64-bit mix h of every encoded row (order- and partition-independent;
+ * {@code job/…/input/Block#fingerprint}); the manifest keeps the row count as
+ * {@code input.rows} and the two hashes as {@code input.fingerprint} (hex). The hashes cannot be
+ * recomputed from a store — it keeps counts, not rows — so the reader verifies what can be: the
+ * hash part is present and hexadecimal, and the row part is recomputed from the stored counts
+ * (every family counts every row once, so each family's N_ij summed over j must equal
+ * {@code input.rows}). A store whose counts do not add up to the data it claims to describe is
+ * refused. Results carry the fingerprint ({@code store.fingerprint} in the edges JSON), so two
+ * results can be traced to the same data.
+ */
 public final class StoreFormat {
     /** Bumped whenever a reader of the previous version could misread a store. */
     public static final int VERSION = 1;
@@ -29,5 +48,45 @@ public final class StoreFormat {
             + "}");
 
     private StoreFormat() {
+    }
+
+    /** The manifest as the writer stores it: this format's version and the parts just written. */
+    static Manifest stamp(Manifest m, StoreParts parts) {
+        return new Manifest(VERSION, m.program(), m.programVersion(), m.createdAt(), m.input(), m.variables(),
+                m.maxParents(), m.candidates(), m.forbidden(), m.required(), m.tiers(), m.score(), m.ess(), parts);
+    }
+
+    /** Refuses a manifest (as parsed JSON) without a format version or of another one. */
+    static void checkVersion(Path dir, JsonNode tree) {
+        if (tree == null || !tree.isObject() || !tree.has("formatVersion")) {
+            throw new UserError("store " + dir + ": " + MANIFEST + " has no formatVersion; it is not an Edgewise manifest");
+        }
+        int version = tree.get("formatVersion").asInt(-1);
+        if (version != VERSION) {
+            throw new UserError("store " + dir + " has format version " + tree.get("formatVersion").asText()
+                    + "; this Edgewise reads format version " + VERSION);
+        }
+    }
+
+    /**
+     * Checks the data fingerprint against the stored counts (see the class comment):
+     * {@code counts.get(f)} are the N_ijk of family f of {@code families} (children per family).
+     */
+    static void checkFingerprint(Path dir, Manifest m, int[] childOf, List<long[]> counts) {
+        InputInfo in = m.input();
+        if (in == null || in.fingerprint() == null || !in.fingerprint().matches("[0-9a-f]+")) {
+            throw new UserError("store " + dir + ": " + MANIFEST + " has no data fingerprint (input.fingerprint, hex)");
+        }
+        for (int f = 0; f < counts.size(); f++) {
+            long total = 0;
+            for (long c : counts.get(f)) {
+                total += c;
+            }
+            if (total != in.rows()) {
+                throw new UserError("store " + dir + " is damaged: family " + f + " (child "
+                        + m.variables().get(childOf[f]).name() + ") counts " + total + " rows; the data fingerprint says "
+                        + in.rows());
+            }
+        }
     }
 }

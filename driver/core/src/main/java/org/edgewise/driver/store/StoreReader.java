@@ -28,7 +28,8 @@ import org.edgewise.driver.UserError;
 /**
  * Reads a score store without Spark. Every check of a store's integrity lives here: the manifest
  * exists and parses, its format version is ours, the Parquet parts exist with the recorded
- * checksums and row counts, and every family refers to valid variables and states. Any failure is
+ * checksums and row counts, every family refers to valid variables and states, and the counts
+ * agree with the data fingerprint (version and fingerprint checks: {@link StoreFormat}). Any failure is
  * a {@link UserError} that says which store and what is wrong.
  */
 public final class StoreReader {
@@ -56,14 +57,7 @@ public final class StoreReader {
         } catch (IOException e) {
             throw new UserError("store " + dir + ": cannot read " + StoreFormat.MANIFEST + ": " + e.getMessage());
         }
-        if (tree == null || !tree.isObject() || !tree.has("formatVersion")) {
-            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " has no formatVersion; it is not an Edgewise manifest");
-        }
-        int version = tree.get("formatVersion").asInt(-1);
-        if (version != StoreFormat.VERSION) {
-            throw new UserError("store " + dir + " has format version " + tree.get("formatVersion").asText()
-                    + "; this Edgewise reads format version " + StoreFormat.VERSION);
-        }
+        StoreFormat.checkVersion(dir, tree);
         Manifest m;
         try {
             m = JSON.treeToValue(tree, Manifest.class);
@@ -123,6 +117,7 @@ public final class StoreReader {
         if (rows != parts.countRows()) {
             throw damaged(dir, parts.countsFile(), "holds " + rows + " rows, the manifest says " + parts.countRows());
         }
+        StoreFormat.checkFingerprint(dir, m, childOf, counts);
         List<FamilyCounts> list = new ArrayList<>(families);
         for (int f = 0; f < families; f++) {
             list.add(new FamilyCounts(childOf[f], parentsOf[f], configs.get(f), counts.get(f)));

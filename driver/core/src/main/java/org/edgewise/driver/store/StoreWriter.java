@@ -5,17 +5,12 @@ import com.fasterxml.jackson.databind.SerializationFeature;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.UncheckedIOException;
-import java.nio.file.AtomicMoveNotSupportedException;
-import java.nio.file.FileAlreadyExistsException;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardCopyOption;
 import java.security.MessageDigest;
 import java.security.NoSuchAlgorithmException;
-import java.util.Comparator;
 import java.util.HexFormat;
 import java.util.List;
-import java.util.UUID;
 import java.util.stream.Stream;
 import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
@@ -26,7 +21,7 @@ import org.apache.parquet.hadoop.ParquetWriter;
 import org.apache.parquet.hadoop.example.ExampleParquetWriter;
 import org.apache.parquet.hadoop.metadata.CompressionCodecName;
 import org.apache.parquet.hadoop.util.HadoopOutputFile;
-import org.edgewise.driver.UserError;
+import org.edgewise.driver.AtomicWrite;
 
 /**
  * Writes a score store atomically: everything goes to a hidden temporary sibling of the target,
@@ -45,52 +40,20 @@ public final class StoreWriter {
      */
     public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
                              double[] logScores, boolean overwrite) {
-        Path abs = target.toAbsolutePath().normalize();
-        if (Files.exists(abs) && !overwrite) {
-            throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
-        }
-        Path parent = abs.getParent();
-        Path tmp = parent.resolve("." + abs.getFileName() + ".tmp-" + UUID.randomUUID());
         try {
-            Files.createDirectories(parent);
-            Files.createDirectory(tmp);
-            long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
-            writeScores(tmp.resolve(StoreFormat.SCORES), families, logScores);
-            // the same counts and scores give the same bytes (and SHA-256) in every run
-            ParquetFooters.canonicalize(tmp.resolve(StoreFormat.COUNTS));
-            ParquetFooters.canonicalize(tmp.resolve(StoreFormat.SCORES));
-            StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
-                    sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
-                    sha256(tmp.resolve(StoreFormat.COUNTS)));
-            JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), manifest.withParts(parts));
-            publish(tmp, abs, overwrite);
+            AtomicWrite.directory(target, overwrite, tmp -> {
+                long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
+                writeScores(tmp.resolve(StoreFormat.SCORES), families, logScores);
+                // the same counts and scores give the same bytes (and SHA-256) in every run
+                ParquetFooters.canonicalize(tmp.resolve(StoreFormat.COUNTS));
+                ParquetFooters.canonicalize(tmp.resolve(StoreFormat.SCORES));
+                StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
+                        sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
+                        sha256(tmp.resolve(StoreFormat.COUNTS)));
+                JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), StoreFormat.stamp(manifest, parts));
+            });
         } catch (IOException e) {
-            deleteTree(tmp);
             throw new UncheckedIOException("could not write store " + target + ": " + e.getMessage(), e);
-        } catch (RuntimeException e) {
-            deleteTree(tmp);
-            throw e;
-        }
-    }
-
-    private static void publish(Path tmp, Path target, boolean overwrite) throws IOException {
-        Path old = null;
-        if (Files.exists(target)) {
-            if (!overwrite) {
-                throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
-            }
-            old = target.resolveSibling("." + target.getFileName() + ".old-" + UUID.randomUUID());
-            Files.move(target, old, StandardCopyOption.ATOMIC_MOVE);
-        }
-        try {
-            Files.move(tmp, target, StandardCopyOption.ATOMIC_MOVE);
-        } catch (FileAlreadyExistsException e) {
-            throw new UserError("output " + target + " appeared while writing; nothing was replaced");
-        } catch (AtomicMoveNotSupportedException e) {
-            throw new IOException("the filesystem of " + target + " cannot rename atomically", e);
-        }
-        if (old != null) {
-            deleteTree(old);
         }
     }
 
@@ -159,17 +122,6 @@ public final class StoreWriter {
             return HexFormat.of().formatHex(md.digest());
         } catch (NoSuchAlgorithmException e) {
             throw new IllegalStateException(e);
-        }
-    }
-
-    static void deleteTree(Path dir) {
-        if (dir == null || !Files.exists(dir)) {
-            return;
-        }
-        try (Stream<Path> walk = Files.walk(dir)) {
-            walk.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
-        } catch (IOException ignored) {
-            // best effort: a leftover hidden temporary never looks like a store
         }
     }
 }

@@ -5,7 +5,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.ArrayList;
 import java.util.List;
-import org.edgewise.driver.bench.SyntheticNetwork;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
@@ -50,15 +51,24 @@ class AsiaNetworkTest {
         for (String n : NAMES) {
             vars.add(new Variable(n, List.of("no", "yes")));
         }
-        double[][] cpt = new double[8][];
+        List<List<String>> states = new ArrayList<>();
+        List<List<String>> parentNames = new ArrayList<>();
+        List<double[][]> cpt = new ArrayList<>();
         for (int i = 0; i < 8; i++) {
-            cpt[i] = new double[2 * P_YES[i].length];
-            for (int j = 0; j < P_YES[i].length; j++) {
-                cpt[i][2 * j] = 1 - P_YES[i][j];
-                cpt[i][2 * j + 1] = P_YES[i][j];
+            states.add(vars.get(i).states());
+            List<String> ps = new ArrayList<>();
+            for (int p : PARENTS[i]) {
+                ps.add(NAMES[p]);
             }
+            parentNames.add(ps);
+            double[][] t = new double[P_YES[i].length][];
+            for (int j = 0; j < t.length; j++) {
+                t[j] = new double[] {1 - P_YES[i][j], P_YES[i][j]};
+            }
+            cpt.add(t);
         }
-        int[][] rows = SyntheticNetwork.sample(vars, PARENTS, cpt, 5000, 1988);
+        Network asia = Network.of("ASIA", "asia", "", List.of(NAMES), states, parentNames, cpt);
+        int[][] rows = new ForwardSampler(asia).sample(5000, 1988);
         ScoreStore s = InMemoryTally.tally(vars, rows, 2, FamilyScore.withDefaults());
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
         result = ExactOrderSum.run(ls, OrderConstraints.none(8));

@@ -1,7 +1,9 @@
 package org.edgewise.driver.average;
 
 import java.util.List;
-import org.edgewise.driver.bench.SyntheticNetwork;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.RandomNetwork;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.InMemoryTally;
@@ -13,8 +15,9 @@ final class TestStores {
     }
 
     static ScoreStore random(int n, int arity, int d, int rows, long seed) {
-        SyntheticNetwork net = SyntheticNetwork.random(n, arity, 2, n, 1.5, seed);
-        return InMemoryTally.tally(net.variables(), net.sample(rows, seed + 1), d, FamilyScore.withDefaults());
+        Network net = RandomNetwork.generate("v", n, arity, 2, n, 1.5, 0, seed);
+        return InMemoryTally.tally(RandomNetwork.variables(net), new ForwardSampler(net).sample(rows, seed + 1), d,
+                FamilyScore.withDefaults());
     }
 
     /** The same store with every stored score multiplied by {@code factor} (e.g. to reach −10⁶). */

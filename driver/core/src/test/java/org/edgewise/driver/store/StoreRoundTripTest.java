@@ -19,10 +19,10 @@ class StoreRoundTripTest {
     Path dir;
 
     static Manifest manifest() {
-        return new Manifest(StoreFormat.VERSION, "edgewise", "test", "2026-01-01T00:00:00Z",
+        return Manifest.of("edgewise", "test", "2026-01-01T00:00:00Z",
                 new InputInfo(List.of("x.csv"), "csv", 5, 0, "error", "00ff"),
                 List.of(new Variable("a", List.of("0", "1")), new Variable("b", List.of("x", "y", "z"))),
-                1, null, List.of(), List.of(), List.of(), "bdeu", 1.0, null);
+                1, null, List.of(), List.of(), List.of(), "bdeu", 1.0);
     }
 
     static List<FamilyCounts> families() {
@@ -81,5 +81,35 @@ class StoreRoundTripTest {
         Files.delete(manifestFile);
         e = assertThrows(UserError.class, () -> StoreReader.read(store));
         assertTrue(e.getMessage().contains("has no manifest.json"), e.getMessage());
+    }
+
+    @Test
+    void theWriterStampsTheFormatVersion() throws Exception {
+        assertEquals(0, manifest().formatVersion(), "a manifest built in memory is not stamped");
+        Path store = dir.resolve("s");
+        StoreWriter.write(store, manifest(), families(), new double[] {-1, -2, -3, -4}, false);
+        assertTrue(Files.readString(store.resolve(StoreFormat.MANIFEST)).contains("\"formatVersion\" : " + StoreFormat.VERSION));
+        assertEquals(StoreFormat.VERSION, StoreReader.read(store).manifest().formatVersion());
+    }
+
+    /** The row part of the fingerprint is recomputed from the counts: each family counts every row once. */
+    @Test
+    void refusesCountsThatDisagreeWithTheDataFingerprint() throws Exception {
+        Path store = dir.resolve("s");
+        Manifest m = manifest();
+        InputInfo in = m.input();
+        Manifest sixRows = Manifest.of(m.program(), m.programVersion(), m.createdAt(),
+                new InputInfo(in.paths(), in.format(), 6, in.droppedRows(), in.missingPolicy(), in.fingerprint()),
+                m.variables(), m.maxParents(), m.candidates(), m.forbidden(), m.required(), m.tiers(), m.score(), m.ess());
+        StoreWriter.write(store, sixRows, families(), new double[] {-1, -2, -3, -4}, false);
+        UserError e = assertThrows(UserError.class, () -> StoreReader.read(store));
+        assertEquals("store " + store + " is damaged: family 0 (child a) counts 5 rows; the data fingerprint says 6",
+                e.getMessage());
+
+        StoreWriter.write(store, manifest(), families(), new double[] {-1, -2, -3, -4}, true);
+        Path manifestFile = store.resolve(StoreFormat.MANIFEST);
+        Files.writeString(manifestFile, Files.readString(manifestFile).replace("\"00ff\"", "\"\""));
+        e = assertThrows(UserError.class, () -> StoreReader.read(store));
+        assertEquals("store " + store + ": manifest.json has no data fingerprint (input.fingerprint, hex)", e.getMessage());
     }
 }
