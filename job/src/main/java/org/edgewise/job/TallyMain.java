@@ -33,68 +33,47 @@ import picocli.CommandLine.Option;
                 + "every family (child, parent set of at most d candidates).",
                 "Input: CSV with a header line, or Parquet; a local path or any filesystem URI Spark supports."})
 public final class TallyMain implements Callable<Integer> {
-    @Option(names = "--input", required = true, paramLabel = "PATH", description = "input file or directory (repeatable; every input must have the same columns)")
-    List<String> inputs;
+    @Option(names = "--input", required = true, paramLabel = "PATH", description = "input file or directory (repeatable; every input must have the same columns)") List<String> inputs;
 
-    @Option(names = "--format", defaultValue = "auto", paramLabel = "csv|parquet|auto", description = "input format (default ${DEFAULT-VALUE}: by file extension)")
-    String format;
+    @Option(names = "--format", defaultValue = "auto", paramLabel = "csv|parquet|auto", description = "input format (default ${DEFAULT-VALUE}: by file extension)") String format;
 
-    @Option(names = "--delimiter", defaultValue = ",", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default '${DEFAULT-VALUE}')")
-    String delimiter;
+    @Option(names = "--delimiter", defaultValue = ",", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default '${DEFAULT-VALUE}')") String delimiter;
 
-    @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)")
-    Path out;
+    @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)") Path out;
 
-    @Option(names = "--overwrite", description = "replace an existing store")
-    boolean overwrite;
+    @Option(names = "--overwrite", description = "replace an existing store") boolean overwrite;
 
-    @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})")
-    int maxParents;
+    @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})") int maxParents;
 
-    @Option(names = "--master", defaultValue = "${sys:spark.master:-local[*]}", paramLabel = "URL", description = "Spark master (default ${DEFAULT-VALUE}: embedded Spark on every core, or the master spark-submit was given)")
-    String master;
+    @Option(names = "--master", defaultValue = "${sys:spark.master:-local[*]}", paramLabel = "URL", description = "Spark master (default ${DEFAULT-VALUE}: embedded Spark on every core, or the master spark-submit was given)") String master;
 
-    @Option(names = "--columns", split = ",", paramLabel = "a,b,c", description = "keep only these columns as variables")
-    List<String> columns = new ArrayList<>();
+    @Option(names = "--columns", split = ",", paramLabel = "a,b,c", description = "keep only these columns as variables") List<String> columns = new ArrayList<>();
 
-    @Option(names = "--exclude", split = ",", paramLabel = "a,b", description = "leave these columns out")
-    List<String> exclude = new ArrayList<>();
+    @Option(names = "--exclude", split = ",", paramLabel = "a,b", description = "leave these columns out") List<String> exclude = new ArrayList<>();
 
-    @Option(names = "--candidates", paramLabel = "K", description = "keep the K best single parents per child (by score gain over no parent), plus required ones")
-    Integer candidates;
+    @Option(names = "--candidates", paramLabel = "K", description = "keep the K best single parents per child (by score gain over no parent), plus required ones") Integer candidates;
 
-    @Option(names = "--forbid", split = ",", paramLabel = "a->b", description = "edges no family may contain (repeatable)")
-    List<String> forbid = new ArrayList<>();
+    @Option(names = "--forbid", split = ",", paramLabel = "a->b", description = "edges no family may contain (repeatable)") List<String> forbid = new ArrayList<>();
 
-    @Option(names = "--require", split = ",", paramLabel = "a->b", description = "edges every family of the child must contain (repeatable)")
-    List<String> require = new ArrayList<>();
+    @Option(names = "--require", split = ",", paramLabel = "a->b", description = "edges every family of the child must contain (repeatable)") List<String> require = new ArrayList<>();
 
-    @Option(names = "--tiers", paramLabel = "\"a,b;c;d,e\"", description = "tiers separated by ';': no parent from a later tier")
-    String tiers;
+    @Option(names = "--tiers", paramLabel = "\"a,b;c;d,e\"", description = "tiers separated by ';': no parent from a later tier") String tiers;
 
-    @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'")
-    String missing;
+    @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'") String missing;
 
-    @Option(names = "--max-states", defaultValue = "32", paramLabel = "N", description = "most states a variable may have, at most 255 (default ${DEFAULT-VALUE})")
-    int maxStates;
+    @Option(names = "--max-states", defaultValue = "32", paramLabel = "N", description = "most states a variable may have, at most 255 (default ${DEFAULT-VALUE})") int maxStates;
 
-    @Option(names = "--discretize", split = ",", paramLabel = "COL=k", description = "cut numeric column COL into k equal-frequency bins (repeatable)")
-    List<String> discretize = new ArrayList<>();
+    @Option(names = "--discretize", split = ",", paramLabel = "COL=k", description = "cut numeric column COL into k equal-frequency bins (repeatable)") List<String> discretize = new ArrayList<>();
 
-    @Option(names = "--score", defaultValue = "bdeu", paramLabel = "bdeu|k2", description = "family score to store (default ${DEFAULT-VALUE})")
-    String score;
+    @Option(names = "--score", defaultValue = "bdeu", paramLabel = "bdeu|k2", description = "family score to store (default ${DEFAULT-VALUE})") String score;
 
-    @Option(names = "--ess", defaultValue = "1", paramLabel = "A", description = "BDeu equivalent sample size (default ${DEFAULT-VALUE})")
-    double ess;
+    @Option(names = "--ess", defaultValue = "1", paramLabel = "A", description = "BDeu equivalent sample size (default ${DEFAULT-VALUE})") double ess;
 
-    @Option(names = "--partitions", paramLabel = "N", description = "repartition the input into N partitions")
-    Integer partitions;
+    @Option(names = "--partitions", paramLabel = "N", description = "repartition the input into N partitions") Integer partitions;
 
-    @Option(names = "--memory-budget", defaultValue = "256m", paramLabel = "SIZE", description = "count-array memory per task, e.g. 512m, 2g (default ${DEFAULT-VALUE})")
-    String memoryBudget;
+    @Option(names = "--memory-budget", defaultValue = "256m", paramLabel = "SIZE", description = "count-array memory per task, e.g. 512m, 2g (default ${DEFAULT-VALUE})") String memoryBudget;
 
-    @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)")
-    List<String> conf = new ArrayList<>();
+    @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)") List<String> conf = new ArrayList<>();
 
     /** A session to use instead of starting one (tests). */
     private final SparkSession given;

@@ -24,21 +24,17 @@ final class CompareCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
 
-    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges")
-    Path result;
+    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges") Path result;
 
-    @Option(names = "--truth", required = true, paramLabel = "FILE", description = "the known network (network JSON)")
-    Path truth;
+    @Option(names = "--truth", required = true, paramLabel = "FILE", description = "the known network (network JSON)") Path truth;
 
     @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
             description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
     double threshold;
 
-    @Option(names = "--format", defaultValue = "table", paramLabel = "table|json", description = "output format (default ${DEFAULT-VALUE})")
-    String format;
+    @Option(names = "--format", defaultValue = "table", paramLabel = "table|json", description = "output format (default ${DEFAULT-VALUE})") String format;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output")
-    Path out;
+    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
 
     @Override
     public Integer call() {

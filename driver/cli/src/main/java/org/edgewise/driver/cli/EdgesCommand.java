@@ -40,22 +40,13 @@ public final class EdgesCommand implements Callable<Integer> {
     CommandSpec spec;
 
     @Mixin
-    ScoringMixin scoring = new ScoringMixin();
+    AveragingOptions averaging = new AveragingOptions();
 
-    @Mixin
-    MethodMixin methodOptions = new MethodMixin();
+    @Option(names = "--top-parents", paramLabel = "K", defaultValue = "5", description = "most probable parent sets listed per variable (default ${DEFAULT-VALUE})") int topParents;
 
-    @Mixin
-    UnknownOrderOptions unknown = new UnknownOrderOptions();
+    @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here") Path out;
 
-    @Option(names = "--top-parents", paramLabel = "K", defaultValue = "5", description = "most probable parent sets listed per variable (default ${DEFAULT-VALUE})")
-    int topParents;
-
-    @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here")
-    Path out;
-
-    @Option(names = "--format", paramLabel = "table|json", description = "standard output as a table (default) or JSON")
-    String format;
+    @Option(names = "--format", paramLabel = "table|json", description = "standard output as a table (default) or JSON") String format;
 
     @Override
     public Integer call() {
@@ -66,9 +57,9 @@ public final class EdgesCommand implements Callable<Integer> {
         if (topParents < 0) {
             throw new UserError("--top-parents must be 0 or more, got " + topParents);
         }
-        List<Double> esses = scoring.ess.isEmpty() ? List.of(Double.NaN) : scoring.ess;
+        List<Double> esses = averaging.scoring.ess.isEmpty() ? List.of(Double.NaN) : averaging.scoring.ess;
         for (double e : esses) {
-            scoring.options(e); // refuses ESS <= 0 before the store is read
+            averaging.scoring.options(e); // refuses ESS <= 0 before the store is read
         }
         EdgeResult result = compute(esses);
         if (out != null) {
@@ -90,19 +81,19 @@ public final class EdgesCommand implements Callable<Integer> {
 
     /** Dispatches on the method: the core's {@link EssSweep} given an order or over unknown orders. */
     EdgeResult compute(List<Double> esses) {
-        String m = methodOptions.resolve("averaging");
+        String m = averaging.method.resolve("averaging");
         UnknownOrderSettings settings = m.equals("order") ? null
-                : unknown.settings(UnknownOrderSettings.Method.valueOf(m.toUpperCase(Locale.ROOT)), topParents);
+                : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(m.toUpperCase(Locale.ROOT)), topParents);
         List<ScoringOptions> opts = new ArrayList<>();
         for (double e : esses) {
-            opts.add(scoring.options(e));
+            opts.add(averaging.scoring.options(e));
         }
-        ScoreStore store = StoreReader.read(scoring.store);
+        ScoreStore store = StoreReader.read(averaging.scoring.store);
         if (settings == null) {
-            return EssSweep.givenOrder(store, scoring.store, VariableOrder.parse(store.manifest(), methodOptions.order),
+            return EssSweep.givenOrder(store, averaging.scoring.store, VariableOrder.parse(store.manifest(), averaging.method.order),
                     opts, topParents);
         }
-        return UnknownOrderEdges.compute(store, scoring.store, opts, settings, spec.commandLine().getErr());
+        return UnknownOrderEdges.compute(store, averaging.scoring.store, opts, settings, spec.commandLine().getErr());
     }
 
     /** The result for people: edges by posterior, top parent sets, best network, the caution. */

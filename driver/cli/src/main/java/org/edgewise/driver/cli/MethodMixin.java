@@ -6,11 +6,9 @@ import picocli.CommandLine.Option;
 
 /** {@code --order} and {@code --method}, shared by {@code edges} and {@code predict}, with their one validation. */
 public final class MethodMixin {
-    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last: a variable's parents come before it")
-    public String order;
+    @Option(names = "--order", paramLabel = "a,b,c,…", description = "variable order, first to last: a variable's parents come before it") public String order;
 
-    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: averaged over unknown orders")
-    public String method;
+    @Option(names = "--method", paramLabel = "order|exact|mcmc", description = "order: given order (default with --order); exact, mcmc: averaged over unknown orders") public String method;
 
     /**
      * The method asked for — {@code order}, {@code exact} or {@code mcmc} — checked against

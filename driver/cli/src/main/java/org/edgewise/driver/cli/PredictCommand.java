@@ -51,28 +51,17 @@ public final class PredictCommand implements Callable<Integer> {
     CommandSpec spec;
 
     @Mixin
-    ScoringMixin scoring = new ScoringMixin();
+    AveragingOptions averaging = new AveragingOptions();
 
-    @Mixin
-    MethodMixin methodOptions = new MethodMixin();
+    @Option(names = "--case", paramLabel = "a=x,b=y", description = "one case; variables left out are hidden") String caseText;
 
-    @Mixin
-    UnknownOrderOptions unknown = new UnknownOrderOptions();
+    @Option(names = "--given", paramLabel = "c=z", description = "evidence: report P(case | given) (with --cases: for every row)") String givenText;
 
-    @Option(names = "--case", paramLabel = "a=x,b=y", description = "one case; variables left out are hidden")
-    String caseText;
+    @Option(names = "--cases", paramLabel = "FILE", description = "CSV of cases: header = variable names, blank cells hidden") Path casesFile;
 
-    @Option(names = "--given", paramLabel = "c=z", description = "evidence: report P(case | given) (with --cases: for every row)")
-    String givenText;
+    @Option(names = "--out", paramLabel = "FILE", description = "write the result here: the scored CSV with --cases, the JSON with --case (default: standard output)") Path out;
 
-    @Option(names = "--cases", paramLabel = "FILE", description = "CSV of cases: header = variable names, blank cells hidden")
-    Path casesFile;
-
-    @Option(names = "--out", paramLabel = "FILE", description = "write the result here: the scored CSV with --cases, the JSON with --case (default: standard output)")
-    Path out;
-
-    @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON")
-    String format;
+    @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON") String format;
 
     @Option(names = "--tail-mass", paramLabel = "E", defaultValue = "1e-12",
             description = "per variable, skip the least probable parent sets whose combined posterior is at most E and renormalise (default ${DEFAULT-VALUE}; 0 = exact)")
@@ -87,8 +76,8 @@ public final class PredictCommand implements Callable<Integer> {
         if ((caseText == null) == (casesFile == null)) {
             throw new UserError("give exactly one of --case a=x,b=y or --cases FILE");
         }
-        if (scoring.ess.size() > 1) {
-            throw new UserError("predict takes one --ess value, got " + scoring.ess.size());
+        if (averaging.scoring.ess.size() > 1) {
+            throw new UserError("predict takes one --ess value, got " + averaging.scoring.ess.size());
         }
         String fmt = format == null ? "table" : format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("json") && !fmt.equals("table")) {
@@ -100,13 +89,13 @@ public final class PredictCommand implements Callable<Integer> {
         if (maxHiddenStates < 1) {
             throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
         }
-        var options = scoring.options();
-        String meth = methodOptions.resolve("prediction");
+        var options = averaging.scoring.options();
+        String meth = averaging.method.resolve("prediction");
         UnknownOrderSettings settings = meth.equals("order") ? null
-                : unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
-        ScoreStore store = StoreReader.read(scoring.store);
+                : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
+        ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
-        int[] ord = methodOptions.order == null ? null : VariableOrder.parse(m, methodOptions.order);
+        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order);
         int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
         int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
         CaseCsv table = casesFile == null ? null : CaseCsv.read(casesFile, m);

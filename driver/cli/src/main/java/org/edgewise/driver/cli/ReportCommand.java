@@ -23,21 +23,17 @@ final class ReportCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
 
-    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges")
-    Path result;
+    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges") Path result;
 
-    @Option(names = "--truth", paramLabel = "FILE", description = "a known network (network JSON) to mark and compare against")
-    Path truth;
+    @Option(names = "--truth", paramLabel = "FILE", description = "a known network (network JSON) to mark and compare against") Path truth;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)")
-    Path out;
+    @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)") Path out;
 
     @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
             description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
     double threshold;
 
-    @Option(names = "--format", defaultValue = "html", paramLabel = "html|dot", description = "output format (default ${DEFAULT-VALUE})")
-    String format;
+    @Option(names = "--format", defaultValue = "html", paramLabel = "html|dot", description = "output format (default ${DEFAULT-VALUE})") String format;
 
     @Override
     public Integer call() {

@@ -27,20 +27,15 @@ final class ScoresCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
 
-    @Option(names = "--store", required = true, paramLabel = "DIR", description = "score store written by tally")
-    Path store;
+    @Option(names = "--store", required = true, paramLabel = "DIR", description = "score store written by tally") Path store;
 
-    @Option(names = "--format", defaultValue = "json", paramLabel = "json|csv", description = "output format (default ${DEFAULT-VALUE})")
-    String format;
+    @Option(names = "--format", defaultValue = "json", paramLabel = "json|csv", description = "output format (default ${DEFAULT-VALUE})") String format;
 
-    @Option(names = "--score", paramLabel = "bdeu|k2", description = "rescore with this score (default: as stored)")
-    String score;
+    @Option(names = "--score", paramLabel = "bdeu|k2", description = "rescore with this score (default: as stored)") String score;
 
-    @Option(names = "--ess", paramLabel = "A", description = "rescore with this BDeu ESS (default: as stored)")
-    Double ess;
+    @Option(names = "--ess", paramLabel = "A", description = "rescore with this BDeu ESS (default: as stored)") Double ess;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output")
-    Path out;
+    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
 
     @Override
     public Integer call() {

@@ -12,23 +12,17 @@ import picocli.CommandLine.Option;
 
 /** Options every averaging command shares: the store, score, ESS, prior and query-time constraints. */
 public final class ScoringMixin {
-    @Option(names = "--store", required = true, paramLabel = "DIR", description = "score store written by tally")
-    public Path store;
+    @Option(names = "--store", required = true, paramLabel = "DIR", description = "score store written by tally") public Path store;
 
-    @Option(names = "--score", paramLabel = "bdeu|k2", description = "family score (default: as stored); another one is rescored from the stored counts")
-    public String score;
+    @Option(names = "--score", paramLabel = "bdeu|k2", description = "family score (default: as stored); another one is rescored from the stored counts") public String score;
 
-    @Option(names = "--ess", paramLabel = "A[,B…]", split = ",", description = "BDeu equivalent sample size (default: as stored); several values run a sensitivity sweep where supported")
-    public List<Double> ess = new ArrayList<>();
+    @Option(names = "--ess", paramLabel = "A[,B…]", split = ",", description = "BDeu equivalent sample size (default: as stored); several values run a sensitivity sweep where supported") public List<Double> ess = new ArrayList<>();
 
-    @Option(names = "--prior", paramLabel = "uniform|size", defaultValue = "uniform", description = "structure prior on parent sets: uniform, or size = 1/C(n-1,|U|) (Koivisto & Sood 2004); default ${DEFAULT-VALUE}")
-    public String prior;
+    @Option(names = "--prior", paramLabel = "uniform|size", defaultValue = "uniform", description = "structure prior on parent sets: uniform, or size = 1/C(n-1,|U|) (Koivisto & Sood 2004); default ${DEFAULT-VALUE}") public String prior;
 
-    @Option(names = "--forbid", paramLabel = "a->b", split = ",", description = "edges to forbid at query time (comma-separated or repeated)")
-    public List<String> forbid = new ArrayList<>();
+    @Option(names = "--forbid", paramLabel = "a->b", split = ",", description = "edges to forbid at query time (comma-separated or repeated)") public List<String> forbid = new ArrayList<>();
 
-    @Option(names = "--require", paramLabel = "a->b", split = ",", description = "edges to require at query time")
-    public List<String> require = new ArrayList<>();
+    @Option(names = "--require", paramLabel = "a->b", split = ",", description = "edges to require at query time") public List<String> require = new ArrayList<>();
 
     /** The options for one ESS value (NaN = as stored). */
     public ScoringOptions options(double essValue) {

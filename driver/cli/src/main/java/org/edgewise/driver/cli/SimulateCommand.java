@@ -27,23 +27,17 @@ final class SimulateCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
 
-    @Option(names = "--network", required = true, paramLabel = "FILE", description = "network JSON file")
-    Path network;
+    @Option(names = "--network", required = true, paramLabel = "FILE", description = "network JSON file") Path network;
 
-    @Option(names = "--rows", required = true, paramLabel = "N", description = "number of rows to draw")
-    long rows;
+    @Option(names = "--rows", required = true, paramLabel = "N", description = "number of rows to draw") long rows;
 
-    @Option(names = "--seed", defaultValue = "1", paramLabel = "S", description = "random seed (default ${DEFAULT-VALUE})")
-    long seed;
+    @Option(names = "--seed", defaultValue = "1", paramLabel = "S", description = "random seed (default ${DEFAULT-VALUE})") long seed;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "CSV file to write (default: standard output)")
-    Path out;
+    @Option(names = "--out", paramLabel = "FILE", description = "CSV file to write (default: standard output)") Path out;
 
-    @Option(names = "--format", defaultValue = "csv", paramLabel = "csv", description = "output format (default ${DEFAULT-VALUE})")
-    String format;
+    @Option(names = "--format", defaultValue = "csv", paramLabel = "csv", description = "output format (default ${DEFAULT-VALUE})") String format;
 
-    @Option(names = "--overwrite", description = "replace an existing output file")
-    boolean overwrite;
+    @Option(names = "--overwrite", description = "replace an existing output file") boolean overwrite;
 
     @Override
     public Integer call() throws IOException {

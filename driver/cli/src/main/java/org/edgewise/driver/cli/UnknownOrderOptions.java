@@ -14,32 +14,23 @@ public final class UnknownOrderOptions {
             + "precede those of a later one in every order; variables in no tier are free (default: the store's tiers)")
     public List<String> tiers = new ArrayList<>();
 
-    @Option(names = "--seed", paramLabel = "N", defaultValue = "1", description = "seed of every random draw (default ${DEFAULT-VALUE}); the same seed gives the same result")
-    public long seed;
+    @Option(names = "--seed", paramLabel = "N", defaultValue = "1", description = "seed of every random draw (default ${DEFAULT-VALUE}); the same seed gives the same result") public long seed;
 
-    @Option(names = "--chains", paramLabel = "M", defaultValue = "4", description = "mcmc: number of chains, each from its own random order (default ${DEFAULT-VALUE})")
-    public int chains;
+    @Option(names = "--chains", paramLabel = "M", defaultValue = "4", description = "mcmc: number of chains, each from its own random order (default ${DEFAULT-VALUE})") public int chains;
 
-    @Option(names = "--steps", paramLabel = "N", defaultValue = "200000", description = "mcmc: steps per chain after burn-in (default ${DEFAULT-VALUE})")
-    public long steps;
+    @Option(names = "--steps", paramLabel = "N", defaultValue = "200000", description = "mcmc: steps per chain after burn-in (default ${DEFAULT-VALUE})") public long steps;
 
-    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc: steps per chain discarded first (default: a quarter of --steps)")
-    public Long burnIn;
+    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc: steps per chain discarded first (default: a quarter of --steps)") public Long burnIn;
 
-    @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "mcmc: draws stored per chain (thinning = steps / draws; default ${DEFAULT-VALUE})")
-    public int draws;
+    @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "mcmc: draws stored per chain (thinning = steps / draws; default ${DEFAULT-VALUE})") public int draws;
 
-    @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: after --steps, keep running until the largest split-R-hat is below R (e.g. 1.01) or --max-steps")
-    public Double untilRhat;
+    @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: after --steps, keep running until the largest split-R-hat is below R (e.g. 1.01) or --max-steps") public Double untilRhat;
 
-    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc with --until-rhat: cap on steps per chain (default 20 x --steps)")
-    public Long maxSteps;
+    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc with --until-rhat: cap on steps per chain (default 20 x --steps)") public Long maxSteps;
 
-    @Option(names = "--features", paramLabel = "ancestors,markov-blanket", split = ",", description = "also estimate ancestor relations a ~> b and Markov-blanket membership (by one sampled DAG per sampled order)")
-    public List<String> features = new ArrayList<>();
+    @Option(names = "--features", paramLabel = "ancestors,markov-blanket", split = ",", description = "also estimate ancestor relations a ~> b and Markov-blanket membership (by one sampled DAG per sampled order)") public List<String> features = new ArrayList<>();
 
-    @Option(names = "--order-samples", paramLabel = "K", defaultValue = "10000", description = "exact: orders drawn from the exact order posterior for --features (default ${DEFAULT-VALUE})")
-    public int orderSamples;
+    @Option(names = "--order-samples", paramLabel = "K", defaultValue = "10000", description = "exact: orders drawn from the exact order posterior for --features (default ${DEFAULT-VALUE})") public int orderSamples;
 
     /**
      * The core's settings for {@code method}, the options checked first so that the messages name

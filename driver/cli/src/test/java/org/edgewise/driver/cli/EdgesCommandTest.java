@@ -19,19 +19,13 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
 /** {@code edges} end to end: JSON shape (DESIGN.md, "JSON result of edges"), sweeps, and every refusal word for word. */
-class EdgesCommandTest {
+class EdgesCommandTest extends StoreFixture {
     static final ObjectMapper JSON = new ObjectMapper();
     static final String ORDER = "v3,v0,v4,v1,v2";
 
-    @TempDir
-    Path dir;
-    Path store;
-    ScoreStore mem;
-
-    @BeforeEach
-    void setUp() {
-        store = dir.resolve("store");
-        mem = CliRun.store(store, 77_001_002L, 2);
+    @Override
+    long seed() {
+        return 77_001_002L;
     }
 
     @Test

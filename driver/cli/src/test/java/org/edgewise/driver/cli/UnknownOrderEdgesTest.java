@@ -16,18 +16,12 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
 /** {@code edges --method exact|mcmc} end to end: JSON shape, agreement with the library, refusals word for word. */
-class UnknownOrderEdgesTest {
+class UnknownOrderEdgesTest extends StoreFixture {
     static final ObjectMapper JSON = new ObjectMapper();
 
-    @TempDir
-    Path dir;
-    Path store;
-    ScoreStore mem;
-
-    @BeforeEach
-    void setUp() {
-        store = dir.resolve("store");
-        mem = CliRun.store(store, 5_003L, 2);
+    @Override
+    long seed() {
+        return 5_003L;
     }
 
     private static double edge(JsonNode j, String from, String to) {

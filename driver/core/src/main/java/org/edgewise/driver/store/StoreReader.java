@@ -72,14 +72,6 @@ public final class StoreReader {
 
     /** Reads the whole store and checks that its parts agree with the manifest. */
     public static ScoreStore read(Path dir) {
-        return read(dir, true);
-    }
-
-    /**
-     * As {@link #read(Path)}; {@code columnLevel = false} forces record-by-record reading, the
-     * fallback for parts whose schema differs from {@link StoreFormat}'s.
-     */
-    private static ScoreStore read(Path dir, boolean columnLevel) {
         Manifest m = readManifest(dir);
         StoreParts parts = m.parts();
         Path scoresFile = dir.resolve(parts.scoresFile());
@@ -94,7 +86,7 @@ public final class StoreReader {
         List<long[]> configs = new ArrayList<>(families);
         List<long[]> counts = new ArrayList<>(families);
         try {
-            if (columnLevel && isColumnar(scoresFile, StoreFormat.SCORES_SCHEMA)) {
+            if (isColumnar(scoresFile, StoreFormat.SCORES_SCHEMA)) {
                 readScoresColumnar(dir, parts, scoresFile, n, childOf, parentsOf, scores);
             } else {
                 readScoresByRecord(dir, parts, scoresFile, n, childOf, parentsOf, scores);
@@ -105,7 +97,7 @@ public final class StoreReader {
         long rows;
         try {
             CountsSink sink = new CountsSink(dir, parts, m, childOf, configs, counts);
-            if (columnLevel && isColumnar(countsFile, StoreFormat.COUNTS_SCHEMA)) {
+            if (isColumnar(countsFile, StoreFormat.COUNTS_SCHEMA)) {
                 readCountsColumnar(countsFile, sink);
             } else {
                 readCountsByRecord(countsFile, sink);
@@ -159,34 +151,29 @@ public final class StoreReader {
                                            int[][] parentsOf, double[] scores) throws IOException {
         int families = childOf.length;
         MessageType schema = StoreFormat.SCORES_SCHEMA;
-        int f = 0;
-        try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
-                new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
-            String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
-            for (PageReadStore pages; (pages = r.readNextRowGroup()) != null; ) {
-                ColumnReadStoreImpl store = new ColumnReadStoreImpl(pages,
-                        new GroupRecordConverter(schema).getRootConverter(), schema, createdBy);
-                Column family = new Column(store, schema, "family");
-                Column child = new Column(store, schema, "child");
-                Column parents = new Column(store, schema, "parents");
-                Column score = new Column(store, schema, "log_score");
-                long groupRows = pages.getRowCount();
-                for (long row = 0; row < groupRows; row++, f++) {
-                    int fam = family.nextInt();
-                    if (f >= families || fam != f) {
-                        throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
-                    }
-                    int c = child.nextInt();
-                    int np = parents.nextInts();
-                    checkFamily(dir, parts, f, families, c, parents.ints, np, n);
-                    childOf[f] = c;
-                    parentsOf[f] = Arrays.copyOf(parents.ints, np);
-                    scores[f] = score.nextDouble();
+        int[] next = {0};
+        forEachRowGroup(file, schema, (store, groupRows) -> {
+            Column family = new Column(store, schema, "family");
+            Column child = new Column(store, schema, "child");
+            Column parents = new Column(store, schema, "parents");
+            Column score = new Column(store, schema, "log_score");
+            int f = next[0];
+            for (long row = 0; row < groupRows; row++, f++) {
+                int fam = family.nextInt();
+                if (f >= families || fam != f) {
+                    throw damaged(dir, parts.scoresFile(), "family rows are out of sequence at row " + f);
                 }
+                int c = child.nextInt();
+                int np = parents.nextInts();
+                checkFamily(dir, parts, f, families, c, parents.ints, np, n);
+                childOf[f] = c;
+                parentsOf[f] = Arrays.copyOf(parents.ints, np);
+                scores[f] = score.nextDouble();
             }
-        }
-        if (f != families) {
-            throw damaged(dir, parts.scoresFile(), "holds " + f + " families, the manifest says " + families);
+            next[0] = f;
+        });
+        if (next[0] != families) {
+            throw damaged(dir, parts.scoresFile(), "holds " + next[0] + " families, the manifest says " + families);
         }
     }
 
@@ -218,22 +205,32 @@ public final class StoreReader {
 
     private static void readCountsColumnar(Path file, CountsSink sink) throws IOException {
         MessageType schema = StoreFormat.COUNTS_SCHEMA;
+        forEachRowGroup(file, schema, (store, groupRows) -> {
+            Column family = new Column(store, schema, "family");
+            Column config = new Column(store, schema, "config");
+            Column counts = new Column(store, schema, "counts");
+            for (long row = 0; row < groupRows; row++) {
+                int f = family.nextInt();
+                long cfg = config.nextLong();
+                int k = counts.nextLongs();
+                sink.row(f, cfg, counts.longs, k);
+            }
+        });
+    }
+
+    /** The body run for each row group of a columnar part (once per group, not per row). */
+    private interface RowGroupBody {
+        void accept(ColumnReadStoreImpl columns, long rows) throws IOException;
+    }
+
+    /** Reads {@code file} row group by row group at column level (no record assembly). */
+    private static void forEachRowGroup(Path file, MessageType schema, RowGroupBody body) throws IOException {
         try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromPath(
                 new org.apache.hadoop.fs.Path(file.toUri()), localConf()))) {
             String createdBy = r.getFooter().getFileMetaData().getCreatedBy();
             for (PageReadStore pages; (pages = r.readNextRowGroup()) != null; ) {
-                ColumnReadStoreImpl store = new ColumnReadStoreImpl(pages,
-                        new GroupRecordConverter(schema).getRootConverter(), schema, createdBy);
-                Column family = new Column(store, schema, "family");
-                Column config = new Column(store, schema, "config");
-                Column counts = new Column(store, schema, "counts");
-                long groupRows = pages.getRowCount();
-                for (long row = 0; row < groupRows; row++) {
-                    int f = family.nextInt();
-                    long cfg = config.nextLong();
-                    int k = counts.nextLongs();
-                    sink.row(f, cfg, counts.longs, k);
-                }
+                body.accept(new ColumnReadStoreImpl(pages, new GroupRecordConverter(schema).getRootConverter(), schema,
+                        createdBy), pages.getRowCount());
             }
         }
     }
@@ -304,32 +301,33 @@ public final class StoreReader {
 
         /** Reads one record's repeated int field into {@link #ints}; returns how many (0 for an empty list). */
         int nextInts() {
-            if (definitionLevel() < maxDefinition) {
-                skip();
-                return 0;
-            }
-            int k = 0;
-            do {
-                if (k == ints.length) {
-                    ints = Arrays.copyOf(ints, k * 2);
-                }
-                ints[k++] = nextInt();
-            } while (more() && repetitionLevel() > 0);
-            return k;
+            return nextRepeated(false);
         }
 
         /** Reads one record's repeated long field into {@link #longs}; returns how many (0 for an empty list). */
         int nextLongs() {
+            return nextRepeated(true);
+        }
+
+        /** One record's repeated field into {@link #longs} ({@code wide}) or {@link #ints}; no boxing. */
+        private int nextRepeated(boolean wide) {
             if (definitionLevel() < maxDefinition) {
                 skip();
                 return 0;
             }
             int k = 0;
             do {
-                if (k == longs.length) {
-                    longs = Arrays.copyOf(longs, k * 2);
+                if (wide) {
+                    if (k == longs.length) {
+                        longs = Arrays.copyOf(longs, k * 2);
+                    }
+                    longs[k++] = nextLong();
+                } else {
+                    if (k == ints.length) {
+                        ints = Arrays.copyOf(ints, k * 2);
+                    }
+                    ints[k++] = nextInt();
                 }
-                longs[k++] = nextLong();
             } while (more() && repetitionLevel() > 0);
             return k;
         }
