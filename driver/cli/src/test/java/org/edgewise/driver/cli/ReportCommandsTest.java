@@ -33,7 +33,7 @@ class ReportCommandsTest {
                 List.of(new EdgeResult.Edge("a", "b", 0.9), new EdgeResult.Edge("b", "a", 0.05),
                         new EdgeResult.Edge("b", "c", 0.3), new EdgeResult.Edge("c", "b", 0.6),
                         new EdgeResult.Edge("a", "c", 0.1), new EdgeResult.Edge("c", "a", 0.2)),
-                null, null, null, null, null);
+                null, null, null, null, null, null, null);
         ResultJson.write(dir.resolve("r.json"), r);
         return dir;
     }

@@ -63,6 +63,6 @@ public final class EssSweep {
         }
         return new EdgeResult(primary.method(), primary.variables(), primary.logEvidence(), null,
                 primary.evidenceConvention(), null, primary.settings(), primary.store(), primary.edges(),
-                primary.parentSets(), null, primary.diagnostics(), primary.features(), sens);
+                primary.parentSets(), null, primary.diagnostics(), primary.features(), sens, primary.dagPrior(), primary.essentialGraph());
     }
 }

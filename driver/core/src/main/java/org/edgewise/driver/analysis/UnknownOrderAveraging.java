@@ -5,6 +5,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
@@ -72,7 +73,7 @@ public final class UnknownOrderAveraging {
         return new EdgeResult("exact", names, r.logEvidence(), null, ResultBuilder.ORDER_MODULAR, null,
                 settings(ls, oc), ResultBuilder.provenance(ls.store(), storePath),
                 ResultBuilder.edges(names, r.edgePosterior()),
-                ResultBuilder.topParents(ls, r.setPosterior(), s.topParents()), null, null, features, null);
+                ResultBuilder.topParents(ls, r.setPosterior(), s.topParents()), null, null, features, null, DagPrior.ORDER_MODULAR.label(), null);
     }
 
     private static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
@@ -122,7 +123,7 @@ public final class UnknownOrderAveraging {
         return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
                 ResultBuilder.provenance(ls.store(), storePath), edges,
                 ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
-                        s.topParents()), null, d, features, null);
+                        s.topParents()), null, d, features, null, DagPrior.ORDER_MODULAR.label(), null);
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,

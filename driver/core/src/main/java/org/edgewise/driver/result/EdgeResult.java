@@ -21,6 +21,10 @@ import java.util.Map;
  * @param diagnostics            MCMC diagnostics, else null
  * @param features               further features (ancestor relations, Markov-blanket membership)
  * @param sensitivity            the same edges under other ESS values, when several were asked
+ * @param dagPrior               the DAG prior an unknown-order result is computed under
+ *                               ({@code structure-modular} or {@code order-modular}, see
+ *                               {@code average.DagPrior}); null given an order (both coincide)
+ * @param essentialGraph         essential-graph features per unordered pair, when asked
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -28,7 +32,19 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          Settings settings, Provenance store, List<Edge> edges,
                          List<VariableParents> parentSets, Network bestNetwork,
                          Diagnostics diagnostics, List<Feature> features,
-                         List<Sensitivity> sensitivity) {
+                         List<Sensitivity> sensitivity, String dagPrior,
+                         List<EssentialPair> essentialGraph) {
+
+    /**
+     * Posterior features of the essential graph (CPDAG; Chickering 1995, Andersson, Madigan &amp;
+     * Perlman 1997) of one unordered pair {a, b}: P(adjacent), P(a → b compelled), P(b → a
+     * compelled), P(adjacent and reversible); adjacent = aToB + bToA + undirected. {@code mcse}
+     * is the largest Monte Carlo standard error of the four (null when exact).
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record EssentialPair(String a, String b, double adjacent, double aToB, double bToA, double undirected,
+                                Double mcse) {
+    }
 
     /** An edge posterior; {@code mcse} and {@code rhat} only for MCMC. */
     @JsonInclude(JsonInclude.Include.NON_NULL)

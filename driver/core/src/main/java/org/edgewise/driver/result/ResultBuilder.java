@@ -41,7 +41,7 @@ public final class ResultBuilder {
                 ORDER_MODULAR, VariableOrder.names(store.manifest(), op.order()), settings(ls),
                 provenance(store, storePath), edges(names, op.result().edgePosterior()),
                 topParents(ls, op.setPosteriors(), topK), network(ls, op.bestSets()), null, null,
-                sensitivity == null || sensitivity.isEmpty() ? null : sensitivity);
+                sensitivity == null || sensitivity.isEmpty() ? null : sensitivity, null, null);
     }
 
     /** The sensitivity entry of one ESS value: its evidence and every edge posterior. */

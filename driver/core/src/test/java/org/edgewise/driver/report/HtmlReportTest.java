@@ -83,7 +83,7 @@ class HtmlReportTest {
                 }
             }
         }
-        EdgeResult r = new EdgeResult("mcmc", names, null, null, null, null, null, null, edges, null, null, null, null, null);
+        EdgeResult r = new EdgeResult("mcmc", names, null, null, null, null, null, null, edges, null, null, null, null, null, null, null);
         String html = HtmlReport.render(r, "big.json", null, null, 0.3);
         List<String> svgs = svgs(html);
         assertEquals(2, svgs.size());
@@ -149,7 +149,7 @@ class HtmlReportTest {
                 new EdgeResult.Edge("b", "c", 0.65), new EdgeResult.Edge("c", "b", 0.3),
                 new EdgeResult.Edge("a", "c", 0.1), new EdgeResult.Edge("c", "a", 0.2));
         EdgeResult withSens = new EdgeResult(t.method(), t.variables(), t.logEvidence(), null, null, null, t.settings(),
-                t.store(), t.edges(), null, null, null, null, List.of(new EdgeResult.Sensitivity(10, -1300.0, moved)));
+                t.store(), t.edges(), null, null, null, null, List.of(new EdgeResult.Sensitivity(10, -1300.0, moved)), t.dagPrior(), t.essentialGraph());
         String html = HtmlReport.render(withSens, "r.json", null, null, 0.5);
         assertTrue(html.contains("<th>ESS 1</th><th>ESS 10</th>"), "main ESS joins the sensitivity columns");
         assertTrue(html.contains("<tr><td>a \u2192 b</td>"));

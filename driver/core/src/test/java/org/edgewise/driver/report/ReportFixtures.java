@@ -72,7 +72,7 @@ final class ReportFixtures {
                 orderNames, new EdgeResult.Settings("bdeu", 1.0, "uniform", 2, List.of(), List.of(), null),
                 new EdgeResult.Provenance("out/store", List.of("fleet.csv"), rows, "ab12cd34", "2026-12-01T00:00:00Z",
                         "bdeu", 1.0, null),
-                edges(net.names(), main.edgePosterior(), null, null), parentSets(ls, net.names(), order), null, null, null, sens);
+                edges(net.names(), main.edgePosterior(), null, null), parentSets(ls, net.names(), order), null, null, null, sens, null, null);
     }
 
     /** The same result presented as an MCMC run with made-up diagnostics (traces, MCSE, R̂). */
@@ -102,7 +102,7 @@ final class ReportFixtures {
                 maxRhat <= 1.01, traces, 100);
         return new EdgeResult("mcmc", r.variables(), null, null, "order-modular", null, r.settings(), r.store(),
                 edges(r.variables(), p, mcse, rhat), r.parentSets(), r.bestNetwork(), d,
-                List.of(new EdgeResult.Feature("ancestor", r.variables().get(0), r.variables().get(4), 0.97, 0.004)), null);
+                List.of(new EdgeResult.Feature("ancestor", r.variables().get(0), r.variables().get(4), 0.97, 0.004)), null, null, null);
     }
 
     static List<EdgeResult.Edge> edges(List<String> names, double[][] p, double[][] mcse, double[][] rhat) {
@@ -156,6 +156,6 @@ final class ReportFixtures {
                 new EdgeResult.Provenance("store", List.of("in.csv"), 100, "f00d", "2026-12-01T00:00:00Z", "bdeu", 1.0, null),
                 e, List.of(new EdgeResult.VariableParents(b, List.of(new EdgeResult.ParentSet(List.of(a), 0.9),
                         new EdgeResult.ParentSet(List.of(), 0.1)))),
-                new EdgeResult.Network(-1230.0, Map.of(a, List.of(), b, List.of(a), c, List.of(b))), null, null, null);
+                new EdgeResult.Network(-1230.0, Map.of(a, List.of(), b, List.of(a), c, List.of(b))), null, null, null, null, null);
     }
 }

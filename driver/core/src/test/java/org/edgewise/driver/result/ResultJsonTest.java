@@ -16,7 +16,7 @@ class ResultJsonTest {
     static EdgeResult small() {
         return new EdgeResult("order", List.of("a", "b"), -3.5, -3.5, null, List.of("a", "b"), null, null,
                 List.of(new EdgeResult.Edge("a", "b", 0.75), new EdgeResult.Edge("b", "a", 0.0)),
-                null, null, null, null, null);
+                null, null, null, null, null, null, null);
     }
 
     @Test
