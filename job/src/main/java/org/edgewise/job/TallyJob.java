@@ -153,8 +153,8 @@ public final class TallyJob {
         FamilyCounts[] out = new FamilyCounts[plan.familyCount()];
         double[] scores = new double[plan.familyCount()];
         int done = 0;
+        TallyProgress progress = TallyProgress.start(what, plan.familyCount(), batches.size(), rows, LOG);
         for (int b = 0; b < batches.size(); b++) {
-            long t0 = System.nanoTime();
             int[] ids = batches.get(b);
             int[][] sets = new int[ids.length][];
             for (int k = 0; k < ids.length; k++) {
@@ -178,10 +178,7 @@ public final class TallyJob {
                     done++;
                 }
             }
-            double secs = (System.nanoTime() - t0) / 1e9;
-            LOG.info("batch {}/{} ({}): {}/{} families done, {} rows in {} s ({} rows/s)", b + 1, batches.size(), what,
-                    done, plan.familyCount(), rows, String.format(Locale.ROOT, "%.1f", secs),
-                    String.format(Locale.ROOT, "%,.0f", rows / Math.max(secs, 1e-9)));
+            progress.update(b + 1, done, System.nanoTime());
         }
         return new Counted(out, scores, batches.size());
     }
