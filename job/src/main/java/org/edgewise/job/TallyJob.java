@@ -55,11 +55,15 @@ public final class TallyJob {
     }
 
     public static Summary run(SparkSession spark, TallyOptions o) {
-        long start = System.nanoTime();
         if (Files.exists(o.out()) && !o.overwrite()) {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
-        Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter());
+        return run(Table.open(spark, o.inputs(), o.format(), o.delimiter()), o);
+    }
+
+    /** The tally of an opened table (files, or a caller's Dataset through {@link Tally}); {@code o.inputs()} only labels it. */
+    static Summary run(Table table, TallyOptions o) {
+        long start = System.nanoTime();
         // every name the user gave is checked against the header before any pass over the data
         List<String> names = TableScan.selected(table, o);
         Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
@@ -114,7 +118,7 @@ public final class TallyJob {
             List<FamilyCounts> families = Arrays.asList(counted.families());
             Manifest m = Manifest.of("edgewise", Version.PROGRAM,
                     Instant.now().toString(),
-                    new InputInfo(o.inputs(), table.isCsv() ? "csv" : "parquet", rows, scan.stats().dropped(),
+                    new InputInfo(o.inputs(), table.format(), rows, scan.stats().dropped(),
                             o.missing().label(), fingerprint),
                     variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
                     o.score().label(), o.ess());
@@ -149,8 +153,8 @@ public final class TallyJob {
         FamilyCounts[] out = new FamilyCounts[plan.familyCount()];
         double[] scores = new double[plan.familyCount()];
         int done = 0;
+        TallyProgress progress = TallyProgress.start(what, plan.familyCount(), batches.size(), rows, LOG);
         for (int b = 0; b < batches.size(); b++) {
-            long t0 = System.nanoTime();
             int[] ids = batches.get(b);
             int[][] sets = new int[ids.length][];
             for (int k = 0; k < ids.length; k++) {
@@ -174,10 +178,7 @@ public final class TallyJob {
                     done++;
                 }
             }
-            double secs = (System.nanoTime() - t0) / 1e9;
-            LOG.info("batch {}/{} ({}): {}/{} families done, {} rows in {} s ({} rows/s)", b + 1, batches.size(), what,
-                    done, plan.familyCount(), rows, String.format(Locale.ROOT, "%.1f", secs),
-                    String.format(Locale.ROOT, "%,.0f", rows / Math.max(secs, 1e-9)));
+            progress.update(b + 1, done, System.nanoTime());
         }
         return new Counted(out, scores, batches.size());
     }

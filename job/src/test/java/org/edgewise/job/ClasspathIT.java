@@ -31,6 +31,9 @@ class ClasspathIT {
             "/(junit-|junit-jupiter|junit-platform|opentest4j|apiguardian|scalatest|scalactic|spark-testing-base|"
                     + "spark-hive|hive-(?!storage-api)|derby|archunit)[^/]*\\.jar$");
 
+    /** "" for the Spark 3.5 line, "-spark4" under -Pspark4: the jars' names say their line. */
+    private static final String SUFFIX = System.getProperty("edgewise.lineSuffix", "");
+
     private static Path root() {
         return Path.of(System.getProperty("edgewise.projectRoot", "..")).toAbsolutePath().normalize();
     }
@@ -75,8 +78,13 @@ class ClasspathIT {
         List<String> cp = launcher("edgewise_job_classpath");
         noTestJars("tally's classpath", cp);
         noBenchmarkClasses(cp);
-        assertTrue(cp.stream().anyMatch(e -> e.endsWith("/spark-sql_2.12-3.5.9.jar")), "embedded Spark for local runs");
-        assertFalse(cp.stream().anyMatch(e -> e.endsWith("/edgewise-cli.jar")), "the job never needs the driver CLI");
+        // the Spark of the line being built (spark-sql_2.12-3.5.9.jar, or spark-sql_2.13-4.1.1.jar under -Pspark4)
+        String sparkJar = System.getProperty("edgewise.sparkJar", "spark-sql_2.12-3.5.9.jar");
+        assertTrue(cp.stream().anyMatch(e -> e.endsWith("/" + sparkJar)), "embedded Spark for local runs: " + sparkJar);
+        String other = sparkJar.contains("_2.12-") ? "_2.13-" : "_2.12-";
+        assertFalse(cp.stream().anyMatch(e -> e.contains(other)), "no jar of the other Scala line (" + other + ")");
+        assertEquals("edgewise-job" + SUFFIX + ".jar", Path.of(cp.get(0)).getFileName().toString());
+        assertFalse(cp.stream().anyMatch(e -> e.contains("/edgewise-cli")), "the job never needs the driver CLI");
     }
 
     @Test
@@ -85,13 +93,14 @@ class ClasspathIT {
         noTestJars("the driver commands' classpath", cp);
         noBenchmarkClasses(cp);
         assertFalse(cp.stream().anyMatch(e -> e.contains("/spark-")), "the driver is Spark-free");
+        assertEquals("edgewise-cli" + SUFFIX + ".jar", Path.of(cp.get(0)).getFileName().toString());
     }
 
     @Test
     void executorsGetTheJobTheCoreAndTheParserOnly() throws Exception {
         List<String> jars = launcher("edgewise_app_jars").stream().map(e -> Path.of(e).getFileName().toString()).toList();
-        assertEquals("edgewise-job.jar", jars.get(0));
-        assertEquals("edgewise-core.jar", jars.get(1));
+        assertEquals("edgewise-job" + SUFFIX + ".jar", jars.get(0));
+        assertEquals("edgewise-core" + SUFFIX + ".jar", jars.get(1));
         for (String j : jars.subList(2, jars.size())) {
             assertTrue(j.startsWith("picocli-") || j.startsWith("commons-csv-"), "unexpected shipped jar " + j);
         }

@@ -1,42 +1,42 @@
 package org.edgewise.job;
 
-import com.holdenkarau.spark.testing.JavaDatasetSuiteBase;
-import org.apache.spark.SparkConf;
 import org.apache.spark.sql.SparkSession;
+import org.junit.jupiter.api.extension.ExtensionContext;
+import org.junit.jupiter.api.extension.ParameterContext;
+import org.junit.jupiter.api.extension.ParameterResolver;
 
 /**
- * The one SparkSession every Spark test class shares ({@code local[2]}), started once per test JVM
- * through spark-testing-base and left to the JVM's shutdown.
+ * The one SparkSession every Spark test class shares ({@code local[2]}, loopback, no web UI, 4
+ * shuffle partitions), started once per test JVM and left to the JVM's shutdown. A JUnit 5
+ * extension: {@code @ExtendWith(SharedSpark.class)} hands it to a {@code SparkSession} parameter
+ * (e.g. of a {@code @BeforeAll} method); {@link #session()} gives it to code outside JUnit's reach.
+ *
+ * <p>Plain Spark API only, so the same class serves the Spark 3.5 and the Spark 4 build
+ * (spark-testing-base, which used to start this session, has no Spark 4 build).
  */
-final class SharedSpark {
-    private static Base base;
-
-    private SharedSpark() {
-    }
+public final class SharedSpark implements ParameterResolver {
+    private static SparkSession spark;
 
     static synchronized SparkSession session() {
-        if (base == null) {
-            base = new Base();
-            base.runBefore();
-            base.spark().sparkContext().setLogLevel("WARN");
+        if (spark == null) {
+            spark = SparkSession.builder().master("local[2]").appName("edgewise-tests")
+                    .config("spark.ui.enabled", "false")
+                    .config("spark.driver.host", "127.0.0.1")
+                    .config("spark.driver.bindAddress", "127.0.0.1")
+                    .config("spark.sql.shuffle.partitions", "4")
+                    .getOrCreate();
+            spark.sparkContext().setLogLevel("WARN");
         }
-        return base.spark();
+        return spark;
     }
 
-    /** spark-testing-base's suite base with our configuration. */
-    static final class Base extends JavaDatasetSuiteBase {
-        @Override
-        public SparkConf conf() {
-            return new SparkConf().setMaster("local[2]").setAppName("edgewise-tests")
-                    .set("spark.ui.enabled", "false")
-                    .set("spark.driver.host", "127.0.0.1")
-                    .set("spark.driver.bindAddress", "127.0.0.1")
-                    .set("spark.sql.shuffle.partitions", "4");
-        }
+    @Override
+    public boolean supportsParameter(ParameterContext p, ExtensionContext c) {
+        return p.getParameter().getType() == SparkSession.class;
+    }
 
-        @Override
-        public boolean enableHiveSupport() {
-            return false;
-        }
+    @Override
+    public Object resolveParameter(ParameterContext p, ExtensionContext c) {
+        return session();
     }
 }

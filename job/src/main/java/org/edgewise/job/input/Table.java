@@ -29,13 +29,45 @@ public final class Table {
     private final List<String> columns;
     private final boolean csv;
     private final char delimiter;
+    /** A caller's Dataset (the Java API, {@code org.edgewise.job.Tally}), or null when reading files. */
+    private final Dataset<Row> given;
 
-    private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter) {
+    private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter,
+                  Dataset<Row> given) {
         this.spark = spark;
         this.files = List.copyOf(files);
         this.columns = List.copyOf(columns);
         this.csv = csv;
         this.delimiter = delimiter;
+        this.given = given;
+    }
+
+    /** The name a caller's Dataset goes by in messages and in the manifest's input paths. */
+    public static final String DATASET = "dataset";
+
+    /**
+     * A Dataset the caller already has, read like a Parquet input: every column a variable, its
+     * values as text. A struct, array, map or binary column is refused (a one-line {@link UserError}
+     * naming it and the way to leave it out).
+     */
+    public static Table of(Dataset<Row> data) {
+        List<String> names = new ArrayList<>();
+        for (StructField field : data.schema().fields()) {
+            DataType t = field.dataType();
+            if (t instanceof StructType || t instanceof org.apache.spark.sql.types.ArrayType
+                    || t instanceof org.apache.spark.sql.types.MapType || t instanceof org.apache.spark.sql.types.BinaryType) {
+                throw new UserError(DATASET + ": column '" + field.name() + "' has type " + t.simpleString()
+                        + ", not a discrete value; leave it out with exclude(\"" + field.name() + "\")");
+            }
+            if (names.contains(field.name())) {
+                throw new UserError(DATASET + ": duplicate column name '" + field.name() + "'");
+            }
+            names.add(field.name());
+        }
+        if (names.isEmpty()) {
+            throw new UserError(DATASET + ": the Dataset has no columns");
+        }
+        return new Table(data.sparkSession(), List.of(new DataFile(DATASET, DATASET, DATASET)), names, false, ',', data);
     }
 
     /** Resolves the inputs and reads their headers (no Spark job runs yet). */
@@ -59,7 +91,7 @@ public final class Table {
             InputFiles.sameColumns(files, headers);
             columns = headers.get(0);
         }
-        return new Table(spark, files, columns, csv, delimiter);
+        return new Table(spark, files, columns, csv, delimiter, null);
     }
 
     private static List<String> parquetColumns(SparkSession spark, DataFile f) {
@@ -108,6 +140,11 @@ public final class Table {
         return csv;
     }
 
+    /** {@code csv}, {@code parquet}, or {@code dataset} for a caller's Dataset (the manifest's input format). */
+    public String format() {
+        return given != null ? DATASET : csv ? "csv" : "parquet";
+    }
+
     /** Index of the malformed-row field in a row (CSV only), or −1. */
     public int corruptField() {
         return csv ? columns.size() : -1;
@@ -132,6 +169,9 @@ public final class Table {
     }
 
     private Dataset<Row> read(String... uris) {
+        if (given != null) {
+            return asText(given);
+        }
         if (csv) {
             List<StructField> fields = new ArrayList<>();
             for (String c : columns) {
@@ -148,7 +188,11 @@ public final class Table {
                     .option("multiLine", "false")
                     .load(uris);
         }
-        Dataset<Row> d = spark.read().parquet(uris);
+        return asText(spark.read().parquet(uris));
+    }
+
+    /** The selected columns of {@code d}, each as text. */
+    private Dataset<Row> asText(Dataset<Row> d) {
         List<Column> cs = new ArrayList<>();
         for (String c : columns) {
             cs.add(col("`" + c.replace("`", "``") + "`").cast(DataTypes.StringType).as(c));
