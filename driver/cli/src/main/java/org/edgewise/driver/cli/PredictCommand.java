@@ -90,7 +90,7 @@ public final class PredictCommand implements Callable<Integer> {
             throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
         }
         var options = averaging.scoring.options();
-        String meth = averaging.method.resolve("prediction");
+        String meth = averaging.method("prediction");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
         ScoreStore store = StoreReader.read(averaging.scoring.store);

@@ -311,7 +311,7 @@ public final class HtmlReport {
             byEss.put(s.ess(), EdgeMatrix.of(r.variables(), s.edges(), "sensitivity entry ESS " + num(s.ess())));
             evidence.put(s.ess(), s.logEvidence());
         }
-        if (r.settings() != null && !byEss.containsKey(r.settings().ess())) {
+        if (r.settings() != null && r.settings().ess() != null && !byEss.containsKey(r.settings().ess())) {
             byEss.put(r.settings().ess(), main);
             evidence.put(r.settings().ess(), r.logEvidence());
         }
@@ -443,7 +443,7 @@ public final class HtmlReport {
         }
         EdgeResult.Settings s = r.settings();
         if (s != null) {
-            row(h, "score used", esc(s.score()) + ", ESS " + esc(num(s.ess())));
+            row(h, "score used", esc(s.score()) + (s.ess() == null ? " (no ESS)" : ", ESS " + esc(num(s.ess()))));
             row(h, "structure prior", esc(s.prior()));
             row(h, "maximum parents (d)", String.valueOf(s.maxParents()));
             if (s.forbid() != null && !s.forbid().isEmpty()) {
