@@ -25,7 +25,7 @@ final class Cautions {
                 .append("<li><b>An edge posterior is evidence of statistical dependence, not proof of causation.</b> "
                         + "It holds only under the stated assumptions: the discretisation of the variables, the structure prior")
                 .append(s != null ? " (" + esc(s.prior()) + ")" : "")
-                .append(" and the DAG prior (below), the score and its equivalent sample size (BDeu)")
+                .append(" and the DAG prior (below), the score and, for BDeu, its equivalent sample size")
                 .append(s != null ? " (" + esc(s.score()) + (s.ess() != null ? ", ESS " + esc(HtmlReport.num(s.ess())) : ", which has no ESS") + ")" : "")
                 .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
                 .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
