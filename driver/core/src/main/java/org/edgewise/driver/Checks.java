@@ -24,6 +24,9 @@ public final class Checks {
     /** Template of {@link #unitInterval}: {@code what}, the value. */
     static final String NOT_IN_UNIT_INTERVAL = "%s must be in [0, 1), got %s";
 
+    /** Template of {@link #notApplicable}: the option, the situation, why. */
+    static final String NOT_APPLICABLE = "%s does not apply %s: %s";
+
     private Checks() {
     }
 
@@ -71,5 +74,16 @@ public final class Checks {
             throw new UserError(String.format(Locale.ROOT, NOT_IN_UNIT_INTERVAL, what, value));
         }
         return value;
+    }
+
+    /**
+     * Refuses an option that was given but does not apply (rather than dropping it silently):
+     * "{@code what} does not apply {@code situation}: {@code why}", e.g. "--ess does not apply to
+     * score k2: …".
+     */
+    public static void notApplicable(boolean given, String what, String situation, String why) {
+        if (given) {
+            throw new UserError(String.format(Locale.ROOT, NOT_APPLICABLE, what, situation, why));
+        }
     }
 }

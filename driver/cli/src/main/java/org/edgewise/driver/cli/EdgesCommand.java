@@ -81,7 +81,7 @@ public final class EdgesCommand implements Callable<Integer> {
 
     /** Dispatches on the method: the core's {@link EssSweep} given an order or over unknown orders. */
     EdgeResult compute(List<Double> esses) {
-        String m = averaging.method.resolve("averaging");
+        String m = averaging.method("averaging");
         UnknownOrderSettings settings = m.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(m.toUpperCase(Locale.ROOT)), topParents);
         List<ScoringOptions> opts = new ArrayList<>();
@@ -100,9 +100,9 @@ public final class EdgesCommand implements Callable<Integer> {
     static String table(EdgeResult r, boolean sweep) {
         StringBuilder sb = new StringBuilder();
         EdgeResult.Settings s = r.settings();
-        sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; score %s, ESS %s, prior %s, d = %d)%n",
+        sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; score %s%s, prior %s, d = %d)%n",
                 r.order() == null ? r.method() : "order " + String.join(" < ", r.order()),
-                s.score(), num(s.ess()), s.prior(), s.maxParents()));
+                s.score(), s.ess() == null ? "" : ", ESS " + num(s.ess()), s.prior(), s.maxParents()));
         if (r.logEvidence() != null) {
             if (r.logEvidenceNormalized() != null) {
                 sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",

@@ -9,21 +9,25 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.TooLargeForExact;
 import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.query.BatchPrediction;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.query.UnknownOrderPrediction;
 import org.edgewise.driver.result.ResultJson;
+import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
@@ -71,6 +75,15 @@ public final class PredictCommand implements Callable<Integer> {
             description = "refuse a case whose hidden variables need more joint states than this to sum out (default ${DEFAULT-VALUE})")
     long maxHiddenStates;
 
+    @Option(names = "--exact-cases", description = "with --method exact: each complete case exactly, as Z(D + case) / Z(D) "
+            + "(one exact sum over all orders per case, order-modular prior) instead of mixing sampled orders when n >= 8")
+    boolean exactCases;
+
+    /** Over unknown orders: the mixture, or null given an order. */
+    private UnknownOrderPrediction.Mixture mixture;
+    /** With --exact-cases: the exact ratio of sums. */
+    private ExactCasePrediction exact;
+
     @Override
     public Integer call() {
         if ((caseText == null) == (casesFile == null)) {
@@ -90,7 +103,11 @@ public final class PredictCommand implements Callable<Integer> {
             throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
         }
         var options = averaging.scoring.options();
-        String meth = averaging.method.resolve("prediction");
+        String meth = averaging.method("prediction");
+        Checks.notApplicable(exactCases && !meth.equals("exact"), "--exact-cases", "with --method " + meth,
+                "it computes the exact sum over all orders (--method exact)");
+        Checks.notApplicable(exactCases && givenText != null, "--exact-cases", "with --given",
+                "a conditional needs P(given | D), a sum over the hidden variables");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
         ScoreStore store = StoreReader.read(averaging.scoring.store);
@@ -119,9 +136,15 @@ public final class PredictCommand implements Callable<Integer> {
                         um.maxRhat(), UnknownOrderEdges.RHAT_WARN));
             }
             OrderMixture mix = um.mixture();
+            mixture = um;
+            if (exactCases) {
+                exact = new ExactCasePrediction(ls, settings.constraints(ls));
+            }
             avg = mix;
             best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
-            averagedOver = meth + ": " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
+            averagedOver = exact != null ? "exact: all allowed orders, as Z(D + case) / Z(D)"
+                    : mix.sampled() ? meth + ": " + mix.draws() + " sampled orders, " + mix.size() + " distinct"
+                    : meth + ": all " + mix.size() + " allowed orders";
         }
         if (given != null) {
             checkEvidence(avg, given);
@@ -148,8 +171,9 @@ public final class PredictCommand implements Callable<Integer> {
 
     private int one(Manifest m, int[] ord, LocalScores ls, CaseProbability avg, CaseProbability best,
                     int[] target, int[] given, String fmt) {
-        double a = lp(avg, target, given);
+        double a = exact != null ? exact.logProbability(target) : lp(avg, target, given);
         double b = lp(best, target, given);
+        Double mcse = exact == null && avg instanceof OrderMixture mix && mix.sampled() ? mix.mcse(target, given) : null;
         int[] joint = target.clone();
         if (given != null) {
             for (int v = 0; v < joint.length; v++) {
@@ -165,7 +189,10 @@ public final class PredictCommand implements Callable<Integer> {
         double states = avg.hiddenJointStates(joint);
         Prediction p = new Prediction(named(m, target), given == null ? null : named(m, given), Math.exp(a), a,
                 Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
-                ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(), avg.skippedMass(), NOTE);
+                ls.familyScore().kind() == ScoreKind.K2 ? null : ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(),
+                exact != null ? 0.0 : avg.skippedMass(), NOTE, ord != null ? "order" : averaging.method.method.trim().toLowerCase(Locale.ROOT),
+                ord != null ? null : exact != null ? "all" : mixture.orders(), exact != null ? null : ord != null ? null : mixture.orderSamples(),
+                mcse, ord != null ? null : DagPrior.ORDER_MODULAR.label(), exact != null ? Boolean.TRUE : null);
         PrintWriter w = spec.commandLine().getOut();
         if (out != null) {
             ResultJson.write(out, p);
@@ -181,7 +208,8 @@ public final class PredictCommand implements Callable<Integer> {
                 w.printf(Locale.ROOT, "%s averaged over networks consistent with the order: %.6g (log %.6f)%n", what, p.probability(), a);
                 w.printf(Locale.ROOT, "%s under the single best network:                 %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
             } else {
-                w.printf(Locale.ROOT, "%s averaged over orders (%s) and their networks: %.6g (log %.6f)%n", what, averagedOver, p.probability(), a);
+                w.printf(Locale.ROOT, "%s averaged over orders (%s; order-modular DAG prior) and their networks: %.6g (log %.6f)%s%n",
+                        what, averagedOver, p.probability(), a, mcse == null ? "" : String.format(Locale.ROOT, ", Monte Carlo standard error %.3g", mcse));
                 w.printf(Locale.ROOT, "%s under the best network of the highest-evidence order among them: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
             }
             if (!hidden.isEmpty()) {
@@ -204,6 +232,11 @@ public final class PredictCommand implements Callable<Integer> {
     }
 
     private int batch(CaseCsv table, CaseProbability avg, CaseProbability best, int[] given) {
+        if (mixture != null && mixture.mixture().sampled() && exact == null) {
+            spec.commandLine().getErr().println("predict: " + averagedOver + " (order-modular DAG prior); the mcse column is the "
+                    + "Monte Carlo standard error of each probability" + (averaging.method.method.trim().equalsIgnoreCase("exact")
+                    ? "; --exact-cases computes complete cases exactly" : ""));
+        }
         int rows = table.cases().length;
         BatchPrediction.Result r;
         try {
@@ -214,15 +247,34 @@ public final class PredictCommand implements Callable<Integer> {
         }
         double[] a = r.averaged();
         double[] b = r.best();
+        boolean sampled = exact == null && avg instanceof OrderMixture mix && mix.sampled();
+        double[] mcse = new double[rows];
+        if (exact != null) {
+            for (int i = 0; i < rows; i++) {
+                try {
+                    a[i] = exact.logProbability(table.cases()[i]);
+                } catch (UserError e) {
+                    throw new UserError(casesFile + ": case " + (i + 1) + ": " + e.getMessage(), e);
+                }
+            }
+        } else if (sampled) {
+            OrderMixture mix = (OrderMixture) avg;
+            java.util.stream.IntStream.range(0, rows).parallel().forEach(i -> mcse[i] = mix.mcse(table.cases()[i], given));
+        }
         StringBuilder sb = new StringBuilder(rows * 64);
         List<String> head = new ArrayList<>();
         for (String h : table.header()) {
             head.add(CsvFields.quote(h));
         }
-        sb.append(String.join(",", head)).append(",probability,logProbability,bestNetworkProbability,bestNetworkLogProbability\n");
+        sb.append(String.join(",", head)).append(",probability,logProbability,bestNetworkProbability,bestNetworkLogProbability")
+                .append(sampled ? ",mcse\n" : "\n");
         for (int i = 0; i < rows; i++) {
             sb.append(table.lines().get(i)).append(',').append(Math.exp(a[i])).append(',').append(a[i])
-                    .append(',').append(Math.exp(b[i])).append(',').append(b[i]).append('\n');
+                    .append(',').append(Math.exp(b[i])).append(',').append(b[i]);
+            if (sampled) {
+                sb.append(',').append(mcse[i]);
+            }
+            sb.append('\n');
         }
         if (out != null) {
             ResultJson.writeText(out, sb.toString());

@@ -45,7 +45,7 @@ final class ReportCommand implements Callable<Integer> {
         String text;
         if (fmt.equals("dot")) {
             EdgeMatrix m = EdgeMatrix.of(r);
-            text = DotWriter.write(m, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()));
+            text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()));
         } else {
             text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold);
         }

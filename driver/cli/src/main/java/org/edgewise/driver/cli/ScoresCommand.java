@@ -47,6 +47,8 @@ final class ScoresCommand implements Callable<Integer> {
         Manifest m = s.manifest();
         ScoreKind stored = ScoreKind.parse(m.score());
         ScoreKind kind = score == null ? stored : ScoreKind.parse(score);
+        Checks.notApplicable(kind == ScoreKind.K2 && ess != null, "--ess", "to score k2",
+                "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
         double e = ess == null ? m.ess() : ess;
         boolean rescore = kind != stored || (kind == ScoreKind.BDEU && e != m.ess());
         FamilyScore fs = FamilyScore.of(kind, e);

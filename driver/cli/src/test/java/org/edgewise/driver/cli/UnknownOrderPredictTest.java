@@ -68,7 +68,7 @@ class UnknownOrderPredictTest {
     void tableSaysWhatItAveragedOverAndRefusesAnOrderWithAMethod() {
         CliRun r = CliRun.of("predict", "--store", store.toString(), "--method", "exact", "--case", "v0=s1", "--given", "v4=s0");
         assertEquals(0, r.status(), r.err());
-        assertTrue(r.out().contains("averaged over orders (exact: 120 distinct orders)"), r.out());
+        assertTrue(r.out().contains("averaged over orders (exact: all 120 allowed orders; order-modular DAG prior)"), r.out());
         assertEquals("predict: --order and --method mcmc exclude each other: mcmc averages over unknown orders",
                 CliRun.of("predict", "--store", store.toString(), "--method", "mcmc", "--order", "v0,v1,v2,v3,v4",
                         "--case", "v0=s1").errLine());

@@ -8,6 +8,7 @@ import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.McseBound;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
 import org.edgewise.driver.average.OrderSampling;
@@ -21,7 +22,9 @@ import org.edgewise.driver.result.ResultBuilder;
  * {@link OrderMcmc} with the settings' budget (the per-child tables get a quarter of the heap),
  * burn-in and step caps, then assembles the result — edges, top parent sets (from at most
  * {@value #SET_ORDERS} evenly spaced stored orders), features, and for MCMC the diagnostics with
- * traces thinned to at most {@value #TRACE_POINTS} points per chain.
+ * traces thinned to at most {@value #TRACE_POINTS} points per chain. A Monte Carlo estimate of exactly
+ * 0 or 1 reports the rule-of-three bound 3/K as its error ({@link McseBound}), not 0; pairs that
+ * cannot be edges at all (no candidate) are exactly 0 with error 0.
  */
 public final class UnknownOrderAveraging {
     /** R̂ above this is reported as not converged (Vehtari et al. 2021 recommend 1.01). */
@@ -68,7 +71,7 @@ public final class UnknownOrderAveraging {
         List<EdgeResult.Feature> features = null;
         if (feats) {
             double[][][] f = SampledOrders.features(ls, Arrays.asList(r.sampledOrders()), s.seed() + 1);
-            features = features(names, s, f[0], f[2], f[1], f[3]);
+            features = features(names, s, f[0], f[2], f[1], f[3], r.sampledOrders().length);
         }
         return new EdgeResult("exact", names, r.logEvidence(), null, ResultBuilder.ORDER_MODULAR, null,
                 settings(ls, oc), ResultBuilder.provenance(ls.store(), storePath),
@@ -83,6 +86,7 @@ public final class UnknownOrderAveraging {
         OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, feats, progress);
         List<String> names = names(ls);
         List<EdgeResult.Edge> edges = new ArrayList<>();
+        long draws = r.orders().size(); // stored draws, all chains: K of the rule of three (McseBound)
         for (int a = 0; a < n; a++) {
             for (int b = 0; b < n; b++) {
                 if (a == b) {
@@ -90,7 +94,8 @@ public final class UnknownOrderAveraging {
                 }
                 OrderMcmc.Estimate e = r.edges()[a][b];
                 edges.add(e == null ? new EdgeResult.Edge(names.get(a), names.get(b), 0.0, 0.0, null)
-                        : new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse()), finite(e.rhat())));
+                        : new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()),
+                        finite(McseBound.reported(clamp(e.mean()), e.mcse(), draws)), finite(e.rhat())));
             }
         }
         List<EdgeResult.Feature> features = null;
@@ -106,7 +111,7 @@ public final class UnknownOrderAveraging {
                     }
                 }
             }
-            features = features(names, s, f[0], f[1], f[2], f[3]);
+            features = features(names, s, f[0], f[1], f[2], f[3], draws);
         }
         int traceEvery = Math.max(1, r.traces().get(0).length / TRACE_POINTS);
         List<List<Double>> traces = new ArrayList<>();
@@ -127,14 +132,15 @@ public final class UnknownOrderAveraging {
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,
-                                                     double[][] ancSe, double[][] mb, double[][] mbSe) {
+                                                     double[][] ancSe, double[][] mb, double[][] mbSe, long draws) {
         int n = names.size();
         List<EdgeResult.Feature> out = new ArrayList<>();
         if (s.ancestors()) {
             for (int a = 0; a < n; a++) {
                 for (int b = 0; b < n; b++) {
                     if (a != b) {
-                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(anc[a][b]), finite(ancSe[a][b])));
+                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(anc[a][b]),
+                                finite(McseBound.reported(clamp(anc[a][b]), ancSe[a][b], draws))));
                     }
                 }
             }
@@ -142,7 +148,8 @@ public final class UnknownOrderAveraging {
         if (s.markovBlanket()) {
             for (int a = 0; a < n; a++) {
                 for (int b = a + 1; b < n; b++) {
-                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(mb[a][b]), finite(mbSe[a][b])));
+                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(mb[a][b]),
+                            finite(McseBound.reported(clamp(mb[a][b]), mbSe[a][b], draws))));
                 }
             }
         }

@@ -5,6 +5,7 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.TreeSet;
 import java.util.stream.IntStream;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.score.ScoreKind;
@@ -58,6 +59,8 @@ public final class LocalScores {
         Manifest m = store.manifest();
         ScoreKind storedKind = ScoreKind.parse(m.score());
         ScoreKind kind = options.score() == null ? storedKind : options.score();
+        Checks.notApplicable(kind == ScoreKind.K2 && !Double.isNaN(options.ess()), "--ess", "to score k2",
+                "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
         double ess = Double.isNaN(options.ess()) ? m.ess() : options.ess();
         FamilyScore fs = FamilyScore.of(kind, ess);
         boolean rescore = kind != storedKind || (kind == ScoreKind.BDEU && ess != m.ess());
@@ -234,5 +237,24 @@ public final class LocalScores {
             }
         }
         return mask;
+    }
+
+    /**
+     * The same tables with other weights (same shape as {@link #weights(int)}): e.g. the family
+     * scores of the data plus one case, for an exact predictive probability as a ratio of exact
+     * sums ({@code query.ExactCasePrediction}). Memory: one double per allowed parent set.
+     */
+    public LocalScores withWeights(double[][] newWeights) {
+        if (newWeights.length != weights.length) {
+            throw new IllegalArgumentException("weights for " + newWeights.length + " children, expected " + weights.length);
+        }
+        double[][] w = new double[weights.length][];
+        for (int c = 0; c < w.length; c++) {
+            if (newWeights[c].length != weights[c].length) {
+                throw new IllegalArgumentException("child " + c + ": " + newWeights[c].length + " weights, expected " + weights[c].length);
+            }
+            w[c] = newWeights[c].clone();
+        }
+        return new LocalScores(store, familyScore, options, candidates, masks, w, logPriors, families);
     }
 }

@@ -26,11 +26,14 @@ public final class OrderMixture implements CaseProbability {
     private final CasePredictor[] parts;
     private final double[] logWeight;
     private final int[] bestOrder;
+    /** Number of sampled orders (with repeats) for a sampled mixture; 0 for an exact one. */
+    private final int draws;
 
-    private OrderMixture(CasePredictor[] parts, double[] logWeight, int[] bestOrder) {
+    private OrderMixture(CasePredictor[] parts, double[] logWeight, int[] bestOrder, int draws) {
         this.parts = parts;
         this.logWeight = logWeight;
         this.bestOrder = bestOrder;
+        this.draws = draws;
     }
 
     /** Every order in {@code orders} with weight ∝ exp(logEvidence(≺)) (orders of zero likelihood dropped). */
@@ -59,7 +62,7 @@ public final class OrderMixture implements CaseProbability {
         for (int k = 0; k < w.length; k++) {
             w[k] -= z;
         }
-        return new OrderMixture(ps.toArray(new CasePredictor[0]), w, best);
+        return new OrderMixture(ps.toArray(new CasePredictor[0]), w, best, 0);
     }
 
     /** Sampled orders, each distinct order weighted by its share of the sample. */
@@ -86,7 +89,67 @@ public final class OrderMixture implements CaseProbability {
                 best = o.clone();
             }
         }
-        return new OrderMixture(ps, w, best);
+        return new OrderMixture(ps, w, best, orders.size());
+    }
+
+    /** Whether the orders were sampled (then every probability has a Monte Carlo error, {@link #mcse}). */
+    public boolean sampled() {
+        return draws > 0;
+    }
+
+    /** Number of sampled orders, repeats counted (K); 0 when every allowed order was mixed exactly. */
+    public int draws() {
+        return draws;
+    }
+
+    /**
+     * Monte Carlo standard error of P(target | D) (or of P(target | given, D)) from a sampled
+     * mixture; NaN when exact. With K orders drawn independently and Y_k = P(target, given | D, ≺_k),
+     * X_k = P(given | D, ≺_k) (X ≡ 1 without {@code given}), the estimate is R = Ȳ / X̄ and, by the
+     * delta method for a ratio estimator (Cochran 1977, Sampling Techniques, §6.4),
+     * <pre>
+     *   MCSE(R) ≈ R · sqrt( Var_k(Y_k/Ȳ − X_k/X̄) / K ),   Var with divisor K − 1
+     * </pre>
+     * computed on values scaled by their means, so tiny probabilities do not underflow. For orders
+     * from MCMC the draws are correlated and this understates the error.
+     */
+    public double mcse(int[] target, int[] given) {
+        if (draws < 2) {
+            return draws == 0 ? Double.NaN : Double.POSITIVE_INFINITY;
+        }
+        int[] joint = target;
+        if (given != null) {
+            joint = given.clone();
+            for (int v = 0; v < joint.length; v++) {
+                if (target[v] != CaseParser.HIDDEN) {
+                    if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
+                        return 0.0; // contradicts the evidence: probability 0 in every order
+                    }
+                    joint[v] = target[v];
+                }
+            }
+        }
+        int k = parts.length;
+        double[] ly = new double[k];
+        double[] lx = new double[k];
+        double my = Double.NEGATIVE_INFINITY;
+        double mx = Double.NEGATIVE_INFINITY;
+        for (int i = 0; i < k; i++) {
+            ly[i] = parts[i].logProbability(joint);
+            lx[i] = given == null ? 0.0 : parts[i].logProbability(given);
+            my = LogSum.add(my, logWeight[i] + ly[i]);
+            mx = LogSum.add(mx, logWeight[i] + lx[i]);
+        }
+        if (my == Double.NEGATIVE_INFINITY) {
+            return 0.0;
+        }
+        double var = 0;
+        for (int i = 0; i < k; i++) {
+            double d = Math.exp(ly[i] - my) - Math.exp(lx[i] - mx);
+            var += Math.exp(logWeight[i]) * d * d;
+        }
+        var *= draws / (draws - 1.0);
+        return Math.exp(my - mx) * Math.sqrt(var / draws);
     }
 
     /** Number of distinct orders mixed. */

@@ -17,17 +17,26 @@ import java.util.Map;
  * @param hiddenJointStates           joint states enumerated to sum them out
  * @param order                       the order
  * @param score                       score kind
- * @param ess                         ESS
+ * @param ess                         ESS (null for K2, which has none)
  * @param prior                       structure prior
  * @param maxParents                  in-degree bound d
  * @param skippedPosteriorMass        parent-set posterior mass skipped (total over variables; 0 = exact)
  * @param note                        how to read it
+ * @param method                      order (given), exact or mcmc
+ * @param orders                      over unknown orders: {@code all} (every allowed order, exact weights) or
+ *                                    {@code sampled}; null given an order
+ * @param orderSamples                the number K of sampled orders when {@code orders} is {@code sampled}
+ * @param mcse                        Monte Carlo standard error of {@code probability} when sampled, else null
+ * @param dagPrior                    over unknown orders, the DAG prior the orders are weighted under
+ *                                    ({@code order-modular}); null given an order (both priors coincide)
+ * @param exactCase                   true when computed as Z(D ∪ x) / Z(D) ({@code --exact-cases}), else null
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") Map<String, String> caseStates,
                          Map<String, String> given, double probability, double logProbability,
                          double bestNetworkProbability, double bestNetworkLogProbability,
                          List<String> hiddenSummedOut, double hiddenJointStates, List<String> order,
-                         String score, double ess, String prior, int maxParents, double skippedPosteriorMass,
-                         String note) {
+                         String score, Double ess, String prior, int maxParents, double skippedPosteriorMass,
+                         String note, String method, String orders, Integer orderSamples, Double mcse, String dagPrior,
+                         Boolean exactCase) {
 }

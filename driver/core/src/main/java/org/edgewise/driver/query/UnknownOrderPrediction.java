@@ -15,7 +15,10 @@ import org.edgewise.driver.average.UnknownOrderSettings;
  * The case predictor mixed over unknown orders. Exact: every allowed order with its exact
  * posterior weight when n ≤ {@link #ENUMERATE_MAX} (at most 5,040 orders), else orders drawn from
  * the exact order posterior (Koivisto &amp; Sood 2004). MCMC: the stored orders of the chains. At
- * most {@link #MAX_ORDERS} sampled orders are mixed (evenly spaced).
+ * most {@link #MAX_ORDERS} sampled orders are mixed (evenly spaced). A sampled mixture says so
+ * ({@link Mixture#orders()} "sampled", with K) and every probability then has a Monte Carlo
+ * error ({@link OrderMixture#mcse}); for an exact answer on a complete case with n ≥ 8 use
+ * {@link ExactCasePrediction}. Orders are weighted by their evidence: the order-modular DAG prior.
  */
 public final class UnknownOrderPrediction {
     public static final int ENUMERATE_MAX = 7;
@@ -28,6 +31,15 @@ public final class UnknownOrderPrediction {
      * @param maxRhat   the largest split-R̂ (NaN for exact)
      */
     public record Mixture(OrderMixture mixture, boolean converged, double maxRhat) {
+        /** {@code "all"} when every allowed order was mixed with its exact weight, {@code "sampled"} otherwise. */
+        public String orders() {
+            return mixture.sampled() ? "sampled" : "all";
+        }
+
+        /** The number K of sampled orders (repeats counted), or null when all were mixed. */
+        public Integer orderSamples() {
+            return mixture.sampled() ? mixture.draws() : null;
+        }
     }
 
     private UnknownOrderPrediction() {

@@ -121,11 +121,15 @@ public final class Charts {
     }
 
     /**
-     * The consensus graph: edges with posterior above the threshold, stroke width 1 + 5p and a
-     * label p, laid out by {@link ConsensusLayout}. With {@code truth}: correct edges green,
-     * reversed orange, extra red, true edges the consensus lacks dashed grey.
+     * The consensus graph: the pairs {@link ConsensusEdges#drawn} gives — arrows (compelled
+     * directions, or the given order's) and undirected lines (adjacent, direction reversible or
+     * not assessed) — stroke width 1 + 5p and a label p, laid out by {@link ConsensusLayout}.
+     * With {@code truth}: arrows green when correct, orange when reversed, red when extra; lines
+     * green when the known network joins the pair either way, red otherwise; known edges of pairs
+     * not drawn dashed grey.
      */
-    public static String graph(EdgeMatrix m, boolean[][] g, ConsensusLayout lay, boolean[][] truth) {
+    public static String graph(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> drawn, ConsensusLayout lay,
+                               boolean[][] truth) {
         int n = m.size();
         double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
@@ -147,61 +151,34 @@ public final class Charts {
         for (int i = 0; i < n; i++) {
             pos[order[i]] = i;
         }
+        boolean[][] pairDrawn = new boolean[n][n];
+        for (ConsensusEdges.Drawn d : drawn) {
+            pairDrawn[d.from()][d.to()] = true;
+            pairDrawn[d.to()][d.from()] = true;
+        }
         StringBuilder labels = new StringBuilder();
-        for (int a = 0; a < n; a++) {
-            for (int b = 0; b < n; b++) {
-                boolean missed = truth != null && truth[a][b] && !g[a][b] && !g[b][a];
-                if (!g[a][b] && !missed) {
-                    continue;
-                }
-                String col = truth == null ? PLAIN_COLOUR
-                        : missed ? MISSED_COLOUR
-                        : truth[a][b] ? TRUE_COLOUR
-                        : truth[b][a] ? REVERSED_COLOUR : EXTRA_COLOUR;
-                double p = m.p()[a][b];
-                StringBuilder d = new StringBuilder();
-                double lx;
-                double ly;
-                double[][] pts = lay.route(a, b);
-                if (pts != null) { // downward: vertical S-curves through the virtual slots
-                    d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
-                    for (int i = 0; i + 1 < pts.length; i++) {
-                        double k = (pts[i + 1][1] - pts[i][1]) / 2;
-                        d.append(" C").append(c(pts[i][0])).append(',').append(c(pts[i][1] + k)).append(' ')
-                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1] - k)).append(' ')
-                                .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1]));
+        for (ConsensusEdges.Drawn d : drawn) {
+            int a = d.from();
+            int b = d.to();
+            boolean arrow = d.shape() == ConsensusEdges.Shape.ARROW;
+            String col = truth == null ? PLAIN_COLOUR
+                    : arrow ? (truth[a][b] ? TRUE_COLOUR : truth[b][a] ? REVERSED_COLOUR : EXTRA_COLOUR)
+                    : (truth[a][b] || truth[b][a] ? TRUE_COLOUR : EXTRA_COLOUR);
+            String title = arrow && ce.givenOrder()
+                    ? m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(d.p(), 3)
+                            + " (direction from the given order)"
+                    : ce.describe(d.pair());
+            path(s, labels, lay, a, b, col, 1 + 5 * d.p(), false, arrow, title, Html.prob(d.p()));
+        }
+        if (truth != null) {
+            for (int a = 0; a < n; a++) {
+                for (int b = 0; b < n; b++) {
+                    if (truth[a][b] && !pairDrawn[a][b]) {
+                        path(s, null, lay, a, b, MISSED_COLOUR, 1.2, true, true, m.variables().get(a) + " \u2192 "
+                                + m.variables().get(b) + ": edge of the known network, not drawn (P(adjacent) "
+                                + Html.f(ce.pair(a, b).adjacent(), 3) + ")", null);
                     }
-                    int mid = (pts.length - 1) / 2;
-                    lx = pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2;
-                    ly = pts.length % 2 == 1 ? pts[mid][1] : (pts[mid][1] + pts[mid + 1][1]) / 2;
-                } else if (lay.layer(a) == lay.layer(b)) { // same layer (kept out of the layering): arc below
-                    double x1 = lay.x(a);
-                    double x2 = lay.x(b);
-                    double y1 = lay.y(a) + boxH / 2;
-                    d.append('M').append(c(x1)).append(',').append(c(y1)).append(" Q").append(c((x1 + x2) / 2)).append(',')
-                            .append(c(y1 + 48)).append(' ').append(c(x2)).append(',').append(c(y1));
-                    lx = (x1 + x2) / 2;
-                    ly = y1 + 24;
-                } else { // against the layering (a cycle): arc out to the right
-                    double x1 = lay.x(a) + boxW / 2;
-                    double x2 = lay.x(b) + boxW / 2 + 1;
-                    double cx = Math.max(x1, x2) + 60;
-                    double cy = (lay.y(a) + lay.y(b)) / 2;
-                    d.append('M').append(c(x1)).append(',').append(c(lay.y(a))).append(" Q").append(c(cx)).append(',')
-                            .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(lay.y(b)));
-                    lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
-                    ly = cy;
                 }
-                String title = esc(m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(p, 3)
-                        + (missed ? " (true edge, below the threshold)" : ""));
-                s.append("<path d=\"").append(d).append("\" fill=\"none\" stroke=\"")
-                        .append(col).append("\" stroke-width=\"").append(c(missed ? 1.2 : 1 + 5 * p)).append('"')
-                        .append(missed ? " stroke-dasharray=\"5,4\"" : "").append(" marker-end=\"url(#arrow-")
-                        .append(col.substring(1)).append(")\"><title>").append(title).append("</title></path>\n");
-                labels.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(ly + 4))
-                        .append("\" text-anchor=\"middle\" font-size=\"11\" fill=\"").append(col)
-                        .append("\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">")
-                        .append(esc(Html.prob(p))).append("</text>\n");
             }
         }
         s.append(labels);
@@ -217,6 +194,59 @@ public final class Charts {
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
         }
         return s.append("</svg>").toString();
+    }
+
+    /** One edge's path (with an arrowhead when {@code arrow}) and, when {@code label} is non-null, its label. */
+    private static void path(StringBuilder s, StringBuilder labels, ConsensusLayout lay, int a, int b, String col, double width,
+                             boolean dashed, boolean arrow, String title, String label) {
+        double boxW = ConsensusLayout.BOX_W;
+        double boxH = ConsensusLayout.BOX_H;
+        StringBuilder d = new StringBuilder();
+        double lx;
+        double ly;
+        double[][] pts = lay.route(a, b);
+        if (pts != null) { // downward: vertical S-curves through the virtual slots
+            d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
+            for (int i = 0; i + 1 < pts.length; i++) {
+                double k = (pts[i + 1][1] - pts[i][1]) / 2;
+                d.append(" C").append(c(pts[i][0])).append(',').append(c(pts[i][1] + k)).append(' ')
+                        .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1] - k)).append(' ')
+                        .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1]));
+            }
+            int mid = (pts.length - 1) / 2;
+            lx = pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2;
+            ly = pts.length % 2 == 1 ? pts[mid][1] : (pts[mid][1] + pts[mid + 1][1]) / 2;
+        } else if (lay.layer(a) == lay.layer(b)) { // same layer (kept out of the layering): arc below
+            double x1 = lay.x(a);
+            double x2 = lay.x(b);
+            double y1 = lay.y(a) + boxH / 2;
+            d.append('M').append(c(x1)).append(',').append(c(y1)).append(" Q").append(c((x1 + x2) / 2)).append(',')
+                    .append(c(y1 + 48)).append(' ').append(c(x2)).append(',').append(c(y1));
+            lx = (x1 + x2) / 2;
+            ly = y1 + 24;
+        } else { // against the layering (a cycle): arc out to the right
+            double x1 = lay.x(a) + boxW / 2;
+            double x2 = lay.x(b) + boxW / 2 + 1;
+            double cx = Math.max(x1, x2) + 60;
+            double cy = (lay.y(a) + lay.y(b)) / 2;
+            d.append('M').append(c(x1)).append(',').append(c(lay.y(a))).append(" Q").append(c(cx)).append(',')
+                    .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(lay.y(b)));
+            lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
+            ly = cy;
+        }
+        s.append("<path class=\"").append(arrow ? "arrow" : "line").append("\" d=\"").append(d)
+                .append("\" fill=\"none\" stroke=\"").append(col).append("\" stroke-width=\"").append(c(width)).append('"')
+                .append(dashed ? " stroke-dasharray=\"5,4\"" : "");
+        if (arrow) {
+            s.append(" marker-end=\"url(#arrow-").append(col.substring(1)).append(")\"");
+        }
+        s.append("><title>").append(esc(title)).append("</title></path>\n");
+        if (label != null) {
+            labels.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(ly + 4))
+                    .append("\" text-anchor=\"middle\" font-size=\"11\" fill=\"").append(col)
+                    .append("\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">")
+                    .append(esc(label)).append("</text>\n");
+        }
     }
 
     /** Trace plot: log evidence per chain against the trace sample index. */

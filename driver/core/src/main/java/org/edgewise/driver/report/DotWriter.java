@@ -1,6 +1,7 @@
 package org.edgewise.driver.report;
 
 import java.util.Locale;
+import org.edgewise.driver.result.EdgeResult;
 
 /**
  * The consensus graph in the DOT language (graphviz.org/doc/info/lang.html): every identifier a
@@ -27,28 +28,47 @@ public final class DotWriter {
         return sb.append('"').toString();
     }
 
-    public static String write(EdgeMatrix m, double threshold, boolean[][] truth) {
-        boolean[][] g = m.consensus(threshold);
+    /**
+     * The consensus graph of {@code r} at {@code threshold} by the rules of {@link ConsensusEdges}:
+     * arrows for compelled directions (or the given order's), {@code dir=none} lines for adjacent
+     * pairs whose direction is reversible or not assessed. With {@code truth}: green correct,
+     * orange reversed, red not in the known network.
+     */
+    public static String write(EdgeResult r, double threshold, boolean[][] truth) {
+        EdgeMatrix m = EdgeMatrix.of(r);
+        ConsensusEdges ce = ConsensusEdges.of(r, m);
         StringBuilder sb = new StringBuilder();
-        sb.append("// Edgewise consensus graph: edges with posterior > ").append(threshold)
-                .append(". An edge posterior is evidence of statistical dependence, not proof of causation.\n");
+        sb.append("// Edgewise consensus graph (threshold ").append(threshold).append("). ")
+                .append(ce.givenOrder() ? "Arrows: edges with posterior above the threshold, directed by the given order (an assumption)."
+                        : ce.assessed() ? "Arrows: compelled directions with posterior above the threshold; lines (dir=none): "
+                        + "adjacent pairs whose direction is mostly reversible."
+                        : "Lines (dir=none): adjacent pairs, P(a->b) + P(b->a) above the threshold; directions not assessed "
+                        + "(run edges with --features essential-graph).")
+                .append("\n// DAG prior: ").append(ce.givenOrder() ? "given order (both DAG priors coincide)"
+                        : r.dagPrior() == null ? "not recorded" : r.dagPrior())
+                .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n");
         sb.append("digraph consensus {\n  node [shape=box, style=rounded];\n");
         for (String v : m.variables()) {
             sb.append("  ").append(id(v)).append(";\n");
         }
-        for (int a = 0; a < m.size(); a++) {
-            for (int b = 0; b < m.size(); b++) {
-                if (g[a][b]) {
-                    double p = m.p()[a][b];
-                    sb.append("  ").append(id(m.variables().get(a))).append(" -> ").append(id(m.variables().get(b)))
-                            .append(String.format(Locale.ROOT, " [label=\"%.2f\", penwidth=%.2f", p, 1 + 5 * p));
-                    if (truth != null) {
-                        sb.append(", color=\"").append(truth[a][b] ? Charts.TRUE_COLOUR : truth[b][a] ? Charts.REVERSED_COLOUR
-                                : Charts.EXTRA_COLOUR).append('"');
-                    }
-                    sb.append("];\n");
-                }
+        for (ConsensusEdges.Drawn d : ce.drawn(threshold)) {
+            int a = d.from();
+            int b = d.to();
+            boolean arrow = d.shape() == ConsensusEdges.Shape.ARROW;
+            sb.append("  ").append(id(m.variables().get(a))).append(" -> ").append(id(m.variables().get(b)))
+                    .append(String.format(Locale.ROOT, " [label=\"%.2f\", penwidth=%.2f", d.p(), 1 + 5 * d.p()));
+            if (!arrow) {
+                sb.append(", dir=none");
             }
+            if (!ce.givenOrder()) {
+                sb.append(", tooltip=").append(id(ce.describe(d.pair())));
+            }
+            if (truth != null) {
+                String col = arrow ? (truth[a][b] ? Charts.TRUE_COLOUR : truth[b][a] ? Charts.REVERSED_COLOUR : Charts.EXTRA_COLOUR)
+                        : (truth[a][b] || truth[b][a] ? Charts.TRUE_COLOUR : Charts.EXTRA_COLOUR);
+                sb.append(", color=\"").append(col).append('"');
+            }
+            sb.append("];\n");
         }
         return sb.append("}\n").toString();
     }

@@ -38,7 +38,7 @@ public final class HtmlReport {
             .ok{border:2px solid #1a7f37;background:#eaf6ec;padding:10px 16px;border-radius:8px;margin:14px 0}
             table{border-collapse:collapse;margin:8px 0 12px 0;font-size:14px}
             th,td{border:1px solid #d5dce4;padding:4px 9px;text-align:left;vertical-align:top}
-            th{background:#f0f4f8}td.num{text-align:right;font-variant-numeric:tabular-nums}
+            th{background:#f0f4f8}td.num{text-align:right;font-variant-numeric:tabular-nums}td.na{color:#8a4f00;font-style:italic;text-align:center}
             .fig{overflow-x:auto;margin:8px 0}.cap{color:#5a6b7d;font-size:14px;max-width:900px}
             .key span{display:inline-block;margin-right:16px}.sw{display:inline-block;width:22px;height:4px;vertical-align:middle;margin-right:5px}
             code{background:#f0f4f8;padding:0 3px;border-radius:3px}
@@ -58,13 +58,15 @@ public final class HtmlReport {
      */
     public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold) {
         EdgeMatrix m = EdgeMatrix.of(r);
-        boolean[][] g = m.consensus(threshold);
+        ConsensusEdges ce = ConsensusEdges.of(r, m);
+        List<ConsensusEdges.Drawn> shown = ce.drawn(threshold);
+        boolean[][] g = ce.layoutGraph(shown);
         boolean[][] t = truth == null ? null : EdgeRecovery.truthMatrix(m, truth, truthName);
         EdgeRecovery rec = truth == null ? null : EdgeRecovery.of(m, truth, truthName, threshold);
         boolean[][] drawn = new boolean[m.size()][m.size()];
         for (int a = 0; a < m.size(); a++) {
             for (int b = 0; b < m.size(); b++) {
-                drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[b][a];
+                drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[a][b] && !g[b][a];
             }
         }
         ConsensusLayout lay = ConsensusLayout.of(m, g, drawn, "order".equals(r.method()) ? r.order() : null);
@@ -77,23 +79,21 @@ public final class HtmlReport {
         h.append("<h1>Edge posteriors</h1>\n<p class=\"sub\">Edgewise report of <code>").append(esc(resultName))
                 .append("</code> \u2014 ").append(esc(methodName(r))).append(", ").append(m.size()).append(" variables")
                 .append(r.store() != null ? ", " + r.store().rows() + " rows" : "").append("</p>\n");
-        cautions(h, r);
-        summary(h, r, m, g, rec, threshold);
+        Cautions.write(h, r, ce);
+        summary(h, r, m, shown, rec, threshold);
         mcmcWarning(h, r.diagnostics());
 
-        h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, g, lay, t)).append("</div>\n");
-        h.append("<p class=\"cap\">Edges whose posterior exceeds ").append(f(threshold, 2))
-                .append("; line width and label give the posterior. Variables are layered by ")
+        h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
+        h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold)).append(" Variables are layered by ")
                 .append("order".equals(r.method()) ? "the given order" : "a most probable order derived from the posteriors")
-                .append(" (").append(esc(lay.describe(m.variables()))).append("). ")
-                .append("Direction is often not identifiable from observational data: an arrow may equally well point the other way "
-                        + "within a Markov equivalence class.</p>\n");
+                .append(" (").append(esc(lay.describe(m.variables()))).append("); hover over an edge for all its posteriors.</p>\n");
         if (t != null) {
             h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(Charts.TRUE_COLOUR)
-                    .append("\"></i>in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.REVERSED_COLOUR)
+                    .append("\"></i>in the known network (a line: joined either way)</span><span><i class=\"sw\" style=\"background:")
+                    .append(Charts.REVERSED_COLOUR)
                     .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
                     .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.MISSED_COLOUR)
-                    .append("\"></i>known edge below the threshold (dashed)</span></p>\n");
+                    .append("\"></i>known edge not drawn (dashed)</span></p>\n");
         }
 
         h.append("<h2>Edge posterior heatmap</h2>\n<div class=\"fig\">").append(Charts.heatmap(m, t)).append("</div>\n");
@@ -101,6 +101,7 @@ public final class HtmlReport {
                 + "Cells are pale for unsupported edges and dark for strongly supported ones; a dependence supported "
                 + "in both directions shows as two mid-tone cells mirrored across the diagonal.</p>\n");
 
+        PairTable.write(h, m, ce, t, r);
         strongest(h, m, t, r);
         parentSets(h, r);
         diagnostics(h, r);
@@ -124,29 +125,11 @@ public final class HtmlReport {
         };
     }
 
-    private static void cautions(StringBuilder h, EdgeResult r) {
-        EdgeResult.Settings s = r.settings();
-        h.append("<div class=\"caution\">\n<h2>Read this first</h2>\n<ul>\n")
-                .append("<li><b>An edge posterior is evidence of statistical dependence, not proof of causation.</b> "
-                        + "It holds only under the stated assumptions: the discretisation of the variables, the structure prior")
-                .append(s != null ? " (" + esc(s.prior()) + ")" : "")
-                .append(", the score and its equivalent sample size")
-                .append(s != null ? " (" + esc(s.score()) + ", ESS " + esc(num(s.ess())) + ")" : "")
-                .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
-                .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
-                .append("<li><b>Direction is often not identifiable</b> from observational data: many networks that differ only "
-                        + "in arrow directions fit the data equally well.</li>\n")
-                .append("<li>The posteriors can change with the ESS and the prior; see the sensitivity section when present.</li>\n")
-                .append("<li><b>Results can inform decisions about health or safety only together with domain experts and "
-                        + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</div>\n");
-    }
-
-    private static void summary(StringBuilder h, EdgeResult r, EdgeMatrix m, boolean[][] g, EdgeRecovery rec, double threshold) {
-        int above = 0;
-        for (boolean[] row : g) {
-            for (boolean b : row) {
-                above += b ? 1 : 0;
-            }
+    private static void summary(StringBuilder h, EdgeResult r, EdgeMatrix m, List<ConsensusEdges.Drawn> shown,
+                                EdgeRecovery rec, double threshold) {
+        int arrows = 0;
+        for (ConsensusEdges.Drawn d : shown) {
+            arrows += d.shape() == ConsensusEdges.Shape.ARROW ? 1 : 0;
         }
         h.append("<h2>Summary</h2>\n<table>\n");
         row(h, "method", esc(r.method()));
@@ -157,7 +140,10 @@ public final class HtmlReport {
         if (r.order() != null && !r.order().isEmpty()) {
             row(h, "order", esc(String.join(", ", r.order())));
         }
-        row(h, "edges with posterior &gt; " + f(threshold, 2), String.valueOf(above));
+        row(h, "DAG prior", "order".equals(r.method()) ? "given order (both DAG priors coincide)"
+                : r.dagPrior() == null ? "not recorded" : esc(r.dagPrior()));
+        row(h, "consensus graph (threshold " + f(threshold, 2) + ")", arrows + " arrow" + (arrows == 1 ? "" : "s") + ", "
+                + (shown.size() - arrows) + " line" + (shown.size() - arrows == 1 ? "" : "s"));
         if (rec != null) {
             row(h, "recovery of the known network", "directed AUROC " + fig(rec.directed().auroc()) + ", skeleton AUROC "
                     + fig(rec.skeleton().auroc()) + ", SHD " + rec.consensus().shd());
@@ -230,7 +216,11 @@ public final class HtmlReport {
         }
         h.append("</table>\n<p class=\"cap\">Edges with a posterior of at least 0.1").append(pairs.size() > 60 ? " (the first 60)" : "")
                 .append(". P(adjacent) = P(from \u2192 to) + P(to \u2192 from), the posterior that the two are directly dependent "
-                        + "in either direction.</p>\n");
+                        + "in either direction.")
+                .append("order".equals(r.method()) ? "" : " Over unknown orders P(from \u2192 to) counts every network with that "
+                        + "arrow, reversible ones included, so it depends on the DAG prior; read directions from the adjacency and "
+                        + "direction table.")
+                .append("</p>\n");
     }
 
     private static void parentSets(StringBuilder h, EdgeResult r) {
@@ -321,7 +311,7 @@ public final class HtmlReport {
             byEss.put(s.ess(), EdgeMatrix.of(r.variables(), s.edges(), "sensitivity entry ESS " + num(s.ess())));
             evidence.put(s.ess(), s.logEvidence());
         }
-        if (r.settings() != null && !byEss.containsKey(r.settings().ess())) {
+        if (r.settings() != null && r.settings().ess() != null && !byEss.containsKey(r.settings().ess())) {
             byEss.put(r.settings().ess(), main);
             evidence.put(r.settings().ess(), r.logEvidence());
         }
@@ -453,7 +443,7 @@ public final class HtmlReport {
         }
         EdgeResult.Settings s = r.settings();
         if (s != null) {
-            row(h, "score used", esc(s.score()) + ", ESS " + esc(num(s.ess())));
+            row(h, "score used", esc(s.score()) + (s.ess() == null ? " (no ESS)" : ", ESS " + esc(num(s.ess()))));
             row(h, "structure prior", esc(s.prior()));
             row(h, "maximum parents (d)", String.valueOf(s.maxParents()));
             if (s.forbid() != null && !s.forbid().isEmpty()) {
@@ -470,6 +460,8 @@ public final class HtmlReport {
                 row(h, "tiers", esc(String.join(" ; ", tiers)));
             }
         }
+        row(h, "DAG prior", "order".equals(r.method()) ? "given order (both DAG priors coincide)"
+                : r.dagPrior() == null ? "not recorded" : esc(r.dagPrior()));
         if (r.evidenceConvention() != null) {
             row(h, "evidence convention", esc(r.evidenceConvention()));
         }

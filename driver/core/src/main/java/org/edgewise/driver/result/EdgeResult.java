@@ -13,7 +13,7 @@ import java.util.Map;
  * @param logEvidenceNormalized  log evidence with the prior renormalised per order (given order only)
  * @param evidenceConvention     which evidence an unknown-order method weighs orders by
  * @param order                  the given order (method {@code order}), else null
- * @param settings               score, ESS, prior, d, constraints used
+ * @param settings               score, ESS (null for K2, which has none), prior, d, constraints used
  * @param store                  where the counts came from
  * @param edges                  one entry per ordered pair of distinct variables
  * @param parentSets             per variable, its most probable parent sets
@@ -55,7 +55,7 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     }
 
     @JsonInclude(JsonInclude.Include.NON_NULL)
-    public record Settings(String score, double ess, String prior, int maxParents,
+    public record Settings(String score, Double ess, String prior, int maxParents,
                            List<String> forbid, List<String> require, List<List<String>> tiers) {
     }
 

@@ -73,7 +73,22 @@ class ConsensusLayoutTest {
         ConsensusLayout lay = ConsensusLayout.of(m, g, g, List.of("v2", "v0", "v1"));
         assertArrayEquals(new int[] {2, 0, 1}, lay.order());
         assertEquals(0, lay.layer(2));
-        String svg = Charts.graph(m, g, lay, null);
+        EdgeResult r = new EdgeResult("order", m.variables(), null, null, null, List.of("v2", "v0", "v1"), null, null,
+                edgesOf(m), null, null, null, null, null, null, null);
+        ConsensusEdges ce = ConsensusEdges.of(r, m);
+        String svg = Charts.graph(m, ce, ce.drawn(0.5), lay, null);
         assertEquals(3, svg.split("marker-end=").length - 1, "all three edges drawn, one of them as an arc");
+    }
+
+    static List<EdgeResult.Edge> edgesOf(EdgeMatrix m) {
+        List<EdgeResult.Edge> e = new ArrayList<>();
+        for (int a = 0; a < m.size(); a++) {
+            for (int b = 0; b < m.size(); b++) {
+                if (a != b) {
+                    e.add(new EdgeResult.Edge(m.variables().get(a), m.variables().get(b), m.p()[a][b]));
+                }
+            }
+        }
+        return e;
     }
 }

@@ -105,8 +105,8 @@ class HtmlReportTest {
         for (String svg : svgs(html)) {
             parseXml(svg);
         }
-        String dot = DotWriter.write(EdgeMatrix.of(r), 0.5, null);
-        assertTrue(dot.contains("\"<script>alert(1)</script>\" -> \"b & 'c'\" [label=\"0.90\""), dot);
+        String dot = DotWriter.write(r, 0.5, null);
+        assertTrue(dot.contains("\"<script>alert(1)</script>\" -> \"b & 'c'\" [label=\"0.95\", penwidth=5.75, dir=none"), dot);
         assertTrue(dot.contains("\"\\\"q\\\"\""), "DOT quotes are backslash-escaped: " + dot);
     }
 

@@ -158,4 +158,48 @@ final class ReportFixtures {
                         new EdgeResult.ParentSet(List.of(), 0.1)))),
                 new EdgeResult.Network(-1230.0, Map.of(a, List.of(), b, List.of(a), c, List.of(b))), null, null, null, null, null);
     }
+
+    /** {@code r} with another DAG prior label and essential graph (null: not assessed). */
+    static EdgeResult with(EdgeResult r, String dagPrior, List<EdgeResult.EssentialPair> essentialGraph) {
+        return new EdgeResult(r.method(), r.variables(), r.logEvidence(), r.logEvidenceNormalized(), r.evidenceConvention(),
+                r.order(), r.settings(), r.store(), r.edges(), r.parentSets(), r.bestNetwork(), r.diagnostics(), r.features(),
+                r.sensitivity(), dagPrior, essentialGraph);
+    }
+
+    /**
+     * The chain slice of the demo (DESIGN.md, "DAG priors over unknown orders"): season – ambient_heat –
+     * compressor_wear. DAG-edge posteriors as the order-modular prior tilts them (P(ambient_heat → season)
+     * = 0.934, the figure measured on the demo), and an essential graph, written by hand, in which both
+     * pairs are adjacent but almost always reversible (a chain's class has no compelled edge), plus a
+     * compelled pair compressor_wear → sensor_fault ← compressor_age (a v-structure's edges are compelled).
+     */
+    static EdgeResult demoChain(String dagPrior) {
+        List<String> v = List.of("season", "ambient_heat", "compressor_wear", "compressor_age", "sensor_fault");
+        List<EdgeResult.Edge> e = new ArrayList<>();
+        double[][] p = new double[5][5];
+        p[1][0] = 0.934;
+        p[0][1] = 0.060;
+        p[2][1] = 0.870;
+        p[1][2] = 0.120;
+        p[2][4] = 0.950;
+        p[3][4] = 0.940;
+        p[3][2] = 0.030;
+        for (int a = 0; a < 5; a++) {
+            for (int b = 0; b < 5; b++) {
+                if (a != b) {
+                    e.add(new EdgeResult.Edge(v.get(a), v.get(b), p[a][b], 0.004, 1.001));
+                }
+            }
+        }
+        EdgeResult r = new EdgeResult("mcmc", v, null, null, "order-modular", null,
+                new EdgeResult.Settings("bdeu", 1.0, "uniform", 2, List.of(), List.of(), null),
+                new EdgeResult.Provenance("store", List.of("fleet.csv"), 5000, "beef", "2026-12-01T00:00:00Z", "bdeu", 1.0, null),
+                e, null, null, null, null, null, dagPrior, null);
+        return with(r, dagPrior, List.of(
+                new EdgeResult.EssentialPair("season", "ambient_heat", 0.994, 0.0, 0.004, 0.990, 0.003),
+                new EdgeResult.EssentialPair("ambient_heat", "compressor_wear", 0.990, 0.010, 0.020, 0.960, 0.004),
+                new EdgeResult.EssentialPair("compressor_wear", "sensor_fault", 0.950, 0.930, 0.0, 0.020, 0.005),
+                new EdgeResult.EssentialPair("compressor_age", "sensor_fault", 0.940, 0.920, 0.0, 0.020, 0.005),
+                new EdgeResult.EssentialPair("compressor_age", "compressor_wear", 0.030, 0.0, 0.0, 0.030, 0.002)));
+    }
 }

@@ -1,0 +1,94 @@
+package org.edgewise.driver.report;
+
+import static org.edgewise.driver.report.Html.esc;
+import static org.edgewise.driver.report.Html.f;
+
+import org.edgewise.driver.result.EdgeResult;
+
+/**
+ * The report's "Read this first" box and the consensus graph's caption: what an edge posterior
+ * means (evidence of statistical dependence under stated assumptions, not causation), which DAG
+ * prior the result was computed under (DESIGN.md, "DAG priors over unknown orders"), and how
+ * far its directions can be read (essential graph: Chickering 1995; Andersson, Madigan &amp;
+ * Perlman 1997).
+ */
+final class Cautions {
+    /** The option that produces essential-graph posteriors, named where directions were not assessed. */
+    static final String HOW_TO_ASSESS = "<code>edges</code> with <code>--features essential-graph</code>";
+
+    private Cautions() {
+    }
+
+    static void write(StringBuilder h, EdgeResult r, ConsensusEdges ce) {
+        EdgeResult.Settings s = r.settings();
+        h.append("<div class=\"caution\">\n<h2>Read this first</h2>\n<ul>\n")
+                .append("<li><b>An edge posterior is evidence of statistical dependence, not proof of causation.</b> "
+                        + "It holds only under the stated assumptions: the discretisation of the variables, the structure prior")
+                .append(s != null ? " (" + esc(s.prior()) + ")" : "")
+                .append(" and the DAG prior (below), the score and, for BDeu, its equivalent sample size")
+                .append(s != null ? " (" + esc(s.score()) + (s.ess() != null ? ", ESS " + esc(HtmlReport.num(s.ess())) : ", which has no ESS") + ")" : "")
+                .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
+                .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
+                .append("<li>").append(dagPrior(r)).append("</li>\n")
+                .append("<li>").append(directions(ce)).append("</li>\n")
+                .append("<li>The posteriors can change with the ESS and the prior; see the sensitivity section when present.</li>\n")
+                .append("<li><b>Results can inform decisions about health or safety only together with domain experts and "
+                        + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</div>\n");
+    }
+
+    /** The DAG-prior sentence (HTML). */
+    static String dagPrior(EdgeResult r) {
+        if ("order".equals(r.method())) {
+            return "<b>DAG prior:</b> given an order, the structure-modular and order-modular DAG priors coincide "
+                    + "(every network consistent with the order weighted by its parent-set prior alone).";
+        }
+        String p = r.dagPrior();
+        if (p == null) {
+            return "<b>DAG prior: not recorded</b> in this result. Results written before the DAG prior was recorded used the "
+                    + "order-modular prior, which tilts edge directions (see the documentation).";
+        }
+        return switch (p) {
+            case "structure-modular" -> "<b>DAG prior: structure-modular.</b> Every network (DAG) is weighted by its "
+                    + "parent-set prior alone; with the uniform structure prior, every DAG with at most d parents per variable "
+                    + "counts alike.";
+            case "order-modular" -> "<b>DAG prior: order-modular.</b> Every network is weighted also by the number of "
+                    + "variable orders it is consistent with (Koivisto &amp; Sood 2004). This favours some networks over "
+                    + "others that fit the data equally well, so P(a \u2192 b) can lean towards a direction the data cannot "
+                    + "tell apart from its reverse.";
+            default -> "<b>DAG prior:</b> " + esc(p) + ".";
+        };
+    }
+
+    /** How far the result's directions can be read (HTML). */
+    static String directions(ConsensusEdges ce) {
+        String base = "<b>Direction is often not identifiable</b> from observational data: networks that differ only in "
+                + "reversible arrow directions (one Markov equivalence class: the same skeleton and v-structures) fit the data "
+                + "equally well. ";
+        if (ce.givenOrder()) {
+            return base + "Here every arrow follows the order you gave \u2014 an assumption, not something learned from the data.";
+        }
+        if (ce.assessed()) {
+            return base + "The consensus graph draws an <b>arrow only for a compelled direction</b> (the same in every network "
+                    + "of the class) and a <b>line</b> for a dependence whose direction is reversible. Even a compelled direction "
+                    + "is causal only under further assumptions (no hidden common causes, no selection on the outcome).";
+        }
+        return base + "Directions were <b>not assessed</b> for this result: the consensus graph draws lines for adjacency "
+                + "P(a \u2192 b) + P(b \u2192 a) only. To see which directions are identifiable, run " + HOW_TO_ASSESS + ".";
+    }
+
+    /** The consensus graph's caption (HTML), before the layout sentence. */
+    static String graphCaption(ConsensusEdges ce, double threshold) {
+        String t = f(threshold, 2);
+        if (ce.givenOrder()) {
+            return "Arrows: edges with posterior above " + t + " given the order, directed as the order says; line width and "
+                    + "label give the posterior.";
+        }
+        if (ce.assessed()) {
+            return "Arrows: pairs whose compelled direction has posterior above " + t + " (label: P(compelled)). Lines: pairs "
+                    + "adjacent with posterior above " + t + " whose direction is mostly reversible (label: P(adjacent)). Line "
+                    + "width grows with the label.";
+        }
+        return "Lines: pairs adjacent with posterior P(a \u2192 b) + P(b \u2192 a) above " + t + " (label; line width grows with "
+                + "it). Directions <b>not assessed</b>: run " + HOW_TO_ASSESS + " to see which are identifiable.";
+    }
+}

@@ -1,0 +1,178 @@
+package org.edgewise.driver.report;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.result.EdgeResult;
+
+/**
+ * What the consensus graph (HTML and DOT) draws for every unordered pair {a, b}: only what the
+ * result can support.
+ *
+ * <ul>
+ * <li>With essential-graph posteriors ({@code essentialGraph}; Chickering 1995, Andersson,
+ *     Madigan &amp; Perlman 1997): an <b>arrow</b> a → b when P(a → b compelled) &gt; t (compelled:
+ *     oriented alike in every DAG of the Markov equivalence class, so the data and the in-degree
+ *     bound, not the prior's tilt, fix it); otherwise a <b>line</b> when P(adjacent) &gt; t —
+ *     dependent, but the direction is mostly reversible (or split).</li>
+ * <li>Without them (unknown orders): a line when P(adjacent) = P(a → b) + P(b → a) &gt; t (the two
+ *     events are disjoint for a DAG, so the sum is the adjacency posterior); directions are
+ *     <i>not assessed</i>. The DAG-edge posteriors P(a → b) of an unknown-order result mix
+ *     compelled and reversible directions and depend on the DAG prior (DESIGN.md).</li>
+ * <li>Given an order ({@code method} {@code order}): an arrow a → b when P(a → b | order) &gt; t,
+ *     its direction taken from the order — an assumption the user stated, not learned.</li>
+ * </ul>
+ * Memory: O(n²) for the pair table.
+ */
+public final class ConsensusEdges {
+    /** How a pair is drawn. */
+    public enum Shape { ARROW, LINE }
+
+    /**
+     * Posteriors of one unordered pair (a &lt; b in the result's variable order). Without an
+     * essential graph {@code aToB}, {@code bToA} and {@code undirected} are NaN (not assessed).
+     */
+    public record Pair(int a, int b, double adjacent, double aToB, double bToA, double undirected, Double mcse) {
+        public boolean assessed() {
+            return !Double.isNaN(aToB);
+        }
+    }
+
+    /** One drawn pair: from → to for an arrow (for a line, the orientation used only for layout); {@code p} labels it. */
+    public record Drawn(int from, int to, Shape shape, double p, Pair pair) {
+    }
+
+    private final EdgeMatrix m;
+    private final Pair[][] pairs;
+    private final boolean assessed;
+    private final boolean givenOrder;
+
+    private ConsensusEdges(EdgeMatrix m, Pair[][] pairs, boolean assessed, boolean givenOrder) {
+        this.m = m;
+        this.pairs = pairs;
+        this.assessed = assessed;
+        this.givenOrder = givenOrder;
+    }
+
+    /** The pairs of {@code r}; a malformed {@code essentialGraph} entry is the user's (the result file's) mistake. */
+    public static ConsensusEdges of(EdgeResult r, EdgeMatrix m) {
+        int n = m.size();
+        Pair[][] pairs = new Pair[n][n];
+        boolean assessed = r.essentialGraph() != null;
+        if (assessed) {
+            Map<String, Integer> index = new HashMap<>();
+            for (int i = 0; i < n; i++) {
+                index.put(m.variables().get(i), i);
+            }
+            for (EdgeResult.EssentialPair e : r.essentialGraph()) {
+                Integer a = index.get(e.a());
+                Integer b = index.get(e.b());
+                if (a == null || b == null || a.equals(b)) {
+                    throw new UserError("result has an essentialGraph entry " + e.a() + " - " + e.b()
+                            + " that is not a pair of two listed variables");
+                }
+                for (double v : new double[] {e.adjacent(), e.aToB(), e.bToA(), e.undirected()}) {
+                    if (!(v >= 0 && v <= 1 + 1e-9)) {
+                        throw new UserError("result has essentialGraph entry " + e.a() + " - " + e.b() + " with " + v
+                                + ", not a probability");
+                    }
+                }
+                Pair p = a < b ? new Pair(a, b, cap(e.adjacent()), cap(e.aToB()), cap(e.bToA()), cap(e.undirected()), e.mcse())
+                        : new Pair(b, a, cap(e.adjacent()), cap(e.bToA()), cap(e.aToB()), cap(e.undirected()), e.mcse());
+                pairs[p.a()][p.b()] = p;
+            }
+        }
+        for (int a = 0; a < n; a++) {
+            for (int b = a + 1; b < n; b++) {
+                if (pairs[a][b] == null) {
+                    // a pair the essential graph does not list was never adjacent in any draw
+                    pairs[a][b] = assessed ? new Pair(a, b, 0, 0, 0, 0, null)
+                            : new Pair(a, b, m.adjacency(a, b), Double.NaN, Double.NaN, Double.NaN, null);
+                }
+            }
+        }
+        return new ConsensusEdges(m, pairs, assessed, "order".equals(r.method()));
+    }
+
+    private static double cap(double p) {
+        return Math.min(1, p);
+    }
+
+    /** Whether directions were assessed by essential-graph posteriors. */
+    public boolean assessed() {
+        return assessed;
+    }
+
+    /** Whether the result was computed for a given order (directions then come from the order). */
+    public boolean givenOrder() {
+        return givenOrder;
+    }
+
+    public Pair pair(int a, int b) {
+        return a < b ? pairs[a][b] : pairs[b][a];
+    }
+
+    /** Every unordered pair, a &lt; b. */
+    public List<Pair> pairs() {
+        List<Pair> out = new ArrayList<>();
+        for (int a = 0; a < m.size(); a++) {
+            for (int b = a + 1; b < m.size(); b++) {
+                out.add(pairs[a][b]);
+            }
+        }
+        return out;
+    }
+
+    /** The pairs drawn at threshold {@code t}, by the rules of the class comment. */
+    public List<Drawn> drawn(double t) {
+        List<Drawn> out = new ArrayList<>();
+        double[][] p = m.p();
+        for (Pair x : pairs()) {
+            int a = x.a();
+            int b = x.b();
+            if (givenOrder) {
+                if (p[a][b] > t) {
+                    out.add(new Drawn(a, b, Shape.ARROW, p[a][b], x));
+                }
+                if (p[b][a] > t) {
+                    out.add(new Drawn(b, a, Shape.ARROW, p[b][a], x));
+                }
+            } else if (assessed && x.aToB() > t) {
+                out.add(new Drawn(a, b, Shape.ARROW, x.aToB(), x));
+            } else if (assessed && x.bToA() > t) {
+                out.add(new Drawn(b, a, Shape.ARROW, x.bToA(), x));
+            } else if (x.adjacent() > t) {
+                // laid out along the more probable DAG direction; drawn without an arrowhead
+                boolean ab = p[a][b] >= p[b][a];
+                out.add(new Drawn(ab ? a : b, ab ? b : a, Shape.LINE, x.adjacent(), x));
+            }
+        }
+        return out;
+    }
+
+    /** {@code g[from][to]} for every drawn pair: the graph the layout layers. */
+    public boolean[][] layoutGraph(List<Drawn> drawn) {
+        int n = m.size();
+        boolean[][] g = new boolean[n][n];
+        for (Drawn d : drawn) {
+            g[d.from()][d.to()] = true;
+        }
+        return g;
+    }
+
+    /** The pair's posteriors for a tooltip or a DOT comment, e.g. "adjacent 0.91; a → b compelled 0.02; …". */
+    public String describe(Pair x) {
+        String a = m.variables().get(x.a());
+        String b = m.variables().get(x.b());
+        if (!x.assessed()) {
+            return a + " \u2013 " + b + ": P(adjacent) " + Html.f(x.adjacent(), 3) + " (P(" + a + " \u2192 " + b + ") "
+                    + Html.f(m.p()[x.a()][x.b()], 3) + " + P(" + b + " \u2192 " + a + ") " + Html.f(m.p()[x.b()][x.a()], 3)
+                    + "); direction not assessed";
+        }
+        return a + " \u2013 " + b + ": P(adjacent) " + Html.f(x.adjacent(), 3) + "; compelled " + a + " \u2192 " + b + " "
+                + Html.f(x.aToB(), 3) + "; compelled " + b + " \u2192 " + a + " " + Html.f(x.bToA(), 3) + "; reversible "
+                + Html.f(x.undirected(), 3) + (x.mcse() != null ? " (MCSE \u2264 " + Html.f(x.mcse(), 4) + ")" : "");
+    }
+}
