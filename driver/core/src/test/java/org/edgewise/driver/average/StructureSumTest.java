@@ -86,6 +86,19 @@ class StructureSumTest {
         return DagEnumerationTest.acyclic(pa, n);
     }
 
+    /** Number of orders allowed by {@code oc} in which every node of {@code g} follows its parents. */
+    static long allowedExtensions(int[] g, OrderConstraints oc, int n) {
+        int[] pa = g.clone();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (oc.mustPrecede(a, b)) {
+                    pa[b] |= 1 << a;
+                }
+            }
+        }
+        return DagEnumerationTest.linearExtensions(pa, n);
+    }
+
     static void assertMatches(LocalScores ls, OrderConstraints oc, String what) {
         int n = ls.variableCount();
         Enumerated e = enumerate(ls, oc);
