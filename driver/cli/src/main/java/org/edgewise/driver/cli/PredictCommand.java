@@ -20,6 +20,7 @@ import org.edgewise.driver.query.BatchPrediction;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.query.UnknownOrderPrediction;
@@ -93,6 +94,10 @@ public final class PredictCommand implements Callable<Integer> {
         String meth = averaging.method.resolve("prediction");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
+        if (settings != null && settings.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            throw new UserError("predict over unknown orders is implemented under the order-modular DAG prior only: "
+                    + "add --dag-prior order-modular (structure-modular prediction is not available yet)");
+        }
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
         int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order);
@@ -121,7 +126,7 @@ public final class PredictCommand implements Callable<Integer> {
             OrderMixture mix = um.mixture();
             avg = mix;
             best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
-            averagedOver = meth + ": " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
+            averagedOver = meth + ", order-modular DAG prior: " + mix.size() + " distinct order" + (mix.size() == 1 ? "" : "s");
         }
         if (given != null) {
             checkEvidence(avg, given);
