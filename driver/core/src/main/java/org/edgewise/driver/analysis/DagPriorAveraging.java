@@ -40,6 +40,9 @@ public final class DagPriorAveraging {
     /** Largest n for DAG draws (parent bitmasks in an int). */
     public static final int MAX_DRAW_VARIABLES = 31;
 
+    /** Importance-weighted exact draws per asked sample, when rejection would take too long. */
+    static final int WEIGHTED_FACTOR = 4;
+
     private DagPriorAveraging() {
     }
 
@@ -65,9 +68,11 @@ public final class DagPriorAveraging {
         List<EdgeResult.Feature> features = null;
         List<EdgeResult.EssentialPair> essential = null;
         if (s.drawsDags()) {
-            List<int[]> dags = ExactDagSampler.of(ls, oc).draw(DagPrior.STRUCTURE_MODULAR, s.orderSamples(), s.seed() + 2,
-                    r.logDagSum());
-            DagDraws d = new DagDraws(ls.variableCount(), List.of(dags), 1, null);
+            ExactDagSampler sampler = ExactDagSampler.of(ls, oc);
+            DagDraws d = sampler.expectedTrials(s.orderSamples(), r.logDagSum()) <= ExactDagSampler.MAX_TRIALS
+                    ? new DagDraws(ls.variableCount(), List.of(sampler.draw(DagPrior.STRUCTURE_MODULAR, s.orderSamples(),
+                    s.seed() + 2, r.logDagSum())), 1, null)
+                    : sampler.drawWeighted(WEIGHTED_FACTOR * s.orderSamples(), s.seed() + 2);
             features = features(names, s, d);
             essential = s.essentialGraph() ? essential(names, d) : null;
         }

@@ -101,6 +101,33 @@ public final class ExactDagSampler {
         return out;
     }
 
+    /** Expected (order, DAG) pairs for {@code count} structure-modular draws: count · F(V) / Z. */
+    public double expectedTrials(int count, double logDagSum) {
+        return count / Math.exp(logDagSum - logOrderSum());
+    }
+
+    /**
+     * {@code count} independent order-modular draws with their importance weights 1 / ext(G)
+     * (ext counted among the allowed orders, {@link DagDraws#linearExtensions}): self-normalised,
+     * they estimate structure-modular expectations (Ellis &amp; Wong 2008) when rejection would
+     * take too many draws.
+     */
+    public DagDraws drawWeighted(int count, long seed) {
+        SplittableRandom rng = new SplittableRandom(seed);
+        List<int[]> out = new ArrayList<>(count);
+        double[][] w = new double[1][count];
+        int[] order = new int[n];
+        int[] dag = new int[n];
+        double[] t = new double[n];
+        for (int k = 0; k < count; k++) {
+            drawOrder(rng, order, t);
+            drawDag(rng, order, dag);
+            out.add(dag.clone());
+            w[0][k] = 1.0 / DagDraws.linearExtensions(dag, before);
+        }
+        return new DagDraws(n, List.of(out), 1, w);
+    }
+
     /** Backwards through F: the last member of S, then the rest. */
     private void drawOrder(SplittableRandom rng, int[] order, double[] t) {
         int s = (1 << n) - 1;
