@@ -8,6 +8,7 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
 import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.network.ForwardSampler;
@@ -38,6 +39,7 @@ public final class UnknownOrderBench {
             case "mcmc-cand" -> mcmc(Integer.parseInt(args[1]), Integer.parseInt(args[3]), Long.parseLong(args[4]),
                     Integer.parseInt(args[2]));
             case "exact" -> exact(Integer.parseInt(args[1]), Integer.parseInt(args[2]));
+            case "structure" -> structure(Integer.parseInt(args[1]), Integer.parseInt(args[2]));
             case "zeta" -> zeta(Integer.parseInt(args[1]), Integer.parseInt(args[2]));
             case "estimate" -> System.out.println(ExactOrderSum.estimateHere(Integer.parseInt(args[1])));
             default -> throw new IllegalArgumentException("unknown benchmark " + what);
@@ -159,5 +161,21 @@ public final class UnknownOrderBench {
         System.out.printf("exact n=%d d=%d: all %d edge posteriors in %.1f s wall, %.1f s CPU (~%.1f s on 2 idle cores), load average %.1f; DP arrays %.2f GiB (heap in use after %.2f GiB, max %.1f GiB); logEvidence %.3f, largest edge posterior %.3f%n",
                 n, d, n * (n - 1), sec, cpuSec, cpuSec / 2, load(), ExactOrderSum.bytes(n) / (double) (1L << 30), used / (double) (1L << 30),
                 rt.maxMemory() / (double) (1L << 30), r.logEvidence(), maxEdge);
+    }
+
+    /** Exact structure-modular sums (StructureSum) beside the order-modular DP on the same data. */
+    static void structure(int n, int d) {
+        System.out.println("  " + StructureSum.estimateHere(n));
+        LocalScores ls = scores(n, d, -1);
+        long t0 = System.nanoTime();
+        double c0 = cpu();
+        StructureSum.Result r = StructureSum.run(ls, OrderConstraints.none(n));
+        double sec = (System.nanoTime() - t0) / 1e9;
+        double cpuSec = cpu() - c0;
+        double maxEdge = Arrays.stream(r.edgePosterior()).flatMapToDouble(Arrays::stream).max().orElse(0);
+        System.out.printf("structure-modular exact n=%d d=%d: log Z, log Z_rho and all %d edge posteriors in %.1f s wall, %.1f s CPU,"
+                + " load average %.1f; arrays %.2f GiB; logEvidence %.3f, largest edge posterior %.3f%n",
+                n, d, n * (n - 1), sec, cpuSec, load(), StructureSum.bytes(n, Runtime.getRuntime().availableProcessors()) / (double) (1L << 30),
+                r.logEvidence(), maxEdge);
     }
 }

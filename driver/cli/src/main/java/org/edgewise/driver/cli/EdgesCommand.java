@@ -100,16 +100,18 @@ public final class EdgesCommand implements Callable<Integer> {
     static String table(EdgeResult r, boolean sweep) {
         StringBuilder sb = new StringBuilder();
         EdgeResult.Settings s = r.settings();
-        sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; score %s%s, prior %s, d = %d)%n",
+        sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; DAG prior %s; score %s%s, prior %s, d = %d)%n",
                 r.order() == null ? r.method() : "order " + String.join(" < ", r.order()),
-                s.score(), s.ess() == null ? "" : ", ESS " + num(s.ess()), s.prior(), s.maxParents()));
+                r.dagPrior(), s.score(), s.ess() == null ? "" : ", ESS " + num(s.ess()), s.prior(), s.maxParents()));
         if (r.logEvidence() != null) {
             if (r.logEvidenceNormalized() != null) {
                 sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",
                         r.logEvidence(), r.evidenceConvention(), r.logEvidenceNormalized()));
             } else {
-                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s, uniform prior over the allowed orders)%n",
-                        r.logEvidence(), r.evidenceConvention()));
+                sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s)%n", r.logEvidence(),
+                        "structure-modular".equals(r.evidenceConvention())
+                                ? "structure-modular: prior over the admitted DAGs, each counted once"
+                                : r.evidenceConvention() + ", uniform prior over the allowed orders"));
             }
         }
         List<EdgeResult.Edge> sorted = new ArrayList<>(r.edges());

@@ -23,6 +23,7 @@ import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.query.UnknownOrderPrediction;
@@ -110,6 +111,10 @@ public final class PredictCommand implements Callable<Integer> {
                 "a conditional needs P(given | D), a sum over the hidden variables");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
+        if (settings != null && settings.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            throw new UserError("predict over unknown orders is implemented under the order-modular DAG prior only: "
+                    + "add --dag-prior order-modular (structure-modular prediction is not available yet)");
+        }
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
         int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order);

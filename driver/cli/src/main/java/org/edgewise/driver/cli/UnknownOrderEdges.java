@@ -6,7 +6,9 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.analysis.EssSweep;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.TooLargeForExact;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -29,8 +31,10 @@ final class UnknownOrderEdges {
     static EdgeResult compute(ScoreStore store, Path storePath, List<ScoringOptions> options,
                               UnknownOrderSettings settings, PrintWriter err) {
         if (settings.method() == UnknownOrderSettings.Method.EXACT) {
-            ExactOrderSum.Estimate est = ExactOrderSum.estimateHere(store.variableCount());
-            if (est.seconds() > 5) {
+            Object est = settings.dagPrior() == DagPrior.STRUCTURE_MODULAR ? StructureSum.estimateHere(store.variableCount())
+                    : ExactOrderSum.estimateHere(store.variableCount());
+            double seconds = est instanceof StructureSum.Estimate e ? e.seconds() : ((ExactOrderSum.Estimate) est).seconds();
+            if (seconds > 5) {
                 for (int k = 0; k < options.size(); k++) {
                     err.println("edges: " + est);
                 }
@@ -47,6 +51,8 @@ final class UnknownOrderEdges {
             });
         } catch (TooLargeForExact e) {
             throw tooLarge(e);
+        } catch (StructureSum.TooLarge e) {
+            throw new UserError(e.getMessage() + " (or raise the heap with EDGEWISE_JAVA_OPTS=-Xmx…)", e);
         }
     }
 
@@ -54,6 +60,35 @@ final class UnknownOrderEdges {
     static UserError tooLarge(TooLargeForExact e) {
         return new UserError(e.estimate() + " (heap " + (e.heapBytes() >> 20)
                 + " MiB; raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or use --method mcmc)", e);
+    }
+
+    /** Pairs shown in the essential-graph table. */
+    static final int TABLE_PAIRS = 40;
+
+    /** The essential-graph features, most probably adjacent first. */
+    static String essentialTable(EdgeResult r) {
+        List<EdgeResult.EssentialPair> pairs = new ArrayList<>(r.essentialGraph());
+        pairs.sort((x, y) -> Double.compare(y.adjacent(), x.adjacent()));
+        int width = 4;
+        for (String v : r.variables()) {
+            width = Math.max(width, v.length());
+        }
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%nEssential graph (DAG prior %s; DAGs drawn from the posterior: Monte Carlo estimates)%n", r.dagPrior()));
+        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %8s  %8s  %8s  %10s  %7s%n",
+                "a", "b", "adjacent", "a->b", "b->a", "reversible", "mcse"));
+        int shown = 0;
+        for (EdgeResult.EssentialPair p : pairs) {
+            if (shown == TABLE_PAIRS || p.adjacent() < 0.01) {
+                break;
+            }
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -- %-" + width + "s  %8.4f  %8.4f  %8.4f  %10.4f  %7.4f%n",
+                    p.a(), p.b(), p.adjacent(), p.aToB(), p.bToA(), p.undirected(), p.mcse() == null ? 0.0 : p.mcse()));
+            shown++;
+        }
+        sb.append(String.format(Locale.ROOT, "  (%d of %d pairs shown: adjacent >= 0.01, at most %d; a->b: compelled in every DAG of the class; "
+                + "reversible: the data cannot tell the direction)%n", shown, pairs.size(), TABLE_PAIRS));
+        return sb.toString();
     }
 
     /** Lines for the terminal table: the MCMC diagnostics and features, most probable first. */
@@ -68,11 +103,14 @@ final class UnknownOrderEdges {
                     d.converged() ? "below " + RHAT_WARN + ": chains agree" : "ABOVE " + RHAT_WARN + ": not converged, do not trust",
                     d.ess()));
         }
+        if (r.essentialGraph() != null) {
+            sb.append(essentialTable(r));
+        }
         if (r.features() != null && !r.features().isEmpty()) {
             List<EdgeResult.Feature> f = new ArrayList<>(r.features());
             f.sort((x, y) -> Double.compare(y.posterior(), x.posterior()));
             sb.append(String.format(Locale.ROOT, "%nFeatures (%s)%n", r.method().equals("exact")
-                    ? "from one DAG per order drawn from the exact order posterior: Monte Carlo estimates"
+                    ? "from DAGs drawn from the exact posterior: Monte Carlo estimates"
                     : "from one DAG per stored order"));
             int shown = 0;
             for (EdgeResult.Feature x : f) {

@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import picocli.CommandLine.Option;
 
@@ -28,9 +29,11 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--max-steps", paramLabel = "N", description = "mcmc with --until-rhat: cap on steps per chain (default 20 x --steps)") public Long maxSteps;
 
-    @Option(names = "--features", paramLabel = "ancestors,markov-blanket", split = ",", description = "also estimate ancestor relations a ~> b and Markov-blanket membership (by one sampled DAG per sampled order)") public List<String> features = new ArrayList<>();
+    @Option(names = "--features", paramLabel = "ancestors,markov-blanket,essential-graph", split = ",", description = "also estimate ancestor relations a ~> b, Markov-blanket membership and essential-graph features (adjacent, compelled a -> b, reversible) from DAGs drawn from the posterior") public List<String> features = new ArrayList<>();
 
-    @Option(names = "--order-samples", paramLabel = "K", defaultValue = "10000", description = "exact: orders drawn from the exact order posterior for --features (default ${DEFAULT-VALUE})") public int orderSamples;
+    @Option(names = {"--samples", "--order-samples"}, paramLabel = "K", defaultValue = "10000", description = "exact: DAGs drawn from the exact posterior for --features (default ${DEFAULT-VALUE}: Monte Carlo standard error <= 0.005); mcmc: DAGs drawn over the stored orders") public int orderSamples;
+
+    @Option(names = "--dag-prior", paramLabel = "structure-modular|order-modular", defaultValue = "structure-modular", description = "prior over DAGs: structure-modular (default; every DAG with in-degree <= d weighted by its parent-set priors alone, uniform with --prior uniform) or order-modular (each DAG also weighted by its number of consistent orders); given an order both coincide") public String dagPrior;
 
     /**
      * The core's settings for {@code method}, the options checked first so that the messages name
@@ -49,11 +52,12 @@ public final class UnknownOrderOptions {
         }
         boolean anc = ancestors();
         boolean mb = markovBlanket();
-        if (method == UnknownOrderSettings.Method.EXACT && (anc || mb)) {
-            Checks.atLeast(orderSamples, 1, "--order-samples");
+        boolean eg = essentialGraph();
+        if (anc || mb || eg) {
+            Checks.atLeast(orderSamples, 1, "--samples");
         }
         return new UnknownOrderSettings(method, tierLists(), seed, chains, steps, burnIn, draws, untilRhat, maxSteps,
-                anc, mb, orderSamples, topParents);
+                anc, mb, orderSamples, topParents, prior(), eg);
     }
 
     /** The tiers as lists of names. */
@@ -72,6 +76,15 @@ public final class UnknownOrderOptions {
         return out;
     }
 
+    /** The DAG prior asked for. */
+    public DagPrior prior() {
+        return DagPrior.parse(dagPrior, "--dag-prior");
+    }
+
+    public boolean essentialGraph() {
+        return wants("essential-graph");
+    }
+
     public boolean ancestors() {
         return wants("ancestors");
     }
@@ -83,8 +96,8 @@ public final class UnknownOrderOptions {
     private boolean wants(String what) {
         for (String f : features) {
             String x = f.trim().toLowerCase(Locale.ROOT);
-            if (!x.equals("ancestors") && !x.equals("markov-blanket")) {
-                throw new UserError("--features: unknown feature '" + f + "' (valid: ancestors, markov-blanket)");
+            if (!x.equals("ancestors") && !x.equals("markov-blanket") && !x.equals("essential-graph")) {
+                throw new UserError("--features: unknown feature '" + f + "' (valid: ancestors, markov-blanket, essential-graph)");
             }
         }
         return features.stream().anyMatch(f -> f.trim().equalsIgnoreCase(what));

@@ -10,6 +10,7 @@ import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -36,10 +37,11 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void exactAndMcmcAgreeAndReportTheirDiagnostics() throws Exception {
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
-                "--features", "ancestors,markov-blanket", "--order-samples", "2000");
+                "--features", "ancestors,markov-blanket", "--order-samples", "2000", "--dag-prior", "order-modular");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("exact", e.get("method").asText());
+        assertEquals("order-modular", e.get("dagPrior").asText());
         assertEquals(20, e.get("edges").size());
         ExactOrderSum.Result lib = ExactOrderSum.run(LocalScores.build(mem, ScoringOptions.asStored()), OrderConstraints.none(5));
         assertEquals(lib.logEvidence(), e.get("logEvidence").asDouble(), 1e-9);
@@ -48,7 +50,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(30, e.get("features").size());
 
         CliRun mc = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
-                "--steps", "20000", "--seed", "7");
+                "--steps", "20000", "--seed", "7", "--dag-prior", "order-modular");
         assertEquals(0, mc.status(), mc.err());
         JsonNode m = JSON.readTree(mc.out());
         assertEquals("mcmc", m.get("method").asText());
@@ -64,8 +66,50 @@ class UnknownOrderEdgesTest extends StoreFixture {
         }
         // the same seed: the same JSON numbers
         CliRun again = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
-                "--steps", "20000", "--seed", "7");
+                "--steps", "20000", "--seed", "7", "--dag-prior", "order-modular");
         assertEquals(m.get("edges"), JSON.readTree(again.out()).get("edges"));
+    }
+
+    @Test
+    void structureModularIsTheDefaultExactAndMcmcAgreeWithTheLibrary() throws Exception {
+        CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
+                "--features", "essential-graph", "--samples", "4000");
+        assertEquals(0, ex.status(), ex.err());
+        JsonNode e = JSON.readTree(ex.out());
+        assertEquals("structure-modular", e.get("dagPrior").asText());
+        assertEquals("structure-modular", e.get("evidenceConvention").asText());
+        StructureSum.Result lib = StructureSum.run(LocalScores.build(mem, ScoringOptions.asStored()), OrderConstraints.none(5));
+        assertEquals(lib.logEvidence(), e.get("logEvidence").asDouble(), 1e-9);
+        assertEquals(lib.edgePosterior()[0][1], edge(e, "v0", "v1"), 1e-12);
+        // one entry per unordered pair; adjacent = aToB + bToA + undirected (each DAG falls in exactly one)
+        assertEquals(10, e.get("essentialGraph").size());
+        for (JsonNode p : e.get("essentialGraph")) {
+            assertEquals(p.get("adjacent").asDouble(), p.get("aToB").asDouble() + p.get("bToA").asDouble()
+                    + p.get("undirected").asDouble(), 1e-9, p.toString());
+            // adjacency from draws against the exact P(a->b) + P(b->a), within 5 MCSE
+            double exact = edge(e, p.get("a").asText(), p.get("b").asText()) + edge(e, p.get("b").asText(), p.get("a").asText());
+            assertEquals(exact, p.get("adjacent").asDouble(), 5 * p.get("mcse").asDouble() + 1e-3, p.toString());
+        }
+        CliRun mc = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
+                "--steps", "20000", "--seed", "7", "--features", "essential-graph");
+        assertEquals(0, mc.status(), mc.err());
+        JsonNode m = JSON.readTree(mc.out());
+        assertEquals("structure-modular", m.get("dagPrior").asText());
+        for (JsonNode x : e.get("edges")) {
+            double p = edge(m, x.get("from").asText(), x.get("to").asText());
+            assertEquals(x.get("posterior").asDouble(), p, 0.05, x.toString());
+        }
+        CliRun again = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
+                "--steps", "20000", "--seed", "7", "--features", "essential-graph");
+        assertEquals(m.get("edges"), JSON.readTree(again.out()).get("edges"));
+        assertEquals(m.get("essentialGraph"), JSON.readTree(again.out()).get("essentialGraph"));
+        CliRun table = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--features", "essential-graph");
+        assertTrue(table.out().contains("DAG prior structure-modular"), table.out());
+        assertTrue(table.out().contains("Essential graph (DAG prior structure-modular"), table.out());
+        CliRun given = CliRun.of("edges", "--store", store.toString(), "--order", "v0,v1,v2,v3,v4", "--format", "json");
+        assertEquals("either (order given)", JSON.readTree(given.out()).get("dagPrior").asText());
+        assertEquals("edges: --dag-prior must be structure-modular or order-modular, got 'uniform'",
+                CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--dag-prior", "uniform").errLine());
     }
 
     @Test
@@ -89,7 +133,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
         String s = store.toString();
         assertEquals("edges: --tiers: unknown variable 'zz'",
                 CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v0,zz").errLine());
-        assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket)",
+        assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket, essential-graph)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());
         assertEquals("edges: --until-rhat must be above 1 (e.g. 1.01), got 0.9",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "0.9").errLine());

@@ -39,6 +39,12 @@ public final class UnknownOrderAveraging {
 
     /** The averaged edges (and features) of {@code ls}; {@code storePath} goes into the provenance. */
     public static EdgeResult edges(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
+        if (s.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            OrderConstraints oc = s.constraints(ls);
+            return s.method() == UnknownOrderSettings.Method.EXACT
+                    ? DagPriorAveraging.exact(ls, storePath, s, oc, settings(ls, oc), progress)
+                    : DagPriorAveraging.mcmc(ls, storePath, s, oc, settings(ls, oc), progress);
+        }
         return s.method() == UnknownOrderSettings.Method.EXACT ? exact(ls, storePath, s, progress)
                 : mcmc(ls, storePath, s, progress);
     }
@@ -76,7 +82,8 @@ public final class UnknownOrderAveraging {
         return new EdgeResult("exact", names, r.logEvidence(), null, ResultBuilder.ORDER_MODULAR, null,
                 settings(ls, oc), ResultBuilder.provenance(ls.store(), storePath),
                 ResultBuilder.edges(names, r.edgePosterior()),
-                ResultBuilder.topParents(ls, r.setPosterior(), s.topParents()), null, null, features, null, DagPrior.ORDER_MODULAR.label(), null);
+                ResultBuilder.topParents(ls, r.setPosterior(), s.topParents()), null, null, features, null, DagPrior.ORDER_MODULAR.label(),
+                s.essentialGraph() ? DagPriorAveraging.exactOrderModularEssential(ls, s, oc) : null);
     }
 
     private static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
@@ -113,6 +120,18 @@ public final class UnknownOrderAveraging {
             }
             features = features(names, s, f[0], f[1], f[2], f[3], draws);
         }
+        EdgeResult.Diagnostics d = diagnostics(r, s);
+        List<EdgeResult.EssentialPair> essential = s.essentialGraph()
+                ? DagPriorAveraging.essential(names, DagPriorAveraging.fromChains(ls, oc, r, s.chains(), s.orderSamples(), false, s.seed() + 3))
+                : null;
+        return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
+                ResultBuilder.provenance(ls.store(), storePath), edges,
+                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
+                        s.topParents()), null, d, features, null, DagPrior.ORDER_MODULAR.label(), essential);
+    }
+
+    /** The order chains' diagnostics with traces thinned to at most {@value #TRACE_POINTS} points per chain. */
+    static EdgeResult.Diagnostics diagnostics(OrderMcmc.Result r, UnknownOrderSettings s) {
         int traceEvery = Math.max(1, r.traces().get(0).length / TRACE_POINTS);
         List<List<Double>> traces = new ArrayList<>();
         for (double[] t : r.traces()) {
@@ -122,13 +141,9 @@ public final class UnknownOrderAveraging {
             }
             traces.add(l);
         }
-        EdgeResult.Diagnostics d = new EdgeResult.Diagnostics(s.chains(), r.stepsPerChain(), r.burnIn(), s.seed(),
+        return new EdgeResult.Diagnostics(s.chains(), r.stepsPerChain(), r.burnIn(), s.seed(),
                 r.acceptance(), r.maxRhat(), Double.isNaN(r.minEss()) ? 0 : r.minEss(), r.converged(), traces,
                 (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery));
-        return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
-                ResultBuilder.provenance(ls.store(), storePath), edges,
-                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
-                        s.topParents()), null, d, features, null, DagPrior.ORDER_MODULAR.label(), null);
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,
@@ -164,7 +179,7 @@ public final class UnknownOrderAveraging {
         return p < 0 ? 0 : Math.min(p, 1.0);
     }
 
-    private static List<String> names(LocalScores ls) {
+    static List<String> names(LocalScores ls) {
         List<String> out = new ArrayList<>();
         for (var v : ls.store().variables()) {
             out.add(v.name());

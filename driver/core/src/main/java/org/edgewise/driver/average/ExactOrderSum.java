@@ -316,6 +316,11 @@ public final class ExactOrderSum {
         });
     }
 
+    /** Global variable bitmask (n ≤ 31) of a parent-set mask over the candidates {@code cand}. */
+    public static int globalMaskOf(long candMask, int[] cand) {
+        return globalMask(candMask, cand);
+    }
+
     /** Global variable bitmask of a parent-set mask over {@code cand}. */
     static int globalMask(long candMask, int[] cand) {
         int g = 0;

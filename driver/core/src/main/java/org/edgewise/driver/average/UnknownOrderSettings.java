@@ -22,10 +22,14 @@ import org.edgewise.driver.UserError;
  * @param orderSamples  exact: orders drawn from the exact order posterior for features (and for
  *                      prediction when there are too many orders to enumerate)
  * @param topParents    most probable parent sets listed per variable in the result
+ * @param dagPrior      the prior over DAGs (null: {@link DagPrior#STRUCTURE_MODULAR}, the default)
+ * @param essentialGraph also estimate essential-graph features (DAGs drawn from the posterior,
+ *                      {@code orderSamples} of them for the exact method)
  */
 public record UnknownOrderSettings(Method method, List<List<String>> tiers, long seed, int chains, long steps,
                                    Long burnIn, int draws, Double untilRhat, Long maxSteps, boolean ancestors,
-                                   boolean markovBlanket, int orderSamples, int topParents) {
+                                   boolean markovBlanket, int orderSamples, int topParents, DagPrior dagPrior,
+                                   boolean essentialGraph) {
     /** The averaging methods over unknown orders. */
     public enum Method {
         /** Exact sum over all orders by dynamic programming (Koivisto &amp; Sood 2004). */
@@ -41,6 +45,7 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
 
     public UnknownOrderSettings {
         tiers = tiers == null ? List.of() : List.copyOf(tiers);
+        dagPrior = dagPrior == null ? DagPrior.STRUCTURE_MODULAR : dagPrior;
         if (method == Method.MCMC) {
             Checks.atLeast(chains, 1, "the number of chains");
             Checks.atLeast(steps, 1, "the steps per chain");
@@ -51,7 +56,7 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
                 throw new UserError("the split-R-hat target must be above 1 (e.g. 1.01), got " + untilRhat);
             }
         }
-        if (method == Method.EXACT && (ancestors || markovBlanket)) {
+        if (method == Method.EXACT && (ancestors || markovBlanket || essentialGraph)) {
             Checks.atLeast(orderSamples, 1, "the number of order samples");
         }
         Checks.zeroOrMore(topParents, "the number of top parent sets");
@@ -60,6 +65,11 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
     /** Whether features beyond single edges are estimated. */
     public boolean features() {
         return ancestors || markovBlanket;
+    }
+
+    /** Whether DAGs are drawn for features (ancestors, Markov blanket, essential graph). */
+    public boolean drawsDags() {
+        return ancestors || markovBlanket || essentialGraph;
     }
 
     /** The burn-in used: as given, else a quarter of the steps. */

@@ -9,7 +9,7 @@ import java.util.Map;
  *
  * @param method                 {@code order} (given order), {@code exact} (DP over all orders) or {@code mcmc}
  * @param variables              variable names in store order
- * @param logEvidence            log evidence, order-modular convention (given order or exact); null for MCMC
+ * @param logEvidence            log evidence (given order or exact; under {@code evidenceConvention}); null for MCMC
  * @param logEvidenceNormalized  log evidence with the prior renormalised per order (given order only)
  * @param evidenceConvention     which evidence an unknown-order method weighs orders by
  * @param order                  the given order (method {@code order}), else null
@@ -23,7 +23,8 @@ import java.util.Map;
  * @param sensitivity            the same edges under other ESS values, when several were asked
  * @param dagPrior               the DAG prior an unknown-order result is computed under
  *                               ({@code structure-modular} or {@code order-modular}, see
- *                               {@code average.DagPrior}); null given an order (both coincide)
+ *                               {@code average.DagPrior}); {@code "either (order given)"} given an
+ *                               order, where both coincide
  * @param essentialGraph         essential-graph features per unordered pair, when asked
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)

@@ -28,6 +28,9 @@ public final class ResultBuilder {
     /** How the given-order result states its evidence (DESIGN.md, "Convention"). */
     public static final String ORDER_MODULAR = "order-modular";
 
+    /** The {@code dagPrior} of a given-order result: given an order both DAG priors coincide. */
+    public static final String EITHER_GIVEN_ORDER = "either (order given)";
+
     /**
      * The complete result of averaging given one order: evidence in both conventions, every edge
      * posterior, the {@code topK} most probable parent sets per variable, the best network under
@@ -42,7 +45,7 @@ public final class ResultBuilder {
                 ORDER_MODULAR, VariableOrder.names(store.manifest(), op.order()), settings(ls),
                 provenance(store, storePath), edges(names, op.result().edgePosterior()),
                 topParents(ls, op.setPosteriors(), topK), network(ls, op.bestSets()), null, null,
-                sensitivity == null || sensitivity.isEmpty() ? null : sensitivity, null, null);
+                sensitivity == null || sensitivity.isEmpty() ? null : sensitivity, EITHER_GIVEN_ORDER, null);
     }
 
     /** The sensitivity entry of one ESS value: its evidence and every edge posterior. */
