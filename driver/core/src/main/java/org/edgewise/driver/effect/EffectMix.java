@@ -70,6 +70,7 @@ final class EffectMix {
                 noPathMix += w[u] * np[u];
             }
         }
+        noPathMix = Math.min(1, noPathMix); // weights summing to 1 + 1e-15
         EffectDraws draws = EffectDraws.of(q.versus() != null ? "difference" : "probability", values, noPath,
                 EffectEngine.LEVEL);
         double noPathMcse;
