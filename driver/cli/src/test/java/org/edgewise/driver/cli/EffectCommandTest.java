@@ -110,4 +110,31 @@ class EffectCommandTest extends StoreFixture {
             assertFalse(r.errLine().contains("\n"));
         }
     }
+
+    @Test
+    void reportGainsAnInterventionsSection() throws Exception {
+        Path e = dir.resolve("effect.json");
+        assertEquals(0, effect("--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--versus", "v0=s0",
+                "--out", e.toString(), "--effect-draws", "100").status());
+        EffectResult er = EffectResult.read(e).get(0);
+        Path edges = dir.resolve("edges.json");
+        assertEquals(0, CliRun.of("edges", "--store", store.toString(), "--order", ORDER, "--out", edges.toString()).status());
+        Path html = dir.resolve("r.html");
+        CliRun r = CliRun.of("report", "--result", edges.toString(), "--effect", e.toString(), "--out", html.toString());
+        assertEquals(0, r.status(), r.err());
+        String text = Files.readString(html);
+        assertTrue(text.contains("Edge posterior heatmap") && text.contains("Interventions: what setting a variable would do"));
+        assertTrue(text.contains(String.format(java.util.Locale.ROOT, "%.4f", er.probability())));
+        assertTrue(text.contains(String.format(java.util.Locale.ROOT, "%.4f", er.observational().probability())));
+        assertTrue(text.contains("no hidden confounders"));
+        // every SVG of the section is well-formed XML with one bar per histogram bin
+        int at = text.indexOf("<svg", text.indexOf("id=\"interventions\""));
+        String svg = text.substring(at, text.indexOf("</svg>", at) + 6);
+        var doc = javax.xml.parsers.DocumentBuilderFactory.newInstance().newDocumentBuilder()
+                .parse(new java.io.ByteArrayInputStream(svg.getBytes(java.nio.charset.StandardCharsets.UTF_8)));
+        assertEquals(er.posterior().counts().length, doc.getElementsByTagName("rect").getLength());
+        CliRun none = CliRun.of("report", "--out", html.toString());
+        assertEquals(2, none.status());
+        assertEquals("report: give --result FILE (an edges result), --effect FILE (an effect result), or both", none.errLine());
+    }
 }
