@@ -19,7 +19,7 @@ import picocli.CommandLine.Command;
         footer = {"%nThe Spark job, started by scripts/edgewise from the job's classpath:",
                 "  tally     Scan a table once and write a score store (see 'scripts/edgewise tally --help')."},
         subcommands = {CommandLine.HelpCommand.class, ScoresCommand.class,
-                EdgesCommand.class, PredictCommand.class, SimulateCommand.class, ReportCommand.class,
+                EdgesCommand.class, PredictCommand.class, EffectCommand.class, SimulateCommand.class, ReportCommand.class,
                 CompareCommand.class})
 public final class EdgewiseCli implements Runnable {
     /** Exit status for a user mistake (bad option, bad file, damaged store). */

@@ -7,7 +7,10 @@ import org.edgewise.driver.network.NetworkReader;
 import org.edgewise.driver.report.DotWriter;
 import org.edgewise.driver.report.EdgeMatrix;
 import org.edgewise.driver.report.EdgeRecovery;
+import org.edgewise.driver.report.EffectSection;
 import org.edgewise.driver.report.HtmlReport;
+import org.edgewise.driver.result.EffectResult;
+import org.edgewise.driver.UserError;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
@@ -23,7 +26,9 @@ final class ReportCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
 
-    @Option(names = "--result", required = true, paramLabel = "FILE", description = "result JSON of edges") Path result;
+    @Option(names = "--result", paramLabel = "FILE", description = "result JSON of edges") Path result;
+
+    @Option(names = "--effect", paramLabel = "FILE", description = "result JSON of effect: adds an interventions section (alone: a page of its own)") Path effect;
 
     @Option(names = "--truth", paramLabel = "FILE", description = "a known network (network JSON) to mark and compare against") Path truth;
 
@@ -39,6 +44,16 @@ final class ReportCommand implements Callable<Integer> {
     public Integer call() {
         String fmt = Output.format(format, "html", "dot");
         CompareCommand.checkThreshold(threshold);
+        if (result == null && effect == null) {
+            throw new UserError("give --result FILE (an edges result), --effect FILE (an effect result), or both");
+        }
+        if (result == null) {
+            if (fmt.equals("dot")) {
+                throw new UserError("--format dot needs --result (an edges result)");
+            }
+            Output.write(spec, out, EffectSection.page(EffectResult.read(effect), effect.getFileName().toString()));
+            return 0;
+        }
         EdgeResult r = ResultJson.readEdges(result);
         Network net = truth == null ? null : NetworkReader.read(truth);
         String name = result.getFileName().toString();
@@ -48,6 +63,9 @@ final class ReportCommand implements Callable<Integer> {
             text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()));
         } else {
             text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold);
+            if (effect != null) {
+                text = EffectSection.insertInto(text, EffectResult.read(effect));
+            }
         }
         Output.write(spec, out, text);
         if (out != null) {

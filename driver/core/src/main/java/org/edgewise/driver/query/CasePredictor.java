@@ -233,6 +233,38 @@ public final class CasePredictor implements CaseProbability {
                 parentUnion, skippedMass, limit);
     }
 
+    /**
+     * The truncated factorisation of an intervention (Spirtes, Glymour &amp; Scheines 1993; Pearl
+     * 2000, eq. 3.10): the same predictor with the factors of {@code vars} replaced by the constant
+     * 1, so that {@link #logProbability} of a case fixing them gives log P(case | do(vars), D, ≺) —
+     * each intervened variable is set, not explained by its parents, and its parents are no longer
+     * needed on its account.
+     */
+    public CasePredictor intervened(int[] vars) {
+        int[][][] ps = parents.clone();
+        long[][][] cf = configs.clone();
+        long[][][] ct = counts.clone();
+        long[][][] tot = rowTotals.clone();
+        double[][] qq = q.clone();
+        double[][] w = weight.clone();
+        double[][][] dn = dense.clone();
+        int[][] union = parentUnion.clone();
+        for (int v : vars) {
+            Checks.atLeast(v, 0, "an intervened variable");
+            ps[v] = new int[][] {new int[0]};
+            cf[v] = new long[][] {new long[0]};
+            ct[v] = new long[][] {new long[0]};
+            tot[v] = new long[][] {new long[0]};
+            qq[v] = new double[] {1};
+            w[v] = new double[] {1};
+            double[] one = new double[arity[v]];
+            Arrays.fill(one, 1.0);
+            dn[v] = new double[][] {one};
+            union[v] = new int[0];
+        }
+        return new CasePredictor(store, score, order, ps, cf, ct, tot, qq, w, dn, union, skippedMass, maxHiddenStates);
+    }
+
     /** The same predictor without dense tables: every lookup by binary search (for tests of that path). */
     CasePredictor sparse() {
         double[][][] none = new double[n][][];

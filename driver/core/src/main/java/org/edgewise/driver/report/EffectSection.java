@@ -1,0 +1,129 @@
+package org.edgewise.driver.report;
+
+import static org.edgewise.driver.report.Html.c;
+import static org.edgewise.driver.report.Html.esc;
+import static org.edgewise.driver.report.Html.f;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import org.edgewise.driver.result.EffectResult;
+
+/**
+ * The report's "Interventions" section from {@code effect} results: per question, the
+ * interventional probability beside the observational conditional, the probability of no effect,
+ * the credible interval, a histogram (SVG) of the effect's posterior draws, and the assumptions.
+ * Added to an edges report before its closing tag ({@link #insertInto}), or as a page of its own
+ * ({@link #page}). Every name from the data passes through {@link Html#esc}.
+ */
+public final class EffectSection {
+    private EffectSection() {
+    }
+
+    /** The edges report {@code html} with the section added before {@code </body>}. */
+    public static String insertInto(String html, List<EffectResult> results) {
+        int at = html.lastIndexOf("</body>");
+        return html.substring(0, at) + section(results) + html.substring(at);
+    }
+
+    /** A self-contained page holding the section alone. */
+    public static String page(List<EffectResult> results, String name) {
+        return "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
+                + "<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n"
+                + "<title>Edgewise interventions: " + esc(name) + "</title>\n<style>body{font-family:system-ui,sans-serif;"
+                + "max-width:1000px;margin:24px auto;padding:0 16px;color:#1f2d3d}table{border-collapse:collapse}"
+                + "td,th{border:1px solid #d5dce4;padding:4px 9px;text-align:left}.caution{border:3px solid #c77700;"
+                + "background:#fff6e5;padding:12px 18px;border-radius:8px}.cap{color:#5a6b7d;font-size:14px}</style>\n</head>\n<body>\n"
+                + "<h1>Interventions</h1>\n<p class=\"cap\">Edgewise report of <code>" + esc(name) + "</code></p>\n"
+                + section(results) + "</body>\n</html>\n";
+    }
+
+    static String section(List<EffectResult> results) {
+        StringBuilder h = new StringBuilder();
+        h.append("<h2 id=\"interventions\">Interventions: what setting a variable would do</h2>\n");
+        h.append("<div class=\"caution\"><b>Read this first.</b> An interventional probability from observational data holds only if ")
+                .append("the variables include every common cause of the ones involved (no hidden confounders), the data were not selected ")
+                .append("on an effect, and the network is read causally. It is a model-based estimate to weigh with domain experts and local ")
+                .append("practice, never a substitute for an experiment where one is possible.</div>\n");
+        for (EffectResult r : results) {
+            one(h, r);
+        }
+        return h.toString();
+    }
+
+    private static void one(StringBuilder h, EffectResult r) {
+        String y = text(r.target()) + (r.given() == null ? "" : ", given " + text(r.given()));
+        h.append("<h3>").append(esc(text(r.intervention()))).append(" \u2192 ").append(esc(y)).append("</h3>\n");
+        h.append("<table>\n<tr><th></th><th>setting (do)</th><th>conditioning (observed)</th></tr>\n");
+        h.append("<tr><td>").append(esc(text(r.intervention()))).append("</td><td class=\"num\">").append(f(r.probability(), 4))
+                .append(mcse(r.estimate(), r.mcse())).append("</td><td class=\"num\">").append(f(r.observational().probability(), 4))
+                .append("</td></tr>\n");
+        if (r.versus() != null) {
+            h.append("<tr><td>").append(esc(text(r.versus().intervention()))).append("</td><td class=\"num\">")
+                    .append(f(r.versus().probability(), 4)).append("</td><td class=\"num\">")
+                    .append(f(r.observational().versusProbability(), 4)).append("</td></tr>\n");
+            h.append("<tr><th>difference</th><td class=\"num\">").append(f(r.difference(), 4)).append("</td><td class=\"num\">")
+                    .append(f(r.observational().difference(), 4)).append("</td></tr>\n");
+        }
+        h.append("</table>\n");
+        h.append("<p>Probability of no effect (no directed path from the set variables to the outcome): <b>")
+                .append(f(r.noPathProbability(), 4)).append("</b>").append(mcse(r.noPathEstimate(), r.noPathMcse()))
+                .append(". ").append(Math.round(100 * r.interval().level())).append("% credible interval of the ")
+                .append(esc(r.interval().of())).append(": [").append(f(r.interval().lower(), 4)).append(", ")
+                .append(f(r.interval().upper(), 4)).append("].</p>\n");
+        h.append("<div class=\"fig\">").append(histogram(r.posterior())).append("</div>\n");
+        h.append("<p class=\"cap\">Posterior distribution of the ").append(esc(r.posterior().of())).append(" over ")
+                .append(r.posterior().draws()).append(" draws of a network and its parameters. Averaged over: ")
+                .append(esc(r.averagedOver())).append(r.dagPrior() == null ? "" : "; DAG prior " + esc(r.dagPrior()))
+                .append(". The observational column conditions on the variable instead of setting it; where the two differ, "
+                        + "the data's association includes confounding or reverse influence.</p>\n");
+    }
+
+    private static String mcse(String estimate, double mcse) {
+        return "exact".equals(estimate) ? " (exact)" : " (sampled, MCSE " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + ")";
+    }
+
+    /** Bars of equal-width bins from binLow to binHigh, a zero line when zero is inside, and the axis ends. */
+    static String histogram(EffectResult.Posterior p) {
+        int[] counts = p.counts();
+        int max = 1;
+        for (int k : counts) {
+            max = Math.max(max, k);
+        }
+        double w = 520;
+        double hgt = 160;
+        double left = 40;
+        double top = 10;
+        double bw = w / counts.length;
+        StringBuilder s = new StringBuilder();
+        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" role=\"img\" width=\"").append(c(w + 2 * left)).append("\" height=\"")
+                .append(c(hgt + 50)).append("\" font-family=\"sans-serif\" font-size=\"12\">\n<title>Posterior draws of the ")
+                .append(esc(p.of())).append("</title>\n");
+        for (int i = 0; i < counts.length; i++) {
+            double bh = hgt * counts[i] / max;
+            s.append("<rect x=\"").append(c(left + i * bw + 1)).append("\" y=\"").append(c(top + hgt - bh)).append("\" width=\"")
+                    .append(c(bw - 2)).append("\" height=\"").append(c(bh)).append("\" fill=\"#4292c6\"/>\n");
+        }
+        double lo = p.binLow();
+        double hi = p.binHigh();
+        if (lo < 0 && hi > 0) {
+            double x0 = left + (0 - lo) / (hi - lo) * w;
+            s.append("<line x1=\"").append(c(x0)).append("\" x2=\"").append(c(x0)).append("\" y1=\"").append(c(top))
+                    .append("\" y2=\"").append(c(top + hgt)).append("\" stroke=\"#c0254a\" stroke-dasharray=\"4 3\"/>\n");
+        }
+        s.append("<line x1=\"").append(c(left)).append("\" x2=\"").append(c(left + w)).append("\" y1=\"").append(c(top + hgt))
+                .append("\" y2=\"").append(c(top + hgt)).append("\" stroke=\"#34495e\"/>\n");
+        s.append("<text x=\"").append(c(left)).append("\" y=\"").append(c(top + hgt + 16)).append("\">").append(f(lo, 4)).append("</text>\n");
+        s.append("<text x=\"").append(c(left + w)).append("\" y=\"").append(c(top + hgt + 16)).append("\" text-anchor=\"end\">")
+                .append(f(hi, 4)).append("</text>\n");
+        s.append("<text x=\"").append(c(left + w / 2)).append("\" y=\"").append(c(top + hgt + 34)).append("\" text-anchor=\"middle\">")
+                .append(esc(p.of())).append(" (mean ").append(f(p.mean(), 4)).append(")</text>\n</svg>");
+        return s.toString();
+    }
+
+    private static String text(Map<String, String> m) {
+        List<String> parts = new ArrayList<>();
+        m.forEach((k, v) -> parts.add(k + "=" + v));
+        return String.join(", ", parts);
+    }
+}

@@ -1,0 +1,135 @@
+package org.edgewise.driver.result;
+
+import com.fasterxml.jackson.annotation.JsonInclude;
+import com.fasterxml.jackson.annotation.JsonProperty;
+import com.fasterxml.jackson.annotation.JsonPropertyOrder;
+import com.fasterxml.jackson.databind.JsonNode;
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import org.edgewise.driver.UserError;
+
+/**
+ * The JSON result of {@code effect} for one question (docs/effect.md says what every field means).
+ *
+ * @param intervention      {@code "do"}: the intervention x = a, variable → state
+ * @param target            the outcome y = b
+ * @param given             evidence w = e observed after the intervention, or null
+ * @param probability       P(y | do(x = a)[, w], D) averaged over structures and parameters
+ * @param mcse              its Monte Carlo standard error (0 when {@code estimate} is exact)
+ * @param estimate          {@code exact} or {@code sampled}
+ * @param versus            the reference intervention and its probability, or null
+ * @param difference        probability − versus.probability, or null
+ * @param differenceMcse    its MCSE, or null
+ * @param ratio             probability / versus.probability, or null
+ * @param noPathProbability posterior probability of no directed path from an intervened variable to
+ *                          the target (or the evidence): the effect is then exactly zero
+ * @param noPathMcse        its MCSE (0 when exact)
+ * @param noPathEstimate    {@code exact} (forward pass per order) or {@code sampled} (DAG draws)
+ * @param interval          central credible interval of the effect from (DAG, θ) draws
+ * @param posterior         the draws: their mean, count, histogram and share without a path
+ * @param observational     the observational conditional P(y | x = a[, w], D) beside it
+ * @param method            {@code order}, {@code exact} or {@code mcmc}
+ * @param dagPrior          the DAG prior over unknown orders; null given an order (both coincide)
+ * @param averagedOver      what was averaged over, in words
+ * @param order             the given order, else null
+ * @param settings          score, ESS, prior, d, constraints
+ * @param converged         MCMC: whether the chains agreed (largest split-R̂ below 1.01), else null
+ * @param maxRhat           MCMC: the largest split-R̂, else null
+ * @param assumptions       the assumptions the causal reading rests on
+ * @param note              how to read it
+ */
+@JsonInclude(JsonInclude.Include.NON_NULL)
+@JsonPropertyOrder({"formatVersion", "kind", "do", "target", "given", "probability", "mcse", "estimate", "versus",
+    "difference", "differenceMcse", "ratio", "noPathProbability", "noPathMcse", "noPathEstimate", "interval",
+    "posterior", "observational"})
+public record EffectResult(@JsonProperty("do") Map<String, String> intervention, Map<String, String> target,
+                           Map<String, String> given, double probability, double mcse, String estimate, Versus versus,
+                           Double difference, Double differenceMcse, Double ratio, double noPathProbability,
+                           double noPathMcse, String noPathEstimate, Interval interval, Posterior posterior,
+                           Observational observational, String method, String dagPrior, String averagedOver,
+                           List<String> order, EdgeResult.Settings settings, Boolean converged, Double maxRhat,
+                           List<String> assumptions, String note) {
+    /** The format version written and read. */
+    public static final int FORMAT_VERSION = 1;
+
+    @JsonProperty("formatVersion")
+    public int formatVersion() {
+        return FORMAT_VERSION;
+    }
+
+    @JsonProperty("kind")
+    public String kind() {
+        return "effect";
+    }
+
+    /** The reference intervention x = a0: its probability P(y | do(x = a0)[, w], D) and MCSE. */
+    public record Versus(@JsonProperty("do") Map<String, String> intervention, double probability, double mcse) {
+    }
+
+    /** A central credible interval of {@code of} ({@code difference} or {@code probability}). */
+    public record Interval(double level, double lower, double upper, String of) {
+    }
+
+    /**
+     * The (DAG, θ) draws of the effect: their count and mean, a histogram of equal-width bins from
+     * {@code binLow} to {@code binHigh}, and the share of draws whose DAG has no path.
+     */
+    public record Posterior(String of, int draws, double mean, double binLow, double binHigh, int[] counts,
+                            double noPathShare) {
+    }
+
+    /** The observational conditionals P(y | x = a[, w], D) and, with a reference, P(y | x = a0[, w], D). */
+    public record Observational(double probability, Double versusProbability, Double difference) {
+    }
+
+    /** Several results ({@code effect --cases}). */
+    @JsonPropertyOrder({"formatVersion", "kind", "results"})
+    public record Batch(List<EffectResult> results) {
+        @JsonProperty("formatVersion")
+        public int formatVersion() {
+            return FORMAT_VERSION;
+        }
+
+        @JsonProperty("kind")
+        public String kind() {
+            return "effects";
+        }
+    }
+
+    /** Reads an effect result or a batch of them; refuses another kind or format version, naming the file. */
+    public static List<EffectResult> read(Path file) {
+        if (!Files.isRegularFile(file)) {
+            throw new UserError("effect file " + file + " does not exist");
+        }
+        try {
+            JsonNode tree = ResultJson.MAPPER.readTree(file.toFile());
+            String kind = tree == null || tree.get("kind") == null ? "" : tree.get("kind").asText();
+            if (!kind.equals("effect") && !kind.equals("effects")) {
+                throw new UserError("effect file " + file + " is not an effect result (no \"kind\": \"effect\")");
+            }
+            JsonNode v = tree.get("formatVersion");
+            if (v == null || v.asInt() != FORMAT_VERSION) {
+                throw new UserError("effect file " + file + " has " + (v == null ? "no format version" : "format version " + v)
+                        + "; this Edgewise reads effect results of format version " + FORMAT_VERSION);
+            }
+            List<EffectResult> out = new ArrayList<>();
+            if (kind.equals("effect")) {
+                out.add(ResultJson.MAPPER.treeToValue(tree, EffectResult.class));
+            } else {
+                for (JsonNode r : tree.get("results")) {
+                    out.add(ResultJson.MAPPER.treeToValue(r, EffectResult.class));
+                }
+            }
+            return out;
+        } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+            throw new UserError("effect file " + file + " is not valid JSON (line " + e.getLocation().getLineNr()
+                    + ", column " + e.getLocation().getColumnNr() + ")");
+        } catch (IOException e) {
+            throw new UserError("cannot read effect file " + file + ": " + e.getMessage());
+        }
+    }
+}
