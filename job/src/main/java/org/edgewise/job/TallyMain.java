@@ -17,6 +17,7 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.Version;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
+import org.edgewise.driver.store.StoreTarget;
 import org.edgewise.job.TallyOptions.MissingPolicy;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
@@ -41,7 +42,7 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)") Path out;
 
-    @Option(names = "--overwrite", description = "replace an existing store") boolean overwrite;
+    @Option(names = "--overwrite", description = "replace an existing score store (never a file, an input, or a directory holding anything else)") boolean overwrite;
 
     @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})") int maxParents;
 
@@ -192,6 +193,8 @@ public final class TallyMain implements Callable<Integer> {
                 tierList.add(names);
             }
         }
+        // before Spark starts: nothing but a store is ever replaced, and the directory is writable
+        StoreTarget.check(out, overwrite, inputs);
         return new TallyOptions(inputs, fmt, delimiterChar(delimiter), out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
                 tierList, policy, maxStates, bins, kind, ess, partitions, parseBytes(memoryBudget));

@@ -29,6 +29,8 @@ final class ReportCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
             description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
     double threshold;
@@ -37,6 +39,7 @@ final class ReportCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         String fmt = Output.format(format, "html", "dot");
         CompareCommand.checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);

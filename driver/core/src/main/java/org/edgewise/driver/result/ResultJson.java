@@ -48,7 +48,7 @@ public final class ResultJson {
         try {
             AtomicWrite.text(file, text);
         } catch (IOException e) {
-            throw new UserError("cannot write " + file + ": " + e.getMessage());
+            throw new UserError("cannot write " + file + ": " + AtomicWrite.reason(e));
         }
     }
 
