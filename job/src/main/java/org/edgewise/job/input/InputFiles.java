@@ -143,6 +143,11 @@ public final class InputFiles {
                     throw new UserError("input " + display(file) + " line 1: duplicate column name '" + names.get(i)
                             + "' (columns " + (j + 1) + " and " + (i + 1) + ")");
                 }
+                if (names.get(j).equalsIgnoreCase(names.get(i))) {
+                    throw new UserError("input " + display(file) + " line 1: column names '" + names.get(j) + "' and '"
+                            + names.get(i) + "' (columns " + (j + 1) + " and " + (i + 1) + ") differ only by case;"
+                            + " Spark matches names regardless of case, so rename one");
+                }
             }
         }
         return names;

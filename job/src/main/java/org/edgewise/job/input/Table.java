@@ -53,23 +53,51 @@ public final class Table {
             columns = headers.get(0);
         } else {
             List<List<String>> headers = new ArrayList<>();
+            List<StructType> schemas = new ArrayList<>();
             for (DataFile f : files) {
-                headers.add(parquetColumns(spark, f));
+                StructType schema = parquetSchema(spark, f);
+                schemas.add(schema);
+                headers.add(parquetColumns(f, schema));
             }
             InputFiles.sameColumns(files, headers);
+            sameTypes(files, schemas);
             columns = headers.get(0);
         }
         return new Table(spark, files, columns, csv, delimiter);
     }
 
-    private static List<String> parquetColumns(SparkSession spark, DataFile f) {
-        StructType schema;
+    /**
+     * The schema from the file's footer; an empty, truncated or non-Parquet file is refused here
+     * (Spark throws a checked {@code SparkException} undeclared, hence {@code catch (Exception)}).
+     */
+    private static StructType parquetSchema(SparkSession spark, DataFile f) {
         try {
-            schema = spark.read().parquet(f.uri()).schema();
-        } catch (RuntimeException e) {
-            throw new UserError("input " + InputFiles.display(f) + ": not a readable Parquet file ("
-                    + InputFiles.oneLine(e) + ")");
+            return spark.read().parquet(f.uri()).schema();
+        } catch (Exception e) {
+            String reason = ReadFailure.inputReason(e);
+            if (reason != null && reason.startsWith("I/O error")) {
+                throw new UserError("input " + InputFiles.display(f) + ": cannot read it: " + reason, e);
+            }
+            throw new UserError("input " + InputFiles.display(f) + ": not a readable Parquet file (empty, truncated,"
+                    + " damaged or another format); for a CSV file pass --format csv", e);
         }
+    }
+
+    /** Every Parquet input's columns must have the first file's types (Spark reads all with the first schema). */
+    private static void sameTypes(List<DataFile> files, List<StructType> schemas) {
+        for (int i = 1; i < files.size(); i++) {
+            for (StructField field : schemas.get(i).fields()) {
+                DataType first = schemas.get(0).apply(field.name()).dataType();
+                if (!first.equals(field.dataType())) {
+                    throw new UserError("input " + InputFiles.display(files.get(i)) + ": column '" + field.name()
+                            + "' is " + field.dataType().simpleString() + " but " + first.simpleString() + " in "
+                            + InputFiles.display(files.get(0)) + "; give inputs of one schema");
+                }
+            }
+        }
+    }
+
+    private static List<String> parquetColumns(DataFile f, StructType schema) {
         List<String> names = new ArrayList<>();
         for (StructField field : schema.fields()) {
             DataType t = field.dataType();
@@ -80,6 +108,13 @@ public final class Table {
             }
             if (names.contains(field.name())) {
                 throw new UserError("input " + InputFiles.display(f) + ": duplicate column name '" + field.name() + "'");
+            }
+            for (String other : names) {
+                if (other.equalsIgnoreCase(field.name())) {
+                    throw new UserError("input " + InputFiles.display(f) + ": column names '" + other + "' and '"
+                            + field.name() + "' differ only by case; Spark matches names regardless of case, so"
+                            + " rename one");
+                }
             }
             if (field.name().isBlank()) {
                 throw new UserError("input " + InputFiles.display(f) + ": column " + (names.size() + 1) + " has no name");

@@ -119,9 +119,9 @@ public final class TableScan {
         ColumnStats stats;
         try {
             stats = rawBlocks.map(b -> b.stats().empty().merge(b.stats())).reduce(ColumnStats::merge);
-        } catch (RuntimeException e) {
+        } catch (Exception e) { // SparkException is checked but thrown undeclared from Scala
             rawBlocks.unpersist(false);
-            throw e;
+            throw ReadFailure.of(table, e);
         }
         try {
             return finish(table, o, names, fields, binned, rawBlocks, stats);
