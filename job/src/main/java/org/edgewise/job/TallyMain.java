@@ -19,6 +19,7 @@ import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.StoreTarget;
 import org.edgewise.job.TallyOptions.MissingPolicy;
+import org.edgewise.job.plan.FamilyPlan;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -193,11 +194,15 @@ public final class TallyMain implements Callable<Integer> {
                 tierList.add(names);
             }
         }
+        long budget = parseBytes(memoryBudget);
+        if (master.startsWith("local")) { // the tasks run in this JVM
+            FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
+        }
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
         StoreTarget.check(out, overwrite, inputs);
         return new TallyOptions(inputs, fmt, delimiterChar(delimiter), out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
-                tierList, policy, maxStates, bins, kind, ess, partitions, parseBytes(memoryBudget));
+                tierList, policy, maxStates, bins, kind, ess, partitions, budget);
     }
 
     static char delimiterChar(String d) {

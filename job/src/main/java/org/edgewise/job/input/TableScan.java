@@ -289,10 +289,12 @@ public final class TableScan {
             return new UserError(head + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude "
                     + name);
         }
+        boolean canRaise = maxStates < 255; // the most the counting kernels' byte codes hold
         if (numeric) {
-            return new UserError(head + "discretise it, e.g. --discretize " + name + "=4, or raise --max-states");
+            return new UserError(head + "discretise it, e.g. --discretize " + name + "=4"
+                    + (canRaise ? ", or raise --max-states" : ""));
         }
-        return new UserError(head + "raise --max-states or leave it out with --exclude " + name);
+        return new UserError(head + (canRaise ? "raise --max-states or leave" : "leave") + " it out with --exclude " + name);
     }
 
     static Column quoted(String name) {
