@@ -59,7 +59,7 @@ public final class TallyJob {
         if (Files.exists(o.out()) && !o.overwrite()) {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
-        Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter());
+        Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter(), o.encoding());
         // every name the user gave is checked against the header before any pass over the data
         List<String> names = TableScan.selected(table, o);
         Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());

@@ -39,7 +39,9 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--format", defaultValue = "auto", paramLabel = "csv|parquet|auto", description = "input format (default ${DEFAULT-VALUE}: by file extension)") String format;
 
-    @Option(names = "--delimiter", defaultValue = ",", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default '${DEFAULT-VALUE}')") String delimiter;
+    @Option(names = "--delimiter", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default: tab for .tsv files, else ',')") String delimiter;
+
+    @Option(names = "--encoding", defaultValue = "UTF-8", paramLabel = "NAME", description = "character encoding of CSV input, e.g. ISO-8859-1 (default ${DEFAULT-VALUE}; bytes not valid in it are refused)") String encoding;
 
     @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)") Path out;
 
@@ -200,9 +202,17 @@ public final class TallyMain implements Callable<Integer> {
         }
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
         StoreTarget.check(out, overwrite, inputs);
-        return new TallyOptions(inputs, fmt, delimiterChar(delimiter), out, overwrite, maxParents,
+        java.nio.charset.Charset charset;
+        try {
+            charset = java.nio.charset.Charset.forName(encoding.trim());
+        } catch (IllegalArgumentException e) {
+            throw new UserError("--encoding: unknown encoding '" + encoding + "' (e.g. UTF-8, ISO-8859-1, windows-1252)");
+        }
+        char sep = delimiter != null ? delimiterChar(delimiter)
+                : inputs.stream().allMatch(i -> i.toLowerCase(Locale.ROOT).matches(".*\\.tsv(\\.gz|\\.bz2)?")) ? '\t' : ',';
+        return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
-                tierList, policy, maxStates, bins, kind, ess, partitions, budget);
+                tierList, policy, maxStates, bins, kind, ess, partitions, budget, charset);
     }
 
     static char delimiterChar(String d) {

@@ -29,8 +29,11 @@ public final class Table {
     private final List<String> columns;
     private final boolean csv;
     private final char delimiter;
+    private final java.nio.charset.Charset encoding;
 
-    private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter) {
+    private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter,
+                  java.nio.charset.Charset encoding) {
+        this.encoding = encoding;
         this.spark = spark;
         this.files = List.copyOf(files);
         this.columns = List.copyOf(columns);
@@ -40,6 +43,12 @@ public final class Table {
 
     /** Resolves the inputs and reads their headers (no Spark job runs yet). */
     public static Table open(SparkSession spark, List<String> inputs, String format, char delimiter) {
+        return open(spark, inputs, format, delimiter, java.nio.charset.StandardCharsets.UTF_8);
+    }
+
+    /** As {@link #open(SparkSession, List, String, char)} for CSV text in {@code encoding}. */
+    public static Table open(SparkSession spark, List<String> inputs, String format, char delimiter,
+                             java.nio.charset.Charset encoding) {
         var conf = spark.sparkContext().hadoopConfiguration();
         List<DataFile> files = InputFiles.resolve(inputs, format, conf);
         boolean csv = files.get(0).format().equals("csv");
@@ -47,7 +56,7 @@ public final class Table {
         if (csv) {
             List<List<String>> headers = new ArrayList<>();
             for (DataFile f : files) {
-                headers.add(InputFiles.csvHeader(f, delimiter, conf));
+                headers.add(InputFiles.csvHeader(f, delimiter, encoding, conf));
             }
             InputFiles.sameColumns(files, headers);
             columns = headers.get(0);
@@ -63,7 +72,7 @@ public final class Table {
             sameTypes(files, schemas);
             columns = headers.get(0);
         }
-        return new Table(spark, files, columns, csv, delimiter);
+        return new Table(spark, files, columns, csv, delimiter, encoding);
     }
 
     /**
@@ -178,6 +187,9 @@ public final class Table {
                     .option("header", "true")
                     .option("enforceSchema", "true")
                     .option("sep", String.valueOf(delimiter))
+                    .option("quote", "\"")
+                    .option("escape", "\"") // RFC 4180: a doubled quote inside a quoted field is one quote
+                    .option("encoding", encoding.name())
                     .option("mode", "PERMISSIVE")
                     .option("columnNameOfCorruptRecord", CORRUPT)
                     .option("multiLine", "false")
@@ -203,5 +215,9 @@ public final class Table {
 
     public char delimiter() {
         return delimiter;
+    }
+
+    public java.nio.charset.Charset encoding() {
+        return encoding;
     }
 }
