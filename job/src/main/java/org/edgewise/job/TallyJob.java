@@ -58,7 +58,7 @@ public final class TallyJob {
         if (Files.exists(o.out()) && !o.overwrite()) {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
-        return run(Table.open(spark, o.inputs(), o.format(), o.delimiter()), o);
+        return run(Table.open(spark, o.inputs(), o.format(), o.delimiter(), o.encoding()), o);
     }
 
     /** The tally of an opened table (files, or a caller's Dataset through {@link Tally}); {@code o.inputs()} only labels it. */

@@ -17,7 +17,9 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.Version;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
+import org.edgewise.driver.store.StoreTarget;
 import org.edgewise.job.TallyOptions.MissingPolicy;
+import org.edgewise.job.plan.FamilyPlan;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
@@ -37,11 +39,13 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--format", defaultValue = "auto", paramLabel = "csv|parquet|auto", description = "input format (default ${DEFAULT-VALUE}: by file extension)") String format;
 
-    @Option(names = "--delimiter", defaultValue = ",", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default '${DEFAULT-VALUE}')") String delimiter;
+    @Option(names = "--delimiter", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default: tab for .tsv files, else ',')") String delimiter;
+
+    @Option(names = "--encoding", defaultValue = "UTF-8", paramLabel = "NAME", description = "character encoding of CSV input, e.g. ISO-8859-1 (default ${DEFAULT-VALUE}; bytes not valid in it are refused)") String encoding;
 
     @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)") Path out;
 
-    @Option(names = "--overwrite", description = "replace an existing store") boolean overwrite;
+    @Option(names = "--overwrite", description = "replace an existing score store (never a file, an input, or a directory holding anything else)") boolean overwrite;
 
     @Option(names = "--max-parents", defaultValue = "3", paramLabel = "d", description = "largest parent-set size (default ${DEFAULT-VALUE})") int maxParents;
 
@@ -192,9 +196,23 @@ public final class TallyMain implements Callable<Integer> {
                 tierList.add(names);
             }
         }
-        return new TallyOptions(inputs, fmt, delimiterChar(delimiter), out, overwrite, maxParents,
+        long budget = parseBytes(memoryBudget);
+        if (master.startsWith("local")) { // the tasks run in this JVM
+            FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
+        }
+        // before Spark starts: nothing but a store is ever replaced, and the directory is writable
+        StoreTarget.check(out, overwrite, inputs);
+        java.nio.charset.Charset charset;
+        try {
+            charset = java.nio.charset.Charset.forName(encoding.trim());
+        } catch (IllegalArgumentException e) {
+            throw new UserError("--encoding: unknown encoding '" + encoding + "' (e.g. UTF-8, ISO-8859-1, windows-1252)");
+        }
+        char sep = delimiter != null ? delimiterChar(delimiter)
+                : inputs.stream().allMatch(i -> i.toLowerCase(Locale.ROOT).matches(".*\\.tsv(\\.gz|\\.bz2)?")) ? '\t' : ',';
+        return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
-                tierList, policy, maxStates, bins, kind, ess, partitions, parseBytes(memoryBudget));
+                tierList, policy, maxStates, bins, kind, ess, partitions, budget, charset);
     }
 
     static char delimiterChar(String d) {

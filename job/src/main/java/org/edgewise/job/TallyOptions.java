@@ -23,12 +23,14 @@ import org.edgewise.driver.store.EdgeRule;
  * @param discretize   column name → number of equal-frequency bins
  * @param partitions   repartition the input into this many partitions (null: as read)
  * @param memoryBudget per-task budget for the count arrays, bytes
+ * @param encoding     character encoding of CSV input (invalid bytes are refused, never replaced)
  */
 public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                            int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                            List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
                            MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
-                           ScoreKind score, double ess, Integer partitions, long memoryBudget) {
+                           ScoreKind score, double ess, Integer partitions, long memoryBudget,
+                           java.nio.charset.Charset encoding) {
 
     /** What to do with an empty field. */
     public enum MissingPolicy {
@@ -42,6 +44,17 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
         public String label() {
             return name().toLowerCase(java.util.Locale.ROOT);
         }
+    }
+
+    /** UTF-8 input. */
+    public TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
+                        int maxParents, List<String> columns, List<String> exclude, Integer candidates,
+                        List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
+                        MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
+                        ScoreKind score, double ess, Integer partitions, long memoryBudget) {
+        this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget,
+                java.nio.charset.StandardCharsets.UTF_8);
     }
 
     public TallyOptions {

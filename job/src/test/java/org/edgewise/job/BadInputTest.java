@@ -129,6 +129,47 @@ class BadInputTest {
                 + "variables, or raise --memory-budget", good, "--memory-budget", "40");
     }
 
+    /** 30 columns with --max-parents 10 ran for minutes and died of OutOfMemoryError; now refused from the count. */
+    @Test
+    void tooManyFamiliesAreRefusedBeforeThePlanIsBuilt() {
+        StringBuilder sb = new StringBuilder();
+        for (int c = 0; c < 30; c++) {
+            sb.append(c == 0 ? "" : ",").append("c").append(c);
+        }
+        sb.append('\n');
+        for (int t = 0; t < 4; t++) {
+            for (int c = 0; c < 30; c++) {
+                sb.append(c == 0 ? "" : ",").append((t + c) % 2);
+            }
+            sb.append('\n');
+        }
+        Path wide = file("thirty.csv", sb.toString());
+        double families = org.edgewise.job.plan.FamilyPlan.familyCount(thirty(), new int[30][0], 10);
+        long heap = Runtime.getRuntime().maxMemory();
+        refused("tally: cannot plan the tally: 30 variables with --max-parents 10 give "
+                + String.format(java.util.Locale.ROOT, "%,.0f", families) + " families, at least "
+                + org.edgewise.job.plan.FamilyPlan.bytes(families * 160) + " on the driver, more than half its memory ("
+                + org.edgewise.job.plan.FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K",
+                wide, "--max-parents", "10");
+    }
+
+    static int[][] thirty() {
+        int[][] a = new int[30][];
+        for (int i = 0; i < 30; i++) {
+            int me = i;
+            a[i] = java.util.stream.IntStream.range(0, 30).filter(v -> v != me).toArray();
+        }
+        return a;
+    }
+
+    @Test
+    void aBudgetBeyondTheHeapIsRefusedAtOnce() {
+        long heap = Runtime.getRuntime().maxMemory();
+        refused("tally: --memory-budget 100 GB is more than the memory of this JVM ("
+                + org.edgewise.job.plan.FamilyPlan.bytes(heap) + "); give at most that, or give this JVM more memory",
+                good, "--memory-budget", "100g");
+    }
+
     @Test
     void existingStoreIsNotReplacedWithoutOverwrite() throws IOException {
         Path out = dir.resolve("existing");

@@ -2,21 +2,40 @@ package org.edgewise.driver;
 
 import java.io.IOException;
 import java.nio.file.AtomicMoveNotSupportedException;
+import java.nio.file.DirectoryStream;
 import java.nio.file.FileAlreadyExistsException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
 import java.util.Comparator;
+import java.util.Set;
 import java.util.UUID;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import java.util.stream.Stream;
 
 /**
  * The one way outputs are written: to a hidden temporary sibling of the target
- * ({@code .<name>.tmp-<uuid>}, same directory, so the same filesystem), renamed into place only
- * when complete. A failed or killed writer leaves the target as it was, never half-written; a
- * leftover hidden temporary never looks like an output and is ignored by the next run.
+ * ({@code .<name>.tmp-<pid>-<uuid>}, same directory, so the same filesystem), renamed into place
+ * only when complete. A failed or killed writer leaves the target as it was, never half-written.
+ *
+ * <p>Leftovers: a temporary is deleted when the write fails, by a shutdown hook on any exit the
+ * JVM sees (SIGTERM, Ctrl-C, {@code System.exit}), and — after a {@code kill -9}, which no hook
+ * sees — by the next write to the same target, which removes every temporary of a process that is
+ * no longer alive. An old store moved aside ({@code .<name>.old-<pid>-<uuid>}) by a writer killed
+ * before the new one was in place is moved back, never deleted.
  */
 public final class AtomicWrite {
+    /** {@code .<name>.(tmp|old)-<pid>-<uuid>}; group 1 the kind, group 2 the pid. */
+    private static final String LEFTOVER = "\\.(tmp|old)-(\\d+)-[0-9a-f-]{36}";
+    private static final Set<Path> IN_PROGRESS = ConcurrentHashMap.newKeySet();
+
+    static {
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> IN_PROGRESS.forEach(AtomicWrite::deleteTree),
+                "edgewise-temporary-cleanup"));
+    }
+
     private AtomicWrite() {
     }
 
@@ -24,6 +43,46 @@ public final class AtomicWrite {
     @FunctionalInterface
     public interface Content {
         void writeTo(Path tmp) throws IOException;
+    }
+
+    /**
+     * Checks an output file before any work: an existing {@code target} is replaced only with
+     * {@code overwrite} and only when it is a file, and its directory must be writable.
+     *
+     * @param option the option that named it ({@code --out}), for the message
+     */
+    public static void checkFile(Path target, boolean overwrite, String option) {
+        if (Files.isDirectory(target)) {
+            throw new UserError(option + " " + target + " is a directory; give a file name");
+        }
+        if (Files.exists(target) && !overwrite) {
+            throw new UserError(option + " " + target + " already exists; pass --overwrite to replace it");
+        }
+        checkWritable(target, option);
+    }
+
+    /**
+     * Checks that a target can be created: the nearest existing ancestor directory of its parent is
+     * a directory this process can create files in (tried with an empty probe file, removed at once).
+     */
+    public static void checkWritable(Path target, String option) {
+        Path abs = target.toAbsolutePath().normalize();
+        Path dir = abs.getParent();
+        while (dir != null && !Files.exists(dir)) {
+            dir = dir.getParent();
+        }
+        if (dir == null || !Files.isDirectory(dir)) {
+            throw new UserError("cannot write " + option + " " + target + ": " + (dir == null ? "no parent directory"
+                    : dir + " is not a directory"));
+        }
+        Path probe = dir.resolve("." + abs.getFileName() + ".probe-" + UUID.randomUUID());
+        try {
+            Files.createFile(probe);
+            Files.delete(probe);
+        } catch (IOException e) {
+            throw new UserError("cannot write " + option + " " + target + ": directory " + dir + " is not writable ("
+                    + reason(e) + ")");
+        }
     }
 
     /** Writes a file: {@code content} writes {@code tmp}; it then replaces {@code target}. */
@@ -34,7 +93,7 @@ public final class AtomicWrite {
             content.writeTo(tmp);
             Files.move(tmp, abs, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
         } finally {
-            deleteTree(tmp);
+            done(tmp);
         }
     }
 
@@ -47,9 +106,13 @@ public final class AtomicWrite {
      * Writes a directory: {@code content} fills the fresh directory {@code tmp}, which is then
      * renamed to {@code target}. An existing target is replaced only when {@code overwrite}
      * (moved aside, the new one moved in, the old one deleted); else a {@link UserError}.
+     * What may be replaced is the caller's to check (a score store only: {@code StoreTarget}).
      */
     public static void directory(Path target, boolean overwrite, Content content) throws IOException {
         Path abs = target.toAbsolutePath().normalize();
+        if (Files.isDirectory(abs.getParent())) {
+            removeLeftovers(abs); // first: a store moved aside by a killed writer is back before the check
+        }
         if (Files.exists(abs) && !overwrite) {
             throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
         }
@@ -59,14 +122,49 @@ public final class AtomicWrite {
             content.writeTo(tmp);
             publish(tmp, abs, overwrite);
         } finally {
-            deleteTree(tmp);
+            done(tmp);
         }
     }
 
     private static Path temporarySibling(Path abs, String kind) throws IOException {
         Path parent = abs.getParent();
         Files.createDirectories(parent);
-        return parent.resolve("." + abs.getFileName() + "." + kind + "-" + UUID.randomUUID());
+        removeLeftovers(abs);
+        Path tmp = parent.resolve(leftoverName(abs, kind));
+        IN_PROGRESS.add(tmp);
+        return tmp;
+    }
+
+    private static String leftoverName(Path abs, String kind) {
+        return "." + abs.getFileName() + "." + kind + "-" + ProcessHandle.current().pid() + "-" + UUID.randomUUID();
+    }
+
+    private static void done(Path tmp) {
+        deleteTree(tmp);
+        IN_PROGRESS.remove(tmp);
+    }
+
+    /**
+     * Removes the temporaries of {@code target} left by writers that are no longer alive (killed with
+     * {@code kill -9}); an old copy moved aside is moved back when the target is missing.
+     */
+    static void removeLeftovers(Path target) {
+        Pattern p = Pattern.compile(Pattern.quote("." + target.getFileName()) + LEFTOVER);
+        try (DirectoryStream<Path> ds = Files.newDirectoryStream(target.getParent(), "." + target.getFileName() + ".*")) {
+            for (Path c : ds) {
+                Matcher m = p.matcher(c.getFileName().toString());
+                if (!m.matches() || ProcessHandle.of(Long.parseLong(m.group(2))).map(ProcessHandle::isAlive).orElse(false)) {
+                    continue;
+                }
+                if (m.group(1).equals("old") && !Files.exists(target)) {
+                    Files.move(c, target, StandardCopyOption.ATOMIC_MOVE);
+                } else {
+                    deleteTree(c);
+                }
+            }
+        } catch (IOException | NumberFormatException ignored) {
+            // best effort: a leftover hidden temporary never looks like an output
+        }
     }
 
     private static void publish(Path tmp, Path target, boolean overwrite) throws IOException {
@@ -75,7 +173,7 @@ public final class AtomicWrite {
             if (!overwrite) {
                 throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
             }
-            old = target.resolveSibling("." + target.getFileName() + ".old-" + UUID.randomUUID());
+            old = target.resolveSibling(leftoverName(target, "old"));
             Files.move(target, old, StandardCopyOption.ATOMIC_MOVE);
         }
         try {
@@ -98,5 +196,20 @@ public final class AtomicWrite {
         } catch (IOException ignored) {
             // best effort: a leftover hidden temporary never looks like an output
         }
+    }
+
+    /** An I/O failure as a reason a user can read: the message, or what the exception type says. */
+    public static String reason(IOException e) {
+        String what = switch (e.getClass().getSimpleName()) {
+            case "AccessDeniedException" -> "permission denied";
+            case "NoSuchFileException" -> "no such file or directory";
+            case "FileSystemException" -> e.getMessage() == null ? "file system error" : e.getMessage();
+            case "ReadOnlyFileSystemException" -> "read-only file system";
+            default -> e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+        };
+        if (e instanceof java.nio.file.FileSystemException f && f.getReason() != null) {
+            return f.getReason();
+        }
+        return what;
     }
 }

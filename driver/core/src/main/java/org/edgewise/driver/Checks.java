@@ -15,6 +15,15 @@ public final class Checks {
     static final String NOT_POSITIVE = "%s must be positive, got %s";
     /** Template of {@link #ess} for an infinite value. */
     static final String NOT_FINITE = "%s must be finite, got %s";
+    /** Template of {@link #ess} for NaN. */
+    static final String NOT_A_NUMBER = "%s must be a number, got NaN";
+    /** Template of {@link #ess} outside {@link #ESS_MIN} … {@link #ESS_MAX}. */
+    static final String ESS_RANGE = "%s must be between 1e-9 and 1e15, got %s (beyond these the prior alone"
+            + " decides every score, or the data alone)";
+    /** Smallest ESS accepted: α = ESS/(r·q) stays far above the double range's end even for q near 1e30. */
+    public static final double ESS_MIN = 1e-9;
+    /** Largest ESS accepted: a·r and a + N stay exact enough, and the scores are by then flat in the data. */
+    public static final double ESS_MAX = 1e15;
     /** Template of {@link #atLeast}: {@code what}, the minimum, the value. */
     static final String TOO_SMALL = "%s must be at least %d, got %d";
     /** Template of {@link #notNegative}: {@code what}, the value. */
@@ -31,15 +40,22 @@ public final class Checks {
     }
 
     /**
-     * An equivalent sample size (BDeu's ESS): a positive, finite number. One check for every
-     * program that takes an ESS (the job's {@code tally}, the driver's commands, {@code FamilyScore}).
+     * An equivalent sample size (BDeu's ESS): a number in [{@link #ESS_MIN}, {@link #ESS_MAX}]. One
+     * check for every program that takes an ESS (the job's {@code tally}, every driver command,
+     * {@code FamilyScore}), so {@code NaN}, 0, ∞ and absurd values are refused alike everywhere.
      */
     public static double ess(double ess, String what) {
+        if (Double.isNaN(ess)) {
+            throw new UserError(String.format(Locale.ROOT, NOT_A_NUMBER, what));
+        }
         if (!(ess > 0)) {
             throw new UserError(String.format(Locale.ROOT, NOT_POSITIVE, what, ess));
         }
         if (Double.isInfinite(ess)) {
             throw new UserError(String.format(Locale.ROOT, NOT_FINITE, what, ess));
+        }
+        if (ess < ESS_MIN || ess > ESS_MAX) {
+            throw new UserError(String.format(Locale.ROOT, ESS_RANGE, what, ess));
         }
         return ess;
     }

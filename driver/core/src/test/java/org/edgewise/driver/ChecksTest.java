@@ -16,7 +16,12 @@ class ChecksTest {
     @Test
     void messagesNameTheValueAsTheCallerKnowsIt() {
         assertEquals("--ess must be positive, got 0.0", refused(() -> Checks.ess(0, "--ess")));
-        assertEquals("ESS must be positive, got NaN", refused(() -> Checks.ess(Double.NaN, "ESS")));
+        assertEquals("ESS must be a number, got NaN", refused(() -> Checks.ess(Double.NaN, "ESS")));
+        assertEquals("--ess must be between 1e-9 and 1e15, got 1.0E308 (beyond these the prior alone decides every"
+                + " score, or the data alone)", refused(() -> Checks.ess(1e308, "--ess")));
+        assertEquals("--ess must be between 1e-9 and 1e15, got 1.0E-12 (beyond these the prior alone decides every"
+                + " score, or the data alone)", refused(() -> Checks.ess(1e-12, "--ess")));
+        assertEquals(1e15, Checks.ess(1e15, "--ess"));
         assertEquals("ESS must be finite, got Infinity", refused(() -> Checks.ess(Double.POSITIVE_INFINITY, "ESS")));
         assertEquals("--chains must be at least 1, got 0", refused(() -> Checks.atLeast(0, 1, "--chains")));
         assertEquals("the burn-in must not be negative, got -3", refused(() -> Checks.notNegative(-3, "the burn-in")));

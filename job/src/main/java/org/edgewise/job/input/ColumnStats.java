@@ -98,7 +98,7 @@ public final class ColumnStats implements Serializable {
             }
         }
         for (int i = 0; i < n; i++) {
-            UTF8String v = r.isNullAt(fields[i]) ? null : r.getUTF8String(fields[i]);
+            UTF8String v = r.isNullAt(fields[i]) ? null : trim(r.getUTF8String(fields[i]));
             if (v == null || v.numBytes() == 0) {
                 missing[i]++;
                 if (binned[i]) {
@@ -152,11 +152,37 @@ public final class ColumnStats implements Serializable {
     }
 
     static boolean isMissing(Row r, int field) {
-        return r.isNullAt(field) || r.getString(field).isEmpty();
+        return r.isNullAt(field) || r.getString(field).trim().isEmpty();
     }
 
     static boolean isMissing(InternalRow r, int field) {
-        return r.isNullAt(field) || r.getUTF8String(field).numBytes() == 0;
+        return r.isNullAt(field) || trim(r.getUTF8String(field)).numBytes() == 0;
+    }
+
+    /**
+     * The one whitespace rule, the same as the driver's ({@link String#trim}): characters up to
+     * U+0020 (space, tab, CR …) at either end are not part of a value. UTF-8 bytes of other
+     * characters are never in 0x00–0x20, so trimming bytes is trimming characters.
+     */
+    static UTF8String trim(UTF8String v) {
+        int n = v.numBytes();
+        int from = 0;
+        int to = n;
+        while (from < to && isBlank(byteAt(v, from))) {
+            from++;
+        }
+        while (to > from && isBlank(byteAt(v, to - 1))) {
+            to--;
+        }
+        return from == 0 && to == n ? v : UTF8String.fromBytes(v.getBytes(), from, to - from);
+    }
+
+    private static byte byteAt(UTF8String v, int i) {
+        return org.apache.spark.unsafe.Platform.getByte(v.getBaseObject(), v.getBaseOffset() + i);
+    }
+
+    private static boolean isBlank(byte b) {
+        return b >= 0 && b <= 0x20;
     }
 
     /** The value as a finite number, or NaN when it is not one. */

@@ -90,7 +90,7 @@ public final class InputFiles {
         if (n.endsWith(".parquet") || n.endsWith(".parq")) {
             return "parquet";
         }
-        if (n.endsWith(".csv") || n.endsWith(".csv.gz") || n.endsWith(".tsv") || n.endsWith(".txt")
+        if (n.endsWith(".csv") || n.endsWith(".csv.gz") || n.endsWith(".tsv") || n.endsWith(".tsv.gz") || n.endsWith(".txt")
                 || n.endsWith(".csv.bz2")) {
             return "csv";
         }
@@ -102,19 +102,29 @@ public final class InputFiles {
      * The header of a CSV file: its column names, checked (not empty, no blank or duplicate names).
      */
     public static List<String> csvHeader(DataFile file, char delimiter, Configuration conf) {
+        return csvHeader(file, delimiter, StandardCharsets.UTF_8, conf);
+    }
+
+    /** As {@link #csvHeader(DataFile, char, Configuration)}; bytes not valid in {@code encoding} are refused. */
+    public static List<String> csvHeader(DataFile file, char delimiter, java.nio.charset.Charset encoding,
+                                         Configuration conf) {
         String line;
         Path p = new Path(file.uri());
         try {
             FileSystem fs = p.getFileSystem(conf);
             CompressionCodec codec = new CompressionCodecFactory(conf).getCodec(p);
             try (InputStream raw = fs.open(p);
-                 InputStream in = codec == null ? raw : codec.createInputStream(raw);
-                 BufferedReader r = new BufferedReader(new InputStreamReader(in, StandardCharsets.UTF_8))) {
-                line = r.readLine();
+                 InputStream in = new java.io.BufferedInputStream(codec == null ? raw : codec.createInputStream(raw))) {
+                // only the header's own bytes are decoded (strictly): a bad byte further down is named
+                // with its line by the full read, not blamed on line 1
+                line = nextLine(in, encoding);
                 while (line != null && line.isBlank()) {
-                    line = r.readLine();
+                    line = nextLine(in, encoding);
                 }
             }
+        } catch (java.nio.charset.CharacterCodingException e) {
+            throw new UserError("input " + display(file) + " line 1: bytes that are not valid " + encoding.name()
+                    + "; pass --encoding with the file's encoding, e.g. --encoding ISO-8859-1");
         } catch (FileNotFoundException e) {
             throw new UserError("input " + file.argument() + ": no such file");
         } catch (IOException e) {
@@ -134,6 +144,7 @@ public final class InputFiles {
                     + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
                     : "text after a closing quote"));
         }
+        names.replaceAll(String::trim); // the one whitespace rule, as for values
         for (int i = 0; i < names.size(); i++) {
             if (names.get(i).isBlank()) {
                 throw new UserError("input " + display(file) + " line 1: column " + (i + 1) + " has no name");
@@ -143,9 +154,32 @@ public final class InputFiles {
                     throw new UserError("input " + display(file) + " line 1: duplicate column name '" + names.get(i)
                             + "' (columns " + (j + 1) + " and " + (i + 1) + ")");
                 }
+                if (names.get(j).equalsIgnoreCase(names.get(i))) {
+                    throw new UserError("input " + display(file) + " line 1: column names '" + names.get(j) + "' and '"
+                            + names.get(i) + "' (columns " + (j + 1) + " and " + (i + 1) + ") differ only by case;"
+                            + " Spark matches names regardless of case, so rename one");
+                }
             }
         }
         return names;
+    }
+
+    /** The next line's bytes up to '\n' (a trailing '\r' dropped) decoded strictly, or null at the end. */
+    private static String nextLine(InputStream in, java.nio.charset.Charset encoding) throws IOException {
+        java.io.ByteArrayOutputStream buf = new java.io.ByteArrayOutputStream();
+        int b = in.read();
+        if (b < 0) {
+            return null;
+        }
+        while (b >= 0 && b != '\n') {
+            buf.write(b);
+            b = in.read();
+        }
+        byte[] bytes = buf.toByteArray();
+        int len = bytes.length > 0 && bytes[bytes.length - 1] == '\r' ? bytes.length - 1 : bytes.length;
+        return encoding.newDecoder().onMalformedInput(java.nio.charset.CodingErrorAction.REPORT)
+                .onUnmappableCharacter(java.nio.charset.CodingErrorAction.REPORT)
+                .decode(java.nio.ByteBuffer.wrap(bytes, 0, len)).toString();
     }
 
     /** The file as the user would recognise it: the argument itself, or argument/name for a directory. */

@@ -31,9 +31,11 @@ public final class Table {
     private final char delimiter;
     /** A caller's Dataset (the Java API, {@code org.edgewise.job.Tally}), or null when reading files. */
     private final Dataset<Row> given;
+    private final java.nio.charset.Charset encoding;
 
     private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter,
-                  Dataset<Row> given) {
+                  Dataset<Row> given, java.nio.charset.Charset encoding) {
+        this.encoding = encoding;
         this.spark = spark;
         this.files = List.copyOf(files);
         this.columns = List.copyOf(columns);
@@ -67,11 +69,18 @@ public final class Table {
         if (names.isEmpty()) {
             throw new UserError(DATASET + ": the Dataset has no columns");
         }
-        return new Table(data.sparkSession(), List.of(new DataFile(DATASET, DATASET, DATASET)), names, false, ',', data);
+        return new Table(data.sparkSession(), List.of(new DataFile(DATASET, DATASET, DATASET)), names, false, ',', data,
+                java.nio.charset.StandardCharsets.UTF_8);
     }
 
     /** Resolves the inputs and reads their headers (no Spark job runs yet). */
     public static Table open(SparkSession spark, List<String> inputs, String format, char delimiter) {
+        return open(spark, inputs, format, delimiter, java.nio.charset.StandardCharsets.UTF_8);
+    }
+
+    /** As {@link #open(SparkSession, List, String, char)} for CSV text in {@code encoding}. */
+    public static Table open(SparkSession spark, List<String> inputs, String format, char delimiter,
+                             java.nio.charset.Charset encoding) {
         var conf = spark.sparkContext().hadoopConfiguration();
         List<DataFile> files = InputFiles.resolve(inputs, format, conf);
         boolean csv = files.get(0).format().equals("csv");
@@ -79,29 +88,57 @@ public final class Table {
         if (csv) {
             List<List<String>> headers = new ArrayList<>();
             for (DataFile f : files) {
-                headers.add(InputFiles.csvHeader(f, delimiter, conf));
+                headers.add(InputFiles.csvHeader(f, delimiter, encoding, conf));
             }
             InputFiles.sameColumns(files, headers);
             columns = headers.get(0);
         } else {
             List<List<String>> headers = new ArrayList<>();
+            List<StructType> schemas = new ArrayList<>();
             for (DataFile f : files) {
-                headers.add(parquetColumns(spark, f));
+                StructType schema = parquetSchema(spark, f);
+                schemas.add(schema);
+                headers.add(parquetColumns(f, schema));
             }
             InputFiles.sameColumns(files, headers);
+            sameTypes(files, schemas);
             columns = headers.get(0);
         }
-        return new Table(spark, files, columns, csv, delimiter, null);
+        return new Table(spark, files, columns, csv, delimiter, null, encoding);
     }
 
-    private static List<String> parquetColumns(SparkSession spark, DataFile f) {
-        StructType schema;
+    /**
+     * The schema from the file's footer; an empty, truncated or non-Parquet file is refused here
+     * (Spark throws a checked {@code SparkException} undeclared, hence {@code catch (Exception)}).
+     */
+    private static StructType parquetSchema(SparkSession spark, DataFile f) {
         try {
-            schema = spark.read().parquet(f.uri()).schema();
-        } catch (RuntimeException e) {
-            throw new UserError("input " + InputFiles.display(f) + ": not a readable Parquet file ("
-                    + InputFiles.oneLine(e) + ")");
+            return spark.read().parquet(f.uri()).schema();
+        } catch (Exception e) {
+            String reason = ReadFailure.inputReason(e);
+            if (reason != null && reason.startsWith("I/O error")) {
+                throw new UserError("input " + InputFiles.display(f) + ": cannot read it: " + reason, e);
+            }
+            throw new UserError("input " + InputFiles.display(f) + ": not a readable Parquet file (empty, truncated,"
+                    + " damaged or another format); for a CSV file pass --format csv", e);
         }
+    }
+
+    /** Every Parquet input's columns must have the first file's types (Spark reads all with the first schema). */
+    private static void sameTypes(List<DataFile> files, List<StructType> schemas) {
+        for (int i = 1; i < files.size(); i++) {
+            for (StructField field : schemas.get(i).fields()) {
+                DataType first = schemas.get(0).apply(field.name()).dataType();
+                if (!first.equals(field.dataType())) {
+                    throw new UserError("input " + InputFiles.display(files.get(i)) + ": column '" + field.name()
+                            + "' is " + field.dataType().simpleString() + " but " + first.simpleString() + " in "
+                            + InputFiles.display(files.get(0)) + "; give inputs of one schema");
+                }
+            }
+        }
+    }
+
+    private static List<String> parquetColumns(DataFile f, StructType schema) {
         List<String> names = new ArrayList<>();
         for (StructField field : schema.fields()) {
             DataType t = field.dataType();
@@ -112,6 +149,13 @@ public final class Table {
             }
             if (names.contains(field.name())) {
                 throw new UserError("input " + InputFiles.display(f) + ": duplicate column name '" + field.name() + "'");
+            }
+            for (String other : names) {
+                if (other.equalsIgnoreCase(field.name())) {
+                    throw new UserError("input " + InputFiles.display(f) + ": column names '" + other + "' and '"
+                            + field.name() + "' differ only by case; Spark matches names regardless of case, so"
+                            + " rename one");
+                }
             }
             if (field.name().isBlank()) {
                 throw new UserError("input " + InputFiles.display(f) + ": column " + (names.size() + 1) + " has no name");
@@ -183,6 +227,9 @@ public final class Table {
                     .option("header", "true")
                     .option("enforceSchema", "true")
                     .option("sep", String.valueOf(delimiter))
+                    .option("quote", "\"")
+                    .option("escape", "\"") // RFC 4180: a doubled quote inside a quoted field is one quote
+                    .option("encoding", encoding.name())
                     .option("mode", "PERMISSIVE")
                     .option("columnNameOfCorruptRecord", CORRUPT)
                     .option("multiLine", "false")
@@ -212,5 +259,9 @@ public final class Table {
 
     public char delimiter() {
         return delimiter;
+    }
+
+    public java.nio.charset.Charset encoding() {
+        return encoding;
     }
 }

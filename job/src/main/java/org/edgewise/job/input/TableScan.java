@@ -119,9 +119,9 @@ public final class TableScan {
         ColumnStats stats;
         try {
             stats = rawBlocks.map(b -> b.stats().empty().merge(b.stats())).reduce(ColumnStats::merge);
-        } catch (RuntimeException e) {
+        } catch (Exception e) { // SparkException is checked but thrown undeclared from Scala
             rawBlocks.unpersist(false);
-            throw e;
+            throw ReadFailure.of(table, e);
         }
         try {
             return finish(table, o, names, fields, binned, rawBlocks, stats);
@@ -195,6 +195,16 @@ public final class TableScan {
         for (int v = 0; v < n; v++) {
             if (stats.overflow(v)) {
                 throw tooManyStates(table, names.get(v), o.maxStates(), stats.numeric(v));
+            }
+        }
+        for (int v = 0; v < n; v++) {
+            if (table.isCsv() && !binned[v] && stats.distinct(v).stream().anyMatch(x -> x.indexOf('\uFFFD') >= 0)) {
+                throw notInEncoding(table, names.get(v), fields[v]);
+            }
+            if (o.missing() == MissingPolicy.STATE && stats.missing(v) > 0 && stats.distinct(v).contains(MISSING_STATE)) {
+                throw new UserError("input " + inputs(table) + ", column '" + names.get(v) + "': the value '" + MISSING_STATE
+                        + "' is also the label --missing state gives to empty fields; rename that value or choose"
+                        + " --missing drop");
             }
         }
 
@@ -289,10 +299,24 @@ public final class TableScan {
             return new UserError(head + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude "
                     + name);
         }
+        boolean canRaise = maxStates < 255; // the most the counting kernels' byte codes hold
         if (numeric) {
-            return new UserError(head + "discretise it, e.g. --discretize " + name + "=4, or raise --max-states");
+            return new UserError(head + "discretise it, e.g. --discretize " + name + "=4"
+                    + (canRaise ? ", or raise --max-states" : ""));
         }
-        return new UserError(head + "raise --max-states or leave it out with --exclude " + name);
+        return new UserError(head + (canRaise ? "raise --max-states or leave" : "leave") + " it out with --exclude " + name);
+    }
+
+    /**
+     * Bytes that are not valid in the encoding arrive from Spark's CSV reader as U+FFFD, silently;
+     * they are refused here, naming the first line that holds one.
+     */
+    private static UserError notInEncoding(Table table, String name, int field) {
+        Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table,
+                r -> !r.isNullAt(field) && r.getString(field).indexOf('\uFFFD') >= 0);
+        return new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
+                + table.lineOf(bad._2()._2()) + ", column '" + name + "': bytes that are not valid "
+                + table.encoding().name() + "; pass --encoding with the file's encoding, e.g. --encoding ISO-8859-1");
     }
 
     static Column quoted(String name) {

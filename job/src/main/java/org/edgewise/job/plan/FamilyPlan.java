@@ -27,6 +27,12 @@ import org.edgewise.driver.store.ParentSets;
 public final class FamilyPlan {
     /** Per-task bytes per dense cell: 4 (int counts) + 8 (long partial sums sent to the reduce). */
     public static final int BYTES_PER_CELL = 12;
+    /**
+     * Least driver bytes per family: its parent and cover arrays and list entries while planning
+     * (about 100 B), its stored counts and configuration (at least 2 longs and the object headers,
+     * about 60 B). An estimate: refusing below it is certain to be right.
+     */
+    static final int BYTES_PER_FAMILY = 160;
 
     private final int[] arity;
     private final int[] familyChild;
@@ -54,6 +60,8 @@ public final class FamilyPlan {
      * @param maxParents d
      */
     public static FamilyPlan families(int[] arity, int[][] candidates, int[][] required, int maxParents) {
+        checkFamilyCount(familyCount(candidates, required, maxParents), arity.length, maxParents,
+                Runtime.getRuntime().maxMemory());
         List<Integer> childList = new ArrayList<>();
         List<int[]> parentList = new ArrayList<>();
         List<int[]> coverOf = new ArrayList<>();
@@ -77,6 +85,51 @@ public final class FamilyPlan {
             }
         }
         return fromCovers(arity, childList, parentList, coverOf);
+    }
+
+    /**
+     * The number of families {@link #families} would plan, counted before anything is allocated:
+     * Σ_i Σ_{s=|R_i|..min(d,|C_i|)} C(|C_i| − |R_i|, s − |R_i|) for candidates C_i and required R_i
+     * (the subsets of the free candidates completing the required ones; exact, as a double).
+     */
+    public static double familyCount(int[][] candidates, int[][] required, int maxParents) {
+        double total = 0;
+        for (int i = 0; i < candidates.length; i++) {
+            int free = candidates[i].length - required[i].length;
+            double binom = 1; // C(free, k), k = 0, 1, …
+            for (int k = 0; k <= Math.min(maxParents, candidates[i].length) - required[i].length; k++) {
+                total += binom;
+                binom = binom * (free - k) / (k + 1);
+            }
+        }
+        return total;
+    }
+
+    /**
+     * Refuses, in seconds, a plan whose families alone would not fit: at least
+     * {@link #BYTES_PER_FAMILY} bytes each on the driver (the plan's arrays and the stored family),
+     * against half the heap; and at most {@code Integer.MAX_VALUE} families (the store indexes them
+     * with int32).
+     */
+    static void checkFamilyCount(double families, int variables, int maxParents, long heap) {
+        double need = families * BYTES_PER_FAMILY;
+        if (families > Integer.MAX_VALUE - 8 || need > heap / 2.0) {
+            throw new UserError("cannot plan the tally: " + variables + " variables with --max-parents " + maxParents
+                    + " give " + String.format(Locale.ROOT, "%,.0f", families) + " families, at least " + bytes(need)
+                    + " on the driver, more than half its memory (" + bytes(heap) + "); lower --max-parents or use"
+                    + " --candidates K");
+        }
+    }
+
+    /**
+     * Refuses a per-task budget larger than the memory of the JVM the tasks run in ({@code heap}):
+     * the count arrays could never be allocated and the job would die in the counting kernel.
+     */
+    public static void checkBudget(long budgetBytes, long heap, String where) {
+        if (budgetBytes > heap) {
+            throw new UserError("--memory-budget " + bytes(budgetBytes) + " is more than the memory of " + where + " ("
+                    + bytes(heap) + "); give at most that, or give " + where + " more memory");
+        }
     }
 
     /**
@@ -196,10 +249,14 @@ public final class FamilyPlan {
                 for (int v : covers[s]) {
                     vs.add(names.get(v) + "(" + arity[v] + ")");
                 }
+                double need = c * (double) BYTES_PER_CELL;
+                long heap = Runtime.getRuntime().maxMemory();
                 throw new UserError("cannot fit the tally: the variable set {" + String.join(", ", vs) + "} needs "
-                        + String.format(Locale.ROOT, "%,d", c) + " count cells (" + bytes(c * (double) BYTES_PER_CELL)
+                        + String.format(Locale.ROOT, "%,d", c) + " count cells (" + bytes(need)
                         + ") in one task, more than --memory-budget " + bytes(budgetBytes)
-                        + "; lower --max-parents, use --candidates K, exclude or discretise wide variables, or raise --memory-budget");
+                        + "; lower --max-parents, use --candidates K, exclude or discretise wide variables"
+                        + (need <= heap / 2.0 ? ", or raise --memory-budget" : " or lower --max-states (raising"
+                        + " --memory-budget cannot help: this JVM has " + bytes(heap) + ")"));
             }
             if (used + c > maxCells && !cur.isEmpty()) {
                 out.add(cur.stream().mapToInt(Integer::intValue).toArray());

@@ -36,8 +36,11 @@ final class CompareCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         String fmt = Output.format(format, "table", "json");
         checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);

@@ -46,10 +46,13 @@ public final class EdgesCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Option(names = "--format", paramLabel = "table|json", description = "standard output as a table (default) or JSON") String format;
 
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         String fmt = format == null ? (out != null ? "json" : "table") : format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("json") && !fmt.equals("table")) {
             throw new UserError("--format must be table or json, got '" + format + "'");

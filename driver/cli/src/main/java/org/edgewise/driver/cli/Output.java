@@ -3,6 +3,7 @@ package org.edgewise.driver.cli;
 import java.io.PrintWriter;
 import java.nio.file.Path;
 import java.util.Locale;
+import org.edgewise.driver.AtomicWrite;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Model.CommandSpec;
@@ -19,6 +20,16 @@ final class Output {
             throw new UserError("--format must be " + first + " or " + second + ", got '" + given + "'");
         }
         return fmt;
+    }
+
+    /**
+     * Checks {@code --out} before any work: an existing file is replaced only with {@code --overwrite},
+     * a directory never, and its directory must be writable. Nothing to check for standard output.
+     */
+    static void check(Path out, boolean overwrite) {
+        if (out != null) {
+            AtomicWrite.checkFile(out, overwrite, "--out");
+        }
     }
 
     /** Writes {@code text} to {@code out} atomically, or to standard output when {@code out} is null. */

@@ -66,6 +66,8 @@ public final class PredictCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "write the result here: the scored CSV with --cases, the JSON with --case (default: standard output)") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON") String format;
 
     @Option(names = "--tail-mass", paramLabel = "E", defaultValue = "1e-12",
@@ -87,6 +89,7 @@ public final class PredictCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         if ((caseText == null) == (casesFile == null)) {
             throw new UserError("give exactly one of --case a=x,b=y or --cases FILE");
         }

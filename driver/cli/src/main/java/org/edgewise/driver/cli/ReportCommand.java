@@ -34,6 +34,8 @@ final class ReportCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
             description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
     double threshold;
@@ -42,6 +44,7 @@ final class ReportCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         String fmt = Output.format(format, "html", "dot");
         CompareCommand.checkThreshold(threshold);
         if (result == null && effect == null) {

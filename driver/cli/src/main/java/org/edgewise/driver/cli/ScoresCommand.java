@@ -37,8 +37,11 @@ final class ScoresCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Override
     public Integer call() {
+        Output.check(out, overwrite);
         String fmt = Output.format(format, "json", "csv");
         if (ess != null) {
             Checks.ess(ess, "--ess");

@@ -24,10 +24,13 @@ public final class ScoringMixin {
 
     @Option(names = "--require", paramLabel = "a->b", split = ",", description = "edges to require at query time") public List<String> require = new ArrayList<>();
 
-    /** The options for one ESS value (NaN = as stored). */
+    /**
+     * The options for one ESS value (NaN = as stored). Every value the user gave is checked first,
+     * so a typed {@code --ess NaN} is refused like any other bad ESS, never read as "as stored".
+     */
     public ScoringOptions options(double essValue) {
-        if (!Double.isNaN(essValue)) {
-            Checks.ess(essValue, "--ess");
+        for (double given : ess) {
+            Checks.ess(given, "--ess");
         }
         return new ScoringOptions(score == null ? null : ScoreKind.parse(score), essValue,
                 StructurePrior.parse(prior), rules(forbid, "--forbid"), rules(require, "--require"));

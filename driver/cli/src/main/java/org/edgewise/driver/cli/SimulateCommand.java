@@ -41,6 +41,7 @@ final class SimulateCommand implements Callable<Integer> {
 
     @Override
     public Integer call() throws IOException {
+        Output.check(out, overwrite);
         if (!format.toLowerCase(Locale.ROOT).equals("csv")) {
             throw new UserError("--format must be csv, got '" + format + "'");
         }
@@ -67,9 +68,6 @@ final class SimulateCommand implements Callable<Integer> {
             w.flush();
             return 0;
         }
-        if (Files.exists(out) && !overwrite) {
-            throw new UserError("output " + out + " already exists; pass --overwrite to replace it");
-        }
         try (Progress p = Progress.start("simulate", rows)) {
             AtomicWrite.file(out, tmp -> {
                 try (OutputStream o = new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16)) {
@@ -77,7 +75,7 @@ final class SimulateCommand implements Callable<Integer> {
                 }
             });
         } catch (IOException e) {
-            throw new UserError("cannot write " + out + ": " + e.getMessage());
+            throw new UserError("cannot write " + out + ": " + AtomicWrite.reason(e));
         }
         spec.commandLine().getErr().println("simulate: wrote " + rows + " rows of " + net.size()
                 + " variables to " + out + " (seed " + seed + ")");

@@ -118,15 +118,17 @@ class PredictCommandTest {
     /**
      * Evidence of probability zero: with d = 0, an ESS so small that α underflows to the smallest
      * double, and a state never observed, (0 + α)/(N + 2α) rounds to 0 (IEEE 754 double range).
+     * Such an ESS is now refused up front, like every absurd ESS, by every command alike.
      */
     @Test
-    void refusesEvidenceOfProbabilityZero() {
+    void refusesAnEssSoSmallThatEvidenceWouldHaveProbabilityZero() {
         var vars = HeldOutData.variables(2, 2);
         int[][] rows = {{0, 1}, {0, 0}, {0, 1}};
         ScoreStore s = InMemoryTally.tally(vars, rows, 0, FamilyScore.withDefaults());
         Path p = dir.resolve("zero");
         StoreWriter.write(p, s.manifest(), s.families(), s.logScores(), false);
-        refused("predict: --given v0=s1 has probability zero under this order and store; a conditional on it is undefined",
+        refused("predict: --ess must be between 1e-9 and 1e15, got 1.0E-323 (beyond these the prior alone decides every"
+                + " score, or the data alone)",
                 "predict", "--store", p.toString(), "--order", "v0,v1", "--case", "v1=s0", "--given", "v0=s1", "--ess", "1e-323");
     }
 

@@ -49,7 +49,7 @@ class ReportCommandsTest {
         assertEquals("a,b,c", lines.get(0));
         CliRun again = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3", "--out", out.toString());
         assertEquals(2, again.status());
-        assertEquals("simulate: output " + out + " already exists; pass --overwrite to replace it\n", again.err());
+        assertEquals("simulate: --out " + out + " already exists; pass --overwrite to replace it\n", again.err());
         CliRun stdout = run("simulate", "--network", dir.resolve("net.json").toString(), "--rows", "1000", "--seed", "3");
         assertEquals(Files.readString(out), stdout.out(), "standard output carries the same rows");
     }
@@ -106,7 +106,7 @@ class ReportCommandsTest {
         assertFalse(dot.out().contains("\"b\" -> \"c\""));
         assertFalse(dot.out().contains("\"a\" -> \"c\"") || dot.out().contains("\"c\" -> \"a\""));
         assertEquals(2, dot.out().split(" -> ").length - 1);
-        CliRun missing = run("report", "--result", dir.resolve("nope.json").toString(), "--out", html.toString());
+        CliRun missing = run("report", "--result", dir.resolve("nope.json").toString(), "--out", html.toString(), "--overwrite");
         assertEquals(2, missing.status());
         assertEquals("report: result file " + dir.resolve("nope.json") + " does not exist\n", missing.err());
     }

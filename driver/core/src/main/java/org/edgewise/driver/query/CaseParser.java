@@ -3,6 +3,7 @@ package org.edgewise.driver.query;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.Variable;
@@ -22,10 +23,20 @@ public final class CaseParser {
     public static int[] parse(Manifest m, String text, String option) {
         int[] states = new int[m.variableCount()];
         Arrays.fill(states, HIDDEN);
-        if (text == null || text.isBlank()) {
+        if (text == null) {
             return states;
         }
-        for (String part : text.split(",", -1)) {
+        if (text.isBlank()) {
+            throw new UserError(option + " is empty; give name=state pairs, e.g. " + m.variables().get(0).name() + "="
+                    + m.variables().get(0).states().get(0));
+        }
+        List<String> parts;
+        try {
+            parts = CsvFields.split(text, ','); // "name=a,b" in quotes names a state holding a comma
+        } catch (CsvFields.Malformed e) {
+            throw new UserError(option + ": unterminated quote in '" + text + "'");
+        }
+        for (String part : parts) {
             int eq = part.indexOf('=');
             if (eq <= 0) {
                 throw new UserError(option + ": '" + part.trim() + "' is not name=state, e.g. "

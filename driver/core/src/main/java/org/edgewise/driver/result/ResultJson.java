@@ -48,7 +48,7 @@ public final class ResultJson {
         try {
             AtomicWrite.text(file, text);
         } catch (IOException e) {
-            throw new UserError("cannot write " + file + ": " + e.getMessage());
+            throw new UserError("cannot write " + file + ": " + AtomicWrite.reason(e));
         }
     }
 
@@ -80,11 +80,28 @@ public final class ResultJson {
                 throw new UserError("result file " + file + " is not an edges result (no variables or edges)");
             }
             return r;
+        } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
+            throw new UserError("result file " + file + " is JSON but not an edges result: " + fieldPath(e)
+                    + " has the wrong type (line " + e.getLocation().getLineNr() + ", column "
+                    + e.getLocation().getColumnNr() + ")");
         } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
             throw new UserError("result file " + file + " is not valid JSON (line "
                     + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
         } catch (IOException e) {
             throw new UserError("cannot read result file " + file + ": " + e.getMessage());
         }
+    }
+
+    /** The JSON path of the field a mapping failed at, e.g. {@code edges[0].posterior}. */
+    static String fieldPath(com.fasterxml.jackson.databind.JsonMappingException e) {
+        StringBuilder sb = new StringBuilder();
+        for (com.fasterxml.jackson.databind.JsonMappingException.Reference r : e.getPath()) {
+            if (r.getFieldName() != null) {
+                sb.append(sb.length() == 0 ? "" : ".").append(r.getFieldName());
+            } else if (r.getIndex() >= 0) {
+                sb.append('[').append(r.getIndex()).append(']');
+            }
+        }
+        return sb.length() == 0 ? "the top level" : sb.toString();
     }
 }

@@ -1,7 +1,6 @@
 package org.edgewise.driver.score;
 
 import org.edgewise.driver.Checks;
-import org.apache.commons.math3.special.Gamma;
 
 /**
  * Log marginal likelihood of one family (child, parent set) from its contingency counts, under a
@@ -14,8 +13,9 @@ import org.apache.commons.math3.special.Gamma;
  * </pre>
  * (Heckerman, Geiger &amp; Chickering 1995, eq. 28; Cooper &amp; Herskovits 1992, eq. for K2 with
  * α_ijk = 1). Configurations with N_ij = 0 contribute exactly 0 and are not stored, so the sum runs
- * over observed configurations only. Each term is a difference of lnΓ values (never a ratio of Γ),
- * so nothing overflows for N up to 10^12.
+ * over observed configurations only. Each lnΓ(α + N) − lnΓ(α) is computed as a log rising factorial
+ * ({@link LogRising}) — no ratio of Γ (nothing overflows for N up to 10^12) and no subtraction of
+ * two large lnΓ values (accurate at every ESS {@link org.edgewise.driver.Checks#ess} accepts).
  *
  * <p>This is the one place the family score is computed; the Spark job and the driver both call it.
  */
@@ -69,32 +69,34 @@ public final class FamilyScore {
         return logScore(counts, 0, counts.length / r, r, q);
     }
 
-    /** As {@link #logScore(long[], int, double)} over rows {@code [fromRow, fromRow+rows)} of {@code counts}. */
+    /**
+     * As {@link #logScore(long[], int, double)} over rows {@code [fromRow, fromRow+rows)} of {@code counts}.
+     * Each lnΓ difference is a {@link LogRising log rising factorial}, so nothing cancels at any ESS:
+     * s = Σ_j [ Σ_k ln (α_ijk)_{N_ijk} − ln (α_ij)_{N_ij} ].
+     */
     public double logScore(long[] counts, int fromRow, int rows, int r, double q) {
         double a = cellAlpha(r, q);
         double aj = a * r;
-        double lgA = Gamma.logGamma(a);
-        double lgAj = Gamma.logGamma(aj);
-        // Sum the positive and negative parts separately to limit cancellation (common practice).
-        double plus = 0;
-        double minus = 0;
+        double sum = 0;
         int base = fromRow * r;
         for (int j = 0; j < rows; j++) {
             long nij = 0;
+            double row = 0;
             for (int k = 0; k < r; k++) {
                 long n = counts[base + j * r + k];
                 if (n != 0) {
-                    plus += Gamma.logGamma(a + n);
-                    minus += lgA;
+                    row += LogRising.of(a, n);
                     nij += n;
                 }
             }
             if (nij != 0) {
-                plus += lgAj;
-                minus += Gamma.logGamma(aj + nij);
+                sum += row - LogRising.of(aj, nij);
             }
         }
-        return plus - minus;
+        if (!Double.isFinite(sum)) {
+            throw new IllegalStateException("family score " + sum + " (r " + r + ", q " + q + ", alpha " + a + ")");
+        }
+        return sum;
     }
 
     /**

@@ -89,4 +89,50 @@ public final class StoreFormat {
             }
         }
     }
+
+    /**
+     * What the manifest says that can be checked before the parts are read: maxParents is not
+     * negative, and every variable's state labels are unique (a query names states by label).
+     */
+    static void checkManifest(Path dir, Manifest m) {
+        if (m.maxParents() < 0) {
+            throw new UserError("store " + dir + ": " + MANIFEST + " has maxParents " + m.maxParents()
+                    + "; it must be 0 or more");
+        }
+        for (Variable v : m.variables()) {
+            java.util.Set<String> seen = new java.util.HashSet<>();
+            for (String state : v.states()) {
+                if (!seen.add(state)) {
+                    throw new UserError("store " + dir + ": " + MANIFEST + " lists the state '" + state + "' of variable '"
+                            + v.name() + "' twice");
+                }
+            }
+        }
+    }
+
+    /**
+     * The families against the manifest's maxParents d: no parent set larger than d, and at most
+     * n · Σ_{k≤d} C(n−1, k) families (every child with every parent set of at most d others).
+     */
+    static void checkParentSets(Path dir, Manifest m, int[][] parentsOf) {
+        int n = m.variables().size();
+        int d = m.maxParents();
+        for (int f = 0; f < parentsOf.length; f++) {
+            if (parentsOf[f].length > d) {
+                throw new UserError("store " + dir + " contradicts its " + MANIFEST + ": family " + f + " has "
+                        + parentsOf[f].length + (parentsOf[f].length == 1 ? " parent" : " parents") + ", but maxParents is " + d);
+            }
+        }
+        double most = 0;
+        double binom = 1;
+        for (int k = 0; k <= Math.min(d, n - 1); k++) {
+            most += binom;
+            binom = binom * (n - 1 - k) / (k + 1);
+        }
+        most *= n;
+        if (parentsOf.length > most) {
+            throw new UserError("store " + dir + " contradicts its " + MANIFEST + ": " + parentsOf.length + " families,"
+                    + " but " + n + " variables with maxParents " + d + " have at most " + (long) most);
+        }
+    }
 }

@@ -34,7 +34,8 @@ import org.edgewise.driver.UserError;
  */
 public final class StoreReader {
     private static final ObjectMapper JSON = new ObjectMapper()
-            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false);
+            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false)
+            .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
 
     private StoreReader() {
     }
@@ -51,6 +52,9 @@ public final class StoreReader {
         JsonNode tree;
         try {
             tree = JSON.readTree(file.toFile());
+        } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
+            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " has text after its JSON (line "
+                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
         } catch (JsonProcessingException e) {
             throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " is not valid JSON (line "
                     + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
@@ -67,6 +71,7 @@ public final class StoreReader {
         if (m.variables() == null || m.variables().isEmpty() || m.parts() == null || m.score() == null) {
             throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " lacks variables, parts or score");
         }
+        StoreFormat.checkManifest(dir, m);
         return m;
     }
 
@@ -110,6 +115,7 @@ public final class StoreReader {
             throw damaged(dir, parts.countsFile(), "holds " + rows + " rows, the manifest says " + parts.countRows());
         }
         StoreFormat.checkFingerprint(dir, m, childOf, counts);
+        StoreFormat.checkParentSets(dir, m, parentsOf);
         List<FamilyCounts> list = new ArrayList<>(families);
         for (int f = 0; f < families; f++) {
             list.add(new FamilyCounts(childOf[f], parentsOf[f], configs.get(f), counts.get(f)));

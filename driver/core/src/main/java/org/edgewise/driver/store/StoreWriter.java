@@ -4,7 +4,6 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.SerializationFeature;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.security.MessageDigest;
@@ -53,7 +52,7 @@ public final class StoreWriter {
                 JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), StoreFormat.stamp(manifest, parts));
             });
         } catch (IOException e) {
-            throw new UncheckedIOException("could not write store " + target + ": " + e.getMessage(), e);
+            throw new org.edgewise.driver.UserError("cannot write store " + target + ": " + AtomicWrite.reason(e), e);
         }
     }
 

@@ -1,0 +1,113 @@
+package org.edgewise.driver.store;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.io.IOException;
+import java.net.URI;
+import java.nio.file.DirectoryStream;
+import java.nio.file.Files;
+import java.nio.file.InvalidPathException;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.Set;
+import org.edgewise.driver.AtomicWrite;
+import org.edgewise.driver.UserError;
+
+/**
+ * Where a score store may be written, checked before any work: {@code --overwrite} replaces only
+ * an existing <em>score store</em> — a directory holding an Edgewise {@code manifest.json} and
+ * nothing but the store's parts — never a file, a directory holding anything else, or a directory
+ * holding an input; and the directory must be writable. Nothing is lost by a wrong {@code --out}.
+ */
+public final class StoreTarget {
+    /** What a store directory may hold. */
+    static final Set<String> PARTS = Set.of(StoreFormat.MANIFEST, StoreFormat.SCORES, StoreFormat.COUNTS);
+    private static final String ONLY = "--overwrite replaces only a score store; ";
+
+    private StoreTarget() {
+    }
+
+    /**
+     * Refuses {@code out} unless it is new, or an existing store and {@code overwrite}; refuses an
+     * {@code out} that is, or holds, one of the local {@code inputs} (paths or {@code file:} URIs;
+     * other filesystems cannot hold a local store); refuses an unwritable directory.
+     */
+    public static void check(Path out, boolean overwrite, List<String> inputs) {
+        Path abs = real(out);
+        for (String in : inputs) {
+            Path p = localPath(in);
+            if (p != null && real(p).startsWith(abs)) {
+                throw new UserError("--out " + out + (real(p).equals(abs) ? " is" : " holds") + " the input " + in
+                        + "; write the store elsewhere");
+            }
+        }
+        if (Files.exists(out)) {
+            if (!overwrite) {
+                throw new UserError("output " + out + " already exists; pass --overwrite to replace it");
+            }
+            checkIsStore(out);
+        }
+        AtomicWrite.checkWritable(out, "--out");
+    }
+
+    private static void checkIsStore(Path out) {
+        if (!Files.isDirectory(out)) {
+            throw new UserError(ONLY + out + " is a file, not a store; choose another --out");
+        }
+        Path manifest = out.resolve(StoreFormat.MANIFEST);
+        if (!Files.isRegularFile(manifest)) {
+            throw new UserError(ONLY + out + " is a directory without " + StoreFormat.MANIFEST + "; choose another --out");
+        }
+        try {
+            JsonNode tree = new ObjectMapper().readTree(manifest.toFile());
+            if (tree == null || !tree.isObject() || !tree.has("formatVersion") || !tree.has("variables")) {
+                throw new UserError(ONLY + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another --out");
+            }
+        } catch (IOException e) {
+            throw new UserError(ONLY + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another --out");
+        }
+        try (DirectoryStream<Path> ds = Files.newDirectoryStream(out)) {
+            for (Path c : ds) {
+                String name = c.getFileName().toString();
+                if (!PARTS.contains(name) || !Files.isRegularFile(c)) {
+                    throw new UserError(ONLY + out + " also holds " + name + ", which is not part of a store;"
+                            + " choose another --out");
+                }
+            }
+        } catch (IOException e) {
+            throw new UserError("cannot list --out " + out + ": " + AtomicWrite.reason(e));
+        }
+    }
+
+    /** A local input as a path, or null for another filesystem ({@code hdfs:}, {@code s3a:} …). */
+    static Path localPath(String input) {
+        try {
+            if (input.startsWith("file:")) {
+                return Path.of(URI.create(input));
+            }
+            if (input.matches("[A-Za-z][A-Za-z0-9+.-]*://.*")) {
+                return null;
+            }
+            return Path.of(input);
+        } catch (IllegalArgumentException e) {
+            return null; // InvalidPathException too: the input is refused, naming it, when it is read
+        }
+    }
+
+    /** The path with symbolic links resolved as far as it exists. */
+    static Path real(Path p) {
+        Path abs = p.toAbsolutePath().normalize();
+        Path existing = abs;
+        while (existing != null && !Files.exists(existing)) {
+            existing = existing.getParent();
+        }
+        if (existing == null) {
+            return abs;
+        }
+        try {
+            return existing.toRealPath().resolve(existing.relativize(abs));
+        } catch (IOException | InvalidPathException e) {
+            return abs;
+        }
+    }
+}
