@@ -44,7 +44,12 @@ class DagPriorAveragingTest {
     }
 
     static UnknownOrderSettings settings(UnknownOrderSettings.Method m, DagPrior prior, boolean essential, int samples, long steps) {
-        return new UnknownOrderSettings(m, List.of(), 5, 4, steps, null, 1000, null, null, false, false, samples, 3, prior, essential);
+        return settings(m, prior, essential, samples, steps, 1000);
+    }
+
+    static UnknownOrderSettings settings(UnknownOrderSettings.Method m, DagPrior prior, boolean essential, int samples, long steps,
+                                         int draws) {
+        return new UnknownOrderSettings(m, List.of(), 5, 4, steps, null, draws, null, null, false, false, samples, 3, prior, essential);
     }
 
     @Test
@@ -54,7 +59,8 @@ class DagPriorAveragingTest {
             LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
             StructureSum.Result exact = StructureSum.run(ls, OrderConstraints.none(n));
             EdgeResult mc = UnknownOrderAveraging.edges(ls, null,
-                    settings(UnknownOrderSettings.Method.MCMC, DagPrior.STRUCTURE_MODULAR, false, 10000, 40_000), ProgressListener.NONE);
+                    settings(UnknownOrderSettings.Method.MCMC, DagPrior.STRUCTURE_MODULAR, false, 10000, 100_000, 5000),
+                    ProgressListener.NONE);
             assertEquals("structure-modular", mc.dagPrior());
             for (EdgeResult.Edge e : mc.edges()) {
                 int a = s.manifest().variableIndex(e.from());

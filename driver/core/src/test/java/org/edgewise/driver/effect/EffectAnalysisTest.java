@@ -92,7 +92,7 @@ class EffectAnalysisTest {
         OrderMixture mix = OrderMixture.exact(ls, UnknownOrderPrediction.allowedOrders(OrderConstraints.none(5), 5), 0,
                 1_000_000L);
         assertEquals(Math.exp(mix.logProbability(new int[] {1, -1, -1, -1, -1})), r.probability(), 1e-12);
-        assertEquals(1.0, r.noPathProbability(), 1e-15);
+        assertEquals(1.0, r.noPathProbability(), 1e-12); // a sum of normalised order weights: rounding only
     }
 
     @Test
