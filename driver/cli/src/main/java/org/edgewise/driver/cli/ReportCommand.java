@@ -44,12 +44,12 @@ final class ReportCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        Output.check(out, overwrite);
         String fmt = Output.format(format, "html", "dot");
         CompareCommand.checkThreshold(threshold);
         if (result == null && effect == null) {
             throw new UserError("give --result FILE (an edges result), --effect FILE (an effect result), or both");
         }
+        Output.check(out, overwrite);
         if (result == null) {
             if (fmt.equals("dot")) {
                 throw new UserError("--format dot needs --result (an edges result)");
