@@ -34,6 +34,12 @@ import org.edgewise.driver.UserError;
  * candidate edges ≈ 10 MB).
  */
 public final class OrderMcmc {
+    /**
+     * Least draws kept per chain when running until converged: half are warm-up, and bulk-ESS ≥ 400
+     * needs well over 400 draws used in all.
+     */
+    static final int UNTIL_CONVERGED_DRAWS = 1000;
+
     private OrderMcmc() {
     }
 
@@ -185,7 +191,7 @@ public final class OrderMcmc {
         SplittableRandom root = new SplittableRandom(s.seed());
         List<OrderChain> chains = new ArrayList<>();
         for (int c = 0; c < s.chains(); c++) {
-            DrawStore store = s.untilConverged() ? new DrawStore(offset[n], s.draws(), 1, 0)
+            DrawStore store = s.untilConverged() ? new DrawStore(offset[n], Math.max(s.draws(), UNTIL_CONVERGED_DRAWS), 1, 0)
                     : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
             chains.add(new OrderChain(ls, tables, oc, cpos, offset, s.features(), root.split(), store, s.relocate()));
         }
