@@ -62,7 +62,7 @@ public final class OrderMcmc {
                            long maxSteps, double maxSeconds, boolean features, long tableBudget, double relocate,
                            double rhatTarget) {
         /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
-        public static final double DEFAULT_RELOCATE = 0.5;
+        public static final double DEFAULT_RELOCATE = 0.1;
 
         public Settings {
             Checks.atLeast(chains, 1, "the number of chains");
