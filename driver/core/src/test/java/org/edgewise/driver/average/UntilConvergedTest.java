@@ -16,7 +16,7 @@ class UntilConvergedTest {
     @Test
     void twoSeedsOnFortyVariablesAgreeAndBothConverge() {
         // the test-scale figure: within 0.05 on every edge
-        ScoreStore s = TestStores.windowed(40, 4, 2, 1000, 5);
+        ScoreStore s = TestStores.windowed(40, 3, 2, 400, 5);
         LocalScores ls = TestStores.scores(s);
         OrderMcmc.Result[] r = new OrderMcmc.Result[2];
         for (int k = 0; k < 2; k++) {
