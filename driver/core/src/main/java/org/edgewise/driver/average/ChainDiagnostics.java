@@ -118,6 +118,11 @@ public final class ChainDiagnostics {
             return new Summary(mean, Double.POSITIVE_INFINITY, Double.NaN, Double.NaN,
                     Math.sqrt(variance(chainMeans(x)) / x.length), State.STUCK);
         }
+        if (hi - lo < settleSpan) {
+            // settled: the classic split-R̂ for the record (cheap), no ESS — it decides nothing
+            return new Summary(mean, splitRhat(s), Double.NaN, Double.NaN, Math.sqrt(varPlus(s) / s.length / s[0].length),
+                    State.SETTLED);
+        }
         double rBulk = splitRhat(rankNormal(s));
         double[][] folded = new double[s.length][];
         double med = median(s);
@@ -134,8 +139,7 @@ public final class ChainDiagnostics {
                 orNaN(ess(indicator(s, quantile(s, 0.95)))));
         double essRaw = ess(s);
         double mcse = Math.sqrt(varPlus(s) / essRaw);
-        State st = hi - lo < settleSpan ? State.SETTLED : State.VARIES;
-        return new Summary(mean, rhat, essBulk, essTail == Double.POSITIVE_INFINITY ? Double.NaN : essTail, mcse, st);
+        return new Summary(mean, rhat, essBulk, essTail == Double.POSITIVE_INFINITY ? Double.NaN : essTail, mcse, State.VARIES);
     }
 
     private static double orNaN(double e) {
@@ -160,37 +164,57 @@ public final class ChainDiagnostics {
         int m = s.length;
         int n = s[0].length;
         int total = m * n;
-        double[] sorted = new double[total];
+        double[] flat = new double[total];
         for (int c = 0; c < m; c++) {
-            System.arraycopy(s[c], 0, sorted, c * n, n);
+            System.arraycopy(s[c], 0, flat, c * n, n);
         }
-        Arrays.sort(sorted);
+        int[] idx = sortedIndex(flat);
         double[][] z = new double[m][n];
-        for (int c = 0; c < m; c++) {
-            for (int t = 0; t < n; t++) {
-                double v = s[c][t];
-                int first = lowerBound(sorted, v);
-                int last = lowerBound(sorted, Math.nextUp(v)) - 1;
-                double rank = (first + last) / 2.0 + 1; // average of the tied ranks first+1..last+1
-                z[c][t] = inverseNormal((rank - 0.375) / (total + 0.25));
+        int k = 0;
+        while (k < total) {
+            int j = k;
+            while (j + 1 < total && flat[idx[j + 1]] == flat[idx[k]]) {
+                j++;
             }
+            double rank = (k + j) / 2.0 + 1; // average of the tied ranks k+1..j+1
+            double zv = inverseNormal((rank - 0.375) / (total + 0.25));
+            for (int u = k; u <= j; u++) {
+                z[idx[u] / n][idx[u] % n] = zv;
+            }
+            k = j + 1;
         }
         return z;
     }
 
-    /** First index of {@code a} (sorted) holding a value ≥ {@code v}. */
-    private static int lowerBound(double[] a, double v) {
-        int lo = 0;
-        int hi = a.length;
-        while (lo < hi) {
-            int mid = (lo + hi) >>> 1;
-            if (a[mid] < v) {
-                lo = mid + 1;
-            } else {
-                hi = mid;
-            }
+    /** Indices of {@code a} in ascending order of value (a primitive merge sort: no boxing). */
+    static int[] sortedIndex(double[] a) {
+        int[] idx = new int[a.length];
+        for (int k = 0; k < idx.length; k++) {
+            idx[k] = k;
         }
-        return lo;
+        int[] tmp = new int[a.length];
+        for (int width = 1; width < a.length; width *= 2) {
+            for (int lo = 0; lo < a.length; lo += 2 * width) {
+                int mid = Math.min(lo + width, a.length);
+                int hi = Math.min(lo + 2 * width, a.length);
+                int i = lo;
+                int j = mid;
+                int o = lo;
+                while (i < mid && j < hi) {
+                    tmp[o++] = a[idx[j]] < a[idx[i]] ? idx[j++] : idx[i++];
+                }
+                while (i < mid) {
+                    tmp[o++] = idx[i++];
+                }
+                while (j < hi) {
+                    tmp[o++] = idx[j++];
+                }
+            }
+            int[] t = idx;
+            idx = tmp;
+            tmp = t;
+        }
+        return idx;
     }
 
     /** Split-R̂ of already split sequences; +∞ when they do not vary within but differ between. */

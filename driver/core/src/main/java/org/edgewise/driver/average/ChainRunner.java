@@ -16,8 +16,8 @@ import java.util.function.BooleanSupplier;
  * until {@link MultiChainDiagnostics} says converged, the step cap or the time budget is reached.
  * Sampler-independent: order MCMC today; any chain that fills a {@link DrawStore} plugs in.
  *
- * <p>Until converged: the first check after {@code steps} steps per chain, then rounds that add
- * half the steps done so far, so there are O(log(total/first)) checks, each over at most 2·cap
+ * <p>Until converged: the first check after {@code steps} steps per chain, then rounds that double
+ * the steps done so far, so there are O(log(total/first)) checks, each over at most 2·cap
  * stored draws per chain — the checks together cost a bounded share of the sampling. At every
  * check the first half of each chain is discarded as warm-up (Gelman et al., Bayesian Data
  * Analysis, 3rd ed., sec. 11.4) and the rest diagnosed. Rounds end at step counts only, so a
@@ -142,7 +142,7 @@ public final class ChainRunner {
                         reason = StopReason.MAX_STEPS;
                         break;
                     }
-                    target = Math.min(p.maxSteps(), done + Math.max(1, done / 2));
+                    target = Math.min(p.maxSteps(), done + Math.max(1, done));
                 }
             }
         } finally {
