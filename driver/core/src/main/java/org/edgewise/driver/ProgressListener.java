@@ -16,13 +16,11 @@ public interface ProgressListener {
     /** {@code done} units of the current task are complete (non-decreasing, at most the total). */
     void done(long done);
 
-    /** Order MCMC: the acceptance rate so far and the largest split-R̂ (NaN while unknown). */
-    default void chainState(double acceptance, double maxRhat) {
-    }
-
-    /** Whether {@link #chainState} should carry the largest R̂ (it costs a pass over all draws per round). */
-    default boolean wantsRhat() {
-        return false;
+    /**
+     * MCMC: the acceptance rate so far, and from the last convergence check the largest R̂ and the
+     * smallest bulk-ESS (NaN before the first check).
+     */
+    default void chainState(double acceptance, double maxRhat, double minEss) {
     }
 
     /** The current task ended (normally or not). */

@@ -37,16 +37,12 @@ final class ProgressBars implements ProgressListener {
     }
 
     @Override
-    public synchronized void chainState(double acceptance, double maxRhat) {
+    public synchronized void chainState(double acceptance, double maxRhat, double minEss) {
         if (bar != null) {
-            bar.extra(String.format(Locale.ROOT, "acceptance %.3f  max R-hat %s", acceptance,
-                    Double.isNaN(maxRhat) ? "-" : String.format(Locale.ROOT, "%.3f", maxRhat)));
+            bar.extra(String.format(Locale.ROOT, "acceptance %.3f  worst R-hat %s (< 1.01)  min ESS %s (>= 400)", acceptance,
+                    Double.isNaN(maxRhat) ? "-" : String.format(Locale.ROOT, "%.3f", maxRhat),
+                    Double.isNaN(minEss) ? "-" : String.format(Locale.ROOT, "%.0f", minEss)));
         }
-    }
-
-    @Override
-    public synchronized boolean wantsRhat() {
-        return bar != null && bar.visible();
     }
 
     @Override

@@ -43,10 +43,7 @@ final class UnknownOrderEdges {
         try {
             return EssSweep.unknownOrder(store, storePath, options, settings, ProgressBars.onTerminal(), r -> {
                 if (r.diagnostics() != null && !r.diagnostics().converged()) {
-                    err.println(String.format(Locale.ROOT,
-                            "edges: WARNING: the chains disagree (largest split-R-hat %.3f > %.2f): the posteriors are not reliable; "
-                                    + "run longer (--steps, --until-rhat %.2f) or check the traces",
-                            r.diagnostics().rhat(), RHAT_WARN, RHAT_WARN));
+                    err.println(notConverged(r.diagnostics()));
                 }
             });
         } catch (TooLargeForExact e) {
@@ -54,6 +51,39 @@ final class UnknownOrderEdges {
         } catch (StructureSum.TooLarge e) {
             throw new UserError(e.getMessage() + " (or raise the heap with EDGEWISE_JAVA_OPTS=-Xmx…)", e);
         }
+    }
+
+    /** Why a run is not converged, in one line: the stop reason, the targets and the worst quantities. */
+    static String notConverged(EdgeResult.Diagnostics d) {
+        StringBuilder sb = new StringBuilder(String.format(Locale.ROOT,
+                "edges: WARNING: not converged (%s; needs R-hat < %s and bulk ESS >= %.0f for every quantity): "
+                        + "the posteriors are not reliable. Worst:", d.stopReason() == null ? "?" : stopText(d.stopReason()),
+                d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget()));
+        if (d.worst() != null) {
+            for (EdgeResult.Worst w : d.worst()) {
+                sb.append(String.format(Locale.ROOT, " %s (R-hat %s, ESS %s)%s", w.quantity(),
+                        w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()),
+                        w.ess() == null ? "-" : String.format(Locale.ROOT, "%.0f", w.ess()),
+                        "stuck".equals(w.state()) ? " stuck" : ""));
+                sb.append(';');
+            }
+            sb.setLength(sb.length() - 1);
+        }
+        sb.append(". Run longer (--max-time) or check the traces");
+        return sb.toString();
+    }
+
+    private static String stopText(String reason) {
+        return switch (reason) {
+            case "max-time" -> "stopped at the time budget";
+            case "max-steps" -> "stopped at the step cap";
+            case "steps" -> "ran the requested --steps";
+            default -> reason;
+        };
+    }
+
+    private static String trim(double x) {
+        return String.format(Locale.ROOT, "%s", x).replaceAll("0+$", "");
     }
 
     /** The exact method's refusal in the launcher's words. */
@@ -97,11 +127,13 @@ final class UnknownOrderEdges {
         EdgeResult.Diagnostics d = r.diagnostics();
         if (d != null) {
             sb.append(String.format(Locale.ROOT,
-                    "%nOrder MCMC: %d chains x %d steps (+ %d burn-in), seed %d, acceptance %.3f%n"
-                            + "  largest split-R-hat %.4f (%s), smallest effective sample size %.0f%n",
-                    d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(), d.rhat(),
-                    d.converged() ? "below " + RHAT_WARN + ": chains agree" : "ABOVE " + RHAT_WARN + ": not converged, do not trust",
-                    d.ess()));
+                    "%nOrder MCMC: %d chains x %d steps (+ %d burn-in), seed %d, acceptance %.3f%s%n"
+                            + "  largest rank-normalised split-R-hat %.4f, smallest bulk ESS %.0f, smallest tail ESS %s: %s%n",
+                    d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
+                    d.stopReason() == null ? "" : ", " + stopText(d.stopReason()),
+                    d.rhat(), d.ess(), d.essTail() == null ? "-" : String.format(Locale.ROOT, "%.0f", d.essTail()),
+                    d.converged() ? "converged (every quantity R-hat < " + (d.rhatTarget() == null ? RHAT_WARN : d.rhatTarget())
+                            + ", bulk ESS >= 400)" : "NOT converged, do not trust"));
         }
         if (r.essentialGraph() != null) {
             sb.append(essentialTable(r));

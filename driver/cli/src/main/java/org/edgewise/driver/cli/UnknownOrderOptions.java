@@ -19,15 +19,26 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--chains", paramLabel = "M", defaultValue = "4", description = "mcmc: number of chains, each from its own random order (default ${DEFAULT-VALUE})") public int chains;
 
-    @Option(names = "--steps", paramLabel = "N", defaultValue = "200000", description = "mcmc: steps per chain after burn-in (default ${DEFAULT-VALUE})") public long steps;
+    @Option(names = "--steps", paramLabel = "N", description = "mcmc: run exactly N steps per chain after burn-in "
+            + "(default: run until converged: R-hat < 1.01 and bulk ESS >= 400 for every edge, or --max-time)")
+    public Long steps;
 
-    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc: steps per chain discarded first (default: a quarter of --steps)") public Long burnIn;
+    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc with --steps: steps per chain discarded first (default: a quarter of --steps; "
+            + "running until converged discards the first half of each chain)")
+    public Long burnIn;
 
     @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "mcmc: draws stored per chain (thinning = steps / draws; default ${DEFAULT-VALUE})") public int draws;
 
-    @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: after --steps, keep running until the largest split-R-hat is below R (e.g. 1.01) or --max-steps") public Double untilRhat;
+    @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
+            + "bulk ESS >= 400; with --steps, the first check comes after --steps")
+    public Double untilRhat;
 
-    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc with --until-rhat: cap on steps per chain (default 20 x --steps)") public Long maxSteps;
+    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc until converged: cap on steps per chain (default: none)")
+    public Long maxSteps;
+
+    @Option(names = "--max-time", paramLabel = "SECONDS", description = "mcmc until converged: time budget of the sampling "
+            + "(default 300); a run stopped by it says so and is not reproducible step for step")
+    public Double maxTime;
 
     @Option(names = "--features", paramLabel = "ancestors,markov-blanket,essential-graph", split = ",", description = "also estimate ancestor relations a ~> b, Markov-blanket membership and essential-graph features (adjacent, compelled a -> b, reversible) from DAGs drawn from the posterior") public List<String> features = new ArrayList<>();
 
@@ -42,12 +53,28 @@ public final class UnknownOrderOptions {
     public UnknownOrderSettings settings(UnknownOrderSettings.Method method, int topParents) {
         if (method == UnknownOrderSettings.Method.MCMC) {
             Checks.atLeast(chains, 1, "--chains");
-            Checks.atLeast(steps, 1, "--steps");
+            if (steps != null) {
+                Checks.atLeast(steps, 1, "--steps");
+            }
             if (burnIn != null) {
                 Checks.notNegative(burnIn, "--burn-in");
             }
             if (untilRhat != null && !(untilRhat > 1)) {
                 throw new UserError("--until-rhat must be above 1 (e.g. 1.01), got " + untilRhat);
+            }
+            boolean until = steps == null || untilRhat != null;
+            if (until && burnIn != null) {
+                throw new UserError("--burn-in applies to a fixed run (--steps without --until-rhat); "
+                        + "running until converged discards the first half of each chain");
+            }
+            if (!until && maxSteps != null) {
+                throw new UserError("--max-steps applies when running until converged (no --steps, or --until-rhat)");
+            }
+            if (!until && maxTime != null) {
+                throw new UserError("--max-time applies when running until converged (no --steps, or --until-rhat)");
+            }
+            if (maxTime != null && !(maxTime > 0)) {
+                throw new UserError("--max-time must be above 0 seconds, got " + maxTime);
             }
         }
         boolean anc = ancestors();
@@ -57,7 +84,7 @@ public final class UnknownOrderOptions {
             Checks.atLeast(orderSamples, 1, "--samples");
         }
         return new UnknownOrderSettings(method, tierLists(), seed, chains, steps, burnIn, draws, untilRhat, maxSteps,
-                anc, mb, orderSamples, topParents, prior(), eg);
+                maxTime, anc, mb, orderSamples, topParents, prior(), eg);
     }
 
     /** The tiers as lists of names. */

@@ -116,16 +116,33 @@ class UnknownOrderEdgesTest extends StoreFixture {
     void tableShowsDiagnosticsAndTheCaution() {
         CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "2000", "--draws", "100");
         assertEquals(0, r.status(), r.err());
-        assertTrue(r.out().contains("largest split-R-hat"), r.out());
+        assertTrue(r.out().contains("largest rank-normalised split-R-hat"), r.out());
         assertTrue(r.out().contains("not proof of causation"), r.out());
     }
 
     @Test
-    void tooShortRunWarns() {
+    void tooShortRunWarns() throws Exception {
         CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "8", "--draws", "4",
                 "--burn-in", "0", "--chains", "4", "--format", "json");
         assertEquals(0, r.status(), r.err());
-        assertTrue(r.err().contains("WARNING: the chains disagree"), r.err());
+        assertTrue(r.err().contains("edges: WARNING: not converged (ran the requested --steps; needs R-hat < 1.01 and bulk ESS >= 400 "
+                + "for every quantity): the posteriors are not reliable. Worst: "), r.err());
+        JsonNode d = JSON.readTree(r.out()).get("diagnostics");
+        assertEquals("steps", d.get("stopReason").asText());
+        assertTrue(d.get("worst").size() >= 1, d.toString());
+    }
+
+    @Test
+    void withoutStepsRunsUntilConverged() throws Exception {
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json", "--seed", "3");
+        assertEquals(0, r.status(), r.err());
+        JsonNode d = JSON.readTree(r.out()).get("diagnostics");
+        assertEquals("converged", d.get("stopReason").asText(), d.toString());
+        assertTrue(d.get("converged").asBoolean());
+        assertEquals(1.01, d.get("rhatTarget").asDouble(), 0.0);
+        assertEquals(400, d.get("essTarget").asDouble(), 0.0);
+        assertTrue(d.get("rhat").asDouble() < 1.01 && d.get("ess").asDouble() >= 400, d.toString());
+        assertEquals(d.get("steps").asLong(), d.get("burnIn").asLong()); // the first half is warm-up
     }
 
     @Test
@@ -137,6 +154,11 @@ class UnknownOrderEdgesTest extends StoreFixture {
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());
         assertEquals("edges: --until-rhat must be above 1 (e.g. 1.01), got 0.9",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "0.9").errLine());
+        assertEquals("edges: --max-time applies when running until converged (no --steps, or --until-rhat)",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--steps", "100", "--max-time", "5").errLine());
+        assertEquals("edges: --burn-in applies to a fixed run (--steps without --until-rhat); "
+                        + "running until converged discards the first half of each chain",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--burn-in", "5").errLine());
         assertEquals("edges: --chains must be at least 1, got 0",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--chains", "0").errLine());
         assertEquals("edges: --require v0->v1 contradicts --tiers: v0 is in a later tier than v1",

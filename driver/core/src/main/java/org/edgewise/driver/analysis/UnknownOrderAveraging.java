@@ -6,7 +6,9 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.average.ChainDiagnostics;
 import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.McseBound;
 import org.edgewise.driver.average.OrderConstraints;
@@ -28,7 +30,7 @@ import org.edgewise.driver.result.ResultBuilder;
  */
 public final class UnknownOrderAveraging {
     /** R̂ above this is reported as not converged (Vehtari et al. 2021 recommend 1.01). */
-    public static final double RHAT_WARN = 1.01;
+    public static final double RHAT_WARN = ChainDiagnostics.RHAT_TARGET;
     /** Points kept per chain trace in the result. */
     static final int TRACE_POINTS = 500;
     /** Stored orders used for the parent-set posteriors of an MCMC result. */
@@ -141,9 +143,23 @@ public final class UnknownOrderAveraging {
             }
             traces.add(l);
         }
+        return diagnostics(s, r, traces, traceEvery);
+    }
+
+    private static EdgeResult.Diagnostics diagnostics(UnknownOrderSettings s, OrderMcmc.Result r,
+                                                      List<List<Double>> traces, int traceEvery) {
+        MultiChainDiagnostics.Report rep = r.report();
+        List<EdgeResult.Worst> worst = new ArrayList<>();
+        for (MultiChainDiagnostics.Worst w : rep.worst()) {
+            worst.add(new EdgeResult.Worst(w.quantity(), finite(w.rhat()), finite(w.essBulk()), finite(w.essTail()),
+                    w.state().label()));
+        }
         return new EdgeResult.Diagnostics(s.chains(), r.stepsPerChain(), r.burnIn(), s.seed(),
                 r.acceptance(), r.maxRhat(), Double.isNaN(r.minEss()) ? 0 : r.minEss(), r.converged(), traces,
-                (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery));
+                (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery), s.rhatTarget(), ChainDiagnostics.ESS_TARGET,
+                finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(), rep.settled(), rep.stuck(),
+                ChainDiagnostics.SETTLE_SPAN, worst, rep.drawsPerChain(), OrderMcmc.Settings.DEFAULT_RELOCATE,
+                r.outcome().checks(), r.outcome().checkSeconds(), r.outcome().samplingSeconds());
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,

@@ -63,7 +63,8 @@ public final class DagDraws {
                 hits += f.test(0, i) ? 1 : 0;
             }
             double p = hits / (double) k;
-            return new OrderMcmc.Estimate(p, Math.sqrt(p * (1 - p) / k), Double.NaN, k);
+            return new OrderMcmc.Estimate(p, Math.sqrt(p * (1 - p) / k), Double.NaN, k, k,
+                    hits == 0 || hits == k ? ChainDiagnostics.State.CONSTANT : ChainDiagnostics.State.VARIES);
         }
         int t = dags[0].length / group;
         double[][] num = new double[chains][t];
@@ -92,7 +93,7 @@ public final class DagDraws {
             }
         }
         ChainDiagnostics.Summary sum = ChainDiagnostics.summary(z);
-        return new OrderMcmc.Estimate(p, sum.mcse(), sum.rhat(), sum.ess());
+        return OrderMcmc.Estimate.of(p, sum);
     }
 
     /** Parent bitmask of {@code child} in DAG k of chain c. */

@@ -1,7 +1,5 @@
 package org.edgewise.driver.average;
 
-import java.util.ArrayList;
-import java.util.List;
 import java.util.SplittableRandom;
 import org.edgewise.driver.UserError;
 
@@ -14,16 +12,26 @@ import org.edgewise.driver.UserError;
  * mask changes are rescored: the two swapped ones and those between them that have one of
  * the two among their candidates.
  *
- * <p>Every {@code thin} steps after burn-in a draw is stored: the Rao-Blackwellised edge
- * posteriors given the current order (a double per candidate edge), the order's log evidence,
- * the order itself, and — when features are asked — the ancestor and Markov-blanket indicators
- * of one DAG sampled from the parent-set weights given the order.
+ * <p>A share {@code relocate} of the steps are instead a Gibbs move on one variable's position:
+ * a variable v drawn uniformly is taken out of the order and put back at position q with
+ * probability ∝ π(≺ with v at q) over all n positions (the relative order of the others kept).
+ * It is a Gibbs update of v's position given the rest, so it leaves π invariant with no
+ * accept/reject; the n scores cost O(n) lookups, because moving v past w changes only the
+ * predecessor masks of v and w (one per-child table lookup each, and only when one is a
+ * candidate of the other). Positions beyond an order constraint are not offered. This is the
+ * single-node move of partition and order samplers in the literature (Kuipers &amp; Moffa 2017,
+ * sec. 4.2, "node moves"), applied to orders.
  *
- * <p>Memory per chain: O(n) state, 8 bytes per candidate edge per draw, 4n per draw for orders,
+ * <p>The draws go to a {@link DrawStore}: the Rao-Blackwellised edge posteriors given the current
+ * order (a float per candidate edge), the order's log evidence, the order itself, and — when
+ * features are asked — the ancestor and Markov-blanket indicators of one DAG sampled from the
+ * parent-set weights given the order.
+ *
+ * <p>Memory per chain: O(n) state, 4 bytes per candidate edge per draw, 4n per draw for orders,
  * n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (16 bytes each)
  * per non-tabulated child. Mutable, confined to one thread at a time.
  */
-final class OrderChain {
+final class OrderChain implements ChainRunner.Chain {
     private static final int CACHE_BITS = 12;
     private final LocalScores ls;
     private final ChildTables tables;
@@ -54,13 +62,21 @@ final class OrderChain {
     private long accepted;
     private volatile long publishedSteps;
     private volatile long publishedAccepted;
-    final List<double[]> edgeDraws = new ArrayList<>();
-    final List<long[]> featureDraws = new ArrayList<>();
-    final List<int[]> orderDraws = new ArrayList<>();
-    final List<Double> trace = new ArrayList<>();
+    private final DrawStore draws;
+    private final double relocate;
+    // scratch for a relocation
+    private final double[] posLog;
+    private final long[] vMaskAt;
+    private final double[] vLogAt;
+    private final double[] wLogAt;
+    private final long[] wMaskAt;
+
+    /** What one stored draw carries besides its quantities: the order and (with features) the feature bits. */
+    record State(int[] order, long[] features) {
+    }
 
     OrderChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
-               boolean features, SplittableRandom rng) {
+               boolean features, SplittableRandom rng, DrawStore draws, double relocate) {
         this.ls = ls;
         this.tables = tables;
         this.oc = oc;
@@ -70,6 +86,13 @@ final class OrderChain {
         this.edgeCount = edgeOffset[n];
         this.features = features;
         this.rng = rng;
+        this.draws = draws;
+        this.relocate = relocate;
+        posLog = new double[n];
+        vMaskAt = new long[n];
+        vLogAt = new double[n];
+        wLogAt = new double[n];
+        wMaskAt = new long[n];
         // split off before any use, features on or off, so the chain's own stream is the same either way
         this.featureRng = rng.split();
         this.cacheKey = new long[n][];
@@ -127,27 +150,41 @@ final class OrderChain {
         return v;
     }
 
-    long steps() {
+    @Override
+    public long steps() {
         return publishedSteps;
     }
 
-    long acceptedSteps() {
+    @Override
+    public long acceptedSteps() {
         return publishedAccepted;
     }
 
-    /** Runs {@code count} steps; stores a draw whenever the step count passes burn-in and is a multiple of {@code thin}. */
-    void advance(long count, long burnIn, long thin) {
+    @Override
+    public DrawStore draws() {
+        return draws;
+    }
+
+    @Override
+    public void advance(long count, java.util.function.BooleanSupplier stop) {
         var mx = java.lang.management.ManagementFactory.getThreadMXBean();
         long cpu0 = mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() : 0;
         for (long k = 0; k < count; k++) {
-            step();
+            if (relocate > 0 && rng.nextDouble() < relocate) {
+                relocateOne();
+            } else {
+                step();
+            }
             stepsDone++;
-            if (stepsDone > burnIn && (stepsDone - burnIn) % thin == 0) {
+            if (draws.due(stepsDone)) {
                 record();
             }
             if ((stepsDone & 1023) == 0) {
                 publishedSteps = stepsDone;
                 publishedAccepted = accepted;
+                if (stop.getAsBoolean()) {
+                    break;
+                }
             }
         }
         publishedSteps = stepsDone;
@@ -156,8 +193,127 @@ final class OrderChain {
     }
 
     /** CPU time this chain's steps have used, seconds (the machine may be shared: wall time misleads). */
-    double cpuSeconds() {
+    @Override
+    public double cpuSeconds() {
         return cpuNanos / 1e9;
+    }
+
+    /** The current order (a copy). */
+    int[] order() {
+        return order.clone();
+    }
+
+    /** The Gibbs move of one variable's position (see the class comment). */
+    private void relocateOne() {
+        if (n < 2) {
+            return;
+        }
+        int v = rng.nextInt(n);
+        int p = pos[v];
+        long vm = mask[v];
+        double vl = logSum[v];
+        posLog[p] = 0;
+        vMaskAt[p] = vm;
+        vLogAt[p] = vl;
+        double max = 0;
+        int lo = p;
+        int hi = p;
+        // v moves right past order[p+1..q]: v gains them, each w loses v
+        double dw = 0;
+        for (int k = p + 1; k < n; k++) {
+            int w = order[k];
+            if (oc.restricts() && oc.mustPrecede(v, w)) {
+                break;
+            }
+            int cv = cpos[v][w];
+            if (cv >= 0) {
+                vm |= 1L << cv;
+                vl = childLogSum(v, vm);
+            }
+            int cw = cpos[w][v];
+            wMaskAt[k] = mask[w];
+            wLogAt[k] = logSum[w];
+            if (cw >= 0) {
+                wMaskAt[k] = mask[w] & ~(1L << cw);
+                wLogAt[k] = childLogSum(w, wMaskAt[k]);
+                dw += wLogAt[k] - logSum[w];
+            }
+            vMaskAt[k] = vm;
+            vLogAt[k] = vl;
+            posLog[k] = vl - logSum[v] + dw;
+            hi = k;
+            if (posLog[k] > max) {
+                max = posLog[k];
+            }
+        }
+        vm = mask[v];
+        vl = logSum[v];
+        dw = 0;
+        for (int k = p - 1; k >= 0; k--) {
+            int w = order[k];
+            if (oc.restricts() && oc.mustPrecede(w, v)) {
+                break;
+            }
+            int cv = cpos[v][w];
+            if (cv >= 0) {
+                vm &= ~(1L << cv);
+                vl = childLogSum(v, vm);
+            }
+            int cw = cpos[w][v];
+            wMaskAt[k] = mask[w];
+            wLogAt[k] = logSum[w];
+            if (cw >= 0) {
+                wMaskAt[k] = mask[w] | (1L << cw);
+                wLogAt[k] = childLogSum(w, wMaskAt[k]);
+                dw += wLogAt[k] - logSum[w];
+            }
+            vMaskAt[k] = vm;
+            vLogAt[k] = vl;
+            posLog[k] = vl - logSum[v] + dw;
+            lo = k;
+            if (posLog[k] > max) {
+                max = posLog[k];
+            }
+        }
+        double total = 0;
+        for (int k = lo; k <= hi; k++) {
+            total += Math.exp(posLog[k] - max); // exp(−∞) = 0: impossible positions are never drawn
+        }
+        double u = rng.nextDouble() * total;
+        int q = hi;
+        for (int k = lo; k <= hi; k++) {
+            u -= Math.exp(posLog[k] - max);
+            if (u < 0) {
+                q = k;
+                break;
+            }
+        }
+        if (!(posLog[q] > Double.NEGATIVE_INFINITY) || q == p) {
+            return;
+        }
+        accepted++;
+        score += posLog[q];
+        if (q > p) {
+            for (int k = p + 1; k <= q; k++) {
+                int w = order[k];
+                mask[w] = wMaskAt[k];
+                logSum[w] = wLogAt[k];
+                order[k - 1] = w;
+                pos[w] = k - 1;
+            }
+        } else {
+            for (int k = p - 1; k >= q; k--) {
+                int w = order[k];
+                mask[w] = wMaskAt[k];
+                logSum[w] = wLogAt[k];
+                order[k + 1] = w;
+                pos[w] = k + 1;
+            }
+        }
+        order[q] = v;
+        pos[v] = q;
+        mask[v] = vMaskAt[q];
+        logSum[v] = vLogAt[q];
     }
 
     private void step() {
@@ -259,7 +415,7 @@ final class OrderChain {
     }
 
     private void record() {
-        double[] row = new double[edgeCount];
+        float[] row = new float[edgeCount];
         for (int i = 0; i < n; i++) {
             long m = mask[i];
             double[] t = tables.table(i);
@@ -268,9 +424,10 @@ final class OrderChain {
                 double z = t[(int) m];
                 for (long r = m; r != 0; r &= r - 1) {
                     int c = Long.numberOfTrailingZeros(r);
-                    row[off + c] = -Math.expm1(t[(int) (m & ~(1L << c))] - z);
+                    row[off + c] = (float) -Math.expm1(t[(int) (m & ~(1L << c))] - z);
                 }
             } else {
+                double[] acc = new double[ls.candidates(i).length];
                 long[] masks = ls.masks(i);
                 double[] w = ls.weights(i);
                 double z = logSum[i];
@@ -281,16 +438,15 @@ final class OrderChain {
                     }
                     double pr = Math.exp(w[s] - z);
                     for (; u != 0; u &= u - 1) {
-                        row[off + Long.numberOfTrailingZeros(u)] += pr;
+                        acc[Long.numberOfTrailingZeros(u)] += pr;
                     }
+                }
+                for (int c = 0; c < acc.length; c++) {
+                    row[off + c] = (float) acc[c];
                 }
             }
         }
-        edgeDraws.add(row);
-        trace.add(score);
-        orderDraws.add(order.clone());
-        if (features) {
-            featureDraws.add(DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order));
-        }
+        long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
+        draws.add(stepsDone, row, score, new State(order.clone(), feats));
     }
 }

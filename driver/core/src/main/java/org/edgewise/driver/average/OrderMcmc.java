@@ -15,10 +15,10 @@ import org.edgewise.driver.UserError;
 /**
  * Order MCMC (Friedman &amp; Koller 2003, "Being Bayesian about network structure", Machine
  * Learning 50): several chains over variable orders ({@link OrderChain}), each from its own
- * random start on its own thread, with Rao-Blackwellised edge estimates — the exact
- * P(j → i | D, ≺) of each stored order, averaged over the draws of all chains — and, per edge,
- * split-R̂, effective sample size and Monte Carlo standard error across chains
- * ({@link ChainDiagnostics}).
+ * random start on its own thread ({@link ChainRunner}), with Rao-Blackwellised edge estimates —
+ * the exact P(j → i | D, ≺) of each stored order, averaged over the draws of all chains — and,
+ * per edge, feature and for the log score trace, rank-normalised split-R̂, bulk- and tail-ESS and
+ * Monte Carlo standard error across chains ({@link MultiChainDiagnostics}).
  *
  * <p>The target is the order-modular posterior P(≺ | D) ∝ Σ_{G ⊆ ≺} Π_i ρ_i(U_i) P(D | G) under
  * the uniform prior over the allowed orders: the same posterior {@link ExactOrderSum} sums
@@ -26,30 +26,44 @@ import org.edgewise.driver.UserError;
  *
  * <p>Reproducible: chain c draws from the c-th {@link SplittableRandom#split()} of
  * {@code new SplittableRandom(seed)}, made on the calling thread before any chain starts, and
- * chains only meet at round boundaries fixed by the settings — so a seed gives the same result
- * whatever the thread timing.
+ * chains only meet at round boundaries fixed by step counts — so a seed gives the same result
+ * whatever the thread timing, unless a time budget stops the run.
  *
- * <p>Memory: {@link ChildTables} (at most {@code tableBudget} bytes), plus per chain 8 bytes per
- * candidate edge per stored draw (1,000 draws × 2,000 candidate edges = 16 MB).
+ * <p>Memory: {@link ChildTables} (at most {@code tableBudget} bytes), plus per chain at most
+ * 2·draws stored draws of 4 bytes per candidate edge and 4n bytes of order (2,000 draws × 1,200
+ * candidate edges ≈ 10 MB).
  */
 public final class OrderMcmc {
+    /**
+     * Least draws kept per chain when running until converged: half are warm-up, and bulk-ESS ≥ 400
+     * needs well over 400 draws used in all.
+     */
+    static final int UNTIL_CONVERGED_DRAWS = 1000;
+
     private OrderMcmc() {
     }
 
     /**
      * @param chains      number of chains (default 4)
-     * @param steps       steps per chain after burn-in
-     * @param burnIn      steps per chain discarded first
+     * @param steps       fixed run: steps per chain after burn-in; until converged: steps before the first check
+     * @param burnIn      fixed run: steps per chain discarded first (until converged: the first half)
      * @param seed        seed of all randomness
-     * @param draws       draws stored per chain over {@code steps} (thinning = steps / draws)
-     * @param untilRhat   when &gt; 1, keep running in rounds of steps/4 until the largest split-R̂
-     *                    is below it or {@code maxSteps} is reached; else NaN
-     * @param maxSteps    cap on steps per chain after burn-in for {@code untilRhat}
+     * @param draws       draws stored per chain (fixed run: thinning = steps / draws; until converged:
+     *                    between draws and 2·draws are kept, the thinning doubling as needed)
+     * @param untilConverged run until R̂ &lt; 1.01 and bulk-ESS ≥ 400 for every quantity, or a cap
+     * @param maxSteps    until converged: cap on steps per chain
+     * @param maxSeconds  until converged: wall-clock budget of the sampling (≤ 0: none)
      * @param features    also sample a DAG per draw for ancestor and Markov-blanket features
      * @param tableBudget bytes allowed for the per-child tables
+     * @param relocate    share of steps that are position (Gibbs) moves of one variable; the rest are swaps
+     * @param rhatTarget  R̂ below which a quantity counts as converged ({@link ChainDiagnostics#RHAT_TARGET})
      */
-    public record Settings(int chains, long steps, long burnIn, long seed, int draws, double untilRhat,
-                           long maxSteps, boolean features, long tableBudget) {
+    public record Settings(int chains, long steps, long burnIn, long seed, int draws, boolean untilConverged,
+                           long maxSteps, double maxSeconds, boolean features, long tableBudget, double relocate,
+                           double rhatTarget) {
+        /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
+        public static final double DEFAULT_RELOCATE = 0.1;
+
         public Settings {
             Checks.atLeast(chains, 1, "the number of chains");
             Checks.atLeast(steps, 1, "the steps per chain");
@@ -57,69 +71,101 @@ public final class OrderMcmc {
             if (draws < 4) {
                 throw new UserError("at least 4 stored draws per chain are needed for split-R̂, got " + draws);
             }
+            if (!(rhatTarget > 1)) {
+                throw new UserError("the split-R-hat target must be above 1 (e.g. 1.01), got " + rhatTarget);
+            }
+            if (!(relocate >= 0 && relocate <= 1)) {
+                throw new IllegalArgumentException("relocation share " + relocate);
+            }
         }
 
         public static Settings defaults(long seed) {
-            return new Settings(4, 200_000, 50_000, seed, 1000, Double.NaN, 0, false, 1L << 30);
+            return new Settings(4, 200_000, 50_000, seed, 1000, false, 0, 0, false, 1L << 30, DEFAULT_RELOCATE,
+                    ChainDiagnostics.RHAT_TARGET);
         }
 
         public Settings withSteps(long s, long b) {
-            return new Settings(chains, s, b, seed, draws, untilRhat, maxSteps, features, tableBudget);
+            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
         }
 
         public Settings withChains(int c) {
-            return new Settings(c, steps, burnIn, seed, draws, untilRhat, maxSteps, features, tableBudget);
+            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
         }
 
         public Settings withFeatures(boolean f) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilRhat, maxSteps, f, tableBudget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget);
         }
 
-        public Settings withUntilRhat(double r, long max) {
-            return new Settings(chains, steps, burnIn, seed, draws, r, max, features, tableBudget);
+        /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
+        public Settings untilConverged(long max, double seconds) {
+            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget);
         }
 
         public Settings withSeed(long sd) {
-            return new Settings(chains, steps, burnIn, sd, draws, untilRhat, maxSteps, features, tableBudget);
+            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
         }
 
         public Settings withDraws(int d) {
-            return new Settings(chains, steps, burnIn, seed, d, untilRhat, maxSteps, features, tableBudget);
+            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
         }
-    }
 
-    /** Receives progress between rounds and while chains run (on the calling thread). */
-    public interface Listener {
-        void progress(long stepsDone, long stepsPlanned, double acceptance, double maxRhat);
+        public Settings withRhatTarget(double t) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t);
+        }
 
-        /** Whether the current largest R̂ is shown (it costs a pass over all draws per round). */
-        default boolean wantsRhat() {
-            return true;
+        public Settings withRelocate(double r) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget);
         }
     }
 
     /** One estimated quantity with its diagnostics. */
-    public record Estimate(double mean, double mcse, double rhat, double ess) {
+    public record Estimate(double mean, double mcse, double rhat, double ess, double essTail, ChainDiagnostics.State state) {
+        static Estimate of(double mean, ChainDiagnostics.Summary s) {
+            return new Estimate(mean, s.mcse(), s.rhat(), s.essBulk(), s.essTail(), s.state());
+        }
     }
 
     /**
      * @param edges       {@code [from][to]}; null for pairs where {@code from} is no candidate of {@code to} (posterior 0)
      * @param ancestors   {@code [a][b]} for a ⇝ b when features were asked, else null
      * @param blanket     {@code [a][b]} (a &lt; b filled, symmetric) when features were asked, else null
-     * @param maxRhat     largest split-R̂ over edges (and features)
-     * @param minEss      smallest ESS over quantities that vary
-     * @param traces      per chain, the log evidence of the stored draws
-     * @param orders      all stored orders (chain by chain), for averaging predictions
+     * @param report      the diagnostics of every quantity and the log score
+     * @param outcome     why the run stopped, steps done and discarded, time in checks
+     * @param traces      per chain, the log evidence of the draws used
+     * @param orders      the orders of the draws used (chain by chain), for averaging predictions
+     * @param thin        steps between the draws used
      * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
      */
-    public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket, double maxRhat,
-                         double minEss, double acceptance, long stepsPerChain, long burnIn, long thin,
-                         List<double[]> traces, List<int[]> orders, boolean converged, double rhatThreshold,
-                         double setupSeconds, double samplingSeconds, double chainCpuSeconds) {
+    public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket,
+                         MultiChainDiagnostics.Report report, ChainRunner.Outcome outcome, double acceptance, long thin,
+                         List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds) {
+        public double maxRhat() {
+            return report.maxRhat();
+        }
+
+        public double minEss() {
+            return report.minEssBulk();
+        }
+
+        public boolean converged() {
+            return report.converged();
+        }
+
+        public long stepsPerChain() {
+            return outcome.stepsPerChain() - outcome.discarded();
+        }
+
+        public long burnIn() {
+            return outcome.discarded();
+        }
+
+        public double samplingSeconds() {
+            return outcome.samplingSeconds();
+        }
     }
 
     /** Runs the chains. {@code listener} may be null. */
-    public static Result run(LocalScores ls, OrderConstraints oc, Settings s, Listener listener) {
+    public static Result run(LocalScores ls, OrderConstraints oc, Settings s, ChainRunner.Listener listener) {
         int n = ls.variableCount();
         int[][] cpos = new int[n][n];
         int[] offset = new int[n + 1];
@@ -131,142 +177,58 @@ public final class OrderMcmc {
             }
             offset[i + 1] = offset[i] + cand.length;
         }
+        int[] edgeFrom = new int[offset[n]];
+        int[] edgeTo = new int[offset[n]];
+        for (int i = 0; i < n; i++) {
+            int[] cand = ls.candidates(i);
+            for (int k = 0; k < cand.length; k++) {
+                edgeFrom[offset[i] + k] = cand[k];
+                edgeTo[offset[i] + k] = i;
+            }
+        }
         long t0 = System.nanoTime();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
         List<OrderChain> chains = new ArrayList<>();
         for (int c = 0; c < s.chains(); c++) {
-            chains.add(new OrderChain(ls, tables, oc, cpos, offset, s.features(), root.split()));
+            DrawStore store = s.untilConverged() ? new DrawStore(offset[n], Math.max(s.draws(), UNTIL_CONVERGED_DRAWS), 1, 0)
+                    : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
+            chains.add(new OrderChain(ls, tables, oc, cpos, offset, s.features(), root.split(), store, s.relocate()));
         }
-        long thin = Math.max(1, s.steps() / s.draws());
-        long planned = s.burnIn() + s.steps();
-        double threshold = s.untilRhat() > 1 ? s.untilRhat() : 1.01;
-        long cap = s.untilRhat() > 1 ? Math.max(s.maxSteps(), s.steps()) + s.burnIn() : planned;
-        int threads = Math.min(s.chains(), Runtime.getRuntime().availableProcessors());
-        ExecutorService pool = Executors.newFixedThreadPool(threads, r -> {
-            Thread t = new Thread(r, "order-mcmc");
-            t.setDaemon(true);
-            return t;
-        });
-        double rhat = Double.NaN;
-        long done = 0;
-        long t1 = System.nanoTime();
-        try {
-            long round = Math.max(1, planned / 20);
-            long target = planned;
-            while (true) {
-                if (done >= target) {
-                    if (s.untilRhat() > 1 && !(rhat < threshold) && target < cap) {
-                        target = Math.min(cap, target + Math.max(1, s.steps() / 4));
-                    } else {
-                        break;
-                    }
-                }
-                long len = Math.min(round, target - done);
-                List<Future<?>> futures = new ArrayList<>();
-                for (OrderChain ch : chains) {
-                    futures.add(pool.submit(() -> ch.advance(len, s.burnIn(), thin)));
-                }
-                waitFor(futures, chains, rhat, listener, target);
-                done += len;
-                if (s.untilRhat() > 1 || (listener != null && listener.wantsRhat())) {
-                    rhat = maxRhat(chains, offset[n]);
-                }
-                if (listener != null) {
-                    listener.progress(done * chains.size(), target * chains.size(), acceptance(chains), rhat);
-                }
-            }
-        } finally {
-            pool.shutdownNow();
+        double setup = (System.nanoTime() - t0) / 1e9;
+        List<String> names = new ArrayList<>();
+        for (var v : ls.store().variables()) {
+            names.add(v.name());
         }
-        long t2 = System.nanoTime();
-        return summarise(ls, chains, offset, cpos, s, done, thin, threshold, (t1 - t0) / 1e9, (t2 - t1) / 1e9);
+        MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
+        ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
+                Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
+        return summarise(ls, chains, offset, s, out, setup, edgeFrom.length);
     }
 
-    private static void waitFor(List<Future<?>> futures, List<OrderChain> chains, double rhat,
-                                Listener listener, long total) {
-        for (Future<?> f : futures) {
-            while (true) {
-                try {
-                    f.get(250, TimeUnit.MILLISECONDS);
-                    break;
-                } catch (TimeoutException e) {
-                    if (listener != null) {
-                        long steps = 0;
-                        for (OrderChain c : chains) {
-                            steps += c.steps();
-                        }
-                        listener.progress(steps, total * chains.size(), acceptance(chains), rhat);
-                    }
-                } catch (InterruptedException e) {
-                    Thread.currentThread().interrupt();
-                    throw new IllegalStateException("interrupted", e);
-                } catch (ExecutionException e) {
-                    if (e.getCause() instanceof RuntimeException re) {
-                        throw re;
-                    }
-                    throw new IllegalStateException(e.getCause());
-                }
-            }
-        }
-    }
-
-    private static double acceptance(List<OrderChain> chains) {
-        long s = 0;
-        long a = 0;
-        for (OrderChain c : chains) {
-            s += c.steps();
-            a += c.acceptedSteps();
-        }
-        return s == 0 ? Double.NaN : (double) a / s;
-    }
-
-    /** Largest split-R̂ over the candidate edges (NaN before 4 draws per chain). */
-    private static double maxRhat(List<OrderChain> chains, int edges) {
-        int draws = chains.get(0).edgeDraws.size();
-        if (draws < 4) {
-            return Double.NaN;
-        }
-        double max = 1.0;
-        double[][] x = new double[chains.size()][draws];
-        for (int e = 0; e < edges; e++) {
-            for (int c = 0; c < chains.size(); c++) {
-                List<double[]> d = chains.get(c).edgeDraws;
-                for (int t = 0; t < draws; t++) {
-                    x[c][t] = d.get(t)[e];
-                }
-            }
-            double r = ChainDiagnostics.splitRhat(x);
-            if (r > max || Double.isNaN(max)) {
-                max = r;
-            }
-        }
-        return max;
-    }
-
-    private static Result summarise(LocalScores ls, List<OrderChain> chains, int[] offset, int[][] cpos,
-                                    Settings s, long done, long thin, double threshold, double setup, double sampling) {
+    private static Result summarise(LocalScores ls, List<OrderChain> chains, int[] offset, Settings s,
+                                    ChainRunner.Outcome out, double setup, int edgeCount) {
         int n = ls.variableCount();
-        int m = chains.size();
-        int draws = chains.get(0).edgeDraws.size();
-        if (draws < 4) {
-            throw new UserError("only " + draws + " draws per chain were stored; run more steps (at least "
-                    + 4 * thin + ") or lower the thinning");
+        MultiChainDiagnostics.Report rep = out.report();
+        List<DrawStore> stores = new ArrayList<>();
+        int[] from = new int[chains.size()];
+        for (int c = 0; c < chains.size(); c++) {
+            stores.add(chains.get(c).draws());
+            from[c] = stores.get(c).firstAfter(out.discarded());
         }
-        double[][] x = new double[m][draws];
+        int draws = rep.drawsPerChain();
         Estimate[][] edges = new Estimate[n][n];
-        double[] worst = {1.0, Double.POSITIVE_INFINITY};
         for (int i = 0; i < n; i++) {
             int[] cand = ls.candidates(i);
             for (int k = 0; k < cand.length; k++) {
                 int e = offset[i] + k;
-                for (int c = 0; c < m; c++) {
-                    List<double[]> d = chains.get(c).edgeDraws;
+                double sum = 0;
+                for (int c = 0; c < stores.size(); c++) {
                     for (int t = 0; t < draws; t++) {
-                        x[c][t] = d.get(t)[e];
+                        sum += stores.get(c).quantity(from[c] + t, e);
                     }
                 }
-                edges[cand[k]][i] = estimate(x, worst);
+                edges[cand[k]][i] = Estimate.of(sum / (draws * stores.size()), rep.quantities()[e]);
             }
         }
         Estimate[][] anc = null;
@@ -279,11 +241,11 @@ public final class OrderMcmc {
                     if (a == b) {
                         continue;
                     }
-                    fill(x, chains, DagFeatures.ancestorBit(a, b, n), draws);
-                    anc[a][b] = estimate(x, worst);
+                    int qa = edgeCount + OrderQuantities.ancestorIndex(a, b, n);
+                    anc[a][b] = Estimate.of(rep.quantities()[qa].mean(), rep.quantities()[qa]);
                     if (a < b) {
-                        fill(x, chains, DagFeatures.blanketBit(a, b, n), draws);
-                        mb[a][b] = estimate(x, worst);
+                        int qb = edgeCount + OrderQuantities.blanketIndex(a, b, n);
+                        mb[a][b] = Estimate.of(rep.quantities()[qb].mean(), rep.quantities()[qb]);
                         mb[b][a] = mb[a][b];
                     }
                 }
@@ -291,37 +253,20 @@ public final class OrderMcmc {
         }
         List<double[]> traces = new ArrayList<>();
         List<int[]> orders = new ArrayList<>();
-        for (OrderChain c : chains) {
-            traces.add(c.trace.stream().mapToDouble(Double::doubleValue).toArray());
-            orders.addAll(c.orderDraws);
+        long thin = stores.get(0).thin();
+        for (int c = 0; c < stores.size(); c++) {
+            double[] tr = new double[draws];
+            for (int t = 0; t < draws; t++) {
+                tr[t] = stores.get(c).logScore(from[c] + t);
+                orders.add(((OrderChain.State) stores.get(c).state(from[c] + t)).order());
+            }
+            traces.add(tr);
+            thin = Math.min(thin, stores.get(c).thin());
         }
-        double maxRhat = worst[0];
-        double minEss = worst[1] == Double.POSITIVE_INFINITY ? Double.NaN : worst[1];
         double cpu = 0;
         for (OrderChain c : chains) {
             cpu += c.cpuSeconds();
         }
-        return new Result(edges, anc, mb, maxRhat, minEss, acceptance(chains), done - s.burnIn(), s.burnIn(), thin,
-                traces, orders, maxRhat < threshold, threshold, setup, sampling, cpu);
-    }
-
-    private static void fill(double[][] x, List<OrderChain> chains, int bit, int draws) {
-        for (int c = 0; c < chains.size(); c++) {
-            List<long[]> d = chains.get(c).featureDraws;
-            for (int t = 0; t < draws; t++) {
-                x[c][t] = DagFeatures.get(d.get(t), bit) ? 1.0 : 0.0;
-            }
-        }
-    }
-
-    private static Estimate estimate(double[][] x, double[] worst) {
-        ChainDiagnostics.Summary sm = ChainDiagnostics.summary(x);
-        if (sm.rhat() > worst[0]) {
-            worst[0] = sm.rhat();
-        }
-        if (sm.ess() < worst[1]) {
-            worst[1] = sm.ess();
-        }
-        return new Estimate(sm.mean(), sm.mcse(), sm.rhat(), sm.ess());
+        return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu);
     }
 }

@@ -9,27 +9,24 @@ public final class OrderSampling {
     private OrderSampling() {
     }
 
-    /** Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and R̂ to {@code progress}. */
+    /**
+     * Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and — after each
+     * convergence check — the worst R̂ and the smallest bulk-ESS to {@code progress}.
+     */
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
         OrderMcmc.Settings ms = s.mcmc(withFeatures);
-        progress.start("order MCMC", (ms.burnIn() + ms.steps()) * ms.chains());
+        progress.start(ms.untilConverged() ? "order MCMC until converged" : "order MCMC",
+                ms.untilConverged() ? -1 : (ms.burnIn() + ms.steps()) * ms.chains());
         try {
             long[] shown = {0};
-            return OrderMcmc.run(ls, oc, ms, new OrderMcmc.Listener() {
-                @Override
-                public void progress(long done, long planned, double acc, double rhat) {
-                    if (done > shown[0]) {
-                        shown[0] = done;
-                        progress.done(done);
-                    }
-                    progress.chainState(acc, rhat);
+            return OrderMcmc.run(ls, oc, ms, (done, planned, acc, report) -> {
+                if (done > shown[0]) {
+                    shown[0] = done;
+                    progress.done(done);
                 }
-
-                @Override
-                public boolean wantsRhat() {
-                    return progress.wantsRhat();
-                }
+                progress.chainState(acc, report == null ? Double.NaN : report.maxRhat(),
+                        report == null ? Double.NaN : report.minEssBulk());
             });
         } finally {
             progress.finish();

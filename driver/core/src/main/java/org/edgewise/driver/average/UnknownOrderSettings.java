@@ -12,11 +12,14 @@ import org.edgewise.driver.UserError;
  * @param tiers         tiers of variable names, earliest first; null or empty: the store's tiers
  * @param seed          seed of every random draw
  * @param chains        MCMC: number of chains
- * @param steps         MCMC: steps per chain after burn-in
- * @param burnIn        MCMC: steps per chain discarded first; null: a quarter of {@code steps}
- * @param draws         MCMC: draws stored per chain (thinning = steps / draws)
- * @param untilRhat     MCMC: keep running until the largest split-R̂ is below it; null: no target
- * @param maxSteps      MCMC with {@code untilRhat}: cap on steps per chain; null: 20 × {@code steps}
+ * @param steps         MCMC: steps per chain after burn-in (a fixed run); null: run until converged
+ *                      (with {@code untilRhat}: the steps before the first check)
+ * @param burnIn        MCMC fixed run: steps per chain discarded first; null: a quarter of {@code steps}
+ * @param draws         MCMC: draws stored per chain (fixed run: thinning = steps / draws)
+ * @param untilRhat     MCMC: run until every quantity has R̂ below it and bulk-ESS ≥ 400; null: 1.01
+ *                      when {@code steps} is null, else a fixed run
+ * @param maxSteps      MCMC until converged: cap on steps per chain; null: none
+ * @param maxSeconds    MCMC until converged: time budget of the sampling; null: {@value #DEFAULT_MAX_SECONDS} s
  * @param ancestors     also estimate ancestor relations a ⇝ b
  * @param markovBlanket also estimate Markov-blanket membership
  * @param orderSamples  exact: orders drawn from the exact order posterior for features (and for
@@ -26,10 +29,15 @@ import org.edgewise.driver.UserError;
  * @param essentialGraph also estimate essential-graph features (DAGs drawn from the posterior,
  *                      {@code orderSamples} of them for the exact method)
  */
-public record UnknownOrderSettings(Method method, List<List<String>> tiers, long seed, int chains, long steps,
-                                   Long burnIn, int draws, Double untilRhat, Long maxSteps, boolean ancestors,
-                                   boolean markovBlanket, int orderSamples, int topParents, DagPrior dagPrior,
-                                   boolean essentialGraph) {
+public record UnknownOrderSettings(Method method, List<List<String>> tiers, long seed, int chains, Long steps,
+                                   Long burnIn, int draws, Double untilRhat, Long maxSteps, Double maxSeconds,
+                                   boolean ancestors, boolean markovBlanket, int orderSamples, int topParents,
+                                   DagPrior dagPrior, boolean essentialGraph) {
+    /** Default time budget of a run until converged, seconds. */
+    public static final double DEFAULT_MAX_SECONDS = 300;
+    /** Steps per chain before the first convergence check when none are given. */
+    public static final long FIRST_CHECK = 20_000;
+
     /** The averaging methods over unknown orders. */
     public enum Method {
         /** Exact sum over all orders by dynamic programming (Koivisto &amp; Sood 2004). */
@@ -48,7 +56,9 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         dagPrior = dagPrior == null ? DagPrior.STRUCTURE_MODULAR : dagPrior;
         if (method == Method.MCMC) {
             Checks.atLeast(chains, 1, "the number of chains");
-            Checks.atLeast(steps, 1, "the steps per chain");
+            if (steps != null) {
+                Checks.atLeast(steps, 1, "the steps per chain");
+            }
             if (burnIn != null) {
                 Checks.notNegative(burnIn, "the burn-in");
             }
@@ -72,9 +82,19 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         return ancestors || markovBlanket || essentialGraph;
     }
 
-    /** The burn-in used: as given, else a quarter of the steps. */
+    /** Whether MCMC runs until converged (no fixed {@code steps}, or an R̂ target given). */
+    public boolean untilConverged() {
+        return steps == null || untilRhat != null;
+    }
+
+    /** The R̂ target of a run until converged. */
+    public double rhatTarget() {
+        return untilRhat == null ? ChainDiagnostics.RHAT_TARGET : untilRhat;
+    }
+
+    /** The burn-in of a fixed run: as given, else a quarter of the steps. */
     public long burnInSteps() {
-        return burnIn == null ? steps / 4 : burnIn;
+        return burnIn != null ? burnIn : steps == null ? 0 : steps / 4;
     }
 
     /**
@@ -82,9 +102,11 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
      * (at least 64 MiB).
      */
     public OrderMcmc.Settings mcmc(boolean withFeatures) {
-        return new OrderMcmc.Settings(chains, steps, burnInSteps(), seed, draws,
-                untilRhat == null ? Double.NaN : untilRhat, maxSteps == null ? 20 * steps : maxSteps,
-                withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4));
+        long first = steps == null ? FIRST_CHECK : steps;
+        return new OrderMcmc.Settings(chains, first, burnInSteps(), seed, draws, untilConverged(),
+                maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps, maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds,
+                withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4),
+                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget());
     }
 
     /** The order constraints: these tiers when given, else the store's. */

@@ -77,13 +77,37 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     }
 
     /**
-     * MCMC diagnostics. {@code rhat}: largest split-R̂ over edges; {@code ess}: smallest bulk
-     * effective sample size; {@code traces}: log evidence per chain (thinned), for trace plots.
+     * MCMC diagnostics (Vehtari, Gelman, Simpson, Carpenter &amp; Bürkner 2021), over every edge, feature
+     * and the log score trace: {@code rhat} the largest rank-normalised split-R̂ (max of bulk and
+     * folded; +∞ when a quantity is stuck: constant within each chain, different between chains);
+     * {@code ess} the smallest bulk effective sample size; {@code essTail} the smallest tail-ESS;
+     * {@code converged}: every quantity has R̂ &lt; {@code rhatTarget} and bulk-ESS ≥ {@code essTarget},
+     * except {@code constant} ones (equal in every draw) and {@code settled} ones (probabilities whose
+     * draws all lie within {@code settleSpan}); {@code worst}: the quantities furthest from the targets;
+     * {@code stopReason}: {@code steps} (a fixed run), {@code converged}, {@code max-steps} or
+     * {@code max-time}; {@code traces}: log evidence per chain (thinned), for trace plots.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
                               double rhat, double ess, boolean converged, List<List<Double>> traces,
-                              int traceThin) {
+                              int traceThin, Double rhatTarget, Double essTarget, Double essTail, String stopReason,
+                              Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
+                              Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
+                              Double samplingSeconds) {
+        /** Diagnostics with the original fields only. */
+        public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat, double ess,
+                           boolean converged, List<List<Double>> traces, int traceThin) {
+            this(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin, null, null, null, null,
+                    null, null, null, null, null, null, null, null, null, null);
+        }
+    }
+
+    /**
+     * A quantity far from convergence: {@code rhat} (null when infinite), bulk {@code ess} and
+     * {@code essTail} (null when undefined), {@code state} {@code varies} or {@code stuck}.
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Worst(String quantity, Double rhat, Double ess, Double essTail, String state) {
     }
 
     /** A feature beyond a single edge: {@code kind} {@code ancestor} (from ⇝ to) or {@code markov-blanket}. */

@@ -49,7 +49,7 @@ class DagPriorAveragingTest {
 
     static UnknownOrderSettings settings(UnknownOrderSettings.Method m, DagPrior prior, boolean essential, int samples, long steps,
                                          int draws) {
-        return new UnknownOrderSettings(m, List.of(), 5, 4, steps, null, draws, null, null, false, false, samples, 3, prior, essential);
+        return new UnknownOrderSettings(m, List.of(), 5, 4, steps, null, draws, null, null, null, false, false, samples, 3, prior, essential);
     }
 
     @Test

@@ -99,8 +99,13 @@ class OrderMcmcTest {
         ScoreStore s = TestStores.random(8, 2, 2, 2000, 78);
         LocalScores ls = TestStores.scores(s);
         OrderMcmc.Result mc = OrderMcmc.run(ls, OrderConstraints.none(8),
-                OrderMcmc.Settings.defaults(3).withSteps(400, 0).withDraws(20).withUntilRhat(1.01, 200_000), null);
-        assertTrue(mc.stepsPerChain() > 400, "steps " + mc.stepsPerChain());
-        assertTrue(mc.converged() == (mc.maxRhat() < 1.01));
+                OrderMcmc.Settings.defaults(3).withSteps(400, 0).untilConverged(2_000_000, 0), null);
+        assertTrue(mc.outcome().stepsPerChain() > 400, "steps " + mc.outcome().stepsPerChain());
+        assertTrue(mc.converged(), "rhat " + mc.maxRhat() + " ess " + mc.minEss());
+        assertEquals(ChainRunner.StopReason.CONVERGED, mc.outcome().stop());
+        // converged means every quantity that varies has R̂ < 1.01 and bulk-ESS ≥ 400 (Vehtari et al. 2021)
+        assertTrue(mc.maxRhat() < 1.01 && mc.minEss() >= 400, "rhat " + mc.maxRhat() + " ess " + mc.minEss());
+        // the first half is warm-up
+        assertEquals(mc.outcome().stepsPerChain() / 2, mc.burnIn());
     }
 }

@@ -20,6 +20,36 @@ final class TestStores {
                 FamilyScore.withDefaults());
     }
 
+    /**
+     * A wide store: {@link RandomNetwork} (ternary, at most 2 parents drawn among the 6 preceding
+     * variables), each child's candidate parents its {@code k} nearest neighbours on each side in
+     * the generating order (standing in for a store tallied with {@code --candidates 2k}).
+     */
+    static ScoreStore windowed(int n, int k, int d, int rows, long seed) {
+        Network net = RandomNetwork.generate("v", n, 3, 2, 6, 1.5, 0, seed);
+        List<org.edgewise.driver.store.Variable> vars = RandomNetwork.variables(net);
+        int[][] data = new ForwardSampler(net).sample(rows, seed + 1);
+        List<org.edgewise.driver.store.FamilyCounts> fams = new java.util.ArrayList<>();
+        List<Double> sc = new java.util.ArrayList<>();
+        FamilyScore fs = FamilyScore.withDefaults();
+        for (int c = 0; c < n; c++) {
+            final int child = c;
+            int[] cand = java.util.stream.IntStream.rangeClosed(Math.max(0, c - k), Math.min(n - 1, c + k))
+                    .filter(v -> v != child).toArray();
+            for (int size = 0; size <= Math.min(d, cand.length); size++) {
+                for (int[] ps : org.edgewise.driver.store.ParentSets.subsets(cand, size)) {
+                    org.edgewise.driver.store.FamilyCounts fc = InMemoryTally.count(vars, data, child, ps);
+                    fams.add(fc);
+                    sc.add(fs.logScore(fc.counts(), vars.get(child).arity(), Math.pow(3, ps.length)));
+                }
+            }
+        }
+        org.edgewise.driver.store.Manifest m0 = InMemoryTally.tally(vars.subList(0, 1), new int[][] {{0}}, 0, fs).manifest();
+        org.edgewise.driver.store.Manifest m = org.edgewise.driver.store.Manifest.of(m0.program(), m0.programVersion(),
+                m0.createdAt(), m0.input(), vars, d, null, List.of(), List.of(), List.of(), m0.score(), m0.ess());
+        return new ScoreStore(m, fams, sc.stream().mapToDouble(Double::doubleValue).toArray());
+    }
+
     /** The same store with every stored score multiplied by {@code factor} (e.g. to reach −10⁶). */
     static ScoreStore scaled(ScoreStore s, double factor) {
         double[] sc = s.logScores();

@@ -30,7 +30,7 @@ class EffectAnalysisTest {
     static final EffectEngine.Settings ENGINE = new EffectEngine.Settings(300, 5L, 1_000_000L);
 
     static UnknownOrderSettings exact() {
-        return new UnknownOrderSettings(UnknownOrderSettings.Method.EXACT, null, 1L, 4, 1000, null, 100, null, null,
+        return new UnknownOrderSettings(UnknownOrderSettings.Method.EXACT, null, 1L, 4, 1000L, null, 100, null, null, null,
                 false, false, 1000, 0, DagPrior.ORDER_MODULAR, false);
     }
 

@@ -1,0 +1,87 @@
+package org.edgewise.driver.bench;
+
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.average.OrderMcmc;
+
+/**
+ * {@code scripts/bench wide}: order MCMC run until converged on wide tables — random networks
+ * ({@code RandomNetwork}, seed 42, ternary, 2,000 rows), each variable's candidates its K nearest
+ * neighbours on each side in the generating order, d = 3. Per n: two seeds, time to convergence,
+ * steps/s, bulk-ESS per second and max |Δ| over edges between the two seeds; and {@code mixing}:
+ * fixed-length runs with and without the relocation move side by side (ESS per CPU-second).
+ * Arguments: {@code wide K MAXSECONDS N...} or {@code mixing N K STEPS}.
+ */
+public final class WideBench {
+    private WideBench() {
+    }
+
+    public static void main(String[] args) {
+        if (args[0].equals("mixing")) {
+            mixing(Integer.parseInt(args[1]), Integer.parseInt(args[2]), Long.parseLong(args[3]));
+            return;
+        }
+        int k = Integer.parseInt(args[1]);
+        double maxSec = Double.parseDouble(args[2]);
+        for (int a = 3; a < args.length; a++) {
+            wide(Integer.parseInt(args[a]), k, maxSec);
+        }
+    }
+
+    static void wide(int n, int k, double maxSec) {
+        LocalScores ls = UnknownOrderBench.scores(n, 3, k);
+        OrderMcmc.Result[] r = new OrderMcmc.Result[2];
+        for (int s = 0; s < 2; s++) {
+            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
+            long t0 = System.nanoTime();
+            r[s] = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
+            double wall = (System.nanoTime() - t0) / 1e9;
+            var o = r[s].outcome();
+            System.out.printf("wide n=%d candidates<=%d seed %d: %s after %.1f s wall (sampling %.1f s, %d checks %.1f s); "
+                            + "%d steps/chain = %.0f steps/s per chain; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS/s), min tail ESS %.0f; "
+                            + "%d settled, %d constant; worst: %s; load %.1f%n",
+                    n, 2 * k, 1 + s, o.stop().label(), wall, o.samplingSeconds(), o.checks(), o.checkSeconds(), o.stepsPerChain(),
+                    o.stepsPerChain() * 4 / o.samplingSeconds() / Math.min(4, Runtime.getRuntime().availableProcessors()),
+                    r[s].maxRhat(), r[s].minEss(), r[s].minEss() / o.samplingSeconds(), r[s].report().minEssTail(),
+                    r[s].report().settled(), r[s].report().constant(),
+                    r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), UnknownOrderBench.load());
+        }
+        System.out.printf("wide n=%d: max |delta| over edges between seeds 1 and 2 = %.4f%n", n, OrderMcmcDiff.maxDiff(r[0], r[1], n));
+    }
+
+    static String describe(MultiChainDiagnostics.Worst w) {
+        return String.format("%s (R-hat %.4f, ESS %.0f, %s)", w.quantity(), w.rhat(), w.essBulk(), w.state().label());
+    }
+
+    static void mixing(int n, int k, long steps) {
+        LocalScores ls = UnknownOrderBench.scores(n, 3, k);
+        OrderMcmc.run(ls, OrderConstraints.none(n), OrderMcmc.Settings.defaults(9).withSteps(20_000, 1000).withChains(1), null);
+        for (int rep = 0; rep < 2; rep++) {
+            for (double reloc : new double[] {0.0, 0.1, 0.5}) {
+                OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(steps, steps / 4).withRelocate(reloc);
+                OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
+                System.out.printf("mixing n=%d candidates<=%d relocate %.1f: 4 chains x %d steps, %.1f s CPU (%.0f steps/CPU-s per chain); "
+                                + "max R-hat %.4f, min bulk ESS %.0f = %.1f ESS per CPU-second, log-score ESS %.0f; worst %s; load %.1f%n",
+                        n, 2 * k, reloc, steps + steps / 4, r.chainCpuSeconds(), 4 * (steps + steps / 4) / r.chainCpuSeconds(),
+                        r.maxRhat(), r.minEss(), r.minEss() / r.chainCpuSeconds(), r.report().logScore().essBulk(),
+                        r.report().worst().isEmpty() ? "-" : describe(r.report().worst().get(0)), UnknownOrderBench.load());
+            }
+        }
+    }
+
+    /** Largest |P₁(a→b) − P₂(a→b)| over all pairs. */
+    static final class OrderMcmcDiff {
+        static double maxDiff(OrderMcmc.Result a, OrderMcmc.Result b, int n) {
+            double worst = 0;
+            for (int i = 0; i < n; i++) {
+                for (int j = 0; j < n; j++) {
+                    double p = a.edges()[i][j] == null ? 0 : a.edges()[i][j].mean();
+                    double q = b.edges()[i][j] == null ? 0 : b.edges()[i][j].mean();
+                    worst = Math.max(worst, Math.abs(p - q));
+                }
+            }
+            return worst;
+        }
+    }
+}
