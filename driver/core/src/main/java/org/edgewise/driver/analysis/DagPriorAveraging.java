@@ -166,10 +166,11 @@ public final class DagPriorAveraging {
             }
         }
         EdgeResult.Diagnostics od = UnknownOrderAveraging.diagnostics(r, s);
-        boolean converged = od.converged() && maxRhat < UnknownOrderAveraging.RHAT_WARN;
-        EdgeResult.Diagnostics diag = new EdgeResult.Diagnostics(od.chains(), od.steps(), od.burnIn(), od.seed(), od.acceptance(),
-                Math.max(maxRhat, od.rhat()), Double.isFinite(minEss) ? Math.min(minEss, od.ess()) : od.ess(), converged,
-                od.traces(), od.traceThin());
+        // converged: the order chains by their own diagnostics, and the re-weighted edge estimates by the same targets
+        double ess = Double.isFinite(minEss) ? Math.min(minEss, od.ess()) : od.ess();
+        double essTarget = od.essTarget() == null ? 0 : od.essTarget();
+        boolean converged = od.converged() && maxRhat < UnknownOrderAveraging.RHAT_WARN && ess >= essTarget;
+        EdgeResult.Diagnostics diag = od.withSummary(Math.max(maxRhat, od.rhat()), ess, converged);
         return new EdgeResult("mcmc", names, null, null, DagPrior.STRUCTURE_MODULAR.label(), null, settings,
                 ResultBuilder.provenance(ls.store(), storePath), edges, ResultBuilder.topParents(ls, setPosteriors(ls, d), s.topParents()),
                 null, diag, s.features() ? features(names, s, d) : null, null, DagPrior.STRUCTURE_MODULAR.label(),

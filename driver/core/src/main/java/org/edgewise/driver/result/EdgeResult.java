@@ -100,6 +100,13 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
             this(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin, null, null, null, null,
                     null, null, null, null, null, null, null, null, null, null);
         }
+
+        /** The same diagnostics with other summary figures (e.g. of estimates re-weighted from the chains' draws). */
+        public Diagnostics withSummary(double rhat, double ess, boolean converged) {
+            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
+                    rhatTarget, essTarget, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
+                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
+        }
     }
 
     /**
