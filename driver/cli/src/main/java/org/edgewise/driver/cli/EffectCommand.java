@@ -72,9 +72,6 @@ public final class EffectCommand implements Callable<Integer> {
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
         DagPrior prior = settings != null ? settings.dagPrior() : DagPrior.parse(averaging.unknown.dagPrior, "--dag-prior");
-        if (settings != null && prior == DagPrior.STRUCTURE_MODULAR) {
-            throw new UserError(EffectAnalysis.STRUCTURE_MODULAR_REFUSED);
-        }
         EffectEngine.Settings engine = new EffectEngine.Settings(effectDraws, averaging.unknown.seed, maxHiddenStates);
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         int[] ord = averaging.method.order == null ? null : VariableOrder.parse(store.manifest(), averaging.method.order);

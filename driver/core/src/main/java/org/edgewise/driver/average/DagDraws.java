@@ -95,6 +95,21 @@ public final class DagDraws {
         return new OrderMcmc.Estimate(p, sum.mcse(), sum.rhat(), sum.ess());
     }
 
+    /** Number of chains. */
+    public int chainCount() {
+        return dags.length;
+    }
+
+    /** Number of DAGs in chain c. */
+    public int chainLength(int c) {
+        return dags[c].length;
+    }
+
+    /** Self-normalisable weight of DAG k of chain c (1 when unweighted). */
+    public double weight(int c, int k) {
+        return weights == null ? 1.0 : weights[c][k];
+    }
+
     /** Parent bitmask of {@code child} in DAG k of chain c. */
     public int parentsOf(int c, int k, int child) {
         return dags[c][k][child];
