@@ -14,6 +14,7 @@ import java.util.List;
  *       z_t = (num_t − p·den_t) / mean(den) ({@link ChainDiagnostics}; the delta method for a
  *       ratio — common practice for self-normalised estimates from MCMC).</li>
  * </ul>
+ * An estimate of exactly 0 or 1 reports the rule-of-three bound 3/K ({@link McseBound}), not 0.
  * Memory: the DAGs (n ints each), their essential graphs and reach sets (n ints each), weights.
  */
 public final class DagDraws {
@@ -63,7 +64,7 @@ public final class DagDraws {
                 hits += f.test(0, i) ? 1 : 0;
             }
             double p = hits / (double) k;
-            return new OrderMcmc.Estimate(p, Math.sqrt(p * (1 - p) / k), Double.NaN, k);
+            return new OrderMcmc.Estimate(p, McseBound.reported(p, Math.sqrt(p * (1 - p) / k), k), Double.NaN, k);
         }
         int t = dags[0].length / group;
         double[][] num = new double[chains][t];
@@ -92,7 +93,7 @@ public final class DagDraws {
             }
         }
         ChainDiagnostics.Summary sum = ChainDiagnostics.summary(z);
-        return new OrderMcmc.Estimate(p, sum.mcse(), sum.rhat(), sum.ess());
+        return new OrderMcmc.Estimate(p, McseBound.reported(p, sum.mcse(), (long) chains * t), sum.rhat(), sum.ess());
     }
 
     /** Number of chains. */
