@@ -72,9 +72,6 @@ public final class EffectCommand implements Callable<Integer> {
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
         DagPrior prior = settings != null ? settings.dagPrior() : DagPrior.parse(averaging.unknown.dagPrior, "--dag-prior");
-        if (settings != null && prior == DagPrior.STRUCTURE_MODULAR) {
-            throw new UserError(EffectAnalysis.STRUCTURE_MODULAR_REFUSED);
-        }
         EffectEngine.Settings engine = new EffectEngine.Settings(effectDraws, averaging.unknown.seed, maxHiddenStates);
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         int[] ord = averaging.method.order == null ? null : VariableOrder.parse(store.manifest(), averaging.method.order);
@@ -119,7 +116,7 @@ public final class EffectCommand implements Callable<Integer> {
     private static void table(PrintWriter w, EffectResult r) {
         String y = text(r.target()) + (r.given() == null ? "" : " | " + text(r.given()));
         String sep = r.given() == null ? " | " : ", ";
-        w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (%s%s; %s, %s)%n", y, sep, text(r.intervention()), r.probability(),
+        w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (%s%s; method %s, %s)%n", y, sep, text(r.intervention()), r.probability(),
                 r.estimate(), r.estimate().equals("exact") ? "" : String.format(Locale.ROOT, ", MCSE %.2g", r.mcse()),
                 r.method(), r.dagPrior() == null ? "given order" : r.dagPrior() + " DAG prior");
         if (r.versus() != null) {

@@ -23,8 +23,11 @@ import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CasePredictor;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.average.BestDagOrder;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.query.OrderMixture;
+import org.edgewise.driver.query.StructureCasePrediction;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.query.UnknownOrderPrediction;
 import org.edgewise.driver.result.ResultJson;
@@ -44,7 +47,10 @@ import picocli.CommandLine.Model.CommandSpec;
  */
 @Command(name = "predict", mixinStandardHelpOptions = true,
         description = {"P(case | D, order) averaged over every network consistent with a given order (--order), or also over unknown orders (--method exact|mcmc), and under the single best network.",
-                "Variables left out of a case are hidden and summed out; --given makes it a conditional P(case | given, D, order)."})
+                "Variables left out of a case are hidden and summed out; --given makes it a conditional P(case | given, D, order).",
+                "--method exact with the default --dag-prior structure-modular is exact over every DAG, as Z(D + case) / Z(D): "
+                        + "one exact structure-modular sum (3^n terms) per case and per joint state of its hidden variables "
+                        + "(fast for n <= ~16). --method mcmc needs --dag-prior order-modular."})
 public final class PredictCommand implements Callable<Integer> {
     static final String NOTE = "Probability of a new case under the stated assumptions (the order, or the orders averaged over; d, score, prior); "
             + "a model-based estimate, not a measured frequency. Interpret it with domain experts.";
@@ -79,7 +85,7 @@ public final class PredictCommand implements Callable<Integer> {
     long maxHiddenStates;
 
     @Option(names = "--exact-cases", description = "with --method exact: each complete case exactly, as Z(D + case) / Z(D) "
-            + "(one exact sum over all orders per case, order-modular prior) instead of mixing sampled orders when n >= 8")
+            + "(one exact sum over all orders per case, --dag-prior order-modular) instead of mixing sampled orders when n >= 8")
     boolean exactCases;
 
     /** Over unknown orders: the mixture, or null given an order. */
@@ -114,10 +120,13 @@ public final class PredictCommand implements Callable<Integer> {
                 "a conditional needs P(given | D), a sum over the hidden variables");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
-        if (settings != null && settings.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
-            throw new UserError("predict over unknown orders is implemented under the order-modular DAG prior only: "
-                    + "add --dag-prior order-modular (structure-modular prediction is not available yet)");
+        structure = settings != null && settings.dagPrior() == DagPrior.STRUCTURE_MODULAR;
+        if (structure && meth.equals("mcmc")) {
+            throw new UserError("predict --method mcmc is implemented under the order-modular DAG prior only: "
+                    + "use --method exact (exact under the structure-modular prior) or add --dag-prior order-modular");
         }
+        Checks.notApplicable(exactCases && structure, "--exact-cases", "with --dag-prior structure-modular",
+                "every case is already exact there, Z(D + case) / Z(D) over all DAGs");
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
         int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order);
@@ -131,6 +140,16 @@ public final class PredictCommand implements Callable<Integer> {
             OrderPosterior op = OrderPosterior.of(ls, ord);
             avg = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates);
             best = CasePredictor.bestNetwork(op).withMaxHiddenStates(maxHiddenStates);
+        } else if (structure) {
+            OrderConstraints oc = settings.constraints(ls);
+            try {
+                avg = new StructureCasePrediction(ls, oc, maxHiddenStates);
+            } catch (StructureSum.TooLarge e) {
+                throw new UserError("predict --method exact under the structure-modular prior runs the exact sum once per "
+                        + "case and hidden joint state: " + e.getMessage(), e);
+            }
+            best = CasePredictor.bestNetwork(OrderPosterior.of(ls, BestDagOrder.of(ls, oc))).withMaxHiddenStates(maxHiddenStates);
+            averagedOver = "exact: all DAGs, as Z(D + case) / Z(D)";
         } else {
             UnknownOrderPrediction.Mixture um;
             try {
@@ -163,6 +182,9 @@ public final class PredictCommand implements Callable<Integer> {
         }
         return batch(table, avg, best, given);
     }
+
+    /** Over unknown orders under the structure-modular prior (exact, {@link StructureCasePrediction}). */
+    private boolean structure;
 
     /** For unknown orders: what the prediction was averaged over; null given an order. */
     private String averagedOver;
@@ -199,8 +221,10 @@ public final class PredictCommand implements Callable<Integer> {
                 Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
                 ls.familyScore().kind() == ScoreKind.K2 ? null : ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(),
                 exact != null ? 0.0 : avg.skippedMass(), NOTE, ord != null ? "order" : averaging.method.method.trim().toLowerCase(Locale.ROOT),
-                ord != null ? null : exact != null ? "all" : mixture.orders(), exact != null ? null : ord != null ? null : mixture.orderSamples(),
-                mcse, ord != null ? null : DagPrior.ORDER_MODULAR.label(), exact != null ? Boolean.TRUE : null);
+                ord != null ? null : exact != null || structure ? "all" : mixture.orders(),
+                exact != null || structure || ord != null ? null : mixture.orderSamples(), mcse,
+                ord != null ? null : (structure ? DagPrior.STRUCTURE_MODULAR : DagPrior.ORDER_MODULAR).label(),
+                exact != null || structure ? Boolean.TRUE : null);
         PrintWriter w = spec.commandLine().getOut();
         if (out != null) {
             ResultJson.write(out, p);
@@ -215,6 +239,10 @@ public final class PredictCommand implements Callable<Integer> {
             if (ord != null) {
                 w.printf(Locale.ROOT, "%s averaged over networks consistent with the order: %.6g (log %.6f)%n", what, p.probability(), a);
                 w.printf(Locale.ROOT, "%s under the single best network:                 %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+            } else if (structure) {
+                w.printf(Locale.ROOT, "%s averaged over every DAG (%s; structure-modular DAG prior): %.6g (log %.6f)%n",
+                        what, averagedOver, p.probability(), a);
+                w.printf(Locale.ROOT, "%s under the single highest-scoring network: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
             } else {
                 w.printf(Locale.ROOT, "%s averaged over orders (%s; order-modular DAG prior) and their networks: %.6g (log %.6f)%s%n",
                         what, averagedOver, p.probability(), a, mcse == null ? "" : String.format(Locale.ROOT, ", Monte Carlo standard error %.3g", mcse));

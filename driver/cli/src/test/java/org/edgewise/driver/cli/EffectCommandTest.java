@@ -90,6 +90,17 @@ class EffectCommandTest extends StoreFixture {
         return p.toString();
     }
 
+    /** The default prior over unknown orders is structure-modular: sampled from exact DAG draws, with its MCSE. */
+    @Test
+    void structureModularByDefaultIsSampledWithMcse() throws Exception {
+        CliRun r = effect("--method", "exact", "--do", "v0=s0", "--target", "v2=s1", "--format", "json");
+        assertEquals(0, r.status(), r.err());
+        com.fasterxml.jackson.databind.JsonNode j = new com.fasterxml.jackson.databind.ObjectMapper().readTree(r.out());
+        assertEquals("structure-modular", j.get("dagPrior").asText());
+        assertEquals("sampled", j.get("estimate").asText());
+        assertTrue(j.get("mcse").asDouble() > 0 && j.get("mcse").asDouble() <= 0.002, r.out());
+    }
+
     @Test
     void refusalsWordForWord() {
         String[][] cases = {
@@ -99,8 +110,6 @@ class EffectCommandTest extends StoreFixture {
             {"effect: --do and --target both name variable 'v2': a variable that is set cannot be the outcome", "--order", ORDER, "--do", "v2=s0", "--target", "v2=s1"},
             {"effect: --do sets every variable (5 of 5): nothing is left to be an outcome", "--order", ORDER, "--do", "v0=s0,v1=s0,v2=s0,v3=s0,v4=s0", "--target", "v2=s1"},
             {"effect: --versus must set the same variables as --do (v0), got v1", "--order", ORDER, "--do", "v0=s0", "--target", "v2=s1", "--versus", "v1=s0"},
-            {"effect: --dag-prior structure-modular is not available for effect yet (it needs exact DAG sampling); use --dag-prior order-modular, or --order for a given order",
-                "--method", "exact", "--do", "v0=s0", "--target", "v2=s1"},
         };
         for (String[] c : cases) {
             String[] args = java.util.Arrays.copyOfRange(c, 1, c.length);

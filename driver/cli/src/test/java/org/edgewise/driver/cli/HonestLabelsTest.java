@@ -63,7 +63,7 @@ class HonestLabelsTest {
     @Test
     void sampledOrdersAreLabelledAndExactCasesAreExact() throws Exception {
         String s = store8.toString();
-        CliRun sampled = CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--case", CASE8, "--format", "json",
+        CliRun sampled = CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--case", CASE8, "--format", "json",
                 "--tail-mass", "0");
         assertEquals(0, sampled.status(), sampled.err());
         JsonNode j = JSON.readTree(sampled.out());
@@ -74,7 +74,7 @@ class HonestLabelsTest {
         double mcse = j.get("mcse").asDouble();
         assertTrue(mcse > 0, j.toString());
 
-        CliRun ex = CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--exact-cases", "--case", CASE8, "--format", "json");
+        CliRun ex = CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--exact-cases", "--case", CASE8, "--format", "json");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("all", e.get("orders").asText());
@@ -86,26 +86,26 @@ class HonestLabelsTest {
         double p = Math.exp(expected);
         assertEquals(p, j.get("probability").asDouble(), 5 * mcse, "sampled within 5 MCSE of exact");
 
-        CliRun table = CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--case", CASE8);
+        CliRun table = CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--case", CASE8);
         assertTrue(table.out().contains("averaged over orders (exact: 1000 sampled orders, "), table.out());
         assertTrue(table.out().contains("Monte Carlo standard error"), table.out());
     }
 
     @Test
     void allOrdersSayAllAndBatchesCarryAnMcseColumn() throws Exception {
-        CliRun r = CliRun.of("predict", "--store", store5.toString(), "--method", "exact", "--dag-prior", "order-modular", "--case", "v0=s1", "--format", "json");
+        CliRun r = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "exact", "--case", "v0=s1", "--format", "json");
         JsonNode j = JSON.readTree(r.out());
         assertEquals("all", j.get("orders").asText());
         assertFalse(j.has("mcse"));
         assertFalse(j.has("orderSamples"));
         Path cases = dir.resolve("cases.csv");
         Files.writeString(cases, "v0,v1\ns1,s2\ns0,\n");
-        CliRun b = CliRun.of("predict", "--store", store5.toString(), "--method", "mcmc", "--dag-prior", "order-modular", "--steps", "2000", "--cases", cases.toString());
+        CliRun b = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "mcmc", "--steps", "2000", "--cases", cases.toString());
         assertEquals(0, b.status(), b.err());
         String[] lines = b.out().split("\n");
         assertEquals("v0,v1,probability,logProbability,bestNetworkProbability,bestNetworkLogProbability,mcse", lines[0]);
         assertEquals(7, lines[1].split(",").length, "two case columns, five figures");
-        CliRun all = CliRun.of("predict", "--store", store5.toString(), "--method", "exact", "--dag-prior", "order-modular", "--cases", cases.toString());
+        CliRun all = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "exact", "--cases", cases.toString());
         assertTrue(all.out().startsWith("v0,v1,probability,logProbability,bestNetworkProbability,bestNetworkLogProbability\n"), all.out());
     }
 
@@ -121,17 +121,17 @@ class HonestLabelsTest {
                 CliRun.of("predict", "--store", s, "--order", order, "--features", "ancestors", "--case", "v0=s1").errLine());
         String k2 = "--ess does not apply to score k2: K2 has no equivalent sample size (every Dirichlet parameter is 1)";
         assertEquals("edges: " + k2, CliRun.of("edges", "--store", s, "--order", order, "--score", "k2", "--ess", "2").errLine());
-        assertEquals("predict: " + k2, CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--score", "k2", "--ess", "2",
+        assertEquals("predict: " + k2, CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--score", "k2", "--ess", "2",
                 "--case", "v0=s1").errLine());
         assertEquals("scores: " + k2, CliRun.of("scores", "--store", s, "--score", "k2", "--ess", "2").errLine());
         assertEquals("predict: --exact-cases does not apply with --method mcmc: it computes the exact sum over all orders "
                         + "(--method exact)",
-                CliRun.of("predict", "--store", s, "--method", "mcmc", "--dag-prior", "order-modular", "--exact-cases", "--case", "v0=s1").errLine());
+                CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "mcmc", "--exact-cases", "--case", "v0=s1").errLine());
         assertEquals("predict: --exact-cases does not apply with --given: a conditional needs P(given | D), a sum over the "
                         + "hidden variables",
-                CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--exact-cases", "--case", "v0=s1", "--given", "v1=s0").errLine());
+                CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--exact-cases", "--case", "v0=s1", "--given", "v1=s0").errLine());
         assertEquals("predict: --exact-cases needs every variable observed; v2 is hidden",
-                CliRun.of("predict", "--store", s, "--method", "exact", "--dag-prior", "order-modular", "--exact-cases", "--case", "v0=s1,v1=s0").errLine());
+                CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--exact-cases", "--case", "v0=s1,v1=s0").errLine());
         assertEquals(2, CliRun.of("edges", "--store", s, "--order", order, "--tiers", "v0").status());
     }
 

@@ -11,6 +11,7 @@ import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
@@ -64,15 +65,47 @@ class UnknownOrderPredictTest {
         assertEquals(expected, JSON.readTree(mc.out()).get("logProbability").asDouble(), 0.05);
     }
 
+    private double structureLogDagSum(int[][] table) {
+        ScoreStore s = InMemoryTally.tally(HeldOutData.variables(AR), table, 2, FamilyScore.withDefaults());
+        return StructureSum.run(LocalScores.build(s, ScoringOptions.asStored()), OrderConstraints.none(AR.length)).logDagSum();
+    }
+
+    /**
+     * The default prior (structure-modular): P(x | D) = Z(D ∪ x) / Z(D) over every DAG, Z recounted
+     * from the table with the case appended (Bayes' rule; Tian &amp; He 2009 for Z), labelled exact.
+     */
+    @Test
+    void structureModularIsTheDefaultAndExact() throws Exception {
+        int[] x = {1, 2, 0, 1, 0};
+        double expected = structureLogDagSum(HeldOutData.plus(rows, x)) - structureLogDagSum(rows);
+        CliRun ex = CliRun.of("predict", "--store", store.toString(), "--method", "exact",
+                "--case", "v0=s1,v1=s2,v2=s0,v3=s1,v4=s0", "--format", "json");
+        assertEquals(0, ex.status(), ex.err());
+        JsonNode j = JSON.readTree(ex.out());
+        assertEquals(expected, j.get("logProbability").asDouble(), 1e-9);
+        assertEquals("structure-modular", j.get("dagPrior").asText());
+        assertEquals("all", j.get("orders").asText());
+        assertTrue(j.get("exactCase").asBoolean());
+        assertTrue(j.get("mcse") == null && j.get("orderSamples") == null, ex.out());
+        CliRun t = CliRun.of("predict", "--store", store.toString(), "--method", "exact", "--case", "v0=s1", "--given", "v4=s0");
+        assertEquals(0, t.status(), t.err());
+        assertTrue(t.out().contains("averaged over every DAG (exact: all DAGs, as Z(D + case) / Z(D); structure-modular DAG prior)"),
+                t.out());
+        assertTrue(t.out().contains("hidden variables summed out: v1, v2, v3 (12 joint states)"), t.out());
+    }
+
     @Test
     void tableSaysWhatItAveragedOverAndRefusesAnOrderWithAMethod() {
         CliRun r = CliRun.of("predict", "--store", store.toString(), "--method", "exact", "--case", "v0=s1", "--given", "v4=s0",
                 "--dag-prior", "order-modular");
         assertEquals(0, r.status(), r.err());
         assertTrue(r.out().contains("averaged over orders (exact: all 120 allowed orders; order-modular DAG prior)"), r.out());
-        assertEquals("predict: predict over unknown orders is implemented under the order-modular DAG prior only: "
-                + "add --dag-prior order-modular (structure-modular prediction is not available yet)",
-                CliRun.of("predict", "--store", store.toString(), "--method", "exact", "--case", "v0=s1").errLine());
+        assertEquals("predict: predict --method mcmc is implemented under the order-modular DAG prior only: "
+                + "use --method exact (exact under the structure-modular prior) or add --dag-prior order-modular",
+                CliRun.of("predict", "--store", store.toString(), "--method", "mcmc", "--case", "v0=s1").errLine());
+        assertEquals("predict: --exact-cases does not apply with --dag-prior structure-modular: every case is already exact "
+                + "there, Z(D + case) / Z(D) over all DAGs",
+                CliRun.of("predict", "--store", store.toString(), "--method", "exact", "--exact-cases", "--case", "v0=s1").errLine());
         assertEquals("predict: --order and --method mcmc exclude each other: mcmc averages over unknown orders",
                 CliRun.of("predict", "--store", store.toString(), "--method", "mcmc", "--order", "v0,v1,v2,v3,v4",
                         "--case", "v0=s1").errLine());

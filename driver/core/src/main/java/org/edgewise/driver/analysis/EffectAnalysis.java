@@ -37,8 +37,9 @@ import org.edgewise.driver.store.Manifest;
  * 2004), with MCSE;</li>
  * <li>{@code mcmc}: the orders kept by the chains, at most {@value #MAX_ORDERS_PER_CHAIN} per chain
  * evenly spaced, with an autocorrelation-aware MCSE;</li>
- * <li>structure-modular prior: refused for now (it needs exact DAG sampling, which plugs into
- * {@link EffectEngine#overDags}).</li>
+ * <li>structure-modular prior: DAGs drawn from the structure-modular posterior ({@link StructureDraws}:
+ * exact draws for {@code exact}, order-MCMC DAGs re-weighted by 1/ext(G) for {@code mcmc}) fed to
+ * {@link EffectEngine#overDags}, with MCSE (sampled).</li>
  * </ul>
  */
 public final class EffectAnalysis {
@@ -78,16 +79,12 @@ public final class EffectAnalysis {
     private EffectAnalysis() {
     }
 
-    /** The refusal of the structure-modular prior, word for word. */
-    public static final String STRUCTURE_MODULAR_REFUSED = "--dag-prior structure-modular is not available for effect yet "
-            + "(it needs exact DAG sampling); use --dag-prior order-modular, or --order for a given order";
+    /** DAGs drawn under the structure-modular prior (exact draws, or spread over the MCMC chains' orders). */
+    public static final int DAG_DRAWS = 20_000;
 
     public static List<EffectResult> run(Request r, ProgressListener progress) {
         LocalScores ls = r.scores();
         Manifest m = ls.store().manifest();
-        if (r.order() == null && r.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
-            throw new UserError(STRUCTURE_MODULAR_REFUSED);
-        }
         List<EffectQuery> qs = new ArrayList<>();
         for (Question q : r.questions()) {
             qs.add(EffectQuery.parse(m, q.doText(), q.targetText(), q.givenText(), q.versusText(), q.where()));
@@ -103,6 +100,10 @@ public final class EffectAnalysis {
             src = EffectOrders.given(r.order());
             method = "order";
             over = "every DAG consistent with the given order (exact; both DAG priors coincide given an order)";
+        } else if (r.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            src = null; // DAG draws below
+            method = null;
+            over = null;
         } else {
             UnknownOrderSettings s = r.settings();
             OrderConstraints oc = s.constraints(ls);
@@ -127,7 +128,18 @@ public final class EffectAnalysis {
                 over = kept.size() + " orders kept by " + s.chains() + " order-MCMC chains, and every DAG consistent with each (sampled; see mcse)";
             }
         }
-        List<Effect> effects = EffectEngine.overOrders(ls, src, qs, r.engine());
+        List<Effect> effects;
+        if (r.order() == null && r.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            UnknownOrderSettings s = r.settings();
+            StructureDraws d = StructureDraws.of(ls, s, progress);
+            effects = EffectEngine.overDags(ls, d, qs, r.engine());
+            method = s.method().label();
+            over = d.description();
+            converged = d.converged();
+            maxRhat = d.maxRhat();
+        } else {
+            effects = EffectEngine.overOrders(ls, src, qs, r.engine());
+        }
         List<EffectResult> out = new ArrayList<>();
         for (int i = 0; i < qs.size(); i++) {
             out.add(result(m, ls, qs.get(i), effects.get(i), method, r.order() == null ? r.dagPrior().label() : null,

@@ -14,6 +14,7 @@ import java.util.List;
  *       z_t = (num_t − p·den_t) / mean(den) ({@link ChainDiagnostics}; the delta method for a
  *       ratio — common practice for self-normalised estimates from MCMC).</li>
  * </ul>
+ * An estimate of exactly 0 or 1 reports the rule-of-three bound 3/K ({@link McseBound}), not 0.
  * Memory: the DAGs (n ints each), their essential graphs and reach sets (n ints each), weights.
  */
 public final class DagDraws {
@@ -63,7 +64,7 @@ public final class DagDraws {
                 hits += f.test(0, i) ? 1 : 0;
             }
             double p = hits / (double) k;
-            return new OrderMcmc.Estimate(p, Math.sqrt(p * (1 - p) / k), Double.NaN, k, k,
+            return new OrderMcmc.Estimate(p, McseBound.reported(p, Math.sqrt(p * (1 - p) / k), k), Double.NaN, k, k,
                     hits == 0 || hits == k ? ChainDiagnostics.State.CONSTANT : ChainDiagnostics.State.VARIES);
         }
         int t = dags[0].length / group;
@@ -93,7 +94,24 @@ public final class DagDraws {
             }
         }
         ChainDiagnostics.Summary sum = ChainDiagnostics.summary(z);
-        return OrderMcmc.Estimate.of(p, sum);
+        OrderMcmc.Estimate e = OrderMcmc.Estimate.of(p, sum);
+        return new OrderMcmc.Estimate(p, McseBound.reported(p, e.mcse(), (long) chains * t), e.rhat(), e.ess(), e.essTail(),
+                e.state());
+    }
+
+    /** Number of chains. */
+    public int chainCount() {
+        return dags.length;
+    }
+
+    /** Number of DAGs in chain c. */
+    public int chainLength(int c) {
+        return dags[c].length;
+    }
+
+    /** Self-normalisable weight of DAG k of chain c (1 when unweighted). */
+    public double weight(int c, int k) {
+        return weights == null ? 1.0 : weights[c][k];
     }
 
     /** Parent bitmask of {@code child} in DAG k of chain c. */

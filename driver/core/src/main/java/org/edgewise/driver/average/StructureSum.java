@@ -198,6 +198,20 @@ public final class StructureSum {
         return new Result(logZ - logPriorSum, logZ, logPriorSum, edges, sets);
     }
 
+    /**
+     * log Z = log Σ_G Π_i β_i(U_i) over the admitted DAGs alone: the forward pass only (3^n terms,
+     * no posteriors), for ratios of sums such as P(x | D) = Z(D ∪ x) / Z(D)
+     * ({@code query.StructureCasePrediction}). −∞ when no DAG is admitted. Refuses as {@link #run}.
+     */
+    public static double logDagSum(LocalScores ls, OrderConstraints oc) {
+        int n = ls.variableCount();
+        Estimate est = estimateHere(n);
+        if (n > est.largestN()) {
+            throw new TooLarge(est);
+        }
+        return new SinkRecursion(n, oc).forward(alphas(ls, n, false), x -> { })[(1 << n) - 1];
+    }
+
     /** Per child, log α_i(W) over the 2^(n−1) subsets W of V∖{i}, of the weights or of the priors alone. */
     static double[][] alphas(LocalScores ls, int n, boolean priorOnly) {
         double[][] alpha = new double[n][];

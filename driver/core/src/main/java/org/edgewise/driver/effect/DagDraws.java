@@ -16,6 +16,14 @@ public interface DagDraws {
     /** Non-negative weight of DAG {@code g} (need not be normalised). */
     double weight(int g);
 
+    /**
+     * Number of chains the draws come from, consecutive and equally long (MCSE then
+     * autocorrelation-aware), or 0 for independent draws or an enumeration.
+     */
+    default int chains() {
+        return 0;
+    }
+
     /** Whether the DAGs are independent draws with equal weights (MCSE from their spread) rather than an enumeration. */
     boolean sampled();
 }

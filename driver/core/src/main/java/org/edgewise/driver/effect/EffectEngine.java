@@ -162,8 +162,17 @@ public final class EffectEngine {
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates());
         Parameters mean = Parameters.mean(ls);
         double[][][] terms = new double[qs.size()][k][];
+        // draws repeat DAGs: each distinct DAG is evaluated once (its rows are only read)
+        Map<String, Integer> seen = new HashMap<>();
         for (int g = 0; g < k; g++) {
             int[][] parents = dags.parents(g);
+            Integer first = seen.putIfAbsent(Arrays.deepToString(parents), g);
+            if (first != null) {
+                for (int qi = 0; qi < qs.size(); qi++) {
+                    terms[qi][g] = terms[qi][first];
+                }
+                continue;
+            }
             for (int qi = 0; qi < qs.size(); qi++) {
                 EffectQuery q = qs.get(qi);
                 double[] row = new double[NO_PATH + 1];
@@ -193,7 +202,7 @@ public final class EffectEngine {
         }
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
-            out.add(EffectMix.combine(qs.get(qi), dags.sampled() ? null : logW, terms[qi], !dags.sampled(), 0,
+            out.add(EffectMix.combine(qs.get(qi), logW, terms[qi], !dags.sampled(), dags.chains(),
                     values[qi], none[qi]));
         }
         return out;

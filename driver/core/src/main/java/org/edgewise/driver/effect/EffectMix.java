@@ -120,14 +120,19 @@ final class EffectMix {
         return out;
     }
 
-    /** Standard error of Σ w_u z_u: independent units sqrt(Σ w_u² z_u²); chains via {@link ChainDiagnostics}. */
+    /**
+     * Standard error of Σ w_u z_u: independent units sqrt(Σ w_u² z_u²); chains via {@link ChainDiagnostics}
+     * on x_u = k w_u z_u (whose mean is Σ w_u z_u; x_u = z_u for equal weights).
+     */
     private static double se(double[] w, double[] z, int chains) {
         int k = z.length;
         if (chains > 0 && k / chains >= 4) {
             int per = k / chains;
             double[][] x = new double[chains][per];
             for (int c = 0; c < chains; c++) {
-                System.arraycopy(z, c * per, x[c], 0, per);
+                for (int t = 0; t < per; t++) {
+                    x[c][t] = k * w[c * per + t] * z[c * per + t];
+                }
             }
             double m = ChainDiagnostics.summary(x).mcse();
             return Double.isNaN(m) ? 0 : m;

@@ -8,7 +8,6 @@ import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.EffectAnalysis;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.LocalScores;
@@ -69,13 +68,39 @@ class EffectAnalysisTest {
         }
     }
 
+    static UnknownOrderSettings structure(UnknownOrderSettings.Method m) {
+        return new UnknownOrderSettings(m, null, 3L, 4, 20_000L, null, 100, null, null, null,
+                false, false, 1000, 0, DagPrior.STRUCTURE_MODULAR, false);
+    }
+
     @Test
-    void theStructureModularPriorIsRefusedNotComputedUnderAnother() {
+    void structureModularIsWithinFourMcseOfTheBruteForceOverAllDags() {
+        // Every DAG on 5 nodes with in-degree ≤ 2, weighted by P(D | G) alone (sequential predictive):
+        // the structure-modular prior with ρ = 1, uniform over DAGs (Tian & He 2009; DESIGN.md). The
+        // engine draws DAGs (exact draws; order-MCMC DAGs re-weighted by 1/ext(G)), so it is sampled:
+        // within 4 MCSE (common practice), and the MCSE must be small enough to make that a test.
         EffectEngineTest.Fixture f = EffectEngineTest.Fixture.of(77_077L, 150, 2, 2, 2, 3, 2, 2);
-        UserError e = assertThrows(UserError.class,
-                () -> one(f.ls(), null, exact(), DagPrior.STRUCTURE_MODULAR, "v1=s1", "v4=s0", null, null));
-        assertEquals("--dag-prior structure-modular is not available for effect yet (it needs exact DAG sampling); "
-                + "use --dag-prior order-modular, or --order for a given order", e.getMessage());
+        List<int[][]> dags = EffectBruteForce.allDags(5, 2);
+        double[] logW = new double[dags.size()];
+        for (int g = 0; g < dags.size(); g++) {
+            logW[g] = EffectBruteForce.logLik(f.vars(), f.rows(), dags.get(g), 1.0);
+        }
+        String[][] questions = {{"v1=s1", "v4=s0", null, "v1=s0"}, {"v2=s2", "v0=s1", "v3=s1", "v2=s0"}};
+        for (UnknownOrderSettings.Method m : UnknownOrderSettings.Method.values()) {
+            for (String[] t : questions) {
+                EffectQuery q = f.query(t[0], t[1], t[2], t[3]);
+                EffectEngineTest.Expected e = EffectEngineTest.bruteForce(f, dags, logW, q);
+                EffectResult r = one(f.ls(), null, structure(m), DagPrior.STRUCTURE_MODULAR, t[0], t[1], t[2], t[3]);
+                String what = m + " " + String.join(" ", t[0], t[1]);
+                assertTrue(r.mcse() > 0 && r.mcse() < 0.01, what + " mcse " + r.mcse());
+                assertEquals(e.p(), r.probability(), 4 * r.mcse(), what);
+                assertEquals(e.pv(), r.versus().probability(), 4 * r.versus().mcse(), what + " versus");
+                assertEquals(e.p() - e.pv(), r.difference(), 4 * r.differenceMcse(), what + " difference");
+                assertEquals(e.noPath(), r.noPathProbability(), Math.max(4 * r.noPathMcse(), 1e-9), what + " noPath");
+                assertEquals("sampled", r.estimate());
+                assertEquals("structure-modular", r.dagPrior());
+            }
+        }
     }
 
     @Test
