@@ -57,11 +57,14 @@ public final class EffectCommand implements Callable<Integer> {
 
     @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here") Path out;
 
+    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
+
     @Option(names = "--format", paramLabel = "table|json", defaultValue = "table", description = "standard output: readable lines (default) or JSON") String format;
 
     @Override
     public Integer call() {
         String fmt = Output.format(format, "table", "json");
+        Output.check(out, overwrite);
         if (averaging.scoring.ess.size() > 1) {
             throw new UserError("effect takes one --ess value, got " + averaging.scoring.ess.size());
         }

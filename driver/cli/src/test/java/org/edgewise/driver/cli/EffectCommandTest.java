@@ -121,6 +121,19 @@ class EffectCommandTest extends StoreFixture {
     }
 
     @Test
+    void anExistingOutIsReplacedOnlyWithOverwrite() throws Exception {
+        Path e = dir.resolve("kept.json");
+        Files.writeString(e, "someone's notes\n");
+        CliRun r = effect("--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--out", e.toString(), "--effect-draws", "100");
+        assertEquals(2, r.status());
+        assertEquals("effect: --out " + e + " already exists; pass --overwrite to replace it", r.errLine());
+        assertEquals("someone's notes\n", Files.readString(e), "nothing replaced");
+        assertEquals(0, effect("--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--out", e.toString(), "--effect-draws",
+                "100", "--overwrite").status());
+        assertTrue(Files.readString(e).contains("\"probability\""));
+    }
+
+    @Test
     void reportGainsAnInterventionsSection() throws Exception {
         Path e = dir.resolve("effect.json");
         assertEquals(0, effect("--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--versus", "v0=s0",
