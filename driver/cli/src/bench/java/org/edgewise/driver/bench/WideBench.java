@@ -4,6 +4,7 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.PartitionMcmc;
 
 /**
  * {@code scripts/bench wide}: order MCMC run until converged on wide tables — random networks
@@ -18,6 +19,13 @@ public final class WideBench {
     }
 
     public static void main(String[] args) {
+        if (args[0].equals("sm")) {
+            double maxSec = Double.parseDouble(args[2]);
+            for (int a = 3; a < args.length; a++) {
+                priors(Integer.parseInt(args[a]), Integer.parseInt(args[1]), maxSec);
+            }
+            return;
+        }
         if (args[0].equals("mixing")) {
             mixing(Integer.parseInt(args[1]), Integer.parseInt(args[2]), Long.parseLong(args[3]));
             return;
@@ -48,6 +56,34 @@ public final class WideBench {
                     r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), UnknownOrderBench.load());
         }
         System.out.printf("wide n=%d: max |delta| over edges between seeds 1 and 2 = %.4f%n", n, OrderMcmcDiff.maxDiff(r[0], r[1], n));
+    }
+
+    /**
+     * Both DAG priors side by side at one n: order MCMC (order-modular) and partition MCMC
+     * (structure-modular, Kuipers &amp; Moffa 2017), each until converged from two seeds.
+     */
+    static void priors(int n, int k, double maxSec) {
+        LocalScores ls = UnknownOrderBench.scores(n, 3, k);
+        for (String prior : new String[] {"order-modular", "structure-modular"}) {
+            OrderMcmc.Result[] r = new OrderMcmc.Result[2];
+            for (int s = 0; s < 2; s++) {
+                OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
+                long t0 = System.nanoTime();
+                r[s] = prior.equals("order-modular") ? OrderMcmc.run(ls, OrderConstraints.none(n), st, null)
+                        : PartitionMcmc.run(ls, OrderConstraints.none(n), st, null).chains();
+                double wall = (System.nanoTime() - t0) / 1e9;
+                var o = r[s].outcome();
+                System.out.printf("%s n=%d candidates<=%d seed %d (%s): %s after %.1f s wall (sampling %.1f s); %d steps/chain, "
+                                + "%.0f steps/CPU-s per chain, acceptance %.3f; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS per CPU-s); "
+                                + "worst: %s; load %.1f%n",
+                        prior, n, 2 * k, 1 + s, prior.equals("order-modular") ? "order MCMC" : "partition MCMC", o.stop().label(), wall,
+                        o.samplingSeconds(), o.stepsPerChain(), 4 * o.stepsPerChain() / r[s].chainCpuSeconds(), r[s].acceptance(),
+                        r[s].maxRhat(), r[s].minEss(), r[s].minEss() / r[s].chainCpuSeconds(),
+                        r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), UnknownOrderBench.load());
+            }
+            System.out.printf("%s n=%d: max |delta| over edges between seeds 1 and 2 = %.4f%n", prior, n,
+                    OrderMcmcDiff.maxDiff(r[0], r[1], n));
+        }
     }
 
     static String describe(MultiChainDiagnostics.Worst w) {

@@ -17,6 +17,13 @@ import java.util.List;
  * 2·cap·(4·width + 8 + state) bytes per chain. Confined to its chain's thread while it runs.
  */
 public final class DrawStore {
+    /** What a sampler stores per draw besides its quantities: a linear extension of the state and, with features, the feature bits. */
+    interface Drawn {
+        int[] order();
+
+        long[] features();
+    }
+
     private final int width;
     private final int cap;
     private final long recordFrom;

@@ -72,7 +72,7 @@ final class OrderChain implements ChainRunner.Chain {
     private final long[] wMaskAt;
 
     /** What one stored draw carries besides its quantities: the order and (with features) the feature bits. */
-    record State(int[] order, long[] features) {
+    record State(int[] order, long[] features) implements DrawStore.Drawn {
     }
 
     OrderChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,

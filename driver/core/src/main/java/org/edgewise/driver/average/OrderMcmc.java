@@ -206,7 +206,7 @@ public final class OrderMcmc {
         return summarise(ls, chains, offset, s, out, setup, edgeFrom.length);
     }
 
-    private static Result summarise(LocalScores ls, List<OrderChain> chains, int[] offset, Settings s,
+    static Result summarise(LocalScores ls, List<? extends ChainRunner.Chain> chains, int[] offset, Settings s,
                                     ChainRunner.Outcome out, double setup, int edgeCount) {
         int n = ls.variableCount();
         MultiChainDiagnostics.Report rep = out.report();
@@ -258,13 +258,13 @@ public final class OrderMcmc {
             double[] tr = new double[draws];
             for (int t = 0; t < draws; t++) {
                 tr[t] = stores.get(c).logScore(from[c] + t);
-                orders.add(((OrderChain.State) stores.get(c).state(from[c] + t)).order());
+                orders.add(((DrawStore.Drawn) stores.get(c).state(from[c] + t)).order());
             }
             traces.add(tr);
             thin = Math.min(thin, stores.get(c).thin());
         }
         double cpu = 0;
-        for (OrderChain c : chains) {
+        for (ChainRunner.Chain c : chains) {
             cpu += c.cpuSeconds();
         }
         return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu);

@@ -64,7 +64,7 @@ final class OrderQuantities implements MultiChainDiagnostics.Quantities {
             DrawStore d = chains.get(c);
             for (int t = 0; t < x[c].length; t++) {
                 x[c][t] = q < edgeFrom.length ? d.quantity(from[c] + t, q)
-                        : DagFeatures.get(((OrderChain.State) d.state(from[c] + t)).features(), q - edgeFrom.length) ? 1.0 : 0.0;
+                        : DagFeatures.get(((DrawStore.Drawn) d.state(from[c] + t)).features(), q - edgeFrom.length) ? 1.0 : 0.0;
             }
         }
     }

@@ -1,0 +1,607 @@
+package org.edgewise.driver.average;
+
+import java.util.SplittableRandom;
+import java.util.function.BooleanSupplier;
+import org.edgewise.driver.UserError;
+
+/**
+ * One partition-MCMC chain (Kuipers &amp; Moffa 2017, "Partition MCMC for inference on acyclic
+ * digraphs", JASA 112): Metropolis–Hastings over ordered partitions Λ = (T_1, …, T_m) of the
+ * variables, targeting the structure-modular posterior summed per partition.
+ *
+ * <p><b>Convention</b> (fixed here; the paper's, listed from the sources): T_1 holds the nodes with
+ * no parents; a node in T_k, k &gt; 1, has at least one parent in T_{k−1} and all its parents in
+ * B_k = T_1 ∪ … ∪ T_{k−1}. Every DAG has exactly one such partition (T_1 its sources, T_k the nodes
+ * whose longest path from a source has k − 1 edges), so with w_i(U) = s(i,U) + log ρ_i(U)
+ * <pre>  π(Λ) = Π_i Σ_{U ⊆ B_k(i), U ∩ T_{k(i)−1} ≠ ∅} exp w_i(U)      (U = ∅ alone for T_1)</pre>
+ * sums P(D|G)·Π ρ_i(U_i) over the DAGs whose partition is Λ, and Σ_Λ π(Λ) is the structure-modular
+ * sum over all DAGs: the chain's partitions, each with a DAG drawn from its allowed parent sets by
+ * weight, are draws of P(G | D) under the structure-modular prior (uniform prior over partitions).
+ *
+ * <p><b>Per-node score</b>, by inclusion–exclusion on α_i(P) = Σ_{U ⊆ P} exp w_i(U) (the
+ * {@link ChildTables} zeta transform): Σ_{U ⊆ B, U ∩ T ≠ ∅} = α_i(B) − α_i(B ∖ T) — two table lookups,
+ * O(1). When the two agree to a relative 10⁻⁴ (the difference would lose digits) or the child is not
+ * tabulated, the sum is taken directly over the child's allowed parent sets, O(#sets) (≤ 299 for
+ * 12 candidates and d = 3). Cost per move: the masks (B, T) of every node, O(n·K) word operations,
+ * and the rescoring of the nodes whose masks changed.
+ *
+ * <p><b>Moves</b>, each reversible with respect to π on its own, mixed with fixed shares:
+ * <ul>
+ *   <li>split / join (share {@value #SPLIT_JOIN}): the neighbours of Λ are every split of an element
+ *       T_j into (A, T_j ∖ A), A a non-empty proper subset placed first, and every join of adjacent
+ *       T_j, T_{j+1}; there are N(Λ) = Σ_j (2^{|T_j|} − 2) + (m − 1) of them. One is proposed uniformly,
+ *       so q(Λ'|Λ) = 1/N(Λ); a split's reverse is the join of its two parts and vice versa (one to
+ *       one), so the Hastings ratio is q(Λ|Λ')/q(Λ'|Λ) = N(Λ)/N(Λ') and the acceptance
+ *       min(1, π(Λ')·N(Λ) / (π(Λ)·N(Λ'))) (Kuipers &amp; Moffa 2017, sec. 4.1).</li>
+ *   <li>swap (share {@value #SWAP}): two nodes in different elements exchange them, the pair drawn
+ *       uniformly among such pairs; the element sizes are unchanged, so the number of such pairs,
+ *       C(n,2) − Σ_j C(|T_j|,2), is the same before and after: symmetric, acceptance
+ *       min(1, π(Λ')/π(Λ)) (ibid., sec. 4.2).</li>
+ *   <li>node move (the rest): a node v drawn uniformly is taken out (its element removed if it was
+ *       alone), leaving Λ − v with m' elements, and put back at one of the 2m' + 1 places of Λ − v —
+ *       into one of its m' elements or as a new singleton element in one of its m' + 1 gaps. Every
+ *       partition so reachable has the same Λ − v, hence the same places, so drawing the place with
+ *       probability ∝ π (current place included) is a Gibbs update that leaves π invariant with no
+ *       accept/reject (the paper's node move, sec. 4.2, made a heat-bath step: measured, a uniform
+ *       place was accepted about once in a thousand steps on wide tables, where most places leave
+ *       some node without a parent in the element before it).</li>
+ * </ul>
+ *
+ * <p><b>Constraints</b>: forbidden and required edges are already in {@link LocalScores} (sets
+ * removed); tiers are honoured by removing from each child's B and T the candidates that must
+ * follow it, so π counts exactly the DAGs with no edge against the tiers — which are the DAGs with
+ * a tier-respecting order when every variable is in a tier ({@link PartitionMcmc#checkTiers}
+ * refuses the other case).
+ *
+ * <p>The draws go to a {@link DrawStore}: per candidate edge the Rao-Blackwellised
+ * P(j → i | Λ, D) (the weight share of i's allowed sets that contain j), π's log, and the
+ * {@link State}: a linear extension (nodes by element), one DAG drawn from Λ (each node's parent set
+ * by weight among its allowed sets), the element of every node and, with features, the ancestor and
+ * Markov-blanket bits of that DAG.
+ *
+ * <p>Memory per chain: O(n) state and scratch, per draw 4 bytes per candidate edge, 12n bytes of
+ * state and n²/32 bytes of feature bits. Mutable, confined to one thread at a time.
+ */
+final class PartitionChain implements ChainRunner.Chain {
+    /** Share of split/join moves (not tuned; common practice in the paper's own sampler is a mix). */
+    static final double SPLIT_JOIN = 0.4;
+    /** Share of swap moves. */
+    static final double SWAP = 0.3;
+    /** Largest n: N(Λ) involves 2^{|T_j|} as a double. */
+    static final int MAX_VARIABLES = 1000;
+    private static final double DIRECT_BELOW = 1e-4;
+
+    /** A stored draw: a linear extension of Λ, the drawn DAG (set index per child), elements, feature bits. */
+    record State(int[] order, int[] sets, int[] element, long[] features) implements DrawStore.Drawn {
+    }
+
+    private final LocalScores ls;
+    private final ChildTables tables;
+    private final int n;
+    private final int[] edgeOffset;
+    private final boolean features;
+    private final long[] excluded;
+    private final double[] emptyLog;
+    private final SplittableRandom rng;
+    private final SplittableRandom drawRng;
+    private final DrawStore draws;
+
+    private int m;
+    private int[] elem;
+    private int[] size;
+    private final long[] pred;
+    private final long[] last;
+    private final double[] logSum;
+    private double score;
+    // proposal scratch
+    private int newM;
+    private int[] newElem;
+    private int[] newSize;
+    private final int[] chChild;
+    private final long[] chPred;
+    private final long[] chLast;
+    private final double[] chLog;
+    private int chCount;
+    private double[] placeLog;
+
+    private long stepsDone;
+    private long accepted;
+    private long cpuNanos;
+    private volatile long publishedSteps;
+    private volatile long publishedAccepted;
+
+    PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
+                   SplittableRandom rng, DrawStore draws) {
+        this.ls = ls;
+        this.tables = tables;
+        this.n = ls.variableCount();
+        if (n > MAX_VARIABLES) {
+            throw new UserError("partition MCMC handles at most " + MAX_VARIABLES + " variables, this store has " + n);
+        }
+        this.edgeOffset = edgeOffset;
+        this.features = features;
+        this.rng = rng;
+        this.drawRng = rng.split();
+        this.draws = draws;
+        excluded = new long[n];
+        emptyLog = new double[n];
+        for (int i = 0; i < n; i++) {
+            int[] cand = ls.candidates(i);
+            for (int k = 0; k < cand.length; k++) {
+                if (oc.restricts() && oc.mustPrecede(i, cand[k])) {
+                    excluded[i] |= 1L << k;
+                }
+            }
+            emptyLog[i] = Double.NEGATIVE_INFINITY;
+            long[] masks = ls.masks(i);
+            for (int s = 0; s < masks.length; s++) {
+                if (masks[s] == 0) {
+                    emptyLog[i] = ls.weights(i)[s];
+                }
+            }
+        }
+        elem = new int[n];
+        size = new int[n + 1];
+        newElem = new int[n];
+        newSize = new int[n + 1];
+        pred = new long[n];
+        last = new long[n];
+        logSum = new double[n];
+        chChild = new int[n];
+        chPred = new long[n];
+        chLast = new long[n];
+        chLog = new double[n];
+        start(oc);
+    }
+
+    /** A random start: a DAG drawn given a random allowed order, and its partition. */
+    private void start(OrderConstraints oc) {
+        long[] mask = new long[n];
+        double[] z = new double[n];
+        for (int attempt = 0; ; attempt++) {
+            int[] order = oc.randomOrder(rng);
+            int[] pos = OrderSum.positions(order, n);
+            boolean ok = true;
+            for (int i = 0; i < n; i++) {
+                mask[i] = ls.predecessorMask(i, pos);
+                z[i] = OrderSum.childLogSum(ls, i, mask[i]);
+                ok &= z[i] > Double.NEGATIVE_INFINITY;
+            }
+            if (ok) {
+                int[] chosen = DagFeatures.sampleDag(ls, mask, z, rng);
+                m = 0;
+                for (int v : order) {
+                    int layer = 0;
+                    for (int p : ls.parents(v, chosen[v])) {
+                        layer = Math.max(layer, elem[p] + 1);
+                    }
+                    elem[v] = layer;
+                    m = Math.max(m, layer + 1);
+                }
+                break;
+            }
+            if (attempt == 1000) {
+                throw new UserError("no starting order with positive posterior found in 1000 random orders "
+                        + "(the required edges and the in-degree bound leave almost no order possible)");
+            }
+        }
+        for (int v = 0; v < n; v++) {
+            size[elem[v]]++;
+        }
+        score = 0;
+        for (int i = 0; i < n; i++) {
+            pred[i] = predMask(i, elem);
+            last[i] = lastMask(i, elem);
+            logSum[i] = childScore(i, elem[i], pred[i], last[i]);
+            score += logSum[i];
+        }
+        if (!(score > Double.NEGATIVE_INFINITY)) {
+            throw new IllegalStateException("the partition of a drawn DAG has no weight");
+        }
+    }
+
+    private long predMask(int i, int[] el) {
+        int[] cand = ls.candidates(i);
+        int e = el[i];
+        long mk = 0;
+        for (int k = 0; k < cand.length; k++) {
+            if (el[cand[k]] < e) {
+                mk |= 1L << k;
+            }
+        }
+        return mk & ~excluded[i];
+    }
+
+    private long lastMask(int i, int[] el) {
+        int[] cand = ls.candidates(i);
+        int e = el[i] - 1;
+        long mk = 0;
+        for (int k = 0; k < cand.length; k++) {
+            if (el[cand[k]] == e) {
+                mk |= 1L << k;
+            }
+        }
+        return mk & ~excluded[i];
+    }
+
+    /** Candidates of {@code i} removed by the tiers (they must follow i). */
+    long excluded(int i) {
+        return excluded[i];
+    }
+
+    /** Whether parent set {@code mk} is allowed for a node with masks (b, t), in the first element or not. */
+    static boolean allowed(long mk, boolean first, long b, long t) {
+        return first ? mk == 0 : (mk & ~b) == 0 && (mk & t) != 0;
+    }
+
+    /** log Σ exp w_i(U) over U ⊆ b with U ∩ t ≠ ∅ (U = ∅ alone in the first element). */
+    double childScore(int i, int element, long b, long t) {
+        if (element == 0) {
+            return emptyLog[i];
+        }
+        if (t == 0) {
+            return Double.NEGATIVE_INFINITY;
+        }
+        double[] tab = tables.table(i);
+        if (tab != null) {
+            double a = tab[(int) b];
+            double c = tab[(int) (b & ~t)];
+            if (!(c > Double.NEGATIVE_INFINITY)) {
+                return a;
+            }
+            double share = -Math.expm1(c - a);
+            if (share > DIRECT_BELOW) {
+                return a + Math.log(share);
+            }
+        }
+        return direct(i, b, t);
+    }
+
+    private double direct(int i, long b, long t) {
+        long[] masks = ls.masks(i);
+        double[] w = ls.weights(i);
+        double max = Double.NEGATIVE_INFINITY;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~b) == 0 && (masks[s] & t) != 0 && w[s] > max) {
+                max = w[s];
+            }
+        }
+        if (!(max > Double.NEGATIVE_INFINITY)) {
+            return max;
+        }
+        double sum = 0;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~b) == 0 && (masks[s] & t) != 0) {
+                sum += Math.exp(w[s] - max);
+            }
+        }
+        return max + Math.log(sum);
+    }
+
+    @Override
+    public void advance(long count, BooleanSupplier stop) {
+        var mx = java.lang.management.ManagementFactory.getThreadMXBean();
+        long cpu0 = mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() : 0;
+        for (long k = 0; k < count; k++) {
+            step();
+            stepsDone++;
+            if (draws.due(stepsDone)) {
+                record();
+            }
+            if ((stepsDone & 1023) == 0) {
+                publishedSteps = stepsDone;
+                publishedAccepted = accepted;
+                if (stop.getAsBoolean()) {
+                    break;
+                }
+            }
+        }
+        publishedSteps = stepsDone;
+        publishedAccepted = accepted;
+        cpuNanos += mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() - cpu0 : 0;
+    }
+
+    @Override
+    public long steps() {
+        return publishedSteps;
+    }
+
+    @Override
+    public long acceptedSteps() {
+        return publishedAccepted;
+    }
+
+    @Override
+    public double cpuSeconds() {
+        return cpuNanos / 1e9;
+    }
+
+    @Override
+    public DrawStore draws() {
+        return draws;
+    }
+
+    /** Current log π(Λ) (tests). */
+    double logScore() {
+        return score;
+    }
+
+    /** log π(Λ) of the partition with {@code element[v]} the (0-based) element of node v (tests). */
+    double logScoreOf(int[] element) {
+        double sum = 0;
+        for (int i = 0; i < n; i++) {
+            sum += childScore(i, element[i], predMask(i, element), lastMask(i, element));
+        }
+        return sum;
+    }
+
+    /** Current element of every node (a copy; tests). */
+    int[] elements() {
+        return elem.clone();
+    }
+
+    void step() {
+        if (n < 2) {
+            return;
+        }
+        double u = rng.nextDouble();
+        double logRatio;
+        if (u < SPLIT_JOIN) {
+            logRatio = proposeSplitJoin();
+        } else if (u < SPLIT_JOIN + SWAP) {
+            if (m == 1) {
+                return;
+            }
+            logRatio = proposeSwap();
+        } else {
+            gibbsNodeMove();
+            return;
+        }
+        double delta = rescore();
+        if (!(delta > Double.NEGATIVE_INFINITY)) {
+            return;
+        }
+        double a = delta + logRatio;
+        if (a < 0 && Math.log(rng.nextDouble()) >= a) {
+            return;
+        }
+        accept(delta);
+    }
+
+    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
+    private void accept(double delta) {
+        accepted++;
+        int[] t = elem;
+        elem = newElem;
+        newElem = t;
+        t = size;
+        size = newSize;
+        newSize = t;
+        m = newM;
+        for (int k = 0; k < chCount; k++) {
+            int v = chChild[k];
+            pred[v] = chPred[k];
+            last[v] = chLast[k];
+            logSum[v] = chLog[k];
+        }
+        score += delta;
+    }
+
+    private static double neighbours(int[] sz, int mm) {
+        double s = mm - 1;
+        for (int j = 0; j < mm; j++) {
+            s += Math.pow(2, sz[j]) - 2;
+        }
+        return s;
+    }
+
+    /** Fills newElem/newSize/newM with a uniformly drawn split or join; returns log N(Λ) − log N(Λ'). */
+    private double proposeSplitJoin() {
+        double total = neighbours(size, m);
+        double r = rng.nextDouble() * total;
+        int split = -1;
+        for (int j = 0; j < m; j++) {
+            double c = Math.pow(2, size[j]) - 2;
+            if (r < c) {
+                split = j;
+                break;
+            }
+            r -= c;
+        }
+        System.arraycopy(size, 0, newSize, 0, m + 1);
+        if (split >= 0) {
+            int j = split;
+            // a uniform non-empty proper subset A of T_j: fair coins, redrawn when empty or full
+            int inA;
+            do {
+                inA = 0;
+                for (int v = 0; v < n; v++) {
+                    if (elem[v] == j) {
+                        boolean a = rng.nextBoolean();
+                        newElem[v] = a ? j : j + 1;
+                        inA += a ? 1 : 0;
+                    } else {
+                        newElem[v] = elem[v] > j ? elem[v] + 1 : elem[v];
+                    }
+                }
+            } while (inA == 0 || inA == size[j]);
+            for (int k = m; k > j + 1; k--) {
+                newSize[k] = size[k - 1];
+            }
+            newSize[j] = inA;
+            newSize[j + 1] = size[j] - inA;
+            newM = m + 1;
+        } else {
+            int j = Math.min(m - 2, (int) r);
+            for (int v = 0; v < n; v++) {
+                newElem[v] = elem[v] > j ? elem[v] - 1 : elem[v];
+            }
+            newSize[j] = size[j] + size[j + 1];
+            for (int k = j + 1; k < m - 1; k++) {
+                newSize[k] = size[k + 1];
+            }
+            newSize[m - 1] = 0;
+            newM = m - 1;
+        }
+        return Math.log(total) - Math.log(neighbours(newSize, newM));
+    }
+
+    /** Two nodes in different elements exchange them (symmetric). */
+    private double proposeSwap() {
+        int v;
+        int w;
+        do {
+            v = rng.nextInt(n);
+            w = rng.nextInt(n);
+        } while (elem[v] == elem[w]);
+        System.arraycopy(elem, 0, newElem, 0, n);
+        System.arraycopy(size, 0, newSize, 0, m + 1);
+        newElem[v] = elem[w];
+        newElem[w] = elem[v];
+        newM = m;
+        return 0;
+    }
+
+    /**
+     * The node move as a Gibbs update: v drawn uniformly, and its place among all 2m' + 1 places of
+     * Λ − v (the current one included) drawn with probability ∝ π. Every partition reachable this
+     * way has the same Λ − v and so the same set of places: a heat-bath step on that block, which
+     * leaves π invariant with no accept/reject. Cost: 2m' + 2 rescorings.
+     */
+    private void gibbsNodeMove() {
+        int v = rng.nextInt(n);
+        int e = elem[v];
+        boolean alone = size[e] == 1;
+        int mr = alone ? m - 1 : m;
+        int places = 2 * mr + 1;
+        if (placeLog == null || placeLog.length < places) {
+            placeLog = new double[2 * n + 2];
+        }
+        double max = Double.NEGATIVE_INFINITY;
+        for (int p = 0; p < places; p++) {
+            placeNode(v, e, alone, p);
+            placeLog[p] = rescore();
+            max = Math.max(max, placeLog[p]);
+        }
+        double total = 0;
+        for (int p = 0; p < places; p++) {
+            total += Math.exp(placeLog[p] - max);
+        }
+        double u = rng.nextDouble() * total;
+        int chosen = -1;
+        for (int p = 0; p < places; p++) {
+            if (placeLog[p] > Double.NEGATIVE_INFINITY) {
+                chosen = p;
+                u -= Math.exp(placeLog[p] - max);
+                if (u < 0) {
+                    break;
+                }
+            }
+        }
+        int current = alone ? 2 * e : 2 * e + 1;
+        if (chosen < 0 || chosen == current) {
+            return;
+        }
+        placeNode(v, e, alone, chosen);
+        double delta = rescore();
+        accept(delta);
+    }
+
+    /** newElem/newSize/newM: v (now in element e, alone or not) put at place p of Λ − v (2g gap g, 2g + 1 element g). */
+    private void placeNode(int v, int e, boolean alone, int place) {
+        int mr = alone ? m - 1 : m;
+        java.util.Arrays.fill(newSize, 0);
+        boolean gap = (place & 1) == 0;
+        int g = place >> 1;
+        for (int x = 0; x < n; x++) {
+            if (x == v) {
+                continue;
+            }
+            int red = alone && elem[x] > e ? elem[x] - 1 : elem[x];
+            newElem[x] = gap && red >= g ? red + 1 : red;
+            newSize[newElem[x]]++;
+        }
+        newElem[v] = g;
+        newSize[g]++;
+        newM = gap ? mr + 1 : mr;
+    }
+
+    /** Masks and scores of the nodes whose masks change under newElem; returns log π(Λ') − log π(Λ). */
+    private double rescore() {
+        chCount = 0;
+        double delta = 0;
+        for (int i = 0; i < n; i++) {
+            long b = predMask(i, newElem);
+            long t = lastMask(i, newElem);
+            boolean first = newElem[i] == 0;
+            if (b == pred[i] && t == last[i] && first == (elem[i] == 0)) {
+                continue;
+            }
+            double l = childScore(i, newElem[i], b, t);
+            if (!(l > Double.NEGATIVE_INFINITY)) {
+                return Double.NEGATIVE_INFINITY;
+            }
+            chChild[chCount] = i;
+            chPred[chCount] = b;
+            chLast[chCount] = t;
+            chLog[chCount] = l;
+            chCount++;
+            delta += l - logSum[i];
+        }
+        return delta;
+    }
+
+    private void record() {
+        float[] row = new float[edgeOffset[n]];
+        int[] sets = new int[n];
+        for (int i = 0; i < n; i++) {
+            long[] masks = ls.masks(i);
+            double[] w = ls.weights(i);
+            double z = logSum[i];
+            long b = pred[i];
+            long t = last[i];
+            boolean first = elem[i] == 0;
+            int off = edgeOffset[i];
+            double u = drawRng.nextDouble();
+            double acc = 0;
+            int chosen = -1;
+            for (int s = 0; s < masks.length; s++) {
+                long mk = masks[s];
+                if (!allowed(mk, first, b, t)) {
+                    continue;
+                }
+                double p = Math.exp(w[s] - z);
+                acc += p;
+                if (chosen < 0 && u < acc) {
+                    chosen = s;
+                }
+                for (long r = mk; r != 0; r &= r - 1) {
+                    row[off + Long.numberOfTrailingZeros(r)] += (float) p;
+                }
+                if (chosen < 0) {
+                    chosen = -2 - s; // last allowed so far, in case rounding leaves u ≥ acc
+                }
+            }
+            sets[i] = chosen >= 0 ? chosen : -2 - chosen;
+        }
+        int[] order = linearExtension();
+        long[] feats = features ? DagFeatures.indicators(ls, sets, order) : null;
+        draws.add(stepsDone, row, score, new State(order, sets, elem.clone(), feats));
+    }
+
+    /** The nodes by element (a linear extension of every DAG of Λ). */
+    private int[] linearExtension() {
+        int[] start = new int[m + 1];
+        for (int v = 0; v < n; v++) {
+            start[elem[v] + 1]++;
+        }
+        for (int j = 0; j < m; j++) {
+            start[j + 1] += start[j];
+        }
+        int[] order = new int[n];
+        for (int v = 0; v < n; v++) {
+            order[start[elem[v]]++] = v;
+        }
+        return order;
+    }
+}

@@ -1,0 +1,160 @@
+package org.edgewise.driver.average;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+
+/**
+ * Partition MCMC (Kuipers &amp; Moffa 2017) for the structure-modular DAG prior: several
+ * {@link PartitionChain}s, each from its own random start on its own thread, run and diagnosed
+ * exactly as order MCMC is ({@link ChainRunner}, {@link MultiChainDiagnostics}: rank-normalised
+ * split-R̂, bulk- and tail-ESS and MCSE of every edge, feature and of the log score trace), with
+ * Rao-Blackwellised edge estimates — P(j → i | Λ, D) of each stored partition Λ averaged over the
+ * draws of all chains — and one DAG drawn per stored partition.
+ *
+ * <p>The target is P(Λ | D) ∝ Σ_{G with partition Λ} Π_i ρ_i(U_i) P(D | U_i), so P(G | D) under the
+ * structure-modular prior (every DAG weighted by Π_i ρ_i(U_i) alone) is the chain's DAG marginal:
+ * no re-weighting, hence no limit on n from counting linear extensions.
+ *
+ * <p>Reproducible as {@link OrderMcmc} is: chain c draws from the c-th split of
+ * {@code new SplittableRandom(seed)}; the settings' relocation share does not apply (partition
+ * moves have their own mix, {@link PartitionChain}).
+ *
+ * <p>Memory: {@link ChildTables} (at most {@code tableBudget} bytes) plus per chain at most 2·draws
+ * stored draws (4 bytes per candidate edge, 12n bytes of state).
+ */
+public final class PartitionMcmc {
+    /** Stored draws used for the parent-set posteriors (evenly spaced). */
+    static final int SET_DRAWS = 1000;
+
+    private PartitionMcmc() {
+    }
+
+    /**
+     * @param chains       the edge estimates and diagnostics (as order MCMC reports them); its
+     *                     {@code orders} are linear extensions of the stored partitions
+     * @param dags         per chain, per stored draw used, the drawn DAG: the index of each child's
+     *                     parent set in {@link LocalScores#masks(int)}
+     * @param setPosterior per child and allowed set, the Rao-Blackwellised P(U_i = U | D) (mean over
+     *                     at most {@value #SET_DRAWS} evenly spaced stored partitions)
+     */
+    public record Result(OrderMcmc.Result chains, List<List<int[]>> dags, double[][] setPosterior) {
+    }
+
+    /** Runs the chains. {@code listener} may be null. */
+    public static Result run(LocalScores ls, OrderConstraints oc, OrderMcmc.Settings s, ChainRunner.Listener listener) {
+        int n = ls.variableCount();
+        checkTiers(ls, oc);
+        int[] offset = new int[n + 1];
+        for (int i = 0; i < n; i++) {
+            offset[i + 1] = offset[i] + ls.candidates(i).length;
+        }
+        int[] edgeFrom = new int[offset[n]];
+        int[] edgeTo = new int[offset[n]];
+        for (int i = 0; i < n; i++) {
+            int[] cand = ls.candidates(i);
+            for (int k = 0; k < cand.length; k++) {
+                edgeFrom[offset[i] + k] = cand[k];
+                edgeTo[offset[i] + k] = i;
+            }
+        }
+        long t0 = System.nanoTime();
+        ChildTables tables = new ChildTables(ls, s.tableBudget());
+        SplittableRandom root = new SplittableRandom(s.seed());
+        List<PartitionChain> chains = new ArrayList<>();
+        for (int c = 0; c < s.chains(); c++) {
+            DrawStore store = s.untilConverged()
+                    ? new DrawStore(offset[n], Math.max(s.draws(), OrderMcmc.UNTIL_CONVERGED_DRAWS), 1, 0)
+                    : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
+            chains.add(new PartitionChain(ls, tables, oc, offset, s.features(), root.split(), store));
+        }
+        double setup = (System.nanoTime() - t0) / 1e9;
+        List<String> names = new ArrayList<>();
+        for (var v : ls.store().variables()) {
+            names.add(v.name());
+        }
+        MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
+        ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
+                Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
+        OrderMcmc.Result r = OrderMcmc.summarise(ls, chains, offset, s, out, setup, edgeFrom.length);
+        int draws = r.report().drawsPerChain();
+        List<List<int[]>> dags = new ArrayList<>();
+        List<PartitionChain.State> used = new ArrayList<>();
+        for (PartitionChain c : chains) {
+            DrawStore st = c.draws();
+            int from = st.firstAfter(out.discarded());
+            List<int[]> chain = new ArrayList<>();
+            for (int t = 0; t < draws; t++) {
+                PartitionChain.State x = (PartitionChain.State) st.state(from + t);
+                chain.add(x.sets());
+                used.add(x);
+            }
+            dags.add(chain);
+        }
+        return new Result(r, dags, setPosterior(ls, chains.get(0), used));
+    }
+
+    /**
+     * Tiers are honoured exactly only when every variable is in a tier: then a DAG has a
+     * tier-respecting order iff none of its edges points to an earlier tier, which the chains
+     * enforce edge by edge. With unlisted variables a path through them may run against the tiers
+     * with no single edge doing so: refused.
+     */
+    static void checkTiers(LocalScores ls, OrderConstraints oc) {
+        if (oc.tierNames().isEmpty()) {
+            return;
+        }
+        List<String> unlisted = new ArrayList<>();
+        for (int v = 0; v < ls.variableCount(); v++) {
+            if (oc.tier(v) < 0) {
+                unlisted.add(ls.store().variables().get(v).name());
+            }
+        }
+        if (!unlisted.isEmpty()) {
+            throw new org.edgewise.driver.UserError("--tiers with partition MCMC (--dag-prior structure-modular) needs every "
+                    + "variable in a tier; not listed: " + String.join(", ", unlisted.subList(0, Math.min(5, unlisted.size())))
+                    + (unlisted.size() > 5 ? " and " + (unlisted.size() - 5) + " more" : "")
+                    + "; list them, or use --dag-prior order-modular");
+        }
+    }
+
+    /** Mean over evenly spaced stored partitions of each allowed set's weight share. */
+    private static double[][] setPosterior(LocalScores ls, PartitionChain scorer, List<PartitionChain.State> used) {
+        int n = ls.variableCount();
+        double[][] out = new double[n][];
+        for (int i = 0; i < n; i++) {
+            out[i] = new double[ls.setCount(i)];
+        }
+        int every = Math.max(1, used.size() / SET_DRAWS);
+        int k = 0;
+        for (int d = 0; d < used.size(); d += every) {
+            int[] el = used.get(d).element();
+            k++;
+            for (int i = 0; i < n; i++) {
+                long[] masks = ls.masks(i);
+                double[] w = ls.weights(i);
+                long b = 0;
+                long t = 0;
+                int[] cand = ls.candidates(i);
+                for (int c = 0; c < cand.length; c++) {
+                    b |= el[cand[c]] < el[i] ? 1L << c : 0;
+                    t |= el[cand[c]] == el[i] - 1 ? 1L << c : 0;
+                }
+                b &= ~scorer.excluded(i);
+                t &= ~scorer.excluded(i);
+                double z = scorer.childScore(i, el[i], b, t);
+                for (int s = 0; s < masks.length; s++) {
+                    if (PartitionChain.allowed(masks[s], el[i] == 0, b, t)) {
+                        out[i][s] += Math.exp(w[s] - z);
+                    }
+                }
+            }
+        }
+        for (double[] row : out) {
+            for (int s = 0; s < row.length; s++) {
+                row[s] /= k;
+            }
+        }
+        return out;
+    }
+}
