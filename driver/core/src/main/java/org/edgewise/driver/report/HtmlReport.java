@@ -117,10 +117,13 @@ public final class HtmlReport {
 
     private static String methodName(EdgeResult r) {
         String m = r.method() == null ? "unknown method" : r.method();
+        boolean structure = "structure-modular".equals(r.dagPrior());
         return switch (m) {
             case "order" -> "averaged over the structures consistent with a given order";
-            case "exact" -> "averaged exactly over all orders";
-            case "mcmc" -> "averaged over orders sampled by order MCMC";
+            case "exact" -> structure ? "averaged exactly over all DAGs (structure-modular DAG prior)"
+                    : "averaged exactly over all orders (order-modular DAG prior)";
+            case "mcmc" -> structure ? "averaged over DAGs drawn from order MCMC, re-weighted to the structure-modular DAG prior"
+                    : "averaged over orders sampled by order MCMC (order-modular DAG prior)";
             default -> m;
         };
     }
