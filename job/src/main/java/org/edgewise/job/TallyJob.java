@@ -122,7 +122,7 @@ public final class TallyJob {
                             o.missing().label(), fingerprint),
                     variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
                     o.score().label(), o.ess());
-            StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite());
+            StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite(), "--overwrite");
             double secs = (System.nanoTime() - start) / 1e9;
             LOG.info("wrote {}: {} families from {} rows in {} s", o.out(), plan.familyCount(), rows,
                     String.format(Locale.ROOT, "%.1f", secs));

@@ -201,7 +201,7 @@ public final class TallyMain implements Callable<Integer> {
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
         }
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
-        StoreTarget.check(out, overwrite, inputs);
+        StoreTarget.check(out, overwrite, inputs, "--out", "--overwrite");
         java.nio.charset.Charset charset;
         try {
             charset = java.nio.charset.Charset.forName(encoding.trim());

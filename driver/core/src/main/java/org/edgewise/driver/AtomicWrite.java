@@ -49,14 +49,15 @@ public final class AtomicWrite {
      * Checks an output file before any work: an existing {@code target} is replaced only with
      * {@code overwrite} and only when it is a file, and its directory must be writable.
      *
-     * @param option the option that named it ({@code --out}), for the message
+     * @param option          how the caller names the target ({@code --out}), for the message
+     * @param overwriteOption how the caller names the permission to replace it ({@code --overwrite})
      */
-    public static void checkFile(Path target, boolean overwrite, String option) {
+    public static void checkFile(Path target, boolean overwrite, String option, String overwriteOption) {
         if (Files.isDirectory(target)) {
             throw new UserError(option + " " + target + " is a directory; give a file name");
         }
         if (Files.exists(target) && !overwrite) {
-            throw new UserError(option + " " + target + " already exists; pass --overwrite to replace it");
+            throw new UserError(option + " " + target + " already exists; pass " + overwriteOption + " to replace it");
         }
         checkWritable(target, option);
     }
@@ -107,20 +108,22 @@ public final class AtomicWrite {
      * renamed to {@code target}. An existing target is replaced only when {@code overwrite}
      * (moved aside, the new one moved in, the old one deleted); else a {@link UserError}.
      * What may be replaced is the caller's to check (a score store only: {@code StoreTarget}).
+     * {@code overwriteOption} names the permission to replace in the message ({@code --overwrite}).
      */
-    public static void directory(Path target, boolean overwrite, Content content) throws IOException {
+    public static void directory(Path target, boolean overwrite, String overwriteOption, Content content)
+            throws IOException {
         Path abs = target.toAbsolutePath().normalize();
         if (Files.isDirectory(abs.getParent())) {
             removeLeftovers(abs); // first: a store moved aside by a killed writer is back before the check
         }
         if (Files.exists(abs) && !overwrite) {
-            throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
+            throw new UserError("output " + target + " already exists; pass " + overwriteOption + " to replace it");
         }
         Path tmp = temporarySibling(abs, "tmp");
         try {
             Files.createDirectory(tmp);
             content.writeTo(tmp);
-            publish(tmp, abs, overwrite);
+            publish(tmp, abs, overwrite, overwriteOption);
         } finally {
             done(tmp);
         }
@@ -167,11 +170,11 @@ public final class AtomicWrite {
         }
     }
 
-    private static void publish(Path tmp, Path target, boolean overwrite) throws IOException {
+    private static void publish(Path tmp, Path target, boolean overwrite, String overwriteOption) throws IOException {
         Path old = null;
         if (Files.exists(target)) {
             if (!overwrite) {
-                throw new UserError("output " + target + " already exists; pass --overwrite to replace it");
+                throw new UserError("output " + target + " already exists; pass " + overwriteOption + " to replace it");
             }
             old = target.resolveSibling(leftoverName(target, "old"));
             Files.move(target, old, StandardCopyOption.ATOMIC_MOVE);

@@ -93,7 +93,7 @@ public final class EdgesCommand implements Callable<Integer> {
         }
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         if (settings == null) {
-            return EssSweep.givenOrder(store, averaging.scoring.store, VariableOrder.parse(store.manifest(), averaging.method.order),
+            return EssSweep.givenOrder(store, averaging.scoring.store, VariableOrder.parse(store.manifest(), averaging.method.order, "--order"),
                     opts, topParents);
         }
         return UnknownOrderEdges.compute(store, averaging.scoring.store, opts, settings, spec.commandLine().getErr());

@@ -59,7 +59,7 @@ public final class EdgewiseCli implements Runnable {
             return USER_ERROR;
         });
         cl.setExecutionExceptionHandler((ex, c, parsed) -> {
-            return ErrorReport.report(c.getCommandName(), ex, c.getErr());
+            return ErrorReport.report(c.getCommandName(), CliNames.worded(ex), c.getErr());
         });
         return cl;
     }

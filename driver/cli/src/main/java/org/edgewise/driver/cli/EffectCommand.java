@@ -77,7 +77,7 @@ public final class EffectCommand implements Callable<Integer> {
         DagPrior prior = settings != null ? settings.dagPrior() : DagPrior.parse(averaging.unknown.dagPrior, "--dag-prior");
         EffectEngine.Settings engine = new EffectEngine.Settings(effectDraws, averaging.unknown.seed, maxHiddenStates);
         ScoreStore store = StoreReader.read(averaging.scoring.store);
-        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(store.manifest(), averaging.method.order);
+        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(store.manifest(), averaging.method.order, "--order");
         List<EffectAnalysis.Question> qs = casesFile == null
                 ? List.of(new EffectAnalysis.Question(doText, targetText, givenText, versusText, ""))
                 : questions(casesFile);

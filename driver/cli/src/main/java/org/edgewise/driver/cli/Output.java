@@ -28,7 +28,7 @@ final class Output {
      */
     static void check(Path out, boolean overwrite) {
         if (out != null) {
-            AtomicWrite.checkFile(out, overwrite, "--out");
+            AtomicWrite.checkFile(out, overwrite, "--out", "--overwrite");
         }
     }
 

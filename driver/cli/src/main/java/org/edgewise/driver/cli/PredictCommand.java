@@ -129,7 +129,7 @@ public final class PredictCommand implements Callable<Integer> {
                 "every case is already exact there, Z(D + case) / Z(D) over all DAGs");
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
-        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order);
+        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(m, averaging.method.order, "--order");
         int[] given = givenText == null ? null : CaseParser.parse(m, givenText, "--given");
         int[] single = caseText == null ? null : CaseParser.parse(m, caseText, "--case");
         CaseCsv table = casesFile == null ? null : CaseCsv.read(casesFile, m);

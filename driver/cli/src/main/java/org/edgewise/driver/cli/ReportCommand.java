@@ -63,9 +63,9 @@ final class ReportCommand implements Callable<Integer> {
         String text;
         if (fmt.equals("dot")) {
             EdgeMatrix m = EdgeMatrix.of(r);
-            text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()));
+            text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()), CliNames.ASSESS);
         } else {
-            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold);
+            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold, CliNames.ASSESS);
             if (effect != null) {
                 text = EffectSection.insertInto(text, EffectResult.read(effect));
             }

@@ -33,7 +33,7 @@ public final class ScoringMixin {
             Checks.ess(given, "--ess");
         }
         return new ScoringOptions(score == null ? null : ScoreKind.parse(score), essValue,
-                StructurePrior.parse(prior), rules(forbid, "--forbid"), rules(require, "--require"));
+                StructurePrior.parse(prior), rules(forbid, "--forbid"), rules(require, "--require"), CliNames.NAMES);
     }
 
     /** The options for the first (or stored) ESS. */

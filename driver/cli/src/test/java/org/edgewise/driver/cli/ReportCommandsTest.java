@@ -112,6 +112,17 @@ class ReportCommandsTest {
     }
 
     /** The edges result's formatVersion (ResultJson): report and compare refuse another one in one line naming the file. */
+    /** Directions not assessed: the report tells the reader the command and option, as the CLI spells them. */
+    @Test
+    void reportNamesTheEdgesOptionThatAssessesDirections() throws Exception {
+        files();
+        Path html = dir.resolve("hint.html");
+        assertEquals(0, run("report", "--result", dir.resolve("r.json").toString(), "--out", html.toString()).status());
+        assertTrue(Files.readString(html).contains("run <code>edges</code> with <code>--features essential-graph</code>"));
+        CliRun dot = run("report", "--result", dir.resolve("r.json").toString(), "--format", "dot");
+        assertTrue(dot.out().contains("directions not assessed (run edges with --features essential-graph)"), dot.out());
+    }
+
     @Test
     void reportAndCompareRefuseAResultOfAnotherFormatVersion() throws Exception {
         files();

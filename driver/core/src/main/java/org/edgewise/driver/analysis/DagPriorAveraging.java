@@ -95,10 +95,11 @@ public final class DagPriorAveraging {
         int n = ls.variableCount();
         if (n > (reweight ? MAX_REWEIGHT_VARIABLES : MAX_DRAW_VARIABLES)) {
             throw new UserError(reweight
-                    ? "--dag-prior structure-modular with --method mcmc re-weights each drawn DAG by 1 / (its number of "
+                    ? ls.options().names().structureModular() + " with " + ls.options().names().methodMcmc()
+                    + " re-weights each drawn DAG by 1 / (its number of "
                     + "linear extensions), counted over subsets: at most " + MAX_REWEIGHT_VARIABLES + " variables, this store has "
-                    + n + "; use --dag-prior order-modular"
-                    : "--features essential-graph, ancestors or markov-blanket from DAG draws handle at most "
+                    + n + "; use " + ls.options().names().orderModular()
+                    : ls.options().names().drawFeatures() + " from DAG draws handle at most "
                     + MAX_DRAW_VARIABLES + " variables, this store has " + n);
         }
         int perChain = r.orders().size() / chains;

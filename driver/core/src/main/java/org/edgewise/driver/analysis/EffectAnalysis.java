@@ -87,7 +87,7 @@ public final class EffectAnalysis {
         Manifest m = ls.store().manifest();
         List<EffectQuery> qs = new ArrayList<>();
         for (Question q : r.questions()) {
-            qs.add(EffectQuery.parse(m, q.doText(), q.targetText(), q.givenText(), q.versusText(), q.where()));
+            qs.add(EffectQuery.parse(m, q.doText(), q.targetText(), q.givenText(), q.versusText(), q.where(), ls.options().names()));
         }
         int n = ls.variableCount();
         EffectOrders src;

@@ -84,8 +84,9 @@ public final class ExactDagSampler {
             if (!(trials <= MAX_TRIALS)) {
                 throw new UserError(String.format(Locale.ROOT,
                         "exact DAG sampling under the structure-modular prior would need about %.1e order draws for %d DAGs "
-                                + "(acceptance %.2e; at most %.0e): use --method mcmc, fewer --samples, or --dag-prior order-modular",
-                        trials, count, acceptance, MAX_TRIALS));
+                                + "(acceptance %.2e; at most %.0e): use %s, fewer %s, or %s",
+                        trials, count, acceptance, MAX_TRIALS, ls.options().names().methodMcmc(),
+                        ls.options().names().samples(), ls.options().names().orderModular()));
             }
         }
         int[] order = new int[n];

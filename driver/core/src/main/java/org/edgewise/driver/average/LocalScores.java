@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.TreeSet;
 import java.util.stream.IntStream;
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.score.ScoreKind;
@@ -59,7 +60,8 @@ public final class LocalScores {
         Manifest m = store.manifest();
         ScoreKind storedKind = ScoreKind.parse(m.score());
         ScoreKind kind = options.score() == null ? storedKind : options.score();
-        Checks.notApplicable(kind == ScoreKind.K2 && !Double.isNaN(options.ess()), "--ess", "to score k2",
+        InputNames in = options.names();
+        Checks.notApplicable(kind == ScoreKind.K2 && !Double.isNaN(options.ess()), in.ess(), "to score k2",
                 "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
         double ess = Double.isNaN(options.ess()) ? m.ess() : options.ess();
         FamilyScore fs = FamilyScore.of(kind, ess);
@@ -68,13 +70,13 @@ public final class LocalScores {
         boolean[][] forbidden = new boolean[n][n];
         boolean[][] required = new boolean[n][n];
         for (EdgeRule e : options.forbid()) {
-            forbidden[index(m, e.from(), "--forbid")][index(m, e.to(), "--forbid")] = true;
+            forbidden[index(m, e.from(), in.forbid())][index(m, e.to(), in.forbid())] = true;
         }
         for (EdgeRule e : options.require()) {
-            int from = index(m, e.from(), "--require");
-            int to = index(m, e.to(), "--require");
+            int from = index(m, e.from(), in.require());
+            int to = index(m, e.to(), in.require());
             if (forbidden[from][to]) {
-                throw new UserError("--require " + e + " is also forbidden");
+                throw new UserError(in.require() + " " + e + " is also forbidden");
             }
             required[from][to] = true;
         }
@@ -94,7 +96,7 @@ public final class LocalScores {
             }
             for (int p = 0; p < n; p++) {
                 if (required[p][child] && !cs.contains(p)) {
-                    throw new UserError("--require " + m.variables().get(p).name() + "->" + m.variables().get(child).name()
+                    throw new UserError(in.require() + " " + m.variables().get(p).name() + "->" + m.variables().get(child).name()
                             + " is impossible: the store holds no parent set of "
                             + m.variables().get(child).name() + " containing " + m.variables().get(p).name());
                 }
@@ -102,7 +104,7 @@ public final class LocalScores {
             if (cs.size() > MAX_CANDIDATES) {
                 throw new UserError("variable " + m.variables().get(child).name() + " has " + cs.size()
                         + " candidate parents; averaging handles at most " + MAX_CANDIDATES
-                        + " per variable: tally with --candidates K");
+                        + " per variable: tally with " + in.candidates());
             }
             int[] cand = cs.stream().mapToInt(Integer::intValue).toArray();
             cands[child] = cand;
@@ -119,7 +121,7 @@ public final class LocalScores {
                         req.add(m.variables().get(cand[pos]).name());
                     }
                 }
-                throw new UserError("--require is impossible: variable " + m.variables().get(child).name() + " would need "
+                throw new UserError(in.require() + " is impossible: variable " + m.variables().get(child).name() + " would need "
                         + req.size() + " parents (" + String.join(", ", req) + ") but the store's in-degree bound d is "
                         + m.maxParents());
             }

@@ -99,6 +99,29 @@ public final class MultiChainDiagnostics {
         };
     }
 
+    /**
+     * Too few draws per chain after burn-in to diagnose (fewer than 4): carries the count, so a
+     * front end can name its own option for the draws stored ({@link #message}).
+     */
+    public static final class TooFewDraws extends org.edgewise.driver.UserError {
+        private final int perChain;
+
+        TooFewDraws(int perChain) {
+            super(text(perChain, org.edgewise.driver.InputNames.API.draws()));
+            this.perChain = perChain;
+        }
+
+        /** The message with the draws stored per chain named as {@code drawsName}. */
+        public String message(String drawsName) {
+            return text(perChain, drawsName);
+        }
+
+        private static String text(int perChain, String drawsName) {
+            return "only " + perChain + " draws per chain were stored after burn-in; run more steps or store more draws ("
+                    + drawsName + ")";
+        }
+    }
+
     /** Diagnoses the draws taken after step {@code discardUpTo} (the same window length in every chain). */
     public static Report evaluate(List<DrawStore> chains, long discardUpTo, Quantities q, double rhatTarget) {
         int m = chains.size();
@@ -109,8 +132,7 @@ public final class MultiChainDiagnostics {
             len = Math.min(len, chains.get(c).size() - from[c]);
         }
         if (len < 4) {
-            throw new org.edgewise.driver.UserError("only " + Math.max(len, 0)
-                    + " draws per chain were stored after burn-in; run more steps or store more draws (--draws)");
+            throw new TooFewDraws(Math.max(len, 0));
         }
         int draws = len;
         ChainDiagnostics.Summary[] out = IntStream.range(0, q.count()).parallel().mapToObj(k -> {

@@ -5,6 +5,7 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.SplittableRandom;
 import org.apache.commons.math3.special.Gamma;
+import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.EdgeRule;
 
@@ -49,6 +50,7 @@ public final class OrderConstraints {
      * @param tiers tiers by variable name, earliest first (may be empty)
      */
     public static OrderConstraints of(LocalScores ls, List<List<String>> tiers) {
+        InputNames in = ls.options().names();
         int n = ls.variableCount();
         var vars = ls.store().variables();
         int[] tier = new int[n];
@@ -61,10 +63,10 @@ public final class OrderConstraints {
             for (String name : tierList) {
                 int v = ls.store().manifest().variableIndex(name.trim());
                 if (v < 0) {
-                    throw new UserError("--tiers: unknown variable '" + name.trim() + "'");
+                    throw new UserError(in.tiers() + ": unknown variable '" + name.trim() + "'");
                 }
                 if (tier[v] >= 0) {
-                    throw new UserError("--tiers: variable '" + name.trim() + "' is in two tiers");
+                    throw new UserError(in.tiers() + ": variable '" + name.trim() + "' is in two tiers");
                 }
                 tier[v] = t;
                 listed++;
@@ -93,7 +95,7 @@ public final class OrderConstraints {
                 continue;
             }
             if (tier[a] >= 0 && tier[b] >= 0 && tier[a] > tier[b]) {
-                throw new UserError("--require " + e + " contradicts --tiers: " + e.from() + " is in a later tier than " + e.to());
+                throw new UserError(in.require() + " " + e + " contradicts " + in.tiers() + ": " + e.from() + " is in a later tier than " + e.to());
             }
             must[a][b] = true;
             any = true;

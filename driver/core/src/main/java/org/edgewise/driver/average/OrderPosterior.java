@@ -50,7 +50,7 @@ public final class OrderPosterior {
             int from = m.variableIndex(e.from());
             int to = m.variableIndex(e.to());
             if (from >= 0 && to >= 0 && pos[from] > pos[to]) {
-                throw new UserError("--require " + e + " is impossible under this order: " + e.from()
+                throw new UserError(ls.options().names().require() + " " + e + " is impossible under this order: " + e.from()
                         + " comes after " + e.to());
             }
         }

@@ -118,8 +118,9 @@ public final class StructureSum {
     public static final class TooLarge extends UserError {
         private final Estimate estimate;
 
-        TooLarge(Estimate e) {
-            super(e + "; use --method mcmc (sampling under the same prior) or --dag-prior order-modular (exact to larger n)");
+        TooLarge(Estimate e, org.edgewise.driver.InputNames in) {
+            super(e + "; use " + in.methodMcmc() + " (sampling under the same prior) or " + in.orderModular()
+                    + " (exact to larger n)");
             this.estimate = e;
         }
 
@@ -143,7 +144,7 @@ public final class StructureSum {
         int n = ls.variableCount();
         Estimate est = estimateHere(n);
         if (n > est.largestN()) {
-            throw new TooLarge(est);
+            throw new TooLarge(est, ls.options().names());
         }
         SinkRecursion p = new SinkRecursion(n, oc);
         double total = 3.0 * Math.pow(3, n);
@@ -207,7 +208,7 @@ public final class StructureSum {
         int n = ls.variableCount();
         Estimate est = estimateHere(n);
         if (n > est.largestN()) {
-            throw new TooLarge(est);
+            throw new TooLarge(est, ls.options().names());
         }
         return new SinkRecursion(n, oc).forward(alphas(ls, n, false), x -> { })[(1 << n) - 1];
     }

@@ -5,7 +5,7 @@ import java.util.List;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.Manifest;
 
-/** Parsing and checking of a variable order given by name ({@code --order a,b,c}). */
+/** Parsing and checking of a variable order given by name ({@code a,b,c}). */
 public final class VariableOrder {
     private VariableOrder() {
     }
@@ -13,31 +13,33 @@ public final class VariableOrder {
     /**
      * The order as variable indices. Refuses, naming the variable, an order that invents a name,
      * repeats one or misses one (it must list every variable of the store exactly once).
+     *
+     * @param what how the caller names the order in messages (the CLI: its option)
      */
-    public static int[] parse(Manifest m, String text) {
+    public static int[] parse(Manifest m, String text, String what) {
         List<String> names = new ArrayList<>();
         for (String t : text.split(",", -1)) {
             names.add(t.trim());
         }
-        return of(m, names);
+        return of(m, names, what);
     }
 
     /** As {@link #parse} from a list of names. */
-    public static int[] of(Manifest m, List<String> names) {
+    public static int[] of(Manifest m, List<String> names, String what) {
         int n = m.variableCount();
         boolean[] seen = new boolean[n];
         int[] order = new int[names.size()];
         for (int p = 0; p < names.size(); p++) {
             String name = names.get(p);
             if (name.isEmpty()) {
-                throw new UserError("--order: empty variable name at position " + (p + 1));
+                throw new UserError(what + ": empty variable name at position " + (p + 1));
             }
             int v = m.variableIndex(name);
             if (v < 0) {
-                throw new UserError("--order: unknown variable '" + name + "' (variables: " + allNames(m) + ")");
+                throw new UserError(what + ": unknown variable '" + name + "' (variables: " + allNames(m) + ")");
             }
             if (seen[v]) {
-                throw new UserError("--order: variable '" + name + "' appears more than once");
+                throw new UserError(what + ": variable '" + name + "' appears more than once");
             }
             seen[v] = true;
             order[p] = v;
@@ -49,7 +51,7 @@ public final class VariableOrder {
             }
         }
         if (!missing.isEmpty()) {
-            throw new UserError("--order misses " + (missing.size() == 1 ? "variable " : "variables ")
+            throw new UserError(what + " misses " + (missing.size() == 1 ? "variable " : "variables ")
                     + String.join(", ", missing) + "; it must list every variable of the store exactly once");
         }
         return order;

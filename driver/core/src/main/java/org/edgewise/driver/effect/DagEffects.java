@@ -23,8 +23,10 @@ final class DagEffects {
     private final int n;
     private final int[] arity;
     private final long maxHiddenStates;
+    /** How the caller names the hidden-state limit in messages. */
+    private final String maxHiddenName;
 
-    DagEffects(ScoreStore store, long maxHiddenStates) {
+    DagEffects(ScoreStore store, long maxHiddenStates, String maxHiddenName) {
         this.store = store;
         this.n = store.variableCount();
         this.arity = new int[n];
@@ -32,6 +34,7 @@ final class DagEffects {
             arity[v] = store.arity(v);
         }
         this.maxHiddenStates = maxHiddenStates;
+        this.maxHiddenName = maxHiddenName;
     }
 
     /**
@@ -70,7 +73,7 @@ final class DagEffects {
         if (joint > maxHiddenStates) {
             throw new UserError("summing out the hidden ancestors of the target in one sampled network would enumerate "
                     + String.format(java.util.Locale.ROOT, "%.0f", joint) + " joint states (limit " + maxHiddenStates
-                    + "); raise --max-hidden-states");
+                    + "); raise " + maxHiddenName);
         }
         int[] family = new int[n];
         for (int v : topo) {

@@ -92,7 +92,7 @@ public final class EffectEngine {
         SplittableRandom rng = new SplittableRandom(s.seed());
         int[] drawUnit = assign(logW, src.weighted(), s.draws(), rng);
         long[][] masks = NoPath.variableMasks(ls);
-        DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates());
+        DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
         Parameters theta = Parameters.draws(ls, rng);
         double[][][] terms = new double[qs.size()][k][];
         double[][] values = new double[qs.size()][s.draws()];
@@ -145,7 +145,7 @@ public final class EffectEngine {
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
             out.add(EffectMix.combine(qs.get(qi), src.weighted() ? logW : null, terms[qi], src.weighted() || k == 1,
-                    src.chains(), values[qi], none[qi]));
+                    src.chains(), values[qi], none[qi], ls.options().names().given()));
         }
         return out;
     }
@@ -159,7 +159,7 @@ public final class EffectEngine {
         for (int g = 0; g < k; g++) {
             logW[g] = Math.log(dags.weight(g));
         }
-        DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates());
+        DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
         Parameters mean = Parameters.mean(ls);
         double[][][] terms = new double[qs.size()][k][];
         // draws repeat DAGs: each distinct DAG is evaluated once (its rows are only read)
@@ -203,7 +203,7 @@ public final class EffectEngine {
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
             out.add(EffectMix.combine(qs.get(qi), logW, terms[qi], !dags.sampled(), dags.chains(),
-                    values[qi], none[qi]));
+                    values[qi], none[qi], ls.options().names().given()));
         }
         return out;
     }

@@ -30,9 +30,10 @@ final class EffectMix {
      * @param chains  for MCMC orders, the number of chains (else 0)
      * @param values  the (DAG, θ) draws' effect values
      * @param noPath  the draws' no-path indicators
+     * @param givenName how the caller names the evidence in messages
      */
     static Effect combine(EffectQuery q, double[] logW, double[][] terms, boolean exact, int chains,
-                          double[] values, boolean[] noPath) {
+                          double[] values, boolean[] noPath, String givenName) {
         int k = terms.length;
         double[] lw = new double[k];
         for (int u = 0; u < k; u++) {
@@ -45,7 +46,7 @@ final class EffectMix {
         }
         double lg = mix(lw, z, terms, GIVEN);
         if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError("--given has probability zero under the intervention; a conditional on it is undefined");
+            throw new UserError(givenName + " has probability zero under the intervention; a conditional on it is undefined");
         }
         double p = Math.exp(mix(lw, z, terms, JOINT) - lg);
         double obs = Math.exp(mix(lw, z, terms, OBS_JOINT) - mix(lw, z, terms, OBS_GIVEN));

@@ -3,6 +3,7 @@ package org.edgewise.driver.effect;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.store.Manifest;
@@ -24,33 +25,35 @@ public record EffectQuery(int[] set, int[] target, int[] given, int[] versus) {
      * a batch, or empty). Refusals, word for word: an empty {@code --do} or {@code --target}; an
      * unknown variable or state (the {@link CaseParser} messages); the same variable in two of
      * {@code --do}, {@code --target}, {@code --given}; every variable set; a {@code --versus} that
-     * sets other variables than {@code --do}.
+     * sets other variables than {@code --do}. {@code in} names the four parts as the caller's user
+     * knows them (the CLI: {@code --do}, {@code --target}, {@code --given}, {@code --versus}).
      */
     public static EffectQuery parse(Manifest m, String doText, String targetText, String givenText,
-                                    String versusText, String where) {
+                                    String versusText, String where, InputNames in) {
+        String doName = in.intervention();
         if (doText == null || doText.isBlank()) {
-            throw new UserError(where + "--do is empty: name at least one variable to set, e.g. --do \"x=a\"");
+            throw new UserError(where + doName + " is empty: name at least one variable to set, e.g. " + doName + " \"x=a\"");
         }
         if (targetText == null || targetText.isBlank()) {
-            throw new UserError(where + "--target is empty: name the outcome, e.g. --target \"y=b\"");
+            throw new UserError(where + in.target() + " is empty: name the outcome, e.g. " + in.target() + " \"y=b\"");
         }
-        int[] set = CaseParser.parse(m, doText, where + "--do");
+        int[] set = CaseParser.parse(m, doText, where + doName);
         int n = m.variableCount();
         if (count(set) == n) {
-            throw new UserError(where + "--do sets every variable (" + n + " of " + n
+            throw new UserError(where + doName + " sets every variable (" + n + " of " + n
                     + "): nothing is left to be an outcome");
         }
-        int[] target = CaseParser.parse(m, targetText, where + "--target");
-        int[] given = CaseParser.parse(m, givenText, where + "--given");
-        disjoint(m, set, target, where + "--do and --target both name ", ": a variable that is set cannot be the outcome");
-        disjoint(m, set, given, where + "--do and --given both name ", ": a variable that is set is not evidence");
-        disjoint(m, target, given, where + "--target and --given both name ", ": the outcome cannot also be the evidence");
+        int[] target = CaseParser.parse(m, targetText, where + in.target());
+        int[] given = CaseParser.parse(m, givenText, where + in.given());
+        disjoint(m, set, target, where + doName + " and " + in.target() + " both name ", ": a variable that is set cannot be the outcome");
+        disjoint(m, set, given, where + doName + " and " + in.given() + " both name ", ": a variable that is set is not evidence");
+        disjoint(m, target, given, where + in.target() + " and " + in.given() + " both name ", ": the outcome cannot also be the evidence");
         int[] versus = null;
         if (versusText != null && !versusText.isBlank()) {
-            versus = CaseParser.parse(m, versusText, where + "--versus");
+            versus = CaseParser.parse(m, versusText, where + in.versus());
             for (int v = 0; v < n; v++) {
                 if ((set[v] == CaseParser.HIDDEN) != (versus[v] == CaseParser.HIDDEN)) {
-                    throw new UserError(where + "--versus must set the same variables as --do (" + names(m, set)
+                    throw new UserError(where + in.versus() + " must set the same variables as " + doName + " (" + names(m, set)
                             + "), got " + names(m, versus));
                 }
             }

@@ -1,6 +1,7 @@
 package org.edgewise.driver.query;
 
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.InputNames;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
@@ -66,10 +67,13 @@ public final class CasePredictor implements CaseProbability {
     private final long[][] setMask;
     private final double skippedMass;
     private final long maxHiddenStates;
+    /** How the caller names the evidence and the hidden-state limit in messages. */
+    private final InputNames names;
 
     private CasePredictor(ScoreStore store, FamilyScore score, int[] order, int[][][] parents, long[][][] configs,
                           long[][][] counts, long[][][] rowTotals, double[][] q, double[][] weight,
-                          double[][][] dense, int[][] parentUnion, double skippedMass, long maxHiddenStates) {
+                          double[][][] dense, int[][] parentUnion, double skippedMass, long maxHiddenStates,
+                          InputNames names) {
         this.store = store;
         this.score = score;
         this.n = store.variableCount();
@@ -99,6 +103,7 @@ public final class CasePredictor implements CaseProbability {
         }
         this.skippedMass = skippedMass;
         this.maxHiddenStates = maxHiddenStates;
+        this.names = names;
     }
 
     /** Averaged over parent sets with their posteriors under the order; see the class comment for {@code tailMass}. */
@@ -206,7 +211,7 @@ public final class CasePredictor implements CaseProbability {
             }
         }
         return new CasePredictor(store, ls.familyScore(), op.order(), parents, configs, counts, totals, q, w,
-                dense, union, skipped, DEFAULT_MAX_HIDDEN_STATES);
+                dense, union, skipped, DEFAULT_MAX_HIDDEN_STATES, ls.options().names());
     }
 
     /**
@@ -230,7 +235,7 @@ public final class CasePredictor implements CaseProbability {
     public CasePredictor withMaxHiddenStates(long limit) {
         Checks.atLeast(limit, 1, "the limit on hidden joint states");
         return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, dense,
-                parentUnion, skippedMass, limit);
+                parentUnion, skippedMass, limit, names);
     }
 
     /**
@@ -262,7 +267,7 @@ public final class CasePredictor implements CaseProbability {
             dn[v] = new double[][] {one};
             union[v] = new int[0];
         }
-        return new CasePredictor(store, score, order, ps, cf, ct, tot, qq, w, dn, union, skippedMass, maxHiddenStates);
+        return new CasePredictor(store, score, order, ps, cf, ct, tot, qq, w, dn, union, skippedMass, maxHiddenStates, names);
     }
 
     /** The same predictor without dense tables: every lookup by binary search (for tests of that path). */
@@ -272,7 +277,7 @@ public final class CasePredictor implements CaseProbability {
             none[c] = new double[weight[c].length][];
         }
         return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, none,
-                parentUnion, skippedMass, maxHiddenStates);
+                parentUnion, skippedMass, maxHiddenStates, names);
     }
 
     /** Posterior mass skipped in total over all variables (0 when exact). */
@@ -324,7 +329,7 @@ public final class CasePredictor implements CaseProbability {
         if (joint > maxHiddenStates) {
             throw new UserError("summing out hidden variables " + names(hidden) + " would enumerate "
                     + String.format(java.util.Locale.ROOT, "%.0f", joint) + " joint states (limit "
-                    + maxHiddenStates + "); observe some of them or raise --max-hidden-states");
+                    + maxHiddenStates + "); observe some of them or raise " + names.maxHiddenStates());
         }
         boolean[] isHidden = new boolean[n];
         long hiddenMask = 0;
@@ -584,7 +589,7 @@ public final class CasePredictor implements CaseProbability {
     public double logConditional(int[] target, int[] given) {
         double lg = logProbability(given);
         if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError("--given has probability zero under this order and store; a conditional on it is undefined");
+            throw new UserError(names.given() + " has probability zero under this order and store; a conditional on it is undefined");
         }
         int[] joint = given.clone();
         for (int v = 0; v < n; v++) {

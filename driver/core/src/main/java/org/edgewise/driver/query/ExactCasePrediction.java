@@ -50,7 +50,7 @@ public final class ExactCasePrediction {
         int n = ls.variableCount();
         for (int v = 0; v < n; v++) {
             if (x[v] == CaseParser.HIDDEN) {
-                throw new UserError("--exact-cases needs every variable observed; " + ls.store().variables().get(v).name()
+                throw new UserError(ls.options().names().exactCases() + " needs every variable observed; " + ls.store().variables().get(v).name()
                         + " is hidden");
             }
         }

@@ -5,6 +5,7 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.TreeSet;
+import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
@@ -28,12 +29,15 @@ public final class OrderMixture implements CaseProbability {
     private final int[] bestOrder;
     /** Number of sampled orders (with repeats) for a sampled mixture; 0 for an exact one. */
     private final int draws;
+    /** How the caller names the evidence in messages. */
+    private final InputNames names;
 
-    private OrderMixture(CasePredictor[] parts, double[] logWeight, int[] bestOrder, int draws) {
+    private OrderMixture(CasePredictor[] parts, double[] logWeight, int[] bestOrder, int draws, InputNames names) {
         this.parts = parts;
         this.logWeight = logWeight;
         this.bestOrder = bestOrder;
         this.draws = draws;
+        this.names = names;
     }
 
     /** Every order in {@code orders} with weight ∝ exp(logEvidence(≺)) (orders of zero likelihood dropped). */
@@ -62,7 +66,7 @@ public final class OrderMixture implements CaseProbability {
         for (int k = 0; k < w.length; k++) {
             w[k] -= z;
         }
-        return new OrderMixture(ps.toArray(new CasePredictor[0]), w, best, 0);
+        return new OrderMixture(ps.toArray(new CasePredictor[0]), w, best, 0, ls.options().names());
     }
 
     /** Sampled orders, each distinct order weighted by its share of the sample. */
@@ -89,7 +93,7 @@ public final class OrderMixture implements CaseProbability {
                 best = o.clone();
             }
         }
-        return new OrderMixture(ps, w, best, orders.size());
+        return new OrderMixture(ps, w, best, orders.size(), ls.options().names());
     }
 
     /** Whether the orders were sampled (then every probability has a Monte Carlo error, {@link #mcse}). */
@@ -175,7 +179,7 @@ public final class OrderMixture implements CaseProbability {
     public double logConditional(int[] target, int[] given) {
         double lg = logProbability(given);
         if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError("--given has probability zero under the store; a conditional on it is undefined");
+            throw new UserError(names.given() + " has probability zero under the store; a conditional on it is undefined");
         }
         int[] joint = given.clone();
         for (int v = 0; v < joint.length; v++) {

@@ -64,7 +64,7 @@ public final class StructureCasePrediction implements CaseProbability {
         if (joint > maxHiddenStates) {
             throw new UserError("summing out hidden variables " + names(hidden) + " would enumerate "
                     + String.format(Locale.ROOT, "%.0f", joint) + " joint states (limit "
-                    + maxHiddenStates + "); observe some of them or raise --max-hidden-states");
+                    + maxHiddenStates + "); observe some of them or raise " + ls.options().names().maxHiddenStates());
         }
         int[] x = states.clone();
         for (int h : hidden) {
@@ -88,7 +88,7 @@ public final class StructureCasePrediction implements CaseProbability {
     public double logConditional(int[] target, int[] given) {
         double lg = logProbability(given);
         if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError("--given has probability zero under the store; a conditional on it is undefined");
+            throw new UserError(ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined");
         }
         int[] joint = given.clone();
         for (int v = 0; v < joint.length; v++) {

@@ -13,13 +13,10 @@ import org.edgewise.driver.result.EdgeResult;
  * Perlman 1997).
  */
 final class Cautions {
-    /** The option that produces essential-graph posteriors, named where directions were not assessed. */
-    static final String HOW_TO_ASSESS = "<code>edges</code> with <code>--features essential-graph</code>";
-
     private Cautions() {
     }
 
-    static void write(StringBuilder h, EdgeResult r, ConsensusEdges ce) {
+    static void write(StringBuilder h, EdgeResult r, ConsensusEdges ce, AssessHint hint) {
         EdgeResult.Settings s = r.settings();
         h.append("<div class=\"caution\">\n<h2>Read this first</h2>\n<ul>\n")
                 .append("<li><b>An edge posterior is evidence of statistical dependence, not proof of causation.</b> "
@@ -30,7 +27,7 @@ final class Cautions {
                 .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
                 .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
                 .append("<li>").append(dagPrior(r)).append("</li>\n")
-                .append("<li>").append(directions(ce)).append("</li>\n")
+                .append("<li>").append(directions(ce, hint)).append("</li>\n")
                 .append("<li>The posteriors can change with the ESS and the prior; see the sensitivity section when present.</li>\n")
                 .append("<li><b>Results can inform decisions about health or safety only together with domain experts and "
                         + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</div>\n");
@@ -60,7 +57,7 @@ final class Cautions {
     }
 
     /** How far the result's directions can be read (HTML). */
-    static String directions(ConsensusEdges ce) {
+    static String directions(ConsensusEdges ce, AssessHint hint) {
         String base = "<b>Direction is often not identifiable</b> from observational data: networks that differ only in "
                 + "reversible arrow directions (one Markov equivalence class: the same skeleton and v-structures) fit the data "
                 + "equally well. ";
@@ -73,11 +70,11 @@ final class Cautions {
                     + "is causal only under further assumptions (no hidden common causes, no selection on the outcome).";
         }
         return base + "Directions were <b>not assessed</b> for this result: the consensus graph draws lines for adjacency "
-                + "P(a \u2192 b) + P(b \u2192 a) only. To see which directions are identifiable, run " + HOW_TO_ASSESS + ".";
+                + "P(a \u2192 b) + P(b \u2192 a) only. To see which directions are identifiable, run " + hint.html() + ".";
     }
 
     /** The consensus graph's caption (HTML), before the layout sentence. */
-    static String graphCaption(ConsensusEdges ce, double threshold) {
+    static String graphCaption(ConsensusEdges ce, double threshold, AssessHint hint) {
         String t = f(threshold, 2);
         if (ce.givenOrder()) {
             return "Arrows: edges with posterior above " + t + " given the order, directed as the order says; line width and "
@@ -89,6 +86,6 @@ final class Cautions {
                     + "width grows with the label.";
         }
         return "Lines: pairs adjacent with posterior P(a \u2192 b) + P(b \u2192 a) above " + t + " (label; line width grows with "
-                + "it). Directions <b>not assessed</b>: run " + HOW_TO_ASSESS + " to see which are identifiable.";
+                + "it). Directions <b>not assessed</b>: run " + hint.html() + " to see which are identifiable.";
     }
 }

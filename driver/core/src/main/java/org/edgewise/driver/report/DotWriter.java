@@ -35,6 +35,11 @@ public final class DotWriter {
      * orange reversed, red not in the known network.
      */
     public static String write(EdgeResult r, double threshold, boolean[][] truth) {
+        return write(r, threshold, truth, AssessHint.API);
+    }
+
+    /** As {@link #write(EdgeResult, double, boolean[][])}, naming how to get essential-graph features as {@code hint}. */
+    public static String write(EdgeResult r, double threshold, boolean[][] truth, AssessHint hint) {
         EdgeMatrix m = EdgeMatrix.of(r);
         ConsensusEdges ce = ConsensusEdges.of(r, m);
         StringBuilder sb = new StringBuilder();
@@ -43,7 +48,7 @@ public final class DotWriter {
                         : ce.assessed() ? "Arrows: compelled directions with posterior above the threshold; lines (dir=none): "
                         + "adjacent pairs whose direction is mostly reversible."
                         : "Lines (dir=none): adjacent pairs, P(a->b) + P(b->a) above the threshold; directions not assessed "
-                        + "(run edges with --features essential-graph).")
+                        + "(run " + hint.text() + ").")
                 .append("\n// DAG prior: ").append(ce.givenOrder() ? "given order (both DAG priors coincide)"
                         : r.dagPrior() == null ? "not recorded" : r.dagPrior())
                 .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n");

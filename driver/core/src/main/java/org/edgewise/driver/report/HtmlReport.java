@@ -57,6 +57,12 @@ public final class HtmlReport {
      * @param threshold  consensus graph: edges with posterior above it
      */
     public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold) {
+        return render(r, resultName, truth, truthName, threshold, AssessHint.API);
+    }
+
+    /** As {@link #render(EdgeResult, String, Network, String, double)}, naming how to get essential-graph features as {@code hint}. */
+    public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
+                                AssessHint hint) {
         EdgeMatrix m = EdgeMatrix.of(r);
         ConsensusEdges ce = ConsensusEdges.of(r, m);
         List<ConsensusEdges.Drawn> shown = ce.drawn(threshold);
@@ -79,12 +85,12 @@ public final class HtmlReport {
         h.append("<h1>Edge posteriors</h1>\n<p class=\"sub\">Edgewise report of <code>").append(esc(resultName))
                 .append("</code> \u2014 ").append(esc(methodName(r))).append(", ").append(m.size()).append(" variables")
                 .append(r.store() != null ? ", " + r.store().rows() + " rows" : "").append("</p>\n");
-        Cautions.write(h, r, ce);
+        Cautions.write(h, r, ce, hint);
         summary(h, r, m, shown, rec, threshold);
         mcmcWarning(h, r.diagnostics());
 
         h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
-        h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold)).append(" Variables are layered by ")
+        h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold, hint)).append(" Variables are layered by ")
                 .append("order".equals(r.method()) ? "the given order" : "a most probable order derived from the posteriors")
                 .append(" (").append(esc(lay.describe(m.variables()))).append("); hover over an edge for all its posteriors.</p>\n");
         if (t != null) {
@@ -101,7 +107,7 @@ public final class HtmlReport {
                 + "Cells are pale for unsupported edges and dark for strongly supported ones; a dependence supported "
                 + "in both directions shows as two mid-tone cells mirrored across the diagonal.</p>\n");
 
-        PairTable.write(h, m, ce, t, r);
+        PairTable.write(h, m, ce, t, r, hint);
         strongest(h, m, t, r);
         parentSets(h, r);
         diagnostics(h, r);

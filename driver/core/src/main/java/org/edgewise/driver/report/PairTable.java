@@ -27,7 +27,7 @@ final class PairTable {
     private PairTable() {
     }
 
-    static void write(StringBuilder h, EdgeMatrix m, ConsensusEdges ce, boolean[][] truth, EdgeResult r) {
+    static void write(StringBuilder h, EdgeMatrix m, ConsensusEdges ce, boolean[][] truth, EdgeResult r, AssessHint hint) {
         if (ce.givenOrder()) {
             return; // given an order the strongest-edges table already holds P(a → b | order), the adjacency itself
         }
@@ -89,7 +89,7 @@ final class PairTable {
                     + "the four.</p>\n");
         } else {
             h.append("P(adjacent) = P(a \u2192 b) + P(b \u2192 a), the posterior that the two are directly dependent. Directions "
-                    + "were not assessed: run ").append(Cautions.HOW_TO_ASSESS).append(" for the compelled and reversible "
+                    + "were not assessed: run ").append(hint.html()).append(" for the compelled and reversible "
                     + "posteriors.").append(anyMcse ? " MCSE: at most the sum of the two edges' Monte Carlo standard errors." : "")
                     .append("</p>\n");
         }

@@ -22,60 +22,60 @@ import org.edgewise.driver.UserError;
 public final class StoreTarget {
     /** What a store directory may hold. */
     static final Set<String> PARTS = Set.of(StoreFormat.MANIFEST, StoreFormat.SCORES, StoreFormat.COUNTS);
-    private static final String ONLY = "--overwrite replaces only a score store; ";
-
     private StoreTarget() {
     }
 
     /**
      * Refuses {@code out} unless it is new, or an existing store and {@code overwrite}; refuses an
      * {@code out} that is, or holds, one of the local {@code inputs} (paths or {@code file:} URIs;
-     * other filesystems cannot hold a local store); refuses an unwritable directory.
+     * other filesystems cannot hold a local store); refuses an unwritable directory. {@code outName}
+     * and {@code overwriteName} name the target and the permission to replace it in messages (the
+     * CLI: {@code --out}, {@code --overwrite}).
      */
-    public static void check(Path out, boolean overwrite, List<String> inputs) {
+    public static void check(Path out, boolean overwrite, List<String> inputs, String outName, String overwriteName) {
         Path abs = real(out);
         for (String in : inputs) {
             Path p = localPath(in);
             if (p != null && real(p).startsWith(abs)) {
-                throw new UserError("--out " + out + (real(p).equals(abs) ? " is" : " holds") + " the input " + in
+                throw new UserError(outName + " " + out + (real(p).equals(abs) ? " is" : " holds") + " the input " + in
                         + "; write the store elsewhere");
             }
         }
         if (Files.exists(out)) {
             if (!overwrite) {
-                throw new UserError("output " + out + " already exists; pass --overwrite to replace it");
+                throw new UserError("output " + out + " already exists; pass " + overwriteName + " to replace it");
             }
-            checkIsStore(out);
+            checkIsStore(out, outName, overwriteName + " replaces only a score store; ");
         }
-        AtomicWrite.checkWritable(out, "--out");
+        AtomicWrite.checkWritable(out, outName);
     }
 
-    private static void checkIsStore(Path out) {
+    private static void checkIsStore(Path out, String outName, String only) {
         if (!Files.isDirectory(out)) {
-            throw new UserError(ONLY + out + " is a file, not a store; choose another --out");
+            throw new UserError(only + out + " is a file, not a store; choose another " + outName);
         }
         Path manifest = out.resolve(StoreFormat.MANIFEST);
         if (!Files.isRegularFile(manifest)) {
-            throw new UserError(ONLY + out + " is a directory without " + StoreFormat.MANIFEST + "; choose another --out");
+            throw new UserError(only + out + " is a directory without " + StoreFormat.MANIFEST + "; choose another " + outName);
         }
         try {
             JsonNode tree = new ObjectMapper().readTree(manifest.toFile());
             if (tree == null || !tree.isObject() || !tree.has("formatVersion") || !tree.has("variables")) {
-                throw new UserError(ONLY + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another --out");
+                throw new UserError(only + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another " + outName);
             }
         } catch (IOException e) {
-            throw new UserError(ONLY + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another --out");
+            throw new UserError(only + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another " + outName);
         }
         try (DirectoryStream<Path> ds = Files.newDirectoryStream(out)) {
             for (Path c : ds) {
                 String name = c.getFileName().toString();
                 if (!PARTS.contains(name) || !Files.isRegularFile(c)) {
-                    throw new UserError(ONLY + out + " also holds " + name + ", which is not part of a store;"
-                            + " choose another --out");
+                    throw new UserError(only + out + " also holds " + name + ", which is not part of a store;"
+                            + " choose another " + outName);
                 }
             }
         } catch (IOException e) {
-            throw new UserError("cannot list --out " + out + ": " + AtomicWrite.reason(e));
+            throw new UserError("cannot list " + outName + " " + out + ": " + AtomicWrite.reason(e));
         }
     }
 

@@ -39,8 +39,14 @@ public final class StoreWriter {
      */
     public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
                              double[] logScores, boolean overwrite) {
+        write(target, manifest, families, logScores, overwrite, "overwrite");
+    }
+
+    /** As {@link #write(Path, Manifest, List, double[], boolean)}; {@code overwriteOption} names the permission to replace. */
+    public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
+                             double[] logScores, boolean overwrite, String overwriteOption) {
         try {
-            AtomicWrite.directory(target, overwrite, tmp -> {
+            AtomicWrite.directory(target, overwrite, overwriteOption, tmp -> {
                 long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
                 writeScores(tmp.resolve(StoreFormat.SCORES), families, logScores);
                 // the same counts and scores give the same bytes (and SHA-256) in every run

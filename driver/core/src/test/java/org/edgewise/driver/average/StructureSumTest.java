@@ -177,8 +177,8 @@ class StructureSumTest {
         StructureSum.Estimate e = StructureSum.estimateHere(23);
         UserError err = assertThrows(UserError.class, () -> StructureSum.run(ls, OrderConstraints.none(23)));
         assertEquals(String.format(java.util.Locale.ROOT, "exact structure-modular sum for n = 23 needs about %.2f GiB and %.0f s "
-                + "on idle cores here; this JVM allows n <= %d; use --method mcmc (sampling under the same prior) "
-                + "or --dag-prior order-modular (exact to larger n)", e.bytes() / (double) (1L << 30), e.seconds(), e.largestN()),
+                + "on idle cores here; this JVM allows n <= %d; use method MCMC (sampling under the same prior) "
+                + "or dagPrior ORDER_MODULAR (exact to larger n)", e.bytes() / (double) (1L << 30), e.seconds(), e.largestN()),
                 err.getMessage());
     }
 }

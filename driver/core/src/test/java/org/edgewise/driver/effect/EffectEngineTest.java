@@ -36,7 +36,7 @@ class EffectEngineTest {
         }
 
         EffectQuery query(String set, String target, String given, String versus) {
-            return EffectQuery.parse(store.manifest(), set, target, given, versus, "");
+            return EffectQuery.parse(store.manifest(), set, target, given, versus, "", org.edgewise.driver.InputNames.API);
         }
     }
 

@@ -298,7 +298,7 @@ class CasePredictorTest {
                 .withMaxHiddenStates(10);
         UserError e = assertThrows(UserError.class, () -> p.logProbability(new int[] {H, H, 1, H}));
         assertEquals("summing out hidden variables v0, v1, v3 would enumerate 18 joint states (limit 10); "
-                + "observe some of them or raise --max-hidden-states", e.getMessage());
+                + "observe some of them or raise maxHiddenStates", e.getMessage());
     }
 
     /**

@@ -101,6 +101,6 @@ class ExactCasePredictionTest {
                 FamilyScore.of(ScoreKind.BDEU, 1.0)), ScoringOptions.asStored());
         ExactCasePrediction exact = new ExactCasePrediction(ls, OrderConstraints.none(ARITIES.length));
         UserError e = assertThrows(UserError.class, () -> exact.logProbability(new int[] {0, CaseParser.HIDDEN, 1, 0, 0}));
-        assertEquals("--exact-cases needs every variable observed; v1 is hidden", e.getMessage());
+        assertEquals("ExactCasePrediction needs every variable observed; v1 is hidden", e.getMessage());
     }
 }

@@ -141,7 +141,7 @@ class StructureCasePredictionTest {
         int h = CaseParser.HIDDEN;
         UserError e = assertThrows(UserError.class, () -> sm.logProbability(new int[] {0, h, 1, 0, h}));
         assertEquals("summing out hidden variables v1, v4 would enumerate 9 joint states (limit 5); "
-                + "observe some of them or raise --max-hidden-states", e.getMessage());
+                + "observe some of them or raise maxHiddenStates", e.getMessage());
     }
 
     /** The best network of {@link BestDagOrder}'s order is the highest-scoring DAG of the enumeration. */

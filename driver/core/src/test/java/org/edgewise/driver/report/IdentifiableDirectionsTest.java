@@ -97,7 +97,8 @@ class IdentifiableDirectionsTest {
     @Test
     void withoutEssentialGraphDirectionsAreNotAssessed() throws Exception {
         EdgeResult r = ReportFixtures.with(ReportFixtures.demoChain("order-modular"), "order-modular", null);
-        String html = HtmlReport.render(r, "demo.json", null, null, 0.5);
+        AssessHint cli = new AssessHint("edges", "--features essential-graph"); // as the CLI names them
+        String html = HtmlReport.render(r, "demo.json", null, null, 0.5, cli);
         List<String> p = paths(html);
         // adjacency: season–ambient_heat 0.994, ambient_heat–compressor_wear 0.990, wear–fault 0.95, age–fault 0.94
         assertEquals(4, count(p, "line:"), p.toString());
@@ -109,7 +110,7 @@ class IdentifiableDirectionsTest {
         assertTrue(html.contains("<b>DAG prior: order-modular.</b>"));
         // MCSE of a sum of two edges is bounded by the sum of their MCSEs (0.004 + 0.004)
         assertTrue(html.contains("<td class=\"num\">\u2264 0.0080</td>"), html);
-        String dot = DotWriter.write(r, 0.5, null);
+        String dot = DotWriter.write(r, 0.5, null, cli);
         assertEquals(4, dot.split(", dir=none").length - 1, dot);
         assertTrue(dot.contains("directions not assessed (run edges with --features essential-graph)"), dot);
     }

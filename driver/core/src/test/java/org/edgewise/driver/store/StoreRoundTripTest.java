@@ -57,7 +57,7 @@ class StoreRoundTripTest {
         StoreWriter.write(store, manifest(), families(), new double[] {-1, -2, -3, -4}, false);
         UserError e = assertThrows(UserError.class,
                 () -> StoreWriter.write(store, manifest(), families(), new double[4], false));
-        assertEquals("output " + store + " already exists; pass --overwrite to replace it", e.getMessage());
+        assertEquals("output " + store + " already exists; pass overwrite to replace it", e.getMessage());
         StoreWriter.write(store, manifest(), families(), new double[] {-5, -6, -7, -8}, true);
         assertEquals(-5, StoreReader.read(store).logScore(0));
     }

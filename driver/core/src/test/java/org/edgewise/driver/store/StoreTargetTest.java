@@ -25,7 +25,7 @@ class StoreTargetTest {
     Path dir;
 
     static String refused(Path out, boolean overwrite, List<String> inputs) {
-        return assertThrows(UserError.class, () -> StoreTarget.check(out, overwrite, inputs)).getMessage();
+        return assertThrows(UserError.class, () -> StoreTarget.check(out, overwrite, inputs, "--out", "--overwrite")).getMessage();
     }
 
     @Test
@@ -44,7 +44,7 @@ class StoreTargetTest {
         Path store = dir.resolve("store");
         StoreWriter.write(store, StoreRoundTripTest.manifest(), StoreRoundTripTest.families(), new double[] {-1, -2, -3, -4},
                 false);
-        StoreTarget.check(store, true, List.of("other.csv")); // a store may be replaced
+        StoreTarget.check(store, true, List.of("other.csv"), "--out", "--overwrite"); // a store may be replaced
         assertEquals("output " + store + " already exists; pass --overwrite to replace it",
                 refused(store, false, List.of("other.csv")));
         Files.writeString(store.resolve("thesis.tex"), "years of work");
@@ -68,7 +68,7 @@ class StoreTargetTest {
         assertEquals("--out " + data + " holds the input file:" + inside + "; write the store elsewhere",
                 refused(data, false, List.of("file:" + inside)));
         // hdfs: inputs cannot be in a local directory
-        StoreTarget.check(dir.resolve("new"), false, List.of("hdfs://namenode/data"));
+        StoreTarget.check(dir.resolve("new"), false, List.of("hdfs://namenode/data"), "--out", "--overwrite");
         assertTrue(Files.exists(data.resolve("part-1.csv")));
     }
 

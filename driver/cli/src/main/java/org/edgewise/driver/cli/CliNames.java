@@ -1,0 +1,33 @@
+package org.edgewise.driver.cli;
+
+import org.edgewise.driver.ErrorReport;
+import org.edgewise.driver.InputNames;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.report.AssessHint;
+
+/** The command line's names of the inputs the core names in its messages ({@link InputNames}). */
+final class CliNames {
+    /** Every driver command's option names. */
+    static final InputNames NAMES = new InputNames("--ess", "--forbid", "--require", "--tiers", "--given",
+            "--max-hidden-states", "--exact-cases", "--candidates K", "--draws", "--samples", "--method mcmc",
+            "--dag-prior order-modular", "--dag-prior structure-modular",
+            "--features essential-graph, ancestors or markov-blanket", "--do", "--target", "--versus");
+
+    /** How a report tells the reader to get essential-graph features. */
+    static final AssessHint ASSESS = new AssessHint("edges", "--features essential-graph");
+
+    private CliNames() {
+    }
+
+    /**
+     * A failure with the typed user errors the core words neutrally (they carry the facts) worded
+     * with the command line's names; anything else as it is.
+     */
+    static Throwable worded(Throwable t) {
+        if (ErrorReport.userError(t) instanceof MultiChainDiagnostics.TooFewDraws few) {
+            return new UserError(few.message(NAMES.draws()), t);
+        }
+        return t;
+    }
+}
