@@ -134,8 +134,9 @@ class PartitionMcmcTest {
         OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3", "v1"), List.of("v0")));
         org.edgewise.driver.UserError e = org.junit.jupiter.api.Assertions.assertThrows(org.edgewise.driver.UserError.class,
                 () -> PartitionMcmc.run(ls, oc, OrderMcmc.Settings.defaults(1), null));
-        assertEquals("--tiers with partition MCMC (--dag-prior structure-modular) needs every variable in a tier; "
-                + "not listed: v2, v4; list them, or use --dag-prior order-modular", e.getMessage());
+        // a library caller (InputNames.API) reads the Java names; the CLI words them as its options (cli/CliNames)
+        assertEquals("tiers with partition MCMC (dagPrior STRUCTURE_MODULAR) needs every variable in a tier; "
+                + "not listed: v2, v4; list them, or use dagPrior ORDER_MODULAR", e.getMessage());
     }
 
     /** Edge posteriors within 0.05 and 5 MCSE of the exact structure-modular sum. */
