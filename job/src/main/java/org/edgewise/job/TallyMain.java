@@ -120,7 +120,20 @@ public final class TallyMain implements Callable<Integer> {
     public Integer call() {
         TallyOptions o = options();
         Map<String, String> extra = confPairs();
-        SparkSession spark = given != null ? given : session(master, extra);
+        // an embedded Spark's scratch goes under a folder this run owns and removes, whatever the exit
+        SparkScratch scratch = given == null && master.startsWith("local") ? SparkScratch.create(extra) : null;
+        if (scratch != null) {
+            extra.put("spark.local.dir", scratch.dir().toString());
+        }
+        SparkSession spark;
+        try {
+            spark = given != null ? given : session(master, extra);
+        } catch (RuntimeException e) {
+            if (scratch != null) {
+                scratch.close();
+            }
+            throw e;
+        }
         try {
             TallyJob.Summary s = TallyJob.run(spark, o);
             PrintWriter w = spec.commandLine().getOut();
@@ -132,6 +145,9 @@ public final class TallyMain implements Callable<Integer> {
         } finally {
             if (given == null) {
                 spark.stop();
+            }
+            if (scratch != null) {
+                scratch.close();
             }
         }
     }
