@@ -169,9 +169,11 @@ public final class TableScan {
      */
     private static Table wholeFileCandidates(Table table) {
         List<DataFile> whole = new ArrayList<>();
+        int corrupt = table.corruptField();
         for (DataFile f : table.files()) {
+            // on the RDD: a Dataset filter on the malformed-row column alone would not parse the rows
             boolean malformed = table.files().size() == 1
-                    || !table.rowsOf(f).filter(col(Table.CORRUPT).isNotNull()).limit(1).isEmpty();
+                    || !table.rowsOf(f).javaRDD().filter(r -> !r.isNullAt(corrupt)).take(1).isEmpty();
             if (malformed && quotesBalanced(table, f)) {
                 whole.add(f);
             }
