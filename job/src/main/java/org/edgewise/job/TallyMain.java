@@ -100,6 +100,17 @@ public final class TallyMain implements Callable<Integer> {
         cl.setErr(err);
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, a) -> {
+            // picocli keeps only the text of the converter's InvalidPathException: convert the value again
+            if (ex.getValue() != null && ex.getArgSpec() instanceof CommandLine.Model.OptionSpec o
+                    && o.type() == Path.class) {
+                try { // a file name the JVM cannot represent: one line naming the option, not the exception
+                    Checks.path(ex.getValue(), o.longestName());
+                } catch (UserError e) {
+                    err.println("tally: " + e.getMessage());
+                    err.flush();
+                    return ErrorReport.USER_MISTAKE;
+                }
+            }
             err.println("tally: " + ex.getMessage() + " (see tally --help)");
             err.flush();
             return ErrorReport.USER_MISTAKE;
@@ -215,6 +226,13 @@ public final class TallyMain implements Callable<Integer> {
         long budget = parseBytes(memoryBudget);
         if (master.startsWith("local")) { // the tasks run in this JVM
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
+        }
+        for (String in : inputs) {
+            if (!in.matches("^[A-Za-z][A-Za-z0-9+.-]+:.*") || in.startsWith("file:")) { // a local file name
+                Checks.path(in.startsWith("file:") ? in.substring(5) : in, "--input");
+            } else if (in.indexOf('\0') >= 0) {
+                Checks.path(in, "--input");
+            }
         }
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
         StoreTarget.check(out, overwrite, inputs);

@@ -135,4 +135,20 @@ class QuotedLinesTest {
         Path many = TestTables.write(dir.resolve("blank-then-many.csv"), "\na,b\n\nx,1\n\ny,2,3\n");
         refused("tally: input " + many + " line 6: 3 fields, the header has 2 (1 malformed row in all)", many);
     }
+    /**
+     * A file name the JVM cannot represent (a NUL; an unpaired UTF-16 surrogate, which no UTF-8 byte
+     * sequence encodes) is one line naming the option, not a Java exception's name.
+     */
+    @Test
+    void aPathTheSystemCannotRepresentIsOneLineNamingTheOption() {
+        Path good = TestTables.write(dir.resolve("fine.csv"), "a,b\nx,1\n");
+        TestTables.Run out = TestTables.tally(spark, "--input", good.toString(), "--out", "st\u0000ore");
+        assertEquals(2, out.status());
+        assertEquals("tally: --out: 'st\\u0000ore' is not a file name this system can use: it holds a NUL character",
+                out.err());
+        TestTables.Run in = TestTables.tally(spark, "--input", "d\uDC80ta.csv", "--out", dir.resolve("s").toString());
+        assertEquals(2, in.status());
+        assertEquals("tally: --input: 'd\\uDC80ta.csv' is not a file name this system can use: it holds a character the"
+                + " platform encoding " + System.getProperty("sun.jnu.encoding") + " cannot represent", in.err());
+    }
 }
