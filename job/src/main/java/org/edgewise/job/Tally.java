@@ -33,7 +33,8 @@ import org.edgewise.job.input.Table;
  * <p>Every column is a variable and its values are read as text, as for a Parquet input (numbers
  * ordered numerically, the rest lexicographically); the defaults are those of the command line
  * (d = 3, BDeu with ESS 1, missing values refused, at most 32 states, 256 MiB of counts per task).
- * Mistakes are {@link UserError}s (one line) named after the builder method.
+ * Mistakes are {@link UserError}s (one line) named after the builder method ({@code columns: no column
+ * 'zz' in dataset …}, {@code choose missing("drop") or missing("state")}).
  */
 public final class Tally {
     private final Dataset<Row> data;
@@ -188,6 +189,10 @@ public final class Tally {
         TallyOptions o = new TallyOptions(List.of(Table.DATASET), "dataset", ',', out, overwrite, maxParents,
                 columns, exclude, candidates, forbid, require, tiers, missing, maxStates, discretize, score, ess,
                 partitions, memoryBudget);
-        return TallyJob.run(Table.of(data), o);
+        try {
+            return TallyJob.run(Table.of(data), o);
+        } catch (UserError e) { // the job words its refusals for the command line: name the builder methods
+            throw new UserError(ApiWords.of(e.getMessage()), e);
+        }
     }
 }

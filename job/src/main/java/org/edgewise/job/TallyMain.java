@@ -100,6 +100,17 @@ public final class TallyMain implements Callable<Integer> {
         cl.setErr(err);
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, a) -> {
+            // picocli keeps only the text of the converter's InvalidPathException: convert the value again
+            if (ex.getValue() != null && ex.getArgSpec() instanceof CommandLine.Model.OptionSpec o
+                    && o.type() == Path.class) {
+                try { // a file name the JVM cannot represent: one line naming the option, not the exception
+                    Checks.path(ex.getValue(), o.longestName());
+                } catch (UserError e) {
+                    err.println("tally: " + e.getMessage());
+                    err.flush();
+                    return ErrorReport.USER_MISTAKE;
+                }
+            }
             err.println("tally: " + ex.getMessage() + " (see tally --help)");
             err.flush();
             return ErrorReport.USER_MISTAKE;
@@ -120,7 +131,20 @@ public final class TallyMain implements Callable<Integer> {
     public Integer call() {
         TallyOptions o = options();
         Map<String, String> extra = confPairs();
-        SparkSession spark = given != null ? given : session(master, extra);
+        // an embedded Spark's scratch goes under a folder this run owns and removes, whatever the exit
+        SparkScratch scratch = given == null && master.startsWith("local") ? SparkScratch.create(extra) : null;
+        if (scratch != null) {
+            extra.put("spark.local.dir", scratch.dir().toString());
+        }
+        SparkSession spark;
+        try {
+            spark = given != null ? given : session(master, extra);
+        } catch (RuntimeException e) {
+            if (scratch != null) {
+                scratch.close();
+            }
+            throw e;
+        }
         try {
             TallyJob.Summary s = TallyJob.run(spark, o);
             PrintWriter w = spec.commandLine().getOut();
@@ -132,6 +156,9 @@ public final class TallyMain implements Callable<Integer> {
         } finally {
             if (given == null) {
                 spark.stop();
+            }
+            if (scratch != null) {
+                scratch.close();
             }
         }
     }
@@ -199,6 +226,13 @@ public final class TallyMain implements Callable<Integer> {
         long budget = parseBytes(memoryBudget);
         if (master.startsWith("local")) { // the tasks run in this JVM
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
+        }
+        for (String in : inputs) {
+            if (!in.matches("^[A-Za-z][A-Za-z0-9+.-]+:.*") || in.startsWith("file:")) { // a local file name
+                Checks.path(in.startsWith("file:") ? in.substring(5) : in, "--input");
+            } else if (in.indexOf('\0') >= 0) {
+                Checks.path(in, "--input");
+            }
         }
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
         StoreTarget.check(out, overwrite, inputs, "--out", "--overwrite");

@@ -112,6 +112,33 @@ class TallyApiTest {
         e = assertThrows(UserError.class, () -> Tally.of(data).missing("skip"));
         assertEquals("missing must be error, drop or state, got 'skip'", e.getMessage());
         e = assertThrows(UserError.class, () -> Tally.of(data).columns("a", "zz").writeTo(dir.resolve("zz").toString()));
-        assertTrue(e.getMessage().startsWith("--columns: no column 'zz' in dataset"), e.getMessage());
+        // issue 11/14: the job's refusals name the builder methods, not the command line's options
+        assertEquals("columns: no column 'zz' in dataset (columns: a, b, c, d)", e.getMessage());
+        Dataset<Row> holes = data.selectExpr("a", "case when b = 10 then null else b end as b");
+        e = assertThrows(UserError.class, () -> Tally.of(holes).writeTo(dir.resolve("holes").toString()));
+        assertTrue(e.getMessage().endsWith("; choose missing(\"drop\") or missing(\"state\")"), e.getMessage());
+        e = assertThrows(UserError.class, () -> Tally.of(data).maxParents(1).require("a->b", "c->b")
+                .writeTo(dir.resolve("req").toString()));
+        assertEquals("require gives 'b' 2 parents but maxParents is 1", e.getMessage());
+    }
+
+    /** The mapping itself, on the command line's words (from the job's messages, verbatim). */
+    @Test
+    void theJobsOptionWordsMapToBuilderMethods() {
+        assertEquals("exclude: no column 'q' in dataset (columns: a, b)",
+                ApiWords.of("--exclude: no column 'q' in dataset (columns: a, b)"));
+        assertEquals("input dataset: column 'id' has 90 distinct values, more than maxStates 32; it looks like an ID"
+                        + " column (nearly every value is distinct): leave it out with exclude(\"id\")",
+                ApiWords.of("input dataset: column 'id' has 90 distinct values, more than --max-states 32; it looks like"
+                        + " an ID column (nearly every value is distinct): leave it out with --exclude id"));
+        assertEquals("discretise it, e.g. discretize(\"x\", 4), or raise maxStates",
+                ApiWords.of("discretise it, e.g. --discretize x=4, or raise --max-states"));
+        assertEquals("'abc' is not a number, but discretize(\"x\", 2) needs numbers",
+                ApiWords.of("'abc' is not a number, but --discretize x=2 needs numbers"));
+        assertEquals("lower maxParents or use candidates(K)", ApiWords.of("lower --max-parents or use --candidates K"));
+        assertEquals("require(\"a->b\") contradicts tier: 'a' is in a later tier than 'b'",
+                ApiWords.of("--require a->b contradicts --tiers: 'a' is in a later tier than 'b'"));
+        assertEquals("memoryBudget 1 GiB is more than the memory of this JVM",
+                ApiWords.of("--memory-budget 1 GiB is more than the memory of this JVM"));
     }
 }

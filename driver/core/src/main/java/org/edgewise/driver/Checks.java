@@ -36,7 +36,45 @@ public final class Checks {
     /** Template of {@link #notApplicable}: the option, the situation, why. */
     static final String NOT_APPLICABLE = "%s does not apply %s: %s";
 
+    /** Template of {@link #path}: {@code what}, the text (escaped), why. */
+    static final String NOT_A_PATH = "%s: '%s' is not a file name this system can use: %s";
+
     private Checks() {
+    }
+
+    /**
+     * A file name a user gave, as a {@link java.nio.file.Path}: one holding a NUL character or a
+     * character the platform's file-name encoding ({@code sun.jnu.encoding}) cannot represent (an
+     * unpaired surrogate, or e.g. {@code é} under a C/POSIX locale) is refused naming {@code what},
+     * instead of the JVM's {@code InvalidPathException}. The text is shown with such characters
+     * escaped as a backslash, u and four hex digits.
+     */
+    public static java.nio.file.Path path(String text, String what) {
+        try {
+            return java.nio.file.Path.of(text);
+        } catch (java.nio.file.InvalidPathException e) {
+            String why = text.indexOf('\0') >= 0 ? "it holds a NUL character"
+                    : "it holds a character the platform encoding " + System.getProperty("sun.jnu.encoding",
+                    java.nio.charset.Charset.defaultCharset().name()) + " cannot represent";
+            throw new UserError(String.format(Locale.ROOT, NOT_A_PATH, what, printable(text), why));
+        }
+    }
+
+    /** {@code text} with control characters and unpaired surrogates escaped as a backslash, u and four hex digits. */
+    static String printable(String text) {
+        StringBuilder sb = new StringBuilder();
+        for (int i = 0; i < text.length(); i++) {
+            char c = text.charAt(i);
+            boolean pair = Character.isHighSurrogate(c) && i + 1 < text.length() && Character.isLowSurrogate(text.charAt(i + 1));
+            if (pair) {
+                sb.append(c).append(text.charAt(++i));
+            } else if (c < 0x20 || c == 0x7f || Character.isSurrogate(c)) {
+                sb.append(String.format(Locale.ROOT, "\\u%04X", (int) c));
+            } else {
+                sb.append(c);
+            }
+        }
+        return sb.toString();
     }
 
     /**

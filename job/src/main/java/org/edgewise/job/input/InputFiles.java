@@ -182,6 +182,69 @@ public final class InputFiles {
                 .decode(java.nio.ByteBuffer.wrap(bytes, 0, len)).toString();
     }
 
+    /**
+     * The physical line (1-based) on which data row {@code index} (zero-based, as Spark numbers the
+     * rows of this file) starts. Counted as Spark reads: a line that is empty or blank is no row, the
+     * first row is the header; with {@code quoted}, a line break inside a quoted field (RFC 4180:
+     * a field opening with {@code "}, a doubled quote inside it) continues the row. Every line is
+     * counted, blank ones included. Reads the file only up to that row.
+     */
+    static long physicalLine(DataFile file, long index, boolean quoted, char delimiter, java.nio.charset.Charset encoding,
+                             Configuration conf) {
+        Path p = new Path(file.uri());
+        try {
+            FileSystem fs = p.getFileSystem(conf);
+            CompressionCodec codec = new CompressionCodecFactory(conf).getCodec(p);
+            try (InputStream raw = fs.open(p);
+                 BufferedReader in = new BufferedReader(new InputStreamReader(
+                         codec == null ? raw : codec.createInputStream(raw), encoding))) {
+                long lineNo = 0;
+                long row = -2; // the header is row -1
+                boolean open = false; // inside a quoted field that continues on the next line
+                for (String line = in.readLine(); line != null; line = in.readLine()) {
+                    lineNo++;
+                    if (!open) {
+                        if (line.trim().isEmpty()) {
+                            continue;
+                        }
+                        if (++row == index) {
+                            return lineNo;
+                        }
+                    }
+                    if (quoted) {
+                        open = stillOpen(line, delimiter, open);
+                    }
+                }
+            }
+        } catch (IOException e) {
+            throw new UserError("input " + display(file) + ": cannot read (" + oneLine(e) + ")");
+        }
+        throw new IllegalStateException("row " + index + " of " + file.uri() + " not found again");
+    }
+
+    /** Whether a quoted field is still open at the end of {@code line}, given whether one was at its start. */
+    static boolean stillOpen(String line, char delimiter, boolean open) {
+        boolean fieldStart = !open;
+        for (int i = 0; i < line.length(); i++) {
+            char c = line.charAt(i);
+            if (open) {
+                if (c == '"') {
+                    if (i + 1 < line.length() && line.charAt(i + 1) == '"') {
+                        i++;
+                    } else {
+                        open = false;
+                    }
+                }
+            } else if (fieldStart && c == '"') {
+                open = true;
+                fieldStart = false;
+            } else {
+                fieldStart = c == delimiter;
+            }
+        }
+        return open;
+    }
+
     /** The file as the user would recognise it: the argument itself, or argument/name for a directory. */
     public static String display(DataFile f) {
         String name = new Path(f.uri()).getName();

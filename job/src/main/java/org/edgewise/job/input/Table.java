@@ -19,6 +19,10 @@ import org.edgewise.job.input.InputFiles.DataFile;
  * The input table as Spark reads it: every header column as a string (field i of a row is column
  * i; null = missing), and for CSV one more field holding the raw line of a malformed row (too many
  * or too few fields; Spark's PERMISSIVE mode), null for a good row.
+ *
+ * <p>CSV files are read line by line (splittable, so one file is read by many tasks); a file in
+ * which a quoted field spans lines is read whole by one task instead (Spark's {@code multiLine}),
+ * which {@link TableScan} decides only for files that line-by-line reading finds malformed.
  */
 public final class Table {
     /** Name of the extra column Spark fills with the raw text of a malformed CSV row. */
@@ -32,10 +36,13 @@ public final class Table {
     /** A caller's Dataset (the Java API, {@code org.edgewise.job.Tally}), or null when reading files. */
     private final Dataset<Row> given;
     private final java.nio.charset.Charset encoding;
+    /** URIs of the CSV files read whole ({@code multiLine}) because a quoted field spans lines. */
+    private final java.util.Set<String> multiLine;
 
     private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter,
-                  Dataset<Row> given, java.nio.charset.Charset encoding) {
+                  Dataset<Row> given, java.nio.charset.Charset encoding, java.util.Set<String> multiLine) {
         this.encoding = encoding;
+        this.multiLine = java.util.Set.copyOf(multiLine);
         this.spark = spark;
         this.files = List.copyOf(files);
         this.columns = List.copyOf(columns);
@@ -70,7 +77,7 @@ public final class Table {
             throw new UserError(DATASET + ": the Dataset has no columns");
         }
         return new Table(data.sparkSession(), List.of(new DataFile(DATASET, DATASET, DATASET)), names, false, ',', data,
-                java.nio.charset.StandardCharsets.UTF_8);
+                java.nio.charset.StandardCharsets.UTF_8, java.util.Set.of());
     }
 
     /** Resolves the inputs and reads their headers (no Spark job runs yet). */
@@ -104,7 +111,24 @@ public final class Table {
             sameTypes(files, schemas);
             columns = headers.get(0);
         }
-        return new Table(spark, files, columns, csv, delimiter, null, encoding);
+        return new Table(spark, files, columns, csv, delimiter, null, encoding, java.util.Set.of());
+    }
+
+    /** This table with {@code whole} (CSV files of it) read whole, as records that may span lines. */
+    public Table withMultiLine(java.util.Collection<DataFile> whole) {
+        java.util.Set<String> uris = new java.util.HashSet<>(multiLine);
+        whole.forEach(f -> uris.add(f.uri()));
+        return new Table(spark, files, columns, csv, delimiter, given, encoding, uris);
+    }
+
+    /** True when {@code f} is read whole because a quoted field of it spans lines. */
+    public boolean isMultiLine(DataFile f) {
+        return multiLine.contains(f.uri());
+    }
+
+    /** True when some file is read whole (one task per such file). */
+    public boolean anyMultiLine() {
+        return !multiLine.isEmpty();
     }
 
     /**
@@ -217,25 +241,39 @@ public final class Table {
             return asText(given);
         }
         if (csv) {
-            List<StructField> fields = new ArrayList<>();
-            for (String c : columns) {
-                fields.add(DataTypes.createStructField(c, DataTypes.StringType, true));
+            List<String> lines = new ArrayList<>();
+            List<String> whole = new ArrayList<>();
+            for (String u : uris) {
+                (multiLine.contains(u) ? whole : lines).add(u);
             }
-            fields.add(DataTypes.createStructField(CORRUPT, DataTypes.StringType, true));
-            return spark.read().format("csv")
-                    .schema(DataTypes.createStructType(fields))
-                    .option("header", "true")
-                    .option("enforceSchema", "true")
-                    .option("sep", String.valueOf(delimiter))
-                    .option("quote", "\"")
-                    .option("escape", "\"") // RFC 4180: a doubled quote inside a quoted field is one quote
-                    .option("encoding", encoding.name())
-                    .option("mode", "PERMISSIVE")
-                    .option("columnNameOfCorruptRecord", CORRUPT)
-                    .option("multiLine", "false")
-                    .load(uris);
+            Dataset<Row> d = lines.isEmpty() ? null : csv(false, lines.toArray(String[]::new));
+            // read whole, a line of only spaces or tabs is a one-field row; line by line it is no row
+            Dataset<Row> w = whole.isEmpty() ? null : csv(true, whole.toArray(String[]::new))
+                    .filter(col(CORRUPT).isNull().or(org.apache.spark.sql.functions.not(col(CORRUPT).rlike("^[\\x00-\\x20]*$"))));
+            return d == null ? w : w == null ? d : d.union(w);
         }
         return asText(spark.read().parquet(uris));
+    }
+
+    /** CSV rows, line by line or ({@code wholeFile}) as records that may span lines. */
+    private Dataset<Row> csv(boolean wholeFile, String... uris) {
+        List<StructField> fields = new ArrayList<>();
+        for (String c : columns) {
+            fields.add(DataTypes.createStructField(c, DataTypes.StringType, true));
+        }
+        fields.add(DataTypes.createStructField(CORRUPT, DataTypes.StringType, true));
+        return spark.read().format("csv")
+                .schema(DataTypes.createStructType(fields))
+                .option("header", "true")
+                .option("enforceSchema", "true")
+                .option("sep", String.valueOf(delimiter))
+                .option("quote", "\"")
+                .option("escape", "\"") // RFC 4180: a doubled quote inside a quoted field is one quote
+                .option("encoding", encoding.name())
+                .option("mode", "PERMISSIVE")
+                .option("columnNameOfCorruptRecord", CORRUPT)
+                .option("multiLine", String.valueOf(wholeFile))
+                .load(uris);
     }
 
     /** The selected columns of {@code d}, each as text. */
@@ -252,9 +290,15 @@ public final class Table {
         return csv ? "line" : "row";
     }
 
-    /** The line (CSV) or row (Parquet) number of the zero-based data-row index within its file. */
-    public long lineOf(long index) {
-        return csv ? index + 2 : index + 1;
+    /**
+     * The line (CSV) or row (Parquet) number of the zero-based data-row index within file {@code f}.
+     * A CSV line number counts every physical line of the file, blank ones and those inside quoted
+     * fields included, and names the line where the row starts; it is found by reading the file up
+     * to that row (on the error path only).
+     */
+    public long lineOf(DataFile f, long index) {
+        return csv ? InputFiles.physicalLine(f, index, isMultiLine(f), delimiter, encoding,
+                spark.sparkContext().hadoopConfiguration()) : index + 1;
     }
 
     public char delimiter() {

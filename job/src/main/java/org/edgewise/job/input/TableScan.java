@@ -30,8 +30,18 @@ import scala.Tuple2;
  * otherwise lexicographic), bins for discretised columns, the missing-value state.
  *
  * <p>Line numbers are found only on the error path, by re-reading the offending file alone with
- * {@code zipWithIndex} (data row i is line i + 2 of a CSV file with its header on line 1; blank
- * lines are skipped by the reader and not counted).
+ * {@code zipWithIndex}, then counting its physical lines up to that row ({@link Table#lineOf}:
+ * blank lines and lines inside quoted fields count).
+ *
+ * <p>Quoted fields spanning lines (RFC 4180) are found without a pass of their own: a CSV file
+ * read line by line splits such a row into pieces whose field counts differ from the header's (for
+ * any header of two or more columns), so the one pass counts malformed rows. Only then are the
+ * files with malformed rows checked (an even number of {@code "} in all: no quote left open) and
+ * read again whole ({@code multiLine}), which replaces the first reading (a row still malformed is
+ * then truly so, and refused as before); a file with a quote left open is refused as read line by
+ * line. A file read whole is one task, so its rows are
+ * spread over the cluster's default parallelism before counting (counts do not depend on the
+ * partitioning).
  */
 public final class TableScan {
     /** Label of the extra state of a variable with missing values under {@code --missing state}. */
@@ -50,6 +60,14 @@ public final class TableScan {
         public long countedRows() {
             return stats.rows() - stats.dropped();
         }
+    }
+
+    /** The first bad row of the input: its file, the row, its line (CSV) or row (Parquet) number. */
+    record BadRow(DataFile file, Row row, long line) {
+    }
+
+    /** The one pass's output: the blocks kept for encoding and the merged statistics. */
+    private record Pass(JavaRDD<RawBlock> rawBlocks, ColumnStats stats) {
     }
 
     /** A serialisable row predicate for locating the first bad row. */
@@ -105,30 +123,72 @@ public final class TableScan {
             binned[v] = o.discretize().containsKey(names.get(v));
         }
 
+        Pass pass = pass(table, o, fields, binned);
+        if (table.isCsv() && pass.stats().malformed() > 0 && !table.anyMultiLine()) {
+            Table whole = wholeFileCandidates(table);
+            if (whole != null) {
+                // read whole, a row is what RFC 4180 says it is: rows still malformed are truly so
+                pass.rawBlocks().unpersist(false);
+                table = whole;
+                pass = pass(whole, o, fields, binned);
+            }
+        }
+        try {
+            return finish(table, o, names, fields, binned, pass.rawBlocks(), pass.stats());
+        } catch (RuntimeException e) {
+            pass.rawBlocks().unpersist(false);
+            throw e;
+        }
+    }
+
+    /** The one read of the input: block-local codes plus per-block statistics, kept for encoding. */
+    private static Pass pass(Table table, TallyOptions o, int[] fields, boolean[] binned) {
         JavaRDD<InternalRow> raw = table.internalRows();
         if (o.partitions() != null) {
             raw = raw.map(InternalRow::copy).repartition(o.partitions());
+        } else if (table.anyMultiLine()) {
+            int spread = Math.max(table.spark().sparkContext().defaultParallelism(), raw.getNumPartitions());
+            raw = raw.map(InternalRow::copy).repartition(spread);
         }
-        int cap = o.maxStates();
         boolean drop = o.missing() == MissingPolicy.DROP;
-        int corrupt = table.corruptField();
-        ColumnStats template = new ColumnStats(fields, binned, Math.min(cap, 255), drop, corrupt);
-        // the one read of the input: block-local codes plus per-block statistics, kept for encoding
+        ColumnStats template = new ColumnStats(fields, binned, Math.min(o.maxStates(), 255), drop, table.corruptField());
         JavaRDD<RawBlock> rawBlocks = raw.mapPartitions(it -> RawBlock.read(it, template))
                 .persist(StorageLevel.MEMORY_AND_DISK_SER());
-        ColumnStats stats;
         try {
-            stats = rawBlocks.map(b -> b.stats().empty().merge(b.stats())).reduce(ColumnStats::merge);
+            return new Pass(rawBlocks, rawBlocks.map(b -> b.stats().empty().merge(b.stats())).reduce(ColumnStats::merge));
         } catch (Exception e) { // SparkException is checked but thrown undeclared from Scala
             rawBlocks.unpersist(false);
             throw ReadFailure.of(table, e);
         }
-        try {
-            return finish(table, o, names, fields, binned, rawBlocks, stats);
-        } catch (RuntimeException e) {
-            rawBlocks.unpersist(false);
-            throw e;
+    }
+
+    /**
+     * The table with its files that have malformed rows read whole, when each of them has an even
+     * number of quote characters (a quote left open would otherwise swallow the rest of the file into
+     * one field); null when there is none such.
+     */
+    private static Table wholeFileCandidates(Table table) {
+        List<DataFile> whole = new ArrayList<>();
+        int corrupt = table.corruptField();
+        for (DataFile f : table.files()) {
+            // on the RDD: a Dataset filter on the malformed-row column alone would not parse the rows
+            boolean malformed = table.files().size() == 1
+                    || !table.rowsOf(f).javaRDD().filter(r -> !r.isNullAt(corrupt)).take(1).isEmpty();
+            if (malformed && quotesBalanced(table, f)) {
+                whole.add(f);
+            }
         }
+        return whole.isEmpty() ? null : table.withMultiLine(whole);
+    }
+
+    /** True when the file holds an even number of {@code "} (counted over its lines by Spark, in parallel). */
+    private static boolean quotesBalanced(Table table, DataFile f) {
+        Column v = col("value");
+        Row r = table.spark().read().text(f.uri())
+                .select(org.apache.spark.sql.functions.sum(org.apache.spark.sql.functions.length(v)
+                        .minus(org.apache.spark.sql.functions.length(
+                                org.apache.spark.sql.functions.regexp_replace(v, "\"", ""))))).first();
+        return r.isNullAt(0) || r.getLong(0) % 2 == 0;
     }
 
     private static Result finish(Table table, TallyOptions o, List<String> names, int[] fields, boolean[] binned,
@@ -141,10 +201,10 @@ public final class TableScan {
             throw new UserError("input " + inputs(table) + ": no data rows (only a header)");
         }
         if (stats.malformed() > 0) {
-            Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table, r -> !r.isNullAt(corrupt));
-            String text = bad._2()._1().getString(corrupt);
+            BadRow bad = first(table, r -> !r.isNullAt(corrupt));
+            String text = bad.row().getString(corrupt);
             int got = fieldCount(text, table.delimiter());
-            throw new UserError("input " + InputFiles.display(bad._1()) + " line " + table.lineOf(bad._2()._2())
+            throw new UserError("input " + InputFiles.display(bad.file()) + " line " + bad.line()
                     + ": " + got + (got == 1 ? " field" : " fields") + ", the header has " + header.size()
                     + " (" + stats.malformed() + " malformed " + (stats.malformed() == 1 ? "row" : "rows") + " in all)");
         }
@@ -158,7 +218,7 @@ public final class TableScan {
                 total += stats.missing(v);
             }
             if (total > 0) {
-                Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table, r -> {
+                BadRow bad = first(table, r -> {
                     for (int f : fields) {
                         if (ColumnStats.isMissing(r, f)) {
                             return true;
@@ -166,15 +226,15 @@ public final class TableScan {
                     }
                     return false;
                 });
-                Row r = bad._2()._1();
+                Row r = bad.row();
                 String column = null;
                 for (int v = 0; v < n && column == null; v++) {
                     if (ColumnStats.isMissing(r, fields[v])) {
                         column = names.get(v);
                     }
                 }
-                throw new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
-                        + table.lineOf(bad._2()._2()) + ", column '" + column + "': missing value (" + total
+                throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
+                        + bad.line() + ", column '" + column + "': missing value (" + total
                         + " missing " + (total == 1 ? "value" : "values") + " in all); choose --missing drop or --missing state");
             }
         }
@@ -184,10 +244,10 @@ public final class TableScan {
                 if (stats.missing(v) + stats.dropped() >= stats.rows()) {
                     throw new UserError("--discretize " + names.get(v) + ": the column has no values");
                 }
-                Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table,
+                BadRow bad = first(table,
                         r -> !ColumnStats.isMissing(r, f) && Double.isNaN(ColumnStats.parse(r.getString(f))));
-                throw new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
-                        + table.lineOf(bad._2()._2()) + ", column '" + names.get(v) + "': '" + bad._2()._1().getString(f)
+                throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
+                        + bad.line() + ", column '" + names.get(v) + "': '" + bad.row().getString(f)
                         + "' is not a number, but --discretize " + names.get(v) + "=" + o.discretize().get(names.get(v))
                         + " needs numbers");
             }
@@ -312,10 +372,10 @@ public final class TableScan {
      * they are refused here, naming the first line that holds one.
      */
     private static UserError notInEncoding(Table table, String name, int field) {
-        Tuple2<DataFile, Tuple2<Row, Long>> bad = first(table,
+        BadRow bad = first(table,
                 r -> !r.isNullAt(field) && r.getString(field).indexOf('\uFFFD') >= 0);
-        return new UserError("input " + InputFiles.display(bad._1()) + " " + table.unit() + " "
-                + table.lineOf(bad._2()._2()) + ", column '" + name + "': bytes that are not valid "
+        return new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
+                + bad.line() + ", column '" + name + "': bytes that are not valid "
                 + table.encoding().name() + "; pass --encoding with the file's encoding, e.g. --encoding ISO-8859-1");
     }
 
@@ -323,13 +383,13 @@ public final class TableScan {
         return col("`" + name.replace("`", "``") + "`");
     }
 
-    /** The first row (in file order) that passes {@code test}: its file and (row, zero-based index). */
-    private static Tuple2<DataFile, Tuple2<Row, Long>> first(Table table, RowTest test) {
+    /** The first row (in file order) that passes {@code test}: its file, the row and its line or row number. */
+    private static BadRow first(Table table, RowTest test) {
         for (DataFile f : table.files()) {
             List<Tuple2<Row, Long>> hit = table.rowsOf(f).javaRDD().zipWithIndex()
                     .filter(t -> test.test(t._1())).take(1);
             if (!hit.isEmpty()) {
-                return new Tuple2<>(f, hit.get(0));
+                return new BadRow(f, hit.get(0)._1(), table.lineOf(f, hit.get(0)._2()));
             }
         }
         throw new IllegalStateException("a bad row was counted but not found again");

@@ -54,6 +54,11 @@ public final class EdgewiseCli implements Runnable {
         cl.setCaseInsensitiveEnumValuesAllowed(true);
         cl.setParameterExceptionHandler((ex, a) -> {
             CommandLine c = ex.getCommandLine();
+            String path = badPath(ex);
+            if (path != null) {
+                c.getErr().println(c.getCommandName() + ": " + path);
+                return USER_ERROR;
+            }
             c.getErr().println(c.getCommandName() + ": " + ex.getMessage()
                     + " (see " + c.getCommandSpec().qualifiedName() + " --help)");
             return USER_ERROR;
@@ -62,6 +67,24 @@ public final class EdgewiseCli implements Runnable {
             return ErrorReport.report(c.getCommandName(), CliNames.worded(ex), c.getErr());
         });
         return cl;
+    }
+
+    /**
+     * A file-name option the JVM could not turn into a path (an {@code InvalidPathException}: a NUL, or
+     * a character the platform encoding cannot represent), as {@link org.edgewise.driver.Checks#path}
+     * words it naming the option; null for any other parameter error.
+     */
+    public static String badPath(CommandLine.ParameterException ex) {
+        // picocli keeps only the text of the converter's InvalidPathException: convert the value again
+        if (ex.getValue() != null && ex.getArgSpec() instanceof CommandLine.Model.OptionSpec o
+                && o.type() == java.nio.file.Path.class) {
+            try {
+                org.edgewise.driver.Checks.path(ex.getValue(), o.longestName());
+            } catch (org.edgewise.driver.UserError e) {
+                return e.getMessage();
+            }
+        }
+        return null;
     }
 
     /** The program version, from the build (the core's {@link Version}). */

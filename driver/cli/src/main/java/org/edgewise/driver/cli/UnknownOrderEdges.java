@@ -34,10 +34,12 @@ final class UnknownOrderEdges {
             Object est = settings.dagPrior() == DagPrior.STRUCTURE_MODULAR ? StructureSum.estimateHere(store.variableCount())
                     : ExactOrderSum.estimateHere(store.variableCount());
             double seconds = est instanceof StructureSum.Estimate e ? e.seconds() : ((ExactOrderSum.Estimate) est).seconds();
-            if (seconds > 5) {
-                for (int k = 0; k < options.size(); k++) {
-                    err.println("edges: " + est);
-                }
+            int n = store.variableCount();
+            int largest = est instanceof StructureSum.Estimate e ? e.largestN() : ((ExactOrderSum.Estimate) est).largestN();
+            // only a sum that will run is announced: a refused one says the same in its refusal
+            if (seconds > 5 && n <= largest) {
+                err.println("edges: " + est + (options.size() > 1 ? " (for each of the " + options.size()
+                        + " ESS values)" : ""));
             }
         }
         try {

@@ -72,4 +72,21 @@ class ExitStatusTest {
         CliRun r = CliRun.of("scores", "--store", "nowhere", "--score", "bic");
         assertEquals(2, r.status());
     }
+    /**
+     * Issue 11: a file name the JVM cannot represent (a NUL — no POSIX file name holds one — or an
+     * unpaired UTF-16 surrogate, which no UTF-8 byte sequence encodes) is one line naming the option,
+     * exit 2, not the name of a Java exception.
+     */
+    @Test
+    void aPathTheSystemCannotRepresentIsOneLineNamingTheOption() {
+        CliRun nul = CliRun.of("edges", "--store", "st\u0000ore");
+        assertEquals(2, nul.status());
+        assertEquals("edges: --store: 'st\\u0000ore' is not a file name this system can use: it holds a NUL character",
+                nul.errLine());
+        CliRun out = CliRun.of("simulate", "--network", "net.json", "--out", "x\uD800.csv");
+        assertEquals(2, out.status());
+        assertEquals("simulate: --out: 'x\\uD800.csv' is not a file name this system can use: it holds a character the"
+                + " platform encoding " + System.getProperty("sun.jnu.encoding") + " cannot represent", out.errLine());
+        assertTrue(!out.err().contains("Exception"), out.err());
+    }
 }

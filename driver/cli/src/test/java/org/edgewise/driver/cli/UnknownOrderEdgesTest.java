@@ -166,4 +166,27 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals("edges: the required edges and tiers form a cycle through variable v0: no order satisfies them",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--require", "v0->v1,v1->v2,v2->v0").errLine());
     }
+    /** Issue 11: a refused exact sum is said once (the refusal), not announced first and refused after. */
+    @Test
+    void aRefusedExactSumIsSaidOnce(@TempDir Path tmp) {
+        int[] arities = new int[30];
+        java.util.Arrays.fill(arities, 2);
+        ScoreStore wide = org.edgewise.driver.store.InMemoryTally.tally(org.edgewise.driver.HeldOutData.variables(arities),
+                org.edgewise.driver.HeldOutData.table(11, 40, arities), 1, org.edgewise.driver.score.FamilyScore.withDefaults());
+        Path dir = tmp.resolve("wide");
+        org.edgewise.driver.store.StoreWriter.write(dir, wide.manifest(), wide.families(), wide.logScores(), false);
+        // the figures depend on this JVM's free heap at the moment, so they are matched as numbers
+        CliRun r = CliRun.of("edges", "--store", dir.toString(), "--method", "exact");
+        assertEquals(2, r.status());
+        assertEquals(1, r.err().lines().count(), r.err());
+        assertTrue(r.errLine().matches("edges: exact structure-modular sum for n = 30 needs about [0-9.]+ GiB and [0-9.e+]+ s"
+                + " on idle cores here; this JVM allows n <= [0-9]+; use --method mcmc \\(sampling under the same prior\\)"
+                + " or --dag-prior order-modular \\(exact to larger n\\) \\(or raise the heap with EDGEWISE_JAVA_OPTS=-Xmx…\\)"),
+                r.errLine());
+        CliRun ro = CliRun.of("edges", "--store", dir.toString(), "--method", "exact", "--dag-prior", "order-modular");
+        assertEquals(2, ro.status());
+        assertEquals(1, ro.err().lines().count(), ro.err());
+        assertTrue(ro.errLine().startsWith("edges: exact sum over orders for n = 30 needs about "), ro.errLine());
+        assertTrue(ro.errLine().endsWith(" MiB; raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or use --method mcmc)"), ro.errLine());
+    }
 }
