@@ -129,35 +129,9 @@ public final class ExactDagSampler {
         return new DagDraws(n, List.of(out), 1, w);
     }
 
-    /** Backwards through F: the last member of S, then the rest. */
+    /** Backwards through F: the last member of S, then the rest ({@link ExactOrderSum#drawOrder}). */
     private void drawOrder(SplittableRandom rng, int[] order, double[] t) {
-        int s = (1 << n) - 1;
-        for (int p = n - 1; p >= 0; p--) {
-            double u = rng.nextDouble();
-            int m = 0;
-            int last = -1;
-            double acc = 0;
-            for (int rest = s; rest != 0; rest &= rest - 1) {
-                int i = Integer.numberOfTrailingZeros(rest);
-                int prev = s & ~(1 << i);
-                t[m++] = (after[i] & s) != 0 ? Double.NEGATIVE_INFINITY
-                        : alpha[i][ExactOrderSum.compress(prev, i)] + f[prev] - f[s];
-            }
-            m = 0;
-            for (int rest = s; rest != 0; rest &= rest - 1) {
-                int i = Integer.numberOfTrailingZeros(rest);
-                double pr = Math.exp(t[m++]);
-                if (pr > 0) {
-                    last = i;
-                    acc += pr;
-                    if (u < acc) {
-                        break;
-                    }
-                }
-            }
-            order[p] = last;
-            s &= ~(1 << last);
-        }
+        ExactOrderSum.drawOrder(n, alpha, f, after, rng, order, t);
     }
 
     /** Per child a parent set among those inside its predecessors, with probability β_i(U) / α_i(pred). */
