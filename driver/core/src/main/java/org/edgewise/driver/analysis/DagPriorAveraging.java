@@ -52,15 +52,7 @@ public final class DagPriorAveraging {
         StructureSum.Result r;
         progress.start("exact structure-modular sum", 1_000_000);
         try {
-            long[] last = {0};
-            r = StructureSum.run(ls, oc, ppm -> {
-                synchronized (last) {
-                    if (ppm > last[0]) {
-                        last[0] = ppm;
-                        progress.done(ppm);
-                    }
-                }
-            });
+            r = StructureSum.run(ls, oc, progress.partsPerMillion());
         } finally {
             progress.finish();
         }

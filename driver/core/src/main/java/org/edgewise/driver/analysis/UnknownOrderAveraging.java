@@ -63,15 +63,7 @@ public final class UnknownOrderAveraging {
         ExactOrderSum.Result r;
         progress.start("exact sum over orders", 1_000_000);
         try {
-            long[] last = {0};
-            r = ExactOrderSum.run(ls, oc, feats ? s.orderSamples() : 0, s.seed(), ppm -> {
-                synchronized (last) {
-                    if (ppm > last[0]) {
-                        last[0] = ppm;
-                        progress.done(ppm);
-                    }
-                }
-            });
+            r = ExactOrderSum.run(ls, oc, feats ? s.orderSamples() : 0, s.seed(), progress.partsPerMillion());
         } finally {
             progress.finish();
         }
