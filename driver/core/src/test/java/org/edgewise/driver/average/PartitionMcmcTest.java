@@ -58,7 +58,7 @@ class PartitionMcmcTest {
             }
         }
         Map<List<Integer>, Double> out = new HashMap<>();
-        for (int[] g : DagEnumerationTest.allDags(n)) {
+        for (int[] g : DagEnumeration.allDags(n)) {
             if (!StructureSumTest.admitted(g, oc, n)) {
                 continue;
             }

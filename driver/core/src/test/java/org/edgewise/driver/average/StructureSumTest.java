@@ -24,23 +24,10 @@ class StructureSumTest {
 
     static Enumerated enumerate(LocalScores ls, OrderConstraints oc) {
         int n = ls.variableCount();
-        double[][] logBeta = new double[n][1 << n];
-        double[][] logRho = new double[n][1 << n];
-        int[][] setIndex = new int[n][1 << n];
-        for (int i = 0; i < n; i++) {
-            Arrays.fill(logBeta[i], Double.NEGATIVE_INFINITY);
-            Arrays.fill(logRho[i], Double.NEGATIVE_INFINITY);
-            for (int k = 0; k < ls.setCount(i); k++) {
-                int g = 0;
-                for (int p : ls.parents(i, k)) {
-                    g |= 1 << p;
-                }
-                logBeta[i][g] = ls.weights(i)[k];
-                logRho[i][g] = ls.logPriors(i)[k];
-                setIndex[i][g] = k;
-            }
-        }
-        List<int[]> dags = DagEnumerationTest.allDags(n).stream().filter(g -> admitted(g, oc, n)).toList();
+        double[][] logBeta = DagEnumeration.logWeights(ls);
+        double[][] logRho = DagEnumeration.logPriors(ls);
+        int[][] setIndex = DagEnumeration.setIndex(ls);
+        List<int[]> dags = DagEnumeration.allDags(n).stream().filter(g -> admitted(g, oc, n)).toList();
         double[] lw = new double[dags.size()];
         double[] lr = new double[dags.size()];
         for (int k = 0; k < dags.size(); k++) {
@@ -83,7 +70,7 @@ class StructureSumTest {
                 }
             }
         }
-        return DagEnumerationTest.acyclic(pa, n);
+        return DagEnumeration.acyclic(pa, n);
     }
 
     /** Number of orders allowed by {@code oc} in which every node of {@code g} follows its parents. */
@@ -96,7 +83,7 @@ class StructureSumTest {
                 }
             }
         }
-        return DagEnumerationTest.linearExtensions(pa, n);
+        return DagEnumeration.linearExtensions(pa, n);
     }
 
     static void assertMatches(LocalScores ls, OrderConstraints oc, String what) {
