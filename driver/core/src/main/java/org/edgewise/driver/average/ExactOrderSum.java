@@ -138,15 +138,7 @@ public final class ExactOrderSum {
         // α_i for every child: scatter the allowed sets, then the subset (zeta) transform.
         double[][] alpha = new double[n][];
         IntStream.range(0, n).parallel().forEach(i -> {
-            double[] a = new double[half];
-            Arrays.fill(a, Double.NEGATIVE_INFINITY);
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
-            int[] cand = ls.candidates(i);
-            for (int s = 0; s < masks.length; s++) {
-                int c = compress(globalMask(masks[s], cand), i);
-                a[c] = LogSum.add(a[c], w[s]);
-            }
+            double[] a = scatter(ls, i, ls.weights(i), false);
             subsetZeta(a, n - 1);
             alpha[i] = a;
             tick.accept((long) (n - 1) * (half / 2));
@@ -327,6 +319,23 @@ public final class ExactOrderSum {
                 }
             }
         });
+    }
+
+    /**
+     * Child i's per-set values {@code w} by compressed global parent mask S ⊆ V∖{i} (2^(n−1)
+     * entries): log Σ exp w over the allowed sets with mask S, or with {@code max} the largest;
+     * −∞ where no set has mask S.
+     */
+    static double[] scatter(LocalScores ls, int i, double[] w, boolean max) {
+        double[] a = new double[1 << (ls.variableCount() - 1)];
+        Arrays.fill(a, Double.NEGATIVE_INFINITY);
+        long[] masks = ls.masks(i);
+        int[] cand = ls.candidates(i);
+        for (int s = 0; s < masks.length; s++) {
+            int c = compress(globalMask(masks[s], cand), i);
+            a[c] = max ? Math.max(a[c], w[s]) : LogSum.add(a[c], w[s]);
+        }
+        return a;
     }
 
     /** Global variable bitmask (n ≤ 31) of a parent-set mask over the candidates {@code cand}. */
