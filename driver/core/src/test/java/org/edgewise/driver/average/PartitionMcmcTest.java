@@ -7,7 +7,6 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.SplittableRandom;
-import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.Test;
 
@@ -114,16 +113,10 @@ class PartitionMcmcTest {
     @Test
     void partitionScoreUnderTiersForbiddenAndRequiredEdges() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        String v0 = s.variables().get(0).name();
-        String v1 = s.variables().get(1).name();
-        String v2 = s.variables().get(2).name();
-        String v3 = s.variables().get(3).name();
-        String v4 = s.variables().get(4).name();
         LocalScores plain = TestStores.scores(s);
-        assertScoresMatch(plain, OrderConstraints.of(plain, List.of(List.of(v3, v1), List.of(v0, v4, v2))), "tiers");
-        LocalScores fr = TestStores.scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)),
-                List.of(new EdgeRule(v0, v3)));
-        assertScoresMatch(fr, OrderConstraints.of(fr, List.of(List.of(v0, v4), List.of(v1, v2, v3))), "forbid + require + tiers");
+        assertScoresMatch(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0, 4, 2})), "tiers");
+        LocalScores fr = TestStores.forbidTwoRequireOne(s);
+        assertScoresMatch(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0, 4}, new int[] {1, 2, 3})), "forbid + require + tiers");
         assertScoresMatch(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
     }
 

@@ -8,7 +8,6 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.score.StructurePrior;
-import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.Test;
 
@@ -145,17 +144,11 @@ class StructureSumTest {
     @Test
     void equalsTheEnumerationUnderTiersForbiddenAndRequiredEdges() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        String v0 = s.variables().get(0).name();
-        String v1 = s.variables().get(1).name();
-        String v2 = s.variables().get(2).name();
-        String v3 = s.variables().get(3).name();
-        String v4 = s.variables().get(4).name();
         LocalScores plain = TestStores.scores(s);
-        assertMatches(plain, OrderConstraints.of(plain, List.of(List.of(v3, v1), List.of(v0))), "tiers");
-        LocalScores fr = TestStores.scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)),
-                List.of(new EdgeRule(v0, v3)));
+        assertMatches(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0})), "tiers");
+        LocalScores fr = TestStores.forbidTwoRequireOne(s);
         assertMatches(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
-        assertMatches(fr, OrderConstraints.of(fr, List.of(List.of(v0), List.of(v1, v2))), "forbid + require + tiers");
+        assertMatches(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0}, new int[] {1, 2})), "forbid + require + tiers");
     }
 
     @Test
