@@ -139,24 +139,13 @@ public final class ExactDagSampler {
         int pred = 0;
         for (int i : order) {
             double z = alpha[i][ExactOrderSum.compress(pred, i)];
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
             int[] cand = ls.candidates(i);
-            double u = rng.nextDouble();
-            double acc = 0;
-            int chosen = -1;
-            for (int s = 0; s < masks.length; s++) {
-                int g = ExactOrderSum.globalMask(masks[s], cand);
-                if ((g & ~pred) != 0) {
-                    continue;
-                }
-                chosen = g;
-                acc += Math.exp(w[s] - z);
-                if (u < acc) {
-                    break;
-                }
+            long allowed = 0;
+            for (int k = 0; k < cand.length; k++) {
+                allowed |= (long) (pred >>> cand[k] & 1) << k;
             }
-            dag[i] = chosen;
+            int s = DagFeatures.drawSet(ls, i, allowed, z, rng.nextDouble());
+            dag[i] = s < 0 ? -1 : ExactOrderSum.globalMask(ls.masks(i)[s], cand);
             pred |= 1 << i;
         }
     }
