@@ -83,10 +83,12 @@ public final class PartitionMcmc {
             }
         }
         if (!unlisted.isEmpty()) {
-            throw new org.edgewise.driver.UserError("--tiers with partition MCMC (--dag-prior structure-modular) needs every "
-                    + "variable in a tier; not listed: " + String.join(", ", unlisted.subList(0, Math.min(5, unlisted.size())))
+            org.edgewise.driver.InputNames in = ls.options().names();
+            throw new org.edgewise.driver.UserError(in.tiers() + " with partition MCMC (" + in.structureModular()
+                    + ") needs every variable in a tier; not listed: "
+                    + String.join(", ", unlisted.subList(0, Math.min(5, unlisted.size())))
                     + (unlisted.size() > 5 ? " and " + (unlisted.size() - 5) + " more" : "")
-                    + "; list them, or use --dag-prior order-modular");
+                    + "; list them, or use " + in.orderModular());
         }
     }
 

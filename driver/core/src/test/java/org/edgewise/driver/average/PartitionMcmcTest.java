@@ -123,7 +123,11 @@ class PartitionMcmcTest {
     @Test
     void tiersThatLeaveVariablesOutAreRefused() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        LocalScores ls = TestStores.scores(s);
+        // the names a command-line front end passes (the core spells no option itself)
+        org.edgewise.driver.InputNames cli = new org.edgewise.driver.InputNames("--ess", "--forbid", "--require", "--tiers",
+                "--given", "--max-hidden-states", "--exact-cases", "--candidates K", "--draws", "--samples", "--method mcmc",
+                "--dag-prior order-modular", "--dag-prior structure-modular", "--features", "--do", "--target", "--versus");
+        LocalScores ls = LocalScores.build(s, ScoringOptions.asStored().withNames(cli));
         OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3", "v1"), List.of("v0")));
         org.edgewise.driver.UserError e = org.junit.jupiter.api.Assertions.assertThrows(org.edgewise.driver.UserError.class,
                 () -> PartitionMcmc.run(ls, oc, OrderMcmc.Settings.defaults(1), null));
