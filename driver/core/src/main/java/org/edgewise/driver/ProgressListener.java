@@ -1,5 +1,7 @@
 package org.edgewise.driver;
 
+import java.util.function.LongConsumer;
+
 /**
  * Progress of a long computation, reported by the engines (exact sum over orders, order MCMC,
  * batch prediction) to whoever shows it — the CLI adapts it to its progress bar; a library user
@@ -25,5 +27,22 @@ public interface ProgressListener {
 
     /** The current task ended (normally or not). */
     default void finish() {
+    }
+
+    /**
+     * A sink for an engine that reports parts per million from several threads, possibly out of
+     * order: passes on to {@link #done} only values above the largest seen, so {@code done} stays
+     * non-decreasing.
+     */
+    default LongConsumer partsPerMillion() {
+        long[] last = {0};
+        return ppm -> {
+            synchronized (last) {
+                if (ppm > last[0]) {
+                    last[0] = ppm;
+                    done(ppm);
+                }
+            }
+        };
     }
 }

@@ -24,8 +24,13 @@ record CliRun(int status, String out, String err) {
 
     /** A store on disk (written and later read back through StoreWriter / StoreReader). */
     static ScoreStore store(Path dir, long seed, int d) {
-        List<Variable> vars = HeldOutData.variables(ARITIES);
-        ScoreStore s = InMemoryTally.tally(vars, HeldOutData.table(seed, 80, ARITIES), d, FamilyScore.withDefaults());
+        return store(dir, HeldOutData.table(seed, 80, ARITIES), ARITIES, d);
+    }
+
+    /** The store of {@code rows} (variables v0, v1, … with these arities, BDeu defaults) written to {@code dir}. */
+    static ScoreStore store(Path dir, int[][] rows, int[] arities, int d) {
+        List<Variable> vars = HeldOutData.variables(arities);
+        ScoreStore s = InMemoryTally.tally(vars, rows, d, FamilyScore.withDefaults());
         StoreWriter.write(dir, s.manifest(), s.families(), s.logScores(), false);
         return s;
     }

@@ -5,7 +5,6 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.HashSet;
@@ -20,8 +19,6 @@ import org.junit.jupiter.api.io.TempDir;
 
 /** {@code edges} end to end: JSON shape (DESIGN.md, "JSON result of edges"), sweeps, and every refusal word for word. */
 class EdgesCommandTest extends StoreFixture {
-    static final ObjectMapper JSON = new ObjectMapper();
-    static final String ORDER = "v3,v0,v4,v1,v2";
 
     @Override
     long seed() {

@@ -19,8 +19,6 @@ import org.junit.jupiter.api.Test;
 
 /** {@code effect} end to end: the JSON names the checks read, a batch, and every refusal word for word (exit 2). */
 class EffectCommandTest extends StoreFixture {
-    static final ObjectMapper JSON = new ObjectMapper();
-    static final String ORDER = "v3,v0,v4,v1,v2";
 
     @Override
     long seed() {

@@ -16,7 +16,6 @@ import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.StoreWriter;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -43,8 +42,7 @@ class HonestLabelsTest {
     void setUp() {
         store8 = dir.resolve("store8");
         rows8 = HeldOutData.table(10_008L, 120, AR8);
-        ScoreStore s = InMemoryTally.tally(HeldOutData.variables(AR8), rows8, 2, FamilyScore.withDefaults());
-        StoreWriter.write(store8, s.manifest(), s.families(), s.logScores(), false);
+        CliRun.store(store8, rows8, AR8, 2);
         store5 = dir.resolve("store5");
         CliRun.store(store5, 10_005L, 2);
     }

@@ -132,25 +132,26 @@ class PredictCommandTest {
                 "predict", "--store", p.toString(), "--order", "v0,v1", "--case", "v1=s0", "--given", "v0=s1", "--ess", "1e-323");
     }
 
+    /** {@code predict --cases f} with {@code content} in f is refused with "predict: f" + {@code message}. */
+    private void refusedCsv(String store, Path f, String content, String message) throws Exception {
+        Files.writeString(f, content);
+        refused("predict: " + f + message, "predict", "--store", store, "--order", ORDER, "--cases", f.toString());
+    }
+
     @Test
     void refusesBadCsv() throws Exception {
         String s = store.toString();
         Path f = dir.resolve("bad.csv");
-        Files.writeString(f, "v1,id\ns0,7\n");
-        refused("predict: " + f + ": line 1, column 2: unknown variable 'id' (variables: v0, v1, v2, v3, v4)",
-                "predict", "--store", s, "--order", ORDER, "--cases", f.toString());
-        Files.writeString(f, "v1,v0\ns0,s1\ns2,x\n");
-        refused("predict: " + f + ": line 3, column 2: variable 'v0' has no state 'x' (valid states: s0, s1)",
-                "predict", "--store", s, "--order", ORDER, "--cases", f.toString());
-        Files.writeString(f, "v1,v0\ns0,s1,s0\n");
-        refused("predict: " + f + ": line 2 has 3 fields, the header has 2",
-                "predict", "--store", s, "--order", ORDER, "--cases", f.toString());
-        Files.writeString(f, "v1,v0\ns0,\"s1\n");
-        refused("predict: " + f + ": line 2, column 2: unterminated quote (opened at character 4)",
-                "predict", "--store", s, "--order", ORDER, "--cases", f.toString());
-        Files.writeString(f, "v1,v1\ns0,s1\n");
-        refused("predict: " + f + ": line 1, column 2: variable 'v1' appears twice in the header",
-                "predict", "--store", s, "--order", ORDER, "--cases", f.toString());
+        refusedCsv(s, f, "v1,id\ns0,7\n",
+                ": line 1, column 2: unknown variable 'id' (variables: v0, v1, v2, v3, v4)");
+        refusedCsv(s, f, "v1,v0\ns0,s1\ns2,x\n",
+                ": line 3, column 2: variable 'v0' has no state 'x' (valid states: s0, s1)");
+        refusedCsv(s, f, "v1,v0\ns0,s1,s0\n",
+                ": line 2 has 3 fields, the header has 2");
+        refusedCsv(s, f, "v1,v0\ns0,\"s1\n",
+                ": line 2, column 2: unterminated quote (opened at character 4)");
+        refusedCsv(s, f, "v1,v1\ns0,s1\n",
+                ": line 1, column 2: variable 'v1' appears twice in the header");
         Path out = dir.resolve("out.csv");
         Files.writeString(f, "v1,v0\ns0,s1\ns2,x\n");
         CliRun.of("predict", "--store", s, "--order", ORDER, "--cases", f.toString(), "--out", out.toString());

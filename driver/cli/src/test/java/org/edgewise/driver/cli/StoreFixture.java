@@ -1,5 +1,6 @@
 package org.edgewise.driver.cli;
 
+import com.fasterxml.jackson.databind.ObjectMapper;
 import java.nio.file.Path;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeEach;
@@ -7,6 +8,10 @@ import org.junit.jupiter.api.io.TempDir;
 
 /** Base of the command tests that need one test store on disk ({@link CliRun#store}) and its in-memory twin. */
 abstract class StoreFixture {
+    static final ObjectMapper JSON = new ObjectMapper();
+    /** An order of the store's five variables the known-order commands are given. */
+    static final String ORDER = "v3,v0,v4,v1,v2";
+
     @TempDir
     Path dir;
     /** The store directory the commands read. */

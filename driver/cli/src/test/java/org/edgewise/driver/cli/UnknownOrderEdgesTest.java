@@ -4,7 +4,6 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import java.nio.file.Path;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
@@ -18,7 +17,6 @@ import org.junit.jupiter.api.io.TempDir;
 
 /** {@code edges --method exact|mcmc} end to end: JSON shape, agreement with the library, refusals word for word. */
 class UnknownOrderEdgesTest extends StoreFixture {
-    static final ObjectMapper JSON = new ObjectMapper();
 
     @Override
     long seed() {
@@ -60,10 +58,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(5000, d.get("burnIn").asLong());
         assertTrue(d.get("rhat").asDouble() < 1.05, d.toString());
         assertEquals(4, d.get("traces").size());
-        for (JsonNode x : e.get("edges")) {
-            double p = edge(m, x.get("from").asText(), x.get("to").asText());
-            assertEquals(x.get("posterior").asDouble(), p, 0.05, x.toString());
-        }
+        assertEdgesWithin(e, m, 0.05);
         // the same seed: the same JSON numbers
         CliRun again = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
                 "--steps", "20000", "--seed", "7", "--dag-prior", "order-modular");
@@ -95,10 +90,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(0, mc.status(), mc.err());
         JsonNode m = JSON.readTree(mc.out());
         assertEquals("structure-modular", m.get("dagPrior").asText());
-        for (JsonNode x : e.get("edges")) {
-            double p = edge(m, x.get("from").asText(), x.get("to").asText());
-            assertEquals(x.get("posterior").asDouble(), p, 0.05, x.toString());
-        }
+        assertEdgesWithin(e, m, 0.05);
         CliRun again = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--format", "json",
                 "--steps", "20000", "--seed", "7", "--features", "essential-graph");
         assertEquals(m.get("edges"), JSON.readTree(again.out()).get("edges"));
@@ -118,6 +110,14 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(0, r.status(), r.err());
         assertTrue(r.out().contains("largest rank-normalised split-R-hat"), r.out());
         assertTrue(r.out().contains("not proof of causation"), r.out());
+    }
+
+    /** Every edge posterior of {@code exact} is within {@code tol} of the same edge's in {@code sampled}. */
+    private static void assertEdgesWithin(JsonNode exact, JsonNode sampled, double tol) {
+        for (JsonNode x : exact.get("edges")) {
+            double p = edge(sampled, x.get("from").asText(), x.get("to").asText());
+            assertEquals(x.get("posterior").asDouble(), p, tol, x.toString());
+        }
     }
 
     @Test

@@ -15,7 +15,6 @@ import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.StoreWriter;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
@@ -40,8 +39,7 @@ class UnknownOrderPredictTest {
     void setUp() {
         store = dir.resolve("store");
         rows = HeldOutData.table(8_080L, 80, AR);
-        ScoreStore s = InMemoryTally.tally(HeldOutData.variables(AR), rows, 2, FamilyScore.withDefaults());
-        StoreWriter.write(store, s.manifest(), s.families(), s.logScores(), false);
+        CliRun.store(store, rows, AR, 2);
     }
 
     private double exactLogEvidence(int[][] table) {

@@ -52,15 +52,7 @@ public final class DagPriorAveraging {
         StructureSum.Result r;
         progress.start("exact structure-modular sum", 1_000_000);
         try {
-            long[] last = {0};
-            r = StructureSum.run(ls, oc, ppm -> {
-                synchronized (last) {
-                    if (ppm > last[0]) {
-                        last[0] = ppm;
-                        progress.done(ppm);
-                    }
-                }
-            });
+            r = StructureSum.run(ls, oc, progress.partsPerMillion());
         } finally {
             progress.finish();
         }
@@ -157,7 +149,7 @@ public final class DagPriorAveraging {
                     continue;
                 }
                 OrderMcmc.Estimate e = d.estimate(d.edge(a, b));
-                edges.add(new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse()), finite(e.rhat())));
+                edges.add(new EdgeResult.Edge(names.get(a), names.get(b), UnknownOrderAveraging.clamp(e.mean()), UnknownOrderAveraging.finite(e.mcse()), UnknownOrderAveraging.finite(e.rhat())));
                 if (Double.isFinite(e.rhat())) {
                     maxRhat = Math.max(maxRhat, e.rhat());
                 }
@@ -207,8 +199,8 @@ public final class DagPriorAveraging {
                 OrderMcmc.Estimate ba = d.estimate(d.compelled(b, a));
                 OrderMcmc.Estimate un = d.estimate(d.reversible(a, b));
                 double mcse = Math.max(Math.max(adj.mcse(), ab.mcse()), Math.max(ba.mcse(), un.mcse()));
-                out.add(new EdgeResult.EssentialPair(names.get(a), names.get(b), clamp(adj.mean()), clamp(ab.mean()),
-                        clamp(ba.mean()), clamp(un.mean()), finite(mcse)));
+                out.add(new EdgeResult.EssentialPair(names.get(a), names.get(b), UnknownOrderAveraging.clamp(adj.mean()), UnknownOrderAveraging.clamp(ab.mean()),
+                        UnknownOrderAveraging.clamp(ba.mean()), UnknownOrderAveraging.clamp(un.mean()), UnknownOrderAveraging.finite(mcse)));
             }
         }
         return out;
@@ -218,34 +210,12 @@ public final class DagPriorAveraging {
         if (!s.features()) {
             return null;
         }
-        int n = names.size();
-        List<EdgeResult.Feature> out = new ArrayList<>();
-        if (s.ancestors()) {
-            for (int a = 0; a < n; a++) {
-                for (int b = 0; b < n; b++) {
-                    if (a != b) {
-                        OrderMcmc.Estimate e = d.estimate(d.ancestor(a, b));
-                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse())));
-                    }
-                }
-            }
-        }
-        if (s.markovBlanket()) {
-            for (int a = 0; a < n; a++) {
-                for (int b = a + 1; b < n; b++) {
-                    OrderMcmc.Estimate e = d.estimate(d.blanket(a, b));
-                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse())));
-                }
-            }
-        }
-        return out;
+        return UnknownOrderAveraging.features(names, s, (a, b) -> estimate(d, d.ancestor(a, b)),
+                (a, b) -> estimate(d, d.blanket(a, b)));
     }
 
-    private static Double finite(double x) {
-        return Double.isFinite(x) ? x : null;
-    }
-
-    private static double clamp(double p) {
-        return p < 0 ? 0 : Math.min(p, 1.0);
+    private static UnknownOrderAveraging.PairEstimate estimate(DagDraws d, DagDraws.Feature feature) {
+        OrderMcmc.Estimate e = d.estimate(feature);
+        return new UnknownOrderAveraging.PairEstimate(e.mean(), e.mcse());
     }
 }

@@ -63,15 +63,7 @@ public final class UnknownOrderAveraging {
         ExactOrderSum.Result r;
         progress.start("exact sum over orders", 1_000_000);
         try {
-            long[] last = {0};
-            r = ExactOrderSum.run(ls, oc, feats ? s.orderSamples() : 0, s.seed(), ppm -> {
-                synchronized (last) {
-                    if (ppm > last[0]) {
-                        last[0] = ppm;
-                        progress.done(ppm);
-                    }
-                }
-            });
+            r = ExactOrderSum.run(ls, oc, feats ? s.orderSamples() : 0, s.seed(), progress.partsPerMillion());
         } finally {
             progress.finish();
         }
@@ -164,14 +156,33 @@ public final class UnknownOrderAveraging {
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,
                                                      double[][] ancSe, double[][] mb, double[][] mbSe, long draws) {
+        return features(names, s,
+                (a, b) -> new PairEstimate(anc[a][b], McseBound.reported(clamp(anc[a][b]), ancSe[a][b], draws)),
+                (a, b) -> new PairEstimate(mb[a][b], McseBound.reported(clamp(mb[a][b]), mbSe[a][b], draws)));
+    }
+
+    /** A feature's posterior for one ordered pair and its Monte Carlo standard error (non-finite: none reported). */
+    record PairEstimate(double mean, double mcse) {
+    }
+
+    /** The estimate of a feature for the pair (a, b). */
+    interface PairFeature {
+        PairEstimate at(int a, int b);
+    }
+
+    /**
+     * The {@code features} of a result: with {@code s.ancestors()} a ⇝ b for every ordered pair
+     * a ≠ b, with {@code s.markovBlanket()} a — b for every a &lt; b; posteriors clamped to [0, 1].
+     */
+    static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, PairFeature ancestor,
+                                             PairFeature blanket) {
         int n = names.size();
         List<EdgeResult.Feature> out = new ArrayList<>();
         if (s.ancestors()) {
             for (int a = 0; a < n; a++) {
                 for (int b = 0; b < n; b++) {
                     if (a != b) {
-                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(anc[a][b]),
-                                finite(McseBound.reported(clamp(anc[a][b]), ancSe[a][b], draws))));
+                        out.add(feature("ancestor", names, a, b, ancestor.at(a, b)));
                     }
                 }
             }
@@ -179,19 +190,22 @@ public final class UnknownOrderAveraging {
         if (s.markovBlanket()) {
             for (int a = 0; a < n; a++) {
                 for (int b = a + 1; b < n; b++) {
-                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(mb[a][b]),
-                            finite(McseBound.reported(clamp(mb[a][b]), mbSe[a][b], draws))));
+                    out.add(feature("markov-blanket", names, a, b, blanket.at(a, b)));
                 }
             }
         }
         return out;
     }
 
-    private static Double finite(double x) {
+    private static EdgeResult.Feature feature(String kind, List<String> names, int a, int b, PairEstimate e) {
+        return new EdgeResult.Feature(kind, names.get(a), names.get(b), clamp(e.mean()), finite(e.mcse()));
+    }
+
+    static Double finite(double x) {
         return Double.isFinite(x) ? x : null;
     }
 
-    private static double clamp(double p) {
+    static double clamp(double p) {
         return p < 0 ? 0 : Math.min(p, 1.0);
     }
 

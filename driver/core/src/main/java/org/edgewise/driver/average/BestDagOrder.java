@@ -25,15 +25,7 @@ public final class BestDagOrder {
         double[][] b = new double[n][];
         int half = 1 << (n - 1);
         for (int i = 0; i < n; i++) {
-            double[] a = new double[half];
-            Arrays.fill(a, Double.NEGATIVE_INFINITY);
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
-            int[] cand = ls.candidates(i);
-            for (int s = 0; s < masks.length; s++) {
-                int c = ExactOrderSum.compress(ExactOrderSum.globalMask(masks[s], cand), i);
-                a[c] = Math.max(a[c], w[s]);
-            }
+            double[] a = ExactOrderSum.scatter(ls, i, ls.weights(i), true);
             for (int bit = 1; bit < half; bit <<= 1) {
                 for (int k = 0; k < half; k++) {
                     if ((k & bit) != 0) {

@@ -28,24 +28,32 @@ public final class DagFeatures {
         int n = ls.variableCount();
         int[] chosen = new int[n];
         for (int i = 0; i < n; i++) {
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
-            double u = rng.nextDouble();
-            double acc = 0;
-            int last = -1;
-            for (int s = 0; s < masks.length; s++) {
-                if ((masks[s] & ~predMask[i]) != 0) {
-                    continue;
-                }
-                last = s;
-                acc += Math.exp(w[s] - logSum[i]);
-                if (u < acc) {
-                    break;
-                }
-            }
-            chosen[i] = last;
+            chosen[i] = drawSet(ls, i, predMask[i], logSum[i], rng.nextDouble());
         }
         return chosen;
+    }
+
+    /**
+     * Child i's parent set drawn among those inside {@code allowed} (a mask over its candidates)
+     * with probability exp(w_i(U) − logZ), logZ = log α_i(allowed), by inversion of the uniform
+     * {@code u}: the index in {@code ls.masks(i)}, or −1 when no set fits.
+     */
+    static int drawSet(LocalScores ls, int i, long allowed, double logZ, double u) {
+        long[] masks = ls.masks(i);
+        double[] w = ls.weights(i);
+        double acc = 0;
+        int last = -1;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~allowed) != 0) {
+                continue;
+            }
+            last = s;
+            acc += Math.exp(w[s] - logZ);
+            if (u < acc) {
+                break;
+            }
+        }
+        return last;
     }
 
     /** Bit index of a ⇝ b. */

@@ -129,35 +129,9 @@ public final class ExactDagSampler {
         return new DagDraws(n, List.of(out), 1, w);
     }
 
-    /** Backwards through F: the last member of S, then the rest. */
+    /** Backwards through F: the last member of S, then the rest ({@link ExactOrderSum#drawOrder}). */
     private void drawOrder(SplittableRandom rng, int[] order, double[] t) {
-        int s = (1 << n) - 1;
-        for (int p = n - 1; p >= 0; p--) {
-            double u = rng.nextDouble();
-            int m = 0;
-            int last = -1;
-            double acc = 0;
-            for (int rest = s; rest != 0; rest &= rest - 1) {
-                int i = Integer.numberOfTrailingZeros(rest);
-                int prev = s & ~(1 << i);
-                t[m++] = (after[i] & s) != 0 ? Double.NEGATIVE_INFINITY
-                        : alpha[i][ExactOrderSum.compress(prev, i)] + f[prev] - f[s];
-            }
-            m = 0;
-            for (int rest = s; rest != 0; rest &= rest - 1) {
-                int i = Integer.numberOfTrailingZeros(rest);
-                double pr = Math.exp(t[m++]);
-                if (pr > 0) {
-                    last = i;
-                    acc += pr;
-                    if (u < acc) {
-                        break;
-                    }
-                }
-            }
-            order[p] = last;
-            s &= ~(1 << last);
-        }
+        ExactOrderSum.drawOrder(n, alpha, f, after, rng, order, t);
     }
 
     /** Per child a parent set among those inside its predecessors, with probability β_i(U) / α_i(pred). */
@@ -165,24 +139,13 @@ public final class ExactDagSampler {
         int pred = 0;
         for (int i : order) {
             double z = alpha[i][ExactOrderSum.compress(pred, i)];
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
             int[] cand = ls.candidates(i);
-            double u = rng.nextDouble();
-            double acc = 0;
-            int chosen = -1;
-            for (int s = 0; s < masks.length; s++) {
-                int g = ExactOrderSum.globalMask(masks[s], cand);
-                if ((g & ~pred) != 0) {
-                    continue;
-                }
-                chosen = g;
-                acc += Math.exp(w[s] - z);
-                if (u < acc) {
-                    break;
-                }
+            long allowed = 0;
+            for (int k = 0; k < cand.length; k++) {
+                allowed |= (long) (pred >>> cand[k] & 1) << k;
             }
-            dag[i] = chosen;
+            int s = DagFeatures.drawSet(ls, i, allowed, z, rng.nextDouble());
+            dag[i] = s < 0 ? -1 : ExactOrderSum.globalMask(ls.masks(i)[s], cand);
             pred |= 1 << i;
         }
     }

@@ -138,15 +138,7 @@ public final class ExactOrderSum {
         // α_i for every child: scatter the allowed sets, then the subset (zeta) transform.
         double[][] alpha = new double[n][];
         IntStream.range(0, n).parallel().forEach(i -> {
-            double[] a = new double[half];
-            Arrays.fill(a, Double.NEGATIVE_INFINITY);
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
-            int[] cand = ls.candidates(i);
-            for (int s = 0; s < masks.length; s++) {
-                int c = compress(globalMask(masks[s], cand), i);
-                a[c] = LogSum.add(a[c], w[s]);
-            }
+            double[] a = scatter(ls, i, ls.weights(i), false);
             subsetZeta(a, n - 1);
             alpha[i] = a;
             tick.accept((long) (n - 1) * (half / 2));
@@ -253,36 +245,49 @@ public final class ExactOrderSum {
         SplittableRandom rng = new SplittableRandom(seed);
         double[] t = new double[n];
         for (int r = 0; r < count; r++) {
-            int s = (1 << n) - 1;
             int[] order = new int[n];
-            for (int p = n - 1; p >= 0; p--) {
-                double u = rng.nextDouble();
-                double acc = 0;
-                int m = 0;
-                int last = -1;
-                for (int rest = s; rest != 0; rest &= rest - 1) {
-                    int i = Integer.numberOfTrailingZeros(rest);
-                    int prev = s & ~(1 << i);
-                    t[m++] = alpha[i][compress(prev, i)] + fwd[prev] - fwd[s];
-                }
-                m = 0;
-                for (int rest = s; rest != 0; rest &= rest - 1) {
-                    int i = Integer.numberOfTrailingZeros(rest);
-                    double pr = Math.exp(t[m++]);
-                    if (pr > 0) {
-                        last = i;
-                        acc += pr;
-                        if (u < acc) {
-                            break;
-                        }
-                    }
-                }
-                order[p] = last;
-                s &= ~(1 << last);
-            }
+            drawOrder(n, alpha, fwd, null, rng, order, t);
             out[r] = order;
         }
         return out;
+    }
+
+    /**
+     * One order from P(≺ | D) ∝ Π_i α_i(pred(i)), drawn backwards through the forward sums F: from
+     * S = V, the last variable of S is i with probability α_i(S∖{i}) F(S∖{i}) / F(S) (Koivisto &amp;
+     * Sood 2004, sec. on sampling), then the same for S∖{i}. {@code after} (may be null) per
+     * variable the bits of those it must precede: such an i is never last while they are in S.
+     * {@code t} is scratch of length n; the order is written into {@code order}.
+     */
+    static void drawOrder(int n, double[][] alpha, double[] f, int[] after, SplittableRandom rng,
+                          int[] order, double[] t) {
+        int s = (1 << n) - 1;
+        for (int p = n - 1; p >= 0; p--) {
+            double u = rng.nextDouble();
+            int m = 0;
+            int last = -1;
+            double acc = 0;
+            for (int rest = s; rest != 0; rest &= rest - 1) {
+                int i = Integer.numberOfTrailingZeros(rest);
+                int prev = s & ~(1 << i);
+                t[m++] = after != null && (after[i] & s) != 0 ? Double.NEGATIVE_INFINITY
+                        : alpha[i][compress(prev, i)] + f[prev] - f[s];
+            }
+            m = 0;
+            for (int rest = s; rest != 0; rest &= rest - 1) {
+                int i = Integer.numberOfTrailingZeros(rest);
+                double pr = Math.exp(t[m++]);
+                if (pr > 0) {
+                    last = i;
+                    acc += pr;
+                    if (u < acc) {
+                        break;
+                    }
+                }
+            }
+            order[p] = last;
+            s &= ~(1 << last);
+        }
     }
 
     /** True when S contains every required predecessor of each of its members (a possible prefix). */
@@ -314,6 +319,23 @@ public final class ExactOrderSum {
                 }
             }
         });
+    }
+
+    /**
+     * Child i's per-set values {@code w} by compressed global parent mask S ⊆ V∖{i} (2^(n−1)
+     * entries): log Σ exp w over the allowed sets with mask S, or with {@code max} the largest;
+     * −∞ where no set has mask S.
+     */
+    static double[] scatter(LocalScores ls, int i, double[] w, boolean max) {
+        double[] a = new double[1 << (ls.variableCount() - 1)];
+        Arrays.fill(a, Double.NEGATIVE_INFINITY);
+        long[] masks = ls.masks(i);
+        int[] cand = ls.candidates(i);
+        for (int s = 0; s < masks.length; s++) {
+            int c = compress(globalMask(masks[s], cand), i);
+            a[c] = max ? Math.max(a[c], w[s]) : LogSum.add(a[c], w[s]);
+        }
+        return a;
     }
 
     /** Global variable bitmask (n ≤ 31) of a parent-set mask over the candidates {@code cand}. */

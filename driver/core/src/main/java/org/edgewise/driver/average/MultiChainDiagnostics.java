@@ -58,14 +58,19 @@ public final class MultiChainDiagnostics {
 
             @Override
             public void fill(int q, List<DrawStore> chains, int[] from, double[][] x) {
-                for (int c = 0; c < chains.size(); c++) {
-                    DrawStore d = chains.get(c);
-                    for (int t = 0; t < x[c].length; t++) {
-                        x[c][t] = d.quantity(from[c] + t, q);
-                    }
-                }
+                fillStored(q, chains, from, x);
             }
         };
+    }
+
+    /** x[c][t] = the stored per-draw quantity q of chain c's draw from[c] + t. */
+    static void fillStored(int q, List<DrawStore> chains, int[] from, double[][] x) {
+        for (int c = 0; c < chains.size(); c++) {
+            DrawStore d = chains.get(c);
+            for (int t = 0; t < x[c].length; t++) {
+                x[c][t] = d.quantity(from[c] + t, q);
+            }
+        }
     }
 
     /** One of the quantities furthest from convergence. */

@@ -31,7 +31,7 @@ import org.edgewise.driver.UserError;
  * n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (16 bytes each)
  * per non-tabulated child. Mutable, confined to one thread at a time.
  */
-final class OrderChain implements ChainRunner.Chain {
+final class OrderChain extends SteppedChain {
     private static final int CACHE_BITS = 12;
     private final LocalScores ls;
     private final ChildTables tables;
@@ -57,12 +57,6 @@ final class OrderChain implements ChainRunner.Chain {
     private final double[] chLog;
     private int chCount;
 
-    private long stepsDone;
-    private long cpuNanos;
-    private long accepted;
-    private volatile long publishedSteps;
-    private volatile long publishedAccepted;
-    private final DrawStore draws;
     private final double relocate;
     // scratch for a relocation
     private final double[] posLog;
@@ -77,6 +71,7 @@ final class OrderChain implements ChainRunner.Chain {
 
     OrderChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
                boolean features, SplittableRandom rng, DrawStore draws, double relocate) {
+        super(draws);
         this.ls = ls;
         this.tables = tables;
         this.oc = oc;
@@ -86,7 +81,6 @@ final class OrderChain implements ChainRunner.Chain {
         this.edgeCount = edgeOffset[n];
         this.features = features;
         this.rng = rng;
-        this.draws = draws;
         this.relocate = relocate;
         posLog = new double[n];
         vMaskAt = new long[n];
@@ -150,52 +144,14 @@ final class OrderChain implements ChainRunner.Chain {
         return v;
     }
 
+    /** A Gibbs relocation with probability {@code relocate}, else a Metropolis–Hastings move. */
     @Override
-    public long steps() {
-        return publishedSteps;
-    }
-
-    @Override
-    public long acceptedSteps() {
-        return publishedAccepted;
-    }
-
-    @Override
-    public DrawStore draws() {
-        return draws;
-    }
-
-    @Override
-    public void advance(long count, java.util.function.BooleanSupplier stop) {
-        var mx = java.lang.management.ManagementFactory.getThreadMXBean();
-        long cpu0 = mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() : 0;
-        for (long k = 0; k < count; k++) {
-            if (relocate > 0 && rng.nextDouble() < relocate) {
-                relocateOne();
-            } else {
-                step();
-            }
-            stepsDone++;
-            if (draws.due(stepsDone)) {
-                record();
-            }
-            if ((stepsDone & 1023) == 0) {
-                publishedSteps = stepsDone;
-                publishedAccepted = accepted;
-                if (stop.getAsBoolean()) {
-                    break;
-                }
-            }
+    void move() {
+        if (relocate > 0 && rng.nextDouble() < relocate) {
+            relocateOne();
+        } else {
+            step();
         }
-        publishedSteps = stepsDone;
-        publishedAccepted = accepted;
-        cpuNanos += mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() - cpu0 : 0;
-    }
-
-    /** CPU time this chain's steps have used, seconds (the machine may be shared: wall time misleads). */
-    @Override
-    public double cpuSeconds() {
-        return cpuNanos / 1e9;
     }
 
     /** The current order (a copy). */
@@ -414,7 +370,8 @@ final class OrderChain implements ChainRunner.Chain {
         return l - logSum[v];
     }
 
-    private void record() {
+    @Override
+    void record() {
         float[] row = new float[edgeCount];
         for (int i = 0; i < n; i++) {
             long m = mask[i];

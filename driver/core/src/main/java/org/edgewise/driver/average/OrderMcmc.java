@@ -168,15 +168,45 @@ public final class OrderMcmc {
     public static Result run(LocalScores ls, OrderConstraints oc, Settings s, ChainRunner.Listener listener) {
         int n = ls.variableCount();
         int[][] cpos = new int[n][n];
-        int[] offset = new int[n + 1];
         for (int i = 0; i < n; i++) {
             java.util.Arrays.fill(cpos[i], -1);
             int[] cand = ls.candidates(i);
             for (int k = 0; k < cand.length; k++) {
                 cpos[i][cand[k]] = k;
             }
-            offset[i + 1] = offset[i] + cand.length;
         }
+        int[] offset = edgeOffsets(ls);
+        return runChains(ls, offset, s, listener, (tables, rng, store) ->
+                new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+    }
+
+    /** Per child i, where its candidate edges start in the flat edge arrays: offset[i+1] − offset[i] = |candidates(i)|. */
+    static int[] edgeOffsets(LocalScores ls) {
+        int n = ls.variableCount();
+        int[] offset = new int[n + 1];
+        for (int i = 0; i < n; i++) {
+            offset[i + 1] = offset[i] + ls.candidates(i).length;
+        }
+        return offset;
+    }
+
+    /** Makes one chain over the shared zeta tables, with its own random stream and draw store. */
+    interface ChainFactory<C extends ChainRunner.Chain> {
+        C make(ChildTables tables, SplittableRandom rng, DrawStore store);
+    }
+
+    /** The chains as they ended, the runner's outcome and the summary of their draws. */
+    record Run<C extends ChainRunner.Chain>(List<C> chains, ChainRunner.Outcome outcome, Result result) {
+    }
+
+    /**
+     * What order and partition MCMC share: the zeta tables, one draw store and random stream per
+     * chain (split from the seed), the runner (fixed length or until converged, diagnostics over the
+     * candidate edges) and {@link #summarise}.
+     */
+    static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s,
+                                                          ChainRunner.Listener listener, ChainFactory<C> factory) {
+        int n = ls.variableCount();
         int[] edgeFrom = new int[offset[n]];
         int[] edgeTo = new int[offset[n]];
         for (int i = 0; i < n; i++) {
@@ -189,11 +219,11 @@ public final class OrderMcmc {
         long t0 = System.nanoTime();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
-        List<OrderChain> chains = new ArrayList<>();
+        List<C> chains = new ArrayList<>();
         for (int c = 0; c < s.chains(); c++) {
             DrawStore store = s.untilConverged() ? new DrawStore(offset[n], Math.max(s.draws(), UNTIL_CONVERGED_DRAWS), 1, 0)
                     : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
-            chains.add(new OrderChain(ls, tables, oc, cpos, offset, s.features(), root.split(), store, s.relocate()));
+            chains.add(factory.make(tables, root.split(), store));
         }
         double setup = (System.nanoTime() - t0) / 1e9;
         List<String> names = new ArrayList<>();
@@ -203,7 +233,7 @@ public final class OrderMcmc {
         MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
         ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
                 Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
-        return summarise(ls, chains, offset, s, out, setup, edgeFrom.length);
+        return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length));
     }
 
     static Result summarise(LocalScores ls, List<? extends ChainRunner.Chain> chains, int[] offset, Settings s,

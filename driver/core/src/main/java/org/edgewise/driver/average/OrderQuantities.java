@@ -60,11 +60,15 @@ final class OrderQuantities implements MultiChainDiagnostics.Quantities {
 
     @Override
     public void fill(int q, List<DrawStore> chains, int[] from, double[][] x) {
+        if (q < edgeFrom.length) {
+            MultiChainDiagnostics.fillStored(q, chains, from, x);
+            return;
+        }
+        int bit = q - edgeFrom.length;
         for (int c = 0; c < chains.size(); c++) {
             DrawStore d = chains.get(c);
             for (int t = 0; t < x[c].length; t++) {
-                x[c][t] = q < edgeFrom.length ? d.quantity(from[c] + t, q)
-                        : DagFeatures.get(((DrawStore.Drawn) d.state(from[c] + t)).features(), q - edgeFrom.length) ? 1.0 : 0.0;
+                x[c][t] = DagFeatures.get(((DrawStore.Drawn) d.state(from[c] + t)).features(), bit) ? 1.0 : 0.0;
             }
         }
     }

@@ -1,7 +1,6 @@
 package org.edgewise.driver.average;
 
 import java.util.SplittableRandom;
-import java.util.function.BooleanSupplier;
 import org.edgewise.driver.UserError;
 
 /**
@@ -62,7 +61,7 @@ import org.edgewise.driver.UserError;
  * <p>Memory per chain: O(n) state and scratch, per draw 4 bytes per candidate edge, 12n bytes of
  * state and n²/32 bytes of feature bits. Mutable, confined to one thread at a time.
  */
-final class PartitionChain implements ChainRunner.Chain {
+final class PartitionChain extends SteppedChain {
     /** Share of split/join moves (not tuned; common practice in the paper's own sampler is a mix). */
     static final double SPLIT_JOIN = 0.4;
     /** Share of swap moves. */
@@ -84,7 +83,6 @@ final class PartitionChain implements ChainRunner.Chain {
     private final double[] emptyLog;
     private final SplittableRandom rng;
     private final SplittableRandom drawRng;
-    private final DrawStore draws;
 
     private int m;
     private int[] elem;
@@ -104,14 +102,10 @@ final class PartitionChain implements ChainRunner.Chain {
     private int chCount;
     private double[] placeLog;
 
-    private long stepsDone;
-    private long accepted;
-    private long cpuNanos;
-    private volatile long publishedSteps;
-    private volatile long publishedAccepted;
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
                    SplittableRandom rng, DrawStore draws) {
+        super(draws);
         this.ls = ls;
         this.tables = tables;
         this.n = ls.variableCount();
@@ -122,7 +116,6 @@ final class PartitionChain implements ChainRunner.Chain {
         this.features = features;
         this.rng = rng;
         this.drawRng = rng.split();
-        this.draws = draws;
         excluded = new long[n];
         emptyLog = new double[n];
         for (int i = 0; i < n; i++) {
@@ -279,46 +272,8 @@ final class PartitionChain implements ChainRunner.Chain {
     }
 
     @Override
-    public void advance(long count, BooleanSupplier stop) {
-        var mx = java.lang.management.ManagementFactory.getThreadMXBean();
-        long cpu0 = mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() : 0;
-        for (long k = 0; k < count; k++) {
-            step();
-            stepsDone++;
-            if (draws.due(stepsDone)) {
-                record();
-            }
-            if ((stepsDone & 1023) == 0) {
-                publishedSteps = stepsDone;
-                publishedAccepted = accepted;
-                if (stop.getAsBoolean()) {
-                    break;
-                }
-            }
-        }
-        publishedSteps = stepsDone;
-        publishedAccepted = accepted;
-        cpuNanos += mx.isCurrentThreadCpuTimeSupported() ? mx.getCurrentThreadCpuTime() - cpu0 : 0;
-    }
-
-    @Override
-    public long steps() {
-        return publishedSteps;
-    }
-
-    @Override
-    public long acceptedSteps() {
-        return publishedAccepted;
-    }
-
-    @Override
-    public double cpuSeconds() {
-        return cpuNanos / 1e9;
-    }
-
-    @Override
-    public DrawStore draws() {
-        return draws;
+    void move() {
+        step();
     }
 
     /** Current log π(Λ) (tests). */
@@ -551,7 +506,8 @@ final class PartitionChain implements ChainRunner.Chain {
         return delta;
     }
 
-    private void record() {
+    @Override
+    void record() {
         float[] row = new float[edgeOffset[n]];
         int[] sets = new int[n];
         for (int i = 0; i < n; i++) {

@@ -2,7 +2,6 @@ package org.edgewise.driver.average;
 
 import java.util.ArrayList;
 import java.util.List;
-import java.util.SplittableRandom;
 
 /**
  * Partition MCMC (Kuipers &amp; Moffa 2017) for the structure-modular DAG prior: several
@@ -43,40 +42,13 @@ public final class PartitionMcmc {
 
     /** Runs the chains. {@code listener} may be null. */
     public static Result run(LocalScores ls, OrderConstraints oc, OrderMcmc.Settings s, ChainRunner.Listener listener) {
-        int n = ls.variableCount();
         checkTiers(ls, oc);
-        int[] offset = new int[n + 1];
-        for (int i = 0; i < n; i++) {
-            offset[i + 1] = offset[i] + ls.candidates(i).length;
-        }
-        int[] edgeFrom = new int[offset[n]];
-        int[] edgeTo = new int[offset[n]];
-        for (int i = 0; i < n; i++) {
-            int[] cand = ls.candidates(i);
-            for (int k = 0; k < cand.length; k++) {
-                edgeFrom[offset[i] + k] = cand[k];
-                edgeTo[offset[i] + k] = i;
-            }
-        }
-        long t0 = System.nanoTime();
-        ChildTables tables = new ChildTables(ls, s.tableBudget());
-        SplittableRandom root = new SplittableRandom(s.seed());
-        List<PartitionChain> chains = new ArrayList<>();
-        for (int c = 0; c < s.chains(); c++) {
-            DrawStore store = s.untilConverged()
-                    ? new DrawStore(offset[n], Math.max(s.draws(), OrderMcmc.UNTIL_CONVERGED_DRAWS), 1, 0)
-                    : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
-            chains.add(new PartitionChain(ls, tables, oc, offset, s.features(), root.split(), store));
-        }
-        double setup = (System.nanoTime() - t0) / 1e9;
-        List<String> names = new ArrayList<>();
-        for (var v : ls.store().variables()) {
-            names.add(v.name());
-        }
-        MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
-        ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
-                Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
-        OrderMcmc.Result r = OrderMcmc.summarise(ls, chains, offset, s, out, setup, edgeFrom.length);
+        int[] offset = OrderMcmc.edgeOffsets(ls);
+        OrderMcmc.Run<PartitionChain> run = OrderMcmc.runChains(ls, offset, s, listener, (tables, rng, store) ->
+                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store));
+        List<PartitionChain> chains = run.chains();
+        ChainRunner.Outcome out = run.outcome();
+        OrderMcmc.Result r = run.result();
         int draws = r.report().drawsPerChain();
         List<List<int[]>> dags = new ArrayList<>();
         List<PartitionChain.State> used = new ArrayList<>();

@@ -154,15 +154,31 @@ final class SinkRecursion {
         }
     }
 
-    /** Members of V∖W into {@code sc.vars}, their log α(W) into {@code sc.aw}; returns how many. */
-    private int complement(int w, double[][] alpha, Scratch sc) {
+    /**
+     * Starts the enumeration of the subsets T of V∖W: the members of V∖W into {@code sc.vars},
+     * their log α(W) into {@code sc.aw}, log P(∅) = 0 and W ∪ ∅ = W at index 0; returns |V∖W|.
+     */
+    private int begin(int w, double[][] alpha, Scratch sc) {
         int cn = 0;
         for (int rest = full & ~w; rest != 0; rest &= rest - 1) {
             int v = Integer.numberOfTrailingZeros(rest);
             sc.vars[cn] = v;
             sc.aw[cn++] = alpha[v][ExactOrderSum.compress(w, v)];
         }
+        sc.logP[0] = 0;
+        sc.sets[0] = w;
         return cn;
+    }
+
+    /**
+     * The subset with index t ≥ 1 (bit b = member {@code sc.vars[b]}) from t without its lowest bit:
+     * logP[t] = Σ_{b ∈ t} log α_{vars[b]}(W), sets[t] = W ∪ T. Small enough to be inlined in the loops.
+     */
+    private static void extend(int t, Scratch sc) {
+        int low = Integer.numberOfTrailingZeros(t);
+        int prev = t & (t - 1);
+        sc.logP[t] = sc.logP[prev] + sc.aw[low];
+        sc.sets[t] = sc.sets[prev] | (1 << sc.vars[low]);
     }
 
     private void push(int w, double[][] alpha, double[] r, double[] f, double[] acc, Scratch sc) {
@@ -170,19 +186,11 @@ final class SinkRecursion {
         if (rw == Double.NEGATIVE_INFINITY) {
             return;
         }
-        int cn = complement(w, alpha, sc);
-        double[] logP = sc.logP;
-        int[] sets = sc.sets;
-        logP[0] = 0;
-        sets[0] = w;
-        int end = 1 << cn;
+        int end = 1 << begin(w, alpha, sc);
         for (int t = 1; t < end; t++) {
-            int low = Integer.numberOfTrailingZeros(t);
-            int prev = t & (t - 1);
-            double lp = logP[prev] + sc.aw[low];
-            int s = sets[prev] | (1 << sc.vars[low]);
-            logP[t] = lp;
-            sets[t] = s;
+            extend(t, sc);
+            double lp = sc.logP[t];
+            int s = sc.sets[t];
             double fs = f[s];
             if (lp == Double.NEGATIVE_INFINITY || fs == Double.NEGATIVE_INFINITY || !removable(s, s & ~w)) {
                 continue;
@@ -224,21 +232,14 @@ final class SinkRecursion {
         if (maximal != null && maximal[w] < 0) {
             return;
         }
-        int cn = complement(w, alpha, sc);
-        double[] logP = sc.logP;
-        int[] sets = sc.sets;
+        int cn = begin(w, alpha, sc);
         double[] term = sc.term;
-        logP[0] = 0;
-        sets[0] = w;
         int end = 1 << cn;
         double max = Double.NEGATIVE_INFINITY;
         for (int t = 1; t < end; t++) {
-            int low = Integer.numberOfTrailingZeros(t);
-            int prev = t & (t - 1);
-            double lp = logP[prev] + sc.aw[low];
-            int s = sets[prev] | (1 << sc.vars[low]);
-            logP[t] = lp;
-            sets[t] = s;
+            extend(t, sc);
+            double lp = sc.logP[t];
+            int s = sc.sets[t];
             double v = lp == Double.NEGATIVE_INFINITY || !removable(s, s & ~w) ? Double.NEGATIVE_INFINITY : lp + rb[s];
             term[t] = v;
             max = Math.max(max, v);

@@ -1,6 +1,5 @@
 package org.edgewise.driver.average;
 
-import java.util.Arrays;
 import java.util.Locale;
 import java.util.concurrent.atomic.AtomicLong;
 import java.util.function.LongConsumer;
@@ -216,17 +215,8 @@ public final class StructureSum {
     /** Per child, log α_i(W) over the 2^(n−1) subsets W of V∖{i}, of the weights or of the priors alone. */
     static double[][] alphas(LocalScores ls, int n, boolean priorOnly) {
         double[][] alpha = new double[n][];
-        int half = 1 << (n - 1);
         IntStream.range(0, n).parallel().forEach(i -> {
-            double[] a = new double[half];
-            Arrays.fill(a, Double.NEGATIVE_INFINITY);
-            long[] masks = ls.masks(i);
-            double[] w = priorOnly ? ls.logPriors(i) : ls.weights(i);
-            int[] cand = ls.candidates(i);
-            for (int s = 0; s < masks.length; s++) {
-                int c = ExactOrderSum.compress(ExactOrderSum.globalMask(masks[s], cand), i);
-                a[c] = LogSum.add(a[c], w[s]);
-            }
+            double[] a = ExactOrderSum.scatter(ls, i, priorOnly ? ls.logPriors(i) : ls.weights(i), false);
             ExactOrderSum.subsetZeta(a, n - 1);
             alpha[i] = a;
         });

@@ -587,20 +587,7 @@ public final class CasePredictor implements CaseProbability {
      * disagree on a variable. Throws a {@link UserError} when the evidence has probability zero.
      */
     public double logConditional(int[] target, int[] given) {
-        double lg = logProbability(given);
-        if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError(names.given() + " has probability zero under this order and store; a conditional on it is undefined");
-        }
-        int[] joint = given.clone();
-        for (int v = 0; v < n; v++) {
-            if (target[v] != CaseParser.HIDDEN) {
-                if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
-                    return Double.NEGATIVE_INFINITY;
-                }
-                joint[v] = target[v];
-            }
-        }
-        return logProbability(joint) - lg;
+        return CaseConditional.of(this, target, given, names.given() + " has probability zero under this order and store; a conditional on it is undefined");
     }
 
     /** Backward pass through the order: which factors matter for this case. */

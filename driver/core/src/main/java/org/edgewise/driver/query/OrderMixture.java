@@ -123,14 +123,9 @@ public final class OrderMixture implements CaseProbability {
         }
         int[] joint = target;
         if (given != null) {
-            joint = given.clone();
-            for (int v = 0; v < joint.length; v++) {
-                if (target[v] != CaseParser.HIDDEN) {
-                    if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
-                        return 0.0; // contradicts the evidence: probability 0 in every order
-                    }
-                    joint[v] = target[v];
-                }
+            joint = CaseConditional.joint(target, given);
+            if (joint == null) {
+                return 0.0; // contradicts the evidence: probability 0 in every order
             }
         }
         int k = parts.length;
@@ -177,20 +172,7 @@ public final class OrderMixture implements CaseProbability {
 
     @Override
     public double logConditional(int[] target, int[] given) {
-        double lg = logProbability(given);
-        if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError(names.given() + " has probability zero under the store; a conditional on it is undefined");
-        }
-        int[] joint = given.clone();
-        for (int v = 0; v < joint.length; v++) {
-            if (target[v] != CaseParser.HIDDEN) {
-                if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
-                    return Double.NEGATIVE_INFINITY;
-                }
-                joint[v] = target[v];
-            }
-        }
-        return logProbability(joint) - lg;
+        return CaseConditional.of(this, target, given, names.given() + " has probability zero under the store; a conditional on it is undefined");
     }
 
     @Override

@@ -86,20 +86,7 @@ public final class StructureCasePrediction implements CaseProbability {
 
     @Override
     public double logConditional(int[] target, int[] given) {
-        double lg = logProbability(given);
-        if (lg == Double.NEGATIVE_INFINITY) {
-            throw new UserError(ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined");
-        }
-        int[] joint = given.clone();
-        for (int v = 0; v < joint.length; v++) {
-            if (target[v] != CaseParser.HIDDEN) {
-                if (joint[v] != CaseParser.HIDDEN && joint[v] != target[v]) {
-                    return Double.NEGATIVE_INFINITY;
-                }
-                joint[v] = target[v];
-            }
-        }
-        return logProbability(joint) - lg;
+        return CaseConditional.of(this, target, given, ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined");
     }
 
     /** Every hidden variable: any of them may be a parent in some DAG, so none drops out of the sum. */

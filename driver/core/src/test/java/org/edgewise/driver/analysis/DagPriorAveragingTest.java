@@ -12,6 +12,7 @@ import java.util.List;
 import java.util.Map;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.ProjectFiles;
+import org.edgewise.driver.average.DagEnumeration;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
@@ -76,21 +77,11 @@ class DagPriorAveragingTest {
     /** Exact essential-graph features by enumeration: per DAG, the edges every member of its class orients alike. */
     static double[][][] enumeratedEssential(LocalScores ls, DagPrior prior) {
         int n = ls.variableCount();
-        double[][] logBeta = new double[n][1 << n];
-        for (int i = 0; i < n; i++) {
-            Arrays.fill(logBeta[i], Double.NEGATIVE_INFINITY);
-            for (int k = 0; k < ls.setCount(i); k++) {
-                int g = 0;
-                for (int p : ls.parents(i, k)) {
-                    g |= 1 << p;
-                }
-                logBeta[i][g] = ls.weights(i)[k];
-            }
-        }
-        List<int[]> dags = org.edgewise.driver.average.DagEnumerationAccess.allDags(n);
+        double[][] logBeta = DagEnumeration.logWeights(ls);
+        List<int[]> dags = DagEnumeration.allDags(n);
         Map<String, int[]> alike = new HashMap<>();
         for (int[] g : dags) {
-            int[] a = alike.computeIfAbsent(org.edgewise.driver.average.DagEnumerationAccess.classKey(g, n), k -> {
+            int[] a = alike.computeIfAbsent(DagEnumeration.classKey(g, n), k -> {
                 int[] x = new int[n];
                 Arrays.fill(x, -1);
                 return x;
@@ -105,7 +96,7 @@ class DagPriorAveragingTest {
                 lw[k] += logBeta[i][dags.get(k)[i]];
             }
             if (prior == DagPrior.ORDER_MODULAR) {
-                lw[k] += Math.log(org.edgewise.driver.average.DagEnumerationAccess.linearExtensions(dags.get(k), n));
+                lw[k] += Math.log(DagEnumeration.linearExtensions(dags.get(k), n));
             }
         }
         double z = LogSum.of(lw);
@@ -113,7 +104,7 @@ class DagPriorAveragingTest {
         for (int k = 0; k < dags.size(); k++) {
             double p = Math.exp(lw[k] - z);
             int[] g = dags.get(k);
-            int[] c = alike.get(org.edgewise.driver.average.DagEnumerationAccess.classKey(g, n));
+            int[] c = alike.get(DagEnumeration.classKey(g, n));
             for (int a = 0; a < n; a++) {
                 for (int b = a + 1; b < n; b++) {
                     boolean adj = ((g[b] >> a | g[a] >> b) & 1) != 0;

@@ -101,6 +101,13 @@ class ChainDiagnosticsTest {
     }
 
     private static double rhat(double[][] s) {
+        double[] wb = withinBetween(s);
+        int n = s[0].length;
+        return Math.sqrt(((n - 1.0) / n * wb[0] + wb[1]) / wb[0]);
+    }
+
+    /** W (mean within-chain variance) and B/n (variance of the chain means), each with divisor count − 1. */
+    private static double[] withinBetween(double[][] s) {
         int n = s[0].length;
         double[] means = Arrays.stream(s).mapToDouble(r -> Arrays.stream(r).average().orElseThrow()).toArray();
         double w = 0;
@@ -110,8 +117,7 @@ class ChainDiagnosticsTest {
             }
         }
         double gm = Arrays.stream(means).average().orElseThrow();
-        double b = Arrays.stream(means).map(v -> (v - gm) * (v - gm)).sum() / (s.length - 1);
-        return Math.sqrt(((n - 1.0) / n * w + b) / w);
+        return new double[] {w, Arrays.stream(means).map(v -> (v - gm) * (v - gm)).sum() / (s.length - 1)};
     }
 
     private static double ess(double[][] s) {
@@ -172,16 +178,9 @@ class ChainDiagnosticsTest {
 
     private static double varPlus(double[][] x) {
         double[][] s = ChainDiagnostics.split(x);
+        double[] wb = withinBetween(s);
         int n = s[0].length;
-        double[] means = Arrays.stream(s).mapToDouble(r -> Arrays.stream(r).average().orElseThrow()).toArray();
-        double w = 0;
-        for (int c = 0; c < s.length; c++) {
-            for (double v : s[c]) {
-                w += (v - means[c]) * (v - means[c]) / (n - 1) / s.length;
-            }
-        }
-        double gm = Arrays.stream(means).average().orElseThrow();
-        return (n - 1.0) / n * w + Arrays.stream(means).map(v -> (v - gm) * (v - gm)).sum() / (s.length - 1);
+        return (n - 1.0) / n * wb[0] + wb[1];
     }
 
     @Test

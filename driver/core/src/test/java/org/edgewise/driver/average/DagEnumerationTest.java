@@ -2,7 +2,6 @@ package org.edgewise.driver.average;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
-import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.store.ScoreStore;
@@ -16,73 +15,17 @@ import org.junit.jupiter.api.Test;
  */
 class DagEnumerationTest {
 
-    /** Every DAG on n nodes as parent bitmasks, by choosing a parent set per node and keeping the acyclic ones. */
-    static List<int[]> allDags(int n) {
-        List<int[]> out = new ArrayList<>();
-        int[] pa = new int[n];
-        fill(n, 0, pa, out);
-        return out;
-    }
-
-    private static void fill(int n, int v, int[] pa, List<int[]> out) {
-        if (v == n) {
-            if (acyclic(pa, n)) {
-                out.add(pa.clone());
-            }
-            return;
-        }
-        for (int m = 0; m < 1 << n; m++) {
-            if ((m >> v & 1) == 0) {
-                pa[v] = m;
-                fill(n, v + 1, pa, out);
-            }
-        }
-    }
-
-    /** Kahn: repeatedly remove a node whose parents are all removed. */
-    static boolean acyclic(int[] pa, int n) {
-        int removed = 0;
-        boolean progress = true;
-        while (progress) {
-            progress = false;
-            for (int v = 0; v < n; v++) {
-                if ((removed >> v & 1) == 0 && (pa[v] & ~removed) == 0) {
-                    removed |= 1 << v;
-                    progress = true;
-                }
-            }
-        }
-        return removed == (1 << n) - 1;
-    }
-
-    /** Number of orders (permutations) in which every node follows its parents. */
-    static long linearExtensions(int[] pa, int n) {
-        long[] count = new long[1 << n];
-        count[0] = 1;
-        for (int s = 0; s < 1 << n; s++) {
-            if (count[s] == 0) {
-                continue;
-            }
-            for (int v = 0; v < n; v++) {
-                if ((s >> v & 1) == 0 && (pa[v] & ~s) == 0) {
-                    count[s | 1 << v] += count[s];
-                }
-            }
-        }
-        return count[(1 << n) - 1];
-    }
-
     @Test
     void enumerationCountsTheLabelledDags() {
         // OEIS A003024 (Robinson 1973) for n = 1..5; n = 6 (3781503) would take 2^30 candidate graphs
         long[] expected = {1, 3, 25, 543, 29281};
         for (int n = 1; n <= 5; n++) {
-            assertEquals(expected[n - 1], allDags(n).size(), "n = " + n);
+            assertEquals(expected[n - 1], DagEnumeration.allDags(n).size(), "n = " + n);
         }
         // Σ_G #linear extensions(G) counts (order, DAG consistent with it) pairs = n! · 2^{n(n−1)/2}
         long pairs = 0;
-        for (int[] g : allDags(4)) {
-            pairs += linearExtensions(g, 4);
+        for (int[] g : DagEnumeration.allDags(4)) {
+            pairs += DagEnumeration.linearExtensions(g, 4);
         }
         assertEquals(24L * (1L << 6), pairs);
     }
@@ -92,25 +35,13 @@ class DagEnumerationTest {
         int n = 4;
         ScoreStore s = TestStores.random(n, 2, 3, 150, 61);
         LocalScores ls = TestStores.scores(s);
-        // log weight of parent bitmask U for child i
-        double[][] logBeta = new double[n][1 << n];
-        int[][] setIndex = new int[n][1 << n];
-        for (int i = 0; i < n; i++) {
-            Arrays.fill(logBeta[i], Double.NEGATIVE_INFINITY);
-            for (int k = 0; k < ls.setCount(i); k++) {
-                int g = 0;
-                for (int p : ls.parents(i, k)) {
-                    g |= 1 << p;
-                }
-                logBeta[i][g] = ls.weights(i)[k];
-                setIndex[i][g] = k;
-            }
-        }
-        List<int[]> dags = allDags(n);
+        double[][] logBeta = DagEnumeration.logWeights(ls);
+        int[][] setIndex = DagEnumeration.setIndex(ls);
+        List<int[]> dags = DagEnumeration.allDags(n);
         double[] lw = new double[dags.size()];
         for (int k = 0; k < dags.size(); k++) {
             int[] g = dags.get(k);
-            double w = Math.log(linearExtensions(g, n));
+            double w = Math.log(DagEnumeration.linearExtensions(g, n));
             for (int i = 0; i < n; i++) {
                 w += logBeta[i][g[i]];
             }

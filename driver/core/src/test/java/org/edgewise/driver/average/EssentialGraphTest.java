@@ -45,7 +45,7 @@ class EssentialGraphTest {
         // reproduced here by the grouping itself)
         long[] classCount = {1, 2, 11, 185, 8782};
         for (int n = 1; n <= 5; n++) {
-            List<int[]> dags = DagEnumerationTest.allDags(n);
+            List<int[]> dags = DagEnumeration.allDags(n);
             Map<String, List<int[]>> classes = new HashMap<>();
             for (int[] g : dags) {
                 classes.computeIfAbsent(classKey(g, n), k -> new ArrayList<>()).add(g);

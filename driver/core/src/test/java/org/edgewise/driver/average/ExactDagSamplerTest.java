@@ -25,7 +25,7 @@ class ExactDagSamplerTest {
                 logBeta[i][ExactOrderSum.globalMask(ls.masks(i)[s], ls.candidates(i))] = ls.weights(i)[s];
             }
         }
-        List<int[]> dags = DagEnumerationTest.allDags(n).stream().filter(g -> StructureSumTest.admitted(g, oc, n)).toList();
+        List<int[]> dags = DagEnumeration.allDags(n).stream().filter(g -> StructureSumTest.admitted(g, oc, n)).toList();
         double[] lw = new double[dags.size()];
         for (int d = 0; d < dags.size(); d++) {
             int[] g = dags.get(d);

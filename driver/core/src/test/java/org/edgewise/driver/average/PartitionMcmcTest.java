@@ -7,7 +7,6 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.SplittableRandom;
-import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.Test;
 
@@ -58,7 +57,7 @@ class PartitionMcmcTest {
             }
         }
         Map<List<Integer>, Double> out = new HashMap<>();
-        for (int[] g : DagEnumerationTest.allDags(n)) {
+        for (int[] g : DagEnumeration.allDags(n)) {
             if (!StructureSumTest.admitted(g, oc, n)) {
                 continue;
             }
@@ -114,29 +113,26 @@ class PartitionMcmcTest {
     @Test
     void partitionScoreUnderTiersForbiddenAndRequiredEdges() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        String v0 = s.variables().get(0).name();
-        String v1 = s.variables().get(1).name();
-        String v2 = s.variables().get(2).name();
-        String v3 = s.variables().get(3).name();
-        String v4 = s.variables().get(4).name();
         LocalScores plain = TestStores.scores(s);
-        assertScoresMatch(plain, OrderConstraints.of(plain, List.of(List.of(v3, v1), List.of(v0, v4, v2))), "tiers");
-        LocalScores fr = TestStores.scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)),
-                List.of(new EdgeRule(v0, v3)));
-        assertScoresMatch(fr, OrderConstraints.of(fr, List.of(List.of(v0, v4), List.of(v1, v2, v3))), "forbid + require + tiers");
+        assertScoresMatch(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0, 4, 2})), "tiers");
+        LocalScores fr = TestStores.forbidTwoRequireOne(s);
+        assertScoresMatch(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0, 4}, new int[] {1, 2, 3})), "forbid + require + tiers");
         assertScoresMatch(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
     }
 
     @Test
     void tiersThatLeaveVariablesOutAreRefused() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        LocalScores ls = TestStores.scores(s);
+        // the names a command-line front end passes (the core spells no option itself)
+        org.edgewise.driver.InputNames cli = new org.edgewise.driver.InputNames("--ess", "--forbid", "--require", "--tiers",
+                "--given", "--max-hidden-states", "--exact-cases", "--candidates K", "--draws", "--samples", "--method mcmc",
+                "--dag-prior order-modular", "--dag-prior structure-modular", "--features", "--do", "--target", "--versus");
+        LocalScores ls = LocalScores.build(s, ScoringOptions.asStored().withNames(cli));
         OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3", "v1"), List.of("v0")));
         org.edgewise.driver.UserError e = org.junit.jupiter.api.Assertions.assertThrows(org.edgewise.driver.UserError.class,
                 () -> PartitionMcmc.run(ls, oc, OrderMcmc.Settings.defaults(1), null));
-        // a library caller (InputNames.API) reads the Java names; the CLI words them as its options (cli/CliNames)
-        assertEquals("tiers with partition MCMC (dagPrior STRUCTURE_MODULAR) needs every variable in a tier; "
-                + "not listed: v2, v4; list them, or use dagPrior ORDER_MODULAR", e.getMessage());
+        assertEquals("--tiers with partition MCMC (--dag-prior structure-modular) needs every variable in a tier; "
+                + "not listed: v2, v4; list them, or use --dag-prior order-modular", e.getMessage());
     }
 
     /** Edge posteriors within 0.05 and 5 MCSE of the exact structure-modular sum. */

@@ -8,7 +8,6 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.score.StructurePrior;
-import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.Test;
 
@@ -24,23 +23,10 @@ class StructureSumTest {
 
     static Enumerated enumerate(LocalScores ls, OrderConstraints oc) {
         int n = ls.variableCount();
-        double[][] logBeta = new double[n][1 << n];
-        double[][] logRho = new double[n][1 << n];
-        int[][] setIndex = new int[n][1 << n];
-        for (int i = 0; i < n; i++) {
-            Arrays.fill(logBeta[i], Double.NEGATIVE_INFINITY);
-            Arrays.fill(logRho[i], Double.NEGATIVE_INFINITY);
-            for (int k = 0; k < ls.setCount(i); k++) {
-                int g = 0;
-                for (int p : ls.parents(i, k)) {
-                    g |= 1 << p;
-                }
-                logBeta[i][g] = ls.weights(i)[k];
-                logRho[i][g] = ls.logPriors(i)[k];
-                setIndex[i][g] = k;
-            }
-        }
-        List<int[]> dags = DagEnumerationTest.allDags(n).stream().filter(g -> admitted(g, oc, n)).toList();
+        double[][] logBeta = DagEnumeration.logWeights(ls);
+        double[][] logRho = DagEnumeration.logPriors(ls);
+        int[][] setIndex = DagEnumeration.setIndex(ls);
+        List<int[]> dags = DagEnumeration.allDags(n).stream().filter(g -> admitted(g, oc, n)).toList();
         double[] lw = new double[dags.size()];
         double[] lr = new double[dags.size()];
         for (int k = 0; k < dags.size(); k++) {
@@ -83,7 +69,7 @@ class StructureSumTest {
                 }
             }
         }
-        return DagEnumerationTest.acyclic(pa, n);
+        return DagEnumeration.acyclic(pa, n);
     }
 
     /** Number of orders allowed by {@code oc} in which every node of {@code g} follows its parents. */
@@ -96,7 +82,7 @@ class StructureSumTest {
                 }
             }
         }
-        return DagEnumerationTest.linearExtensions(pa, n);
+        return DagEnumeration.linearExtensions(pa, n);
     }
 
     static void assertMatches(LocalScores ls, OrderConstraints oc, String what) {
@@ -158,17 +144,11 @@ class StructureSumTest {
     @Test
     void equalsTheEnumerationUnderTiersForbiddenAndRequiredEdges() {
         ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        String v0 = s.variables().get(0).name();
-        String v1 = s.variables().get(1).name();
-        String v2 = s.variables().get(2).name();
-        String v3 = s.variables().get(3).name();
-        String v4 = s.variables().get(4).name();
         LocalScores plain = TestStores.scores(s);
-        assertMatches(plain, OrderConstraints.of(plain, List.of(List.of(v3, v1), List.of(v0))), "tiers");
-        LocalScores fr = TestStores.scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)),
-                List.of(new EdgeRule(v0, v3)));
+        assertMatches(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0})), "tiers");
+        LocalScores fr = TestStores.forbidTwoRequireOne(s);
         assertMatches(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
-        assertMatches(fr, OrderConstraints.of(fr, List.of(List.of(v0), List.of(v1, v2))), "forbid + require + tiers");
+        assertMatches(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0}, new int[] {1, 2})), "forbid + require + tiers");
     }
 
     @Test

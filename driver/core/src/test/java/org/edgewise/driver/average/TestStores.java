@@ -1,5 +1,6 @@
 package org.edgewise.driver.average;
 
+import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
@@ -65,5 +66,27 @@ final class TestStores {
 
     static LocalScores scores(ScoreStore s, List<EdgeRule> forbid, List<EdgeRule> require) {
         return LocalScores.build(s, new ScoringOptions(null, Double.NaN, null, forbid, require));
+    }
+
+    /** The variables' names, by index, tier by tier (tiers as {@link OrderConstraints#of} takes them). */
+    static List<List<String>> tiers(ScoreStore s, int[]... tiers) {
+        List<List<String>> out = new ArrayList<>();
+        for (int[] tier : tiers) {
+            List<String> names = new ArrayList<>();
+            for (int v : tier) {
+                names.add(s.variables().get(v).name());
+            }
+            out.add(names);
+        }
+        return out;
+    }
+
+    /** The scores of {@code s} with the edges between variables 2 and 4 forbidden both ways and 0 → 3 required. */
+    static LocalScores forbidTwoRequireOne(ScoreStore s) {
+        String v0 = s.variables().get(0).name();
+        String v2 = s.variables().get(2).name();
+        String v3 = s.variables().get(3).name();
+        String v4 = s.variables().get(4).name();
+        return scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)), List.of(new EdgeRule(v0, v3)));
     }
 }

@@ -3,6 +3,7 @@ package org.edgewise.driver.effect;
 import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.BruteForce;
+import org.edgewise.driver.average.DagEnumeration;
 import org.edgewise.driver.store.Variable;
 
 /**
@@ -98,31 +99,17 @@ final class EffectBruteForce {
         return false;
     }
 
-    /** Every DAG on n nodes with in-degree ≤ d, as sorted parent lists (acyclic by Kahn's check). */
+    /** Every DAG on n nodes with in-degree ≤ d, as sorted parent lists ({@link DagEnumeration#allDags(int, int)}). */
     static List<int[][]> allDags(int n, int d) {
         List<int[][]> out = new ArrayList<>();
-        int[] pa = new int[n];
-        fill(n, d, 0, pa, out);
+        for (int[] pa : DagEnumeration.allDags(n, d)) {
+            int[][] g = new int[n][];
+            for (int i = 0; i < n; i++) {
+                g[i] = members(pa[i], n);
+            }
+            out.add(g);
+        }
         return out;
-    }
-
-    private static void fill(int n, int d, int v, int[] pa, List<int[][]> out) {
-        if (v == n) {
-            if (acyclic(pa, n)) {
-                int[][] g = new int[n][];
-                for (int i = 0; i < n; i++) {
-                    g[i] = members(pa[i], n);
-                }
-                out.add(g);
-            }
-            return;
-        }
-        for (int m = 0; m < 1 << n; m++) {
-            if ((m >> v & 1) == 0 && Integer.bitCount(m) <= d) {
-                pa[v] = m;
-                fill(n, d, v + 1, pa, out);
-            }
-        }
     }
 
     private static int[] members(int mask, int n) {
@@ -135,21 +122,6 @@ final class EffectBruteForce {
         return out;
     }
 
-    private static boolean acyclic(int[] pa, int n) {
-        int removed = 0;
-        boolean progress = true;
-        while (progress) {
-            progress = false;
-            for (int v = 0; v < n; v++) {
-                if ((removed >> v & 1) == 0 && (pa[v] & ~removed) == 0) {
-                    removed |= 1 << v;
-                    progress = true;
-                }
-            }
-        }
-        return removed == (1 << n) - 1;
-    }
-
     /** Number of orders in which every node follows its parents (DP over subsets). */
     static long linearExtensions(int[][] parents) {
         int n = parents.length;
@@ -159,16 +131,7 @@ final class EffectBruteForce {
                 pa[v] |= 1 << p;
             }
         }
-        long[] count = new long[1 << n];
-        count[0] = 1;
-        for (int s = 0; s < 1 << n; s++) {
-            for (int v = 0; v < n; v++) {
-                if (count[s] != 0 && (s >> v & 1) == 0 && (pa[v] & ~s) == 0) {
-                    count[s | 1 << v] += count[s];
-                }
-            }
-        }
-        return count[(1 << n) - 1];
+        return DagEnumeration.linearExtensions(pa, n);
     }
 
     /** log P(D | G) by the sequential predictive ({@link BruteForce#logLik}), BDeu with this ESS. */

@@ -80,13 +80,18 @@ class ExactCasePredictionTest {
                 .logOrderSum() - exact.logZ(), exact.logProbability(x), 1e-9);
     }
 
+    /** The exact predictor (structure-modular, no constraints) over a held-out table of {@code rows} rows, BDeu ESS 1, d = 2. */
+    private static ExactCasePrediction predictor(long seed, int rows) {
+        List<Variable> vars = HeldOutData.variables(ARITIES);
+        LocalScores ls = LocalScores.build(InMemoryTally.tally(vars, HeldOutData.table(seed, rows, ARITIES), 2,
+                FamilyScore.of(ScoreKind.BDEU, 1.0)), ScoringOptions.asStored());
+        return new ExactCasePrediction(ls, OrderConstraints.none(ARITIES.length));
+    }
+
     /** A predictive distribution sums to 1 over the 2·3·2·2·3 = 72 joint states. */
     @Test
     void sumsToOne() {
-        List<Variable> vars = HeldOutData.variables(ARITIES);
-        LocalScores ls = LocalScores.build(InMemoryTally.tally(vars, HeldOutData.table(77_003L, 40, ARITIES), 2,
-                FamilyScore.of(ScoreKind.BDEU, 1.0)), ScoringOptions.asStored());
-        ExactCasePrediction exact = new ExactCasePrediction(ls, OrderConstraints.none(ARITIES.length));
+        ExactCasePrediction exact = predictor(77_003L, 40);
         double[] lp = new double[72];
         for (int code = 0; code < 72; code++) {
             lp[code] = exact.logProbability(decode(code, ARITIES));
@@ -96,10 +101,7 @@ class ExactCasePredictionTest {
 
     @Test
     void refusesHiddenVariables() {
-        List<Variable> vars = HeldOutData.variables(ARITIES);
-        LocalScores ls = LocalScores.build(InMemoryTally.tally(vars, HeldOutData.table(77_004L, 30, ARITIES), 2,
-                FamilyScore.of(ScoreKind.BDEU, 1.0)), ScoringOptions.asStored());
-        ExactCasePrediction exact = new ExactCasePrediction(ls, OrderConstraints.none(ARITIES.length));
+        ExactCasePrediction exact = predictor(77_004L, 30);
         UserError e = assertThrows(UserError.class, () -> exact.logProbability(new int[] {0, CaseParser.HIDDEN, 1, 0, 0}));
         assertEquals("ExactCasePrediction needs every variable observed; v1 is hidden", e.getMessage());
     }

@@ -9,7 +9,7 @@ import org.edgewise.driver.BruteForce;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.BestDagOrder;
-import org.edgewise.driver.average.DagEnumerationAccess;
+import org.edgewise.driver.average.DagEnumeration;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
@@ -37,7 +37,7 @@ class StructureCasePredictionTest {
     record Reference(List<Variable> vars, int[][] rows, List<int[][]> dags, double[] logPost, boolean k2, double ess) {
         static Reference of(List<Variable> vars, int[][] rows, boolean k2, double ess) {
             List<int[][]> dags = new ArrayList<>();
-            for (int[] pa : DagEnumerationAccess.allDags(vars.size())) {
+            for (int[] pa : DagEnumeration.allDags(vars.size())) {
                 int[][] parents = new int[pa.length][];
                 boolean ok = true;
                 for (int v = 0; v < pa.length; v++) {
