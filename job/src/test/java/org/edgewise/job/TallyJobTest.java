@@ -65,17 +65,7 @@ class TallyJobTest {
         assertEquals(List.of("0", "1", "2", "3"), vars.get(3).states());
         int[][] encoded = TestTables.encodeWith(vars, LABELS, rows);
         ScoreStore ref = InMemoryTally.tally(vars, encoded, 3, FamilyScore.withDefaults());
-        assertEquals(ref.families().size(), s.families().size());
-        for (int f = 0; f < ref.families().size(); f++) {
-            FamilyCounts a = ref.family(f);
-            FamilyCounts b = s.family(f);
-            assertEquals(a.child(), b.child(), "family " + f);
-            assertArrayEquals(a.parents(), b.parents(), "family " + f);
-            assertArrayEquals(a.configs(), b.configs(), "family " + f);
-            assertArrayEquals(a.counts(), b.counts(), "family " + f);
-            assertEquals(rows.length, b.total(), "family " + f + " sums to the row count");
-            assertEquals(ref.logScore(f), s.logScore(f), 1e-9, "family " + f);
-        }
+        TestTables.assertSameFamilies(ref, s, rows.length);
         Manifest m = s.manifest();
         assertEquals(600, m.input().rows());
         assertEquals(3, m.maxParents());

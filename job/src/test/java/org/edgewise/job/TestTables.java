@@ -1,5 +1,8 @@
 package org.edgewise.job;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+
 import java.io.IOException;
 import java.io.StringWriter;
 import java.io.PrintWriter;
@@ -12,6 +15,7 @@ import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.network.RandomNetwork;
+import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
 import org.edgewise.driver.store.Variable;
@@ -90,5 +94,25 @@ final class TestTables {
 
     static ScoreStore read(Path store) {
         return StoreReader.read(store);
+    }
+
+    /**
+     * {@code s} holds the reference's families with the same counts (exactly) and scores (to 1e-9);
+     * with {@code rows} ≥ 0 every family's counts also add up to that many rows.
+     */
+    static void assertSameFamilies(ScoreStore ref, ScoreStore s, long rows) {
+        assertEquals(ref.families().size(), s.families().size());
+        for (int f = 0; f < ref.families().size(); f++) {
+            FamilyCounts a = ref.family(f);
+            FamilyCounts b = s.family(f);
+            assertEquals(a.child(), b.child(), "family " + f);
+            assertArrayEquals(a.parents(), b.parents(), "family " + f);
+            assertArrayEquals(a.configs(), b.configs(), "family " + f);
+            assertArrayEquals(a.counts(), b.counts(), "family " + f);
+            if (rows >= 0) {
+                assertEquals(rows, b.total(), "family " + f + " sums to the row count");
+            }
+            assertEquals(ref.logScore(f), s.logScore(f), 1e-9, "family " + f);
+        }
     }
 }
