@@ -36,18 +36,19 @@ edgewise_build_if_needed() {
 
 # A module's runtime classpath: its "compile" (compile + provided) and "runtime" (compile +
 # runtime) classpath files joined, duplicates dropped, order kept. Never test-scoped jars
-# (NOTES-deps pitfall 8): those are only in classpath-test.txt, which the benchmarks use.
+# (NOTES-deps pitfall 8): no classpath file lists them.
 edgewise_module_classpath() {
   local dir=$1
   { tr ':' '\n' < "$dir/$edgewise_target/classpath-compile.txt"; echo; tr ':' '\n' < "$dir/$edgewise_target/classpath-runtime.txt"; echo; } \
     | awk 'NF && !seen[$0]++' | paste -sd: -
 }
 
-# A module's benchmark classpath: its classes, test classes (src/bench/java is compiled with the
-# tests) and every scope's jars.
+# A module's benchmark classpath: its classes and test classes (src/bench/java is compiled with the
+# tests), the core's test fixtures (driver/core/target/test-classes) and its runtime jars — no
+# test-scoped jar (JUnit and friends are not needed to run a benchmark).
 edgewise_bench_classpath() {
   local dir=$1
-  echo "$dir/$edgewise_target/test-classes:$dir/$edgewise_target/classes:$(cat "$dir/$edgewise_target/classpath-test.txt")"
+  echo "$dir/$edgewise_target/test-classes:$dir/$edgewise_target/classes:$root/driver/core/$edgewise_target/test-classes:$(edgewise_module_classpath "$dir")"
 }
 
 # Spark 3.5 and 4 on Java 17 need these module flags (org.apache.spark.launcher.JavaModuleOptions).
