@@ -1,6 +1,5 @@
 package org.edgewise.job;
 
-import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import java.io.IOException;
@@ -13,7 +12,6 @@ import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.score.FamilyScore;
-import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeAll;
@@ -31,7 +29,6 @@ class QuotedLinesTest {
     static SparkSession spark;
     @TempDir
     static Path dir;
-    static int runs;
 
     @BeforeAll
     static void start() {
@@ -49,22 +46,11 @@ class QuotedLinesTest {
     }
 
     static ScoreStore tally(Path input, String... extra) {
-        Path out = dir.resolve("store" + (runs++));
-        List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
-        args.addAll(List.of(extra));
-        TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));
-        assertEquals(0, r.status(), r.err());
-        return TestTables.read(out);
+        return TestTables.tallyInto(spark, dir, input, extra);
     }
 
     static void refused(String expected, Path input) throws IOException {
-        byte[] before = Files.readAllBytes(input);
-        Path out = dir.resolve("store" + (runs++));
-        TestTables.Run r = TestTables.tally(spark, "--input", input.toString(), "--out", out.toString());
-        assertEquals(2, r.status(), r.err());
-        assertEquals(expected, r.err());
-        assertEquals(false, Files.exists(out), "nothing written");
-        assertArrayEquals(before, Files.readAllBytes(input));
+        TestTables.assertRefused(spark, dir, expected, input);
     }
 
     @Test

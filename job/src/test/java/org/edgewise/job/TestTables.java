@@ -11,6 +11,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.concurrent.atomic.AtomicInteger;
 import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
@@ -114,5 +115,34 @@ final class TestTables {
             }
             assertEquals(ref.logScore(f), s.logScore(f), 1e-9, "family " + f);
         }
+    }
+
+    /** Numbers the stores the input tests write, so each run gets a fresh --out. */
+    private static final AtomicInteger STORES = new AtomicInteger();
+
+    /** Tallies {@code input} (plus {@code extra} options) into a new store under {@code dir}; asserts success and reads it. */
+    static ScoreStore tallyInto(SparkSession spark, Path dir, Path input, String... extra) {
+        Path out = dir.resolve("store" + STORES.getAndIncrement());
+        List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
+        args.addAll(List.of(extra));
+        Run r = tally(spark, args.toArray(String[]::new));
+        assertEquals(0, r.status(), r.err());
+        return read(out);
+    }
+
+    /**
+     * {@code tally} refuses {@code input} with exactly {@code expected} on standard error and exit 2,
+     * writes no store and leaves the input byte for byte as it was.
+     */
+    static void assertRefused(SparkSession spark, Path dir, String expected, Path input, String... extra) throws IOException {
+        byte[] before = Files.readAllBytes(input);
+        Path out = dir.resolve("store" + STORES.getAndIncrement());
+        List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
+        args.addAll(List.of(extra));
+        Run r = tally(spark, args.toArray(String[]::new));
+        assertEquals(2, r.status(), r.err());
+        assertEquals(expected, r.err());
+        assertEquals(false, Files.exists(out), "nothing written");
+        assertArrayEquals(before, Files.readAllBytes(input));
     }
 }

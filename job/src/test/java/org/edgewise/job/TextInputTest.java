@@ -1,6 +1,5 @@
 package org.edgewise.job;
 
-import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import java.io.IOException;
@@ -24,7 +23,6 @@ class TextInputTest {
     static SparkSession spark;
     @TempDir
     static Path dir;
-    static int runs;
 
     @BeforeAll
     static void start() {
@@ -32,24 +30,11 @@ class TextInputTest {
     }
 
     static ScoreStore tally(Path input, String... extra) {
-        Path out = dir.resolve("store" + (runs++));
-        List<String> args = new java.util.ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
-        args.addAll(List.of(extra));
-        TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));
-        assertEquals(0, r.status(), r.err());
-        return TestTables.read(out);
+        return TestTables.tallyInto(spark, dir, input, extra);
     }
 
     static void refused(String expected, Path input, String... extra) throws IOException {
-        byte[] before = Files.readAllBytes(input);
-        Path out = dir.resolve("store" + (runs++));
-        List<String> args = new java.util.ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
-        args.addAll(List.of(extra));
-        TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));
-        assertEquals(2, r.status(), r.err());
-        assertEquals(expected, r.err());
-        assertEquals(false, Files.exists(out), "nothing written");
-        assertArrayEquals(before, Files.readAllBytes(input));
+        TestTables.assertRefused(spark, dir, expected, input, extra);
     }
 
     @Test
