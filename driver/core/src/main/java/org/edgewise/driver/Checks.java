@@ -33,6 +33,9 @@ public final class Checks {
     /** Template of {@link #unitInterval}: {@code what}, the value. */
     static final String NOT_IN_UNIT_INTERVAL = "%s must be in [0, 1), got %s";
 
+    /** Template of {@link #between}: {@code what}, the least, the largest, the value. */
+    static final String NOT_BETWEEN = "%s must be between %s and %s, got %s";
+
     /** Template of {@link #notApplicable}: the option, the situation, why. */
     static final String NOT_APPLICABLE = "%s does not apply %s: %s";
 
@@ -126,6 +129,14 @@ public final class Checks {
     public static double unitInterval(double value, String what) {
         if (!(value >= 0 && value < 1)) {
             throw new UserError(String.format(Locale.ROOT, NOT_IN_UNIT_INTERVAL, what, value));
+        }
+        return value;
+    }
+
+    /** {@code lo ≤ value ≤ hi} (a target, a share); NaN is refused too. */
+    public static double between(double value, double lo, double hi, String what) {
+        if (!(value >= lo && value <= hi)) {
+            throw new UserError(String.format(Locale.ROOT, NOT_BETWEEN, what, lo, hi, value));
         }
         return value;
     }

@@ -25,6 +25,20 @@ public interface ProgressListener {
     default void chainState(double acceptance, double maxRhat, double minEss) {
     }
 
+    /**
+     * MCMC after a convergence check: the acceptance rate, the largest R̂, the smallest bulk-ESS and
+     * the largest Monte Carlo standard error of a reported probability (each NaN before the first
+     * check), with the targets each is held to.
+     */
+    record ChainState(double acceptance, double maxRhat, double minEss, double maxMcse, double rhatTarget,
+                      double essTarget, double mcseTarget) {
+    }
+
+    /** MCMC progress with the MCSE and the targets; by default passed on to {@link #chainState(double, double, double)}. */
+    default void chainState(ChainState s) {
+        chainState(s.acceptance(), s.maxRhat(), s.minEss());
+    }
+
     /** The current task ended (normally or not). */
     default void finish() {
     }

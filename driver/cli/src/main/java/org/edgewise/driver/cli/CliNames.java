@@ -5,6 +5,7 @@ import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.report.AssessHint;
+import org.edgewise.driver.report.RunHint;
 
 /** The command line's names of the inputs the core names in its messages ({@link InputNames}). */
 final class CliNames {
@@ -16,6 +17,13 @@ final class CliNames {
 
     /** How a report tells the reader to get essential-graph features. */
     static final AssessHint ASSESS = new AssessHint("edges", "--features essential-graph");
+
+    /** The option that sets the MCSE target of a run until converged. */
+    static final String MCSE_TARGET = "--mcse-target";
+
+    /** How the convergence advice names the ways to run differently. */
+    static final RunHint RUN = new RunHint("--max-time", "--max-steps", "no --steps, or --until-rhat", MCSE_TARGET,
+            "--chains", "--method exact", "--dag-prior order-modular");
 
     private CliNames() {
     }

@@ -38,11 +38,24 @@ final class ProgressBars implements ProgressListener {
 
     @Override
     public synchronized void chainState(double acceptance, double maxRhat, double minEss) {
+        chainState(new ChainState(acceptance, maxRhat, minEss, Double.NaN, 1.01, 400, Double.NaN));
+    }
+
+    @Override
+    public synchronized void chainState(ChainState s) {
         if (bar != null) {
-            bar.extra(String.format(Locale.ROOT, "acceptance %.3f  worst R-hat %s (< 1.01)  min ESS %s (>= 400)", acceptance,
-                    Double.isNaN(maxRhat) ? "-" : String.format(Locale.ROOT, "%.3f", maxRhat),
-                    Double.isNaN(minEss) ? "-" : String.format(Locale.ROOT, "%.0f", minEss)));
+            bar.extra(line(s));
         }
+    }
+
+    /** The bar's MCMC text: acceptance, then each figure of the last check with its target. */
+    static String line(ChainState s) {
+        return String.format(Locale.ROOT, "acceptance %.3f  worst R-hat %s (< %s)  min ESS %s (>= %.0f)%s", s.acceptance(),
+                Double.isNaN(s.maxRhat()) ? "-" : Double.isInfinite(s.maxRhat()) ? "inf" : String.format(Locale.ROOT, "%.3f", s.maxRhat()),
+                UnknownOrderEdges.trim(s.rhatTarget()), Double.isNaN(s.minEss()) ? "-" : String.format(Locale.ROOT, "%.0f", s.minEss()),
+                s.essTarget(), Double.isNaN(s.mcseTarget()) ? "" : String.format(Locale.ROOT, "  max MCSE %s (<= %s)",
+                        Double.isNaN(s.maxMcse()) ? "-" : String.format(Locale.ROOT, "%.4f", s.maxMcse()),
+                        UnknownOrderEdges.trim(s.mcseTarget())));
     }
 
     @Override

@@ -65,7 +65,7 @@ final class ReportCommand implements Callable<Integer> {
             EdgeMatrix m = EdgeMatrix.of(r);
             text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()), CliNames.ASSESS);
         } else {
-            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold, CliNames.ASSESS);
+            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold, CliNames.ASSESS, CliNames.RUN);
             if (effect != null) {
                 text = EffectSection.insertInto(text, EffectResult.read(effect));
             }

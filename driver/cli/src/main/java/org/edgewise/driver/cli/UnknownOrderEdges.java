@@ -12,6 +12,7 @@ import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.TooLargeForExact;
 import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.UserError;
@@ -55,23 +56,27 @@ final class UnknownOrderEdges {
         }
     }
 
-    /** Why a run is not converged, in one line: the stop reason, the targets and the worst quantities. */
+    /** Why a run is not converged, in one line: the stop reason, the targets, the worst quantities and what to do. */
     static String notConverged(EdgeResult.Diagnostics d) {
         StringBuilder sb = new StringBuilder(String.format(Locale.ROOT,
-                "edges: WARNING: not converged (%s; needs R-hat < %s and bulk ESS >= %.0f for every quantity): "
+                "edges: WARNING: not converged (%s; needs R-hat < %s, bulk ESS >= %.0f%s for every quantity): "
                         + "the posteriors are not reliable. Worst:", d.stopReason() == null ? "?" : stopText(d.stopReason()),
-                d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget()));
-        if (d.worst() != null) {
+                d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget(),
+                d.mcseTarget() == null ? "" : " and MCSE <= " + trim(d.mcseTarget())));
+        if (d.worst() != null && !d.worst().isEmpty()) {
             for (EdgeResult.Worst w : d.worst()) {
-                sb.append(String.format(Locale.ROOT, " %s (R-hat %s, ESS %s)%s", w.quantity(),
+                sb.append(String.format(Locale.ROOT, " %s (R-hat %s, ESS %s, MCSE %s)%s", w.quantity(),
                         w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()),
                         w.ess() == null ? "-" : String.format(Locale.ROOT, "%.0f", w.ess()),
+                        w.mcse() == null ? "-" : String.format(Locale.ROOT, "%.4f", w.mcse()),
                         "stuck".equals(w.state()) ? " stuck" : ""));
                 sb.append(';');
             }
             sb.setLength(sb.length() - 1);
+        } else {
+            sb.append(" -");
         }
-        sb.append(". Run longer (--max-time) or check the traces");
+        sb.append(". ").append(ConvergenceAdvice.next(d, CliNames.RUN).get(0));
         return sb.toString();
     }
 
@@ -80,12 +85,14 @@ final class UnknownOrderEdges {
             case "max-time" -> "stopped at the time budget";
             case "max-steps" -> "stopped at the step cap";
             case "steps" -> "ran the requested --steps";
+            case "converged" -> "the chains met the targets, the reported posteriors did not";
             default -> reason;
         };
     }
 
-    private static String trim(double x) {
-        return String.format(Locale.ROOT, "%s", x).replaceAll("0+$", "");
+    /** {@code x} without trailing zeros: 1.01, 0.01, 400. */
+    static String trim(double x) {
+        return java.math.BigDecimal.valueOf(x).stripTrailingZeros().toPlainString();
     }
 
     /** The exact method's refusal in the launcher's words. */
@@ -123,19 +130,42 @@ final class UnknownOrderEdges {
         return sb.toString();
     }
 
-    /** Lines for the terminal table: the MCMC diagnostics and features, most probable first. */
+    /** The convergence block of a sampled result: verdict, why it stopped, targets, worst quantities, what to do next. */
+    static String convergence(EdgeResult.Diagnostics d) {
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%nConvergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)%n"));
+        line(sb, "verdict", ConvergenceAdvice.verdict(d));
+        line(sb, "stopped", ConvergenceAdvice.stopped(d) + (d.stopReason() == null ? "" : " (" + d.stopReason() + ")"));
+        line(sb, "targets", ConvergenceAdvice.targets(d));
+        line(sb, "reached", ConvergenceAdvice.reached(d));
+        if (d.worst() != null) {
+            for (int k = 0; k < d.worst().size(); k++) {
+                line(sb, k == 0 ? "worst" : "", ConvergenceAdvice.worst(d.worst().get(k)));
+            }
+        }
+        List<String> next = ConvergenceAdvice.next(d, CliNames.RUN);
+        for (int k = 0; k < next.size(); k++) {
+            line(sb, k == 0 ? "next" : "", next.get(k));
+        }
+        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail ESS %s",
+                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
+                d.essTail() == null ? "-" : String.format(Locale.ROOT, "%.0f", d.essTail())));
+        return sb.toString();
+    }
+
+    private static void line(StringBuilder sb, String key, String text) {
+        sb.append(String.format(Locale.ROOT, "  %-8s  %s%n", key, text));
+    }
+
+    /** Lines for the terminal table: the convergence block (sampled) or the word exact, and features, most probable first. */
     static String summary(EdgeResult r) {
         StringBuilder sb = new StringBuilder();
         EdgeResult.Diagnostics d = r.diagnostics();
         if (d != null) {
-            sb.append(String.format(Locale.ROOT,
-                    "%nOrder MCMC: %d chains x %d steps (+ %d burn-in), seed %d, acceptance %.3f%s%n"
-                            + "  largest rank-normalised split-R-hat %.4f, smallest bulk ESS %.0f, smallest tail ESS %s: %s%n",
-                    d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
-                    d.stopReason() == null ? "" : ", " + stopText(d.stopReason()),
-                    d.rhat(), d.ess(), d.essTail() == null ? "-" : String.format(Locale.ROOT, "%.0f", d.essTail()),
-                    d.converged() ? "converged (every quantity R-hat < " + (d.rhatTarget() == null ? RHAT_WARN : d.rhatTarget())
-                            + ", bulk ESS >= 400)" : "NOT converged, do not trust"));
+            sb.append(convergence(d));
+        } else if ("exact".equals(r.method())) {
+            sb.append(String.format(Locale.ROOT, "%nEdge posteriors are exact (summed over every order or DAG, not sampled): "
+                    + "no Monte Carlo error, no convergence to check.%n"));
         }
         if (r.essentialGraph() != null) {
             sb.append(essentialTable(r));

@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.ConvergenceTargets;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import picocli.CommandLine.Option;
@@ -20,7 +21,7 @@ public final class UnknownOrderOptions {
     @Option(names = "--chains", paramLabel = "M", defaultValue = "4", description = "mcmc: number of chains, each from its own random order (default ${DEFAULT-VALUE})") public int chains;
 
     @Option(names = "--steps", paramLabel = "N", description = "mcmc: run exactly N steps per chain after burn-in "
-            + "(default: run until converged: R-hat < 1.01 and bulk ESS >= 400 for every edge, or --max-time)")
+            + "(default: run until converged: R-hat < 1.01, bulk ESS >= 400 and MCSE <= 0.01 for every edge, or --max-time)")
     public Long steps;
 
     @Option(names = "--burn-in", paramLabel = "N", description = "mcmc with --steps: steps per chain discarded first (default: a quarter of --steps; "
@@ -32,6 +33,11 @@ public final class UnknownOrderOptions {
     @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
             + "bulk ESS >= 400; with --steps, the first check comes after --steps")
     public Double untilRhat;
+
+    @Option(names = CliNames.MCSE_TARGET, paramLabel = "T", description = "mcmc: also require every edge and feature posterior "
+            + "to have a Monte Carlo standard error <= T (default 0.01, so that two seeds agree within about 0.05; between "
+            + "0.005 and 0.5; 0.5 asks for nothing beyond the ESS)")
+    public Double mcseTarget;
 
     @Option(names = "--max-steps", paramLabel = "N", description = "mcmc until converged: cap on steps per chain (default: none)")
     public Long maxSteps;
@@ -73,6 +79,9 @@ public final class UnknownOrderOptions {
             if (!until && maxTime != null) {
                 throw new UserError("--max-time applies when running until converged (no --steps, or --until-rhat)");
             }
+            if (mcseTarget != null) {
+                ConvergenceTargets.mcse(mcseTarget, CliNames.MCSE_TARGET);
+            }
             if (maxTime != null && !(maxTime > 0)) {
                 throw new UserError("--max-time must be above 0 seconds, got " + maxTime);
             }
@@ -84,7 +93,7 @@ public final class UnknownOrderOptions {
             Checks.atLeast(orderSamples, 1, "--samples");
         }
         return new UnknownOrderSettings(method, tierLists(), seed, chains, steps, burnIn, draws, untilRhat, maxSteps,
-                maxTime, anc, mb, orderSamples, topParents, prior(), eg);
+                maxTime, anc, mb, orderSamples, topParents, prior(), eg, mcseTarget);
     }
 
     /** The tiers as lists of names. */

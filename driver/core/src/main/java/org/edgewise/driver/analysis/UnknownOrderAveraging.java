@@ -45,10 +45,10 @@ public final class UnknownOrderAveraging {
             OrderConstraints oc = s.constraints(ls);
             return s.method() == UnknownOrderSettings.Method.EXACT
                     ? DagPriorAveraging.exact(ls, storePath, s, oc, settings(ls, oc), progress)
-                    : DagPriorAveraging.mcmc(ls, storePath, s, oc, settings(ls, oc), progress);
+                    : ReportedMcse.check(DagPriorAveraging.mcmc(ls, storePath, s, oc, settings(ls, oc), progress));
         }
         return s.method() == UnknownOrderSettings.Method.EXACT ? exact(ls, storePath, s, progress)
-                : mcmc(ls, storePath, s, progress);
+                : ReportedMcse.check(mcmc(ls, storePath, s, progress));
     }
 
     private static EdgeResult.Settings settings(LocalScores ls, OrderConstraints oc) {
@@ -143,13 +143,13 @@ public final class UnknownOrderAveraging {
         MultiChainDiagnostics.Report rep = r.report();
         List<EdgeResult.Worst> worst = new ArrayList<>();
         for (MultiChainDiagnostics.Worst w : rep.worst()) {
-            worst.add(new EdgeResult.Worst(w.quantity(), finite(w.rhat()), finite(w.essBulk()), finite(w.essTail()),
-                    w.state().label()));
+            worst.add(new EdgeResult.Worst(w.quantity(), finite(w.rhat()), finite(w.essBulk()), finite(w.mcse()),
+                    finite(w.essTail()), w.state().label()));
         }
         return new EdgeResult.Diagnostics(s.chains(), r.stepsPerChain(), r.burnIn(), s.seed(),
                 r.acceptance(), r.maxRhat(), Double.isNaN(r.minEss()) ? 0 : r.minEss(), r.converged(), traces,
                 (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery), s.rhatTarget(), ChainDiagnostics.ESS_TARGET,
-                finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(), rep.settled(), rep.stuck(),
+                s.targets().mcse(), finite(rep.maxMcse()), finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(), rep.settled(), rep.stuck(),
                 ChainDiagnostics.SETTLE_SPAN, worst, rep.drawsPerChain(), OrderMcmc.Settings.DEFAULT_RELOCATE,
                 r.outcome().checks(), r.outcome().checkSeconds(), r.outcome().samplingSeconds());
     }

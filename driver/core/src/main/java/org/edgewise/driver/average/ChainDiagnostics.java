@@ -70,10 +70,19 @@ public final class ChainDiagnostics {
     public record Summary(double mean, double rhat, double essBulk, double essTail, double mcse, State state) {
         /** Whether this quantity meets R̂ &lt; {@code rhatTarget} and bulk-ESS ≥ {@link #ESS_TARGET} (or does not vary enough to matter). */
         public boolean converged(double rhatTarget) {
+            return converged(ConvergenceTargets.withRhat(rhatTarget), false);
+        }
+
+        /**
+         * Whether this quantity meets the targets: R̂ &lt; {@code t.rhat()}, bulk-ESS ≥ {@code t.ess()}
+         * and, when it is a reported {@code probability}, MCSE ≤ {@code t.mcse()} (an undefined MCSE
+         * fails); constant and settled quantities do not vary enough to matter, stuck ones fail.
+         */
+        public boolean converged(ConvergenceTargets t, boolean probability) {
             return switch (state) {
                 case CONSTANT, SETTLED -> true;
                 case STUCK -> false;
-                case VARIES -> rhat < rhatTarget && essBulk >= ESS_TARGET;
+                case VARIES -> rhat < t.rhat() && essBulk >= t.ess() && (!probability || mcse <= t.mcse());
             };
         }
     }

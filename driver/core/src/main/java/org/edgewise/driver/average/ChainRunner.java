@@ -13,11 +13,14 @@ import java.util.function.BooleanSupplier;
 
 /**
  * Runs several Markov chains, each on its own thread, either for a fixed number of steps or
- * until {@link MultiChainDiagnostics} says converged, the step cap or the time budget is reached.
+ * until {@link MultiChainDiagnostics} says converged (R̂, bulk-ESS and MCSE targets,
+ * {@link ConvergenceTargets}), the step cap or the time budget is reached.
  * Sampler-independent: order MCMC today; any chain that fills a {@link DrawStore} plugs in.
  *
  * <p>Until converged: the first check after {@code steps} steps per chain, then rounds that double
- * the steps done so far, so there are O(log(total/first)) checks, each over at most 2·cap
+ * the steps done so far — for as long as any target is missed, the MCSE one included: a run whose
+ * R̂ and ESS are met keeps doubling until every reported probability's MCSE is at most its target
+ * (MCSE falls as 1/√steps once the chains mix) — so there are O(log(total/first)) checks, each over at most 2·cap
  * stored draws per chain — the checks together cost a bounded share of the sampling. At every
  * check the first half of each chain is discarded as warm-up (Gelman et al., Bayesian Data
  * Analysis, 3rd ed., sec. 11.4) and the rest diagnosed. Rounds end at step counts only, so a
@@ -48,10 +51,10 @@ public final class ChainRunner {
      * @param untilConverged run until converged (else exactly burnIn + steps)
      * @param maxSteps       until converged: cap on steps per chain
      * @param maxSeconds     until converged: wall-clock budget of the sampling
-     * @param rhatTarget     R̂ below which a quantity counts as converged
+     * @param targets        what counts as converged (R̂, bulk-ESS, MCSE of the probabilities)
      */
     public record Plan(long steps, long burnIn, boolean untilConverged, long maxSteps, double maxSeconds,
-                       double rhatTarget) {
+                       ConvergenceTargets targets) {
     }
 
     /** Why a run stopped. */
@@ -124,7 +127,7 @@ public final class ChainRunner {
                     done = advance(pool, chains, target - done, stop, report, l, target) + done;
                     done = minSteps(chains);
                     long c0 = System.nanoTime();
-                    report = MultiChainDiagnostics.evaluate(stores, done / 2, q, p.rhatTarget());
+                    report = MultiChainDiagnostics.evaluate(stores, done / 2, q, p.targets());
                     checkSec += (System.nanoTime() - c0) / 1e9;
                     checks++;
                     if (l != null) {
@@ -152,7 +155,7 @@ public final class ChainRunner {
         long discarded = p.untilConverged() ? done / 2 : p.burnIn();
         if (!p.untilConverged()) {
             long c0 = System.nanoTime();
-            report = MultiChainDiagnostics.evaluate(stores, discarded, q, p.rhatTarget());
+            report = MultiChainDiagnostics.evaluate(stores, discarded, q, p.targets());
             checkSec += (System.nanoTime() - c0) / 1e9;
             checks++;
         }

@@ -9,8 +9,10 @@ import java.util.stream.IntStream;
  * {@link ChainDiagnostics} of every quantity a sampler reports — per draw quantities (edge
  * posteriors, features) and the log score of the chains' states — over the stored draws of
  * several chains ({@link DrawStore}), with the run's verdict: converged when every quantity has
- * R̂ below the target ({@value ChainDiagnostics#RHAT_TARGET} by default) and bulk-ESS ≥ {@value ChainDiagnostics#ESS_TARGET}
- * (constant and settled ones excepted, see {@link ChainDiagnostics.State}), and otherwise the
+ * R̂ below the target ({@value ChainDiagnostics#RHAT_TARGET} by default) and bulk-ESS ≥ {@value ChainDiagnostics#ESS_TARGET},
+ * and every probability a Monte Carlo standard error ≤ the MCSE target
+ * ({@value ConvergenceTargets#DEFAULT_MCSE} by default; argued in {@link ConvergenceTargets}) —
+ * constant and settled ones excepted, see {@link ChainDiagnostics.State} — and otherwise the
  * quantities furthest from it. Any sampler whose chains fill {@link DrawStore}s (order MCMC
  * today) is diagnosed here the same way.
  *
@@ -73,8 +75,9 @@ public final class MultiChainDiagnostics {
         }
     }
 
-    /** One of the quantities furthest from convergence. */
-    public record Worst(String quantity, double rhat, double essBulk, double essTail, ChainDiagnostics.State state) {
+    /** One of the quantities furthest from convergence; {@code mcse} NaN for one that is no probability (the log score). */
+    public record Worst(String quantity, double rhat, double essBulk, double essTail, double mcse,
+                        ChainDiagnostics.State state) {
     }
 
     /**
@@ -83,24 +86,30 @@ public final class MultiChainDiagnostics {
      * @param maxRhat      largest R̂ over the quantities that decide (varying or stuck) and the log score
      * @param minEssBulk   smallest bulk-ESS over the same
      * @param minEssTail   smallest tail-ESS over the same
+     * @param maxMcse      largest MCSE over the deciding probabilities (NaN when none varies)
      * @param constant     quantities equal in every draw
      * @param settled      probabilities whose draws span less than {@value ChainDiagnostics#SETTLE_SPAN}
      * @param stuck        quantities constant within each chain but different between chains
      * @param worst        at most {@value #WORST} quantities, furthest from the targets first
      * @param drawsPerChain draws per chain used
+     * @param targets      the targets the verdict used
      */
     public record Report(ChainDiagnostics.Summary[] quantities, ChainDiagnostics.Summary logScore, double maxRhat,
-                         double minEssBulk, double minEssTail, int constant, int settled, int stuck,
-                         List<Worst> worst, boolean converged, int drawsPerChain) {
+                         double minEssBulk, double minEssTail, double maxMcse, int constant, int settled, int stuck,
+                         List<Worst> worst, boolean converged, int drawsPerChain, ConvergenceTargets targets) {
     }
 
-    /** How far a summary is from the targets: ≥ 1 fails (the larger of R̂'s and ESS's shortfall). */
-    static double badness(ChainDiagnostics.Summary s, double rhatTarget) {
+    /**
+     * How far a summary is from the targets: ≥ 1 fails — the largest of R̂'s, ESS's and (for a
+     * probability) MCSE's shortfall, each as a ratio to its target.
+     */
+    static double badness(ChainDiagnostics.Summary s, ConvergenceTargets t, boolean probability) {
         return switch (s.state()) {
             case CONSTANT, SETTLED -> 0;
             case STUCK -> Double.POSITIVE_INFINITY;
-            case VARIES -> Math.max((s.rhat() - 1) / (rhatTarget - 1),
-                    Double.isNaN(s.essBulk()) ? 0 : ChainDiagnostics.ESS_TARGET / s.essBulk());
+            case VARIES -> Math.max(Math.max((s.rhat() - 1) / (t.rhat() - 1),
+                    Double.isNaN(s.essBulk()) ? 0 : t.ess() / s.essBulk()),
+                    probability && !Double.isNaN(s.mcse()) ? s.mcse() / t.mcse() : 0);
         };
     }
 
@@ -127,8 +136,13 @@ public final class MultiChainDiagnostics {
         }
     }
 
-    /** Diagnoses the draws taken after step {@code discardUpTo} (the same window length in every chain). */
+    /** {@link #evaluate(List, long, Quantities, ConvergenceTargets)} with the default targets but R̂ target {@code rhatTarget}. */
     public static Report evaluate(List<DrawStore> chains, long discardUpTo, Quantities q, double rhatTarget) {
+        return evaluate(chains, discardUpTo, q, ConvergenceTargets.withRhat(rhatTarget));
+    }
+
+    /** Diagnoses the draws taken after step {@code discardUpTo} (the same window length in every chain) against {@code t}. */
+    public static Report evaluate(List<DrawStore> chains, long discardUpTo, Quantities q, ConvergenceTargets targets) {
         int m = chains.size();
         int[] from = new int[m];
         int len = Integer.MAX_VALUE;
@@ -155,10 +169,11 @@ public final class MultiChainDiagnostics {
         double maxRhat = 1;
         double minBulk = Double.POSITIVE_INFINITY;
         double minTail = Double.POSITIVE_INFINITY;
+        double maxMcse = Double.NaN;
         int constant = 0;
         int settled = 0;
         int stuck = 0;
-        boolean converged = ls.converged(rhatTarget);
+        boolean converged = ls.converged(targets, false);
         List<Integer> order = new ArrayList<>();
         for (int k = 0; k <= out.length; k++) {
             ChainDiagnostics.Summary s = k < out.length ? out[k] : ls;
@@ -177,19 +192,27 @@ public final class MultiChainDiagnostics {
                     minTail = Math.min(minTail, s.essTail());
                 }
             }
-            converged &= s.converged(rhatTarget);
-            if (badness(s, rhatTarget) > 0) {
+            boolean prob = k < out.length && q.probability(k);
+            if (prob && s.state() == ChainDiagnostics.State.VARIES && !(s.mcse() <= maxMcse)) {
+                maxMcse = Double.isNaN(s.mcse()) ? Double.POSITIVE_INFINITY : s.mcse();
+            }
+            converged &= s.converged(targets, prob);
+            if (badness(s, targets, prob) > 0) {
                 order.add(k);
             }
         }
-        order.sort(Comparator.comparingDouble((Integer k) -> -badness(k < out.length ? out[k] : ls, rhatTarget))
+        order.sort(Comparator.comparingDouble((Integer k) -> -badness(k < out.length ? out[k] : ls, targets,
+                        k < out.length && q.probability(k)))
                 .thenComparingInt(k -> k));
         List<Worst> worst = new ArrayList<>();
         for (int k : order.subList(0, Math.min(WORST, order.size()))) {
             ChainDiagnostics.Summary s = k < out.length ? out[k] : ls;
-            worst.add(new Worst(k < out.length ? q.label(k) : "log score", s.rhat(), s.essBulk(), s.essTail(), s.state()));
+            boolean prob = k < out.length && q.probability(k);
+            worst.add(new Worst(k < out.length ? q.label(k) : "log score", s.rhat(), s.essBulk(), s.essTail(),
+                    prob ? s.mcse() : Double.NaN, s.state()));
         }
         return new Report(out, ls, maxRhat, minBulk == Double.POSITIVE_INFINITY ? Double.NaN : minBulk,
-                minTail == Double.POSITIVE_INFINITY ? Double.NaN : minTail, constant, settled, stuck, worst, converged, draws);
+                minTail == Double.POSITIVE_INFINITY ? Double.NaN : minTail, maxMcse, constant, settled, stuck, worst,
+                converged, draws, targets);
     }
 }

@@ -34,12 +34,6 @@ import org.edgewise.driver.UserError;
  * candidate edges ≈ 10 MB).
  */
 public final class OrderMcmc {
-    /**
-     * Least draws kept per chain when running until converged: half are warm-up, and bulk-ESS ≥ 400
-     * needs well over 400 draws used in all.
-     */
-    static final int UNTIL_CONVERGED_DRAWS = 1000;
-
     private OrderMcmc() {
     }
 
@@ -50,17 +44,20 @@ public final class OrderMcmc {
      * @param seed        seed of all randomness
      * @param draws       draws stored per chain (fixed run: thinning = steps / draws; until converged:
      *                    between draws and 2·draws are kept, the thinning doubling as needed)
-     * @param untilConverged run until R̂ &lt; 1.01 and bulk-ESS ≥ 400 for every quantity, or a cap
+     * @param untilConverged run until R̂ &lt; 1.01, bulk-ESS ≥ 400 and MCSE ≤ the target for every quantity, or a cap
      * @param maxSteps    until converged: cap on steps per chain
      * @param maxSeconds  until converged: wall-clock budget of the sampling (≤ 0: none)
      * @param features    also sample a DAG per draw for ancestor and Markov-blanket features
      * @param tableBudget bytes allowed for the per-child tables
      * @param relocate    share of steps that are position (Gibbs) moves of one variable; the rest are swaps
      * @param rhatTarget  R̂ below which a quantity counts as converged ({@link ChainDiagnostics#RHAT_TARGET})
+     * @param mcseTarget  MCSE at or below which an edge or feature posterior counts as converged
+     *                    ({@link ConvergenceTargets#DEFAULT_MCSE}; until converged, at least
+     *                    {@link ConvergenceTargets#drawsPerChain} draws are kept per chain)
      */
     public record Settings(int chains, long steps, long burnIn, long seed, int draws, boolean untilConverged,
                            long maxSteps, double maxSeconds, boolean features, long tableBudget, double relocate,
-                           double rhatTarget) {
+                           double rhatTarget, double mcseTarget) {
         /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
         public static final double DEFAULT_RELOCATE = 0.1;
 
@@ -77,44 +74,54 @@ public final class OrderMcmc {
             if (!(relocate >= 0 && relocate <= 1)) {
                 throw new IllegalArgumentException("relocation share " + relocate);
             }
+            ConvergenceTargets.mcse(mcseTarget, "the Monte Carlo standard error target");
+        }
+
+        /** The targets of the convergence verdict. */
+        public ConvergenceTargets targets() {
+            return ConvergenceTargets.withRhat(rhatTarget).withMcse(mcseTarget);
+        }
+
+        public Settings withMcseTarget(double t) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, t);
         }
 
         public static Settings defaults(long seed) {
             return new Settings(4, 200_000, 50_000, seed, 1000, false, 0, 0, false, 1L << 30, DEFAULT_RELOCATE,
-                    ChainDiagnostics.RHAT_TARGET);
+                    ChainDiagnostics.RHAT_TARGET, ConvergenceTargets.DEFAULT_MCSE);
         }
 
         public Settings withSteps(long s, long b) {
-            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         public Settings withChains(int c) {
-            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         public Settings withFeatures(boolean f) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
         public Settings untilConverged(long max, double seconds) {
-            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         public Settings withSeed(long sd) {
-            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         public Settings withDraws(int d) {
-            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
         }
 
         public Settings withRhatTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t, mcseTarget);
         }
 
         public Settings withRelocate(double r) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget, mcseTarget);
         }
     }
 
@@ -221,7 +228,7 @@ public final class OrderMcmc {
         SplittableRandom root = new SplittableRandom(s.seed());
         List<C> chains = new ArrayList<>();
         for (int c = 0; c < s.chains(); c++) {
-            DrawStore store = s.untilConverged() ? new DrawStore(offset[n], Math.max(s.draws(), UNTIL_CONVERGED_DRAWS), 1, 0)
+            DrawStore store = s.untilConverged() ? new DrawStore(offset[n], s.targets().drawsPerChain(s.draws(), s.chains()), 1, 0)
                     : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
             chains.add(factory.make(tables, root.split(), store));
         }
@@ -232,7 +239,7 @@ public final class OrderMcmc {
         }
         MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
         ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
-                Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
+                Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.targets()), q, listener);
         return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length));
     }
 

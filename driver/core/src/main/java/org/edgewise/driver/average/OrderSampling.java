@@ -11,7 +11,8 @@ public final class OrderSampling {
 
     /**
      * Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and — after each
-     * convergence check — the worst R̂ and the smallest bulk-ESS to {@code progress}.
+     * convergence check — the worst R̂, the smallest bulk-ESS and the largest MCSE, with their
+     * targets, to {@code progress}.
      */
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
@@ -25,8 +26,10 @@ public final class OrderSampling {
                     shown[0] = done;
                     progress.done(done);
                 }
-                progress.chainState(acc, report == null ? Double.NaN : report.maxRhat(),
-                        report == null ? Double.NaN : report.minEssBulk());
+                ConvergenceTargets t = ms.targets();
+                progress.chainState(new ProgressListener.ChainState(acc, report == null ? Double.NaN : report.maxRhat(),
+                        report == null ? Double.NaN : report.minEssBulk(), report == null ? Double.NaN : report.maxMcse(),
+                        t.rhat(), t.ess(), t.mcse()));
             });
         } finally {
             progress.finish();

@@ -16,7 +16,8 @@ import org.edgewise.driver.UserError;
  *                      (with {@code untilRhat}: the steps before the first check)
  * @param burnIn        MCMC fixed run: steps per chain discarded first; null: a quarter of {@code steps}
  * @param draws         MCMC: draws stored per chain (fixed run: thinning = steps / draws)
- * @param untilRhat     MCMC: run until every quantity has R̂ below it and bulk-ESS ≥ 400; null: 1.01
+ * @param untilRhat     MCMC: run until every quantity has R̂ below it, bulk-ESS ≥ 400 and (edge and
+ *                      feature posteriors) MCSE ≤ {@code mcseTarget}; null: 1.01
  *                      when {@code steps} is null, else a fixed run
  * @param maxSteps      MCMC until converged: cap on steps per chain; null: none
  * @param maxSeconds    MCMC until converged: time budget of the sampling; null: {@value #DEFAULT_MAX_SECONDS} s
@@ -28,11 +29,14 @@ import org.edgewise.driver.UserError;
  * @param dagPrior      the prior over DAGs (null: {@link DagPrior#STRUCTURE_MODULAR}, the default)
  * @param essentialGraph also estimate essential-graph features (DAGs drawn from the posterior,
  *                      {@code orderSamples} of them for the exact method)
+ * @param mcseTarget    MCMC: the Monte Carlo standard error an edge or feature posterior must reach
+ *                      to count as converged; null: {@value ConvergenceTargets#DEFAULT_MCSE}
+ *                      ({@link ConvergenceTargets} argues the number)
  */
 public record UnknownOrderSettings(Method method, List<List<String>> tiers, long seed, int chains, Long steps,
                                    Long burnIn, int draws, Double untilRhat, Long maxSteps, Double maxSeconds,
                                    boolean ancestors, boolean markovBlanket, int orderSamples, int topParents,
-                                   DagPrior dagPrior, boolean essentialGraph) {
+                                   DagPrior dagPrior, boolean essentialGraph, Double mcseTarget) {
     /** Default time budget of a run until converged, seconds. */
     public static final double DEFAULT_MAX_SECONDS = 300;
     /** Steps per chain before the first convergence check when none are given. */
@@ -65,11 +69,23 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
             if (untilRhat != null && !(untilRhat > 1)) {
                 throw new UserError("the split-R-hat target must be above 1 (e.g. 1.01), got " + untilRhat);
             }
+            if (mcseTarget != null) {
+                ConvergenceTargets.mcse(mcseTarget, "the Monte Carlo standard error target");
+            }
         }
         if (method == Method.EXACT && (ancestors || markovBlanket || essentialGraph)) {
             Checks.atLeast(orderSamples, 1, "the number of order samples");
         }
         Checks.zeroOrMore(topParents, "the number of top parent sets");
+    }
+
+    /** The settings without an MCSE target of their own (the default, {@value ConvergenceTargets#DEFAULT_MCSE}). */
+    public UnknownOrderSettings(Method method, List<List<String>> tiers, long seed, int chains, Long steps,
+                                Long burnIn, int draws, Double untilRhat, Long maxSteps, Double maxSeconds,
+                                boolean ancestors, boolean markovBlanket, int orderSamples, int topParents,
+                                DagPrior dagPrior, boolean essentialGraph) {
+        this(method, tiers, seed, chains, steps, burnIn, draws, untilRhat, maxSteps, maxSeconds, ancestors, markovBlanket,
+                orderSamples, topParents, dagPrior, essentialGraph, null);
     }
 
     /** Whether features beyond single edges are estimated. */
@@ -92,6 +108,11 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         return untilRhat == null ? ChainDiagnostics.RHAT_TARGET : untilRhat;
     }
 
+    /** The targets of the convergence verdict (R̂, bulk-ESS, MCSE). */
+    public ConvergenceTargets targets() {
+        return ConvergenceTargets.withRhat(rhatTarget()).withMcse(mcseTarget == null ? ConvergenceTargets.DEFAULT_MCSE : mcseTarget);
+    }
+
     /** The burn-in of a fixed run: as given, else a quarter of the steps. */
     public long burnInSteps() {
         return burnIn != null ? burnIn : steps == null ? 0 : steps / 4;
@@ -106,7 +127,7 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         return new OrderMcmc.Settings(chains, first, burnInSteps(), seed, draws, untilConverged(),
                 maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps, maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds,
                 withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4),
-                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget());
+                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget(), targets().mcse());
     }
 
     /** The order constraints: these tiers when given, else the store's. */

@@ -14,8 +14,8 @@ import org.edgewise.driver.result.EdgeResult;
 /**
  * The HTML report of an {@code edges} result: one self-contained file (inline CSS and SVG, no
  * script, a Content-Security-Policy that forbids every fetch), readable by a person.
- * Sections: cautions, summary, consensus graph, heatmap, strongest edges, parent sets, MCMC
- * diagnostics, ESS sensitivity, recovery of a known network, features, provenance.
+ * Sections: cautions, summary, convergence (sampled results), consensus graph, heatmap, strongest
+ * edges, parent sets, MCMC diagnostics, ESS sensitivity, recovery of a known network, features, provenance.
  * Every name from the data passes through {@link Html#esc}.
  */
 public final class HtmlReport {
@@ -63,6 +63,12 @@ public final class HtmlReport {
     /** As {@link #render(EdgeResult, String, Network, String, double)}, naming how to get essential-graph features as {@code hint}. */
     public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
                                 AssessHint hint) {
+        return render(r, resultName, truth, truthName, threshold, hint, RunHint.API);
+    }
+
+    /** As {@link #render(EdgeResult, String, Network, String, double, AssessHint)}, naming how to run longer as {@code run}. */
+    public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
+                                AssessHint hint, RunHint run) {
         EdgeMatrix m = EdgeMatrix.of(r);
         ConsensusEdges ce = ConsensusEdges.of(r, m);
         List<ConsensusEdges.Drawn> shown = ce.drawn(threshold);
@@ -87,7 +93,7 @@ public final class HtmlReport {
                 .append(r.store() != null ? ", " + r.store().rows() + " rows" : "").append("</p>\n");
         Cautions.write(h, r, ce, hint);
         summary(h, r, m, shown, rec, threshold);
-        mcmcWarning(h, r.diagnostics());
+        ConvergenceSection.write(h, r, run);
 
         h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
         h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold, hint)).append(" Variables are layered by ")
@@ -143,6 +149,7 @@ public final class HtmlReport {
         h.append("<h2>Summary</h2>\n<table>\n");
         row(h, "method", esc(r.method()));
         row(h, "variables", String.valueOf(m.size()));
+        row(h, "estimates", ConvergenceSection.estimates(r));
         if (r.logEvidence() != null) {
             row(h, "log evidence", f(r.logEvidence(), 3) + (r.evidenceConvention() != null ? " (" + esc(r.evidenceConvention()) + ")" : ""));
         }
@@ -158,20 +165,6 @@ public final class HtmlReport {
                     + fig(rec.skeleton().auroc()) + ", SHD " + rec.consensus().shd());
         }
         h.append("</table>\n");
-    }
-
-    private static void mcmcWarning(StringBuilder h, EdgeResult.Diagnostics d) {
-        if (d == null) {
-            return;
-        }
-        if (d.rhat() > RHAT_LIMIT || !d.converged()) {
-            h.append("<div class=\"warn\"><b>The MCMC chains have not converged:</b> the largest R\u0302 is ").append(f(d.rhat(), 3))
-                    .append(" (above ").append(f(RHAT_LIMIT, 2)).append("). The chains disagree; the edge posteriors below are not "
-                            + "reliable. Run longer or with more chains.</div>\n");
-        } else {
-            h.append("<div class=\"ok\">MCMC: the largest R\u0302 is ").append(f(d.rhat(), 3)).append(" (at most ")
-                    .append(f(RHAT_LIMIT, 2)).append("); the chains agree.</div>\n");
-        }
     }
 
     private static void strongest(StringBuilder h, EdgeMatrix m, boolean[][] t, EdgeResult r) {

@@ -82,15 +82,19 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * folded; +∞ when a quantity is stuck: constant within each chain, different between chains);
      * {@code ess} the smallest bulk effective sample size; {@code essTail} the smallest tail-ESS;
      * {@code converged}: every quantity has R̂ &lt; {@code rhatTarget} and bulk-ESS ≥ {@code essTarget},
-     * except {@code constant} ones (equal in every draw) and {@code settled} ones (probabilities whose
-     * draws all lie within {@code settleSpan}); {@code worst}: the quantities furthest from the targets;
+     * and every reported edge and feature posterior a Monte Carlo standard error ≤ {@code mcseTarget}
+     * (null in results written before the MCSE target existed), except {@code constant} ones (equal in
+     * every draw) and {@code settled} ones (probabilities whose draws all lie within {@code settleSpan});
+     * {@code mcse}: the largest MCSE of a deciding probability; {@code worst}: the quantities furthest
+     * from the targets;
      * {@code stopReason}: {@code steps} (a fixed run), {@code converged}, {@code max-steps} or
      * {@code max-time}; {@code traces}: log evidence per chain (thinned), for trace plots.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
                               double rhat, double ess, boolean converged, List<List<Double>> traces,
-                              int traceThin, Double rhatTarget, Double essTarget, Double essTail, String stopReason,
+                              int traceThin, Double rhatTarget, Double essTarget, Double mcseTarget, Double mcse,
+                              Double essTail, String stopReason,
                               Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
                               Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
                               Double samplingSeconds) {
@@ -98,23 +102,32 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
         public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat, double ess,
                            boolean converged, List<List<Double>> traces, int traceThin) {
             this(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin, null, null, null, null,
-                    null, null, null, null, null, null, null, null, null, null);
+                    null, null, null, null, null, null, null, null, null, null, null, null);
         }
 
         /** The same diagnostics with other summary figures (e.g. of estimates re-weighted from the chains' draws). */
         public Diagnostics withSummary(double rhat, double ess, boolean converged) {
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
-                    rhatTarget, essTarget, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
+                    rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
+                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
+        }
+
+        /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
+        public Diagnostics withVerdict(boolean converged, Double mcse, List<Worst> worst) {
+            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
+                    rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
                     drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
         }
     }
 
     /**
-     * A quantity far from convergence: {@code rhat} (null when infinite), bulk {@code ess} and
-     * {@code essTail} (null when undefined), {@code state} {@code varies} or {@code stuck}.
+     * A quantity far from convergence: {@code rhat} (null when infinite), bulk {@code ess},
+     * {@code mcse} (Monte Carlo standard error; null for a quantity that is no reported probability,
+     * such as the log score) and {@code essTail} (null when undefined), {@code state} {@code varies}
+     * or {@code stuck}.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
-    public record Worst(String quantity, Double rhat, Double ess, Double essTail, String state) {
+    public record Worst(String quantity, Double rhat, Double ess, Double mcse, Double essTail, String state) {
     }
 
     /** A feature beyond a single edge: {@code kind} {@code ancestor} (from ⇝ to) or {@code markov-blanket}. */

@@ -1,0 +1,76 @@
+package org.edgewise.driver.report;
+
+import static org.edgewise.driver.report.Html.esc;
+import static org.edgewise.driver.report.Html.f;
+
+import org.edgewise.driver.result.EdgeResult;
+
+/**
+ * The report's "Convergence" section for a sampled (MCMC) result: converged or not, why the run
+ * stopped, the targets (R̂, bulk-ESS, MCSE), the worst quantities with their R̂, ESS and MCSE
+ * (table {@code id="convergence-worst"}), what to do next, and that sampled figures carry an MCSE
+ * — the words of {@link ConvergenceAdvice}. An exact result has no such section: its summary says
+ * "exact" ({@link #estimates}).
+ */
+final class ConvergenceSection {
+    private ConvergenceSection() {
+    }
+
+    /** How the result's figures were obtained, for the summary table (HTML). */
+    static String estimates(EdgeResult r) {
+        String m = r.method() == null ? "" : r.method();
+        boolean drawn = r.features() != null && !r.features().isEmpty() || r.essentialGraph() != null;
+        return switch (m) {
+            case "order" -> "exact given the order (summed, not sampled: no Monte Carlo error)";
+            case "exact" -> "exact edge posteriors (summed over every order or DAG: no Monte Carlo error)"
+                    + (drawn ? "; the features are drawn from the exact posterior and carry their MCSE" : "");
+            case "mcmc" -> "sampled by MCMC: every posterior carries its Monte Carlo standard error (MCSE)";
+            default -> esc(m);
+        };
+    }
+
+    static void write(StringBuilder h, EdgeResult r, RunHint hint) {
+        EdgeResult.Diagnostics d = r.diagnostics();
+        if (d == null) {
+            return;
+        }
+        h.append("<h2>Convergence</h2>\n<div class=\"").append(d.converged() ? "ok" : "warn").append("\"><b>")
+                .append(d.converged() ? "Converged." : "Not converged: do not use these posteriors yet.")
+                .append("</b> The run stopped because ").append(esc(ConvergenceAdvice.stopped(d))).append(".</div>\n");
+        h.append("<table>\n");
+        row(h, "verdict", esc(ConvergenceAdvice.verdict(d)));
+        row(h, "why it stopped", esc(ConvergenceAdvice.stopped(d)) + (d.stopReason() == null ? ""
+                : " (<code>" + esc(d.stopReason()) + "</code>)"));
+        row(h, "targets", esc(ConvergenceAdvice.targets(d)));
+        row(h, "reached", esc(ConvergenceAdvice.reached(d)));
+        row(h, "run", d.chains() + " chains \u00d7 " + d.steps() + " steps kept (after " + d.burnIn()
+                + " warm-up), seed " + d.seed());
+        h.append("</table>\n");
+        if (d.worst() != null && !d.worst().isEmpty()) {
+            String rt = d.rhatTarget() == null ? "1.01" : ConvergenceAdvice.num(d.rhatTarget());
+            String et = d.essTarget() == null ? "400" : ConvergenceAdvice.num(d.essTarget());
+            String mt = d.mcseTarget() == null ? "none" : ConvergenceAdvice.num(d.mcseTarget());
+            h.append("<table id=\"convergence-worst\">\n<tr><th>quantity</th><th>state</th><th>R\u0302 (target &lt; ").append(rt)
+                    .append(")</th><th>bulk ESS (&ge; ").append(et).append(")</th><th>MCSE (&le; ").append(mt).append(")</th></tr>\n");
+            for (EdgeResult.Worst w : d.worst()) {
+                h.append("<tr><td>").append(esc(w.quantity())).append("</td><td>").append(esc(w.state()))
+                        .append("</td><td class=\"num\">").append(w.rhat() == null ? "\u221e" : f(w.rhat(), 3))
+                        .append("</td><td class=\"num\">").append(w.ess() == null ? "\u2013" : f(w.ess(), 0))
+                        .append("</td><td class=\"num\">").append(w.mcse() == null ? "\u2013" : f(w.mcse(), 4))
+                        .append("</td></tr>\n");
+            }
+            h.append("</table>\n<p class=\"cap\">").append(d.converged() ? "The quantities closest to a target"
+                    : "The quantities furthest from the targets").append(", worst first. <i>stuck</i>: constant within each "
+                    + "chain but different between chains (R\u0302 \u221e).</p>\n");
+        }
+        h.append("<p><b>What to do next:</b></p>\n<ul>\n");
+        for (String s : ConvergenceAdvice.next(d, hint)) {
+            h.append("<li>").append(esc(s)).append("</li>\n");
+        }
+        h.append("</ul>\n<p class=\"cap\">").append(esc(ConvergenceAdvice.mcseNote())).append("</p>\n");
+    }
+
+    private static void row(StringBuilder h, String key, String valueHtml) {
+        h.append("<tr><th>").append(key).append("</th><td>").append(valueHtml).append("</td></tr>\n");
+    }
+}
