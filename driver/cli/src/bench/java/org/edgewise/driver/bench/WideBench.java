@@ -47,12 +47,12 @@ public final class WideBench {
             double wall = (System.nanoTime() - t0) / 1e9;
             var o = r[s].outcome();
             System.out.printf("wide n=%d candidates<=%d seed %d: %s after %.1f s wall (sampling %.1f s, %d checks %.1f s); "
-                            + "%d steps/chain = %.0f steps/s per chain; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS/s), min tail ESS %.0f; "
-                            + "%d settled, %d constant; worst: %s; load %.1f%n",
+                            + "%d steps/chain = %.0f steps/s per chain; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS/s), min tail ESS %.0f, "
+                            + "max MCSE %.4f (target %.3f, %d draws kept per chain); %d settled, %d constant; worst: %s; load %.1f%n",
                     n, 2 * k, 1 + s, o.stop().label(), wall, o.samplingSeconds(), o.checks(), o.checkSeconds(), o.stepsPerChain(),
                     o.stepsPerChain() * 4 / o.samplingSeconds() / Math.min(4, Runtime.getRuntime().availableProcessors()),
                     r[s].maxRhat(), r[s].minEss(), r[s].minEss() / o.samplingSeconds(), r[s].report().minEssTail(),
-                    r[s].report().settled(), r[s].report().constant(),
+                    r[s].report().maxMcse(), st.mcseTarget(), r[s].report().drawsPerChain(), r[s].report().settled(), r[s].report().constant(),
                     r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), UnknownOrderBench.load());
         }
         System.out.printf("wide n=%d: max |delta| over edges between seeds 1 and 2 = %.4f%n", n, OrderMcmcDiff.maxDiff(r[0], r[1], n));
@@ -87,7 +87,8 @@ public final class WideBench {
     }
 
     static String describe(MultiChainDiagnostics.Worst w) {
-        return String.format("%s (R-hat %.4f, ESS %.0f, %s)", w.quantity(), w.rhat(), w.essBulk(), w.state().label());
+        return String.format("%s (R-hat %.4f, ESS %.0f, MCSE %.4f, %s)", w.quantity(), w.rhat(), w.essBulk(), w.mcse(),
+                w.state().label());
     }
 
     static void mixing(int n, int k, long steps) {

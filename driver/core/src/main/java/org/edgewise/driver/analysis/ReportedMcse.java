@@ -64,6 +64,10 @@ final class ReportedMcse {
         return with(r, d.withVerdict(false, mcse, worst));
     }
 
+    static EdgeResult withDiagnostics(EdgeResult r, EdgeResult.Diagnostics d) {
+        return with(r, d);
+    }
+
     private static EdgeResult with(EdgeResult r, EdgeResult.Diagnostics d) {
         return new EdgeResult(r.method(), r.variables(), r.logEvidence(), r.logEvidenceNormalized(), r.evidenceConvention(),
                 r.order(), r.settings(), r.store(), r.edges(), r.parentSets(), r.bestNetwork(), d, r.features(),

@@ -7,6 +7,7 @@ import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ChainDiagnostics;
+import org.edgewise.driver.average.ChainRunner;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.average.LocalScores;
@@ -45,10 +46,39 @@ public final class UnknownOrderAveraging {
             OrderConstraints oc = s.constraints(ls);
             return s.method() == UnknownOrderSettings.Method.EXACT
                     ? DagPriorAveraging.exact(ls, storePath, s, oc, settings(ls, oc), progress)
-                    : ReportedMcse.check(DagPriorAveraging.mcmc(ls, storePath, s, oc, settings(ls, oc), progress));
+                    : structureModularMcmc(ls, storePath, s, oc, progress);
         }
         return s.method() == UnknownOrderSettings.Method.EXACT ? exact(ls, storePath, s, progress)
                 : ReportedMcse.check(mcmc(ls, storePath, s, progress));
+    }
+
+    /**
+     * Structure-modular MCMC until its reported posteriors meet the MCSE target: the estimates
+     * re-weighted from the order chains' DAGs carry more Monte Carlo error than the chains' own, so
+     * when the chains converged but a re-weighted posterior's MCSE is above the target
+     * ({@link ReportedMcse}), the run is repeated from the same seed with its first check after twice
+     * the steps it ran (the chains replay the same start and go on; MCSE falls as 1/√steps), within
+     * what is left of the time budget. Out of time, the stop reason says {@code max-time}.
+     */
+    private static EdgeResult structureModularMcmc(LocalScores ls, Path storePath, UnknownOrderSettings s,
+                                                   OrderConstraints oc, ProgressListener progress) {
+        long t0 = System.nanoTime();
+        double budget = s.maxSeconds() == null ? UnknownOrderSettings.DEFAULT_MAX_SECONDS : s.maxSeconds();
+        UnknownOrderSettings run = s;
+        while (true) {
+            EdgeResult r = ReportedMcse.check(DagPriorAveraging.mcmc(ls, storePath, run, oc, settings(ls, oc), progress));
+            EdgeResult.Diagnostics d = r.diagnostics();
+            if (d.converged() || !run.untilConverged() || !ChainRunner.StopReason.CONVERGED.label().equals(d.stopReason())) {
+                return r;
+            }
+            long ran = d.steps() + d.burnIn();
+            double left = budget - (System.nanoTime() - t0) / 1e9;
+            if (left <= 0 || run.maxSteps() != null && ran >= run.maxSteps()) {
+                return ReportedMcse.withDiagnostics(r, d.withStop(left <= 0 ? ChainRunner.StopReason.MAX_TIME.label()
+                        : ChainRunner.StopReason.MAX_STEPS.label()));
+            }
+            run = run.withFirstCheck(2 * ran, left);
+        }
     }
 
     private static EdgeResult.Settings settings(LocalScores ls, OrderConstraints oc) {

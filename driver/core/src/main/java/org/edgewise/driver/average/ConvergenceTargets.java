@@ -21,7 +21,7 @@ import org.edgewise.driver.Checks;
  * <p><b>The default, {@value #DEFAULT_MCSE}.</b> With every reported probability's MCSE ≤ t, the
  * difference of two runs on one edge has sd ≤ √2·t, and P(|Δ| &gt; 0.05) ≤ 2(1 − Φ(0.05/(√2 t))).
  * For t = 0.01 that is 2(1 − Φ(3.54)) = 4.1·10⁻⁴ per edge; by the union bound the largest |Δ|
- * over m uncertain edges stays within 0.05 with probability ≥ 1 − m·4.1·10⁻⁴: ≥ 99 % for m = 25,
+ * over m uncertain edges stays within 0.05 with probability ≥ 1 − m·4.1·10⁻⁴: ≥ 99 % for m = 20,
  * ≥ 95 % for m = 100 edges all at the bound (Φ from Abramowitz &amp; Stegun table 26.1). Edges
  * near 0 or 1 have far smaller MCSE, so in practice only the few genuinely uncertain edges count.
  * t = 0.0125 would give 4.7·10⁻³ per edge (m = 10 already 5 %); t = 0.005 would cost four times

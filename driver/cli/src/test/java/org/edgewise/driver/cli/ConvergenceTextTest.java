@@ -1,0 +1,87 @@
+package org.edgewise.driver.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+
+import java.util.List;
+import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.result.EdgeResult;
+import org.junit.jupiter.api.Test;
+
+/** The words a user of {@code edges --method mcmc} reads about convergence, asserted word for word. */
+class ConvergenceTextTest {
+    static EdgeResult.Diagnostics diagnostics(boolean converged, String stop, List<EdgeResult.Worst> worst) {
+        return new EdgeResult.Diagnostics(4, 640_000, 640_000, 1, 0.3124, 1.0071, 644, converged, null, 100, 1.01, 400.0,
+                0.01, converged ? 0.0081 : 0.0173, 512.0, stop, 300, 120, 0, 0.005, worst, 1250, 0.1, 6, 1.2, 2.4);
+    }
+
+    @Test
+    void anUnconvergedRunSaysWhyAndWhatToDo() {
+        EdgeResult.Diagnostics d = diagnostics(false, "max-time",
+                List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"),
+                        new EdgeResult.Worst("edge v3 -> v4", null, null, 0.25, null, "stuck")));
+        assertEquals("""
+
+                Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
+                  verdict   NOT converged: do not use these posteriors yet
+                  stopped   the time budget ran out before every target was met (max-time)
+                  targets   R-hat < 1.01, bulk ESS >= 400, MCSE <= 0.01 for every edge and feature posterior
+                  reached   largest R-hat 1.0071, smallest bulk ESS 644, largest MCSE 0.0173
+                  worst     edge v20 -> v19: R-hat 1.007, bulk ESS 812, MCSE 0.0173
+                            edge v3 -> v4: R-hat inf, bulk ESS -, MCSE 0.2500 (stuck: each chain keeps its own value)
+                  next      Run longer: raise the time budget (--max-time).
+                            A stuck quantity means the chains sit in different modes, which running longer may not cure: try more chains (--chains) or, where the number of variables allows, the exact method (--method exact).
+                            Until then, treat every posterior of this result as unreliable.
+                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail ESS 512
+                """, UnknownOrderEdges.convergence(d));
+        assertEquals("edges: WARNING: not converged (stopped at the time budget; needs R-hat < 1.01, bulk ESS >= 400 and MCSE <= 0.01 "
+                + "for every quantity): the posteriors are not reliable. Worst: edge v20 -> v19 (R-hat 1.007, ESS 812, MCSE 0.0173); "
+                + "edge v3 -> v4 (R-hat inf, ESS -, MCSE 0.2500) stuck. Run longer: raise the time budget (--max-time).",
+                UnknownOrderEdges.notConverged(d));
+    }
+
+    @Test
+    void onlyTheMcseMissingAndTheReweightedCase() {
+        List<EdgeResult.Worst> noisy = List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"));
+        assertEquals("""
+
+                Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
+                  verdict   NOT converged: do not use these posteriors yet
+                  stopped   the time budget ran out before every target was met (max-time)
+                  targets   R-hat < 1.01, bulk ESS >= 400, MCSE <= 0.01 for every edge and feature posterior
+                  reached   largest R-hat 1.0071, smallest bulk ESS 644, largest MCSE 0.0173
+                  worst     edge v20 -> v19: R-hat 1.007, bulk ESS 812, MCSE 0.0173
+                  next      Run longer: raise the time budget (--max-time); the chains agree, only the Monte Carlo error is still above its target.
+                            Or accept a larger Monte Carlo error with a larger MCSE target (--mcse-target): two runs then rarely differ on an edge by more than about 3.5 x that target.
+                            Until then, treat every posterior of this result as unreliable.
+                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail ESS 512
+                """, UnknownOrderEdges.convergence(diagnostics(false, "max-time", noisy)));
+        assertEquals("edges: WARNING: not converged (the chains met the targets, the reported posteriors did not; needs R-hat < 1.01, "
+                + "bulk ESS >= 400 and MCSE <= 0.01 for every quantity): the posteriors are not reliable. Worst: edge v20 -> v19 "
+                + "(R-hat 1.007, ESS 812, MCSE 0.0173). The chains met the targets but the posteriors derived from them (re-weighted "
+                + "to the structure-modular DAG prior) did not: lower the MCSE target (--mcse-target, e.g. 0.005) so that the chains "
+                + "run longer, or use the order-modular DAG prior (--dag-prior order-modular).",
+                UnknownOrderEdges.notConverged(diagnostics(false, "converged", noisy)));
+    }
+
+    @Test
+    void aConvergedRun() {
+        assertEquals("""
+
+                Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
+                  verdict   converged: every quantity met the targets
+                  stopped   every target was met by the chains (converged)
+                  targets   R-hat < 1.01, bulk ESS >= 400, MCSE <= 0.01 for every edge and feature posterior
+                  reached   largest R-hat 1.0071, smallest bulk ESS 644, largest MCSE 0.0081
+                  next      Nothing more is needed. Each posterior carries its MCSE; two runs with other seeds differ on an edge by about 1.4 x its MCSE (the spread of a difference of two independent estimates).
+                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail ESS 512
+                """, UnknownOrderEdges.convergence(diagnostics(true, "converged", List.of())));
+    }
+
+    @Test
+    void theProgressLineShowsEachFigureWithItsTarget() {
+        assertEquals("acceptance 0.312  worst R-hat 1.021 (< 1.01)  min ESS 388 (>= 400)  max MCSE 0.0143 (<= 0.01)",
+                ProgressBars.line(new ProgressListener.ChainState(0.3124, 1.0214, 388.2, 0.01432, 1.01, 400, 0.01)));
+        assertEquals("acceptance 0.312  worst R-hat - (< 1.01)  min ESS - (>= 400)  max MCSE - (<= 0.005)",
+                ProgressBars.line(new ProgressListener.ChainState(0.3124, Double.NaN, Double.NaN, Double.NaN, 1.01, 400, 0.005)));
+    }
+}
