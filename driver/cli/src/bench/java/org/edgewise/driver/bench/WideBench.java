@@ -48,7 +48,7 @@ public final class WideBench {
             var o = r[s].outcome();
             System.out.printf("wide n=%d candidates<=%d seed %d: %s after %.1f s wall (sampling %.1f s, %d checks %.1f s); "
                             + "%d steps/chain = %.0f steps/s per chain; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS/s), min tail ESS %.0f, "
-                            + "max MCSE %.4f (target %.3f, %d draws kept per chain); %d settled, %d constant; worst: %s; load %.1f%n",
+                            + "max MCSE %.4f (target %.3f, %d draws used per chain); %d settled, %d constant; worst: %s; load %.1f%n",
                     n, 2 * k, 1 + s, o.stop().label(), wall, o.samplingSeconds(), o.checks(), o.checkSeconds(), o.stepsPerChain(),
                     o.stepsPerChain() * 4 / o.samplingSeconds() / Math.min(4, Runtime.getRuntime().availableProcessors()),
                     r[s].maxRhat(), r[s].minEss(), r[s].minEss() / o.samplingSeconds(), r[s].report().minEssTail(),

@@ -91,7 +91,8 @@ public final class EffectCommand implements Callable<Integer> {
         for (EffectResult r : rs) {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
-                        "effect: WARNING: the chains disagree (largest split-R-hat %.3f > %.2f): the effect is not reliable; run longer",
+                        "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < %.2f; and every edge "
+                                + "posterior needs MCSE <= its target): the effect is not reliable; run longer (--max-time)",
                         r.maxRhat(), UnknownOrderEdges.RHAT_WARN));
                 break;
             }
