@@ -43,7 +43,8 @@ public final class OrderMcmc {
      * @param burnIn      fixed run: steps per chain discarded first (until converged: the first half)
      * @param seed        seed of all randomness
      * @param draws       draws stored per chain (fixed run: thinning = steps / draws; until converged:
-     *                    between draws and 2·draws are kept, the thinning doubling as needed)
+     *                    between {@link ConvergenceTargets#drawsPerChain} and twice that are kept, the
+     *                    thinning doubling as needed)
      * @param untilConverged run until R̂ &lt; 1.01, bulk-ESS ≥ 400 and MCSE ≤ the target for every quantity, or a cap
      * @param maxSteps    until converged: cap on steps per chain
      * @param maxSeconds  until converged: wall-clock budget of the sampling (≤ 0: none)
