@@ -24,27 +24,32 @@ import org.edgewise.driver.UserError;
  * 12 candidates and d = 3). Cost per move: the masks (B, T) of every node, O(n·K) word operations,
  * and the rescoring of the nodes whose masks changed.
  *
- * <p><b>Moves</b>, each reversible with respect to π on its own, mixed with fixed shares:
+ * <p><b>State</b>: Λ and one DAG G whose partition is Λ ({@link PartitionDag}); the target is the joint
+ * P(G | D) ∝ Π_i exp w_i(U_i) with Λ = Λ(G), whose marginal on Λ is π. <b>Moves</b>, each leaving
+ * that joint invariant on its own, mixed with the shares of a {@link Mix}:
  * <ul>
- *   <li>split / join (share {@value #SPLIT_JOIN}): the neighbours of Λ are every split of an element
- *       T_j into (A, T_j ∖ A), A a non-empty proper subset placed first, and every join of adjacent
- *       T_j, T_{j+1}; there are N(Λ) = Σ_j (2^{|T_j|} − 2) + (m − 1) of them. One is proposed uniformly,
- *       so q(Λ'|Λ) = 1/N(Λ); a split's reverse is the join of its two parts and vice versa (one to
- *       one), so the Hastings ratio is q(Λ|Λ')/q(Λ'|Λ) = N(Λ)/N(Λ') and the acceptance
- *       min(1, π(Λ')·N(Λ) / (π(Λ)·N(Λ'))) (Kuipers &amp; Moffa 2017, sec. 4.1).</li>
- *   <li>swap (share {@value #SWAP}): two nodes in different elements exchange them, the pair drawn
- *       uniformly among such pairs; the element sizes are unchanged, so the number of such pairs,
- *       C(n,2) − Σ_j C(|T_j|,2), is the same before and after: symmetric, acceptance
- *       min(1, π(Λ')/π(Λ)) (ibid., sec. 4.2).</li>
- *   <li>node move (the rest): a node v drawn uniformly is taken out (its element removed if it was
- *       alone), leaving Λ − v with m' elements, and put back at one of the 2m' + 1 places of Λ − v —
- *       into one of its m' elements or as a new singleton element in one of its m' + 1 gaps. Every
- *       partition so reachable has the same Λ − v, hence the same places, so drawing the place with
- *       probability ∝ π (current place included) is a Gibbs update that leaves π invariant with no
- *       accept/reject (the paper's node move, sec. 4.2, made a heat-bath step: measured, a uniform
- *       place was accepted about once in a thousand steps on wide tables, where most places leave
- *       some node without a parent in the element before it).</li>
+ *   <li>DAG moves, after which Λ follows G (its layering, rescored): single-edge add / delete /
+ *       reverse ({@link #edgeMove()}, Madigan &amp; York 1995; Giudici &amp; Castelo 2003), a Gibbs
+ *       draw of one child's parent set among the sets that keep G acyclic ({@link #parentsMove()}),
+ *       and the new edge reversal ({@link #reversalMove()}, Grzegorczyk &amp; Husmeier 2008);</li>
+ *   <li>partition moves, each reversible with respect to π; when one is taken, the parent sets of
+ *       the children whose allowed sets changed are redrawn from P(G | Λ', D):
+ *     <ul>
+ *       <li>split / join: the neighbours of Λ are every split of an element T_j into (A, T_j ∖ A),
+ *           A a non-empty proper subset placed first, and every join of adjacent T_j, T_{j+1};
+ *           there are N(Λ) = Σ_j (2^{|T_j|} − 2) + (m − 1) of them. One is proposed uniformly, so
+ *           q(Λ'|Λ) = 1/N(Λ); a split's reverse is the join of its two parts and vice versa, so the
+ *           acceptance is min(1, π(Λ')·N(Λ) / (π(Λ)·N(Λ'))) (Kuipers &amp; Moffa 2017, sec. 4.1);</li>
+ *       <li>swap: two nodes in different elements exchange them, the pair drawn uniformly among
+ *           such pairs, whose number C(n,2) − Σ_j C(|T_j|,2) the swap does not change: symmetric,
+ *           acceptance min(1, π(Λ')/π(Λ)) (ibid., sec. 4.2).</li>
+ *     </ul></li>
  * </ul>
+ * Measured (docs/unknown-order.md): with partition moves alone (and the paper's node move, uniform
+ * or as a heat-bath step) the chains froze on windowed candidate sets at n = 50 — almost every
+ * partition move leaves some node without a candidate parent in the element before it (π = 0) —
+ * while a single DAG move shifts the partition wherever the DAG goes; the node move, whose
+ * heat-bath form rescored all 2m' + 1 places, cost ten times the ESS per second and was dropped.
  *
  * <p><b>Constraints</b>: forbidden and required edges are already in {@link LocalScores} (sets
  * removed); tiers are honoured by removing from each child's B and T the candidates that must
@@ -62,10 +67,23 @@ import org.edgewise.driver.UserError;
  * state and n²/32 bytes of feature bits. Mutable, confined to one thread at a time.
  */
 final class PartitionChain extends SteppedChain {
-    /** Share of split/join moves (not tuned; common practice in the paper's own sampler is a mix). */
-    static final double SPLIT_JOIN = 0.4;
-    /** Share of swap moves. */
-    static final double SWAP = 0.3;
+    /**
+     * The shares of the moves in a step; swaps take the rest of 1. {@link #DEFAULT} measured on
+     * windowed random networks (n = 50, 100; docs/unknown-order.md): the DAG moves are cheap
+     * (O(n + edges) when taken, O(1)–O(#sets) when not) and mix; the partition moves cost an
+     * O(n·K) rescoring each and are kept at a small share.
+     */
+    record Mix(double edge, double parents, double reversal, double splitJoin) {
+        static final Mix DEFAULT = new Mix(0.45, 0.25, 0.2, 0.05);
+
+        Mix {
+            if (!(edge >= 0 && parents >= 0 && reversal >= 0 && splitJoin >= 0 && edge + parents + reversal + splitJoin <= 1 + 1e-12)) {
+                throw new IllegalArgumentException("move shares must be ≥ 0 and add up to at most 1: " + edge + ", " + parents
+                        + ", " + reversal + ", " + splitJoin);
+            }
+        }
+    }
+
     /** Largest n: N(Λ) involves 2^{|T_j|} as a double. */
     static final int MAX_VARIABLES = 1000;
     private static final double DIRECT_BELOW = 1e-4;
@@ -83,6 +101,7 @@ final class PartitionChain extends SteppedChain {
     private final double[] emptyLog;
     private final SplittableRandom rng;
     private final SplittableRandom drawRng;
+    private final Mix mix;
 
     private int m;
     private int[] elem;
@@ -100,12 +119,14 @@ final class PartitionChain extends SteppedChain {
     private final long[] chLast;
     private final double[] chLog;
     private int chCount;
-    private double[] placeLog;
+    /** The chain's DAG, whose partition is Λ (drawn from P(G | Λ, D) after every partition move). */
+    private PartitionDag dag;
 
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
-                   SplittableRandom rng, DrawStore draws) {
+                   SplittableRandom rng, DrawStore draws, Mix mix) {
         super(draws);
+        this.mix = mix;
         this.ls = ls;
         this.tables = tables;
         this.n = ls.variableCount();
@@ -162,6 +183,7 @@ final class PartitionChain extends SteppedChain {
             }
             if (ok) {
                 int[] chosen = DagFeatures.sampleDag(ls, mask, z, rng);
+                dag = new PartitionDag(ls, chosen);
                 m = 0;
                 for (int v : order) {
                     int layer = 0;
@@ -290,6 +312,11 @@ final class PartitionChain extends SteppedChain {
         return sum;
     }
 
+    /** The chain's DAG: each child's parent-set index in {@link LocalScores#masks(int)} (a copy; tests). */
+    int[] dagSets() {
+        return dag.sets();
+    }
+
     /** Current element of every node (a copy; tests). */
     int[] elements() {
         return elem.clone();
@@ -300,17 +327,29 @@ final class PartitionChain extends SteppedChain {
             return;
         }
         double u = rng.nextDouble();
+        if (u < mix.edge()) {
+            edgeMove();
+            return;
+        }
+        u -= mix.edge();
+        if (u < mix.parents()) {
+            parentsMove();
+            return;
+        }
+        u -= mix.parents();
+        if (u < mix.reversal()) {
+            reversalMove();
+            return;
+        }
+        u -= mix.reversal();
         double logRatio;
-        if (u < SPLIT_JOIN) {
+        if (u < mix.splitJoin()) {
             logRatio = proposeSplitJoin();
-        } else if (u < SPLIT_JOIN + SWAP) {
+        } else {
             if (m == 1) {
                 return;
             }
             logRatio = proposeSwap();
-        } else {
-            gibbsNodeMove();
-            return;
         }
         double delta = rescore();
         if (!(delta > Double.NEGATIVE_INFINITY)) {
@@ -323,8 +362,261 @@ final class PartitionChain extends SteppedChain {
         accept(delta);
     }
 
-    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
+    /**
+     * A partition move's acceptance: Λ' becomes the state and the chain's DAG is redrawn from
+     * P(G | Λ', D) where that differs from P(G | Λ, D) — the children whose masks changed; the
+     * others' parent sets are already draws from their (unchanged) conditional, which factorises
+     * over children and which the move, deciding on Λ alone, leaves as it was.
+     */
     private void accept(double delta) {
+        commit(delta);
+        for (int k = 0; k < chCount; k++) {
+            int v = chChild[k];
+            dag.setParents(v, drawAllowed(v, rng.nextDouble()));
+        }
+    }
+
+    /** Child v's parent set drawn among those allowed in the current Λ, by weight (inversion of u). */
+    private int drawAllowed(int v, double u) {
+        long[] masks = ls.masks(v);
+        double[] w = ls.weights(v);
+        boolean first = elem[v] == 0;
+        double acc = 0;
+        int chosen = -1;
+        for (int s = 0; s < masks.length; s++) {
+            if (allowed(masks[s], first, pred[v], last[v])) {
+                chosen = s;
+                acc += Math.exp(w[s] - logSum[v]);
+                if (u < acc) {
+                    break;
+                }
+            }
+        }
+        return chosen;
+    }
+
+    /**
+     * A single-edge Metropolis–Hastings move on the chain's DAG G (Madigan &amp; York 1995's structure
+     * MCMC, with Giudici &amp; Castelo 2003's reversal), its partition following: child i and its
+     * candidate j drawn uniformly; with probability ½ the edge j → i is added or deleted (symmetric:
+     * the reverse toggle draws the same pair), else, when j → i is in G and j may have i as a parent,
+     * it is reversed, q(G'|G) = 1/(n·K_i), q(G|G') = 1/(n·K_j), Hastings ratio K_i / K_j. Accepted
+     * with min(1, ratio · Π exp w(U') / Π exp w(U)) when G' is acyclic and its changed sets allowed
+     * (in-degree, forbidden, required, tiers). The target is P(G | D) under the structure-modular
+     * prior, whose image on partitions is π: so the move and the partition moves leave the same joint
+     * invariant, and edge moves let the partition change where no partition move has weight (a node
+     * whose only parent in the element before it moves away).
+     */
+    private void edgeMove() {
+        int i = rng.nextInt(n);
+        int[] cand = ls.candidates(i);
+        if (cand.length == 0) {
+            return;
+        }
+        int k = rng.nextInt(cand.length);
+        int j = cand[k];
+        long bit = 1L << k;
+        long cur = dag.mask(i);
+        double[] wi = ls.weights(i);
+        int si;
+        int sj = -1;
+        double logRatio;
+        if (rng.nextBoolean()) {
+            long next = cur ^ bit;
+            if ((next & excluded[i]) != 0) {
+                return;
+            }
+            si = dag.setOf(i, next);
+            if (si < 0 || (next & bit) != 0 && dag.reaches(i, j, -1, -1, elem)) {
+                return;
+            }
+            logRatio = wi[si] - wi[dag.set(i)];
+        } else {
+            if ((cur & bit) == 0) {
+                return;
+            }
+            int[] cj = ls.candidates(j);
+            int ki = indexOf(cj, i);
+            if (ki < 0 || (excluded[j] >>> ki & 1) != 0) {
+                return;
+            }
+            si = dag.setOf(i, cur & ~bit);
+            sj = dag.setOf(j, dag.mask(j) | 1L << ki);
+            if (si < 0 || sj < 0 || dag.reaches(j, i, j, i, elem)) {
+                return;
+            }
+            double[] wj = ls.weights(j);
+            logRatio = wi[si] - wi[dag.set(i)] + wj[sj] - wj[dag.set(j)] + Math.log(cand.length) - Math.log(cj.length);
+        }
+        if (logRatio < 0 && Math.log(rng.nextDouble()) >= logRatio) {
+            return;
+        }
+        dag.setParents(i, si);
+        if (sj >= 0) {
+            dag.setParents(j, sj);
+        }
+        follow();
+    }
+
+    /**
+     * Gibbs update of one child's parent set (heat bath): i drawn uniformly, its new set drawn from
+     * all its allowed sets that contain no descendant of i in G, with probability ∝ exp w_i(U) — the
+     * full conditional P(U_i | G without i's parents, D) of the structure-modular posterior, so it
+     * needs no accept/reject. Cost O(n + edges) for the descendants, O(#sets) for the draw.
+     */
+    private void parentsMove() {
+        int i = rng.nextInt(n);
+        int mark = dag.markDescendants(i);
+        long ok = all(i) & ~dag.markedCandidates(i, mark) & ~excluded[i];
+        int s = drawWithin(i, ok, 0, logSumWithin(i, ok, 0), rng.nextDouble());
+        if (s < 0 || s == dag.set(i)) {
+            return;
+        }
+        dag.setParents(i, s);
+        follow();
+    }
+
+    /**
+     * The new edge reversal move (Grzegorczyk &amp; Husmeier 2008, "Improving the structure MCMC
+     * sampler for Bayesian networks by introducing a new edge reversal move", Machine Learning 71):
+     * for the edge j → i (child i and candidate j drawn uniformly, as in {@link #edgeMove()}), G0 is
+     * G with all parents of i and j removed; j's new set is drawn among its allowed sets that contain
+     * i and no descendant of j in G0, ∝ exp w_j, normaliser Z*_j(G0); then i's among its sets with no
+     * descendant of i in G0 + that set (G⊕), ∝ exp w_i, normaliser Z_i(G⊕). The reverse move (child
+     * j, candidate i) meets the same G0, so with G'⊕ = G0 + i's old set
+     * <pre>  A = min(1, (K_i / K_j) · Z*_j(G0) · Z_i(G⊕) / (Z*_i(G0) · Z_j(G'⊕)))</pre>
+     * (the posterior ratio cancels against the proposal's weights; K_i / K_j is the ratio of the
+     * pair draws, 1/(n·K_j) back over 1/(n·K_i) forth).
+     */
+    private void reversalMove() {
+        int i = rng.nextInt(n);
+        int[] cand = ls.candidates(i);
+        if (cand.length == 0) {
+            return;
+        }
+        int k = rng.nextInt(cand.length);
+        if ((dag.mask(i) >>> k & 1) == 0) {
+            return;
+        }
+        int j = cand[k];
+        int[] cj = ls.candidates(j);
+        int ki = indexOf(cj, i);
+        if (ki < 0 || (excluded[j] >>> ki & 1) != 0) {
+            return;
+        }
+        int oldI = dag.set(i);
+        int oldJ = dag.set(j);
+        dag.setMask(i, 0);
+        dag.setMask(j, 0);
+        long okJ = all(j) & ~dag.markedCandidates(j, dag.markDescendants(j)) & ~excluded[j];
+        double zStarJ = logSumWithin(j, okJ, 1L << ki);
+        int newJ = drawWithin(j, okJ, 1L << ki, zStarJ, rng.nextDouble());
+        long okI0 = all(i) & ~dag.markedCandidates(i, dag.markDescendants(i)) & ~excluded[i];
+        double zStarI = logSumWithin(i, okI0, 1L << k);
+        if (newJ < 0) {
+            dag.setParents(i, oldI);
+            dag.setParents(j, oldJ);
+            return;
+        }
+        dag.setParents(j, newJ);
+        long okI = all(i) & ~dag.markedCandidates(i, dag.markDescendants(i)) & ~excluded[i];
+        double zI = logSumWithin(i, okI, 0);
+        int newI = drawWithin(i, okI, 0, zI, rng.nextDouble());
+        dag.setMask(j, 0);
+        dag.setParents(i, oldI);
+        long okJ2 = all(j) & ~dag.markedCandidates(j, dag.markDescendants(j)) & ~excluded[j];
+        double zJ = logSumWithin(j, okJ2, 0);
+        double logA = Math.log(cand.length) - Math.log(cj.length) + zStarJ + zI - zStarI - zJ;
+        if (newI < 0 || logA < 0 && Math.log(rng.nextDouble()) >= logA) {
+            dag.setParents(j, oldJ);
+            return;
+        }
+        dag.setParents(i, newI);
+        dag.setParents(j, newJ);
+        follow();
+    }
+
+    /** Every candidate of child i, as a mask. */
+    private long all(int i) {
+        int k = ls.candidates(i).length;
+        return k == 64 ? -1L : (1L << k) - 1;
+    }
+
+    /** log Σ exp w_i(U) over the allowed U ⊆ b (t = 0), or U ⊆ b meeting t. */
+    private double logSumWithin(int i, long b, long t) {
+        if (t != 0) {
+            return childScore(i, 1, b, t);
+        }
+        double[] tab = tables.table(i);
+        if (tab != null) {
+            return tab[(int) b];
+        }
+        long[] masks = ls.masks(i);
+        double[] w = ls.weights(i);
+        double max = Double.NEGATIVE_INFINITY;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~b) == 0) {
+                max = Math.max(max, w[s]);
+            }
+        }
+        if (!(max > Double.NEGATIVE_INFINITY)) {
+            return max;
+        }
+        double sum = 0;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~b) == 0) {
+                sum += Math.exp(w[s] - max);
+            }
+        }
+        return max + Math.log(sum);
+    }
+
+    /** A set U ⊆ b (meeting t unless t = 0) drawn ∝ exp w_i(U) by inversion of u, given log normaliser z; −1 if none. */
+    private int drawWithin(int i, long b, long t, double z, double u) {
+        if (!(z > Double.NEGATIVE_INFINITY)) {
+            return -1;
+        }
+        long[] masks = ls.masks(i);
+        double[] w = ls.weights(i);
+        double acc = 0;
+        int chosen = -1;
+        for (int s = 0; s < masks.length; s++) {
+            if ((masks[s] & ~b) == 0 && (t == 0 || (masks[s] & t) != 0)) {
+                chosen = s;
+                acc += Math.exp(w[s] - z);
+                if (u < acc) {
+                    break;
+                }
+            }
+        }
+        return chosen;
+    }
+
+    /** Λ follows the chain's DAG after a DAG move: its partition, rescored and made the state. */
+    private void follow() {
+        newM = dag.layers(newElem);
+        java.util.Arrays.fill(newSize, 0);
+        for (int v = 0; v < n; v++) {
+            newSize[newElem[v]]++;
+        }
+        double delta = rescore();
+        if (!(delta > Double.NEGATIVE_INFINITY)) {
+            throw new IllegalStateException("the partition of an accepted DAG has no weight");
+        }
+        commit(delta);
+    }
+
+    private static int indexOf(int[] a, int x) {
+        for (int k = 0; k < a.length; k++) {
+            if (a[k] == x) {
+                return k;
+            }
+        }
+        return -1;
+    }
+
+    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
+    private void commit(double delta) {
         accepted++;
         int[] t = elem;
         elem = newElem;
@@ -415,70 +707,6 @@ final class PartitionChain extends SteppedChain {
         newElem[w] = elem[v];
         newM = m;
         return 0;
-    }
-
-    /**
-     * The node move as a Gibbs update: v drawn uniformly, and its place among all 2m' + 1 places of
-     * Λ − v (the current one included) drawn with probability ∝ π. Every partition reachable this
-     * way has the same Λ − v and so the same set of places: a heat-bath step on that block, which
-     * leaves π invariant with no accept/reject. Cost: 2m' + 2 rescorings.
-     */
-    private void gibbsNodeMove() {
-        int v = rng.nextInt(n);
-        int e = elem[v];
-        boolean alone = size[e] == 1;
-        int mr = alone ? m - 1 : m;
-        int places = 2 * mr + 1;
-        if (placeLog == null || placeLog.length < places) {
-            placeLog = new double[2 * n + 2];
-        }
-        double max = Double.NEGATIVE_INFINITY;
-        for (int p = 0; p < places; p++) {
-            placeNode(v, e, alone, p);
-            placeLog[p] = rescore();
-            max = Math.max(max, placeLog[p]);
-        }
-        double total = 0;
-        for (int p = 0; p < places; p++) {
-            total += Math.exp(placeLog[p] - max);
-        }
-        double u = rng.nextDouble() * total;
-        int chosen = -1;
-        for (int p = 0; p < places; p++) {
-            if (placeLog[p] > Double.NEGATIVE_INFINITY) {
-                chosen = p;
-                u -= Math.exp(placeLog[p] - max);
-                if (u < 0) {
-                    break;
-                }
-            }
-        }
-        int current = alone ? 2 * e : 2 * e + 1;
-        if (chosen < 0 || chosen == current) {
-            return;
-        }
-        placeNode(v, e, alone, chosen);
-        double delta = rescore();
-        accept(delta);
-    }
-
-    /** newElem/newSize/newM: v (now in element e, alone or not) put at place p of Λ − v (2g gap g, 2g + 1 element g). */
-    private void placeNode(int v, int e, boolean alone, int place) {
-        int mr = alone ? m - 1 : m;
-        java.util.Arrays.fill(newSize, 0);
-        boolean gap = (place & 1) == 0;
-        int g = place >> 1;
-        for (int x = 0; x < n; x++) {
-            if (x == v) {
-                continue;
-            }
-            int red = alone && elem[x] > e ? elem[x] - 1 : elem[x];
-            newElem[x] = gap && red >= g ? red + 1 : red;
-            newSize[newElem[x]]++;
-        }
-        newElem[v] = g;
-        newSize[g]++;
-        newM = gap ? mr + 1 : mr;
     }
 
     /** Masks and scores of the nodes whose masks change under newElem; returns log π(Λ') − log π(Λ). */
