@@ -81,10 +81,25 @@ public final class UnknownOrderAveraging {
     }
 
     private static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
-        int n = ls.variableCount();
         OrderConstraints oc = s.constraints(ls);
+        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, s.features(), progress);
+        List<EdgeResult.EssentialPair> essential = s.essentialGraph()
+                ? DagPriorAveraging.essential(names(ls), DagPriorAveraging.fromChains(ls, oc, r, s.chains(), s.orderSamples(), s.seed() + 3))
+                : null;
+        return sampled(ls, storePath, s, settings(ls, oc), r, DagPrior.ORDER_MODULAR,
+                SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)), essential);
+    }
+
+    /**
+     * The result of sampling chains (order MCMC or partition MCMC, whose {@code r} has the same
+     * shape): Rao-Blackwellised edges with MCSE and R̂, features, diagnostics, the given set
+     * posteriors and essential-graph pairs, under {@code prior}.
+     */
+    static EdgeResult sampled(LocalScores ls, Path storePath, UnknownOrderSettings s, EdgeResult.Settings settings,
+                              OrderMcmc.Result r, DagPrior prior, double[][] setPosterior,
+                              List<EdgeResult.EssentialPair> essential) {
+        int n = ls.variableCount();
         boolean feats = s.features();
-        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, feats, progress);
         List<String> names = names(ls);
         List<EdgeResult.Edge> edges = new ArrayList<>();
         long draws = r.orders().size(); // stored draws, all chains: K of the rule of three (McseBound)
@@ -114,14 +129,9 @@ public final class UnknownOrderAveraging {
             }
             features = features(names, s, f[0], f[1], f[2], f[3], draws);
         }
-        EdgeResult.Diagnostics d = diagnostics(r, s);
-        List<EdgeResult.EssentialPair> essential = s.essentialGraph()
-                ? DagPriorAveraging.essential(names, DagPriorAveraging.fromChains(ls, oc, r, s.chains(), s.orderSamples(), false, s.seed() + 3))
-                : null;
-        return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
-                ResultBuilder.provenance(ls.store(), storePath), edges,
-                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
-                        s.topParents()), null, d, features, null, DagPrior.ORDER_MODULAR.label(), essential);
+        return new EdgeResult("mcmc", names, null, null, prior.label(), null, settings,
+                ResultBuilder.provenance(ls.store(), storePath), edges, ResultBuilder.topParents(ls, setPosterior, s.topParents()),
+                null, diagnostics(r, s), features, null, prior.label(), essential);
     }
 
     /** The order chains' diagnostics with traces thinned to at most {@value #TRACE_POINTS} points per chain. */
