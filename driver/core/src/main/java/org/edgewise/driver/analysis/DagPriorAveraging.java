@@ -2,20 +2,18 @@ package org.edgewise.driver.analysis;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.DagDraws;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactDagSampler;
-import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
 import org.edgewise.driver.average.OrderSampling;
+import org.edgewise.driver.average.PartitionMcmc;
 import org.edgewise.driver.average.OrderSum;
 import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -28,15 +26,12 @@ import org.edgewise.driver.result.ResultBuilder;
  * <ul>
  *   <li>exact: {@link StructureSum} (edges, parent sets, log P(D)); features from
  *       {@link ExactDagSampler}'s independent draws;</li>
- *   <li>mcmc: order MCMC's stored orders, {@code group} DAGs drawn per order, each weighted by
- *       1 / ext(G) (Ellis &amp; Wong 2008: the order-modular joint P(≺, G) ∝ Π β_i(U_i) has DAG
- *       marginal ∝ Π β_i(U_i) · ext(G), so these self-normalised weights give the structure-modular
- *       posterior); every estimate with MCSE, split-R̂ and ESS ({@link DagDraws}).</li>
+ *   <li>mcmc: partition MCMC ({@link PartitionMcmc}; Kuipers &amp; Moffa 2017, with DAG moves),
+ *       whose chains target P(G | D) under this prior directly: no re-weighting, no limit on n
+ *       from counting linear extensions; every estimate with MCSE, R̂ and ESS as order MCMC's.</li>
  * </ul>
  */
 public final class DagPriorAveraging {
-    /** Largest n for which ext(G) is counted (dynamic programming over down-sets, up to 2^n of them). */
-    public static final int MAX_REWEIGHT_VARIABLES = 25;
     /** Largest n for DAG draws (parent bitmasks in an int). */
     public static final int MAX_DRAW_VARIABLES = 31;
 
@@ -81,25 +76,14 @@ public final class DagPriorAveraging {
         return essential(UnknownOrderAveraging.names(ls), new DagDraws(ls.variableCount(), List.of(dags), 1, null));
     }
 
-    /** DAGs drawn over MCMC's stored orders, {@code group} per order, weighted by 1/ext(G) when {@code reweight}. */
-    static DagDraws fromChains(LocalScores ls, OrderConstraints oc, OrderMcmc.Result r, int chains, int samples,
-                               boolean reweight, long seed) {
+    /** DAGs drawn over MCMC's stored orders, {@code group} per order (order-modular DAG draws). */
+    static DagDraws fromChains(LocalScores ls, OrderConstraints oc, OrderMcmc.Result r, int chains, int samples, long seed) {
         int n = ls.variableCount();
-        if (n > (reweight ? MAX_REWEIGHT_VARIABLES : MAX_DRAW_VARIABLES)) {
-            throw new UserError(reweight
-                    ? ls.options().names().structureModular() + " with " + ls.options().names().methodMcmc()
-                    + " re-weights each drawn DAG by 1 / (its number of "
-                    + "linear extensions), counted over subsets: at most " + MAX_REWEIGHT_VARIABLES + " variables, this store has "
-                    + n + "; use " + ls.options().names().orderModular()
-                    : ls.options().names().drawFeatures() + " from DAG draws handle at most "
-                    + MAX_DRAW_VARIABLES + " variables, this store has " + n);
-        }
+        checkDrawable(ls);
         int perChain = r.orders().size() / chains;
         int group = Math.max(1, (samples + r.orders().size() - 1) / r.orders().size());
-        int[] before = oc.restricts() ? oc.predecessorMasks() : null;
         SplittableRandom rng = new SplittableRandom(seed);
         List<List<int[]>> dags = new ArrayList<>();
-        double[][] w = reweight ? new double[chains][perChain * group] : null;
         long[] mask = new long[n];
         double[] z = new double[n];
         for (int c = 0; c < chains; c++) {
@@ -112,81 +96,60 @@ public final class DagPriorAveraging {
                     z[i] = OrderSum.childLogSum(ls, i, mask[i]);
                 }
                 for (int g = 0; g < group; g++) {
-                    int[] chosen = org.edgewise.driver.average.DagFeatures.sampleDag(ls, mask, z, rng);
-                    int[] pa = new int[n];
-                    for (int i = 0; i < n; i++) {
-                        for (int p : ls.parents(i, chosen[i])) {
-                            pa[i] |= 1 << p;
-                        }
-                    }
-                    if (reweight) {
-                        w[c][chain.size()] = 1.0 / DagDraws.linearExtensions(pa, before);
-                    }
-                    chain.add(pa);
+                    chain.add(parentMasks(ls, org.edgewise.driver.average.DagFeatures.sampleDag(ls, mask, z, rng)));
                 }
             }
             dags.add(chain);
         }
-        return new DagDraws(n, dags, group, w);
+        return new DagDraws(n, dags, group, null);
     }
 
-    /** Structure-modular MCMC: order MCMC, DAGs per stored order re-weighted by 1/ext(G). */
+    /** The DAGs partition MCMC drew (one per stored partition), as parent bitmasks. */
+    static DagDraws fromPartitions(LocalScores ls, PartitionMcmc.Result r) {
+        checkDrawable(ls);
+        List<List<int[]>> dags = new ArrayList<>();
+        for (List<int[]> chain : r.dags()) {
+            List<int[]> out = new ArrayList<>();
+            for (int[] sets : chain) {
+                out.add(parentMasks(ls, sets));
+            }
+            dags.add(out);
+        }
+        return new DagDraws(ls.variableCount(), dags, 1, null);
+    }
+
+    private static void checkDrawable(LocalScores ls) {
+        int n = ls.variableCount();
+        if (n > MAX_DRAW_VARIABLES) {
+            throw new UserError(ls.options().names().drawFeatures() + " from DAG draws handle at most "
+                    + MAX_DRAW_VARIABLES + " variables, this store has " + n);
+        }
+    }
+
+    /** Parent bitmasks of the DAG with parent-set index {@code sets[i]} per child. */
+    static int[] parentMasks(LocalScores ls, int[] sets) {
+        int[] pa = new int[sets.length];
+        for (int i = 0; i < sets.length; i++) {
+            for (int p : ls.parents(i, sets[i])) {
+                pa[i] |= 1 << p;
+            }
+        }
+        return pa;
+    }
+
+    /**
+     * Structure-modular MCMC: partition MCMC (Kuipers &amp; Moffa 2017, with DAG moves; {@link PartitionMcmc}),
+     * Rao-Blackwellised edge posteriors and parent sets, features from the stored DAGs' bits, the
+     * essential graph from the drawn DAGs.
+     */
     static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, OrderConstraints oc,
                            EdgeResult.Settings settings, ProgressListener progress) {
-        int n = ls.variableCount();
-        if (n > MAX_REWEIGHT_VARIABLES) {
-            fromChains(ls, oc, null, 1, 1, true, 0); // refuses with the message
+        if (s.essentialGraph()) {
+            checkDrawable(ls);
         }
-        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, false, progress);
-        DagDraws d = fromChains(ls, oc, r, s.chains(), s.orderSamples(), true, s.seed() + 3);
-        List<String> names = UnknownOrderAveraging.names(ls);
-        List<EdgeResult.Edge> edges = new ArrayList<>();
-        double maxRhat = 1.0;
-        double minEss = Double.POSITIVE_INFINITY;
-        for (int a = 0; a < n; a++) {
-            for (int b = 0; b < n; b++) {
-                if (a == b) {
-                    continue;
-                }
-                OrderMcmc.Estimate e = d.estimate(d.edge(a, b));
-                edges.add(new EdgeResult.Edge(names.get(a), names.get(b), UnknownOrderAveraging.clamp(e.mean()), UnknownOrderAveraging.finite(e.mcse()), UnknownOrderAveraging.finite(e.rhat())));
-                if (Double.isFinite(e.rhat())) {
-                    maxRhat = Math.max(maxRhat, e.rhat());
-                }
-                if (e.ess() > 0 && Double.isFinite(e.ess())) {
-                    minEss = Math.min(minEss, e.ess());
-                }
-            }
-        }
-        EdgeResult.Diagnostics od = UnknownOrderAveraging.diagnostics(r, s);
-        // converged: the order chains by their own diagnostics, and the re-weighted edge estimates by the same targets
-        double ess = Double.isFinite(minEss) ? Math.min(minEss, od.ess()) : od.ess();
-        double essTarget = od.essTarget() == null ? 0 : od.essTarget();
-        boolean converged = od.converged() && maxRhat < UnknownOrderAveraging.RHAT_WARN && ess >= essTarget;
-        EdgeResult.Diagnostics diag = od.withSummary(Math.max(maxRhat, od.rhat()), ess, converged);
-        return new EdgeResult("mcmc", names, null, null, DagPrior.STRUCTURE_MODULAR.label(), null, settings,
-                ResultBuilder.provenance(ls.store(), storePath), edges, ResultBuilder.topParents(ls, setPosteriors(ls, d), s.topParents()),
-                null, diag, s.features() ? features(names, s, d) : null, null, DagPrior.STRUCTURE_MODULAR.label(),
-                s.essentialGraph() ? essential(names, d) : null);
-    }
-
-    /** Weighted frequency of each allowed parent set among the draws. */
-    static double[][] setPosteriors(LocalScores ls, DagDraws d) {
-        int n = ls.variableCount();
-        double[][] out = new double[n][];
-        for (int i = 0; i < n; i++) {
-            Map<Integer, Integer> index = new HashMap<>();
-            for (int s = 0; s < ls.setCount(i); s++) {
-                index.put(ExactOrderSum.globalMaskOf(ls.masks(i)[s], ls.candidates(i)), s);
-            }
-            out[i] = new double[ls.setCount(i)];
-            final int child = i;
-            for (Map.Entry<Integer, Integer> e : index.entrySet()) {
-                int g = e.getKey();
-                out[i][e.getValue()] = d.estimate((c, k) -> d.parentsOf(c, k, child) == g).mean();
-            }
-        }
-        return out;
+        PartitionMcmc.Result r = OrderSampling.runPartitionMcmc(ls, oc, s, s.features(), progress);
+        return UnknownOrderAveraging.sampled(ls, storePath, s, settings, r.chains(), DagPrior.STRUCTURE_MODULAR,
+                r.setPosterior(), s.essentialGraph() ? essential(UnknownOrderAveraging.names(ls), fromPartitions(ls, r)) : null);
     }
 
     static List<EdgeResult.EssentialPair> essential(List<String> names, DagDraws d) {

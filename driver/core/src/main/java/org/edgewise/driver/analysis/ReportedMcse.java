@@ -11,9 +11,9 @@ import org.edgewise.driver.result.EdgeResult;
  * The MCSE target applied to the figures a sampled result reports: every edge and feature posterior
  * must have a Monte Carlo standard error of at most {@code mcseTarget} ({@link ConvergenceTargets}
  * argues the default) for the result to say converged. The chains' own diagnostics already hold the
- * quantities they sample to it; this check covers what is derived from them — the structure-modular
- * posteriors re-weighted from order MCMC's DAGs (Ellis &amp; Wong 2008), whose MCSE is larger than
- * the chains' — so that {@code converged} always speaks of the figures the reader sees.
+ * quantities they sample to it; this check covers the figures as reported — an estimate of exactly 0
+ * or 1 reports the rule-of-three bound ({@code McseBound}) rather than the chains' MCSE — so that
+ * {@code converged} always speaks of the figures the reader sees.
  * {@code diagnostics.mcse} becomes the largest MCSE of a reported posterior.
  */
 final class ReportedMcse {

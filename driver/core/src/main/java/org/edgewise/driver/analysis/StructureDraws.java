@@ -8,7 +8,7 @@ import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactDagSampler;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.PartitionMcmc;
 import org.edgewise.driver.average.OrderSampling;
 import org.edgewise.driver.average.StructureSum;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -21,9 +21,8 @@ import org.edgewise.driver.average.UnknownOrderSettings;
  *       rejection from the order-modular sampler against the exact structure-modular sum), or, when
  *       rejection would take too long, 4× as many importance-weighted draws (weight 1/ext(G),
  *       self-normalised);</li>
- *   <li>mcmc: order MCMC's stored orders, DAGs drawn per order and weighted by 1/ext(G) (Ellis &amp;
- *       Wong 2008; {@link DagPriorAveraging#fromChains}), chain by chain for an
- *       autocorrelation-aware MCSE.</li>
+ *   <li>mcmc: the DAGs partition MCMC draws, one per stored partition ({@link PartitionMcmc};
+ *       {@link DagPriorAveraging#fromPartitions}), chain by chain for an autocorrelation-aware MCSE.</li>
  * </ul>
  * Memory: n ints per DAG (≈ 0.8 MB for 20,000 DAGs on 10 variables).
  */
@@ -80,15 +79,15 @@ final class StructureDraws implements org.edgewise.driver.effect.DagDraws {
             return new StructureDraws(sampler.drawWeighted(kw, s.seed() + 2), 0, kw + " DAGs drawn exactly under the "
                     + "order-modular prior and weighted by 1/ext(G) to the structure-modular posterior (sampled; see mcse)", null, null);
         }
-        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, false, progress);
-        DagDraws d = DagPriorAveraging.fromChains(ls, oc, r, s.chains(), EffectAnalysis.DAG_DRAWS, true, s.seed() + 3);
+        PartitionMcmc.Result r = OrderSampling.runPartitionMcmc(ls, oc, s, false, progress);
+        DagDraws d = DagPriorAveraging.fromPartitions(ls, r);
         int total = 0;
         for (int c = 0; c < d.chainCount(); c++) {
             total += d.chainLength(c);
         }
-        return new StructureDraws(d, s.chains(), String.format(Locale.ROOT, "%d DAGs drawn over the orders of %d order-MCMC "
-                + "chains, weighted by 1/ext(G) to the structure-modular posterior (sampled; see mcse)", total, s.chains()),
-                r.converged(), r.maxRhat());
+        return new StructureDraws(d, s.chains(), String.format(Locale.ROOT, "%d DAGs from %d partition-MCMC chains, drawn "
+                + "from the structure-modular posterior (sampled; see mcse)", total, s.chains()),
+                r.chains().converged(), r.chains().maxRhat());
     }
 
     String description() {

@@ -7,7 +7,6 @@ import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ChainDiagnostics;
-import org.edgewise.driver.average.ChainRunner;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.average.LocalScores;
@@ -46,39 +45,10 @@ public final class UnknownOrderAveraging {
             OrderConstraints oc = s.constraints(ls);
             return s.method() == UnknownOrderSettings.Method.EXACT
                     ? DagPriorAveraging.exact(ls, storePath, s, oc, settings(ls, oc), progress)
-                    : structureModularMcmc(ls, storePath, s, oc, progress);
+                    : ReportedMcse.check(DagPriorAveraging.mcmc(ls, storePath, s, oc, settings(ls, oc), progress));
         }
         return s.method() == UnknownOrderSettings.Method.EXACT ? exact(ls, storePath, s, progress)
                 : ReportedMcse.check(mcmc(ls, storePath, s, progress));
-    }
-
-    /**
-     * Structure-modular MCMC until its reported posteriors meet the MCSE target: the estimates
-     * re-weighted from the order chains' DAGs carry more Monte Carlo error than the chains' own, so
-     * when the chains converged but a re-weighted posterior's MCSE is above the target
-     * ({@link ReportedMcse}), the run is repeated from the same seed with its first check after twice
-     * the steps it ran (the chains replay the same start and go on; MCSE falls as 1/√steps), within
-     * what is left of the time budget. Out of time, the stop reason says {@code max-time}.
-     */
-    private static EdgeResult structureModularMcmc(LocalScores ls, Path storePath, UnknownOrderSettings s,
-                                                   OrderConstraints oc, ProgressListener progress) {
-        long t0 = System.nanoTime();
-        double budget = s.maxSeconds() == null ? UnknownOrderSettings.DEFAULT_MAX_SECONDS : s.maxSeconds();
-        UnknownOrderSettings run = s;
-        while (true) {
-            EdgeResult r = ReportedMcse.check(DagPriorAveraging.mcmc(ls, storePath, run, oc, settings(ls, oc), progress));
-            EdgeResult.Diagnostics d = r.diagnostics();
-            if (d.converged() || !run.untilConverged() || !ChainRunner.StopReason.CONVERGED.label().equals(d.stopReason())) {
-                return r;
-            }
-            long ran = d.steps() + d.burnIn();
-            double left = budget - (System.nanoTime() - t0) / 1e9;
-            if (left <= 0 || run.maxSteps() != null && ran >= run.maxSteps()) {
-                return ReportedMcse.withDiagnostics(r, d.withStop(left <= 0 ? ChainRunner.StopReason.MAX_TIME.label()
-                        : ChainRunner.StopReason.MAX_STEPS.label()));
-            }
-            run = run.withFirstCheck(2 * ran, left);
-        }
     }
 
     private static EdgeResult.Settings settings(LocalScores ls, OrderConstraints oc) {
@@ -111,10 +81,25 @@ public final class UnknownOrderAveraging {
     }
 
     private static EdgeResult mcmc(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
-        int n = ls.variableCount();
         OrderConstraints oc = s.constraints(ls);
+        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, s.features(), progress);
+        List<EdgeResult.EssentialPair> essential = s.essentialGraph()
+                ? DagPriorAveraging.essential(names(ls), DagPriorAveraging.fromChains(ls, oc, r, s.chains(), s.orderSamples(), s.seed() + 3))
+                : null;
+        return sampled(ls, storePath, s, settings(ls, oc), r, DagPrior.ORDER_MODULAR,
+                SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)), essential);
+    }
+
+    /**
+     * The result of sampling chains (order MCMC or partition MCMC, whose {@code r} has the same
+     * shape): Rao-Blackwellised edges with MCSE and R̂, features, diagnostics, the given set
+     * posteriors and essential-graph pairs, under {@code prior}.
+     */
+    static EdgeResult sampled(LocalScores ls, Path storePath, UnknownOrderSettings s, EdgeResult.Settings settings,
+                              OrderMcmc.Result r, DagPrior prior, double[][] setPosterior,
+                              List<EdgeResult.EssentialPair> essential) {
+        int n = ls.variableCount();
         boolean feats = s.features();
-        OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, feats, progress);
         List<String> names = names(ls);
         List<EdgeResult.Edge> edges = new ArrayList<>();
         long draws = r.orders().size(); // stored draws, all chains: K of the rule of three (McseBound)
@@ -144,14 +129,9 @@ public final class UnknownOrderAveraging {
             }
             features = features(names, s, f[0], f[1], f[2], f[3], draws);
         }
-        EdgeResult.Diagnostics d = diagnostics(r, s);
-        List<EdgeResult.EssentialPair> essential = s.essentialGraph()
-                ? DagPriorAveraging.essential(names, DagPriorAveraging.fromChains(ls, oc, r, s.chains(), s.orderSamples(), false, s.seed() + 3))
-                : null;
-        return new EdgeResult("mcmc", names, null, null, ResultBuilder.ORDER_MODULAR, null, settings(ls, oc),
-                ResultBuilder.provenance(ls.store(), storePath), edges,
-                ResultBuilder.topParents(ls, SampledOrders.setPosteriors(ls, OrderSampling.evenlySpaced(r.orders(), SET_ORDERS)),
-                        s.topParents()), null, d, features, null, DagPrior.ORDER_MODULAR.label(), essential);
+        return new EdgeResult("mcmc", names, null, null, prior.label(), null, settings,
+                ResultBuilder.provenance(ls.store(), storePath), edges, ResultBuilder.topParents(ls, setPosterior, s.topParents()),
+                null, diagnostics(r, s), features, null, prior.label(), essential);
     }
 
     /** The order chains' diagnostics with traces thinned to at most {@value #TRACE_POINTS} points per chain. */

@@ -10,30 +10,50 @@ public final class OrderSampling {
     }
 
     /**
-     * Runs the chains of {@code s} under {@code oc}, reporting steps, acceptance and — after each
-     * convergence check — the worst R̂, the smallest bulk-ESS and the largest MCSE, with their
+     * Runs the order chains of {@code s} under {@code oc}, reporting steps, acceptance and — after
+     * each convergence check — the worst R̂, the smallest bulk-ESS and the largest MCSE, with their
      * targets, to {@code progress}.
      */
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
         OrderMcmc.Settings ms = s.mcmc(withFeatures);
-        progress.start(ms.untilConverged() ? "order MCMC until converged" : "order MCMC",
-                ms.untilConverged() ? -1 : (ms.burnIn() + ms.steps()) * ms.chains());
+        start(progress, "order MCMC", ms);
         try {
-            long[] shown = {0};
-            return OrderMcmc.run(ls, oc, ms, (done, planned, acc, report) -> {
-                if (done > shown[0]) {
-                    shown[0] = done;
-                    progress.done(done);
-                }
-                ConvergenceTargets t = ms.targets();
-                progress.chainState(new ProgressListener.ChainState(acc, report == null ? Double.NaN : report.maxRhat(),
-                        report == null ? Double.NaN : report.minEssBulk(), report == null ? Double.NaN : report.maxMcse(),
-                        t.rhat(), t.ess(), t.mcse()));
-            });
+            return OrderMcmc.run(ls, oc, ms, listener(progress, ms));
         } finally {
             progress.finish();
         }
+    }
+
+    /** The same for partition MCMC (the structure-modular prior, {@link PartitionMcmc}). */
+    public static PartitionMcmc.Result runPartitionMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
+                                                        boolean withFeatures, ProgressListener progress) {
+        OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        start(progress, "partition MCMC", ms);
+        try {
+            return PartitionMcmc.run(ls, oc, ms, listener(progress, ms));
+        } finally {
+            progress.finish();
+        }
+    }
+
+    private static void start(ProgressListener progress, String what, OrderMcmc.Settings ms) {
+        progress.start(ms.untilConverged() ? what + " until converged" : what,
+                ms.untilConverged() ? -1 : (ms.burnIn() + ms.steps()) * ms.chains());
+    }
+
+    private static ChainRunner.Listener listener(ProgressListener progress, OrderMcmc.Settings ms) {
+        long[] shown = {0};
+        ConvergenceTargets t = ms.targets();
+        return (done, planned, acc, report) -> {
+            if (done > shown[0]) {
+                shown[0] = done;
+                progress.done(done);
+            }
+            progress.chainState(new ProgressListener.ChainState(acc, report == null ? Double.NaN : report.maxRhat(),
+                    report == null ? Double.NaN : report.minEssBulk(), report == null ? Double.NaN : report.maxMcse(),
+                    t.rhat(), t.ess(), t.mcse()));
+        };
     }
 
     /** At most about {@code max} elements of {@code all}, evenly spaced, first included. */

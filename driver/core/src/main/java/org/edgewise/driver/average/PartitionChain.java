@@ -24,27 +24,32 @@ import org.edgewise.driver.UserError;
  * 12 candidates and d = 3). Cost per move: the masks (B, T) of every node, O(n·K) word operations,
  * and the rescoring of the nodes whose masks changed.
  *
- * <p><b>Moves</b>, each reversible with respect to π on its own, mixed with fixed shares:
+ * <p><b>State</b>: Λ and one DAG G whose partition is Λ ({@link PartitionDag}); the target is the joint
+ * P(G | D) ∝ Π_i exp w_i(U_i) with Λ = Λ(G), whose marginal on Λ is π. <b>Moves</b>, each leaving
+ * that joint invariant on its own, mixed with the shares of a {@link Mix}:
  * <ul>
- *   <li>split / join (share {@value #SPLIT_JOIN}): the neighbours of Λ are every split of an element
- *       T_j into (A, T_j ∖ A), A a non-empty proper subset placed first, and every join of adjacent
- *       T_j, T_{j+1}; there are N(Λ) = Σ_j (2^{|T_j|} − 2) + (m − 1) of them. One is proposed uniformly,
- *       so q(Λ'|Λ) = 1/N(Λ); a split's reverse is the join of its two parts and vice versa (one to
- *       one), so the Hastings ratio is q(Λ|Λ')/q(Λ'|Λ) = N(Λ)/N(Λ') and the acceptance
- *       min(1, π(Λ')·N(Λ) / (π(Λ)·N(Λ'))) (Kuipers &amp; Moffa 2017, sec. 4.1).</li>
- *   <li>swap (share {@value #SWAP}): two nodes in different elements exchange them, the pair drawn
- *       uniformly among such pairs; the element sizes are unchanged, so the number of such pairs,
- *       C(n,2) − Σ_j C(|T_j|,2), is the same before and after: symmetric, acceptance
- *       min(1, π(Λ')/π(Λ)) (ibid., sec. 4.2).</li>
- *   <li>node move (the rest): a node v drawn uniformly is taken out (its element removed if it was
- *       alone), leaving Λ − v with m' elements, and put back at one of the 2m' + 1 places of Λ − v —
- *       into one of its m' elements or as a new singleton element in one of its m' + 1 gaps. Every
- *       partition so reachable has the same Λ − v, hence the same places, so drawing the place with
- *       probability ∝ π (current place included) is a Gibbs update that leaves π invariant with no
- *       accept/reject (the paper's node move, sec. 4.2, made a heat-bath step: measured, a uniform
- *       place was accepted about once in a thousand steps on wide tables, where most places leave
- *       some node without a parent in the element before it).</li>
+ *   <li>DAG moves, after which Λ follows G (its layering, rescored): single-edge add / delete /
+ *       reverse ({@link DagMoves#edge}, Madigan &amp; York 1995; Giudici &amp; Castelo 2003), a Gibbs
+ *       draw of one child's parent set among the sets that keep G acyclic ({@link DagMoves#parents}),
+ *       and the new edge reversal ({@link DagMoves#reversal}, Grzegorczyk &amp; Husmeier 2008);</li>
+ *   <li>partition moves, each reversible with respect to π; when one is taken, the parent sets of
+ *       the children whose allowed sets changed are redrawn from P(G | Λ', D):
+ *     <ul>
+ *       <li>split / join: the neighbours of Λ are every split of an element T_j into (A, T_j ∖ A),
+ *           A a non-empty proper subset placed first, and every join of adjacent T_j, T_{j+1};
+ *           there are N(Λ) = Σ_j (2^{|T_j|} − 2) + (m − 1) of them. One is proposed uniformly, so
+ *           q(Λ'|Λ) = 1/N(Λ); a split's reverse is the join of its two parts and vice versa, so the
+ *           acceptance is min(1, π(Λ')·N(Λ) / (π(Λ)·N(Λ'))) (Kuipers &amp; Moffa 2017, sec. 4.1);</li>
+ *       <li>swap: two nodes in different elements exchange them, the pair drawn uniformly among
+ *           such pairs, whose number C(n,2) − Σ_j C(|T_j|,2) the swap does not change: symmetric,
+ *           acceptance min(1, π(Λ')/π(Λ)) (ibid., sec. 4.2).</li>
+ *     </ul></li>
  * </ul>
+ * Measured (docs/unknown-order.md): with partition moves alone (and the paper's node move, uniform
+ * or as a heat-bath step) the chains froze on windowed candidate sets at n = 50 — almost every
+ * partition move leaves some node without a candidate parent in the element before it (π = 0) —
+ * while a single DAG move shifts the partition wherever the DAG goes; the node move, whose
+ * heat-bath form rescored all 2m' + 1 places, cost ten times the ESS per second and was dropped.
  *
  * <p><b>Constraints</b>: forbidden and required edges are already in {@link LocalScores} (sets
  * removed); tiers are honoured by removing from each child's B and T the candidates that must
@@ -53,7 +58,7 @@ import org.edgewise.driver.UserError;
  * refuses the other case).
  *
  * <p>The draws go to a {@link DrawStore}: per candidate edge the Rao-Blackwellised
- * P(j → i | Λ, D) (the weight share of i's allowed sets that contain j), π's log, and the
+ * P(j → i | Λ, D) (the weight share of i's allowed sets that contain j), the DAG's log score, and the
  * {@link State}: a linear extension (nodes by element), one DAG drawn from Λ (each node's parent set
  * by weight among its allowed sets), the element of every node and, with features, the ancestor and
  * Markov-blanket bits of that DAG.
@@ -62,10 +67,23 @@ import org.edgewise.driver.UserError;
  * state and n²/32 bytes of feature bits. Mutable, confined to one thread at a time.
  */
 final class PartitionChain extends SteppedChain {
-    /** Share of split/join moves (not tuned; common practice in the paper's own sampler is a mix). */
-    static final double SPLIT_JOIN = 0.4;
-    /** Share of swap moves. */
-    static final double SWAP = 0.3;
+    /**
+     * The shares of the moves in a step; swaps take the rest of 1. {@link #DEFAULT} measured on
+     * windowed random networks (n = 50, 100; docs/unknown-order.md): the DAG moves are cheap
+     * (O(n + edges) when taken, O(1)–O(#sets) when not) and mix; the partition moves cost an
+     * O(n·K) rescoring each and are kept at a small share.
+     */
+    record Mix(double edge, double parents, double reversal, double splitJoin) {
+        static final Mix DEFAULT = new Mix(0.45, 0.25, 0.2, 0.05);
+
+        Mix {
+            if (!(edge >= 0 && parents >= 0 && reversal >= 0 && splitJoin >= 0 && edge + parents + reversal + splitJoin <= 1 + 1e-12)) {
+                throw new IllegalArgumentException("move shares must be ≥ 0 and add up to at most 1: " + edge + ", " + parents
+                        + ", " + reversal + ", " + splitJoin);
+            }
+        }
+    }
+
     /** Largest n: N(Λ) involves 2^{|T_j|} as a double. */
     static final int MAX_VARIABLES = 1000;
     private static final double DIRECT_BELOW = 1e-4;
@@ -83,6 +101,7 @@ final class PartitionChain extends SteppedChain {
     private final double[] emptyLog;
     private final SplittableRandom rng;
     private final SplittableRandom drawRng;
+    private final Mix mix;
 
     private int m;
     private int[] elem;
@@ -100,12 +119,15 @@ final class PartitionChain extends SteppedChain {
     private final long[] chLast;
     private final double[] chLog;
     private int chCount;
-    private double[] placeLog;
+    /** The chain's DAG, whose partition is Λ (drawn from P(G | Λ, D) after every partition move). */
+    private PartitionDag dag;
+    private DagMoves dagMoves;
 
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
-                   SplittableRandom rng, DrawStore draws) {
+                   SplittableRandom rng, DrawStore draws, Mix mix) {
         super(draws);
+        this.mix = mix;
         this.ls = ls;
         this.tables = tables;
         this.n = ls.variableCount();
@@ -162,6 +184,8 @@ final class PartitionChain extends SteppedChain {
             }
             if (ok) {
                 int[] chosen = DagFeatures.sampleDag(ls, mask, z, rng);
+                dag = new PartitionDag(ls, chosen);
+                dagMoves = new DagMoves(ls, tables, this, excluded, dag, rng);
                 m = 0;
                 for (int v : order) {
                     int layer = 0;
@@ -290,6 +314,11 @@ final class PartitionChain extends SteppedChain {
         return sum;
     }
 
+    /** The chain's DAG: each child's parent-set index in {@link LocalScores#masks(int)} (a copy; tests). */
+    int[] dagSets() {
+        return dag.sets();
+    }
+
     /** Current element of every node (a copy; tests). */
     int[] elements() {
         return elem.clone();
@@ -300,17 +329,35 @@ final class PartitionChain extends SteppedChain {
             return;
         }
         double u = rng.nextDouble();
+        if (u < mix.edge()) {
+            if (dagMoves.edge(elem)) {
+                follow();
+            }
+            return;
+        }
+        u -= mix.edge();
+        if (u < mix.parents()) {
+            if (dagMoves.parents()) {
+                follow();
+            }
+            return;
+        }
+        u -= mix.parents();
+        if (u < mix.reversal()) {
+            if (dagMoves.reversal()) {
+                follow();
+            }
+            return;
+        }
+        u -= mix.reversal();
         double logRatio;
-        if (u < SPLIT_JOIN) {
+        if (u < mix.splitJoin()) {
             logRatio = proposeSplitJoin();
-        } else if (u < SPLIT_JOIN + SWAP) {
+        } else {
             if (m == 1) {
                 return;
             }
             logRatio = proposeSwap();
-        } else {
-            gibbsNodeMove();
-            return;
         }
         double delta = rescore();
         if (!(delta > Double.NEGATIVE_INFINITY)) {
@@ -323,8 +370,55 @@ final class PartitionChain extends SteppedChain {
         accept(delta);
     }
 
-    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
+    /**
+     * A partition move's acceptance: Λ' becomes the state and the chain's DAG is redrawn from
+     * P(G | Λ', D) where that differs from P(G | Λ, D) — the children whose masks changed; the
+     * others' parent sets are already draws from their (unchanged) conditional, which factorises
+     * over children and which the move, deciding on Λ alone, leaves as it was.
+     */
     private void accept(double delta) {
+        commit(delta);
+        for (int k = 0; k < chCount; k++) {
+            int v = chChild[k];
+            dag.setParents(v, drawAllowed(v, rng.nextDouble()));
+        }
+    }
+
+    /** Child v's parent set drawn among those allowed in the current Λ, by weight (inversion of u). */
+    private int drawAllowed(int v, double u) {
+        long[] masks = ls.masks(v);
+        double[] w = ls.weights(v);
+        boolean first = elem[v] == 0;
+        double acc = 0;
+        int chosen = -1;
+        for (int s = 0; s < masks.length; s++) {
+            if (allowed(masks[s], first, pred[v], last[v])) {
+                chosen = s;
+                acc += Math.exp(w[s] - logSum[v]);
+                if (u < acc) {
+                    break;
+                }
+            }
+        }
+        return chosen;
+    }
+
+    /** Λ follows the chain's DAG after a DAG move: its partition, rescored and made the state. */
+    private void follow() {
+        newM = dag.layers(newElem);
+        java.util.Arrays.fill(newSize, 0);
+        for (int v = 0; v < n; v++) {
+            newSize[newElem[v]]++;
+        }
+        double delta = rescore();
+        if (!(delta > Double.NEGATIVE_INFINITY)) {
+            throw new IllegalStateException("the partition of an accepted DAG has no weight");
+        }
+        commit(delta);
+    }
+
+    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
+    private void commit(double delta) {
         accepted++;
         int[] t = elem;
         elem = newElem;
@@ -417,70 +511,6 @@ final class PartitionChain extends SteppedChain {
         return 0;
     }
 
-    /**
-     * The node move as a Gibbs update: v drawn uniformly, and its place among all 2m' + 1 places of
-     * Λ − v (the current one included) drawn with probability ∝ π. Every partition reachable this
-     * way has the same Λ − v and so the same set of places: a heat-bath step on that block, which
-     * leaves π invariant with no accept/reject. Cost: 2m' + 2 rescorings.
-     */
-    private void gibbsNodeMove() {
-        int v = rng.nextInt(n);
-        int e = elem[v];
-        boolean alone = size[e] == 1;
-        int mr = alone ? m - 1 : m;
-        int places = 2 * mr + 1;
-        if (placeLog == null || placeLog.length < places) {
-            placeLog = new double[2 * n + 2];
-        }
-        double max = Double.NEGATIVE_INFINITY;
-        for (int p = 0; p < places; p++) {
-            placeNode(v, e, alone, p);
-            placeLog[p] = rescore();
-            max = Math.max(max, placeLog[p]);
-        }
-        double total = 0;
-        for (int p = 0; p < places; p++) {
-            total += Math.exp(placeLog[p] - max);
-        }
-        double u = rng.nextDouble() * total;
-        int chosen = -1;
-        for (int p = 0; p < places; p++) {
-            if (placeLog[p] > Double.NEGATIVE_INFINITY) {
-                chosen = p;
-                u -= Math.exp(placeLog[p] - max);
-                if (u < 0) {
-                    break;
-                }
-            }
-        }
-        int current = alone ? 2 * e : 2 * e + 1;
-        if (chosen < 0 || chosen == current) {
-            return;
-        }
-        placeNode(v, e, alone, chosen);
-        double delta = rescore();
-        accept(delta);
-    }
-
-    /** newElem/newSize/newM: v (now in element e, alone or not) put at place p of Λ − v (2g gap g, 2g + 1 element g). */
-    private void placeNode(int v, int e, boolean alone, int place) {
-        int mr = alone ? m - 1 : m;
-        java.util.Arrays.fill(newSize, 0);
-        boolean gap = (place & 1) == 0;
-        int g = place >> 1;
-        for (int x = 0; x < n; x++) {
-            if (x == v) {
-                continue;
-            }
-            int red = alone && elem[x] > e ? elem[x] - 1 : elem[x];
-            newElem[x] = gap && red >= g ? red + 1 : red;
-            newSize[newElem[x]]++;
-        }
-        newElem[v] = g;
-        newSize[g]++;
-        newM = gap ? mr + 1 : mr;
-    }
-
     /** Masks and scores of the nodes whose masks change under newElem; returns log π(Λ') − log π(Λ). */
     private double rescore() {
         chCount = 0;
@@ -542,7 +572,21 @@ final class PartitionChain extends SteppedChain {
         }
         int[] order = linearExtension();
         long[] feats = features ? DagFeatures.indicators(ls, sets, order) : null;
-        draws.add(stepsDone, row, score, new State(order, sets, elem.clone(), feats));
+        draws.add(stepsDone, row, dagLogScore(), new State(order, sets, elem.clone(), feats));
+    }
+
+    /**
+     * The log-score trace: log of the target density at the chain's state, Σ_i w_i(U_i) of its DAG G
+     * (log P(G) + log P(D | G) up to a constant) — the chain's lp. Not log π(Λ): that sum over the
+     * partition's DAGs moves by fractions of a nat when a weak edge shifts some element, so slowly
+     * that its R̂ flagged runs whose every edge had R̂ &lt; 1.002 and ESS &gt; 2,700 (n = 100, measured).
+     */
+    private double dagLogScore() {
+        double lp = 0;
+        for (int i = 0; i < n; i++) {
+            lp += ls.weights(i)[dag.set(i)];
+        }
+        return lp;
     }
 
     /** The nodes by element (a linear extension of every DAG of Λ). */

@@ -45,7 +45,7 @@ public final class PartitionMcmc {
         checkTiers(ls, oc);
         int[] offset = OrderMcmc.edgeOffsets(ls);
         OrderMcmc.Run<PartitionChain> run = OrderMcmc.runChains(ls, offset, s, listener, (tables, rng, store) ->
-                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store));
+                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT));
         List<PartitionChain> chains = run.chains();
         ChainRunner.Outcome out = run.outcome();
         OrderMcmc.Result r = run.result();

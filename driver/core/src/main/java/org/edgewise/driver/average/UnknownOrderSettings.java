@@ -113,12 +113,6 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         return ConvergenceTargets.withRhat(rhatTarget()).withMcse(mcseTarget == null ? ConvergenceTargets.DEFAULT_MCSE : mcseTarget);
     }
 
-    /** These settings run until converged with the first check after {@code steps} steps per chain, within {@code seconds}. */
-    public UnknownOrderSettings withFirstCheck(long steps, double seconds) {
-        return new UnknownOrderSettings(method, tiers, seed, chains, steps, null, draws, rhatTarget(), maxSteps, seconds,
-                ancestors, markovBlanket, orderSamples, topParents, dagPrior, essentialGraph, mcseTarget);
-    }
-
     /** The burn-in of a fixed run: as given, else a quarter of the steps. */
     public long burnInSteps() {
         return burnIn != null ? burnIn : steps == null ? 0 : steps / 4;

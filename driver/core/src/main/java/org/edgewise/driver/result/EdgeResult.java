@@ -112,13 +112,6 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                     drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
         }
 
-        /** The same diagnostics with another stop reason. */
-        public Diagnostics withStop(String reason) {
-            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
-                    rhatTarget, essTarget, mcseTarget, mcse, essTail, reason, constant, settled, stuck, settleSpan, worst,
-                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
-        }
-
         /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
         public Diagnostics withVerdict(boolean converged, Double mcse, List<Worst> worst) {
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,

@@ -81,7 +81,7 @@ class PartitionMcmcTest {
             offset[i + 1] = offset[i] + ls.candidates(i).length;
         }
         return new PartitionChain(ls, new ChildTables(ls, 1L << 26), oc, offset, false, new SplittableRandom(1),
-                new DrawStore(offset[n], 10, 1, 0));
+                new DrawStore(offset[n], 10, 1, 0), PartitionChain.Mix.DEFAULT);
     }
 
     static void assertScoresMatch(LocalScores ls, OrderConstraints oc, String what) {
