@@ -31,7 +31,8 @@ import org.edgewise.driver.UserError;
  *   <li>DAG moves, after which Λ follows G (its layering, rescored): single-edge add / delete /
  *       reverse ({@link DagMoves#edge}, Madigan &amp; York 1995; Giudici &amp; Castelo 2003), a Gibbs
  *       draw of one child's parent set among the sets that keep G acyclic ({@link DagMoves#parents}),
- *       and the new edge reversal ({@link DagMoves#reversal}, Grzegorczyk &amp; Husmeier 2008);</li>
+ *       the new edge reversal ({@link DagMoves#reversal}, Grzegorczyk &amp; Husmeier 2008), and a
+ *       joint Gibbs draw of the parent sets of a block of up to four nodes ({@link DagMoves#block});</li>
  *   <li>partition moves, each reversible with respect to π; when one is taken, the parent sets of
  *       the children whose allowed sets changed are redrawn from P(G | Λ', D):
  *     <ul>
@@ -68,18 +69,19 @@ import org.edgewise.driver.UserError;
  */
 final class PartitionChain extends SteppedChain {
     /**
-     * The shares of the moves in a step; swaps take the rest of 1. {@link #DEFAULT} measured on
-     * windowed random networks (n = 50, 100; docs/unknown-order.md): the DAG moves are cheap
-     * (O(n + edges) when taken, O(1)–O(#sets) when not) and mix; the partition moves cost an
-     * O(n·K) rescoring each and are kept at a small share.
+     * The shares of the moves in a step; swaps take the rest of 1. {@link #DEFAULT} chosen by ESS
+     * per CPU-second (docs/unknown-order.md: random networks, n = 50 and 100, windowed candidates
+     * and the tally's 12 candidates): the DAG moves are cheap (O(n + edges) when taken, O(1)–O(#sets)
+     * when not) and mix; reversals and blocks turn directions, which mix slowest; the partition
+     * moves cost an O(n·K) rescoring each and are kept at a small share.
      */
-    record Mix(double edge, double parents, double reversal, double splitJoin) {
-        static final Mix DEFAULT = new Mix(0.45, 0.25, 0.2, 0.05);
+    record Mix(double edge, double parents, double reversal, double block, double splitJoin) {
+        static final Mix DEFAULT = new Mix(0.35, 0.05, 0.3, 0.25, 0.05);
 
         Mix {
-            if (!(edge >= 0 && parents >= 0 && reversal >= 0 && splitJoin >= 0 && edge + parents + reversal + splitJoin <= 1 + 1e-12)) {
-                throw new IllegalArgumentException("move shares must be ≥ 0 and add up to at most 1: " + edge + ", " + parents
-                        + ", " + reversal + ", " + splitJoin);
+            if (!(edge >= 0 && parents >= 0 && reversal >= 0 && block >= 0 && splitJoin >= 0
+                    && edge + parents + reversal + block + splitJoin <= 1 + 1e-12)) {
+                throw new IllegalArgumentException("move shares must be ≥ 0 and add up to at most 1: " + this);
             }
         }
     }
@@ -350,6 +352,13 @@ final class PartitionChain extends SteppedChain {
             return;
         }
         u -= mix.reversal();
+        if (u < mix.block()) {
+            if (dagMoves.block()) {
+                follow();
+            }
+            return;
+        }
+        u -= mix.block();
         double logRatio;
         if (u < mix.splitJoin()) {
             logRatio = proposeSplitJoin();

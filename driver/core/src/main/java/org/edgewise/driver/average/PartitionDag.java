@@ -20,6 +20,8 @@ final class PartitionDag {
     private final int[][] slotSet;
     /** Current parent set of each child (index in ls.masks) and its mask. */
     private final int[] set;
+    /** The largest allowed parent set size over all children. */
+    private final int maxSetSize;
     private final long[] mask;
     private final int[] seen;
     private int stamp;
@@ -51,6 +53,13 @@ final class PartitionDag {
                 slotSet[i][h] = s;
             }
         }
+        int largest = 0;
+        for (int i = 0; i < n; i++) {
+            for (long mk : ls.masks(i)) {
+                largest = Math.max(largest, Long.bitCount(mk));
+            }
+        }
+        maxSetSize = largest;
         set = sets.clone();
         mask = new long[n];
         for (int i = 0; i < n; i++) {
@@ -102,6 +111,37 @@ final class PartitionDag {
         mask[child] = m;
     }
 
+    /** Number of edges of G, O(n). */
+    int edgeCount() {
+        int e = 0;
+        for (int i = 0; i < n; i++) {
+            e += Long.bitCount(mask[i]);
+        }
+        return e;
+    }
+
+    /**
+     * An edge of G drawn uniformly, as {@code child << 32 | candidate position}, or −1 when G has
+     * none: by rejection — a child uniformly and a slot below the largest set size D uniformly,
+     * kept when the child has that many parents — so each edge has probability 1/(n·D) per trial.
+     */
+    long randomEdge(java.util.SplittableRandom rng) {
+        if (maxSetSize == 0 || edgeCount() == 0) {
+            return -1;
+        }
+        while (true) {
+            int i = rng.nextInt(n);
+            int r = rng.nextInt(maxSetSize);
+            long mk = mask[i];
+            if (r < Long.bitCount(mk)) {
+                for (int t = 0; t < r; t++) {
+                    mk &= mk - 1;
+                }
+                return (long) i << 32 | Long.numberOfTrailingZeros(mk);
+            }
+        }
+    }
+
     /** The current sets (a copy). */
     int[] sets() {
         return set.clone();
@@ -147,6 +187,26 @@ final class PartitionDag {
      * masks each call, O(n + edges).
      */
     int markDescendants(int root) {
+        buildChildren();
+        stamp++;
+        int top = 0;
+        stack[top++] = root;
+        seen[root] = stamp;
+        while (top > 0) {
+            int x = stack[--top];
+            for (int e = childStart[x]; e < childStart[x + 1]; e++) {
+                int c = childList[e];
+                if (seen[c] != stamp) {
+                    seen[c] = stamp;
+                    stack[top++] = c;
+                }
+            }
+        }
+        return stamp;
+    }
+
+    /** Children lists (CSR) from the current parent masks, O(n + edges). */
+    private void buildChildren() {
         java.util.Arrays.fill(childStart, 0);
         int edges = 0;
         for (int x = 0; x < n; x++) {
@@ -169,21 +229,31 @@ final class PartitionDag {
                 childList[fill[cand[Long.numberOfTrailingZeros(r)]]++] = x;
             }
         }
-        stamp++;
-        int top = 0;
-        stack[top++] = root;
-        seen[root] = stamp;
-        while (top > 0) {
-            int x = stack[--top];
-            for (int e = childStart[x]; e < childStart[x + 1]; e++) {
-                int c = childList[e];
-                if (seen[c] != stamp) {
-                    seen[c] = stamp;
-                    stack[top++] = c;
+    }
+
+    /**
+     * For a block of nodes whose parents are all removed (masks 0): {@code reach[x]} gets bit p set
+     * for every node x reachable from {@code block[p]} (x ≠ block[p]); the other entries are cleared.
+     * No path passes through another block node (they have no parents). O(m·(n + edges)).
+     */
+    void reachFrom(int[] block, int m, int[] reach) {
+        buildChildren();
+        java.util.Arrays.fill(reach, 0);
+        for (int p = 0; p < m; p++) {
+            int bit = 1 << p;
+            int top = 0;
+            stack[top++] = block[p];
+            while (top > 0) {
+                int x = stack[--top];
+                for (int e = childStart[x]; e < childStart[x + 1]; e++) {
+                    int c = childList[e];
+                    if ((reach[c] & bit) == 0) {
+                        reach[c] |= bit;
+                        stack[top++] = c;
+                    }
                 }
             }
         }
-        return stamp;
     }
 
     boolean isMarked(int v, int mark) {

@@ -22,10 +22,11 @@ import org.junit.jupiter.api.Test;
  * 10⁴ effective draws over a few hundred DAGs.
  */
 class PartitionMovesTest {
-    private static final PartitionChain.Mix EDGES = new PartitionChain.Mix(1, 0, 0, 0);
-    private static final PartitionChain.Mix PARENTS = new PartitionChain.Mix(0, 1, 0, 0);
-    private static final PartitionChain.Mix REVERSAL = new PartitionChain.Mix(0, 0.5, 0.5, 0);
-    private static final PartitionChain.Mix PARTITIONS = new PartitionChain.Mix(0, 0, 0, 0.5);
+    private static final PartitionChain.Mix EDGES = new PartitionChain.Mix(1, 0, 0, 0, 0);
+    private static final PartitionChain.Mix PARENTS = new PartitionChain.Mix(0, 1, 0, 0, 0);
+    private static final PartitionChain.Mix REVERSAL = new PartitionChain.Mix(0, 0.5, 0.5, 0, 0);
+    private static final PartitionChain.Mix BLOCKS = new PartitionChain.Mix(0, 0, 0, 1, 0);
+    private static final PartitionChain.Mix PARTITIONS = new PartitionChain.Mix(0, 0, 0, 0, 0.5);
 
     static PartitionChain chain(LocalScores ls, OrderConstraints oc, PartitionChain.Mix mix, long seed) {
         int n = ls.variableCount();
@@ -83,7 +84,7 @@ class PartitionMovesTest {
     void eachMoveAloneLeavesThePosteriorInvariant() {
         LocalScores ls = TestStores.scores(TestStores.random(4, 2, 3, 60, 11));
         OrderConstraints none = OrderConstraints.none(4);
-        for (PartitionChain.Mix mix : List.of(EDGES, PARENTS, REVERSAL, PARTITIONS, PartitionChain.Mix.DEFAULT)) {
+        for (PartitionChain.Mix mix : List.of(EDGES, PARENTS, REVERSAL, BLOCKS, PARTITIONS, PartitionChain.Mix.DEFAULT)) {
             double tv = totalVariation(ls, none, mix, 400_000, 3);
             assertTrue(tv < 0.05, mix + ": total variation " + tv);
         }
@@ -93,7 +94,7 @@ class PartitionMovesTest {
     void unequalCandidateSetsKeepTheHastingsRatioRight() {
         // windowed candidates: the end variables have fewer, so the reversal's K_i / K_j is not 1
         LocalScores ls = TestStores.scores(TestStores.scaled(TestStores.windowed(5, 1, 2, 300, 29), 0.02));
-        for (PartitionChain.Mix mix : List.of(EDGES, REVERSAL, PartitionChain.Mix.DEFAULT)) {
+        for (PartitionChain.Mix mix : List.of(EDGES, REVERSAL, BLOCKS, PartitionChain.Mix.DEFAULT)) {
             double tv = totalVariation(ls, OrderConstraints.none(5), mix, 400_000, 9);
             assertTrue(tv < 0.05, mix + " with windowed candidates: total variation " + tv);
         }
@@ -106,7 +107,7 @@ class PartitionMovesTest {
         LocalScores fr = TestStores.scores(s, List.of(new EdgeRule(v[1], v[2]), new EdgeRule(v[2], v[1])),
                 List.of(new EdgeRule(v[0], v[3])));
         OrderConstraints tiers = OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0, 3}, new int[] {1, 2}));
-        for (PartitionChain.Mix mix : List.of(EDGES, PARENTS, REVERSAL, PartitionChain.Mix.DEFAULT)) {
+        for (PartitionChain.Mix mix : List.of(EDGES, PARENTS, REVERSAL, BLOCKS, PartitionChain.Mix.DEFAULT)) {
             double tv = totalVariation(fr, tiers, mix, 400_000, 5);
             assertTrue(tv < 0.05, mix + " under forbid + require + tiers: total variation " + tv);
         }
