@@ -40,7 +40,7 @@ class ConvergenceTextTest {
     }
 
     @Test
-    void onlyTheMcseMissingAndTheReweightedCase() {
+    void onlyTheMcseMissingAndAReportedFigureMissing() {
         List<EdgeResult.Worst> noisy = List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"));
         assertEquals("""
 
@@ -57,9 +57,9 @@ class ConvergenceTextTest {
                 """, UnknownOrderEdges.convergence(diagnostics(false, "max-time", noisy)));
         assertEquals("edges: WARNING: not converged (the chains met the targets, the reported posteriors did not; needs R-hat < 1.01, "
                 + "bulk ESS >= 400 and MCSE <= 0.01 for every quantity): the posteriors are not reliable. Worst: edge v20 -> v19 "
-                + "(R-hat 1.007, ESS 812, MCSE 0.0173). The chains met the targets but the posteriors derived from them (re-weighted "
-                + "to the structure-modular DAG prior) did not: lower the MCSE target (--mcse-target, e.g. 0.005) so that the chains "
-                + "run longer, or use the order-modular DAG prior (--dag-prior order-modular).",
+                + "(R-hat 1.007, ESS 812, MCSE 0.0173). The chains met the targets but a posterior as reported did not (a posterior "
+                + "of exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target (--mcse-target, e.g. 0.005) so that the "
+                + "chains run longer and keep more draws.",
                 UnknownOrderEdges.notConverged(diagnostics(false, "converged", noisy)));
     }
 

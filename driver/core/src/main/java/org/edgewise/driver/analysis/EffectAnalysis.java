@@ -38,7 +38,7 @@ import org.edgewise.driver.store.Manifest;
  * <li>{@code mcmc}: the orders kept by the chains, at most {@value #MAX_ORDERS_PER_CHAIN} per chain
  * evenly spaced, with an autocorrelation-aware MCSE;</li>
  * <li>structure-modular prior: DAGs drawn from the structure-modular posterior ({@link StructureDraws}:
- * exact draws for {@code exact}, order-MCMC DAGs re-weighted by 1/ext(G) for {@code mcmc}) fed to
+ * exact draws for {@code exact}, partition-MCMC DAGs for {@code mcmc}) fed to
  * {@link EffectEngine#overDags}, with MCSE (sampled).</li>
  * </ul>
  */

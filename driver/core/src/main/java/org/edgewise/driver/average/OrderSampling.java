@@ -16,22 +16,20 @@ public final class OrderSampling {
      */
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
-        OrderMcmc.Settings ms = s.mcmc(withFeatures);
-        start(progress, "order MCMC", ms);
-        try {
-            return OrderMcmc.run(ls, oc, ms, listener(progress, ms));
-        } finally {
-            progress.finish();
-        }
+        return run("order MCMC", s.mcmc(withFeatures), progress, (ms, l) -> OrderMcmc.run(ls, oc, ms, l));
     }
 
     /** The same for partition MCMC (the structure-modular prior, {@link PartitionMcmc}). */
     public static PartitionMcmc.Result runPartitionMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                                         boolean withFeatures, ProgressListener progress) {
-        OrderMcmc.Settings ms = s.mcmc(withFeatures);
-        start(progress, "partition MCMC", ms);
+        return run("partition MCMC", s.mcmc(withFeatures), progress, (ms, l) -> PartitionMcmc.run(ls, oc, ms, l));
+    }
+
+    private static <R> R run(String what, OrderMcmc.Settings ms, ProgressListener progress,
+                             java.util.function.BiFunction<OrderMcmc.Settings, ChainRunner.Listener, R> sampler) {
+        start(progress, what, ms);
         try {
-            return PartitionMcmc.run(ls, oc, ms, listener(progress, ms));
+            return sampler.apply(ms, listener(progress, ms));
         } finally {
             progress.finish();
         }

@@ -86,9 +86,9 @@ public final class ConvergenceAdvice {
                     + (onlyMcse ? "; the chains agree, only the Monte Carlo error is still above its target." : "."));
             case "max-steps" -> out.add("Run longer: raise or drop the step cap (" + h.maxSteps() + ").");
             case "steps" -> out.add("Run until converged instead of a fixed number of steps (" + h.untilConverged() + ").");
-            case "converged" -> out.add("The chains met the targets but the posteriors derived from them (re-weighted to the "
-                    + "structure-modular DAG prior) did not: lower the MCSE target (" + h.mcseTarget()
-                    + ", e.g. 0.005) so that the chains run longer, or use the order-modular DAG prior (" + h.orderModular() + ").");
+            case "converged" -> out.add("The chains met the targets but a posterior as reported did not (a posterior of "
+                    + "exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target (" + h.mcseTarget()
+                    + ", e.g. 0.005) so that the chains run longer and keep more draws.");
             default -> out.add("Run longer (" + h.maxTime() + ").");
         }
         if (stuck) {

@@ -134,7 +134,7 @@ public final class HtmlReport {
             case "order" -> "averaged over the structures consistent with a given order";
             case "exact" -> structure ? "averaged exactly over all DAGs (structure-modular DAG prior)"
                     : "averaged exactly over all orders (order-modular DAG prior)";
-            case "mcmc" -> structure ? "averaged over DAGs drawn from order MCMC, re-weighted to the structure-modular DAG prior"
+            case "mcmc" -> structure ? "averaged over DAGs sampled by partition MCMC (structure-modular DAG prior)"
                     : "averaged over orders sampled by order MCMC (order-modular DAG prior)";
             default -> m;
         };

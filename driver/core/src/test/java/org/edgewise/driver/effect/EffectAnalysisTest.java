@@ -77,7 +77,7 @@ class EffectAnalysisTest {
     void structureModularIsWithinFourMcseOfTheBruteForceOverAllDags() {
         // Every DAG on 5 nodes with in-degree ≤ 2, weighted by P(D | G) alone (sequential predictive):
         // the structure-modular prior with ρ = 1, uniform over DAGs (Tian & He 2009; DESIGN.md). The
-        // engine draws DAGs (exact draws; order-MCMC DAGs re-weighted by 1/ext(G)), so it is sampled:
+        // engine draws DAGs (exact draws; partition-MCMC DAGs), so it is sampled:
         // within 4 MCSE (common practice), and the MCSE must be small enough to make that a test.
         EffectEngineTest.Fixture f = EffectEngineTest.Fixture.of(77_077L, 150, 2, 2, 2, 3, 2, 2);
         List<int[][]> dags = EffectBruteForce.allDags(5, 2);
