@@ -120,12 +120,9 @@ public final class PredictCommand implements Callable<Integer> {
                 "a conditional needs P(given | D), a sum over the hidden variables");
         UnknownOrderSettings settings = meth.equals("order") ? null
                 : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
-        structure = settings != null && settings.dagPrior() == DagPrior.STRUCTURE_MODULAR;
-        if (structure && meth.equals("mcmc")) {
-            throw new UserError("predict --method mcmc is implemented under the order-modular DAG prior only: "
-                    + "use --method exact (exact under the structure-modular prior) or add --dag-prior order-modular");
-        }
-        Checks.notApplicable(exactCases && structure, "--exact-cases", "with --dag-prior structure-modular",
+        prior = settings == null ? null : settings.dagPrior();
+        structure = prior == DagPrior.STRUCTURE_MODULAR && !meth.equals("mcmc");
+        Checks.notApplicable(exactCases && prior == DagPrior.STRUCTURE_MODULAR, "--exact-cases", "with --dag-prior structure-modular",
                 "every case is already exact there, Z(D + case) / Z(D) over all DAGs");
         ScoreStore store = StoreReader.read(averaging.scoring.store);
         Manifest m = store.manifest();
@@ -171,7 +168,8 @@ public final class PredictCommand implements Callable<Integer> {
             avg = mix;
             best = CasePredictor.bestNetwork(OrderPosterior.of(ls, mix.bestOrder())).withMaxHiddenStates(maxHiddenStates);
             averagedOver = exact != null ? "exact: all allowed orders, as Z(D + case) / Z(D)"
-                    : mix.sampled() ? meth + ": " + mix.draws() + " sampled orders, " + mix.size() + " distinct"
+                    : mix.sampled() ? meth + ": " + mix.draws() + (prior == DagPrior.STRUCTURE_MODULAR ? " sampled partitions, "
+                    : " sampled orders, ") + mix.size() + " distinct"
                     : meth + ": all " + mix.size() + " allowed orders";
         }
         if (given != null) {
@@ -184,8 +182,11 @@ public final class PredictCommand implements Callable<Integer> {
         return batch(table, avg, best, given);
     }
 
-    /** Over unknown orders under the structure-modular prior (exact, {@link StructureCasePrediction}). */
+    /** Over unknown orders under the structure-modular prior, exact ({@link StructureCasePrediction}). */
     private boolean structure;
+
+    /** The DAG prior over unknown orders; null given an order. */
+    private DagPrior prior;
 
     /** For unknown orders: what the prediction was averaged over; null given an order. */
     private String averagedOver;
@@ -224,7 +225,7 @@ public final class PredictCommand implements Callable<Integer> {
                 exact != null ? 0.0 : avg.skippedMass(), NOTE, ord != null ? "order" : averaging.method.method.trim().toLowerCase(Locale.ROOT),
                 ord != null ? null : exact != null || structure ? "all" : mixture.orders(),
                 exact != null || structure || ord != null ? null : mixture.orderSamples(), mcse,
-                ord != null ? null : (structure ? DagPrior.STRUCTURE_MODULAR : DagPrior.ORDER_MODULAR).label(),
+                ord != null ? null : prior.label(),
                 exact != null || structure ? Boolean.TRUE : null);
         PrintWriter w = spec.commandLine().getOut();
         if (out != null) {
@@ -245,9 +246,13 @@ public final class PredictCommand implements Callable<Integer> {
                         what, averagedOver, p.probability(), a);
                 w.printf(Locale.ROOT, "%s under the single highest-scoring network: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
             } else {
-                w.printf(Locale.ROOT, "%s averaged over orders (%s; order-modular DAG prior) and their networks: %.6g (log %.6f)%s%n",
-                        what, averagedOver, p.probability(), a, mcse == null ? "" : String.format(Locale.ROOT, ", Monte Carlo standard error %.3g", mcse));
-                w.printf(Locale.ROOT, "%s under the best network of the highest-evidence order among them: %.6g (log %.6f)%n", what, p.bestNetworkProbability(), b);
+                String over = prior == DagPrior.STRUCTURE_MODULAR ? "partitions" : "orders";
+                w.printf(Locale.ROOT, "%s averaged over %s (%s; %s DAG prior) and their networks: %.6g (log %.6f)%s%n",
+                        what, over, averagedOver, prior.label(), p.probability(), a,
+                        mcse == null ? "" : String.format(Locale.ROOT, ", Monte Carlo standard error %.3g", mcse));
+                w.printf(Locale.ROOT, "%s under the best network of the highest-%s %s among them: %.6g (log %.6f)%n", what,
+                        prior == DagPrior.STRUCTURE_MODULAR ? "weight" : "evidence", over.substring(0, over.length() - 1),
+                        p.bestNetworkProbability(), b);
             }
             if (!hidden.isEmpty()) {
                 w.printf(Locale.ROOT, "hidden variables summed out: %s (%.0f joint states)%n", String.join(", ", hidden), states);
@@ -270,7 +275,7 @@ public final class PredictCommand implements Callable<Integer> {
 
     private int batch(CaseCsv table, CaseProbability avg, CaseProbability best, int[] given) {
         if (mixture != null && mixture.mixture().sampled() && exact == null) {
-            spec.commandLine().getErr().println("predict: " + averagedOver + " (order-modular DAG prior); the mcse column is the "
+            spec.commandLine().getErr().println("predict: " + averagedOver + " (" + prior.label() + " DAG prior); the mcse column is the "
                     + "Monte Carlo standard error of each probability" + (averaging.method.method.trim().equalsIgnoreCase("exact")
                     ? "; --exact-cases computes complete cases exactly" : ""));
         }

@@ -78,6 +78,82 @@ public final class OrderPosterior {
         return new OrderPosterior(ls, order.clone(), r, post, best);
     }
 
+    /**
+     * Everything averaging over the DAGs of one ordered partition yields (the structure-modular
+     * counterpart of an order, Kuipers &amp; Moffa 2017): {@code element[v]} is v's element (0 = the
+     * sources). A child in element 0 has the empty set; a child in element k &gt; 0 any allowed set
+     * inside the earlier elements with at least one parent in element k − 1, so P(G | Λ, D) factorises
+     * per child exactly as given an order, with
+     * <pre>  P(U | D, Λ) = exp(w_i(U) − log Σ_{U' allowed in Λ} exp w_i(U'))</pre>
+     * The "order" is a linear extension of Λ (nodes by element), consistent with every DAG of Λ;
+     * {@code result().logEvidence()} is log π(Λ), the log of the partition's summed weight. A
+     * partition with no DAG (some child without an allowed set) is a bug of the caller.
+     */
+    public static OrderPosterior ofPartition(LocalScores ls, int[] element) {
+        int n = ls.variableCount();
+        double[][] post = new double[n][];
+        double[][] edge = new double[n][n];
+        double[] childLog = new double[n];
+        int[] best = new int[n];
+        double total = 0;
+        for (int i = 0; i < n; i++) {
+            int[] cand = ls.candidates(i);
+            long b = 0;
+            long t = 0;
+            for (int k = 0; k < cand.length; k++) {
+                b |= element[cand[k]] < element[i] ? 1L << k : 0;
+                t |= element[cand[k]] == element[i] - 1 ? 1L << k : 0;
+            }
+            long[] masks = ls.masks(i);
+            double[] w = ls.weights(i);
+            double max = Double.NEGATIVE_INFINITY;
+            int arg = -1;
+            for (int s = 0; s < masks.length; s++) {
+                if (inPartition(masks[s], element[i] == 0, b, t) && w[s] > max) {
+                    max = w[s];
+                    arg = s;
+                }
+            }
+            if (arg < 0) {
+                throw new IllegalStateException("variable " + i + " has no allowed parent set in this partition");
+            }
+            double sum = 0;
+            for (int s = 0; s < masks.length; s++) {
+                if (inPartition(masks[s], element[i] == 0, b, t)) {
+                    sum += Math.exp(w[s] - max);
+                }
+            }
+            double z = max + Math.log(sum);
+            double[] p = new double[masks.length];
+            for (int s = 0; s < masks.length; s++) {
+                if (inPartition(masks[s], element[i] == 0, b, t)) {
+                    p[s] = Math.exp(w[s] - z);
+                    for (int par : ls.parents(i, s)) {
+                        edge[par][i] += p[s];
+                    }
+                }
+            }
+            post[i] = p;
+            best[i] = arg;
+            childLog[i] = z;
+            total += z;
+        }
+        Integer[] byElement = new Integer[n];
+        for (int v = 0; v < n; v++) {
+            byElement[v] = v;
+        }
+        java.util.Arrays.sort(byElement, java.util.Comparator.comparingInt((Integer v) -> element[v]).thenComparingInt(v -> v));
+        int[] order = new int[n];
+        for (int k = 0; k < n; k++) {
+            order[k] = byElement[k];
+        }
+        return new OrderPosterior(ls, order, new OrderSum.OrderResult(total, Double.NaN, childLog, edge), post, best);
+    }
+
+    private static boolean inPartition(long mk, boolean first, long b, long t) {
+        return first ? mk == 0 : (mk & ~b) == 0 && (mk & t) != 0;
+    }
+
     public LocalScores scores() {
         return scores;
     }

@@ -36,8 +36,9 @@ public final class PartitionMcmc {
      *                     parent set in {@link LocalScores#masks(int)}
      * @param setPosterior per child and allowed set, the Rao-Blackwellised P(U_i = U | D) (mean over
      *                     at most {@value #SET_DRAWS} evenly spaced stored partitions)
+     * @param partitions   the stored partitions used, chain after chain: each variable's element
      */
-    public record Result(OrderMcmc.Result chains, List<List<int[]>> dags, double[][] setPosterior) {
+    public record Result(OrderMcmc.Result chains, List<List<int[]>> dags, double[][] setPosterior, List<int[]> partitions) {
     }
 
     /** Runs the chains. {@code listener} may be null. */
@@ -63,7 +64,11 @@ public final class PartitionMcmc {
             }
             dags.add(chain);
         }
-        return new Result(r, dags, setPosterior(ls, chains.get(0), used));
+        List<int[]> partitions = new ArrayList<>();
+        for (PartitionChain.State x : used) {
+            partitions.add(x.element());
+        }
+        return new Result(r, dags, setPosterior(ls, chains.get(0), used), partitions);
     }
 
     /**

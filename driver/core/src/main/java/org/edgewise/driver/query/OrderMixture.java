@@ -71,9 +71,24 @@ public final class OrderMixture implements CaseProbability {
 
     /** Sampled orders, each distinct order weighted by its share of the sample. */
     public static OrderMixture sampled(LocalScores ls, List<int[]> orders, double tailMass, long maxHidden) {
+        return sampled(ls, orders, tailMass, maxHidden, o -> OrderPosterior.of(ls, o));
+    }
+
+    /**
+     * Sampled ordered partitions (structure-modular prior, partition MCMC): {@code element[v]} per
+     * variable, each distinct partition weighted by its share of the sample and averaged over its
+     * DAGs ({@link OrderPosterior#ofPartition}); the best order is a linear extension of the
+     * partition with the largest summed weight.
+     */
+    public static OrderMixture sampledPartitions(LocalScores ls, List<int[]> partitions, double tailMass, long maxHidden) {
+        return sampled(ls, partitions, tailMass, maxHidden, el -> OrderPosterior.ofPartition(ls, el));
+    }
+
+    private static OrderMixture sampled(LocalScores ls, List<int[]> draws, double tailMass, long maxHidden,
+                                        java.util.function.Function<int[], OrderPosterior> posterior) {
         Map<String, int[]> distinct = new HashMap<>();
         Map<String, Integer> count = new HashMap<>();
-        for (int[] o : orders) {
+        for (int[] o : draws) {
             String key = java.util.Arrays.toString(o);
             distinct.putIfAbsent(key, o);
             count.merge(key, 1, Integer::sum);
@@ -84,16 +99,15 @@ public final class OrderMixture implements CaseProbability {
         int[] best = null;
         double bestEv = Double.NEGATIVE_INFINITY;
         for (int k = 0; k < keys.size(); k++) {
-            int[] o = distinct.get(keys.get(k));
-            OrderPosterior op = OrderPosterior.of(ls, o);
+            OrderPosterior op = posterior.apply(distinct.get(keys.get(k)));
             ps[k] = CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHidden);
-            w[k] = Math.log(count.get(keys.get(k)) / (double) orders.size());
+            w[k] = Math.log(count.get(keys.get(k)) / (double) draws.size());
             if (op.result().logEvidence() > bestEv) {
                 bestEv = op.result().logEvidence();
-                best = o.clone();
+                best = op.order();
             }
         }
-        return new OrderMixture(ps, w, best, orders.size(), ls.options().names());
+        return new OrderMixture(ps, w, best, draws.size(), ls.options().names());
     }
 
     /** Whether the orders were sampled (then every probability has a Monte Carlo error, {@link #mcse}). */

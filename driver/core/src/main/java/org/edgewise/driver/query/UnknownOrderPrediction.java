@@ -4,21 +4,26 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.DagPrior;
 import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderMcmc;
 import org.edgewise.driver.average.OrderSampling;
+import org.edgewise.driver.average.PartitionMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 
 /**
  * The case predictor mixed over unknown orders. Exact: every allowed order with its exact
  * posterior weight when n ≤ {@link #ENUMERATE_MAX} (at most 5,040 orders), else orders drawn from
- * the exact order posterior (Koivisto &amp; Sood 2004). MCMC: the stored orders of the chains. At
+ * the exact order posterior (Koivisto &amp; Sood 2004). MCMC: the stored orders of the chains, or under
+ * the structure-modular prior the stored partitions of partition MCMC (each averaged over its DAGs,
+ * {@link OrderMixture#sampledPartitions}). At
  * most {@link #MAX_ORDERS} sampled orders are mixed (evenly spaced). A sampled mixture says so
  * ({@link Mixture#orders()} "sampled", with K) and every probability then has a Monte Carlo
  * error ({@link OrderMixture#mcse}); for an exact answer on a complete case with n ≥ 8 use
- * {@link ExactCasePrediction}. Orders are weighted by their evidence: the order-modular DAG prior.
+ * {@link ExactCasePrediction}. Exactly mixed orders are weighted by their evidence: the order-modular
+ * DAG prior.
  */
 public final class UnknownOrderPrediction {
     public static final int ENUMERATE_MAX = 7;
@@ -57,6 +62,11 @@ public final class UnknownOrderPrediction {
             ExactOrderSum.Result r = ExactOrderSum.run(ls, oc, k, s.seed(), null);
             return new Mixture(OrderMixture.sampled(ls, Arrays.asList(r.sampledOrders()), tailMass, maxHidden),
                     true, Double.NaN);
+        }
+        if (s.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
+            PartitionMcmc.Result p = OrderSampling.runPartitionMcmc(ls, oc, s, false, progress);
+            return new Mixture(OrderMixture.sampledPartitions(ls, OrderSampling.evenlySpaced(p.partitions(), MAX_ORDERS),
+                    tailMass, maxHidden), p.chains().converged(), p.chains().maxRhat());
         }
         OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, false, progress);
         return new Mixture(OrderMixture.sampled(ls, OrderSampling.evenlySpaced(r.orders(), MAX_ORDERS),
