@@ -9,7 +9,8 @@ import java.util.Arrays;
  *
  * <p>Parent sets are masks over the child's candidates ({@link LocalScores#candidates(int)}); the
  * set index is found in a per-child open-addressing table of the allowed masks (load ≤ 1/2, linear
- * probing). Memory per child: 12 bytes × the table size (≤ 4 × its allowed sets); O(n) scratch.
+ * probing). Memory per child: 12 bytes × the table size (≤ 4 × its allowed sets); children as bitsets,
+ * n²/8 bytes (31 KB at n = 500); O(n) scratch.
  * Mutable, confined to its chain's thread.
  */
 final class PartitionDag {
@@ -20,6 +21,7 @@ final class PartitionDag {
     private final int[][] slotSet;
     /** Current parent set of each child (index in ls.masks) and its mask. */
     private final int[] set;
+    private int edges;
     /** The largest allowed parent set size over all children. */
     private final int maxSetSize;
     private final long[] mask;
@@ -29,9 +31,8 @@ final class PartitionDag {
     private final int[] depth;
     /** The layering's work stack: a node may wait on it once per child, so it grows when needed. */
     private int[] work;
-    private final int[] childStart;
-    private final int[] fill;
-    private int[] childList;
+    /** Children of every node as bitsets over the nodes, kept up to date by {@link #setMask}: n²/8 bytes. */
+    private final long[][] children;
 
     PartitionDag(LocalScores ls, int[] sets) {
         this.ls = ls;
@@ -64,14 +65,16 @@ final class PartitionDag {
         mask = new long[n];
         for (int i = 0; i < n; i++) {
             mask[i] = ls.masks(i)[set[i]];
+            edges += Long.bitCount(mask[i]);
         }
         seen = new int[n];
         stack = new int[n];
         depth = new int[n];
         work = new int[2 * n + 2];
-        childStart = new int[n + 1];
-        fill = new int[n];
-        childList = new int[4 * n + 4];
+        children = new long[n][(n + 63) >>> 6];
+        for (int i = 0; i < n; i++) {
+            link(i, mask[i], true);
+        }
     }
 
     private static int slot(long m, int cap) {
@@ -103,21 +106,31 @@ final class PartitionDag {
 
     void setParents(int child, int s) {
         set[child] = s;
-        mask[child] = ls.masks(child)[s];
+        setMask(child, ls.masks(child)[s]);
     }
 
     /** Sets child's parents to {@code m} without a set index (a temporary state while a move looks at G0). */
     void setMask(int child, long m) {
+        edges += Long.bitCount(m) - Long.bitCount(mask[child]);
+        link(child, mask[child] & ~m, false);
+        link(child, m & ~mask[child], true);
         mask[child] = m;
     }
 
-    /** Number of edges of G, O(n). */
-    int edgeCount() {
-        int e = 0;
-        for (int i = 0; i < n; i++) {
-            e += Long.bitCount(mask[i]);
+    /** Adds (or removes) {@code child} to the children of the candidates in {@code m}. */
+    private void link(int child, long m, boolean add) {
+        int[] cand = ls.candidates(child);
+        int word = child >>> 6;
+        long bit = 1L << child;
+        for (long r = m; r != 0; r &= r - 1) {
+            long[] c = children[cand[Long.numberOfTrailingZeros(r)]];
+            c[word] = add ? c[word] | bit : c[word] & ~bit;
         }
-        return e;
+    }
+
+    /** Number of edges of G (kept up to date by every change of a mask). */
+    int edgeCount() {
+        return edges;
     }
 
     /**
@@ -183,73 +196,48 @@ final class PartitionDag {
 
     /**
      * Marks the descendants of {@code root} in G (root included) and returns the mark: afterwards
-     * {@code isMarked(v, mark)} tells whether v is one. Children lists are built from the parent
-     * masks each call, O(n + edges).
+     * {@code isMarked(v, mark)} tells whether v is one. O(descendants · n/64).
      */
     int markDescendants(int root) {
-        buildChildren();
         stamp++;
         int top = 0;
         stack[top++] = root;
         seen[root] = stamp;
         while (top > 0) {
-            int x = stack[--top];
-            for (int e = childStart[x]; e < childStart[x + 1]; e++) {
-                int c = childList[e];
-                if (seen[c] != stamp) {
-                    seen[c] = stamp;
-                    stack[top++] = c;
+            long[] cs = children[stack[--top]];
+            for (int w = 0; w < cs.length; w++) {
+                for (long r = cs[w]; r != 0; r &= r - 1) {
+                    int c = (w << 6) + Long.numberOfTrailingZeros(r);
+                    if (seen[c] != stamp) {
+                        seen[c] = stamp;
+                        stack[top++] = c;
+                    }
                 }
             }
         }
         return stamp;
     }
 
-    /** Children lists (CSR) from the current parent masks, O(n + edges). */
-    private void buildChildren() {
-        java.util.Arrays.fill(childStart, 0);
-        int edges = 0;
-        for (int x = 0; x < n; x++) {
-            int[] cand = ls.candidates(x);
-            for (long r = mask[x]; r != 0; r &= r - 1) {
-                childStart[cand[Long.numberOfTrailingZeros(r)] + 1]++;
-                edges++;
-            }
-        }
-        for (int v = 0; v < n; v++) {
-            childStart[v + 1] += childStart[v];
-        }
-        if (childList.length < edges) {
-            childList = new int[2 * edges];
-        }
-        System.arraycopy(childStart, 0, fill, 0, n);
-        for (int x = 0; x < n; x++) {
-            int[] cand = ls.candidates(x);
-            for (long r = mask[x]; r != 0; r &= r - 1) {
-                childList[fill[cand[Long.numberOfTrailingZeros(r)]]++] = x;
-            }
-        }
-    }
-
     /**
      * For a block of nodes whose parents are all removed (masks 0): {@code reach[x]} gets bit p set
      * for every node x reachable from {@code block[p]} (x ≠ block[p]); the other entries are cleared.
-     * No path passes through another block node (they have no parents). O(m·(n + edges)).
+     * No path passes through another block node (they have no parents). O(m · reached · n/64).
      */
     void reachFrom(int[] block, int m, int[] reach) {
-        buildChildren();
         java.util.Arrays.fill(reach, 0);
         for (int p = 0; p < m; p++) {
             int bit = 1 << p;
             int top = 0;
             stack[top++] = block[p];
             while (top > 0) {
-                int x = stack[--top];
-                for (int e = childStart[x]; e < childStart[x + 1]; e++) {
-                    int c = childList[e];
-                    if ((reach[c] & bit) == 0) {
-                        reach[c] |= bit;
-                        stack[top++] = c;
+                long[] cs = children[stack[--top]];
+                for (int w = 0; w < cs.length; w++) {
+                    for (long r = cs[w]; r != 0; r &= r - 1) {
+                        int c = (w << 6) + Long.numberOfTrailingZeros(r);
+                        if ((reach[c] & bit) == 0) {
+                            reach[c] |= bit;
+                            stack[top++] = c;
+                        }
                     }
                 }
             }
