@@ -26,6 +26,11 @@ public final class WideBench {
             }
             return;
         }
+        if (args[0].equals("tempering")) {
+            tempering(Integer.parseInt(args[1]), Integer.parseInt(args[2]), Double.parseDouble(args[3]),
+                    java.util.Arrays.copyOfRange(args, 4, args.length));
+            return;
+        }
         if (args[0].equals("mixing")) {
             mixing(Integer.parseInt(args[1]), Integer.parseInt(args[2]), Long.parseLong(args[3]));
             return;
@@ -103,6 +108,44 @@ public final class WideBench {
                         r.maxRhat(), r.minEss(), r.minEss() / r.chainCpuSeconds(), r.report().logScore().essBulk(),
                         r.report().worst().isEmpty() ? "-" : describe(r.report().worst().get(0)), UnknownOrderBench.load());
             }
+        }
+    }
+
+    /**
+     * Tempering side by side: for each ladder spec {@code R:BETAMIN} (R = 1: no tempering), a run of 4
+     * chains until converged or {@code maxSec}, same seed; ESS per CPU-second of all rungs, swap
+     * acceptance per adjacent pair, and per chain the mean log score and the position gap of the
+     * worst quantity's two variables (what is stuck).
+     */
+    static void tempering(int n, int k, double maxSec, String[] ladders) {
+        LocalScores ls = UnknownOrderBench.scores(n, 3, k);
+        for (String spec : ladders) {
+            String[] p = spec.split(":");
+            int rungs = Integer.parseInt(p[0]);
+            double bmin = p.length > 1 ? Double.parseDouble(p[1]) : 0.3;
+            double reloc = p.length > 2 ? Double.parseDouble(p[2]) : OrderMcmc.Settings.DEFAULT_RELOCATE;
+            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(20_000 / rungs, 0)
+                    .untilConverged(Long.MAX_VALUE / 4, maxSec).withTempering(rungs, bmin).withRelocate(reloc);
+            long t0 = System.nanoTime();
+            OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
+            double wall = (System.nanoTime() - t0) / 1e9;
+            var o = r.outcome();
+            StringBuilder chains = new StringBuilder();
+            int per = r.orders().size() / r.traces().size();
+            for (int c = 0; c < r.traces().size(); c++) {
+                double m = 0;
+                for (double x : r.traces().get(c)) {
+                    m += x;
+                }
+                chains.append(String.format(" %.1f", m / r.traces().get(c).length));
+            }
+            System.out.printf("tempering n=%d K<=%d rungs %d beta_min %.2f relocate %.2f: %s after %.1f s wall (sampling %.1f s), "
+                            + "%d steps/chain, %.0f steps/CPU-s per chain, acceptance %.3f, swap acceptance %s; max R-hat %.4f, "
+                            + "min bulk ESS %.0f = %.2f ESS per CPU-s; %d stuck; worst %s; chain mean log scores%s; load %.1f%n",
+                    n, 2 * k, rungs, bmin, reloc, o.stop().label(), wall, o.samplingSeconds(), o.stepsPerChain(),
+                    4 * o.stepsPerChain() / r.chainCpuSeconds(), r.acceptance(), java.util.Arrays.toString(r.swapAcceptance()),
+                    r.maxRhat(), r.minEss(), r.minEss() / r.chainCpuSeconds(), r.report().stuck(),
+                    r.report().worst().isEmpty() ? "-" : describe(r.report().worst().get(0)), chains, UnknownOrderBench.load());
         }
     }
 

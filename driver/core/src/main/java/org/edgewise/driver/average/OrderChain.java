@@ -58,6 +58,8 @@ final class OrderChain extends SteppedChain {
     private int chCount;
 
     private final double relocate;
+    /** The inverse temperature: the chain targets π(≺)^β (1 unless it is a rung of a {@link TemperedOrderChain}). */
+    private double beta = 1;
     // scratch for a relocation
     private final double[] posLog;
     private final long[] vMaskAt;
@@ -154,6 +156,20 @@ final class OrderChain extends SteppedChain {
         }
     }
 
+    /** The log target at β = 1 of the current order: Σ_i log α_i(pred(i)). */
+    double score() {
+        return score;
+    }
+
+    double beta() {
+        return beta;
+    }
+
+    /** Sets the inverse temperature (a rung of a ladder; 0 &lt; β ≤ 1). */
+    void beta(double b) {
+        beta = b;
+    }
+
     /** The current order (a copy). */
     int[] order() {
         return order.clone();
@@ -231,14 +247,15 @@ final class OrderChain extends SteppedChain {
                 max = posLog[k];
             }
         }
+        // a tempered rung draws ∝ π^β: the Gibbs update of the tempered target
         double total = 0;
         for (int k = lo; k <= hi; k++) {
-            total += Math.exp(posLog[k] - max); // exp(−∞) = 0: impossible positions are never drawn
+            total += Math.exp(beta * (posLog[k] - max)); // exp(−∞) = 0: impossible positions are never drawn
         }
         double u = rng.nextDouble() * total;
         int q = hi;
         for (int k = lo; k <= hi; k++) {
-            u -= Math.exp(posLog[k] - max);
+            u -= Math.exp(beta * (posLog[k] - max));
             if (u < 0) {
                 q = k;
                 break;
@@ -341,7 +358,7 @@ final class OrderChain extends SteppedChain {
         if (!(delta > Double.NEGATIVE_INFINITY)) {
             return;
         }
-        if (delta < 0 && Math.log(rng.nextDouble()) >= delta) {
+        if (delta < 0 && Math.log(rng.nextDouble()) >= beta * delta) {
             return;
         }
         accepted++;
@@ -372,6 +389,11 @@ final class OrderChain extends SteppedChain {
 
     @Override
     void record() {
+        recordInto(draws, stepsDone);
+    }
+
+    /** Stores the current state into {@code store} as the draw after step {@code step}. */
+    void recordInto(DrawStore store, long step) {
         float[] row = new float[edgeCount];
         for (int i = 0; i < n; i++) {
             long m = mask[i];
@@ -404,6 +426,6 @@ final class OrderChain extends SteppedChain {
             }
         }
         long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
-        draws.add(stepsDone, row, score, new State(order.clone(), feats));
+        store.add(step, row, score, new State(order.clone(), feats));
     }
 }

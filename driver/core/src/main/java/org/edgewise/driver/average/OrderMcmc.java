@@ -57,12 +57,18 @@ public final class OrderMcmc {
      * @param tableBudget bytes allowed for the per-child tables
      * @param relocate    share of steps that are position (Gibbs) moves of one variable; the rest are swaps
      * @param rhatTarget  R̂ below which a quantity counts as converged ({@link ChainDiagnostics#RHAT_TARGET})
+     * @param rungs       tempered chains per reported chain (1: no tempering; {@link TemperedOrderChain})
+     * @param betaMin     the smallest inverse temperature of the geometric ladder (used when rungs &gt; 1)
      */
     public record Settings(int chains, long steps, long burnIn, long seed, int draws, boolean untilConverged,
                            long maxSteps, double maxSeconds, boolean features, long tableBudget, double relocate,
-                           double rhatTarget) {
+                           double rhatTarget, int rungs, double betaMin) {
         /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
         public static final double DEFAULT_RELOCATE = 0.1;
+        /** Tempered chains per reported chain in the default settings (measured: docs/unknown-order.md, "Tempering"). */
+        public static final int DEFAULT_RUNGS = 1;
+        /** Smallest inverse temperature of a tempered ladder by default. */
+        public static final double DEFAULT_BETA_MIN = 0.3;
 
         public Settings {
             Checks.atLeast(chains, 1, "the number of chains");
@@ -77,44 +83,57 @@ public final class OrderMcmc {
             if (!(relocate >= 0 && relocate <= 1)) {
                 throw new IllegalArgumentException("relocation share " + relocate);
             }
+            Checks.atLeast(rungs, 1, "the tempered chains per chain");
+            if (!(betaMin > 0 && betaMin < 1)) {
+                throw new IllegalArgumentException("smallest inverse temperature " + betaMin);
+            }
         }
 
         public static Settings defaults(long seed) {
             return new Settings(4, 200_000, 50_000, seed, 1000, false, 0, 0, false, 1L << 30, DEFAULT_RELOCATE,
-                    ChainDiagnostics.RHAT_TARGET);
+                    ChainDiagnostics.RHAT_TARGET, DEFAULT_RUNGS, DEFAULT_BETA_MIN);
         }
 
         public Settings withSteps(long s, long b) {
-            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withChains(int c) {
-            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withFeatures(boolean f) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
         public Settings untilConverged(long max, double seconds) {
-            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withSeed(long sd) {
-            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withDraws(int d) {
-            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withRhatTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t, rungs, betaMin);
+        }
+
+        /** A ladder of {@code r} tempered chains per reported chain, β from 1 down to {@code bMin}. */
+        public Settings withTempering(int r, double bMin) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, r, bMin);
+        }
+
+        public Settings withTableBudget(long bytes) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, bytes, relocate, rhatTarget, rungs, betaMin);
         }
 
         public Settings withRelocate(double r) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget, rungs, betaMin);
         }
     }
 
@@ -135,10 +154,14 @@ public final class OrderMcmc {
      * @param orders      the orders of the draws used (chain by chain), for averaging predictions
      * @param thin        steps between the draws used
      * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
+     * @param swapAcceptance  tempering: per adjacent pair of rungs (β_r, β_{r+1}), the share of
+     *                        proposed exchanges accepted, over all chains; empty without tempering
+     * @param memory          the memory planned before the run (and checked against the heap)
      */
     public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket,
                          MultiChainDiagnostics.Report report, ChainRunner.Outcome outcome, double acceptance, long thin,
-                         List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds) {
+                         List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds,
+                         double[] swapAcceptance, McmcMemory memory) {
         public double maxRhat() {
             return report.maxRhat();
         }
@@ -176,8 +199,18 @@ public final class OrderMcmc {
             }
         }
         int[] offset = edgeOffsets(ls);
-        return runChains(ls, offset, s, listener, (tables, rng, store) ->
-                new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+        if (s.rungs() == 1) {
+            return runChains(ls, offset, s, listener, (tables, rng, store) ->
+                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+        }
+        double[] beta = TemperedOrderChain.geometricLadder(s.rungs(), s.betaMin());
+        return runChains(ls, offset, s, listener, (tables, rng, store) -> {
+            OrderChain[] rungs = new OrderChain[beta.length];
+            for (int r = 0; r < rungs.length; r++) {
+                rungs[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
+            }
+            return new TemperedOrderChain(rungs, beta, rng.split(), store);
+        }).result();
     }
 
     /** Per child i, where its candidate edges start in the flat edge arrays: offset[i+1] − offset[i] = |candidates(i)|. */
@@ -217,6 +250,8 @@ public final class OrderMcmc {
             }
         }
         long t0 = System.nanoTime();
+        McmcMemory memory = McmcMemory.plan(ls, s);
+        memory.checkHere();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
         List<C> chains = new ArrayList<>();
@@ -233,11 +268,11 @@ public final class OrderMcmc {
         MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
         ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
                 Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.rhatTarget()), q, listener);
-        return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length));
+        return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length, memory));
     }
 
     static Result summarise(LocalScores ls, List<? extends ChainRunner.Chain> chains, int[] offset, Settings s,
-                                    ChainRunner.Outcome out, double setup, int edgeCount) {
+                            ChainRunner.Outcome out, double setup, int edgeCount, McmcMemory memory) {
         int n = ls.variableCount();
         MultiChainDiagnostics.Report rep = out.report();
         List<DrawStore> stores = new ArrayList<>();
@@ -294,9 +329,18 @@ public final class OrderMcmc {
             thin = Math.min(thin, stores.get(c).thin());
         }
         double cpu = 0;
+        double[] swaps = new double[0];
         for (ChainRunner.Chain c : chains) {
             cpu += c.cpuSeconds();
+            if (c instanceof TemperedOrderChain t) {
+                double[] a = t.swapAcceptance();
+                swaps = swaps.length == 0 ? new double[a.length] : swaps;
+                for (int r = 0; r < a.length; r++) {
+                    swaps[r] += a[r] / chains.size();
+                }
+            }
         }
-        return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu);
+        return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu,
+                swaps, memory);
     }
 }
