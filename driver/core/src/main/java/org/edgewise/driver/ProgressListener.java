@@ -25,6 +25,10 @@ public interface ProgressListener {
     default void chainState(double acceptance, double maxRhat, double minEss) {
     }
 
+    /** One line worth showing before or during a task (e.g. the memory a run has planned). */
+    default void note(String line) {
+    }
+
     /** The current task ended (normally or not). */
     default void finish() {
     }

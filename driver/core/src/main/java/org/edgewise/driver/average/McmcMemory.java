@@ -47,10 +47,10 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
     }
 
     /**
-     * The plan for {@code s} on {@code ls}: which children the table budget tabulates, and the
-     * chains' and draw stores' bytes.
+     * The plan for {@code s} on {@code ls}, each reported chain a ladder of {@code rungs} chains:
+     * which children the table budget tabulates, and the chains' and draw stores' bytes.
      */
-    public static McmcMemory plan(LocalScores ls, OrderMcmc.Settings s) {
+    public static McmcMemory plan(LocalScores ls, OrderMcmc.Settings s, int rungs) {
         int n = ls.variableCount();
         ChildTables.Plan tp = ChildTables.plan(ls, s.tableBudget());
         int direct = n - tp.children().length;
@@ -58,7 +58,7 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
         long edges = OrderMcmc.edgeOffsets(ls)[n];
         long perDraw = 4 * edges + 8L * n + (s.features() ? ((2L * n * n + 63) >>> 6) * 8 : 0) + DRAW_OVERHEAD;
         long cap = s.untilConverged() ? Math.max(s.draws(), OrderMcmc.UNTIL_CONVERGED_DRAWS) : s.draws();
-        return new McmcMemory(tp.bytes(), tp.children().length, direct, chain, 2 * cap * perDraw, s.chains(), s.rungs());
+        return new McmcMemory(tp.bytes(), tp.children().length, direct, chain, 2 * cap * perDraw, s.chains(), rungs);
     }
 
     /** One line: the total and its parts, in MiB. */
@@ -107,20 +107,20 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
         private final long maxHeap;
 
         TooLittleHeap(McmcMemory plan, long freeHeap, long maxHeap) {
-            super(text(plan, freeHeap, maxHeap, "give the JVM more heap (-Xmx)"));
+            super(text(plan, freeHeap, maxHeap, "give the JVM more heap (-Xmx), or store fewer draws or run fewer chains"));
             this.plan = plan;
             this.freeHeap = freeHeap;
             this.maxHeap = maxHeap;
         }
 
-        /** The refusal with {@code remedy} (how to raise the heap) in the front end's words. */
+        /** The refusal with {@code remedy} (how to raise the heap, what to lower) in the front end's words. */
         public String message(String remedy) {
             return text(plan, freeHeap, maxHeap, remedy);
         }
 
         private static String text(McmcMemory plan, long freeHeap, long maxHeap, String remedy) {
             return "the MCMC run needs about " + plan.describe() + " but the heap has " + mib(freeHeap) + " free of "
-                    + mib(maxHeap) + "; " + remedy + ", or store fewer draws, run fewer chains or fewer tempered chains";
+                    + mib(maxHeap) + "; " + remedy;
         }
 
         public McmcMemory plan() {

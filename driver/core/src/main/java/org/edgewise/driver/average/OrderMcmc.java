@@ -57,7 +57,8 @@ public final class OrderMcmc {
      * @param tableBudget bytes allowed for the per-child tables
      * @param relocate    share of steps that are position (Gibbs) moves of one variable; the rest are swaps
      * @param rhatTarget  R̂ below which a quantity counts as converged ({@link ChainDiagnostics#RHAT_TARGET})
-     * @param rungs       tempered chains per reported chain (1: no tempering; {@link TemperedOrderChain})
+     * @param rungs       tempered chains per reported chain (1: no tempering; {@link TemperedOrderChain});
+     *                    0: {@link #rungsFor chosen by the number of variables}
      * @param betaMin     the smallest inverse temperature of the geometric ladder (used when rungs &gt; 1)
      */
     public record Settings(int chains, long steps, long burnIn, long seed, int draws, boolean untilConverged,
@@ -65,8 +66,8 @@ public final class OrderMcmc {
                            double rhatTarget, int rungs, double betaMin) {
         /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
         public static final double DEFAULT_RELOCATE = 0.1;
-        /** Tempered chains per reported chain in the default settings (measured: docs/unknown-order.md, "Tempering"). */
-        public static final int DEFAULT_RUNGS = 1;
+        /** Tempered chains per reported chain in the default settings: 0, chosen by width ({@link #rungsFor}). */
+        public static final int DEFAULT_RUNGS = 0;
         /** Smallest inverse temperature of a tempered ladder by default. */
         public static final double DEFAULT_BETA_MIN = 0.3;
 
@@ -83,10 +84,21 @@ public final class OrderMcmc {
             if (!(relocate >= 0 && relocate <= 1)) {
                 throw new IllegalArgumentException("relocation share " + relocate);
             }
-            Checks.atLeast(rungs, 1, "the tempered chains per chain");
+            Checks.zeroOrMore(rungs, "the tempered chains per chain");
             if (!(betaMin > 0 && betaMin < 1)) {
                 throw new IllegalArgumentException("smallest inverse temperature " + betaMin);
             }
+        }
+
+        /**
+         * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200))) —
+         * 1 (no tempering) up to n = 21, 2 up to 78, 3 up to 153, 4 at 200, 6 at 500. Why: the swap
+         * acceptance between fixed β's falls as the variance of the log target grows (about ∝ n, so the
+         * spacing of ln β must shrink ∝ 1/√n); 4 rungs down to β = 0.3 measured best at n = 200
+         * (swap acceptance 0.25–0.38; docs/unknown-order.md, "Tempering").
+         */
+        public int rungsFor(int n) {
+            return rungs > 0 ? rungs : Math.max(1, (int) Math.round(4 * Math.sqrt(n / 200.0)));
         }
 
         public static Settings defaults(long seed) {
@@ -156,12 +168,13 @@ public final class OrderMcmc {
      * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
      * @param swapAcceptance  tempering: per adjacent pair of rungs (β_r, β_{r+1}), the share of
      *                        proposed exchanges accepted, over all chains; empty without tempering
+     * @param betaMin         tempering: the smallest inverse temperature of the ladders
      * @param memory          the memory planned before the run (and checked against the heap)
      */
     public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket,
                          MultiChainDiagnostics.Report report, ChainRunner.Outcome outcome, double acceptance, long thin,
                          List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds,
-                         double[] swapAcceptance, McmcMemory memory) {
+                         double[] swapAcceptance, double betaMin, McmcMemory memory) {
         public double maxRhat() {
             return report.maxRhat();
         }
@@ -189,6 +202,25 @@ public final class OrderMcmc {
 
     /** Runs the chains. {@code listener} may be null. */
     public static Result run(LocalScores ls, OrderConstraints oc, Settings s, ChainRunner.Listener listener) {
+        int[][] cpos = candidatePositions(ls);
+        int[] offset = edgeOffsets(ls);
+        int rungs = s.rungsFor(ls.variableCount());
+        if (rungs == 1) {
+            return runChains(ls, offset, s, 1, listener, (tables, rng, store) ->
+                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+        }
+        double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMin());
+        return runChains(ls, offset, s, rungs, listener, (tables, rng, store) -> {
+            OrderChain[] ladder = new OrderChain[beta.length];
+            for (int r = 0; r < ladder.length; r++) {
+                ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
+            }
+            return new TemperedOrderChain(ladder, beta, rng.split(), store);
+        }).result();
+    }
+
+    /** cpos[i][j]: the index of j among i's candidates, −1 when j is none (n² ints, shared by all chains). */
+    static int[][] candidatePositions(LocalScores ls) {
         int n = ls.variableCount();
         int[][] cpos = new int[n][n];
         for (int i = 0; i < n; i++) {
@@ -198,19 +230,7 @@ public final class OrderMcmc {
                 cpos[i][cand[k]] = k;
             }
         }
-        int[] offset = edgeOffsets(ls);
-        if (s.rungs() == 1) {
-            return runChains(ls, offset, s, listener, (tables, rng, store) ->
-                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
-        }
-        double[] beta = TemperedOrderChain.geometricLadder(s.rungs(), s.betaMin());
-        return runChains(ls, offset, s, listener, (tables, rng, store) -> {
-            OrderChain[] rungs = new OrderChain[beta.length];
-            for (int r = 0; r < rungs.length; r++) {
-                rungs[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
-            }
-            return new TemperedOrderChain(rungs, beta, rng.split(), store);
-        }).result();
+        return cpos;
     }
 
     /** Per child i, where its candidate edges start in the flat edge arrays: offset[i+1] − offset[i] = |candidates(i)|. */
@@ -239,6 +259,12 @@ public final class OrderMcmc {
      */
     static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s,
                                                           ChainRunner.Listener listener, ChainFactory<C> factory) {
+        return runChains(ls, offset, s, 1, listener, factory);
+    }
+
+    /** As above, each reported chain a ladder of {@code rungs} chains (for the memory plan). */
+    static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s, int rungs,
+                                                          ChainRunner.Listener listener, ChainFactory<C> factory) {
         int n = ls.variableCount();
         int[] edgeFrom = new int[offset[n]];
         int[] edgeTo = new int[offset[n]];
@@ -250,7 +276,7 @@ public final class OrderMcmc {
             }
         }
         long t0 = System.nanoTime();
-        McmcMemory memory = McmcMemory.plan(ls, s);
+        McmcMemory memory = McmcMemory.plan(ls, s, rungs);
         memory.checkHere();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
@@ -341,6 +367,6 @@ public final class OrderMcmc {
             }
         }
         return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu,
-                swaps, memory);
+                swaps, s.betaMin(), memory);
     }
 }

@@ -16,6 +16,10 @@ public final class OrderSampling {
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
         OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        int rungs = ms.rungsFor(ls.variableCount());
+        progress.note("order MCMC: memory planned " + McmcMemory.plan(ls, ms, rungs).describe()
+                + (rungs > 1 ? "; each of the " + ms.chains() + " chains a ladder of " + rungs
+                + " tempered chains (beta 1 down to " + ms.betaMin() + ")" : ""));
         progress.start(ms.untilConverged() ? "order MCMC until converged" : "order MCMC",
                 ms.untilConverged() ? -1 : (ms.burnIn() + ms.steps()) * ms.chains());
         try {
