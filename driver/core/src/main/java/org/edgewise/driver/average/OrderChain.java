@@ -22,14 +22,19 @@ import org.edgewise.driver.UserError;
  * single-node move of partition and order samplers in the literature (Kuipers &amp; Moffa 2017,
  * sec. 4.2, "node moves"), applied to orders.
  *
+ * <p>As a rung of a {@link TemperedOrderChain} the chain targets π(≺)^β instead (0 &lt; β ≤ 1): the
+ * Metropolis–Hastings ratio becomes exp(β·Δ log π) and the relocation draws ∝ π^β — both still
+ * leave their target invariant (a symmetric proposal; a Gibbs update of π^β).
+ *
  * <p>The draws go to a {@link DrawStore}: the Rao-Blackwellised edge posteriors given the current
  * order (a float per candidate edge), the order's log evidence, the order itself, and — when
  * features are asked — the ancestor and Markov-blanket indicators of one DAG sampled from the
  * parent-set weights given the order.
  *
- * <p>Memory per chain: O(n) state, 4 bytes per candidate edge per draw, 4n per draw for orders,
- * n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (16 bytes each)
- * per non-tabulated child. Mutable, confined to one thread at a time.
+ * <p>Memory per chain: 84n bytes of state, 4 bytes per candidate edge per draw, 4n per draw for
+ * orders, n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (17 bytes
+ * each: key, value, used flag) per non-tabulated child — planned up front by {@link McmcMemory}.
+ * Mutable, confined to one thread at a time.
  */
 final class OrderChain extends SteppedChain {
     private static final int CACHE_BITS = 12;

@@ -29,9 +29,16 @@ import org.edgewise.driver.UserError;
  * chains only meet at round boundaries fixed by step counts — so a seed gives the same result
  * whatever the thread timing, unless a time budget stops the run.
  *
- * <p>Memory: {@link ChildTables} (at most {@code tableBudget} bytes), plus per chain at most
- * 2·draws stored draws of 4 bytes per candidate edge and 4n bytes of order (2,000 draws × 1,200
- * candidate edges ≈ 10 MB).
+ * <p>On wide tables each reported chain is a ladder of tempered chains (Metropolis-coupled MCMC,
+ * {@link TemperedOrderChain}; rungs by width, {@link Settings#rungsFor}): measured at n = 200, it
+ * takes chains out of inferior modes of the order posterior that single chains do not leave in
+ * minutes (docs/unknown-order.md, "Tempering").
+ *
+ * <p>Memory: {@link ChildTables} (8·2^K bytes per tabulated child with K candidates, at most
+ * {@code tableBudget} in all), plus per chain at most 2·draws stored draws of 4 bytes per
+ * candidate edge and 4n bytes of order (2,000 draws × 1,200 candidate edges ≈ 10 MB), plus per
+ * rung 84n bytes of state and 69,632 bytes of cache per non-tabulated child; planned and
+ * checked against the heap before anything is built ({@link McmcMemory}).
  */
 public final class OrderMcmc {
     /**
