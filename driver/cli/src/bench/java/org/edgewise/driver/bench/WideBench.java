@@ -12,7 +12,8 @@ import org.edgewise.driver.average.PartitionMcmc;
  * neighbours on each side in the generating order, d = 3. Per n: two seeds, time to convergence,
  * steps/s, bulk-ESS per second and max |Δ| over edges between the two seeds; and {@code mixing}:
  * fixed-length runs with and without the relocation move side by side (ESS per CPU-second).
- * Arguments: {@code wide K MAXSECONDS N...} or {@code mixing N K STEPS}.
+ * Arguments: {@code wide K MAXSECONDS N...}, {@code mixing N K STEPS}, or {@code tempering N K MAXSECONDS
+ * LADDER...} with LADDER {@code R[:BETAMIN[:RELOCATE]]} or {@code auto} (the default ladder; R = 1: untempered).
  */
 public final class WideBench {
     private WideBench() {
@@ -53,12 +54,15 @@ public final class WideBench {
             var o = r[s].outcome();
             System.out.printf("wide n=%d candidates<=%d seed %d: %s after %.1f s wall (sampling %.1f s, %d checks %.1f s); "
                             + "%d steps/chain = %.0f steps/s per chain; max R-hat %.4f, min bulk ESS %.0f (%.1f ESS/s), min tail ESS %.0f; "
-                            + "%d settled, %d constant; worst: %s; load %.1f%n",
+                            + "%d settled, %d constant; worst: %s; %d rungs, swap acceptance %s, %.2f ESS per CPU-s, "
+                            + "memory planned %s; load %.1f%n",
                     n, 2 * k, 1 + s, o.stop().label(), wall, o.samplingSeconds(), o.checks(), o.checkSeconds(), o.stepsPerChain(),
                     o.stepsPerChain() * 4 / o.samplingSeconds() / Math.min(4, Runtime.getRuntime().availableProcessors()),
                     r[s].maxRhat(), r[s].minEss(), r[s].minEss() / o.samplingSeconds(), r[s].report().minEssTail(),
                     r[s].report().settled(), r[s].report().constant(),
-                    r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), UnknownOrderBench.load());
+                    r[s].report().worst().isEmpty() ? "-" : describe(r[s].report().worst().get(0)), r[s].memory().rungs(),
+                    swaps(r[s].swapAcceptance()), r[s].minEss() / r[s].chainCpuSeconds(), r[s].memory().describe(),
+                    UnknownOrderBench.load());
         }
         System.out.printf("wide n=%d: max |delta| over edges between seeds 1 and 2 = %.4f%n", n, OrderMcmcDiff.maxDiff(r[0], r[1], n));
     }
@@ -91,6 +95,14 @@ public final class WideBench {
         }
     }
 
+    static String swaps(double[] a) {
+        StringBuilder sb = new StringBuilder("[");
+        for (double x : a) {
+            sb.append(sb.length() > 1 ? " " : "").append(String.format("%.2f", x));
+        }
+        return sb.append(']').toString();
+    }
+
     static String describe(MultiChainDiagnostics.Worst w) {
         return String.format("%s (R-hat %.4f, ESS %.0f, %s)", w.quantity(), w.rhat(), w.essBulk(), w.state().label());
     }
@@ -112,7 +124,8 @@ public final class WideBench {
     }
 
     /**
-     * Tempering side by side: for each ladder spec {@code R:BETAMIN} (R = 1: no tempering), a run of 4
+     * Tempering side by side: for each ladder spec {@code R:BETAMIN} (R = 1: no tempering; {@code auto}
+     * the default for n), a run of 4
      * chains until converged or {@code maxSec}, same seed; ESS per CPU-second of all rungs, swap
      * acceptance per adjacent pair, and per chain the mean log score and the position gap of the
      * worst quantity's two variables (what is stuck).
@@ -121,10 +134,10 @@ public final class WideBench {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
         for (String spec : ladders) {
             String[] p = spec.split(":");
-            int rungs = Integer.parseInt(p[0]);
-            double bmin = p.length > 1 ? Double.parseDouble(p[1]) : 0.3;
+            int rungs = p[0].equals("auto") ? OrderMcmc.Settings.defaults(1).rungsFor(n) : Integer.parseInt(p[0]);
+            double bmin = p.length > 1 ? Double.parseDouble(p[1]) : OrderMcmc.Settings.DEFAULT_BETA_MIN;
             double reloc = p.length > 2 ? Double.parseDouble(p[2]) : OrderMcmc.Settings.DEFAULT_RELOCATE;
-            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(20_000 / rungs, 0)
+            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(20_000, 0)
                     .untilConverged(Long.MAX_VALUE / 4, maxSec).withTempering(rungs, bmin).withRelocate(reloc);
             long t0 = System.nanoTime();
             OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
@@ -143,7 +156,7 @@ public final class WideBench {
                             + "%d steps/chain, %.0f steps/CPU-s per chain, acceptance %.3f, swap acceptance %s; max R-hat %.4f, "
                             + "min bulk ESS %.0f = %.2f ESS per CPU-s; %d stuck; worst %s; chain mean log scores%s; load %.1f%n",
                     n, 2 * k, rungs, bmin, reloc, o.stop().label(), wall, o.samplingSeconds(), o.stepsPerChain(),
-                    4 * o.stepsPerChain() / r.chainCpuSeconds(), r.acceptance(), java.util.Arrays.toString(r.swapAcceptance()),
+                    4 * o.stepsPerChain() / r.chainCpuSeconds(), r.acceptance(), swaps(r.swapAcceptance()),
                     r.maxRhat(), r.minEss(), r.minEss() / r.chainCpuSeconds(), r.report().stuck(),
                     r.report().worst().isEmpty() ? "-" : describe(r.report().worst().get(0)), chains, UnknownOrderBench.load());
         }

@@ -99,7 +99,7 @@ public final class OrderMcmc {
 
         /**
          * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200))) —
-         * 1 (no tempering) up to n = 21, 2 up to 78, 3 up to 153, 4 at 200, 6 at 500. Why: the swap
+         * 1 (no tempering) up to n = 28, 2 up to 78, 3 up to 153, 4 at 200, 6 at 500. Why: the swap
          * acceptance between fixed β's falls as the variance of the log target grows (about ∝ n, so the
          * spacing of ln β must shrink ∝ 1/√n); 4 rungs down to β = 0.3 measured best at n = 200
          * (swap acceptance 0.25–0.38; docs/unknown-order.md, "Tempering").

@@ -35,6 +35,21 @@ class TemperedOrderChainTest {
         assertArrayEquals(new double[] {1}, TemperedOrderChain.geometricLadder(1, 0.3), 0.0);
     }
 
+    @Test
+    void rungsGrowWithTheSquareRootOfTheWidth() {
+        // R = max(1, round(4·√(n/200))), by hand: n = 28 → 4·0.374 = 1.50 − ε → 1; 29 → 1.52 → 2;
+        // 78 → 2.498 → 2; 79 → 2.51 → 3; 200 → 4; 500 → 6.32 → 6; an explicit count wins
+        OrderMcmc.Settings auto = OrderMcmc.Settings.defaults(1);
+        assertEquals(1, auto.rungsFor(5));
+        assertEquals(1, auto.rungsFor(28));
+        assertEquals(2, auto.rungsFor(29));
+        assertEquals(2, auto.rungsFor(78));
+        assertEquals(3, auto.rungsFor(79));
+        assertEquals(4, auto.rungsFor(200));
+        assertEquals(6, auto.rungsFor(500));
+        assertEquals(1, auto.withTempering(1, 0.3).rungsFor(500));
+    }
+
     /**
      * The β = 1 rung of a 4-rung ladder (β down to 0.01, so swaps bring states from an almost flat
      * distribution) visits each of the 5! = 120 orders with the frequency of its exact posterior
