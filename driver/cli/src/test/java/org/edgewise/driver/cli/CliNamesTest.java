@@ -44,7 +44,7 @@ class CliNamesTest {
     @Test
     void tooLittleHeapNamesTheLaunchersHeapSettingAndTheOptionsThatLowerTheNeed() {
         // 8 MiB of tables + 4 chains × (1 MiB of state + 32 MiB of draws) = 140 MiB, 100 MiB free
-        McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 32L << 20, 4, 1);
+        McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 0, 32L << 20, 4, 1);
         McmcMemory.TooLittleHeap e = assertThrows(McmcMemory.TooLittleHeap.class, () -> plan.check(100L << 20, 512L << 20));
         StringWriter err = new StringWriter();
         int status = ErrorReport.report("edges", CliNames.worded(e), new PrintWriter(err));

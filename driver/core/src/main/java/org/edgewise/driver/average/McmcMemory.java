@@ -14,7 +14,9 @@ import org.edgewise.driver.UserError;
  *   <li>Per non-tabulated child and per chain (each rung of a tempered ladder is a chain): a
  *       direct-mapped cache of 4,096 entries of 17 bytes (key, value, used flag) = 69,632 bytes.</li>
  *   <li>Per chain (each rung): the state, {@value #STATE_BYTES_PER_VARIABLE} bytes per variable
- *       (order, positions, masks, log sums and the scratch of one proposal and one relocation).</li>
+ *       (order, positions, masks, log sums and the scratch of one proposal and one relocation);
+ *       shared by all chains, the index of each child's candidates, 4n² bytes (order chains; counted
+ *       for every sampler, an upper bound).</li>
  *   <li>Per reported chain, its {@link DrawStore}: at most 2·cap draws of
  *       4·E + 8n + 2n²/8 (with features) + {@value #DRAW_OVERHEAD} bytes, E the candidate edges
  *       (one float each), 8n an upper bound of the stored state (an order, and for partitions the
@@ -28,12 +30,13 @@ import org.edgewise.driver.UserError;
  * @param tabulated      children with a table
  * @param direct         children summed directly (with a cache per chain)
  * @param chainBytes     bytes per chain or rung (state and caches)
+ * @param sharedBytes    bytes of state all chains share (the candidate index)
  * @param drawBytes      bytes per reported chain's draw store, when full (2·cap draws)
  * @param chains         reported chains
  * @param rungs          chains per reported chain (tempering; 1 without)
  */
-public record McmcMemory(long tableBytes, int tabulated, int direct, long chainBytes, long drawBytes, int chains,
-                         int rungs) {
+public record McmcMemory(long tableBytes, int tabulated, int direct, long chainBytes, long sharedBytes, long drawBytes,
+                         int chains, int rungs) {
     /** Bytes of one chain's state per variable: 3 int arrays and 9 long/double arrays of length n. */
     static final int STATE_BYTES_PER_VARIABLE = 3 * 4 + 9 * 8;
     /** Bytes of one direct-mapped cache (one per non-tabulated child per chain). */
@@ -43,7 +46,7 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
 
     /** Everything together, bytes. */
     public long totalBytes() {
-        return tableBytes + (long) chains * (rungs * chainBytes + drawBytes);
+        return tableBytes + sharedBytes + (long) chains * (rungs * chainBytes + drawBytes);
     }
 
     /**
@@ -58,14 +61,15 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
         long edges = OrderMcmc.edgeOffsets(ls)[n];
         long perDraw = 4 * edges + 8L * n + (s.features() ? ((2L * n * n + 63) >>> 6) * 8 : 0) + DRAW_OVERHEAD;
         long cap = s.untilConverged() ? Math.max(s.draws(), OrderMcmc.UNTIL_CONVERGED_DRAWS) : s.draws();
-        return new McmcMemory(tp.bytes(), tp.children().length, direct, chain, 2 * cap * perDraw, s.chains(), rungs);
+        return new McmcMemory(tp.bytes(), tp.children().length, direct, chain, 4L * n * n, 2 * cap * perDraw, s.chains(),
+                rungs);
     }
 
     /** One line: the total and its parts, in MiB. */
     public String describe() {
         return String.format(Locale.ROOT, "%s (per-child tables %s for %d of %d children, draw stores %s, chain state %s)",
                 mib(totalBytes()), mib(tableBytes), tabulated, tabulated + direct, mib(chains * drawBytes),
-                mib((long) chains * rungs * chainBytes));
+                mib((long) chains * rungs * chainBytes + sharedBytes));
     }
 
     static String mib(long bytes) {

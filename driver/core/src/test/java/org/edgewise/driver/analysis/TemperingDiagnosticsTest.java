@@ -46,7 +46,7 @@ class TemperingDiagnosticsTest {
         assertNull(UnknownOrderAveraging.tempering(plain));
         assertEquals(1, plain.memory().rungs());
         assertEquals(0, plain.swapAcceptance().length);
-        // the planned bytes: tables 7 × 8·2^6 = 3,584; 4 chains × (84·7 state + 2·200 draws × (4·42 + 8·7 + 96))
-        assertEquals(3584 + 4 * (84 * 7 + 400 * (4 * 42 + 56 + 96)), plain.memory().totalBytes());
+        // the planned bytes: tables 7 × 8·2^6 = 3,584; index 4·7²; 4 chains × (84·7 state + 2·200 draws × (4·42 + 8·7 + 96))
+        assertEquals(3584 + 4 * 49 + 4 * (84 * 7 + 400 * (4 * 42 + 56 + 96)), plain.memory().totalBytes());
     }
 }

@@ -47,7 +47,8 @@ class McmcMemoryTest {
         assertEquals(640, plan.tableBytes());
         assertEquals(43_200, plan.drawBytes());
         assertEquals(420, plan.chainBytes());
-        assertEquals(640 + 4 * (2 * 420 + 43_200), plan.totalBytes());
+        assertEquals(4 * 5 * 5, plan.sharedBytes()); // the candidate index, 4n² bytes
+        assertEquals(640 + 100 + 4 * (2 * 420 + 43_200), plan.totalBytes());
         // with features: + 2·5² bits = 50 bits → one 8-byte word per draw
         assertEquals(2 * 100 * (216 + 8), McmcMemory.plan(ls, s.withFeatures(true), 2).drawBytes());
         // until converged: at least 1,000 draws are kept (between 1,000 and 2,000)
@@ -56,7 +57,7 @@ class McmcMemoryTest {
 
     @Test
     void refusalNamesThePlanAndTheHeap() {
-        McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 32L << 20, 4, 1);
+        McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 0, 32L << 20, 4, 1);
         assertEquals(140L << 20, plan.totalBytes());
         plan.check(140L << 20, 512L << 20); // fits exactly: no refusal
         McmcMemory.TooLittleHeap e = assertThrows(McmcMemory.TooLittleHeap.class, () -> plan.check(100L << 20, 512L << 20));
