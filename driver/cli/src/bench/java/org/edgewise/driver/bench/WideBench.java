@@ -134,11 +134,14 @@ public final class WideBench {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
         for (String spec : ladders) {
             String[] p = spec.split(":");
-            int rungs = p[0].equals("auto") ? OrderMcmc.Settings.defaults(1).rungsFor(n) : Integer.parseInt(p[0]);
-            double bmin = p.length > 1 ? Double.parseDouble(p[1]) : OrderMcmc.Settings.DEFAULT_BETA_MIN;
             double reloc = p.length > 2 ? Double.parseDouble(p[2]) : OrderMcmc.Settings.DEFAULT_RELOCATE;
             OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(20_000, 0)
-                    .untilConverged(Long.MAX_VALUE / 4, maxSec).withTempering(rungs, bmin).withRelocate(reloc);
+                    .untilConverged(Long.MAX_VALUE / 4, maxSec).withRelocate(reloc);
+            if (!p[0].equals("auto")) {
+                st = st.withTempering(Integer.parseInt(p[0]), p.length > 1 ? Double.parseDouble(p[1]) : OrderMcmc.Settings.DEFAULT_BETA_MIN);
+            }
+            int rungs = st.rungsFor(n);
+            double bmin = st.betaMinFor(n);
             long t0 = System.nanoTime();
             OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
             double wall = (System.nanoTime() - t0) / 1e9;

@@ -98,14 +98,28 @@ public final class OrderMcmc {
         }
 
         /**
-         * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200))) —
-         * 1 (no tempering) up to n = 28, 2 up to 78, 3 up to 153, 4 at 200, 6 at 500. Why: the swap
-         * acceptance between fixed β's falls as the variance of the log target grows (about ∝ n, so the
-         * spacing of ln β must shrink ∝ 1/√n); 4 rungs down to β = 0.3 measured best at n = 200
-         * (swap acceptance 0.25–0.38; docs/unknown-order.md, "Tempering").
+         * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200)))
+         * up to n = 200 — 1 (no tempering) up to n = 28, 2 up to 78, 3 up to 153, 4 at 200 — and
+         * R = round(n/50) beyond (10 at n = 500). Why: the swap acceptance between fixed β's falls as
+         * the variance of the log target grows (about ∝ n, so the spacing of ln β must shrink ∝ 1/√n);
+         * 4 rungs down to β = 0.3 measured best at n = 200 (swap acceptance 0.25–0.38); beyond, the
+         * ladder must also reach hotter ({@link #betaMinFor}), and 10 rungs down to 0.1 is the ladder
+         * measured to bring every chain out of its trap at n = 500 (docs/unknown-order.md, "Tempering").
          */
         public int rungsFor(int n) {
-            return rungs > 0 ? rungs : Math.max(1, (int) Math.round(4 * Math.sqrt(n / 200.0)));
+            if (rungs > 0) {
+                return rungs;
+            }
+            return n <= 200 ? Math.max(1, (int) Math.round(4 * Math.sqrt(n / 200.0))) : (int) Math.round(n / 50.0);
+        }
+
+        /**
+         * The smallest inverse temperature for {@code n} variables: as set when the rungs are set, else
+         * {@code betaMin} up to n = 200 and betaMin·(200/n)^1.2 beyond (0.3 → 0.10 at n = 500) — fitted
+         * to the two ladders measured to work (n = 200: 0.3; n = 500: 0.1), not derived.
+         */
+        public double betaMinFor(int n) {
+            return rungs > 0 || n <= 200 ? betaMin : betaMin * Math.pow(200.0 / n, 1.2);
         }
 
         public static Settings defaults(long seed) {
@@ -216,7 +230,7 @@ public final class OrderMcmc {
             return runChains(ls, offset, s, 1, listener, (tables, rng, store) ->
                     new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
         }
-        double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMin());
+        double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMinFor(ls.variableCount()));
         return runChains(ls, offset, s, rungs, listener, (tables, rng, store) -> {
             OrderChain[] ladder = new OrderChain[beta.length];
             for (int r = 0; r < ladder.length; r++) {
@@ -374,6 +388,6 @@ public final class OrderMcmc {
             }
         }
         return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu,
-                swaps, s.betaMin(), memory);
+                swaps, s.betaMinFor(n), memory);
     }
 }

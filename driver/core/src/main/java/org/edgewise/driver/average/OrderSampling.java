@@ -19,7 +19,8 @@ public final class OrderSampling {
         int rungs = ms.rungsFor(ls.variableCount());
         progress.note("order MCMC: memory planned " + McmcMemory.plan(ls, ms, rungs).describe()
                 + (rungs > 1 ? "; each of the " + ms.chains() + " chains a ladder of " + rungs
-                + " tempered chains (beta 1 down to " + ms.betaMin() + ")" : ""));
+                + " tempered chains (beta 1 down to " + String.format(java.util.Locale.ROOT, "%.3g",
+                ms.betaMinFor(ls.variableCount())) + ")" : ""));
         progress.start(ms.untilConverged() ? "order MCMC until converged" : "order MCMC",
                 ms.untilConverged() ? -1 : (ms.burnIn() + ms.steps()) * ms.chains());
         try {

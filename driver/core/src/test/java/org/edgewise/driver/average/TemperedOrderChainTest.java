@@ -36,9 +36,9 @@ class TemperedOrderChainTest {
     }
 
     @Test
-    void rungsGrowWithTheSquareRootOfTheWidth() {
-        // R = max(1, round(4·√(n/200))), by hand: n = 28 → 4·0.374 = 1.50 − ε → 1; 29 → 1.52 → 2;
-        // 78 → 2.498 → 2; 79 → 2.51 → 3; 200 → 4; 500 → 6.32 → 6; an explicit count wins
+    void ladderGrowsWithTheWidth() {
+        // R = max(1, round(4·√(n/200))) up to 200, by hand: n = 28 → 4·0.374 = 1.50 − ε → 1; 29 → 1.52 → 2;
+        // 78 → 2.498 → 2; 79 → 2.51 → 3; 200 → 4; then round(n/50): 201 → 4; 500 → 10; an explicit count wins
         OrderMcmc.Settings auto = OrderMcmc.Settings.defaults(1);
         assertEquals(1, auto.rungsFor(5));
         assertEquals(1, auto.rungsFor(28));
@@ -46,8 +46,13 @@ class TemperedOrderChainTest {
         assertEquals(2, auto.rungsFor(78));
         assertEquals(3, auto.rungsFor(79));
         assertEquals(4, auto.rungsFor(200));
-        assertEquals(6, auto.rungsFor(500));
+        assertEquals(4, auto.rungsFor(201));
+        assertEquals(10, auto.rungsFor(500));
         assertEquals(1, auto.withTempering(1, 0.3).rungsFor(500));
+        // β_min = 0.3 up to 200, then 0.3·(200/n)^1.2: n = 500 → 0.3·0.4^1.2 = 0.3·0.33302 = 0.09991 (by hand)
+        assertEquals(0.3, auto.betaMinFor(200), 0.0);
+        assertEquals(0.09991, auto.betaMinFor(500), 1e-5);
+        assertEquals(0.3, auto.withTempering(6, 0.3).betaMinFor(500), 0.0);
     }
 
     /**
