@@ -39,6 +39,10 @@ public interface ProgressListener {
         chainState(s.acceptance(), s.maxRhat(), s.minEss());
     }
 
+    /** One line worth showing before or during a task (e.g. the memory a run has planned). */
+    default void note(String line) {
+    }
+
     /** The current task ended (normally or not). */
     default void finish() {
     }

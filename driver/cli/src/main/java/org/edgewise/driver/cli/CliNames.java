@@ -3,6 +3,7 @@ package org.edgewise.driver.cli;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.McmcMemory;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.edgewise.driver.report.AssessHint;
 import org.edgewise.driver.report.RunHint;
@@ -14,6 +15,9 @@ final class CliNames {
             "--max-hidden-states", "--exact-cases", "--candidates K", "--draws", "--samples", "--method mcmc",
             "--dag-prior order-modular", "--dag-prior structure-modular",
             "--features essential-graph, ancestors or markov-blanket", "--do", "--target", "--versus");
+
+    /** How the launcher's heap is raised (or the need lowered), in a refusal for too little heap. */
+    static final String HEAP = "raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or lower --draws or --chains";
 
     /** How a report tells the reader to get essential-graph features. */
     static final AssessHint ASSESS = new AssessHint("edges", "--features essential-graph");
@@ -35,6 +39,9 @@ final class CliNames {
     static Throwable worded(Throwable t) {
         if (ErrorReport.userError(t) instanceof MultiChainDiagnostics.TooFewDraws few) {
             return new UserError(few.message(NAMES.draws()), t);
+        }
+        if (ErrorReport.userError(t) instanceof McmcMemory.TooLittleHeap heap) {
+            return new UserError(heap.message(HEAP), t);
         }
         return t;
     }

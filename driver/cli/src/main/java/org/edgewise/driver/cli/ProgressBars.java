@@ -58,6 +58,12 @@ final class ProgressBars implements ProgressListener {
                         UnknownOrderEdges.trim(s.mcseTarget())));
     }
 
+    /** Notes go to standard error whether or not a bar is shown (they are one line each). */
+    @Override
+    public synchronized void note(String line) {
+        System.err.println(line);
+    }
+
     @Override
     public synchronized void finish() {
         if (bar != null) {

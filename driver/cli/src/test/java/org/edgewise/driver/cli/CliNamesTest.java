@@ -10,6 +10,7 @@ import java.util.List;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.DrawStore;
+import org.edgewise.driver.average.McmcMemory;
 import org.edgewise.driver.average.MultiChainDiagnostics;
 import org.junit.jupiter.api.Test;
 
@@ -37,6 +38,20 @@ class CliNamesTest {
         int status = ErrorReport.report("edges", CliNames.worded(new RuntimeException("wrapped", e)), new PrintWriter(err));
         assertEquals(ErrorReport.USER_MISTAKE, status);
         assertEquals("edges: only 2 draws per chain were stored after burn-in; run more steps or store more draws (--draws)\n",
+                err.toString().replace(System.lineSeparator(), "\n"));
+    }
+
+    @Test
+    void tooLittleHeapNamesTheLaunchersHeapSettingAndTheOptionsThatLowerTheNeed() {
+        // 8 MiB of tables + 4 chains × (1 MiB of state + 32 MiB of draws) = 140 MiB, 100 MiB free
+        McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 0, 32L << 20, 4, 1);
+        McmcMemory.TooLittleHeap e = assertThrows(McmcMemory.TooLittleHeap.class, () -> plan.check(100L << 20, 512L << 20));
+        StringWriter err = new StringWriter();
+        int status = ErrorReport.report("edges", CliNames.worded(e), new PrintWriter(err));
+        assertEquals(ErrorReport.USER_MISTAKE, status);
+        assertEquals("edges: the MCMC run needs about 140.0 MiB (per-child tables 8.0 MiB for 200 of 200 children, "
+                        + "draw stores 128.0 MiB, chain state 4.0 MiB) but the heap has 100.0 MiB free of 512.0 MiB; "
+                        + "raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or lower --draws or --chains\n",
                 err.toString().replace(System.lineSeparator(), "\n"));
     }
 

@@ -11,7 +11,7 @@ import org.junit.jupiter.api.Test;
 class ConvergenceTextTest {
     static EdgeResult.Diagnostics diagnostics(boolean converged, String stop, List<EdgeResult.Worst> worst) {
         return new EdgeResult.Diagnostics(4, 640_000, 640_000, 1, 0.3124, 1.0071, 644, converged, null, 100, 1.01, 400.0,
-                0.01, converged ? 0.0081 : 0.0173, 512.0, stop, 300, 120, 0, 0.005, worst, 1250, 0.1, 6, 1.2, 2.4);
+                0.01, converged ? 0.0081 : 0.0173, 512.0, stop, 300, 120, 0, 0.005, worst, 1250, 0.1, 6, 1.2, 2.4, null, null);
     }
 
     @Test

@@ -161,7 +161,20 @@ public final class UnknownOrderAveraging {
                 (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery), s.rhatTarget(), ChainDiagnostics.ESS_TARGET,
                 s.targets().mcse(), finite(rep.maxMcse()), finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(), rep.settled(), rep.stuck(),
                 ChainDiagnostics.SETTLE_SPAN, worst, rep.drawsPerChain(), OrderMcmc.Settings.DEFAULT_RELOCATE,
-                r.outcome().checks(), r.outcome().checkSeconds(), r.outcome().samplingSeconds());
+                r.outcome().checks(), r.outcome().checkSeconds(), r.outcome().samplingSeconds(), tempering(r),
+                r.memory() == null ? null : r.memory().totalBytes());
+    }
+
+    /** The ladder behind each chain, or null when the chains were not tempered. */
+    static EdgeResult.Tempering tempering(OrderMcmc.Result r) {
+        if (r.memory() == null || r.memory().rungs() == 1) {
+            return null;
+        }
+        List<Double> swaps = new ArrayList<>();
+        for (double a : r.swapAcceptance()) {
+            swaps.add(finite(a));
+        }
+        return new EdgeResult.Tempering(r.memory().rungs(), r.betaMin(), swaps);
     }
 
     private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, double[][] anc,

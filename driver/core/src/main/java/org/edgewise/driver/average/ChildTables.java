@@ -10,7 +10,8 @@ import java.util.Arrays;
  * P(j → i | ≺) = 1 − exp(α_i(P∖{j}) − α_i(P)) for a candidate j ∈ P (the sets without j are
  * exactly the subsets of P∖{j}).
  *
- * <p>Memory: 8·2^K bytes per tabulated child. Children are tabulated, fewest candidates first,
+ * <p>Memory: 8·2^K bytes per tabulated child (K = 10: 8 KiB; K = 20: 8 MiB), planned before any
+ * is built ({@link #plan}, {@link McmcMemory}). Children are tabulated, fewest candidates first,
  * until {@code budgetBytes} is used; the others (and any with K &gt; 26) are summed directly
  * ({@link OrderSum#childLogSum}) with a small per-chain cache.
  */
@@ -18,16 +19,21 @@ final class ChildTables {
     static final int MAX_TABLE_BITS = 26;
     private final double[][] table;
 
-    ChildTables(LocalScores ls, long budgetBytes) {
+    /** Which children get a table within a budget, and the bytes those tables take. */
+    record Plan(int[] children, long bytes) {
+    }
+
+    /** The children tabulated within {@code budgetBytes}: fewest candidates first, 8·2^K bytes each. */
+    static Plan plan(LocalScores ls, long budgetBytes) {
         int n = ls.variableCount();
-        table = new double[n][];
         Integer[] byK = new Integer[n];
         for (int i = 0; i < n; i++) {
             byK[i] = i;
         }
         Arrays.sort(byK, (a, b) -> Integer.compare(ls.candidates(a).length, ls.candidates(b).length));
         long used = 0;
-        java.util.List<Integer> chosen = new java.util.ArrayList<>();
+        int[] chosen = new int[n];
+        int count = 0;
         for (int i : byK) {
             int k = ls.candidates(i).length;
             long bytes = 8L << k;
@@ -35,10 +41,16 @@ final class ChildTables {
                 break;
             }
             used += bytes;
-            chosen.add(i);
+            chosen[count++] = i;
         }
+        return new Plan(Arrays.copyOf(chosen, count), used);
+    }
+
+    ChildTables(LocalScores ls, long budgetBytes) {
+        table = new double[ls.variableCount()][];
+        int[] chosen = plan(ls, budgetBytes).children();
         // children are independent: build their tables on all cores
-        chosen.parallelStream().forEach(i -> {
+        Arrays.stream(chosen).parallel().forEach(i -> {
             int k = ls.candidates(i).length;
             double[] t = new double[1 << k];
             Arrays.fill(t, Double.NEGATIVE_INFINITY);

@@ -22,14 +22,19 @@ import org.edgewise.driver.UserError;
  * single-node move of partition and order samplers in the literature (Kuipers &amp; Moffa 2017,
  * sec. 4.2, "node moves"), applied to orders.
  *
+ * <p>As a rung of a {@link TemperedOrderChain} the chain targets π(≺)^β instead (0 &lt; β ≤ 1): the
+ * Metropolis–Hastings ratio becomes exp(β·Δ log π) and the relocation draws ∝ π^β — both still
+ * leave their target invariant (a symmetric proposal; a Gibbs update of π^β).
+ *
  * <p>The draws go to a {@link DrawStore}: the Rao-Blackwellised edge posteriors given the current
  * order (a float per candidate edge), the order's log evidence, the order itself, and — when
  * features are asked — the ancestor and Markov-blanket indicators of one DAG sampled from the
  * parent-set weights given the order.
  *
- * <p>Memory per chain: O(n) state, 4 bytes per candidate edge per draw, 4n per draw for orders,
- * n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (16 bytes each)
- * per non-tabulated child. Mutable, confined to one thread at a time.
+ * <p>Memory per chain: 84n bytes of state, 4 bytes per candidate edge per draw, 4n per draw for
+ * orders, n²/32 bytes per draw for features, and a direct-mapped cache of 4096 entries (17 bytes
+ * each: key, value, used flag) per non-tabulated child — planned up front by {@link McmcMemory}.
+ * Mutable, confined to one thread at a time.
  */
 final class OrderChain extends SteppedChain {
     private static final int CACHE_BITS = 12;
@@ -58,6 +63,8 @@ final class OrderChain extends SteppedChain {
     private int chCount;
 
     private final double relocate;
+    /** The inverse temperature: the chain targets π(≺)^β (1 unless it is a rung of a {@link TemperedOrderChain}). */
+    private double beta = 1;
     // scratch for a relocation
     private final double[] posLog;
     private final long[] vMaskAt;
@@ -154,6 +161,20 @@ final class OrderChain extends SteppedChain {
         }
     }
 
+    /** The log target at β = 1 of the current order: Σ_i log α_i(pred(i)). */
+    double score() {
+        return score;
+    }
+
+    double beta() {
+        return beta;
+    }
+
+    /** Sets the inverse temperature (a rung of a ladder; 0 &lt; β ≤ 1). */
+    void beta(double b) {
+        beta = b;
+    }
+
     /** The current order (a copy). */
     int[] order() {
         return order.clone();
@@ -231,14 +252,15 @@ final class OrderChain extends SteppedChain {
                 max = posLog[k];
             }
         }
+        // a tempered rung draws ∝ π^β: the Gibbs update of the tempered target
         double total = 0;
         for (int k = lo; k <= hi; k++) {
-            total += Math.exp(posLog[k] - max); // exp(−∞) = 0: impossible positions are never drawn
+            total += Math.exp(beta * (posLog[k] - max)); // exp(−∞) = 0: impossible positions are never drawn
         }
         double u = rng.nextDouble() * total;
         int q = hi;
         for (int k = lo; k <= hi; k++) {
-            u -= Math.exp(posLog[k] - max);
+            u -= Math.exp(beta * (posLog[k] - max));
             if (u < 0) {
                 q = k;
                 break;
@@ -341,7 +363,7 @@ final class OrderChain extends SteppedChain {
         if (!(delta > Double.NEGATIVE_INFINITY)) {
             return;
         }
-        if (delta < 0 && Math.log(rng.nextDouble()) >= delta) {
+        if (delta < 0 && Math.log(rng.nextDouble()) >= beta * delta) {
             return;
         }
         accepted++;
@@ -372,6 +394,11 @@ final class OrderChain extends SteppedChain {
 
     @Override
     void record() {
+        recordInto(draws, stepsDone);
+    }
+
+    /** Stores the current state into {@code store} as the draw after step {@code step}. */
+    void recordInto(DrawStore store, long step) {
         float[] row = new float[edgeCount];
         for (int i = 0; i < n; i++) {
             long m = mask[i];
@@ -404,6 +431,6 @@ final class OrderChain extends SteppedChain {
             }
         }
         long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
-        draws.add(stepsDone, row, score, new State(order.clone(), feats));
+        store.add(step, row, score, new State(order.clone(), feats));
     }
 }

@@ -29,9 +29,16 @@ import org.edgewise.driver.UserError;
  * chains only meet at round boundaries fixed by step counts — so a seed gives the same result
  * whatever the thread timing, unless a time budget stops the run.
  *
- * <p>Memory: {@link ChildTables} (at most {@code tableBudget} bytes), plus per chain at most
- * 2·draws stored draws of 4 bytes per candidate edge and 4n bytes of order (2,000 draws × 1,200
- * candidate edges ≈ 10 MB).
+ * <p>On wide tables each reported chain is a ladder of tempered chains (Metropolis-coupled MCMC,
+ * {@link TemperedOrderChain}; rungs by width, {@link Settings#rungsFor}): measured at n = 200, it
+ * takes chains out of inferior modes of the order posterior that single chains do not leave in
+ * minutes (docs/unknown-order.md, "Tempering").
+ *
+ * <p>Memory: {@link ChildTables} (8·2^K bytes per tabulated child with K candidates, at most
+ * {@code tableBudget} in all), plus per chain at most 2·draws stored draws of 4 bytes per
+ * candidate edge and 4n bytes of order (2,000 draws × 1,200 candidate edges ≈ 10 MB), plus per
+ * rung 84n bytes of state and 69,632 bytes of cache per non-tabulated child; planned and
+ * checked against the heap before anything is built ({@link McmcMemory}).
  */
 public final class OrderMcmc {
     private OrderMcmc() {
@@ -55,12 +62,19 @@ public final class OrderMcmc {
      * @param mcseTarget  MCSE at or below which an edge or feature posterior counts as converged
      *                    ({@link ConvergenceTargets#DEFAULT_MCSE}; until converged, at least
      *                    {@link ConvergenceTargets#drawsPerChain} draws are kept per chain)
+     * @param rungs       tempered chains per reported chain (1: no tempering; {@link TemperedOrderChain});
+     *                    0: {@link #rungsFor chosen by the number of variables}
+     * @param betaMin     the smallest inverse temperature of the geometric ladder (used when rungs &gt; 1)
      */
     public record Settings(int chains, long steps, long burnIn, long seed, int draws, boolean untilConverged,
                            long maxSteps, double maxSeconds, boolean features, long tableBudget, double relocate,
-                           double rhatTarget, double mcseTarget) {
+                           double rhatTarget, double mcseTarget, int rungs, double betaMin) {
         /** Share of relocation moves in the default settings (measured: docs/unknown-order.md, "Mixing"). */
         public static final double DEFAULT_RELOCATE = 0.1;
+        /** Tempered chains per reported chain in the default settings: 0, chosen by width ({@link #rungsFor}). */
+        public static final int DEFAULT_RUNGS = 0;
+        /** Smallest inverse temperature of a tempered ladder by default. */
+        public static final double DEFAULT_BETA_MIN = 0.3;
 
         public Settings {
             Checks.atLeast(chains, 1, "the number of chains");
@@ -75,6 +89,10 @@ public final class OrderMcmc {
             if (!(relocate >= 0 && relocate <= 1)) {
                 throw new IllegalArgumentException("relocation share " + relocate);
             }
+            Checks.zeroOrMore(rungs, "the tempered chains per chain");
+            if (!(betaMin > 0 && betaMin < 1)) {
+                throw new IllegalArgumentException("smallest inverse temperature " + betaMin);
+            }
             ConvergenceTargets.mcse(mcseTarget, "the Monte Carlo standard error target");
         }
 
@@ -84,45 +102,79 @@ public final class OrderMcmc {
         }
 
         public Settings withMcseTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, t);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, t, rungs, betaMin);
+        }
+
+        /**
+         * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200)))
+         * up to n = 200 — 1 (no tempering) up to n = 28, 2 up to 78, 3 up to 153, 4 at 200 — and
+         * R = round(n/50) beyond (10 at n = 500). Why: the swap acceptance between fixed β's falls as
+         * the variance of the log target grows (about ∝ n, so the spacing of ln β must shrink ∝ 1/√n);
+         * 4 rungs down to β = 0.3 measured best at n = 200 (swap acceptance 0.25–0.38); beyond, the
+         * ladder must also reach hotter ({@link #betaMinFor}), and 10 rungs down to 0.1 is the ladder
+         * measured to bring every chain out of its trap at n = 500 (docs/unknown-order.md, "Tempering").
+         */
+        public int rungsFor(int n) {
+            if (rungs > 0) {
+                return rungs;
+            }
+            return n <= 200 ? Math.max(1, (int) Math.round(4 * Math.sqrt(n / 200.0))) : (int) Math.round(n / 50.0);
+        }
+
+        /**
+         * The smallest inverse temperature for {@code n} variables: as set when the rungs are set, else
+         * {@code betaMin} up to n = 200 and betaMin·(200/n)^1.2 beyond (0.3 → 0.10 at n = 500) — fitted
+         * to the two ladders measured to work (n = 200: 0.3; n = 500: 0.1), not derived.
+         */
+        public double betaMinFor(int n) {
+            return rungs > 0 || n <= 200 ? betaMin : betaMin * Math.pow(200.0 / n, 1.2);
         }
 
         public static Settings defaults(long seed) {
             return new Settings(4, 200_000, 50_000, seed, 1000, false, 0, 0, false, 1L << 30, DEFAULT_RELOCATE,
-                    ChainDiagnostics.RHAT_TARGET, ConvergenceTargets.DEFAULT_MCSE);
+                    ChainDiagnostics.RHAT_TARGET, ConvergenceTargets.DEFAULT_MCSE, DEFAULT_RUNGS, DEFAULT_BETA_MIN);
         }
 
         public Settings withSteps(long s, long b) {
-            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withChains(int c) {
-            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withFeatures(boolean f) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
         public Settings untilConverged(long max, double seconds) {
-            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withSeed(long sd) {
-            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withDraws(int d) {
-            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget);
+            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withRhatTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t, mcseTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t, mcseTarget, rungs, betaMin);
+        }
+
+        /** A ladder of {@code r} tempered chains per reported chain, β from 1 down to {@code bMin}. */
+        public Settings withTempering(int r, double bMin) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, r, bMin);
+        }
+
+        public Settings withTableBudget(long bytes) {
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, bytes, relocate, rhatTarget, mcseTarget, rungs, betaMin);
         }
 
         public Settings withRelocate(double r) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget, mcseTarget);
+            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget, mcseTarget, rungs, betaMin);
         }
     }
 
@@ -143,10 +195,15 @@ public final class OrderMcmc {
      * @param orders      the orders of the draws used (chain by chain), for averaging predictions
      * @param thin        steps between the draws used
      * @param chainCpuSeconds CPU time of the chains' steps (incl. stored draws), summed over chains
+     * @param swapAcceptance  tempering: per adjacent pair of rungs (β_r, β_{r+1}), the share of
+     *                        proposed exchanges accepted, over all chains; empty without tempering
+     * @param betaMin         tempering: the smallest inverse temperature of the ladders
+     * @param memory          the memory planned before the run (and checked against the heap)
      */
     public record Result(Estimate[][] edges, Estimate[][] ancestors, Estimate[][] blanket,
                          MultiChainDiagnostics.Report report, ChainRunner.Outcome outcome, double acceptance, long thin,
-                         List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds) {
+                         List<double[]> traces, List<int[]> orders, double setupSeconds, double chainCpuSeconds,
+                         double[] swapAcceptance, double betaMin, McmcMemory memory) {
         public double maxRhat() {
             return report.maxRhat();
         }
@@ -174,6 +231,25 @@ public final class OrderMcmc {
 
     /** Runs the chains. {@code listener} may be null. */
     public static Result run(LocalScores ls, OrderConstraints oc, Settings s, ChainRunner.Listener listener) {
+        int[][] cpos = candidatePositions(ls);
+        int[] offset = edgeOffsets(ls);
+        int rungs = s.rungsFor(ls.variableCount());
+        if (rungs == 1) {
+            return runChains(ls, offset, s, 1, listener, (tables, rng, store) ->
+                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+        }
+        double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMinFor(ls.variableCount()));
+        return runChains(ls, offset, s, rungs, listener, (tables, rng, store) -> {
+            OrderChain[] ladder = new OrderChain[beta.length];
+            for (int r = 0; r < ladder.length; r++) {
+                ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
+            }
+            return new TemperedOrderChain(ladder, beta, rng.split(), store);
+        }).result();
+    }
+
+    /** cpos[i][j]: the index of j among i's candidates, −1 when j is none (n² ints, shared by all chains). */
+    static int[][] candidatePositions(LocalScores ls) {
         int n = ls.variableCount();
         int[][] cpos = new int[n][n];
         for (int i = 0; i < n; i++) {
@@ -183,9 +259,7 @@ public final class OrderMcmc {
                 cpos[i][cand[k]] = k;
             }
         }
-        int[] offset = edgeOffsets(ls);
-        return runChains(ls, offset, s, listener, (tables, rng, store) ->
-                new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+        return cpos;
     }
 
     /** Per child i, where its candidate edges start in the flat edge arrays: offset[i+1] − offset[i] = |candidates(i)|. */
@@ -214,6 +288,12 @@ public final class OrderMcmc {
      */
     static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s,
                                                           ChainRunner.Listener listener, ChainFactory<C> factory) {
+        return runChains(ls, offset, s, 1, listener, factory);
+    }
+
+    /** As above, each reported chain a ladder of {@code rungs} chains (for the memory plan). */
+    static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s, int rungs,
+                                                          ChainRunner.Listener listener, ChainFactory<C> factory) {
         int n = ls.variableCount();
         int[] edgeFrom = new int[offset[n]];
         int[] edgeTo = new int[offset[n]];
@@ -225,6 +305,8 @@ public final class OrderMcmc {
             }
         }
         long t0 = System.nanoTime();
+        McmcMemory memory = McmcMemory.plan(ls, s, rungs);
+        memory.checkHere();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
         List<C> chains = new ArrayList<>();
@@ -241,11 +323,11 @@ public final class OrderMcmc {
         MultiChainDiagnostics.Quantities q = OrderQuantities.of(names, edgeFrom, edgeTo, s.features());
         ChainRunner.Outcome out = ChainRunner.run(chains, new ChainRunner.Plan(s.steps(), s.burnIn(), s.untilConverged(),
                 Math.max(s.maxSteps(), s.steps()), s.maxSeconds(), s.targets()), q, listener);
-        return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length));
+        return new Run<>(chains, out, summarise(ls, chains, offset, s, out, setup, edgeFrom.length, memory));
     }
 
     static Result summarise(LocalScores ls, List<? extends ChainRunner.Chain> chains, int[] offset, Settings s,
-                                    ChainRunner.Outcome out, double setup, int edgeCount) {
+                            ChainRunner.Outcome out, double setup, int edgeCount, McmcMemory memory) {
         int n = ls.variableCount();
         MultiChainDiagnostics.Report rep = out.report();
         List<DrawStore> stores = new ArrayList<>();
@@ -302,9 +384,18 @@ public final class OrderMcmc {
             thin = Math.min(thin, stores.get(c).thin());
         }
         double cpu = 0;
+        double[] swaps = new double[0];
         for (ChainRunner.Chain c : chains) {
             cpu += c.cpuSeconds();
+            if (c instanceof TemperedOrderChain t) {
+                double[] a = t.swapAcceptance();
+                swaps = swaps.length == 0 ? new double[a.length] : swaps;
+                for (int r = 0; r < a.length; r++) {
+                    swaps[r] += a[r] / chains.size();
+                }
+            }
         }
-        return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu);
+        return new Result(edges, anc, mb, rep, out, ChainRunner.acceptance(chains), thin, traces, orders, setup, cpu,
+                swaps, s.betaMinFor(n), memory);
     }
 }

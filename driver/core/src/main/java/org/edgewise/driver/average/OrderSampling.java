@@ -16,7 +16,13 @@ public final class OrderSampling {
      */
     public static OrderMcmc.Result runMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                            boolean withFeatures, ProgressListener progress) {
-        return run("order MCMC", s.mcmc(withFeatures), progress, (ms, l) -> OrderMcmc.run(ls, oc, ms, l));
+        OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        int rungs = ms.rungsFor(ls.variableCount());
+        progress.note("order MCMC: memory planned " + McmcMemory.plan(ls, ms, rungs).describe()
+                + (rungs > 1 ? "; each of the " + ms.chains() + " chains a ladder of " + rungs
+                + " tempered chains (beta 1 down to " + String.format(java.util.Locale.ROOT, "%.3g",
+                ms.betaMinFor(ls.variableCount())) + ")" : ""));
+        return run("order MCMC", ms, progress, (m, l) -> OrderMcmc.run(ls, oc, m, l));
     }
 
     /** The same for partition MCMC (the structure-modular prior, {@link PartitionMcmc}). */

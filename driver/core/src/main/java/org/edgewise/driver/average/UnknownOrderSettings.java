@@ -127,7 +127,8 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
         return new OrderMcmc.Settings(chains, first, burnInSteps(), seed, draws, untilConverged(),
                 maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps, maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds,
                 withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4),
-                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget(), targets().mcse());
+                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget(), targets().mcse(), OrderMcmc.Settings.DEFAULT_RUNGS,
+                OrderMcmc.Settings.DEFAULT_BETA_MIN);
     }
 
     /** The order constraints: these tiers when given, else the store's. */

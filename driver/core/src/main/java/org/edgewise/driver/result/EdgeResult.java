@@ -88,7 +88,9 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * {@code mcse}: the largest MCSE of a deciding probability; {@code worst}: the quantities furthest
      * from the targets;
      * {@code stopReason}: {@code steps} (a fixed run), {@code converged}, {@code max-steps} or
-     * {@code max-time}; {@code traces}: log evidence per chain (thinned), for trace plots.
+     * {@code max-time}; {@code traces}: log evidence per chain (thinned), for trace plots;
+     * {@code tempering}: the ladder of tempered chains behind each reported chain (null without);
+     * {@code plannedMemoryBytes}: the memory planned before sampling (per-child tables, chains, draw stores).
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
@@ -97,27 +99,36 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                               Double essTail, String stopReason,
                               Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
                               Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
-                              Double samplingSeconds) {
+                              Double samplingSeconds, Tempering tempering, Long plannedMemoryBytes) {
         /** Diagnostics with the original fields only. */
         public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat, double ess,
                            boolean converged, List<List<Double>> traces, int traceThin) {
             this(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin, null, null, null, null,
-                    null, null, null, null, null, null, null, null, null, null, null, null);
+                    null, null, null, null, null, null, null, null, null, null, null, null, null, null);
         }
 
         /** The same diagnostics with other summary figures (e.g. of estimates re-weighted from the chains' draws). */
         public Diagnostics withSummary(double rhat, double ess, boolean converged) {
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
                     rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
-                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
+                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes);
         }
 
         /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
         public Diagnostics withVerdict(boolean converged, Double mcse, List<Worst> worst) {
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
                     rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
-                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds);
+                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes);
         }
+    }
+
+    /**
+     * Metropolis-coupled chains (parallel tempering): each reported chain is a ladder of {@code rungs}
+     * order chains with targets π^β, β geometric from 1 down to {@code betaMin}; only β = 1 is
+     * recorded. {@code swapAcceptance}: per adjacent pair of rungs, the share of proposed exchanges
+     * accepted (mean over chains).
+     */
+    public record Tempering(int rungs, double betaMin, List<Double> swapAcceptance) {
     }
 
     /**

@@ -28,7 +28,7 @@ import org.junit.jupiter.api.Test;
 class ReportedMcseTest {
     static EdgeResult result(double mcseAB, Double target, boolean converged) {
         EdgeResult.Diagnostics d = new EdgeResult.Diagnostics(4, 1000, 1000, 1, 0.5, 1.001, 900, converged, null, 1, 1.01, 400.0,
-                target, 0.004, 800.0, "converged", 0, 0, 0, 0.005, List.of(), 500, 0.1, 1, 0.1, 0.1);
+                target, 0.004, 800.0, "converged", 0, 0, 0, 0.005, List.of(), 500, 0.1, 1, 0.1, 0.1, null, null);
         return new EdgeResult("mcmc", List.of("a", "b"), null, null, "order-modular", null, null, null,
                 List.of(new EdgeResult.Edge("a", "b", 0.5, mcseAB, 1.001), new EdgeResult.Edge("b", "a", 0.02, 0.002, 1.0)),
                 null, null, d, List.of(new EdgeResult.Feature("ancestor", "a", "b", 0.5, 0.003)), null, "structure-modular", null);

@@ -28,7 +28,7 @@ class ConvergenceSectionTest {
                 new EdgeResult.Worst("log score", 1.008, 455.0, null, 430.0, "varies"));
         EdgeResult.Diagnostics d = new EdgeResult.Diagnostics(4, 640_000, 640_000, 42, 0.31, Double.POSITIVE_INFINITY, 455,
                 false, d0.traces(), d0.traceThin(), 1.01, 400.0, 0.01, 0.21, 430.0, "max-time", 12, 30, 1, 0.005, worst,
-                1250, 0.1, 6, 1.5, 298.5);
+                1250, 0.1, 6, 1.5, 298.5, null, null);
         return new EdgeResult(m.method(), m.variables(), null, null, m.evidenceConvention(), null, m.settings(), m.store(),
                 m.edges(), m.parentSets(), null, d, m.features(), null, "order-modular", null);
     }
