@@ -407,27 +407,7 @@ final class DagMoves {
             return chain.childScore(i, 1, b, t);
         }
         double[] tab = tables.table(i);
-        if (tab != null) {
-            return tab[(int) b];
-        }
-        long[] masks = ls.masks(i);
-        double[] w = ls.weights(i);
-        double max = Double.NEGATIVE_INFINITY;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~b) == 0) {
-                max = Math.max(max, w[s]);
-            }
-        }
-        if (!(max > Double.NEGATIVE_INFINITY)) {
-            return max;
-        }
-        double sum = 0;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~b) == 0) {
-                sum += Math.exp(w[s] - max);
-            }
-        }
-        return max + Math.log(sum);
+        return tab != null ? tab[(int) b] : LogSum.ofSubsets(ls.masks(i), ls.weights(i), b);
     }
 
     /** A set U ⊆ b (meeting t unless t = 0) drawn ∝ exp w_i(U) by inversion of u, given log normaliser z; −1 if none. */
