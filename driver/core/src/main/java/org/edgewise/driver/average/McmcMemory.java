@@ -16,7 +16,8 @@ import org.edgewise.driver.UserError;
  *   <li>Per chain (each rung): the state, {@value #STATE_BYTES_PER_VARIABLE} bytes per variable
  *       (order, positions, masks, log sums and the scratch of one proposal and one relocation);
  *       shared by all chains, the index of each child's candidates, 4n² bytes (order chains; counted
- *       for every sampler, an upper bound).</li>
+ *       for every sampler, an upper bound). A partition chain holds besides its DAG: children
+ *       bitsets, a set index per child and its partition state ({@code PartitionChain.extraBytes}).</li>
  *   <li>Per reported chain, its {@link DrawStore}: at most 2·cap draws of
  *       4·E + 8n + 2n²/8 (with features) + {@value #DRAW_OVERHEAD} bytes, E the candidate edges
  *       (one float each), 8n an upper bound of the stored state (an order, and for partitions the
@@ -54,10 +55,18 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
      * which children the table budget tabulates, and the chains' and draw stores' bytes.
      */
     public static McmcMemory plan(LocalScores ls, OrderMcmc.Settings s, int rungs) {
+        return plan(ls, s, rungs, 0);
+    }
+
+    /**
+     * As above, each chain holding {@code extraChainBytes} more than an order chain (a partition
+     * chain's DAG and set index: {@code PartitionChain.extraBytes}).
+     */
+    public static McmcMemory plan(LocalScores ls, OrderMcmc.Settings s, int rungs, long extraChainBytes) {
         int n = ls.variableCount();
         ChildTables.Plan tp = ChildTables.plan(ls, s.tableBudget());
         int direct = n - tp.children().length;
-        long chain = (long) STATE_BYTES_PER_VARIABLE * n + direct * CACHE_BYTES;
+        long chain = (long) STATE_BYTES_PER_VARIABLE * n + direct * CACHE_BYTES + extraChainBytes;
         long edges = OrderMcmc.edgeOffsets(ls)[n];
         long perDraw = 4 * edges + 8L * n + (s.features() ? ((2L * n * n + 63) >>> 6) * 8 : 0) + DRAW_OVERHEAD;
         long cap = s.untilConverged() ? s.targets().drawsPerChain(s.draws(), s.chains()) : s.draws();

@@ -235,11 +235,11 @@ public final class OrderMcmc {
         int[] offset = edgeOffsets(ls);
         int rungs = s.rungsFor(ls.variableCount());
         if (rungs == 1) {
-            return runChains(ls, offset, s, 1, listener, (tables, rng, store) ->
+            return runChains(ls, offset, s, 1, 0, listener, (tables, rng, store) ->
                     new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
         }
         double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMinFor(ls.variableCount()));
-        return runChains(ls, offset, s, rungs, listener, (tables, rng, store) -> {
+        return runChains(ls, offset, s, rungs, 0, listener, (tables, rng, store) -> {
             OrderChain[] ladder = new OrderChain[beta.length];
             for (int r = 0; r < ladder.length; r++) {
                 ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
@@ -288,12 +288,16 @@ public final class OrderMcmc {
      */
     static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s,
                                                           ChainRunner.Listener listener, ChainFactory<C> factory) {
-        return runChains(ls, offset, s, 1, listener, factory);
+        return runChains(ls, offset, s, 1, 0, listener, factory);
     }
 
-    /** As above, each reported chain a ladder of {@code rungs} chains (for the memory plan). */
+    /**
+     * As above, each reported chain a ladder of {@code rungs} chains, each chain holding
+     * {@code extraChainBytes} beyond an order chain's state (for the memory plan).
+     */
     static <C extends ChainRunner.Chain> Run<C> runChains(LocalScores ls, int[] offset, Settings s, int rungs,
-                                                          ChainRunner.Listener listener, ChainFactory<C> factory) {
+                                                          long extraChainBytes, ChainRunner.Listener listener,
+                                                          ChainFactory<C> factory) {
         int n = ls.variableCount();
         int[] edgeFrom = new int[offset[n]];
         int[] edgeTo = new int[offset[n]];
@@ -305,7 +309,7 @@ public final class OrderMcmc {
             }
         }
         long t0 = System.nanoTime();
-        McmcMemory memory = McmcMemory.plan(ls, s, rungs);
+        McmcMemory memory = McmcMemory.plan(ls, s, rungs, extraChainBytes);
         memory.checkHere();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());

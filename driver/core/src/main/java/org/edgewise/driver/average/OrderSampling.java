@@ -28,7 +28,9 @@ public final class OrderSampling {
     /** The same for partition MCMC (the structure-modular prior, {@link PartitionMcmc}). */
     public static PartitionMcmc.Result runPartitionMcmc(LocalScores ls, OrderConstraints oc, UnknownOrderSettings s,
                                                         boolean withFeatures, ProgressListener progress) {
-        return run("partition MCMC", s.mcmc(withFeatures), progress, (ms, l) -> PartitionMcmc.run(ls, oc, ms, l));
+        OrderMcmc.Settings ms = s.mcmc(withFeatures);
+        progress.note("partition MCMC: memory planned " + McmcMemory.plan(ls, ms, 1, PartitionChain.extraBytes(ls)).describe());
+        return run("partition MCMC", ms, progress, (m, l) -> PartitionMcmc.run(ls, oc, m, l));
     }
 
     private static <R> R run(String what, OrderMcmc.Settings ms, ProgressListener progress,

@@ -302,6 +302,25 @@ final class PartitionChain extends SteppedChain {
         step();
     }
 
+    /**
+     * Bytes a partition chain holds beyond an order chain's state (for {@link McmcMemory}): its
+     * partition state and scratch, {@value #STATE_BYTES_PER_VARIABLE} bytes per variable (4 int and
+     * 9 long/double arrays of length n, 7 int scratch arrays of {@link PartitionDag} and
+     * {@link DagMoves}); the children bitsets, 8·⌈n/64⌉ bytes per variable; and per child the set
+     * index, 12 bytes per slot of an open-addressing table of at most 4 × its allowed sets.
+     */
+    static long extraBytes(LocalScores ls) {
+        int n = ls.variableCount();
+        long bytes = (long) STATE_BYTES_PER_VARIABLE * n + 8L * ((n + 63) >>> 6) * n;
+        for (int i = 0; i < n; i++) {
+            bytes += 12L * PartitionDag.slots(ls.setCount(i));
+        }
+        return bytes;
+    }
+
+    /** Bytes of partition state and scratch per variable (see {@link #extraBytes}). */
+    static final int STATE_BYTES_PER_VARIABLE = 4 * 4 + 9 * 8 + 7 * 4;
+
     /** Current log π(Λ) (tests). */
     double logScore() {
         return score;

@@ -41,7 +41,7 @@ final class PartitionDag {
         slotSet = new int[n][];
         for (int i = 0; i < n; i++) {
             long[] masks = ls.masks(i);
-            int cap = Integer.highestOneBit(Math.max(2, masks.length) * 2 - 1) * 2;
+            int cap = slots(masks.length);
             slotMask[i] = new long[cap];
             slotSet[i] = new int[cap];
             Arrays.fill(slotMask[i], -1L);
@@ -75,6 +75,11 @@ final class PartitionDag {
         for (int i = 0; i < n; i++) {
             link(i, mask[i], true);
         }
+    }
+
+    /** Slots of the set index of a child with {@code sets} allowed sets: a power of two, load ≤ 1/2. */
+    static int slots(int sets) {
+        return Integer.highestOneBit(Math.max(2, sets) * 2 - 1) * 2;
     }
 
     private static int slot(long m, int cap) {

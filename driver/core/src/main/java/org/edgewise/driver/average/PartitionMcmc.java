@@ -45,7 +45,7 @@ public final class PartitionMcmc {
     public static Result run(LocalScores ls, OrderConstraints oc, OrderMcmc.Settings s, ChainRunner.Listener listener) {
         checkTiers(ls, oc);
         int[] offset = OrderMcmc.edgeOffsets(ls);
-        OrderMcmc.Run<PartitionChain> run = OrderMcmc.runChains(ls, offset, s, listener, (tables, rng, store) ->
+        OrderMcmc.Run<PartitionChain> run = OrderMcmc.runChains(ls, offset, s, 1, PartitionChain.extraBytes(ls), listener, (tables, rng, store) ->
                 new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT));
         List<PartitionChain> chains = run.chains();
         ChainRunner.Outcome out = run.outcome();

@@ -57,6 +57,17 @@ class McmcMemoryTest {
     }
 
     @Test
+    void partitionChainsAddTheirDagAndSetIndex() {
+        // 5 variables, each with the other 4 as candidates and d = 2: 1 + 4 + 6 = 11 allowed sets → a set index of
+        // 32 slots (the power of two with load ≤ 1/2) of 12 bytes = 384 bytes per child, 1,920 in all; children
+        // bitsets 5 × 8 bytes = 40; partition state and scratch (4·4 + 9·8 + 7·4) · 5 = 580 bytes: 2,540 per chain
+        LocalScores ls = TestStores.scores(TestStores.random(5, 2, 2, 100, 3));
+        assertEquals(2_540, PartitionChain.extraBytes(ls));
+        OrderMcmc.Settings s = OrderMcmc.Settings.defaults(1).withDraws(100).withChains(4);
+        assertEquals(McmcMemory.plan(ls, s, 1).totalBytes() + 4 * 2_540, McmcMemory.plan(ls, s, 1, 2_540).totalBytes());
+    }
+
+    @Test
     void refusalNamesThePlanAndTheHeap() {
         McmcMemory plan = new McmcMemory(8L << 20, 200, 0, 1L << 20, 0, 32L << 20, 4, 1);
         assertEquals(140L << 20, plan.totalBytes());
