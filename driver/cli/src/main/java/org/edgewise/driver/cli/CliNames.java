@@ -27,7 +27,7 @@ final class CliNames {
 
     /** How the convergence advice names the ways to run differently. */
     static final RunHint RUN = new RunHint("--max-time", "--max-steps", "no --steps, or --until-rhat", MCSE_TARGET,
-            "--chains", "--method exact", "--dag-prior order-modular");
+            "--chains", "--method exact");
 
     private CliNames() {
     }

@@ -86,10 +86,11 @@ public final class OrderPosterior {
      * per child exactly as given an order, with
      * <pre>  P(U | D, Λ) = exp(w_i(U) − log Σ_{U' allowed in Λ} exp w_i(U'))</pre>
      * The "order" is a linear extension of Λ (nodes by element), consistent with every DAG of Λ;
-     * {@code result().logEvidence()} is log π(Λ), the log of the partition's summed weight. A
+     * {@code result().logEvidence()} is log π(Λ), the log of the partition's summed weight. Tiers in
+     * {@code oc} remove from each child the candidates that must follow it (as the chains do). A
      * partition with no DAG (some child without an allowed set) is a bug of the caller.
      */
-    public static OrderPosterior ofPartition(LocalScores ls, int[] element) {
+    public static OrderPosterior ofPartition(LocalScores ls, int[] element, OrderConstraints oc) {
         int n = ls.variableCount();
         double[][] post = new double[n][];
         double[][] edge = new double[n][n];
@@ -101,6 +102,9 @@ public final class OrderPosterior {
             long b = 0;
             long t = 0;
             for (int k = 0; k < cand.length; k++) {
+                if (oc.restricts() && oc.mustPrecede(i, cand[k])) {
+                    continue;
+                }
                 b |= element[cand[k]] < element[i] ? 1L << k : 0;
                 t |= element[cand[k]] == element[i] - 1 ? 1L << k : 0;
             }
@@ -109,7 +113,7 @@ public final class OrderPosterior {
             double max = Double.NEGATIVE_INFINITY;
             int arg = -1;
             for (int s = 0; s < masks.length; s++) {
-                if (inPartition(masks[s], element[i] == 0, b, t) && w[s] > max) {
+                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t) && w[s] > max) {
                     max = w[s];
                     arg = s;
                 }
@@ -119,14 +123,14 @@ public final class OrderPosterior {
             }
             double sum = 0;
             for (int s = 0; s < masks.length; s++) {
-                if (inPartition(masks[s], element[i] == 0, b, t)) {
+                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t)) {
                     sum += Math.exp(w[s] - max);
                 }
             }
             double z = max + Math.log(sum);
             double[] p = new double[masks.length];
             for (int s = 0; s < masks.length; s++) {
-                if (inPartition(masks[s], element[i] == 0, b, t)) {
+                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t)) {
                     p[s] = Math.exp(w[s] - z);
                     for (int par : ls.parents(i, s)) {
                         edge[par][i] += p[s];
@@ -148,10 +152,6 @@ public final class OrderPosterior {
             order[k] = byElement[k];
         }
         return new OrderPosterior(ls, order, new OrderSum.OrderResult(total, Double.NaN, childLog, edge), post, best);
-    }
-
-    private static boolean inPartition(long mk, boolean first, long b, long t) {
-        return first ? mk == 0 : (mk & ~b) == 0 && (mk & t) != 0;
     }
 
     public LocalScores scores() {

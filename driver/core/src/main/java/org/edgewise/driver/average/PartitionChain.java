@@ -243,11 +243,6 @@ final class PartitionChain extends SteppedChain {
         return mk & ~excluded[i];
     }
 
-    /** Candidates of {@code i} removed by the tiers (they must follow i). */
-    long excluded(int i) {
-        return excluded[i];
-    }
-
     /** Whether parent set {@code mk} is allowed for a node with masks (b, t), in the first element or not. */
     static boolean allowed(long mk, boolean first, long b, long t) {
         return first ? mk == 0 : (mk & ~b) == 0 && (mk & t) != 0;

@@ -68,7 +68,7 @@ public final class PartitionMcmc {
         for (PartitionChain.State x : used) {
             partitions.add(x.element());
         }
-        return new Result(r, dags, setPosterior(ls, chains.get(0), used), partitions);
+        return new Result(r, dags, setPosterior(ls, oc, used), partitions);
     }
 
     /**
@@ -97,8 +97,8 @@ public final class PartitionMcmc {
         }
     }
 
-    /** Mean over evenly spaced stored partitions of each allowed set's weight share. */
-    private static double[][] setPosterior(LocalScores ls, PartitionChain scorer, List<PartitionChain.State> used) {
+    /** Mean over evenly spaced stored partitions of each allowed set's weight share ({@link OrderPosterior#ofPartition}). */
+    private static double[][] setPosterior(LocalScores ls, OrderConstraints oc, List<PartitionChain.State> used) {
         int n = ls.variableCount();
         double[][] out = new double[n][];
         for (int i = 0; i < n; i++) {
@@ -107,25 +107,11 @@ public final class PartitionMcmc {
         int every = Math.max(1, used.size() / SET_DRAWS);
         int k = 0;
         for (int d = 0; d < used.size(); d += every) {
-            int[] el = used.get(d).element();
+            double[][] p = OrderPosterior.ofPartition(ls, used.get(d).element(), oc).setPosteriors();
             k++;
             for (int i = 0; i < n; i++) {
-                long[] masks = ls.masks(i);
-                double[] w = ls.weights(i);
-                long b = 0;
-                long t = 0;
-                int[] cand = ls.candidates(i);
-                for (int c = 0; c < cand.length; c++) {
-                    b |= el[cand[c]] < el[i] ? 1L << c : 0;
-                    t |= el[cand[c]] == el[i] - 1 ? 1L << c : 0;
-                }
-                b &= ~scorer.excluded(i);
-                t &= ~scorer.excluded(i);
-                double z = scorer.childScore(i, el[i], b, t);
-                for (int s = 0; s < masks.length; s++) {
-                    if (PartitionChain.allowed(masks[s], el[i] == 0, b, t)) {
-                        out[i][s] += Math.exp(w[s] - z);
-                    }
+                for (int s = 0; s < p[i].length; s++) {
+                    out[i][s] += p[i][s];
                 }
             }
         }

@@ -9,6 +9,7 @@ import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
+import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.OrderPosterior;
 
 /**
@@ -80,8 +81,9 @@ public final class OrderMixture implements CaseProbability {
      * DAGs ({@link OrderPosterior#ofPartition}); the best order is a linear extension of the
      * partition with the largest summed weight.
      */
-    public static OrderMixture sampledPartitions(LocalScores ls, List<int[]> partitions, double tailMass, long maxHidden) {
-        return sampled(ls, partitions, tailMass, maxHidden, el -> OrderPosterior.ofPartition(ls, el));
+    public static OrderMixture sampledPartitions(LocalScores ls, OrderConstraints oc, List<int[]> partitions, double tailMass,
+                                                 long maxHidden) {
+        return sampled(ls, partitions, tailMass, maxHidden, el -> OrderPosterior.ofPartition(ls, el, oc));
     }
 
     private static OrderMixture sampled(LocalScores ls, List<int[]> draws, double tailMass, long maxHidden,

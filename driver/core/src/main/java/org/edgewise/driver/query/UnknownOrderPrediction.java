@@ -65,7 +65,7 @@ public final class UnknownOrderPrediction {
         }
         if (s.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
             PartitionMcmc.Result p = OrderSampling.runPartitionMcmc(ls, oc, s, false, progress);
-            return new Mixture(OrderMixture.sampledPartitions(ls, OrderSampling.evenlySpaced(p.partitions(), MAX_ORDERS),
+            return new Mixture(OrderMixture.sampledPartitions(ls, oc, OrderSampling.evenlySpaced(p.partitions(), MAX_ORDERS),
                     tailMass, maxHidden), p.chains().converged(), p.chains().maxRhat());
         }
         OrderMcmc.Result r = OrderSampling.runMcmc(ls, oc, s, false, progress);

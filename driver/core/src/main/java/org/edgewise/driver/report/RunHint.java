@@ -11,11 +11,10 @@ package org.edgewise.driver.report;
  * @param mcseTarget     the MCSE target of the reported posteriors
  * @param chains         the number of chains
  * @param exact          the exact method
- * @param orderModular   the order-modular DAG prior
  */
 public record RunHint(String maxTime, String maxSteps, String untilConverged, String mcseTarget, String chains,
-                      String exact, String orderModular) {
+                      String exact) {
     /** The Java API: the fields of {@code UnknownOrderSettings}. */
     public static final RunHint API = new RunHint("maxSeconds", "maxSteps", "steps = null", "mcseTarget", "chains",
-            "method EXACT", "dagPrior ORDER_MODULAR");
+            "method EXACT");
 }

@@ -107,13 +107,6 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                     null, null, null, null, null, null, null, null, null, null, null, null, null, null);
         }
 
-        /** The same diagnostics with other summary figures (e.g. of estimates re-weighted from the chains' draws). */
-        public Diagnostics withSummary(double rhat, double ess, boolean converged) {
-            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
-                    rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
-                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes);
-        }
-
         /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
         public Diagnostics withVerdict(boolean converged, Double mcse, List<Worst> worst) {
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,

@@ -36,8 +36,7 @@ class ConvergenceSectionTest {
     @Test
     void anUnconvergedRunListsItsWorstQuantitiesAndWhatToDo() {
         String html = HtmlReport.render(unconverged(), "r.json", null, null, 0.5, AssessHint.API,
-                new RunHint("--max-time", "--max-steps", "no --steps", "--mcse-target", "--chains", "--method exact",
-                        "--dag-prior order-modular"));
+                new RunHint("--max-time", "--max-steps", "no --steps", "--mcse-target", "--chains", "--method exact"));
         assertTrue(html.contains("<h2>Convergence</h2>\n<div class=\"warn\"><b>Not converged: do not use these posteriors yet.</b> "
                 + "The run stopped because the time budget ran out before every target was met.</div>"), html);
         assertTrue(html.contains("<tr><th>targets</th><td>R-hat &lt; 1.01, bulk ESS &gt;= 400, MCSE &lt;= 0.01 for every edge "
