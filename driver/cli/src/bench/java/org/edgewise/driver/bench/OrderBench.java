@@ -14,7 +14,7 @@ import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.cli.EdgewiseCli;
 import org.edgewise.driver.query.CasePredictor;
-import org.edgewise.driver.result.ResultBuilder;
+import org.edgewise.driver.analysis.ResultBuilder;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;

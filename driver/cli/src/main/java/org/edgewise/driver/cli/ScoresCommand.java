@@ -16,6 +16,7 @@ import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
@@ -35,13 +36,13 @@ final class ScoresCommand implements Callable<Integer> {
 
     @Option(names = "--ess", paramLabel = "A", description = "rescore with this BDeu ESS (default: as stored)") Double ess;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Override
     public Integer call() {
-        Output.check(out, overwrite);
+        output.check();
         String fmt = Output.format(format, "json", "csv");
         if (ess != null) {
             Checks.ess(ess, "--ess");
@@ -81,7 +82,7 @@ final class ScoresCommand implements Callable<Integer> {
             }
         }
         String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(rows) + "\n";
-        Output.write(spec, out, text);
+        output.write(spec, text);
         return 0;
     }
 }

@@ -1,66 +1,25 @@
 package org.edgewise.driver.cli;
 
 import java.io.PrintWriter;
-import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
-import org.edgewise.driver.analysis.EssSweep;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.ExactOrderSum;
-import org.edgewise.driver.average.StructureSum;
-import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.TooLargeForExact;
-import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EdgeResult;
-import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.UserError;
 
 /**
- * {@code edges --method exact|mcmc}: calls {@link EssSweep#unknownOrder} and says on standard
- * error what users should know (the time the exact sum will take, chains that disagree); the
- * terminal lines of the MCMC diagnostics and features.
+ * The terminal lines of a result over unknown orders: the not-converged warning every averaging
+ * command prints, the convergence block, the essential graph and the features.
  */
 final class UnknownOrderEdges {
-    /** R̂ above this is reported as not converged. */
-    static final double RHAT_WARN = org.edgewise.driver.analysis.UnknownOrderAveraging.RHAT_WARN;
-
     private UnknownOrderEdges() {
     }
 
-    static EdgeResult compute(ScoreStore store, Path storePath, List<ScoringOptions> options,
-                              UnknownOrderSettings settings, PrintWriter err) {
-        if (settings.method() == UnknownOrderSettings.Method.EXACT) {
-            Object est = settings.dagPrior() == DagPrior.STRUCTURE_MODULAR ? StructureSum.estimateHere(store.variableCount())
-                    : ExactOrderSum.estimateHere(store.variableCount());
-            double seconds = est instanceof StructureSum.Estimate e ? e.seconds() : ((ExactOrderSum.Estimate) est).seconds();
-            int n = store.variableCount();
-            int largest = est instanceof StructureSum.Estimate e ? e.largestN() : ((ExactOrderSum.Estimate) est).largestN();
-            // only a sum that will run is announced: a refused one says the same in its refusal
-            if (seconds > 5 && n <= largest) {
-                err.println("edges: " + est + (options.size() > 1 ? " (for each of the " + options.size()
-                        + " ESS values)" : ""));
-            }
-        }
-        try {
-            return EssSweep.unknownOrder(store, storePath, options, settings, ProgressBars.onTerminal(), r -> {
-                if (r.diagnostics() != null && !r.diagnostics().converged()) {
-                    err.println(notConverged(r.diagnostics()));
-                }
-            });
-        } catch (TooLargeForExact e) {
-            throw tooLarge(e);
-        } catch (StructureSum.TooLarge e) {
-            throw new UserError(e.getMessage() + " (or raise the heap with EDGEWISE_JAVA_OPTS=-Xmx…)", e);
-        }
-    }
-
     /** Why a run is not converged, in one line: the stop reason, the targets, the worst quantities and what to do. */
-    static String notConverged(EdgeResult.Diagnostics d) {
+    static String notConverged(String command, EdgeResult.Diagnostics d) {
         StringBuilder sb = new StringBuilder(String.format(Locale.ROOT,
-                "edges: WARNING: not converged (%s; needs R-hat < %s, bulk ESS >= %.0f%s for every quantity): "
-                        + "the posteriors are not reliable. Worst:", d.stopReason() == null ? "?" : stopText(d.stopReason()),
+                "%s: WARNING: not converged (%s; needs R-hat < %s, bulk ESS >= %.0f%s for every quantity): "
+                        + "the posteriors are not reliable. Worst:", command, d.stopReason() == null ? "?" : stopText(d.stopReason()),
                 d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget(),
                 d.mcseTarget() == null ? "" : " and MCSE <= " + trim(d.mcseTarget())));
         if (d.worst() != null && !d.worst().isEmpty()) {
@@ -93,12 +52,6 @@ final class UnknownOrderEdges {
     /** {@code x} without trailing zeros: 1.01, 0.01, 400. */
     static String trim(double x) {
         return java.math.BigDecimal.valueOf(x).stripTrailingZeros().toPlainString();
-    }
-
-    /** The exact method's refusal in the launcher's words. */
-    static UserError tooLarge(TooLargeForExact e) {
-        return new UserError(e.estimate() + " (heap " + (e.heapBytes() >> 20)
-                + " MiB; raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or use --method mcmc)", e);
     }
 
     /** Pairs shown in the essential-graph table. */

@@ -5,9 +5,8 @@ import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.ConvergenceTargets;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.analysis.Averaging;
+import org.edgewise.driver.score.DagPrior;
 import picocli.CommandLine.Option;
 
 /** Options of the unknown-order methods ({@code edges --method exact|mcmc}, {@code predict --method …}). */
@@ -30,9 +29,14 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "mcmc: draws stored per chain (thinning = steps / draws; default ${DEFAULT-VALUE})") public int draws;
 
-    @Option(names = "--until-rhat", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
-            + "bulk ESS >= 400; with --steps, the first check comes after --steps")
-    public Double untilRhat;
+    @Option(names = "--rhat-target", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
+            + "an effective sample size >= 400; with --steps, the first check comes after --steps")
+    public Double rhatTarget;
+
+    @Option(names = "--until-rhat", hidden = true, paramLabel = "R", description = "renamed --rhat-target")
+    void untilRhat(String value) {
+        throw new UserError("--until-rhat is now --rhat-target (beside --mcse-target): give --rhat-target " + value);
+    }
 
     @Option(names = CliNames.MCSE_TARGET, paramLabel = "T", description = "mcmc: also require every edge and feature posterior "
             + "to have a Monte Carlo standard error <= T (default 0.01, so that two seeds agree within about 0.05; between "
@@ -48,16 +52,25 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--features", paramLabel = "ancestors,markov-blanket,essential-graph", split = ",", description = "also estimate ancestor relations a ~> b, Markov-blanket membership and essential-graph features (adjacent, compelled a -> b, reversible) from DAGs drawn from the posterior") public List<String> features = new ArrayList<>();
 
-    @Option(names = {"--samples", "--order-samples"}, paramLabel = "K", defaultValue = "10000", description = "exact: DAGs drawn from the exact posterior for --features (default ${DEFAULT-VALUE}: Monte Carlo standard error <= 0.005); mcmc: DAGs drawn over the stored orders") public int orderSamples;
+    @Option(names = "--dag-samples", paramLabel = "K", defaultValue = "10000", description = "DAGs drawn from the posterior for --features: "
+            + "exact: drawn exactly (default ${DEFAULT-VALUE}: Monte Carlo standard error <= 0.005); mcmc under the order-modular prior: "
+            + "spread over the stored orders (partition MCMC uses the DAGs its chains drew)") public int dagSamples;
+
+    @Option(names = {"--samples", "--order-samples"}, hidden = true, paramLabel = "K", description = "renamed --dag-samples")
+    void oldSamples(String value) {
+        throw new UserError("--samples and --order-samples are now --dag-samples (they count DAGs drawn for --features): give --dag-samples " + value);
+    }
 
     @Option(names = "--dag-prior", paramLabel = "structure-modular|order-modular", defaultValue = "structure-modular", description = "prior over DAGs: structure-modular (default; every DAG with in-degree <= d weighted by its parent-set priors alone, uniform with --prior uniform) or order-modular (each DAG also weighted by its number of consistent orders); given an order both coincide") public String dagPrior;
 
     /**
-     * The core's settings for {@code method}, the options checked first so that the messages name
-     * them ({@code --chains must be at least 1, got 0}).
+     * What to average over for {@code method} ({@code order}, {@code exact} or {@code mcmc}) with the
+     * given {@code order} text, the options checked first so that the messages name them
+     * ({@code --chains must be at least 1, got 0}).
      */
-    public UnknownOrderSettings settings(UnknownOrderSettings.Method method, int topParents) {
-        if (method == UnknownOrderSettings.Method.MCMC) {
+    public Averaging averaging(String method, String order) {
+        Averaging.Method m = Averaging.Method.valueOf(method.toUpperCase(Locale.ROOT));
+        if (m == Averaging.Method.MCMC) {
             Checks.atLeast(chains, 1, "--chains");
             if (steps != null) {
                 Checks.atLeast(steps, 1, "--steps");
@@ -65,22 +78,22 @@ public final class UnknownOrderOptions {
             if (burnIn != null) {
                 Checks.notNegative(burnIn, "--burn-in");
             }
-            if (untilRhat != null && !(untilRhat > 1)) {
-                throw new UserError("--until-rhat must be above 1 (e.g. 1.01), got " + untilRhat);
+            if (rhatTarget != null && !(rhatTarget > 1)) {
+                throw new UserError("--rhat-target must be above 1 (e.g. 1.01), got " + rhatTarget);
             }
-            boolean until = steps == null || untilRhat != null;
+            boolean until = steps == null || rhatTarget != null;
             if (until && burnIn != null) {
-                throw new UserError("--burn-in applies to a fixed run (--steps without --until-rhat); "
+                throw new UserError("--burn-in applies to a fixed run (--steps without --rhat-target); "
                         + "running until converged discards the first half of each chain");
             }
             if (!until && maxSteps != null) {
-                throw new UserError("--max-steps applies when running until converged (no --steps, or --until-rhat)");
+                throw new UserError("--max-steps applies when running until converged (no --steps, or --rhat-target)");
             }
             if (!until && maxTime != null) {
-                throw new UserError("--max-time applies when running until converged (no --steps, or --until-rhat)");
+                throw new UserError("--max-time applies when running until converged (no --steps, or --rhat-target)");
             }
             if (mcseTarget != null) {
-                ConvergenceTargets.mcse(mcseTarget, CliNames.MCSE_TARGET);
+                Checks.between(mcseTarget, Averaging.MIN_MCSE_TARGET, Averaging.MAX_MCSE_TARGET, CliNames.MCSE_TARGET);
             }
             if (maxTime != null && !(maxTime > 0)) {
                 throw new UserError("--max-time must be above 0 seconds, got " + maxTime);
@@ -90,10 +103,10 @@ public final class UnknownOrderOptions {
         boolean mb = markovBlanket();
         boolean eg = essentialGraph();
         if (anc || mb || eg) {
-            Checks.atLeast(orderSamples, 1, "--samples");
+            Checks.atLeast(dagSamples, 1, "--dag-samples");
         }
-        return new UnknownOrderSettings(method, tierLists(), seed, chains, steps, burnIn, draws, untilRhat, maxSteps,
-                maxTime, anc, mb, orderSamples, topParents, prior(), eg, mcseTarget);
+        return new Averaging(m, order, prior(), tierLists(), seed, chains, steps, burnIn, draws, rhatTarget, mcseTarget, maxSteps,
+                maxTime, anc, mb, eg, dagSamples);
     }
 
     /** The tiers as lists of names. */

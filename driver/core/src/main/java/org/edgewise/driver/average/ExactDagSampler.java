@@ -1,5 +1,6 @@
 package org.edgewise.driver.average;
 
+import org.edgewise.driver.score.DagPrior;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;

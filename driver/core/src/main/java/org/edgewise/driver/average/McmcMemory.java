@@ -114,7 +114,7 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
      * The planned memory does not fit the heap: carries the plan and the heap so a front end can
      * name its own way to raise the heap.
      */
-    public static final class TooLittleHeap extends UserError {
+    public static final class TooLittleHeap extends org.edgewise.driver.WordedError {
         private final McmcMemory plan;
         private final long freeHeap;
         private final long maxHeap;
@@ -134,6 +134,11 @@ public record McmcMemory(long tableBytes, int tabulated, int direct, long chainB
         private static String text(McmcMemory plan, long freeHeap, long maxHeap, String remedy) {
             return "the MCMC run needs about " + plan.describe() + " but the heap has " + mib(freeHeap) + " free of "
                     + mib(maxHeap) + "; " + remedy;
+        }
+
+        @Override
+        public String worded(org.edgewise.driver.InputNames names, String heapSetting) {
+            return message("raise it with " + heapSetting + ", or lower " + names.draws() + " or " + names.chains());
         }
 
         public McmcMemory plan() {

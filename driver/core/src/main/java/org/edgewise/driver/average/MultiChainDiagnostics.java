@@ -117,7 +117,7 @@ public final class MultiChainDiagnostics {
      * Too few draws per chain after burn-in to diagnose (fewer than 4): carries the count, so a
      * front end can name its own option for the draws stored ({@link #message}).
      */
-    public static final class TooFewDraws extends org.edgewise.driver.UserError {
+    public static final class TooFewDraws extends org.edgewise.driver.WordedError {
         private final int perChain;
 
         TooFewDraws(int perChain) {
@@ -128,6 +128,11 @@ public final class MultiChainDiagnostics {
         /** The message with the draws stored per chain named as {@code drawsName}. */
         public String message(String drawsName) {
             return text(perChain, drawsName);
+        }
+
+        @Override
+        public String worded(org.edgewise.driver.InputNames names, String heapSetting) {
+            return message(names.draws());
         }
 
         private static String text(int perChain, String drawsName) {

@@ -114,7 +114,7 @@ public final class StructureSum {
     }
 
     /** Too large for this JVM: the estimate, and the two ways out. */
-    public static final class TooLarge extends UserError {
+    public static final class TooLarge extends org.edgewise.driver.WordedError {
         private final Estimate estimate;
 
         TooLarge(Estimate e, org.edgewise.driver.InputNames in) {
@@ -125,6 +125,11 @@ public final class StructureSum {
 
         public Estimate estimate() {
             return estimate;
+        }
+
+        @Override
+        public String worded(org.edgewise.driver.InputNames names, String heapSetting) {
+            return getMessage() + " (or raise the heap with " + heapSetting + ")";
         }
     }
 

@@ -1,13 +1,13 @@
 package org.edgewise.driver.average;
 
-import org.edgewise.driver.UserError;
+
 
 /**
  * The exact sum over orders does not fit this JVM: it carries the numbers (the estimate with the
  * bytes needed and the largest n that fits, and the heap) so a front end can say how to get
  * more memory or which other method to use, in its own words.
  */
-public final class TooLargeForExact extends UserError {
+public final class TooLargeForExact extends org.edgewise.driver.WordedError {
     private final ExactOrderSum.Estimate estimate;
     private final long heapBytes;
 
@@ -15,6 +15,11 @@ public final class TooLargeForExact extends UserError {
         super(estimate + " (heap " + (heapBytes >> 20) + " MiB; give the JVM more heap, or average over sampled orders)");
         this.estimate = estimate;
         this.heapBytes = heapBytes;
+    }
+
+    @Override
+    public String worded(org.edgewise.driver.InputNames names, String heapSetting) {
+        return estimate + " (heap " + (heapBytes >> 20) + " MiB; raise it with " + heapSetting + ", or use " + names.methodMcmc() + ")";
     }
 
     /** The estimate: variables, bytes needed, seconds, largest n this JVM allows. */

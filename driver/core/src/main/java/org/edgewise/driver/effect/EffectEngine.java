@@ -151,7 +151,7 @@ public final class EffectEngine {
     }
 
     /** The effect of every query over a weighted list of DAGs, with posterior-mean parameters per DAG. */
-    public static List<Effect> overDags(LocalScores ls, DagDraws dags, List<EffectQuery> qs, Settings s) {
+    public static List<Effect> overDags(LocalScores ls, WeightedDags dags, List<EffectQuery> qs, Settings s) {
         checkSize(ls);
         int n = ls.variableCount();
         int k = dags.size();

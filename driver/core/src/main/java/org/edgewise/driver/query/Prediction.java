@@ -23,12 +23,13 @@ import java.util.Map;
  * @param skippedPosteriorMass        parent-set posterior mass skipped (total over variables; 0 = exact)
  * @param note                        how to read it
  * @param method                      order (given), exact or mcmc
- * @param orders                      over unknown orders: {@code all} (every allowed order, exact weights) or
- *                                    {@code sampled}; null given an order
- * @param orderSamples                the number K of sampled orders when {@code orders} is {@code sampled}
+ * @param averagedOver                what the probability is averaged over: {@code every DAG consistent with the
+ *                                    order}, {@code all orders} (exact weights), {@code all DAGs},
+ *                                    {@code sampled orders} or {@code sampled partitions}
+ * @param samples                     the number K of sampled orders or partitions (repeats counted) when sampled, else null
  * @param mcse                        Monte Carlo standard error of {@code probability} when sampled, else null
- * @param dagPrior                    over unknown orders, the DAG prior the orders are weighted under
- *                                    ({@code order-modular}); null given an order (both priors coincide)
+ * @param dagPrior                    over unknown orders, the DAG prior the structures are weighted under;
+ *                                    null given an order (both priors coincide)
  * @param exactCase                   true when computed as Z(D ∪ x) / Z(D) ({@code --exact-cases}), else null
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
@@ -37,6 +38,6 @@ public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") 
                          double bestNetworkProbability, double bestNetworkLogProbability,
                          List<String> hiddenSummedOut, double hiddenJointStates, List<String> order,
                          String score, Double ess, String prior, int maxParents, double skippedPosteriorMass,
-                         String note, String method, String orders, Integer orderSamples, Double mcse, String dagPrior,
+                         String note, String method, String averagedOver, Integer samples, Double mcse, String dagPrior,
                          Boolean exactCase) {
 }

@@ -13,7 +13,7 @@ import java.util.Map;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.ProjectFiles;
 import org.edgewise.driver.average.DagEnumeration;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;

@@ -1,5 +1,6 @@
 package org.edgewise.driver.average;
 
+import org.edgewise.driver.score.DagPrior;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import java.util.Arrays;

@@ -9,7 +9,7 @@ import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.analysis.EffectAnalysis;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;

@@ -6,7 +6,7 @@ package org.edgewise.driver.effect;
  * them is Σ_g w_g P(y | do(x), G_g, θ̄) / Σ_g w_g (see {@link DagEffects}). Under the
  * structure-modular prior, exact DAG samples plug in here.
  */
-public interface DagDraws {
+public interface WeightedDags {
     /** Number of DAGs. */
     int size();
 

@@ -1,4 +1,4 @@
-package org.edgewise.driver.cli;
+package org.edgewise.driver.query;
 
 import java.io.BufferedReader;
 import java.io.IOException;
@@ -10,21 +10,21 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.store.Manifest;
 
 /**
- * A CSV table of cases for {@code predict --cases}: a header of variable names (any subset, any
+ * A CSV table of cases to predict: a header of variable names (any subset, any
  * order), then one case per line; a blank cell is a hidden variable. Fields follow RFC 4180
  * quoting on one line (read by {@link CsvFields}). Every mistake names the file, line and column.
  *
  * <p>Memory: the raw lines plus one int per cell.
  */
-record CaseCsv(List<String> header, List<String> lines, int[][] cases) {
+public record CaseTable(List<String> header, List<String> lines, int[][] cases) {
 
-    static CaseCsv read(Path file, Manifest m) {
+    /** Reads {@code file}; {@code what} names the input in messages about the file as a whole. */
+    public static CaseTable read(Path file, Manifest m, String what) {
         if (!Files.isRegularFile(file)) {
-            throw new UserError("--cases: file " + file + " does not exist");
+            throw new UserError(what + ": file " + file + " does not exist");
         }
         List<String> raw;
         try (BufferedReader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
@@ -33,7 +33,7 @@ record CaseCsv(List<String> header, List<String> lines, int[][] cases) {
                 raw.add(line);
             }
         } catch (IOException e) {
-            throw new UserError("--cases: cannot read " + file + ": " + e.getMessage());
+            throw new UserError(what + ": cannot read " + file + ": " + e.getMessage());
         }
         if (raw.isEmpty()) {
             throw new UserError(file + ": empty file; the first line must name the variables");
@@ -77,11 +77,11 @@ record CaseCsv(List<String> header, List<String> lines, int[][] cases) {
             lines.add(line);
             cases.add(states);
         }
-        return new CaseCsv(header, lines, cases.toArray(new int[0][]));
+        return new CaseTable(header, lines, cases.toArray(new int[0][]));
     }
 
     /** Splits one line into fields (RFC 4180, {@link CsvFields}); a malformed quote names its column. */
-    static List<String> fields(Path file, int lineNo, String line) {
+    public static List<String> fields(Path file, int lineNo, String line) {
         try {
             return CsvFields.split(line, ',');
         } catch (CsvFields.Malformed e) {

@@ -1,4 +1,4 @@
-package org.edgewise.driver.average;
+package org.edgewise.driver.score;
 
 import java.util.Locale;
 import org.edgewise.driver.UserError;

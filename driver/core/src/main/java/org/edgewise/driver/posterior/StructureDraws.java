@@ -1,32 +1,26 @@
-package org.edgewise.driver.analysis;
+package org.edgewise.driver.posterior;
 
-import java.util.List;
 import java.util.Locale;
-import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagDraws;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.ExactDagSampler;
+import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.PartitionMcmc;
-import org.edgewise.driver.average.OrderSampling;
 import org.edgewise.driver.average.StructureSum;
-import org.edgewise.driver.average.UnknownOrderSettings;
 
 /**
  * DAGs from the structure-modular posterior P(G | D) ∝ Π_i ρ_i(U_i) exp(s(i, U_i)), as the list
  * {@link org.edgewise.driver.effect.EffectEngine#overDags} averages over:
  * <ul>
- *   <li>exact: {@value EffectAnalysis#DAG_DRAWS} independent exact draws ({@link ExactDagSampler}, by
+ *   <li>exact: {@value ExactDags#EFFECT_DAG_DRAWS} independent exact draws ({@link org.edgewise.driver.average.ExactDagSampler}, by
  *       rejection from the order-modular sampler against the exact structure-modular sum), or, when
  *       rejection would take too long, 4× as many importance-weighted draws (weight 1/ext(G),
  *       self-normalised);</li>
- *   <li>mcmc: the DAGs partition MCMC draws, one per stored partition ({@link PartitionMcmc};
- *       {@link DagPriorAveraging#fromPartitions}), chain by chain for an autocorrelation-aware MCSE.</li>
+ *   <li>mcmc: the DAGs partition MCMC draws, one per stored partition ({@link org.edgewise.driver.average.PartitionMcmc};
+ *       {@link DagLists#fromPartitions}), chain by chain for an autocorrelation-aware MCSE.</li>
  * </ul>
  * Memory: n ints per DAG (≈ 0.8 MB for 20,000 DAGs on 10 variables).
  */
-final class StructureDraws implements org.edgewise.driver.effect.DagDraws {
+final class StructureDraws implements WeightedDags {
     private final int[][][] parents;
     private final double[] weights;
     private final int chains;
@@ -63,31 +57,24 @@ final class StructureDraws implements org.edgewise.driver.effect.DagDraws {
         this.maxRhat = maxRhat;
     }
 
-    static StructureDraws of(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
-        OrderConstraints oc = s.constraints(ls);
-        int n = ls.variableCount();
-        if (s.method() == UnknownOrderSettings.Method.EXACT) {
-            double logDagSum = StructureSum.logDagSum(ls, oc);
-            ExactDagSampler sampler = ExactDagSampler.of(ls, oc);
-            int k = EffectAnalysis.DAG_DRAWS;
-            if (sampler.expectedTrials(k, logDagSum) <= ExactDagSampler.MAX_TRIALS) {
-                DagDraws d = new DagDraws(n, List.of(sampler.draw(DagPrior.STRUCTURE_MODULAR, k, s.seed() + 2, logDagSum)), 1, null);
-                return new StructureDraws(d, 0, k + " DAGs drawn exactly from the structure-modular posterior (sampled; see mcse)",
-                        null, null);
-            }
-            int kw = DagPriorAveraging.WEIGHTED_FACTOR * k;
-            return new StructureDraws(sampler.drawWeighted(kw, s.seed() + 2), 0, kw + " DAGs drawn exactly under the "
-                    + "order-modular prior and weighted by 1/ext(G) to the structure-modular posterior (sampled; see mcse)", null, null);
-        }
-        PartitionMcmc.Result r = OrderSampling.runPartitionMcmc(ls, oc, s, false, progress);
-        DagDraws d = DagPriorAveraging.fromPartitions(ls, r);
+    /** DAGs drawn exactly from the structure-modular posterior ({@code count} of them, or 4× as many weighted). */
+    static StructureDraws exact(LocalScores ls, OrderConstraints oc, int count, long seed) {
+        ExactDags.Drawn drawn = ExactDags.draw(ls, oc, count, seed, StructureSum.logDagSum(ls, oc));
+        DagDraws d = drawn.dags();
+        return new StructureDraws(d, 0, drawn.weighted()
+                ? d.chainLength(0) + " DAGs drawn exactly under the order-modular prior and weighted by 1/ext(G) to the "
+                + "structure-modular posterior (sampled; see mcse)"
+                : count + " DAGs drawn exactly from the structure-modular posterior (sampled; see mcse)", null, null);
+    }
+
+    /** The DAGs partition MCMC drew, one per stored partition, chain by chain. */
+    static StructureDraws ofChains(DagDraws d, int chains, Boolean converged, Double maxRhat) {
         int total = 0;
         for (int c = 0; c < d.chainCount(); c++) {
             total += d.chainLength(c);
         }
-        return new StructureDraws(d, s.chains(), String.format(Locale.ROOT, "%d DAGs from %d partition-MCMC chains, drawn "
-                + "from the structure-modular posterior (sampled; see mcse)", total, s.chains()),
-                r.chains().converged(), r.chains().maxRhat());
+        return new StructureDraws(d, chains, String.format(Locale.ROOT, "%d DAGs from %d partition-MCMC chains, drawn "
+                + "from the structure-modular posterior (sampled; see mcse)", total, chains), converged, maxRhat);
     }
 
     String description() {

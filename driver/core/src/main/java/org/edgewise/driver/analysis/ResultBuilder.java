@@ -1,4 +1,4 @@
-package org.edgewise.driver.result;
+package org.edgewise.driver.analysis;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -13,6 +13,7 @@ import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.result.EdgeResult;
 
 /**
  * Builds the parts of an {@link EdgeResult} that every averaging method shares — the edge list,
