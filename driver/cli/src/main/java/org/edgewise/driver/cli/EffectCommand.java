@@ -42,9 +42,7 @@ public final class EffectCommand implements Callable<Integer> {
     @Option(names = "--questions", paramLabel = "FILE", description = "CSV with columns do,target[,given][,versus]: one question per row") Path questionsFile;
 
     @Option(names = "--cases", hidden = true, paramLabel = "FILE", description = "renamed --questions")
-    void oldCases(String file) {
-        throw new UserError("effect's file of questions is --questions FILE (--cases is predict's file of cases): give --questions " + file);
-    }
+    String oldCases;
 
     @Option(names = "--effect-draws", paramLabel = "N", defaultValue = "" + EffectAnalysis.DEFAULT_DRAWS,
             description = "(DAG, parameter) draws for the effect's credible interval and histogram (default ${DEFAULT-VALUE})") int effectDraws;
@@ -60,6 +58,10 @@ public final class EffectCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
+        if (oldCases != null) {
+            throw new UserError("effect's file of questions is --questions FILE (--cases is predict's file of cases): "
+                    + "give --questions " + oldCases);
+        }
         String fmt = Output.format(format, "table", "json");
         output.check();
         if (averaging.scoring.ess.size() > 1) {

@@ -34,9 +34,7 @@ public final class UnknownOrderOptions {
     public Double rhatTarget;
 
     @Option(names = "--until-rhat", hidden = true, paramLabel = "R", description = "renamed --rhat-target")
-    void untilRhat(String value) {
-        throw new UserError("--until-rhat is now --rhat-target (beside --mcse-target): give --rhat-target " + value);
-    }
+    String untilRhat;
 
     @Option(names = CliNames.MCSE_TARGET, paramLabel = "T", description = "mcmc: also require every edge and feature posterior "
             + "to have a Monte Carlo standard error <= T (default 0.01, so that two seeds agree within about 0.05; between "
@@ -57,9 +55,7 @@ public final class UnknownOrderOptions {
             + "spread over the stored orders (partition MCMC uses the DAGs its chains drew)") public int dagSamples;
 
     @Option(names = {"--samples", "--order-samples"}, hidden = true, paramLabel = "K", description = "renamed --dag-samples")
-    void oldSamples(String value) {
-        throw new UserError("--samples and --order-samples are now --dag-samples (they count DAGs drawn for --features): give --dag-samples " + value);
-    }
+    String oldSamples;
 
     @Option(names = "--dag-prior", paramLabel = "structure-modular|order-modular", defaultValue = "structure-modular", description = "prior over DAGs: structure-modular (default; every DAG with in-degree <= d weighted by its parent-set priors alone, uniform with --prior uniform) or order-modular (each DAG also weighted by its number of consistent orders); given an order both coincide") public String dagPrior;
 
@@ -69,6 +65,13 @@ public final class UnknownOrderOptions {
      * ({@code --chains must be at least 1, got 0}).
      */
     public Averaging averaging(String method, String order) {
+        if (untilRhat != null) {
+            throw new UserError("--until-rhat is now --rhat-target (beside --mcse-target): give --rhat-target " + untilRhat);
+        }
+        if (oldSamples != null) {
+            throw new UserError("--samples and --order-samples are now --dag-samples (they count DAGs drawn for --features): "
+                    + "give --dag-samples " + oldSamples);
+        }
         Averaging.Method m = Averaging.Method.valueOf(method.toUpperCase(Locale.ROOT));
         if (m == Averaging.Method.MCMC) {
             Checks.atLeast(chains, 1, "--chains");

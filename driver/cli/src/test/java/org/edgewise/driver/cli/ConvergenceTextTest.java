@@ -36,7 +36,7 @@ class ConvergenceTextTest {
         assertEquals("edges: WARNING: not converged (stopped at the time budget; needs R-hat < 1.01, bulk ESS >= 400 and MCSE <= 0.01 "
                 + "for every quantity): the posteriors are not reliable. Worst: edge v20 -> v19 (R-hat 1.007, ESS 812, MCSE 0.0173); "
                 + "edge v3 -> v4 (R-hat inf, ESS -, MCSE 0.2500) stuck. Run longer: raise the time budget (--max-time).",
-                UnknownOrderEdges.notConverged(d));
+                UnknownOrderEdges.notConverged("edges", d));
     }
 
     @Test
@@ -60,7 +60,7 @@ class ConvergenceTextTest {
                 + "(R-hat 1.007, ESS 812, MCSE 0.0173). The chains met the targets but a posterior as reported did not (a posterior "
                 + "of exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target (--mcse-target, e.g. 0.005) so that the "
                 + "chains run longer and keep more draws.",
-                UnknownOrderEdges.notConverged(diagnostics(false, "converged", noisy)));
+                UnknownOrderEdges.notConverged("edges", diagnostics(false, "converged", noisy)));
     }
 
     @Test

@@ -35,7 +35,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void exactAndMcmcAgreeAndReportTheirDiagnostics() throws Exception {
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
-                "--features", "ancestors,markov-blanket", "--order-samples", "2000", "--dag-prior", "order-modular");
+                "--features", "ancestors,markov-blanket", "--dag-samples", "2000", "--dag-prior", "order-modular");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("exact", e.get("method").asText());
@@ -68,7 +68,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void structureModularIsTheDefaultExactAndMcmcAgreeWithTheLibrary() throws Exception {
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
-                "--features", "essential-graph", "--samples", "4000");
+                "--features", "essential-graph", "--dag-samples", "4000");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("structure-modular", e.get("dagPrior").asText());
@@ -134,7 +134,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(0, r.status(), r.err());
         assertTrue(r.err().contains("edges: WARNING: not converged (ran the requested --steps; needs R-hat < 1.01, bulk ESS >= 400 "
                 + "and MCSE <= 0.01 for every quantity): the posteriors are not reliable. Worst: "), r.err());
-        assertTrue(r.err().contains(". Run until converged instead of a fixed number of steps (no --steps, or --until-rhat)."),
+        assertTrue(r.err().contains(". Run until converged instead of a fixed number of steps (no --steps, or --rhat-target)."),
                 r.err());
         JsonNode d = JSON.readTree(r.out()).get("diagnostics");
         assertEquals("steps", d.get("stopReason").asText());
@@ -167,11 +167,15 @@ class UnknownOrderEdgesTest extends StoreFixture {
                 CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v0,zz").errLine());
         assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket, essential-graph)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());
-        assertEquals("edges: --until-rhat must be above 1 (e.g. 1.01), got 0.9",
-                CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "0.9").errLine());
-        assertEquals("edges: --max-time applies when running until converged (no --steps, or --until-rhat)",
+        assertEquals("edges: --rhat-target must be above 1 (e.g. 1.01), got 0.9",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--rhat-target", "0.9").errLine());
+        assertEquals("edges: --until-rhat is now --rhat-target (beside --mcse-target): give --rhat-target 1.02",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "1.02").errLine());
+        assertEquals("edges: --samples and --order-samples are now --dag-samples (they count DAGs drawn for --features): give --dag-samples 10",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--order-samples", "10").errLine());
+        assertEquals("edges: --max-time applies when running until converged (no --steps, or --rhat-target)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--steps", "100", "--max-time", "5").errLine());
-        assertEquals("edges: --burn-in applies to a fixed run (--steps without --until-rhat); "
+        assertEquals("edges: --burn-in applies to a fixed run (--steps without --rhat-target); "
                         + "running until converged discards the first half of each chain",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--burn-in", "5").errLine());
         assertEquals("edges: --mcse-target must be between 0.005 and 0.5, got 0.001",

@@ -86,7 +86,7 @@ public final class PredictionAnalysis {
             }
             exact = eo.exactCases();
             cases = new StructurePosterior.Cases(cases.averaged(), cases.bestOrder(), EXACT_CASES_OVER, "all orders", null,
-                    "averaged over orders (" + EXACT_CASES_OVER + "; order-modular DAG prior) and their networks:", cases.bestLabel());
+                    "averaged over orders (" + EXACT_CASES_OVER + "; order-modular DAG prior) and their networks:", cases.bestLabel(), true);
         }
         CaseProbability avg = cases.averaged();
         CasePredictor best = CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
@@ -133,7 +133,7 @@ public final class PredictionAnalysis {
                     Math.exp(b), b, hidden, states, p.order() == null ? null : VariableOrder.names(m, p.order()),
                     ls.familyScore().kind().label(), ResultBuilder.settings(ls).ess(), ls.options().prior().label(),
                     m.maxParents(), exact != null ? 0.0 : avg.skippedMass(), NOTE, l.method(), cases.averagedOver(),
-                    cases.samples(), mcse, l.dagPriorLabel(null), exact != null ? Boolean.TRUE : null);
+                    cases.samples(), mcse, l.dagPriorLabel(null), cases.exactRatio() ? Boolean.TRUE : null);
             String what = "P(" + CaseParser.format(m, target) + (given == null ? "" : " | " + CaseParser.format(m, given)) + ")";
             List<String> lines = new ArrayList<>();
             lines.add(String.format(Locale.ROOT, "%s %s %.6g (log %.6f)%s", what, cases.averagedLabel(), pr.probability(), a,

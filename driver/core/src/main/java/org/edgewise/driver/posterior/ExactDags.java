@@ -123,7 +123,7 @@ public final class ExactDags implements StructurePosterior {
         }
         String over = "exact: all DAGs, as Z(D + case) / Z(D)";
         return new Cases(p, BestDagOrder.of(ls, oc), over, "all DAGs", null,
-                "averaged over every DAG (" + over + "; structure-modular DAG prior):", "under the single highest-scoring network:");
+                "averaged over every DAG (" + over + "; structure-modular DAG prior):", "under the single highest-scoring network:", true);
     }
 
     @Override

@@ -60,7 +60,7 @@ public final class GivenOrder implements StructurePosterior {
     public Cases cases(double tailMass, long maxHiddenStates) {
         return new Cases(CasePredictor.averaged(op, tailMass).withMaxHiddenStates(maxHiddenStates), op.order(),
                 "every DAG consistent with the order", "every DAG consistent with the order", null,
-                "averaged over networks consistent with the order:", "under the single best network:                ");
+                "averaged over networks consistent with the order:", "under the single best network:                ", false);
     }
 
     @Override

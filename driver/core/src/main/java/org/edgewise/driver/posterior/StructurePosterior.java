@@ -131,16 +131,17 @@ public sealed interface StructurePosterior permits GivenOrder, ExactOrders, Exac
      * @param samples       the number of sampled orders or partitions (repeats counted), or null when exact
      * @param averagedLabel how a line for people introduces the averaged probability ("averaged over …:")
      * @param bestLabel     how it introduces the single best network's probability ("under the single best network:")
+     * @param exactRatio    whether a case's probability is computed as the exact ratio Z(D + case) / Z(D)
      */
     record Cases(CaseProbability averaged, int[] bestOrder, String over, String averagedOver, Integer samples,
-                 String averagedLabel, String bestLabel) {
+                 String averagedLabel, String bestLabel, boolean exactRatio) {
         /** A mixture over sampled or enumerated orders (or partitions, {@code unit}), under {@code prior}. */
         static Cases mixture(OrderMixture mix, String over, DagPrior prior, String unit) {
             return new Cases(mix, mix.bestOrder(), over, (mix.sampled() ? "sampled " : "all ") + unit,
                     mix.sampled() ? mix.draws() : null,
                     "averaged over " + unit + " (" + over + "; " + prior.label() + " DAG prior) and their networks:",
                     "under the best network of the highest-" + (unit.equals("partitions") ? "weight" : "evidence") + " "
-                            + unit.substring(0, unit.length() - 1) + " among them:");
+                            + unit.substring(0, unit.length() - 1) + " among them:", false);
         }
     }
 

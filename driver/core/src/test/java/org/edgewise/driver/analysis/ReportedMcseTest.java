@@ -58,7 +58,7 @@ class ReportedMcseTest {
         UnknownOrderSettings st = new UnknownOrderSettings(UnknownOrderSettings.Method.MCMC, List.of(), 5, 4, null, null, 1000,
                 null, null, 120.0, false, false, 10_000, 3, DagPrior.STRUCTURE_MODULAR, false, target);
         // partition MCMC: the reported posteriors are the chains' own Rao-Blackwellised estimates, held to the target
-        EdgeResult r = UnknownOrderAveraging.edges(ls, null, st, ProgressListener.NONE);
+        EdgeResult r = EdgeAnalysis.edges(ls, null, st, ProgressListener.NONE);
         EdgeResult.Diagnostics d = r.diagnostics();
         assertEquals("structure-modular", r.dagPrior());
         assertTrue(d.converged(), d.worst().toString());

@@ -31,7 +31,7 @@ class TemperingDiagnosticsTest {
         LocalScores ls = store();
         OrderMcmc.Settings st = OrderMcmc.Settings.defaults(2).withSteps(4000, 1000).withDraws(200);
         OrderMcmc.Result tempered = OrderMcmc.run(ls, OrderConstraints.none(7), st.withTempering(3, 0.2), null);
-        EdgeResult.Tempering t = UnknownOrderAveraging.tempering(tempered);
+        EdgeResult.Tempering t = ChainReport.tempering(tempered);
         assertEquals(3, t.rungs());
         assertEquals(0.2, t.betaMin(), 0.0);
         assertEquals(2, t.swapAcceptance().size());
@@ -43,7 +43,7 @@ class TemperingDiagnosticsTest {
         assertEquals(2, json.get("swapAcceptance").size());
         // 7 variables at the default rule: round(4·√(7/200)) = round(0.75) = 1 rung, so no tempering block
         OrderMcmc.Result plain = OrderMcmc.run(ls, OrderConstraints.none(7), st, null);
-        assertNull(UnknownOrderAveraging.tempering(plain));
+        assertNull(ChainReport.tempering(plain));
         assertEquals(1, plain.memory().rungs());
         assertEquals(0, plain.swapAcceptance().length);
         // the planned bytes: tables 7 × 8·2^6 = 3,584; index 4·7²; 4 chains × (84·7 state + 2·200 draws × (4·42 + 8·7 + 96))

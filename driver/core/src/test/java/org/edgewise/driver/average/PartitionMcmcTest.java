@@ -126,7 +126,8 @@ class PartitionMcmcTest {
         // the names a command-line front end passes (the core spells no option itself)
         org.edgewise.driver.InputNames cli = new org.edgewise.driver.InputNames("--ess", "--forbid", "--require", "--tiers",
                 "--given", "--max-hidden-states", "--exact-cases", "--candidates K", "--draws", "--samples", "--method mcmc",
-                "--dag-prior order-modular", "--dag-prior structure-modular", "--features", "--do", "--target", "--versus");
+                "--dag-prior order-modular", "--dag-prior structure-modular", "--features", "--do", "--target", "--versus", "--order", "--case",
+                "--cases", "--chains");
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored().withNames(cli));
         OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3", "v1"), List.of("v0")));
         org.edgewise.driver.UserError e = org.junit.jupiter.api.Assertions.assertThrows(org.edgewise.driver.UserError.class,

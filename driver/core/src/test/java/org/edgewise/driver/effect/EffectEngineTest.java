@@ -124,7 +124,7 @@ class EffectEngineTest {
         int[] order = {2, 0, 1, 3};
         List<BruteForce.Dag> dags = BruteForce.dags(f.vars(), f.rows(), order, 3, false, 1.0, BruteForce.Prior.UNIFORM,
                 null, null);
-        DagDraws list = new DagDraws() {
+        WeightedDags list = new WeightedDags() {
             @Override
             public int size() {
                 return dags.size();
