@@ -6,9 +6,6 @@ import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.DagDraws;
-import org.edgewise.driver.average.ExactOrderSum;
-import org.edgewise.driver.average.StructureSum;
-import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.McseBound;
 import org.edgewise.driver.average.OrderMcmc;
@@ -43,31 +40,7 @@ public final class EdgeAnalysis {
         int[] order = averaging.order() == null ? null
                 : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
         UnknownOrderSettings settings = averaging.settings(topParents);
-        if (settings != null && settings.method() == UnknownOrderSettings.Method.EXACT) {
-            announce(store.variableCount(), settings.dagPrior(), options.size(), progress);
-        }
         return run(store, scoring.store(), options, order, settings, topParents, progress, eachRun);
-    }
-
-    /** Says how long an exact sum will take when that is more than a few seconds (a refused one says so in its refusal). */
-    private static void announce(int n, DagPrior prior, int runs, ProgressListener progress) {
-        double seconds;
-        int largest;
-        String text;
-        if (prior == DagPrior.STRUCTURE_MODULAR) {
-            StructureSum.Estimate e = StructureSum.estimateHere(n);
-            seconds = e.seconds();
-            largest = e.largestN();
-            text = e.toString();
-        } else {
-            ExactOrderSum.Estimate e = ExactOrderSum.estimateHere(n);
-            seconds = e.seconds();
-            largest = e.largestN();
-            text = e.toString();
-        }
-        if (seconds > 5 && n <= largest) {
-            progress.note(text + (runs > 1 ? " (for each of the " + runs + " ESS values)" : ""));
-        }
     }
 
     /**
@@ -82,7 +55,11 @@ public final class EdgeAnalysis {
         List<EdgeResult.Sensitivity> sens = new ArrayList<>();
         for (ScoringOptions so : options) {
             LocalScores ls = LocalScores.build(store, so);
-            EdgeResult r = result(StructurePosterior.of(ls, order, settings, progress), settings, storePath, topParents);
+            StructurePosterior p = StructurePosterior.of(ls, order, settings, progress);
+            if (primary == null && p.cost() != null) {
+                progress.note(p.cost() + (options.size() > 1 ? " (for each of the " + options.size() + " ESS values)" : ""));
+            }
+            EdgeResult r = result(p, settings, storePath, topParents);
             eachRun.accept(r);
             if (primary == null) {
                 primary = r;

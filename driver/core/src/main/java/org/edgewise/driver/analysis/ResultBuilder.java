@@ -32,31 +32,6 @@ public final class ResultBuilder {
     /** The {@code dagPrior} of a given-order result: given an order both DAG priors coincide. */
     public static final String EITHER_GIVEN_ORDER = "either (order given)";
 
-    /**
-     * The complete result of averaging given one order: evidence in both conventions, every edge
-     * posterior, the {@code topK} most probable parent sets per variable, the best network under
-     * the order, settings, provenance and the given {@code sensitivity} (null when none).
-     */
-    public static EdgeResult forOrder(OrderPosterior op, Path storePath, int topK,
-                                      List<EdgeResult.Sensitivity> sensitivity) {
-        LocalScores ls = op.scores();
-        ScoreStore store = ls.store();
-        List<String> names = names(store, identity(ls.variableCount()));
-        return new EdgeResult("order", names, op.result().logEvidence(), op.result().logEvidenceNormalized(),
-                ORDER_MODULAR, VariableOrder.names(store.manifest(), op.order()), settings(ls),
-                provenance(store, storePath), edges(names, op.result().edgePosterior()),
-                topParents(ls, op.setPosteriors(), topK), network(ls, op.bestSets()), null, null,
-                sensitivity == null || sensitivity.isEmpty() ? null : sensitivity, EITHER_GIVEN_ORDER, null);
-    }
-
-    /** The sensitivity entry of one ESS value: its evidence and every edge posterior. */
-    public static EdgeResult.Sensitivity sensitivity(OrderPosterior op) {
-        LocalScores ls = op.scores();
-        List<String> names = names(ls.store(), identity(ls.variableCount()));
-        return new EdgeResult.Sensitivity(ls.familyScore().ess(), op.result().logEvidence(),
-                edges(names, op.result().edgePosterior()));
-    }
-
     static int[] identity(int n) {
         int[] out = new int[n];
         for (int i = 0; i < n; i++) {

@@ -78,6 +78,12 @@ public final class ExactDags implements StructurePosterior {
     }
 
     @Override
+    public String cost() {
+        StructureSum.Estimate e = StructureSum.estimateHere(ls.variableCount());
+        return e.seconds() > 5 && ls.variableCount() <= e.largestN() ? e.toString() : null;
+    }
+
+    @Override
     public LocalScores scores() {
         return ls;
     }

@@ -60,6 +60,12 @@ public final class ExactOrders implements StructurePosterior {
     }
 
     @Override
+    public String cost() {
+        ExactOrderSum.Estimate e = ExactOrderSum.estimateHere(ls.variableCount());
+        return e.seconds() > 5 && ls.variableCount() <= e.largestN() ? e.toString() : null;
+    }
+
+    @Override
     public LocalScores scores() {
         return ls;
     }

@@ -45,6 +45,14 @@ public sealed interface StructurePosterior permits GivenOrder, ExactOrders, Exac
         };
     }
 
+    /**
+     * What computing this posterior will cost, when it is worth saying before it starts (an exact
+     * sum estimated at more than a few seconds that will run), else null.
+     */
+    default String cost() {
+        return null;
+    }
+
     /** The local scores (store, scoring options) the posterior is built on. */
     LocalScores scores();
 
