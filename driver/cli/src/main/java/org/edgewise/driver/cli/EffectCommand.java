@@ -92,7 +92,7 @@ public final class EffectCommand implements Callable<Integer> {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
                         "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < %.2f; and every edge "
-                                + "posterior needs MCSE <= its target): the effect is not reliable; run longer (--max-time)",
+                                + "posterior needs MCSE <= its target): the effect is not reliable; " + UnknownOrderEdges.runLonger(settings),
                         r.maxRhat(), UnknownOrderEdges.RHAT_WARN));
                 break;
             }

@@ -157,7 +157,7 @@ public final class PredictCommand implements Callable<Integer> {
             if (!um.converged()) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
                         "predict: WARNING: the chains have not converged (largest split-R-hat %.3f, target < %.2f; and every edge "
-                                + "posterior needs MCSE <= its target): the prediction is not reliable; run longer (--max-time)",
+                                + "posterior needs MCSE <= its target): the prediction is not reliable; " + UnknownOrderEdges.runLonger(settings),
                         um.maxRhat(), UnknownOrderEdges.RHAT_WARN));
             }
             OrderMixture mix = um.mixture();

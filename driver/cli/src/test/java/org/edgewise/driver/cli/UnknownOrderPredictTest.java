@@ -1,6 +1,7 @@
 package org.edgewise.driver.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -67,7 +68,10 @@ class UnknownOrderPredictTest {
         assertEquals(0, tiny.status(), tiny.err());
         assertTrue(java.util.regex.Pattern.compile("predict: WARNING: the chains have not converged \\(largest split-R-hat "
                 + "(\\d+\\.\\d{3}|Infinity|NaN), target < 1\\.01; and every edge posterior needs MCSE <= its target\\): the prediction "
-                + "is not reliable; run longer \\(--max-time\\)").matcher(tiny.err()).find(), tiny.err());
+                + "is not reliable; run longer: raise the steps per chain \\(--steps\\) or run until converged instead \\(no "
+                + "--steps, or --until-rhat\\)").matcher(tiny.err()).find(), tiny.err());
+        // after a fixed --steps run the advice never names --max-time, which such a run refuses
+        assertFalse(tiny.err().contains("--max-time"), tiny.err());
     }
 
     private double structureLogDagSum(int[][] table) {

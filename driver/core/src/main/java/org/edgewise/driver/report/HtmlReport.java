@@ -15,12 +15,10 @@ import org.edgewise.driver.result.EdgeResult;
  * The HTML report of an {@code edges} result: one self-contained file (inline CSS and SVG, no
  * script, a Content-Security-Policy that forbids every fetch), readable by a person.
  * Sections: cautions, summary, convergence (sampled results), consensus graph, heatmap, strongest
- * edges, parent sets, MCMC diagnostics, ESS sensitivity, recovery of a known network, features, provenance.
+ * edges, parent sets, chain traces (sampled results), ESS sensitivity, recovery of a known network, features, provenance.
  * Every name from the data passes through {@link Html#esc}.
  */
 public final class HtmlReport {
-    /** R̂ above this warns (Vehtari et al. 2021 recommend 1.01). */
-    public static final double RHAT_LIMIT = 1.01;
     /** An edge whose posterior moves more than this across ESS values is listed as sensitive. */
     public static final double SENSITIVITY_CHANGE = 0.1;
     /** Parent sets shown per variable. */
@@ -116,7 +114,7 @@ public final class HtmlReport {
         PairTable.write(h, m, ce, t, r, hint);
         strongest(h, m, t, r);
         parentSets(h, r);
-        diagnostics(h, r);
+        ConvergenceSection.traces(h, r);
         sensitivity(h, r, m);
         if (rec != null) {
             recovery(h, rec, truthName);
@@ -258,49 +256,6 @@ public final class HtmlReport {
 
     private static boolean sameSet(List<String> a, List<String> b) {
         return a.size() == b.size() && a.containsAll(b);
-    }
-
-    private static void diagnostics(StringBuilder h, EdgeResult r) {
-        EdgeResult.Diagnostics d = r.diagnostics();
-        if (d == null) {
-            return;
-        }
-        h.append("<h2>MCMC diagnostics</h2>\n");
-        if (d.traces() != null && !d.traces().isEmpty()) {
-            h.append("<div class=\"fig\">").append(Charts.traces(d.traces(), d.traceThin())).append("</div>\n")
-                    .append("<p class=\"cap\">Log evidence of the current order in each chain. Chains that have mixed overlap and "
-                            + "wander over the same band; a chain stuck at a different level signals a separate mode.</p>\n");
-        }
-        h.append("<table>\n");
-        row(h, "chains", String.valueOf(d.chains()));
-        row(h, "steps per chain", String.valueOf(d.steps()));
-        row(h, "burn-in", String.valueOf(d.burnIn()));
-        row(h, "seed", String.valueOf(d.seed()));
-        row(h, "acceptance rate", f(d.acceptance(), 3));
-        row(h, "largest split-R\u0302 over edges", f(d.rhat(), 4) + (d.rhat() > RHAT_LIMIT ? " \u2014 <b>above " + f(RHAT_LIMIT, 2) + "</b>" : ""));
-        row(h, "smallest effective sample size", f(d.ess(), 1));
-        row(h, "converged", d.converged() ? "yes" : "<b>no</b>");
-        h.append("</table>\n");
-        List<EdgeResult.Edge> worst = new ArrayList<>();
-        for (EdgeResult.Edge e : r.edges()) {
-            if (e.rhat() != null) {
-                worst.add(e);
-            }
-        }
-        worst.sort(Comparator.comparingDouble((EdgeResult.Edge e) -> -e.rhat()));
-        if (!worst.isEmpty()) {
-            h.append("<table>\n<tr><th>edge</th><th>posterior</th><th>MCSE</th><th>R\u0302</th></tr>\n");
-            for (EdgeResult.Edge e : worst.subList(0, Math.min(10, worst.size()))) {
-                h.append("<tr><td>").append(esc(e.from() + " \u2192 " + e.to())).append("</td><td class=\"num\">")
-                        .append(f(e.posterior(), 3)).append("</td><td class=\"num\">")
-                        .append(e.mcse() == null ? "" : f(e.mcse(), 4)).append("</td><td class=\"num\">").append(f(e.rhat(), 4))
-                        .append("</td></tr>\n");
-            }
-            h.append("</table>\n<p class=\"cap\">The ten edges with the largest R\u0302. R\u0302 compares the variation between and "
-                    + "within chain halves (split-R\u0302, Gelman &amp; Rubin 1992; Vehtari et al. 2021); values above "
-                    + f(RHAT_LIMIT, 2) + " mean the chains have not yet agreed. MCSE is the Monte Carlo standard error of the "
-                    + "posterior estimate.</p>\n");
-        }
     }
 
     private static void sensitivity(StringBuilder h, EdgeResult r, EdgeMatrix main) {
