@@ -1,5 +1,7 @@
 package org.edgewise.driver.report;
 
+import static org.edgewise.driver.report.Html.num;
+
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -153,9 +155,5 @@ public final class ConvergenceAdvice {
 
     private static String orDash(Double x, String format) {
         return x == null ? "-" : String.format(Locale.ROOT, format, x);
-    }
-
-    static String num(double x) {
-        return x == Math.rint(x) && Math.abs(x) < 1e15 ? String.valueOf((long) x) : String.valueOf(x);
     }
 }

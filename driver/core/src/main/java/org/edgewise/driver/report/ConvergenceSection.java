@@ -2,6 +2,8 @@ package org.edgewise.driver.report;
 
 import static org.edgewise.driver.report.Html.esc;
 import static org.edgewise.driver.report.Html.f;
+import static org.edgewise.driver.report.Html.num;
+import static org.edgewise.driver.report.Html.row;
 
 import org.edgewise.driver.result.EdgeResult;
 
@@ -48,9 +50,9 @@ final class ConvergenceSection {
                 + " warm-up), seed " + d.seed() + ", acceptance rate " + f(d.acceptance(), 3));
         h.append("</table>\n");
         if (d.worst() != null && !d.worst().isEmpty()) {
-            String rt = ConvergenceAdvice.num(ConvergenceAdvice.rhatTarget(d));
-            String et = ConvergenceAdvice.num(ConvergenceAdvice.effectiveSampleSizeTarget(d));
-            String mt = d.mcseTarget() == null ? "none" : ConvergenceAdvice.num(d.mcseTarget());
+            String rt = num(ConvergenceAdvice.rhatTarget(d));
+            String et = num(ConvergenceAdvice.effectiveSampleSizeTarget(d));
+            String mt = d.mcseTarget() == null ? "none" : num(d.mcseTarget());
             h.append("<table id=\"convergence-worst\">\n<tr><th>quantity</th><th>state</th><th>R\u0302 (target &lt; ").append(rt)
                     .append(")</th><th>bulk effective sample size (&ge; ").append(et).append(")</th><th>MCSE (&le; ").append(mt).append(")</th></tr>\n");
             for (EdgeResult.Worst w : d.worst()) {
@@ -89,9 +91,5 @@ final class ConvergenceSection {
     /** Whether a sampled result comes from partition MCMC (structure-modular DAG prior), else order MCMC. */
     static boolean partitionMcmc(EdgeResult r) {
         return "mcmc".equals(r.method()) && "structure-modular".equals(r.dagPrior());
-    }
-
-    private static void row(StringBuilder h, String key, String valueHtml) {
-        h.append("<tr><th>").append(key).append("</th><td>").append(valueHtml).append("</td></tr>\n");
     }
 }
