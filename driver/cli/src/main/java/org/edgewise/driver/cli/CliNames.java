@@ -23,7 +23,7 @@ final class CliNames {
     static final String MCSE_TARGET = "--mcse-target";
 
     /** How the convergence advice names the ways to run differently. */
-    static final RunHint RUN = new RunHint("--max-time", "--max-steps", "no --steps, or --rhat-target", MCSE_TARGET,
+    static final RunHint RUN = new RunHint("--max-time", "--max-steps", "--steps", "no --steps, or --rhat-target", MCSE_TARGET,
             "--chains", "--method exact");
 
     private CliNames() {

@@ -12,6 +12,7 @@ import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EffectAnalysis;
 import org.edgewise.driver.analysis.EffectQuestions;
 import org.edgewise.driver.analysis.Scoring;
+import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
@@ -80,7 +81,9 @@ public final class EffectCommand implements Callable<Integer> {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
                         "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < 1.01; and every edge "
-                                + "posterior needs MCSE <= its target): the effect is not reliable; run longer", r.maxRhat()));
+                                + "posterior needs MCSE <= its target): the effect is not reliable; "
+                                + ConvergenceAdvice.runLonger(what.steps() != null && what.rhatTarget() == null ? "steps" : null,
+                                CliNames.RUN), r.maxRhat()));
                 break;
             }
         }

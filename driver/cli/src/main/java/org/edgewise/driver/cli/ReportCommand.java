@@ -22,7 +22,7 @@ import picocli.CommandLine.Model.CommandSpec;
 /** {@code report}: a self-contained HTML report (or the consensus graph as DOT) from a result. */
 @Command(name = "report", mixinStandardHelpOptions = true,
         description = "Write a self-contained HTML report of an edges result (heatmap, consensus graph, parent sets, "
-                + "MCMC diagnostics, ESS sensitivity, provenance, cautions), or the consensus graph as DOT.")
+                + "convergence and chain traces, ESS sensitivity, provenance, cautions), or the consensus graph as DOT.")
 final class ReportCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;

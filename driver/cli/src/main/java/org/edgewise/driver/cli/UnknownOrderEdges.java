@@ -17,36 +17,7 @@ final class UnknownOrderEdges {
 
     /** Why a run is not converged, in one line: the stop reason, the targets, the worst quantities and what to do. */
     static String notConverged(String command, EdgeResult.Diagnostics d) {
-        StringBuilder sb = new StringBuilder(String.format(Locale.ROOT,
-                "%s: WARNING: not converged (%s; needs R-hat < %s, bulk ESS >= %.0f%s for every quantity): "
-                        + "the posteriors are not reliable. Worst:", command, d.stopReason() == null ? "?" : stopText(d.stopReason()),
-                d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget(),
-                d.mcseTarget() == null ? "" : " and MCSE <= " + trim(d.mcseTarget())));
-        if (d.worst() != null && !d.worst().isEmpty()) {
-            for (EdgeResult.Worst w : d.worst()) {
-                sb.append(String.format(Locale.ROOT, " %s (R-hat %s, ESS %s, MCSE %s)%s", w.quantity(),
-                        w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()),
-                        w.ess() == null ? "-" : String.format(Locale.ROOT, "%.0f", w.ess()),
-                        w.mcse() == null ? "-" : String.format(Locale.ROOT, "%.4f", w.mcse()),
-                        "stuck".equals(w.state()) ? " stuck" : ""));
-                sb.append(';');
-            }
-            sb.setLength(sb.length() - 1);
-        } else {
-            sb.append(" -");
-        }
-        sb.append(". ").append(ConvergenceAdvice.next(d, CliNames.RUN).get(0));
-        return sb.toString();
-    }
-
-    private static String stopText(String reason) {
-        return switch (reason) {
-            case "max-time" -> "stopped at the time budget";
-            case "max-steps" -> "stopped at the step cap";
-            case "steps" -> "ran the requested --steps";
-            case "converged" -> "the chains met the targets, the reported posteriors did not";
-            default -> reason;
-        };
+        return command + ": " + ConvergenceAdvice.warning(d, CliNames.RUN);
     }
 
     /** {@code x} without trailing zeros: 1.01, 0.01, 400. */
@@ -100,9 +71,9 @@ final class UnknownOrderEdges {
         for (int k = 0; k < next.size(); k++) {
             line(sb, k == 0 ? "next" : "", next.get(k));
         }
-        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail ESS %s",
-                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
-                d.essTail() == null ? "-" : String.format(Locale.ROOT, "%.0f", d.essTail())));
+        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail eff. n %s",
+                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(), d.tailEffectiveSampleSize() == null ? "-"
+                        : String.format(Locale.ROOT, "%.0f", d.tailEffectiveSampleSize())));
         return sb.toString();
     }
 

@@ -19,18 +19,19 @@ public final class UnknownOrderOptions {
 
     @Option(names = "--chains", paramLabel = "M", defaultValue = "4", description = "mcmc: number of chains, each from its own random order (default ${DEFAULT-VALUE})") public int chains;
 
-    @Option(names = "--steps", paramLabel = "N", description = "mcmc: run exactly N steps per chain after burn-in "
-            + "(default: run until converged: R-hat < 1.01, bulk ESS >= 400 and MCSE <= 0.01 for every edge, or --max-time)")
+    @Option(names = "--steps", paramLabel = "N", description = "mcmc: run exactly N steps per chain after the warm-up "
+            + "(default: run until converged: R-hat < 1.01, bulk effective sample size >= 400 and MCSE <= 0.01 for every edge, "
+            + "or --max-time)")
     public Long steps;
 
-    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc with --steps: steps per chain discarded first (default: a quarter of --steps; "
-            + "running until converged discards the first half of each chain)")
+    @Option(names = "--burn-in", paramLabel = "N", description = "mcmc with --steps: warm-up, the steps per chain discarded "
+            + "first (default: a quarter of --steps; running until converged discards the first half of each chain as warm-up)")
     public Long burnIn;
 
     @Option(names = "--draws", paramLabel = "N", defaultValue = "1000", description = "mcmc: draws stored per chain (thinning = steps / draws; default ${DEFAULT-VALUE})") public int draws;
 
     @Option(names = "--rhat-target", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
-            + "an effective sample size >= 400; with --steps, the first check comes after --steps")
+            + "a bulk effective sample size >= 400; with --steps, the first check comes after --steps")
     public Double rhatTarget;
 
     @Option(names = "--until-rhat", hidden = true, paramLabel = "R", description = "renamed --rhat-target")
@@ -38,7 +39,7 @@ public final class UnknownOrderOptions {
 
     @Option(names = CliNames.MCSE_TARGET, paramLabel = "T", description = "mcmc: also require every edge and feature posterior "
             + "to have a Monte Carlo standard error <= T (default 0.01, so that two seeds agree within about 0.05; between "
-            + "0.005 and 0.5; 0.5 asks for nothing beyond the ESS)")
+            + "0.005 and 0.5; 0.5 asks for nothing beyond the effective sample size)")
     public Double mcseTarget;
 
     @Option(names = "--max-steps", paramLabel = "N", description = "mcmc until converged: cap on steps per chain (default: none)")

@@ -67,9 +67,9 @@ class UnknownOrderPredictTest {
                 "--burn-in", "0", "--case", "v0=s1", "--dag-prior", "order-modular");
         assertEquals(0, tiny.status(), tiny.err());
         // the same verdict line as edges; after a fixed --steps run it never names --max-time (refused with --steps)
-        assertTrue(tiny.err().contains("predict: WARNING: not converged (ran the requested --steps; needs R-hat < 1.01"), tiny.err());
-        assertTrue(tiny.err().contains("Run until converged instead of a fixed number of steps (no --steps, or --rhat-target)."),
-                tiny.err());
+        assertTrue(tiny.err().contains("predict: WARNING: not converged (a fixed number of steps was run"), tiny.err());
+        assertTrue(tiny.err().contains("Run longer: raise the steps per chain (--steps) or run until converged instead (no --steps, "
+                + "or --rhat-target)."), tiny.err());
         assertFalse(tiny.err().contains("--max-time"), tiny.err());
     }
 

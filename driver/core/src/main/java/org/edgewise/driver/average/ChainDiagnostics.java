@@ -1,6 +1,10 @@
 package org.edgewise.driver.average;
 
 import java.util.Arrays;
+import org.apache.commons.math3.distribution.NormalDistribution;
+import org.apache.commons.math3.transform.DftNormalization;
+import org.apache.commons.math3.transform.FastFourierTransformer;
+import org.apache.commons.math3.transform.TransformType;
 
 /**
  * Convergence diagnostics of a scalar quantity sampled by several Markov chains, after Vehtari,
@@ -39,6 +43,8 @@ public final class ChainDiagnostics {
     public static final double ESS_TARGET = 400;
     /** Probabilities whose draws span less than this are {@link State#SETTLED}. */
     public static final double SETTLE_SPAN = 0.005;
+    /** Φ for the rank normalisation; no random generator (its draws are never asked for). */
+    private static final NormalDistribution STANDARD_NORMAL = new NormalDistribution(null, 0, 1);
 
     private ChainDiagnostics() {
     }
@@ -302,102 +308,40 @@ public final class ChainDiagnostics {
         return quantile(s, 0.5);
     }
 
-    /**
-     * Φ⁻¹(p), Acklam's rational approximation (relative error &lt; 1.2·10⁻⁹; coefficients from
-     * memory, checked in the tests against Φ⁻¹ values of Abramowitz &amp; Stegun table 26.5) — ample
-     * for ranks.
-     */
+    /** Φ⁻¹(p) of the standard normal law (Commons Math: via its inverse error function). */
     static double inverseNormal(double p) {
-        double[] a = {-3.969683028665376e+01, 2.209460984245205e+02, -2.759285104469687e+02,
-            1.383577518672690e+02, -3.066479806614716e+01, 2.506628277459239e+00};
-        double[] b = {-5.447609879822406e+01, 1.615858368580409e+02, -1.556989798598866e+02,
-            6.680131188771972e+01, -1.328068155288572e+01};
-        double[] c = {-7.784894002430293e-03, -3.223964580411365e-01, -2.400758277161838e+00,
-            -2.549732539343734e+00, 4.374664141464968e+00, 2.938163982698783e+00};
-        double[] d = {7.784695709041462e-03, 3.224671290700398e-01, 2.445134137142996e+00, 3.754408661907416e+00};
-        double plow = 0.02425;
-        double q;
-        if (p < plow) {
-            q = Math.sqrt(-2 * Math.log(p));
-            return (((((c[0] * q + c[1]) * q + c[2]) * q + c[3]) * q + c[4]) * q + c[5])
-                    / ((((d[0] * q + d[1]) * q + d[2]) * q + d[3]) * q + 1);
-        }
-        if (p > 1 - plow) {
-            q = Math.sqrt(-2 * Math.log(1 - p));
-            return -(((((c[0] * q + c[1]) * q + c[2]) * q + c[3]) * q + c[4]) * q + c[5])
-                    / ((((d[0] * q + d[1]) * q + d[2]) * q + d[3]) * q + 1);
-        }
-        q = p - 0.5;
-        double r = q * q;
-        return (((((a[0] * r + a[1]) * r + a[2]) * r + a[3]) * r + a[4]) * r + a[5]) * q
-                / (((((b[0] * r + b[1]) * r + b[2]) * r + b[3]) * r + b[4]) * r + 1);
+        return STANDARD_NORMAL.inverseCumulativeProbability(p);
     }
 
-    /** Biased autocovariance acov_t = (1/N) Σ_{u<N−t} (x_u − m)(x_{u+t} − m), by FFT (O(N log N)). */
+    /**
+     * Biased autocovariance acov_t = (1/N) Σ_{u<N−t} (x_u − m)(x_{u+t} − m), by FFT (O(N log N)):
+     * the inverse transform of the power spectrum of the centred draws, zero-padded to a power of
+     * two ≥ 2N (Commons Math's radix-2 FFT needs a power of two; ≥ 2N − 1 keeps the sum acyclic).
+     */
     static double[] autocovariance(double[] x, double mean) {
         int n = x.length;
         int size = Integer.highestOneBit(Math.max(1, 2 * n - 1));
         if (size < 2 * n) {
             size <<= 1;
         }
-        double[] re = new double[size];
-        double[] im = new double[size];
+        double[][] ri = new double[2][size];
+        double[] re = ri[0];
+        double[] im = ri[1];
         for (int u = 0; u < n; u++) {
             re[u] = x[u] - mean;
         }
-        fft(re, im, false);
+        FastFourierTransformer.transformInPlace(ri, DftNormalization.STANDARD, TransformType.FORWARD);
         for (int k = 0; k < size; k++) {
             re[k] = re[k] * re[k] + im[k] * im[k];
             im[k] = 0;
         }
-        fft(re, im, true);
+        // STANDARD normalisation: the inverse transform divides by size
+        FastFourierTransformer.transformInPlace(ri, DftNormalization.STANDARD, TransformType.INVERSE);
         double[] out = new double[n];
         for (int u = 0; u < n; u++) {
-            out[u] = re[u] / size / n;
+            out[u] = re[u] / n;
         }
         return out;
-    }
-
-    /** In-place iterative radix-2 FFT (Cooley &amp; Tukey 1965); length a power of two. */
-    static void fft(double[] re, double[] im, boolean inverse) {
-        int n = re.length;
-        for (int i = 1, j = 0; i < n; i++) {
-            int bit = n >> 1;
-            for (; (j & bit) != 0; bit >>= 1) {
-                j ^= bit;
-            }
-            j ^= bit;
-            if (i < j) {
-                double t = re[i];
-                re[i] = re[j];
-                re[j] = t;
-                t = im[i];
-                im[i] = im[j];
-                im[j] = t;
-            }
-        }
-        for (int len = 2; len <= n; len <<= 1) {
-            double ang = 2 * Math.PI / len * (inverse ? 1 : -1);
-            double wr = Math.cos(ang);
-            double wi = Math.sin(ang);
-            for (int i = 0; i < n; i += len) {
-                double cr = 1;
-                double ci = 0;
-                for (int k = 0; k < len / 2; k++) {
-                    int a = i + k;
-                    int b = a + len / 2;
-                    double xr = re[b] * cr - im[b] * ci;
-                    double xi = re[b] * ci + im[b] * cr;
-                    re[b] = re[a] - xr;
-                    im[b] = im[a] - xi;
-                    re[a] += xr;
-                    im[a] += xi;
-                    double ncr = cr * wr - ci * wi;
-                    ci = cr * wi + ci * wr;
-                    cr = ncr;
-                }
-            }
-        }
     }
 
     private static double[] rowMeans(double[][] s) {

@@ -136,7 +136,7 @@ public final class MultiChainDiagnostics {
         }
 
         private static String text(int perChain, String drawsName) {
-            return "only " + perChain + " draws per chain were stored after burn-in; run more steps or store more draws ("
+            return "only " + perChain + " draws per chain were stored after the warm-up; run more steps or store more draws ("
                     + drawsName + ")";
         }
     }

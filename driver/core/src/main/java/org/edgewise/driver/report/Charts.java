@@ -249,7 +249,7 @@ public final class Charts {
         }
     }
 
-    /** Trace plot: log evidence per chain against the trace sample index. */
+    /** Trace plot: the log-score trace of each chain (what it holds depends on the sampler) against the trace sample index. */
     public static String traces(List<List<Double>> traces, int thin) {
         double w = 760;
         double h = 260;

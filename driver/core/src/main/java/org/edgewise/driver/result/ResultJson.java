@@ -17,11 +17,14 @@ import org.edgewise.driver.UserError;
  * <p>An edges result ({@link EdgeResult}) is written with {@code "formatVersion": }
  * {@value #EDGES_FORMAT_VERSION} as its first field, and {@link #readEdges} refuses a file with
  * another version or none (e.g. from an older build), naming the file, before reading the rest.
- * Raise the version when a field of the result changes meaning or a required field is added.
+ * Raise the version when a field of the result changes meaning or name, or a required field is
+ * added. Version 2: the MCMC effective sample sizes are {@code bulkEffectiveSampleSize},
+ * {@code tailEffectiveSampleSize} and {@code effectiveSampleSizeTarget} (version 1 called them
+ * {@code ess}, {@code essTail} and {@code essTarget}, the word of BDeu's equivalent sample size).
  */
 public final class ResultJson {
     /** The format version of an edges result that this build writes and reads. */
-    public static final int EDGES_FORMAT_VERSION = 1;
+    public static final int EDGES_FORMAT_VERSION = 2;
 
     public static final ObjectMapper MAPPER = new ObjectMapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
@@ -73,7 +76,7 @@ public final class ResultJson {
             if (version == null || !version.canConvertToInt() || version.asInt() != EDGES_FORMAT_VERSION) {
                 throw new UserError("result file " + file + " has " + (version == null ? "no format version"
                         : "format version " + version) + "; this Edgewise reads edges results of format version "
-                        + EDGES_FORMAT_VERSION);
+                        + EDGES_FORMAT_VERSION + "; re-run the analysis that wrote it with this Edgewise");
             }
             EdgeResult r = MAPPER.readValue(file.toFile(), EdgeResult.class);
             if (r.variables() == null || r.edges() == null) {

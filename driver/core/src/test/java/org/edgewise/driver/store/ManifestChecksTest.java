@@ -65,7 +65,7 @@ class ManifestChecksTest {
 
     @Test
     void jsonOfTheWrongShapeIsNotCalledInvalid() throws Exception {
-        Path f = Files.writeString(dir.resolve("r.json"), "{\"formatVersion\": 1, \"variables\": [\"a\"], \"edges\": 7}");
+        Path f = Files.writeString(dir.resolve("r.json"), "{\"formatVersion\": " + ResultJson.EDGES_FORMAT_VERSION + ", \"variables\": [\"a\"], \"edges\": 7}");
         UserError e = assertThrows(UserError.class, () -> ResultJson.readEdges(f));
         assertEquals("result file " + f + " is JSON but not an edges result: edges has the wrong type (line 1, column 51)",
                 e.getMessage());
