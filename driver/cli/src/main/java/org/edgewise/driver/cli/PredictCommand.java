@@ -31,7 +31,6 @@ import org.edgewise.driver.query.StructureCasePrediction;
 import org.edgewise.driver.query.Prediction;
 import org.edgewise.driver.query.UnknownOrderPrediction;
 import org.edgewise.driver.result.ResultJson;
-import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
@@ -221,7 +220,7 @@ public final class PredictCommand implements Callable<Integer> {
         double states = avg.hiddenJointStates(joint);
         Prediction p = new Prediction(named(m, target), given == null ? null : named(m, given), Math.exp(a), a,
                 Math.exp(b), b, hidden, states, ord == null ? null : VariableOrder.names(m, ord), ls.familyScore().kind().label(),
-                ls.familyScore().kind() == ScoreKind.K2 ? null : ls.familyScore().ess(), ls.options().prior().label(), m.maxParents(),
+                ls.familyScore().reportedEss(), ls.options().prior().label(), m.maxParents(),
                 exact != null ? 0.0 : avg.skippedMass(), NOTE, ord != null ? "order" : averaging.method.method.trim().toLowerCase(Locale.ROOT),
                 ord != null ? null : exact != null || structure ? "all" : mixture.orders(),
                 exact != null || structure || ord != null ? null : mixture.orderSamples(), mcse,
