@@ -133,19 +133,12 @@ public final class OrderMcmc {
             return d.settings();
         }
 
+        /** {@code s} steps per chain ({@link #steps}) after {@code b} of burn-in. */
         public Settings withSteps(long s, long b) {
             return edit(d -> {
                 d.steps = s;
                 d.burnIn = b;
             });
-        }
-
-        public Settings withChains(int c) {
-            return edit(d -> d.chains = c);
-        }
-
-        public Settings withFeatures(boolean f) {
-            return edit(d -> d.features = f);
         }
 
         /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
@@ -162,22 +155,6 @@ public final class OrderMcmc {
             });
         }
 
-        public Settings withSeed(long sd) {
-            return edit(d -> d.seed = sd);
-        }
-
-        public Settings withDraws(int dr) {
-            return edit(d -> d.draws = dr);
-        }
-
-        public Settings withRhatTarget(double t) {
-            return edit(d -> d.rhatTarget = t);
-        }
-
-        public Settings withMcseTarget(double t) {
-            return edit(d -> d.mcseTarget = t);
-        }
-
         /** A ladder of {@code r} tempered chains per reported chain, β from 1 down to {@code bMin}. */
         public Settings withTempering(int r, double bMin) {
             return edit(d -> {
@@ -186,12 +163,44 @@ public final class OrderMcmc {
             });
         }
 
+        /** {@code c} chains. */
+        public Settings withChains(int c) {
+            return edit(d -> d.chains = c);
+        }
+
+        /** Draws stored per chain (at least 4). */
+        public Settings withDraws(int dr) {
+            return edit(d -> d.draws = dr);
+        }
+
+        /** The seed of all randomness. */
+        public Settings withSeed(long sd) {
+            return edit(d -> d.seed = sd);
+        }
+
+        /** Whether a DAG is drawn per draw for ancestor and Markov-blanket features. */
+        public Settings withFeatures(boolean f) {
+            return edit(d -> d.features = f);
+        }
+
+        /** Bytes allowed for the per-child tables. */
         public Settings withTableBudget(long bytes) {
             return edit(d -> d.tableBudget = bytes);
         }
 
+        /** The share of steps that are relocation (Gibbs) moves of one variable. */
         public Settings withRelocate(double r) {
             return edit(d -> d.relocate = r);
+        }
+
+        /** The R̂ below which a quantity counts as converged. */
+        public Settings withRhatTarget(double t) {
+            return edit(d -> d.rhatTarget = t);
+        }
+
+        /** The MCSE at or below which an edge or feature posterior counts as converged. */
+        public Settings withMcseTarget(double t) {
+            return edit(d -> d.mcseTarget = t);
         }
 
         /** A copy with {@code change} applied, checked again by the canonical constructor. */
