@@ -115,7 +115,9 @@ class BadInputTest {
         refused("tally: --exclude: no column 'z' in " + good + " (columns: u, v)", good, "--exclude", "z");
         refused("tally: --forbid u->z: no variable 'z' (variables: u, v)", good, "--forbid", "u->z");
         refused("tally: --require z->u: no variable 'z' (variables: u, v)", good, "--require", "z->u");
-        refused("tally: --tiers: no variable 'z' (variables: u, v)", good, "--tiers", "u;z");
+        refused("tally: --tiers: unknown variable 'z' (variables: u, v)", good, "--tiers", "u;z");
+        refused("tally: --tiers: variable 'u' is in tiers 1 and 2", good, "--tiers", "u", "--tiers", "v,u");
+        refused("tally: --tiers: empty variable name in 'u;'", good, "--tiers", "u;");
         refused("tally: --discretize: no variable 'z' among the selected columns (u, v)", good, "--discretize", "z=3");
         refused("tally: --require u->v contradicts --forbid u->v", good, "--require", "u->v", "--forbid", "u->v");
         refused("tally: --require v->u contradicts --tiers: 'v' is in a later tier than 'u'", good,

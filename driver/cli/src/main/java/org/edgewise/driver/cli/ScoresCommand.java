@@ -51,10 +51,9 @@ final class ScoresCommand implements Callable<Integer> {
         Manifest m = s.manifest();
         ScoreKind stored = ScoreKind.parse(m.score());
         ScoreKind kind = score == null ? stored : ScoreKind.parse(score);
-        Checks.notApplicable(kind == ScoreKind.K2 && ess != null, "--ess", "to score k2",
-                "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
+        kind.checkEss(ess != null, "--ess");
         double e = ess == null ? m.ess() : ess;
-        boolean rescore = kind != stored || (kind == ScoreKind.BDEU && e != m.ess());
+        boolean rescore = kind.rescores(stored, m.ess(), e);
         FamilyScore fs = FamilyScore.of(kind, e);
         StringBuilder sb = new StringBuilder();
         List<Map<String, Object>> rows = new ArrayList<>();

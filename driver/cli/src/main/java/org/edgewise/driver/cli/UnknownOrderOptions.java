@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.Tiers;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.score.DagPrior;
@@ -11,8 +12,9 @@ import picocli.CommandLine.Option;
 
 /** Options of the unknown-order methods ({@code edges --method exact|mcmc}, {@code predict --method …}). */
 public final class UnknownOrderOptions {
-    @Option(names = "--tiers", paramLabel = "a,b", description = "a tier of variables, repeated earliest first: variables of an earlier tier "
-            + "precede those of a later one in every order; variables in no tier are free (default: the store's tiers)")
+    @Option(names = "--tiers", paramLabel = "\"a,b;c\"", description = "tiers of variables, earliest first, separated by ';' (a repeated "
+            + "option appends tiers): variables of an earlier tier precede those of a later one in every order; variables in no tier "
+            + "are free (default: the store's tiers)")
     public List<String> tiers = new ArrayList<>();
 
     @Option(names = "--seed", paramLabel = "N", defaultValue = "1", description = "seed of every random draw (default ${DEFAULT-VALUE}); the same seed gives the same result") public long seed;
@@ -115,18 +117,7 @@ public final class UnknownOrderOptions {
 
     /** The tiers as lists of names. */
     public List<List<String>> tierLists() {
-        List<List<String>> out = new ArrayList<>();
-        for (String t : tiers) {
-            List<String> names = new ArrayList<>();
-            for (String x : t.split(",", -1)) {
-                if (x.isBlank()) {
-                    throw new UserError("--tiers " + t + ": empty variable name");
-                }
-                names.add(x.trim());
-            }
-            out.add(names);
-        }
-        return out;
+        return Tiers.parse(tiers, "--tiers");
     }
 
     /** The DAG prior asked for. */

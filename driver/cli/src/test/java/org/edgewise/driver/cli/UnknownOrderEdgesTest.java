@@ -176,7 +176,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void refusals() {
         String s = store.toString();
-        assertEquals("edges: --tiers: unknown variable 'zz'",
+        assertEquals("edges: --tiers: unknown variable 'zz' (variables: v0, v1, v2, v3, v4)",
                 CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v0,zz").errLine());
         assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket, essential-graph)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());

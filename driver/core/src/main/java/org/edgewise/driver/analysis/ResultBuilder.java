@@ -9,7 +9,6 @@ import java.util.Map;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderPosterior;
 import org.edgewise.driver.average.VariableOrder;
-import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
@@ -108,7 +107,7 @@ public final class ResultBuilder {
     public static EdgeResult.Settings settings(LocalScores ls) {
         Manifest m = ls.store().manifest();
         return new EdgeResult.Settings(ls.familyScore().kind().label(),
-                ls.familyScore().kind() == ScoreKind.K2 ? null : ls.familyScore().ess(),
+                ls.familyScore().reportedEss(),
                 ls.options().prior().label(), m.maxParents(), rules(ls.options().forbid()),
                 rules(ls.options().require()), m.tiers() == null || m.tiers().isEmpty() ? null : m.tiers());
     }

@@ -12,7 +12,7 @@ import java.util.SplittableRandom;
 final class DagMoves {
     private final LocalScores ls;
     private final ChildTables tables;
-    private final PartitionChain chain;
+    private final PartitionScores scores;
     private final long[] excluded;
     private final PartitionDag dag;
     private final SplittableRandom rng;
@@ -68,11 +68,11 @@ final class DagMoves {
         }
     }
 
-    DagMoves(LocalScores ls, ChildTables tables, PartitionChain chain, long[] excluded, PartitionDag dag, SplittableRandom rng) {
+    DagMoves(LocalScores ls, ChildTables tables, PartitionScores scores, PartitionDag dag, SplittableRandom rng) {
         this.ls = ls;
         this.tables = tables;
-        this.chain = chain;
-        this.excluded = excluded;
+        this.scores = scores;
+        this.excluded = scores.excluded();
         this.dag = dag;
         this.rng = rng;
         this.n = ls.variableCount();
@@ -404,7 +404,7 @@ final class DagMoves {
     /** log Σ exp w_i(U) over the allowed U ⊆ b (t = 0), or U ⊆ b meeting t. */
     private double logSumWithin(int i, long b, long t) {
         if (t != 0) {
-            return chain.childScore(i, 1, b, t);
+            return scores.childScore(i, 1, b, t);
         }
         double[] tab = tables.table(i);
         return tab != null ? tab[(int) b] : LogSum.ofSubsets(ls.masks(i), ls.weights(i), b);

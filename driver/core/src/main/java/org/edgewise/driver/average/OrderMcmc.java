@@ -101,10 +101,6 @@ public final class OrderMcmc {
             return ConvergenceTargets.withRhat(rhatTarget).withMcse(mcseTarget);
         }
 
-        public Settings withMcseTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, t, rungs, betaMin);
-        }
-
         /**
          * The rungs of the ladders for {@code n} variables: as set, or when 0, R = max(1, round(4·√(n/200)))
          * up to n = 200 — 1 (no tempering) up to n = 28, 2 up to 78, 3 up to 153, 4 at 200 — and
@@ -130,51 +126,136 @@ public final class OrderMcmc {
             return rungs > 0 || n <= 200 ? betaMin : betaMin * Math.pow(200.0 / n, 1.2);
         }
 
+        /** The default settings (4 chains of 200,000 steps after 50,000 of burn-in, 1,000 draws each) with this seed. */
         public static Settings defaults(long seed) {
-            return new Settings(4, 200_000, 50_000, seed, 1000, false, 0, 0, false, 1L << 30, DEFAULT_RELOCATE,
-                    ChainDiagnostics.RHAT_TARGET, ConvergenceTargets.DEFAULT_MCSE, DEFAULT_RUNGS, DEFAULT_BETA_MIN);
+            Draft d = new Draft();
+            d.seed = seed;
+            return d.settings();
         }
 
+        /** {@code s} steps per chain ({@link #steps}) after {@code b} of burn-in. */
         public Settings withSteps(long s, long b) {
-            return new Settings(chains, s, b, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
-        }
-
-        public Settings withChains(int c) {
-            return new Settings(c, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
-        }
-
-        public Settings withFeatures(boolean f) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, f, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
+            return edit(d -> {
+                d.steps = s;
+                d.burnIn = b;
+            });
         }
 
         /** Until converged, checking first after {@link #steps}, at most {@code max} steps and {@code seconds} seconds. */
         public Settings untilConverged(long max, double seconds) {
-            return new Settings(chains, steps, burnIn, seed, draws, true, max, seconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
+            return withStopping(true, max, seconds);
         }
 
-        public Settings withSeed(long sd) {
-            return new Settings(chains, steps, burnIn, sd, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
-        }
-
-        public Settings withDraws(int d) {
-            return new Settings(chains, steps, burnIn, seed, d, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
-        }
-
-        public Settings withRhatTarget(double t) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, t, mcseTarget, rungs, betaMin);
+        /** Until converged or not; the cap on steps and seconds apply only until converged. */
+        public Settings withStopping(boolean until, long max, double seconds) {
+            return edit(d -> {
+                d.untilConverged = until;
+                d.maxSteps = max;
+                d.maxSeconds = seconds;
+            });
         }
 
         /** A ladder of {@code r} tempered chains per reported chain, β from 1 down to {@code bMin}. */
         public Settings withTempering(int r, double bMin) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, relocate, rhatTarget, mcseTarget, r, bMin);
+            return edit(d -> {
+                d.rungs = r;
+                d.betaMin = bMin;
+            });
         }
 
+        /** {@code c} chains. */
+        public Settings withChains(int c) {
+            return edit(d -> d.chains = c);
+        }
+
+        /** Draws stored per chain (at least 4). */
+        public Settings withDraws(int dr) {
+            return edit(d -> d.draws = dr);
+        }
+
+        /** The seed of all randomness. */
+        public Settings withSeed(long sd) {
+            return edit(d -> d.seed = sd);
+        }
+
+        /** Whether a DAG is drawn per draw for ancestor and Markov-blanket features. */
+        public Settings withFeatures(boolean f) {
+            return edit(d -> d.features = f);
+        }
+
+        /** Bytes allowed for the per-child tables. */
         public Settings withTableBudget(long bytes) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, bytes, relocate, rhatTarget, mcseTarget, rungs, betaMin);
+            return edit(d -> d.tableBudget = bytes);
         }
 
+        /** The share of steps that are relocation (Gibbs) moves of one variable. */
         public Settings withRelocate(double r) {
-            return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features, tableBudget, r, rhatTarget, mcseTarget, rungs, betaMin);
+            return edit(d -> d.relocate = r);
+        }
+
+        /** The R̂ below which a quantity counts as converged. */
+        public Settings withRhatTarget(double t) {
+            return edit(d -> d.rhatTarget = t);
+        }
+
+        /** The MCSE at or below which an edge or feature posterior counts as converged. */
+        public Settings withMcseTarget(double t) {
+            return edit(d -> d.mcseTarget = t);
+        }
+
+        /** A copy with {@code change} applied, checked again by the canonical constructor. */
+        private Settings edit(java.util.function.Consumer<Draft> change) {
+            Draft d = new Draft(this);
+            change.accept(d);
+            return d.settings();
+        }
+
+        /**
+         * The one place that lists every setting (with its default) besides the record header: the
+         * {@code with…} methods change a draft copied from a settings object.
+         */
+        private static final class Draft {
+            int chains = 4;
+            long steps = 200_000;
+            long burnIn = 50_000;
+            long seed;
+            int draws = 1000;
+            boolean untilConverged;
+            long maxSteps;
+            double maxSeconds;
+            boolean features;
+            long tableBudget = 1L << 30;
+            double relocate = DEFAULT_RELOCATE;
+            double rhatTarget = ChainDiagnostics.RHAT_TARGET;
+            double mcseTarget = ConvergenceTargets.DEFAULT_MCSE;
+            int rungs = DEFAULT_RUNGS;
+            double betaMin = DEFAULT_BETA_MIN;
+
+            Draft() {
+            }
+
+            Draft(Settings s) {
+                chains = s.chains;
+                steps = s.steps;
+                burnIn = s.burnIn;
+                seed = s.seed;
+                draws = s.draws;
+                untilConverged = s.untilConverged;
+                maxSteps = s.maxSteps;
+                maxSeconds = s.maxSeconds;
+                features = s.features;
+                tableBudget = s.tableBudget;
+                relocate = s.relocate;
+                rhatTarget = s.rhatTarget;
+                mcseTarget = s.mcseTarget;
+                rungs = s.rungs;
+                betaMin = s.betaMin;
+            }
+
+            Settings settings() {
+                return new Settings(chains, steps, burnIn, seed, draws, untilConverged, maxSteps, maxSeconds, features,
+                        tableBudget, relocate, rhatTarget, mcseTarget, rungs, betaMin);
+            }
         }
     }
 

@@ -113,7 +113,7 @@ public final class OrderPosterior {
             double max = Double.NEGATIVE_INFINITY;
             int arg = -1;
             for (int s = 0; s < masks.length; s++) {
-                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t) && w[s] > max) {
+                if (PartitionScores.allowed(masks[s], element[i] == 0, b, t) && w[s] > max) {
                     max = w[s];
                     arg = s;
                 }
@@ -123,14 +123,14 @@ public final class OrderPosterior {
             }
             double sum = 0;
             for (int s = 0; s < masks.length; s++) {
-                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t)) {
+                if (PartitionScores.allowed(masks[s], element[i] == 0, b, t)) {
                     sum += Math.exp(w[s] - max);
                 }
             }
             double z = max + Math.log(sum);
             double[] p = new double[masks.length];
             for (int s = 0; s < masks.length; s++) {
-                if (PartitionChain.allowed(masks[s], element[i] == 0, b, t)) {
+                if (PartitionScores.allowed(masks[s], element[i] == 0, b, t)) {
                     p[s] = Math.exp(w[s] - z);
                     for (int par : ls.parents(i, s)) {
                         edge[par][i] += p[s];

@@ -17,12 +17,14 @@ import org.edgewise.driver.UserError;
  * sum over all DAGs: the chain's partitions, each with a DAG drawn from its allowed parent sets by
  * weight, are draws of P(G | D) under the structure-modular prior (uniform prior over partitions).
  *
- * <p><b>Per-node score</b>, by inclusion–exclusion on α_i(P) = Σ_{U ⊆ P} exp w_i(U) (the
+ * <p><b>Per-node score</b> ({@link PartitionScores}), by inclusion–exclusion on α_i(P) = Σ_{U ⊆ P} exp w_i(U) (the
  * {@link ChildTables} zeta transform): Σ_{U ⊆ B, U ∩ T ≠ ∅} = α_i(B) − α_i(B ∖ T) — two table lookups,
  * O(1). When the two agree to a relative 10⁻⁴ (the difference would lose digits) or the child is not
  * tabulated, the sum is taken directly over the child's allowed parent sets, O(#sets) (≤ 299 for
  * 12 candidates and d = 3). Cost per move: the masks (B, T) of every node, O(n·K) word operations,
- * and the rescoring of the nodes whose masks changed.
+ * and the rescoring of the nodes whose masks changed. The partition, its bookkeeping and the
+ * partition proposals live in {@link PartitionState}, the DAG moves in {@link DagMoves}; this class
+ * mixes the moves and records the draws.
  *
  * <p><b>State</b>: Λ and one DAG G whose partition is Λ ({@link PartitionDag}); the target is the joint
  * P(G | D) ∝ Π_i exp w_i(U_i) with Λ = Λ(G), whose marginal on Λ is π. <b>Moves</b>, each leaving
@@ -77,6 +79,8 @@ final class PartitionChain extends SteppedChain {
      */
     record Mix(double edge, double parents, double reversal, double block, double splitJoin) {
         static final Mix DEFAULT = new Mix(0.35, 0.05, 0.3, 0.25, 0.05);
+        /** The DAG moves, in the order their shares are laid on [0, 1): edge, parents, reversal, block. */
+        static final int DAG_MOVES = 4;
 
         Mix {
             if (!(edge >= 0 && parents >= 0 && reversal >= 0 && block >= 0 && splitJoin >= 0
@@ -84,11 +88,20 @@ final class PartitionChain extends SteppedChain {
                 throw new IllegalArgumentException("move shares must be ≥ 0 and add up to at most 1: " + this);
             }
         }
+
+        /** The share of DAG move {@code k} (0 edge, 1 parents, 2 reversal, 3 block). */
+        double dagShare(int k) {
+            return switch (k) {
+                case 0 -> edge;
+                case 1 -> parents;
+                case 2 -> reversal;
+                default -> block;
+            };
+        }
     }
 
     /** Largest n: N(Λ) involves 2^{|T_j|} as a double. */
     static final int MAX_VARIABLES = 1000;
-    private static final double DIRECT_BELOW = 1e-4;
 
     /** A stored draw: a linear extension of Λ, the drawn DAG (set index per child), elements, feature bits. */
     record State(int[] order, int[] sets, int[] element, long[] features) implements DrawStore.Drawn {
@@ -99,32 +112,14 @@ final class PartitionChain extends SteppedChain {
     private final int n;
     private final int[] edgeOffset;
     private final boolean features;
-    private final long[] excluded;
-    private final double[] emptyLog;
     private final SplittableRandom rng;
     private final SplittableRandom drawRng;
     private final Mix mix;
-
-    private int m;
-    private int[] elem;
-    private int[] size;
-    private final long[] pred;
-    private final long[] last;
-    private final double[] logSum;
-    private double score;
-    // proposal scratch
-    private int newM;
-    private int[] newElem;
-    private int[] newSize;
-    private final int[] chChild;
-    private final long[] chPred;
-    private final long[] chLast;
-    private final double[] chLog;
-    private int chCount;
+    private final PartitionScores scores;
+    private final PartitionState part;
     /** The chain's DAG, whose partition is Λ (drawn from P(G | Λ, D) after every partition move). */
     private PartitionDag dag;
     private DagMoves dagMoves;
-
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
                    SplittableRandom rng, DrawStore draws, Mix mix) {
@@ -140,34 +135,8 @@ final class PartitionChain extends SteppedChain {
         this.features = features;
         this.rng = rng;
         this.drawRng = rng.split();
-        excluded = new long[n];
-        emptyLog = new double[n];
-        for (int i = 0; i < n; i++) {
-            int[] cand = ls.candidates(i);
-            for (int k = 0; k < cand.length; k++) {
-                if (oc.restricts() && oc.mustPrecede(i, cand[k])) {
-                    excluded[i] |= 1L << k;
-                }
-            }
-            emptyLog[i] = Double.NEGATIVE_INFINITY;
-            long[] masks = ls.masks(i);
-            for (int s = 0; s < masks.length; s++) {
-                if (masks[s] == 0) {
-                    emptyLog[i] = ls.weights(i)[s];
-                }
-            }
-        }
-        elem = new int[n];
-        size = new int[n + 1];
-        newElem = new int[n];
-        newSize = new int[n + 1];
-        pred = new long[n];
-        last = new long[n];
-        logSum = new double[n];
-        chChild = new int[n];
-        chPred = new long[n];
-        chLast = new long[n];
-        chLog = new double[n];
+        scores = new PartitionScores(ls, tables, oc);
+        part = new PartitionState(ls, scores);
         start(oc);
     }
 
@@ -175,6 +144,7 @@ final class PartitionChain extends SteppedChain {
     private void start(OrderConstraints oc) {
         long[] mask = new long[n];
         double[] z = new double[n];
+        int[] element = new int[n];
         for (int attempt = 0; ; attempt++) {
             int[] order = oc.randomOrder(rng);
             int[] pos = OrderSum.positions(order, n);
@@ -187,15 +157,13 @@ final class PartitionChain extends SteppedChain {
             if (ok) {
                 int[] chosen = DagFeatures.sampleDag(ls, mask, z, rng);
                 dag = new PartitionDag(ls, chosen);
-                dagMoves = new DagMoves(ls, tables, this, excluded, dag, rng);
-                m = 0;
+                dagMoves = new DagMoves(ls, tables, scores, dag, rng);
                 for (int v : order) {
                     int layer = 0;
                     for (int p : ls.parents(v, chosen[v])) {
-                        layer = Math.max(layer, elem[p] + 1);
+                        layer = Math.max(layer, element[p] + 1);
                     }
-                    elem[v] = layer;
-                    m = Math.max(m, layer + 1);
+                    element[v] = layer;
                 }
                 break;
             }
@@ -204,92 +172,9 @@ final class PartitionChain extends SteppedChain {
                         + "(the required edges and the in-degree bound leave almost no order possible)");
             }
         }
-        for (int v = 0; v < n; v++) {
-            size[elem[v]]++;
-        }
-        score = 0;
-        for (int i = 0; i < n; i++) {
-            pred[i] = predMask(i, elem);
-            last[i] = lastMask(i, elem);
-            logSum[i] = childScore(i, elem[i], pred[i], last[i]);
-            score += logSum[i];
-        }
-        if (!(score > Double.NEGATIVE_INFINITY)) {
+        if (!(part.start(element) > Double.NEGATIVE_INFINITY)) {
             throw new IllegalStateException("the partition of a drawn DAG has no weight");
         }
-    }
-
-    private long predMask(int i, int[] el) {
-        int[] cand = ls.candidates(i);
-        int e = el[i];
-        long mk = 0;
-        for (int k = 0; k < cand.length; k++) {
-            if (el[cand[k]] < e) {
-                mk |= 1L << k;
-            }
-        }
-        return mk & ~excluded[i];
-    }
-
-    private long lastMask(int i, int[] el) {
-        int[] cand = ls.candidates(i);
-        int e = el[i] - 1;
-        long mk = 0;
-        for (int k = 0; k < cand.length; k++) {
-            if (el[cand[k]] == e) {
-                mk |= 1L << k;
-            }
-        }
-        return mk & ~excluded[i];
-    }
-
-    /** Whether parent set {@code mk} is allowed for a node with masks (b, t), in the first element or not. */
-    static boolean allowed(long mk, boolean first, long b, long t) {
-        return first ? mk == 0 : (mk & ~b) == 0 && (mk & t) != 0;
-    }
-
-    /** log Σ exp w_i(U) over U ⊆ b with U ∩ t ≠ ∅ (U = ∅ alone in the first element). */
-    double childScore(int i, int element, long b, long t) {
-        if (element == 0) {
-            return emptyLog[i];
-        }
-        if (t == 0) {
-            return Double.NEGATIVE_INFINITY;
-        }
-        double[] tab = tables.table(i);
-        if (tab != null) {
-            double a = tab[(int) b];
-            double c = tab[(int) (b & ~t)];
-            if (!(c > Double.NEGATIVE_INFINITY)) {
-                return a;
-            }
-            double share = -Math.expm1(c - a);
-            if (share > DIRECT_BELOW) {
-                return a + Math.log(share);
-            }
-        }
-        return direct(i, b, t);
-    }
-
-    private double direct(int i, long b, long t) {
-        long[] masks = ls.masks(i);
-        double[] w = ls.weights(i);
-        double max = Double.NEGATIVE_INFINITY;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~b) == 0 && (masks[s] & t) != 0 && w[s] > max) {
-                max = w[s];
-            }
-        }
-        if (!(max > Double.NEGATIVE_INFINITY)) {
-            return max;
-        }
-        double sum = 0;
-        for (int s = 0; s < masks.length; s++) {
-            if ((masks[s] & ~b) == 0 && (masks[s] & t) != 0) {
-                sum += Math.exp(w[s] - max);
-            }
-        }
-        return max + Math.log(sum);
     }
 
     @Override
@@ -318,16 +203,12 @@ final class PartitionChain extends SteppedChain {
 
     /** Current log π(Λ) (tests). */
     double logScore() {
-        return score;
+        return part.score();
     }
 
     /** log π(Λ) of the partition with {@code element[v]} the (0-based) element of node v (tests). */
     double logScoreOf(int[] element) {
-        double sum = 0;
-        for (int i = 0; i < n; i++) {
-            sum += childScore(i, element[i], predMask(i, element), lastMask(i, element));
-        }
-        return sum;
+        return scores.logScoreOf(element);
     }
 
     /** The chain's DAG: each child's parent-set index in {@link LocalScores#masks(int)} (a copy; tests). */
@@ -337,52 +218,35 @@ final class PartitionChain extends SteppedChain {
 
     /** Current element of every node (a copy; tests). */
     int[] elements() {
-        return elem.clone();
+        return part.elements().clone();
     }
 
+    /** One step: a DAG move by the shares of {@link #mix}, else a split/join or a swap of Λ. */
     void step() {
         if (n < 2) {
             return;
         }
         double u = rng.nextDouble();
-        if (u < mix.edge()) {
-            if (dagMoves.edge(elem)) {
-                follow();
-            }
-            return;
-        }
-        u -= mix.edge();
-        if (u < mix.parents()) {
-            if (dagMoves.parents()) {
-                follow();
-            }
-            return;
-        }
-        u -= mix.parents();
-        if (u < mix.reversal()) {
-            if (dagMoves.reversal()) {
-                follow();
-            }
-            return;
-        }
-        u -= mix.reversal();
-        if (u < mix.block()) {
-            if (dagMoves.block()) {
-                follow();
-            }
-            return;
-        }
-        u -= mix.block();
-        double logRatio;
-        if (u < mix.splitJoin()) {
-            logRatio = proposeSplitJoin();
-        } else {
-            if (m == 1) {
+        for (int k = 0; k < Mix.DAG_MOVES; k++) {
+            double share = mix.dagShare(k);
+            if (u < share) {
+                if (dagMove(k)) {
+                    follow();
+                }
                 return;
             }
-            logRatio = proposeSwap();
+            u -= share;
         }
-        double delta = rescore();
+        double logRatio;
+        if (u < mix.splitJoin()) {
+            logRatio = part.proposeSplitJoin(rng);
+        } else {
+            if (part.elementCount() == 1) {
+                return;
+            }
+            logRatio = part.proposeSwap(rng);
+        }
+        double delta = part.rescore();
         if (!(delta > Double.NEGATIVE_INFINITY)) {
             return;
         }
@@ -393,6 +257,16 @@ final class PartitionChain extends SteppedChain {
         accept(delta);
     }
 
+    /** DAG move {@code k} (in {@link Mix#dagShare}'s numbering); true when it changed the DAG. */
+    private boolean dagMove(int k) {
+        return switch (k) {
+            case 0 -> dagMoves.edge(part.elements());
+            case 1 -> dagMoves.parents();
+            case 2 -> dagMoves.reversal();
+            default -> dagMoves.block();
+        };
+    }
+
     /**
      * A partition move's acceptance: Λ' becomes the state and the chain's DAG is redrawn from
      * P(G | Λ', D) where that differs from P(G | Λ, D) — the children whose masks changed; the
@@ -400,163 +274,23 @@ final class PartitionChain extends SteppedChain {
      * over children and which the move, deciding on Λ alone, leaves as it was.
      */
     private void accept(double delta) {
-        commit(delta);
-        for (int k = 0; k < chCount; k++) {
-            int v = chChild[k];
-            dag.setParents(v, drawAllowed(v, rng.nextDouble()));
+        accepted++;
+        part.commit(delta);
+        for (int k = 0; k < part.changedCount(); k++) {
+            int v = part.changed(k);
+            dag.setParents(v, part.drawAllowed(v, rng.nextDouble()));
         }
-    }
-
-    /** Child v's parent set drawn among those allowed in the current Λ, by weight (inversion of u). */
-    private int drawAllowed(int v, double u) {
-        long[] masks = ls.masks(v);
-        double[] w = ls.weights(v);
-        boolean first = elem[v] == 0;
-        double acc = 0;
-        int chosen = -1;
-        for (int s = 0; s < masks.length; s++) {
-            if (allowed(masks[s], first, pred[v], last[v])) {
-                chosen = s;
-                acc += Math.exp(w[s] - logSum[v]);
-                if (u < acc) {
-                    break;
-                }
-            }
-        }
-        return chosen;
     }
 
     /** Λ follows the chain's DAG after a DAG move: its partition, rescored and made the state. */
     private void follow() {
-        newM = dag.layers(newElem);
-        java.util.Arrays.fill(newSize, 0);
-        for (int v = 0; v < n; v++) {
-            newSize[newElem[v]]++;
-        }
-        double delta = rescore();
+        part.proposeLayers(dag);
+        double delta = part.rescore();
         if (!(delta > Double.NEGATIVE_INFINITY)) {
             throw new IllegalStateException("the partition of an accepted DAG has no weight");
         }
-        commit(delta);
-    }
-
-    /** Makes the proposal in newElem (rescored, {@code delta}) the state. */
-    private void commit(double delta) {
         accepted++;
-        int[] t = elem;
-        elem = newElem;
-        newElem = t;
-        t = size;
-        size = newSize;
-        newSize = t;
-        m = newM;
-        for (int k = 0; k < chCount; k++) {
-            int v = chChild[k];
-            pred[v] = chPred[k];
-            last[v] = chLast[k];
-            logSum[v] = chLog[k];
-        }
-        score += delta;
-    }
-
-    private static double neighbours(int[] sz, int mm) {
-        double s = mm - 1;
-        for (int j = 0; j < mm; j++) {
-            s += Math.pow(2, sz[j]) - 2;
-        }
-        return s;
-    }
-
-    /** Fills newElem/newSize/newM with a uniformly drawn split or join; returns log N(Λ) − log N(Λ'). */
-    private double proposeSplitJoin() {
-        double total = neighbours(size, m);
-        double r = rng.nextDouble() * total;
-        int split = -1;
-        for (int j = 0; j < m; j++) {
-            double c = Math.pow(2, size[j]) - 2;
-            if (r < c) {
-                split = j;
-                break;
-            }
-            r -= c;
-        }
-        System.arraycopy(size, 0, newSize, 0, m + 1);
-        if (split >= 0) {
-            int j = split;
-            // a uniform non-empty proper subset A of T_j: fair coins, redrawn when empty or full
-            int inA;
-            do {
-                inA = 0;
-                for (int v = 0; v < n; v++) {
-                    if (elem[v] == j) {
-                        boolean a = rng.nextBoolean();
-                        newElem[v] = a ? j : j + 1;
-                        inA += a ? 1 : 0;
-                    } else {
-                        newElem[v] = elem[v] > j ? elem[v] + 1 : elem[v];
-                    }
-                }
-            } while (inA == 0 || inA == size[j]);
-            for (int k = m; k > j + 1; k--) {
-                newSize[k] = size[k - 1];
-            }
-            newSize[j] = inA;
-            newSize[j + 1] = size[j] - inA;
-            newM = m + 1;
-        } else {
-            int j = Math.min(m - 2, (int) r);
-            for (int v = 0; v < n; v++) {
-                newElem[v] = elem[v] > j ? elem[v] - 1 : elem[v];
-            }
-            newSize[j] = size[j] + size[j + 1];
-            for (int k = j + 1; k < m - 1; k++) {
-                newSize[k] = size[k + 1];
-            }
-            newSize[m - 1] = 0;
-            newM = m - 1;
-        }
-        return Math.log(total) - Math.log(neighbours(newSize, newM));
-    }
-
-    /** Two nodes in different elements exchange them (symmetric). */
-    private double proposeSwap() {
-        int v;
-        int w;
-        do {
-            v = rng.nextInt(n);
-            w = rng.nextInt(n);
-        } while (elem[v] == elem[w]);
-        System.arraycopy(elem, 0, newElem, 0, n);
-        System.arraycopy(size, 0, newSize, 0, m + 1);
-        newElem[v] = elem[w];
-        newElem[w] = elem[v];
-        newM = m;
-        return 0;
-    }
-
-    /** Masks and scores of the nodes whose masks change under newElem; returns log π(Λ') − log π(Λ). */
-    private double rescore() {
-        chCount = 0;
-        double delta = 0;
-        for (int i = 0; i < n; i++) {
-            long b = predMask(i, newElem);
-            long t = lastMask(i, newElem);
-            boolean first = newElem[i] == 0;
-            if (b == pred[i] && t == last[i] && first == (elem[i] == 0)) {
-                continue;
-            }
-            double l = childScore(i, newElem[i], b, t);
-            if (!(l > Double.NEGATIVE_INFINITY)) {
-                return Double.NEGATIVE_INFINITY;
-            }
-            chChild[chCount] = i;
-            chPred[chCount] = b;
-            chLast[chCount] = t;
-            chLog[chCount] = l;
-            chCount++;
-            delta += l - logSum[i];
-        }
-        return delta;
+        part.commit(delta);
     }
 
     @Override
@@ -564,38 +298,11 @@ final class PartitionChain extends SteppedChain {
         float[] row = new float[edgeOffset[n]];
         int[] sets = new int[n];
         for (int i = 0; i < n; i++) {
-            long[] masks = ls.masks(i);
-            double[] w = ls.weights(i);
-            double z = logSum[i];
-            long b = pred[i];
-            long t = last[i];
-            boolean first = elem[i] == 0;
-            int off = edgeOffset[i];
-            double u = drawRng.nextDouble();
-            double acc = 0;
-            int chosen = -1;
-            for (int s = 0; s < masks.length; s++) {
-                long mk = masks[s];
-                if (!allowed(mk, first, b, t)) {
-                    continue;
-                }
-                double p = Math.exp(w[s] - z);
-                acc += p;
-                if (chosen < 0 && u < acc) {
-                    chosen = s;
-                }
-                for (long r = mk; r != 0; r &= r - 1) {
-                    row[off + Long.numberOfTrailingZeros(r)] += (float) p;
-                }
-                if (chosen < 0) {
-                    chosen = -2 - s; // last allowed so far, in case rounding leaves u ≥ acc
-                }
-            }
-            sets[i] = chosen >= 0 ? chosen : -2 - chosen;
+            sets[i] = part.tallyAndDraw(i, drawRng.nextDouble(), row, edgeOffset[i]);
         }
-        int[] order = linearExtension();
+        int[] order = part.linearExtension();
         long[] feats = features ? DagFeatures.indicators(ls, sets, order) : null;
-        draws.add(stepsDone, row, dagLogScore(), new State(order, sets, elem.clone(), feats));
+        draws.add(stepsDone, row, dagLogScore(), new State(order, sets, part.elements().clone(), feats));
     }
 
     /**
@@ -610,21 +317,5 @@ final class PartitionChain extends SteppedChain {
             lp += ls.weights(i)[dag.set(i)];
         }
         return lp;
-    }
-
-    /** The nodes by element (a linear extension of every DAG of Λ). */
-    private int[] linearExtension() {
-        int[] start = new int[m + 1];
-        for (int v = 0; v < n; v++) {
-            start[elem[v] + 1]++;
-        }
-        for (int j = 0; j < m; j++) {
-            start[j + 1] += start[j];
-        }
-        int[] order = new int[n];
-        for (int v = 0; v < n; v++) {
-            order[start[elem[v]]++] = v;
-        }
-        return order;
     }
 }

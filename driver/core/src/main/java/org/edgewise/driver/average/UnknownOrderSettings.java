@@ -125,11 +125,13 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
      */
     public OrderMcmc.Settings mcmc(boolean withFeatures) {
         long first = steps == null ? FIRST_CHECK : steps;
-        return new OrderMcmc.Settings(chains, first, burnInSteps(), seed, draws, untilConverged(),
-                maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps, maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds,
-                withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4),
-                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget(), targets().mcse(), OrderMcmc.Settings.DEFAULT_RUNGS,
-                OrderMcmc.Settings.DEFAULT_BETA_MIN);
+        double mcse = targets().mcse();
+        // in the order of the settings' own checks, so a refusal names the same value first
+        return OrderMcmc.Settings.defaults(seed).withChains(chains).withSteps(first, burnInSteps()).withDraws(draws)
+                .withRhatTarget(rhatTarget()).withMcseTarget(mcse)
+                .withStopping(untilConverged(), maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps,
+                        maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds)
+                .withFeatures(withFeatures).withTableBudget(Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4));
     }
 
     /** The order constraints: these tiers when given, else the store's. */
