@@ -10,7 +10,7 @@ import java.util.Locale;
 import java.util.Random;
 import java.util.stream.IntStream;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.cli.EdgewiseCli;

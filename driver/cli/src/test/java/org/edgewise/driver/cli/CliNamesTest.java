@@ -9,9 +9,9 @@ import java.io.StringWriter;
 import java.util.List;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DrawStore;
-import org.edgewise.driver.average.McmcMemory;
-import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.average.mcmc.DrawStore;
+import org.edgewise.driver.average.mcmc.McmcMemory;
+import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
 import org.junit.jupiter.api.Test;
 
 /** The CLI words the core's typed user errors with its own option names; other failures pass through. */

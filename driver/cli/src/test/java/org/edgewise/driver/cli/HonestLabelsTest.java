@@ -9,7 +9,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import org.edgewise.driver.HeldOutData;
-import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;

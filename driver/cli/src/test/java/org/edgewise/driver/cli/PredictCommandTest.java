@@ -11,7 +11,7 @@ import java.nio.file.Path;
 import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.score.FamilyScore;

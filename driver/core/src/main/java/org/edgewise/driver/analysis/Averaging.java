@@ -1,7 +1,7 @@
 package org.edgewise.driver.analysis;
 
 import java.util.List;
-import org.edgewise.driver.average.ConvergenceTargets;
+import org.edgewise.driver.average.convergence.ConvergenceTargets;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.score.DagPrior;
 

@@ -2,11 +2,13 @@ package org.edgewise.driver.analysis;
 
 import java.util.ArrayList;
 import java.util.List;
-import org.edgewise.driver.average.ChainDiagnostics;
-import org.edgewise.driver.average.MultiChainDiagnostics;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.average.mcmc.McmcResult;
+import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * The {@code diagnostics} of a sampled result, from the chains of order MCMC or partition MCMC
@@ -20,7 +22,7 @@ final class ChainReport {
     private ChainReport() {
     }
 
-    static EdgeResult.Diagnostics diagnostics(OrderMcmc.Result r, UnknownOrderSettings s) {
+    static EdgeResult.Diagnostics diagnostics(McmcResult r, UnknownOrderSettings s) {
         int traceEvery = Math.max(1, r.traces().get(0).length / TRACE_POINTS);
         List<List<Double>> traces = new ArrayList<>();
         for (double[] t : r.traces()) {
@@ -41,12 +43,12 @@ final class ChainReport {
                 (int) Math.min(Integer.MAX_VALUE, r.thin() * traceEvery), s.rhatTarget(), ChainDiagnostics.ESS_TARGET,
                 s.targets().mcse(), finite(rep.maxMcse()), finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(),
                 rep.settled(), rep.stuck(), ChainDiagnostics.SETTLE_SPAN, worst, rep.drawsPerChain(),
-                OrderMcmc.Settings.DEFAULT_RELOCATE, r.outcome().checks(), r.outcome().checkSeconds(),
+                McmcSettings.DEFAULT_RELOCATE, r.outcome().checks(), r.outcome().checkSeconds(),
                 r.outcome().samplingSeconds(), tempering(r), r.memory() == null ? null : r.memory().totalBytes());
     }
 
     /** The ladder behind each chain, or null when the chains were not tempered. */
-    static EdgeResult.Tempering tempering(OrderMcmc.Result r) {
+    static EdgeResult.Tempering tempering(McmcResult r) {
         if (r.memory() == null || r.memory().rungs() == 1) {
             return null;
         }

@@ -5,16 +5,18 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.McseBound;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.convergence.McseBound;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /**
  * The {@code edges} service: asks a {@link StructurePosterior} for its edge and parent-set
@@ -91,7 +93,7 @@ public final class EdgeAnalysis {
         EdgeResult.Settings settings = new EdgeResult.Settings(base.score(), base.ess(), base.prior(), base.maxParents(),
                 base.forbid(), base.require(), p.tiers());
         int[] order = p.order();
-        OrderMcmc.Result chains = p.chains();
+        McmcResult chains = p.chains();
         DagDraws essential = p.essentialDraws();
         EdgeResult r = new EdgeResult(l.method(), names, e.logEvidence(), e.logEvidenceNormalized(),
                 l.dagPriorLabel(ResultBuilder.ORDER_MODULAR), order == null ? null : VariableOrder.names(ls.store().manifest(), order),
@@ -112,7 +114,7 @@ public final class EdgeAnalysis {
                 if (a == b) {
                     continue;
                 }
-                OrderMcmc.Estimate e = est.sampled()[a][b];
+                Estimate e = est.sampled()[a][b];
                 edges.add(e == null ? new EdgeResult.Edge(names.get(a), names.get(b), 0.0, 0.0, null)
                         : new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()),
                         finite(McseBound.reported(clamp(e.mean()), e.mcse(), est.draws())), finite(e.rhat())));
@@ -158,10 +160,10 @@ public final class EdgeAnalysis {
         List<EdgeResult.EssentialPair> out = new ArrayList<>();
         for (int a = 0; a < n; a++) {
             for (int b = a + 1; b < n; b++) {
-                OrderMcmc.Estimate adj = d.estimate(d.adjacent(a, b));
-                OrderMcmc.Estimate ab = d.estimate(d.compelled(a, b));
-                OrderMcmc.Estimate ba = d.estimate(d.compelled(b, a));
-                OrderMcmc.Estimate un = d.estimate(d.reversible(a, b));
+                Estimate adj = d.estimate(d.adjacent(a, b));
+                Estimate ab = d.estimate(d.compelled(a, b));
+                Estimate ba = d.estimate(d.compelled(b, a));
+                Estimate un = d.estimate(d.reversible(a, b));
                 double mcse = Math.max(Math.max(adj.mcse(), ab.mcse()), Math.max(ba.mcse(), un.mcse()));
                 out.add(new EdgeResult.EssentialPair(names.get(a), names.get(b), clamp(adj.mean()), clamp(ab.mean()),
                         clamp(ba.mean()), clamp(un.mean()), finite(mcse)));

@@ -12,7 +12,7 @@ import org.edgewise.driver.InputNames;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.ExactOrders;

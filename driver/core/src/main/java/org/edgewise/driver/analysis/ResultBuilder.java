@@ -7,7 +7,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.Manifest;

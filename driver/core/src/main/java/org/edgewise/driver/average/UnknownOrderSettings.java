@@ -5,6 +5,9 @@ import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.ConvergenceTargets;
+import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * What an average over unknown orders is asked for.
@@ -123,11 +126,11 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
      * The order-MCMC settings: the per-child tables may take a quarter of the JVM's maximum heap
      * (at least 64 MiB).
      */
-    public OrderMcmc.Settings mcmc(boolean withFeatures) {
+    public McmcSettings mcmc(boolean withFeatures) {
         long first = steps == null ? FIRST_CHECK : steps;
         double mcse = targets().mcse();
         // in the order of the settings' own checks, so a refusal names the same value first
-        return OrderMcmc.Settings.defaults(seed).withChains(chains).withSteps(first, burnInSteps()).withDraws(draws)
+        return McmcSettings.defaults(seed).withChains(chains).withSteps(first, burnInSteps()).withDraws(draws)
                 .withRhatTarget(rhatTarget()).withMcseTarget(mcse)
                 .withStopping(untilConverged(), maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps,
                         maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds)

@@ -8,10 +8,10 @@ import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DagFeatures;
+import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
-import org.edgewise.driver.average.OrderSum;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.CasePredictor;
 
@@ -41,7 +41,7 @@ import org.edgewise.driver.query.CasePredictor;
  * <p>MCSE of a sampled ratio by the delta method: the standard error of the mean of
  * z_k = (a_k − R b_k)/b̄ (Owen 2013, "Monte Carlo theory, methods and examples", §9.2), over
  * independent draws sqrt(Σ w_k² z_k²)/Σ w_k; over chains of order MCMC from
- * {@link org.edgewise.driver.average.ChainDiagnostics} (autocorrelation-aware, Vehtari et al. 2021).
+ * {@link org.edgewise.driver.average.convergence.ChainDiagnostics} (autocorrelation-aware, Vehtari et al. 2021).
  *
  * <p>Memory: per order (or DAG) 9 doubles per query; one {@link CasePredictor} at a time.
  */

@@ -11,7 +11,7 @@ import static org.edgewise.driver.effect.EffectEngine.VS_GIVEN;
 import static org.edgewise.driver.effect.EffectEngine.VS_JOINT;
 
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.LogSum;
 
 /**

@@ -2,7 +2,9 @@ package org.edgewise.driver.posterior;
 
 import java.util.ArrayList;
 import java.util.List;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /** What order chains and partition chains report alike: Rao-Blackwellised edges, chain-time features, thinning. */
 final class ChainSummaries {
@@ -15,12 +17,12 @@ final class ChainSummaries {
     }
 
     /** The chains' Rao-Blackwellised edge estimates (a pair that is no candidate: exactly 0). */
-    static StructurePosterior.EdgeEstimates edges(OrderMcmc.Result r) {
+    static StructurePosterior.EdgeEstimates edges(McmcResult r) {
         int n = r.edges().length;
         double[][] mean = new double[n][n];
         for (int a = 0; a < n; a++) {
             for (int b = 0; b < n; b++) {
-                OrderMcmc.Estimate e = r.edges()[a][b];
+                Estimate e = r.edges()[a][b];
                 mean[a][b] = a == b || e == null ? 0.0 : e.mean();
             }
         }
@@ -28,7 +30,7 @@ final class ChainSummaries {
     }
 
     /** The ancestor and Markov-blanket estimates the chains kept, errors bounded by the rule of three. */
-    static StructurePosterior.Features features(OrderMcmc.Result r) {
+    static StructurePosterior.Features features(McmcResult r) {
         int n = r.edges().length;
         double[][][] f = new double[4][n][n];
         for (int a = 0; a < n; a++) {

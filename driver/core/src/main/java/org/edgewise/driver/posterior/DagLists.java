@@ -4,14 +4,16 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DagDraws;
-import org.edgewise.driver.average.DagFeatures;
+import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.McseBound;
-import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.OrderSum;
-import org.edgewise.driver.average.PartitionMcmc;
+import org.edgewise.driver.average.convergence.McseBound;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.givenorder.OrderSum;
+import org.edgewise.driver.average.partition.PartitionMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /**
  * DAG lists from chains (as parent bitmasks, n ≤ {@value #MAX_DRAW_VARIABLES}) and the ancestor and
@@ -25,7 +27,7 @@ final class DagLists {
     }
 
     /** DAGs drawn over MCMC's stored orders, {@code group} per order (order-modular DAG draws). */
-    static DagDraws fromChains(LocalScores ls, OrderMcmc.Result r, int chains, int samples, long seed) {
+    static DagDraws fromChains(LocalScores ls, McmcResult r, int chains, int samples, long seed) {
         int n = ls.variableCount();
         checkDrawable(ls);
         int perChain = r.orders().size() / chains;
@@ -93,12 +95,12 @@ final class DagLists {
         for (int a = 0; a < n; a++) {
             for (int b = 0; b < n; b++) {
                 if (a != b && s.ancestors()) {
-                    OrderMcmc.Estimate e = d.estimate(d.ancestor(a, b));
+                    Estimate e = d.estimate(d.ancestor(a, b));
                     f[0][a][b] = e.mean();
                     f[1][a][b] = e.mcse();
                 }
                 if (a < b && s.markovBlanket()) {
-                    OrderMcmc.Estimate e = d.estimate(d.blanket(a, b));
+                    Estimate e = d.estimate(d.blanket(a, b));
                     f[2][a][b] = e.mean();
                     f[3][a][b] = e.mcse();
                 }

@@ -3,13 +3,13 @@ package org.edgewise.driver.posterior;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.BestDagOrder;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.givenorder.BestDagOrder;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
-import org.edgewise.driver.average.ExactDagSampler;
+import org.edgewise.driver.average.exact.ExactDagSampler;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.query.StructureCasePrediction;
 

@@ -2,7 +2,7 @@ package org.edgewise.driver.posterior;
 
 import java.util.List;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.effect.EffectOrders;
 import org.edgewise.driver.query.CasePredictor;
 

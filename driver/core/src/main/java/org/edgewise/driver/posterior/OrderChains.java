@@ -2,16 +2,17 @@ package org.edgewise.driver.posterior;
 
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.OrderSampling;
-import org.edgewise.driver.average.SampledOrders;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.mcmc.OrderSampling;
+import org.edgewise.driver.average.ordermcmc.SampledOrders;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.effect.EffectOrders;
 import org.edgewise.driver.query.OrderMixture;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /**
  * Order MCMC under the order-modular DAG prior (Friedman &amp; Koller 2003; {@link OrderMcmc}):
@@ -25,7 +26,7 @@ public final class OrderChains implements StructurePosterior {
     private final UnknownOrderSettings s;
     private final OrderConstraints oc;
     private final ProgressListener progress;
-    private OrderMcmc.Result r;
+    private McmcResult r;
 
     OrderChains(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
         this.ls = ls;
@@ -35,7 +36,7 @@ public final class OrderChains implements StructurePosterior {
     }
 
     @Override
-    public OrderMcmc.Result chains() {
+    public McmcResult chains() {
         if (r == null) {
             r = OrderSampling.runMcmc(ls, oc, s, s.features(), progress);
         }

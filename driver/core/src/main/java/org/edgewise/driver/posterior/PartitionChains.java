@@ -2,15 +2,16 @@ package org.edgewise.driver.posterior;
 
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.OrderSampling;
-import org.edgewise.driver.average.PartitionMcmc;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.mcmc.OrderSampling;
+import org.edgewise.driver.average.partition.PartitionMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.query.OrderMixture;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /**
  * Partition MCMC under the structure-modular DAG prior (Kuipers &amp; Moffa 2017, with DAG moves;
@@ -44,7 +45,7 @@ public final class PartitionChains implements StructurePosterior {
     }
 
     @Override
-    public OrderMcmc.Result chains() {
+    public McmcResult chains() {
         return run().chains();
     }
 

@@ -1,21 +1,21 @@
 package org.edgewise.driver.posterior;
 
 import java.util.Locale;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 
 /**
  * DAGs from the structure-modular posterior P(G | D) ∝ Π_i ρ_i(U_i) exp(s(i, U_i)), as the list
  * {@link org.edgewise.driver.effect.EffectEngine#overDags} averages over:
  * <ul>
- *   <li>exact: {@value ExactDags#EFFECT_DAG_DRAWS} independent exact draws ({@link org.edgewise.driver.average.ExactDagSampler}, by
+ *   <li>exact: {@value ExactDags#EFFECT_DAG_DRAWS} independent exact draws ({@link org.edgewise.driver.average.exact.ExactDagSampler}, by
  *       rejection from the order-modular sampler against the exact structure-modular sum), or, when
  *       rejection would take too long, 4× as many importance-weighted draws (weight 1/ext(G),
  *       self-normalised);</li>
- *   <li>mcmc: the DAGs partition MCMC draws, one per stored partition ({@link org.edgewise.driver.average.PartitionMcmc};
+ *   <li>mcmc: the DAGs partition MCMC draws, one per stored partition ({@link org.edgewise.driver.average.partition.PartitionMcmc};
  *       {@link DagLists#fromPartitions}), chain by chain for an autocorrelation-aware MCSE.</li>
  * </ul>
  * Memory: n ints per DAG (≈ 0.8 MB for 20,000 DAGs on 10 variables).

@@ -2,15 +2,17 @@ package org.edgewise.driver.posterior;
 
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.DagDraws;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.effect.EffectOrders;
 import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.OrderMixture;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.mcmc.McmcResult;
 
 /**
  * The posterior over structures that every query of one request averages over, chosen once
@@ -79,7 +81,7 @@ public sealed interface StructurePosterior permits GivenOrder, ExactOrders, Exac
     }
 
     /** The chains behind a sampled posterior (diagnostics, traces), or null when it is exact. */
-    default OrderMcmc.Result chains() {
+    default McmcResult chains() {
         return null;
     }
 
@@ -119,7 +121,7 @@ public sealed interface StructurePosterior permits GivenOrder, ExactOrders, Exac
      * @param logEvidence           log P(D) summed over the source's structures, or null when sampled
      * @param logEvidenceNormalized given an order, the evidence with the prior renormalised per order; else null
      */
-    record EdgeEstimates(double[][] posterior, OrderMcmc.Estimate[][] sampled, long draws, Double logEvidence,
+    record EdgeEstimates(double[][] posterior, Estimate[][] sampled, long draws, Double logEvidence,
                          Double logEvidenceNormalized) {
     }
 

@@ -7,7 +7,7 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.store.ScoreStore;
 
 /**

@@ -18,7 +18,7 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
@@ -148,7 +148,7 @@ class DagPriorAveragingTest {
         ScoreStore s = random(5, 4, 60, 93);
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
         double[][][] exact = enumeratedEssential(ls, DagPrior.STRUCTURE_MODULAR);
-        var d = org.edgewise.driver.average.ExactDagSampler.of(ls, OrderConstraints.none(5)).drawWeighted(40_000, 3);
+        var d = org.edgewise.driver.average.exact.ExactDagSampler.of(ls, OrderConstraints.none(5)).drawWeighted(40_000, 3);
         List<String> names = EdgeAnalysis.names(ls);
         for (EdgeResult.EssentialPair p : EdgeAnalysis.essential(names, d)) {
             int a = s.manifest().variableIndex(p.a());
