@@ -3,9 +3,7 @@ package org.edgewise.driver.cli;
 import java.nio.file.Path;
 import org.edgewise.driver.Checks;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.score.FamilyScore;
@@ -14,6 +12,7 @@ import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
+import org.edgewise.driver.result.FamilyScores;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -56,7 +55,7 @@ final class ScoresCommand implements Callable<Integer> {
         boolean rescore = kind.rescores(stored, m.ess(), e);
         FamilyScore fs = FamilyScore.of(kind, e);
         StringBuilder sb = new StringBuilder();
-        List<Map<String, Object>> rows = new ArrayList<>();
+        List<FamilyScores.Family> rows = new ArrayList<>();
         if (fmt.equals("csv")) {
             sb.append("child,parents,logScore\n");
         }
@@ -73,14 +72,10 @@ final class ScoresCommand implements Callable<Integer> {
                 sb.append(CsvFields.quote(child)).append(',').append(CsvFields.quote(String.join(";", parents)))
                         .append(',').append(Double.toString(lp)).append('\n');
             } else {
-                Map<String, Object> row = new LinkedHashMap<>();
-                row.put("child", child);
-                row.put("parents", parents);
-                row.put("logScore", lp);
-                rows.add(row);
+                rows.add(new FamilyScores.Family(child, parents, lp));
             }
         }
-        String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(rows) + "\n";
+        String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(new FamilyScores(kind.label(), kind.reportedEss(e), rows)) + "\n";
         output.write(spec, text);
         return 0;
     }

@@ -24,7 +24,7 @@ import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CaseTable;
 import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.query.OrderMixture;
-import org.edgewise.driver.query.Prediction;
+import org.edgewise.driver.result.Prediction;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;

@@ -25,7 +25,18 @@ import org.edgewise.driver.network.Network;
  * variables the result lacks are listed in {@code truthOnly}.
  */
 public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranking directed, Ranking skeleton,
-                           String skeletonScore, Consensus consensus, List<String> truthOnly) {
+                           String skeletonScore, Consensus consensus, List<String> truthOnly)
+        implements org.edgewise.driver.result.JsonResult {
+    @Override
+    public String kind() {
+        return "recovery";
+    }
+
+    @Override
+    public int formatVersion() {
+        return 1;
+    }
+
     /** How a pair is scored for the skeleton figures (stated in the JSON output). */
     public static final String SKELETON_SCORE = "min(1, P(a->b) + P(b->a))";
 

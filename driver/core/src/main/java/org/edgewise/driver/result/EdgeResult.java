@@ -34,7 +34,16 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          List<VariableParents> parentSets, Network bestNetwork,
                          Diagnostics diagnostics, List<Feature> features,
                          List<Sensitivity> sensitivity, String dagPrior,
-                         List<EssentialPair> essentialGraph) {
+                         List<EssentialPair> essentialGraph) implements JsonResult {
+    @Override
+    public String kind() {
+        return "edges";
+    }
+
+    @Override
+    public int formatVersion() {
+        return ResultJson.EDGES_FORMAT_VERSION;
+    }
 
     /**
      * Posterior features of the essential graph (CPDAG; Chickering 1995, Andersson, Madigan &amp;

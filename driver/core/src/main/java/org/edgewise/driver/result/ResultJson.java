@@ -33,9 +33,10 @@ public final class ResultJson {
     private ResultJson() {
     }
 
+    /** {@code value} as indented JSON; a {@link JsonResult} with its {@code formatVersion} and {@code kind} first. */
     public static String toJson(Object value) {
         try {
-            return MAPPER.writeValueAsString(value instanceof EdgeResult r ? versioned(r) : value);
+            return MAPPER.writeValueAsString(value instanceof JsonResult r ? stamped(r) : value);
         } catch (IOException e) {
             throw new IllegalStateException(e);
         }
@@ -55,11 +56,15 @@ public final class ResultJson {
         }
     }
 
-    /** The result as a JSON object with {@code formatVersion} first. */
-    private static ObjectNode versioned(EdgeResult r) {
+    /** The result as a JSON object with {@code formatVersion} and {@code kind} first: the one place they are written. */
+    private static ObjectNode stamped(JsonResult r) {
         ObjectNode node = MAPPER.createObjectNode();
-        node.put("formatVersion", EDGES_FORMAT_VERSION);
-        node.setAll((ObjectNode) MAPPER.valueToTree(r));
+        node.put("formatVersion", r.formatVersion());
+        node.put("kind", r.kind());
+        ObjectNode fields = (ObjectNode) MAPPER.valueToTree(r);
+        fields.remove("formatVersion");
+        fields.remove("kind");
+        node.setAll(fields);
         return node;
     }
 
@@ -71,6 +76,10 @@ public final class ResultJson {
             JsonNode tree = MAPPER.readTree(file.toFile());
             if (tree == null || tree.get("variables") == null || tree.get("edges") == null) {
                 throw new UserError("result file " + file + " is not an edges result (no variables or edges)");
+            }
+            JsonNode kind = tree.get("kind");
+            if (kind != null && !kind.asText().equals("edges")) {
+                throw new UserError("result file " + file + " is a " + kind.asText() + " result, not an edges result");
             }
             JsonNode version = tree.get("formatVersion");
             if (version == null || !version.canConvertToInt() || version.asInt() != EDGES_FORMAT_VERSION) {

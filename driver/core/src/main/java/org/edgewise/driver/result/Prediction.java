@@ -1,4 +1,4 @@
-package org.edgewise.driver.query;
+package org.edgewise.driver.result;
 
 import com.fasterxml.jackson.annotation.JsonInclude;
 import java.util.List;
@@ -39,5 +39,17 @@ public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") 
                          List<String> hiddenSummedOut, double hiddenJointStates, List<String> order,
                          String score, Double ess, String prior, int maxParents, double skippedPosteriorMass,
                          String note, String method, String averagedOver, Integer samples, Double mcse, String dagPrior,
-                         Boolean exactCase) {
+                         Boolean exactCase) implements JsonResult {
+    /** The format version written: 2 since {@code averagedOver} and {@code samples} replaced {@code orders} and {@code orderSamples}. */
+    public static final int FORMAT_VERSION = 2;
+
+    @Override
+    public String kind() {
+        return "prediction";
+    }
+
+    @Override
+    public int formatVersion() {
+        return FORMAT_VERSION;
+    }
 }
