@@ -1,6 +1,5 @@
 package org.edgewise.driver.cli;
 
-import java.io.PrintWriter;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;

@@ -4,7 +4,6 @@ import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.average.mcmc.McmcResult;

@@ -8,7 +8,6 @@ import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;

@@ -1,9 +1,7 @@
 package org.edgewise.driver.analysis;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.UnknownOrderSettings;

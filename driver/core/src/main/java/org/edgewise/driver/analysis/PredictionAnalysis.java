@@ -2,10 +2,8 @@ package org.edgewise.driver.analysis;
 
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
-import java.util.Map;
 import java.util.stream.IntStream;
 import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.InputNames;

@@ -8,7 +8,6 @@ import java.util.List;
 import java.util.Map;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.givenorder.OrderPosterior;
-import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;

@@ -2,7 +2,6 @@ package org.edgewise.driver.posterior;
 
 import java.util.ArrayList;
 import java.util.List;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.mcmc.McmcResult;
 

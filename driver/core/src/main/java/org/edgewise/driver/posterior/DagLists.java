@@ -8,7 +8,6 @@ import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.average.partition.PartitionMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;

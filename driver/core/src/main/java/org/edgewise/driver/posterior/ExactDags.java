@@ -19,24 +19,17 @@ import org.edgewise.driver.query.StructureCasePrediction;
  * log P(D); features and effects from DAGs drawn exactly ({@link ExactDagSampler}); a case's
  * probability exactly as Z(D + case) / Z(D).
  */
-public final class ExactDags implements StructurePosterior {
+public final class ExactDags extends UnknownOrders {
     /** DAGs drawn for an effect. */
     public static final int EFFECT_DAG_DRAWS = 20_000;
     /** Importance-weighted exact draws per asked sample, when rejection would take too long. */
     static final int WEIGHTED_FACTOR = 4;
 
-    private final LocalScores ls;
-    private final UnknownOrderSettings s;
-    private final OrderConstraints oc;
-    private final ProgressListener progress;
     private StructureSum.Result sum;
     private DagDraws draws;
 
     ExactDags(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
-        this.ls = ls;
-        this.s = s;
-        this.oc = s.constraints(ls);
-        this.progress = progress;
+        super(ls, s, progress);
     }
 
     private StructureSum.Result sum() {
@@ -84,18 +77,8 @@ public final class ExactDags implements StructurePosterior {
     }
 
     @Override
-    public LocalScores scores() {
-        return ls;
-    }
-
-    @Override
     public Labels labels() {
         return new Labels("exact", DagPrior.STRUCTURE_MODULAR, null);
-    }
-
-    @Override
-    public List<List<String>> tiers() {
-        return oc.tierNames().isEmpty() ? null : oc.tierNames();
     }
 
     @Override

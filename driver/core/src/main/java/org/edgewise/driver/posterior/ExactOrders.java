@@ -23,7 +23,7 @@ import org.edgewise.driver.query.OrderMixture;
  * order with its exact weight while there are few, else over orders drawn exactly (then sampled,
  * with a Monte Carlo error).
  */
-public final class ExactOrders implements StructurePosterior {
+public final class ExactOrders extends UnknownOrders {
     /** Largest n for which prediction mixes every allowed order (at most 5,040). */
     public static final int PREDICT_ENUMERATE_MAX = 7;
     /** Largest n for which an effect averages over every allowed order (at most 40,320). */
@@ -33,17 +33,10 @@ public final class ExactOrders implements StructurePosterior {
     /** Orders drawn from the exact order posterior for an effect beyond {@link #EFFECT_ENUMERATE_MAX}. */
     public static final int EFFECT_SAMPLED_ORDERS = 2000;
 
-    private final LocalScores ls;
-    private final UnknownOrderSettings s;
-    private final OrderConstraints oc;
-    private final ProgressListener progress;
     private ExactOrderSum.Result sum;
 
     ExactOrders(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
-        this.ls = ls;
-        this.s = s;
-        this.oc = s.constraints(ls);
-        this.progress = progress;
+        super(ls, s, progress);
     }
 
     /** The exact sum (with the orders features need drawn alongside), computed once. */
@@ -66,18 +59,8 @@ public final class ExactOrders implements StructurePosterior {
     }
 
     @Override
-    public LocalScores scores() {
-        return ls;
-    }
-
-    @Override
     public Labels labels() {
         return new Labels("exact", DagPrior.ORDER_MODULAR, null);
-    }
-
-    @Override
-    public List<List<String>> tiers() {
-        return oc.tierNames().isEmpty() ? null : oc.tierNames();
     }
 
     @Override

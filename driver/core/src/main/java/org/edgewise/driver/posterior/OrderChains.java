@@ -5,7 +5,6 @@ import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.mcmc.OrderSampling;
 import org.edgewise.driver.average.ordermcmc.SampledOrders;
@@ -21,18 +20,11 @@ import org.edgewise.driver.average.mcmc.McmcResult;
  * effects over at most {@value ChainSummaries#EFFECT_ORDERS_PER_CHAIN} orders per chain, chains
  * kept apart for an autocorrelation-aware MCSE. The chains run once, when first asked.
  */
-public final class OrderChains implements StructurePosterior {
-    private final LocalScores ls;
-    private final UnknownOrderSettings s;
-    private final OrderConstraints oc;
-    private final ProgressListener progress;
+public final class OrderChains extends UnknownOrders {
     private McmcResult r;
 
     OrderChains(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
-        this.ls = ls;
-        this.s = s;
-        this.oc = s.constraints(ls);
-        this.progress = progress;
+        super(ls, s, progress);
     }
 
     @Override
@@ -44,18 +36,8 @@ public final class OrderChains implements StructurePosterior {
     }
 
     @Override
-    public LocalScores scores() {
-        return ls;
-    }
-
-    @Override
     public Labels labels() {
         return new Labels("mcmc", DagPrior.ORDER_MODULAR, "order MCMC");
-    }
-
-    @Override
-    public List<List<String>> tiers() {
-        return oc.tierNames().isEmpty() ? null : oc.tierNames();
     }
 
     @Override

@@ -1,12 +1,9 @@
 package org.edgewise.driver.posterior;
 
-import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.mcmc.OrderSampling;
 import org.edgewise.driver.average.partition.PartitionMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -20,18 +17,11 @@ import org.edgewise.driver.average.mcmc.McmcResult;
  * {@value ChainSummaries#MAX_MIXED} stored partitions, each averaged over its DAGs in closed form;
  * effects and the essential graph over the DAGs the chains drew. The chains run once, when first asked.
  */
-public final class PartitionChains implements StructurePosterior {
-    private final LocalScores ls;
-    private final UnknownOrderSettings s;
-    private final OrderConstraints oc;
-    private final ProgressListener progress;
+public final class PartitionChains extends UnknownOrders {
     private PartitionMcmc.Result r;
 
     PartitionChains(LocalScores ls, UnknownOrderSettings s, ProgressListener progress) {
-        this.ls = ls;
-        this.s = s;
-        this.oc = s.constraints(ls);
-        this.progress = progress;
+        super(ls, s, progress);
         if (s.essentialGraph()) {
             DagLists.checkDrawable(ls); // before minutes of sampling, not after
         }
@@ -50,18 +40,8 @@ public final class PartitionChains implements StructurePosterior {
     }
 
     @Override
-    public LocalScores scores() {
-        return ls;
-    }
-
-    @Override
     public Labels labels() {
         return new Labels("mcmc", DagPrior.STRUCTURE_MODULAR, "partition MCMC");
-    }
-
-    @Override
-    public List<List<String>> tiers() {
-        return oc.tierNames().isEmpty() ? null : oc.tierNames();
     }
 
     @Override

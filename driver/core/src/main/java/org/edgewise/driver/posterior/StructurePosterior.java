@@ -5,7 +5,6 @@ import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.effect.EffectOrders;
 import org.edgewise.driver.effect.WeightedDags;
@@ -30,7 +29,7 @@ import org.edgewise.driver.average.mcmc.McmcResult;
  * </ul>
  * Sampled sources run their chains once, when first asked; exact ones compute each sum once.
  */
-public sealed interface StructurePosterior permits GivenOrder, ExactOrders, ExactDags, OrderChains, PartitionChains {
+public sealed interface StructurePosterior permits GivenOrder, UnknownOrders {
 
     /**
      * The posterior for a request: given {@code order} (variable indices, first to last) when it is

@@ -1,16 +1,8 @@
 package org.edgewise.driver.average.mcmc;
 
-import org.edgewise.driver.Checks;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
-import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
-import java.util.concurrent.Future;
-import java.util.concurrent.TimeUnit;
-import java.util.concurrent.TimeoutException;
-import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.ChildTables;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.Estimate;

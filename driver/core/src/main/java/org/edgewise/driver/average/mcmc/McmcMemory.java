@@ -1,7 +1,6 @@
 package org.edgewise.driver.average.mcmc;
 
 import java.util.Locale;
-import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.ChildTables;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.partition.PartitionChain;
