@@ -19,7 +19,7 @@ import org.edgewise.driver.query.StructureCasePrediction;
  * log P(D); features and effects from DAGs drawn exactly ({@link ExactDagSampler}); a case's
  * probability exactly as Z(D + case) / Z(D).
  */
-public final class ExactDags extends UnknownOrders {
+public final class ExactDags extends ExactSum {
     /** DAGs drawn for an effect. */
     public static final int EFFECT_DAG_DRAWS = 20_000;
     /** Importance-weighted exact draws per asked sample, when rejection would take too long. */
@@ -32,16 +32,15 @@ public final class ExactDags extends UnknownOrders {
         super(ls, s, progress);
     }
 
-    private StructureSum.Result sum() {
-        if (sum == null) {
-            progress.start("exact structure-modular sum", 1_000_000);
-            try {
-                sum = StructureSum.run(ls, oc, progress.partsPerMillion());
-            } finally {
-                progress.finish();
-            }
+    @Override
+    Figures compute() {
+        progress.start("exact structure-modular sum", 1_000_000);
+        try {
+            sum = StructureSum.run(ls, oc, progress.partsPerMillion());
+        } finally {
+            progress.finish();
         }
-        return sum;
+        return new Figures(sum.edgePosterior(), sum.setPosterior(), sum.logEvidence());
     }
 
     /** DAGs drawn exactly, or 4× as many importance-weighted ones; {@code weighted} says which. */
@@ -62,10 +61,15 @@ public final class ExactDags extends UnknownOrders {
         return new Drawn(sampler.drawWeighted(WEIGHTED_FACTOR * count, seed), true);
     }
 
+    private double logDagSum() {
+        figures();
+        return sum.logDagSum();
+    }
+
     /** The DAGs behind features and the essential graph, drawn once. */
     private DagDraws draws() {
         if (draws == null) {
-            draws = draw(ls, oc, s.orderSamples(), s.seed() + 2, sum().logDagSum()).dags();
+            draws = draw(ls, oc, s.orderSamples(), s.seed() + 2, logDagSum()).dags();
         }
         return draws;
     }
@@ -73,22 +77,12 @@ public final class ExactDags extends UnknownOrders {
     @Override
     public String cost() {
         StructureSum.Estimate e = StructureSum.estimateHere(ls.variableCount());
-        return e.seconds() > 5 && ls.variableCount() <= e.largestN() ? e.toString() : null;
+        return costNote(e.seconds(), e.largestN(), e);
     }
 
     @Override
     public Labels labels() {
         return new Labels("exact", DagPrior.STRUCTURE_MODULAR, null);
-    }
-
-    @Override
-    public EdgeEstimates edges() {
-        return new EdgeEstimates(sum().edgePosterior(), null, 0, sum().logEvidence(), null);
-    }
-
-    @Override
-    public double[][] setPosterior() {
-        return sum().setPosterior();
     }
 
     @Override

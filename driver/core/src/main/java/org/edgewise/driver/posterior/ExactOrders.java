@@ -23,7 +23,7 @@ import org.edgewise.driver.query.OrderMixture;
  * order with its exact weight while there are few, else over orders drawn exactly (then sampled,
  * with a Monte Carlo error).
  */
-public final class ExactOrders extends UnknownOrders {
+public final class ExactOrders extends ExactSum {
     /** Largest n for which prediction mixes every allowed order (at most 5,040). */
     public static final int PREDICT_ENUMERATE_MAX = 7;
     /** Largest n for which an effect averages over every allowed order (at most 40,320). */
@@ -39,23 +39,22 @@ public final class ExactOrders extends UnknownOrders {
         super(ls, s, progress);
     }
 
-    /** The exact sum (with the orders features need drawn alongside), computed once. */
-    private ExactOrderSum.Result sum() {
-        if (sum == null) {
-            progress.start("exact sum over orders", 1_000_000);
-            try {
-                sum = ExactOrderSum.run(ls, oc, s.features() ? s.orderSamples() : 0, s.seed(), progress.partsPerMillion());
-            } finally {
-                progress.finish();
-            }
+    /** The exact sum, with the orders features need drawn alongside. */
+    @Override
+    Figures compute() {
+        progress.start("exact sum over orders", 1_000_000);
+        try {
+            sum = ExactOrderSum.run(ls, oc, s.features() ? s.orderSamples() : 0, s.seed(), progress.partsPerMillion());
+        } finally {
+            progress.finish();
         }
-        return sum;
+        return new Figures(sum.edgePosterior(), sum.setPosterior(), sum.logEvidence());
     }
 
     @Override
     public String cost() {
         ExactOrderSum.Estimate e = ExactOrderSum.estimateHere(ls.variableCount());
-        return e.seconds() > 5 && ls.variableCount() <= e.largestN() ? e.toString() : null;
+        return costNote(e.seconds(), e.largestN(), e);
     }
 
     @Override
@@ -64,21 +63,12 @@ public final class ExactOrders extends UnknownOrders {
     }
 
     @Override
-    public EdgeEstimates edges() {
-        return new EdgeEstimates(sum().edgePosterior(), null, 0, sum().logEvidence(), null);
-    }
-
-    @Override
-    public double[][] setPosterior() {
-        return sum().setPosterior();
-    }
-
-    @Override
     public Features features() {
         if (!s.features()) {
             return null;
         }
-        int[][] orders = sum().sampledOrders();
+        figures();
+        int[][] orders = sum.sampledOrders();
         double[][][] f = SampledOrders.features(ls, Arrays.asList(orders), s.seed() + 1);
         return DagLists.bounded(f[0], f[2], f[1], f[3], orders.length);
     }

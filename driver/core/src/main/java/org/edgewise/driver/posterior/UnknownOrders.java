@@ -10,7 +10,7 @@ import org.edgewise.driver.average.UnknownOrderSettings;
  * What every posterior over unknown orders holds: the local scores, the request's settings, the
  * order constraints they give (tiers, required edges) and where progress goes.
  */
-abstract sealed class UnknownOrders implements StructurePosterior permits ExactOrders, ExactDags, OrderChains, PartitionChains {
+abstract sealed class UnknownOrders implements StructurePosterior permits ExactSum, OrderChains, PartitionChains {
     final LocalScores ls;
     final UnknownOrderSettings s;
     final OrderConstraints oc;
