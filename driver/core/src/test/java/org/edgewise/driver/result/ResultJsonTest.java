@@ -24,7 +24,7 @@ class ResultJsonTest {
         Path f = dir.resolve("r.json");
         ResultJson.write(f, small());
         String text = Files.readString(f);
-        assertTrue(text.startsWith("{\n  \"formatVersion\" : 2,\n  \"method\" : \"order\""), text);
+        assertTrue(text.startsWith("{\n  \"formatVersion\" : 2,\n  \"kind\" : \"edges\",\n  \"method\" : \"order\""), text);
         assertEquals(small(), ResultJson.readEdges(f));
     }
 
