@@ -132,6 +132,14 @@ class PredictCommandTest {
                 "predict", "--store", p.toString(), "--order", "v0,v1", "--case", "v1=s0", "--given", "v0=s1", "--ess", "1e-323");
     }
 
+    /** A case that contradicts its own evidence is refused in one line, never answered with a log of −∞ (issue 23). */
+    @Test
+    void aCaseThatContradictsItsEvidenceIsRefused() {
+        refused("predict: --case sets v0=s0 but --given observed v0=s1: a case that contradicts its evidence has conditional "
+                + "probability 0 by definition; nothing to average",
+                "predict", "--store", store.toString(), "--order", ORDER, "--case", "v0=s0", "--given", "v0=s1");
+    }
+
     /** {@code predict --cases f} with {@code content} in f is refused with "predict: f" + {@code message}. */
     private void refusedCsv(String store, Path f, String content, String message) throws Exception {
         Files.writeString(f, content);

@@ -74,6 +74,15 @@ public final class PredictionAnalysis {
         int[] given = r.givenText() == null ? null : CaseParser.parse(m, r.givenText(), in.given());
         int[] single = r.caseText() == null ? null : CaseParser.parse(m, r.caseText(), in.oneCase());
         CaseTable table = r.casesFile() == null ? null : CaseTable.read(r.casesFile(), m, in.cases());
+        if (single != null && given != null) {
+            for (int v = 0; v < single.length; v++) {
+                if (single[v] != CaseParser.HIDDEN && given[v] != CaseParser.HIDDEN && single[v] != given[v]) {
+                    throw new UserError(in.oneCase() + " sets " + m.variables().get(v).name() + "=" + m.variables().get(v).states().get(single[v])
+                            + " but " + in.given() + " observed " + m.variables().get(v).name() + "=" + m.variables().get(v).states().get(given[v])
+                            + ": a case that contradicts its evidence has conditional probability 0 by definition; nothing to average");
+                }
+            }
+        }
         LocalScores ls = LocalScores.build(store, r.scoring().first());
         StructurePosterior p = StructurePosterior.of(ls, ord, settings, progress);
         StructurePosterior.Cases cases = p.cases(r.tailMass(), r.maxHiddenStates());
