@@ -262,6 +262,41 @@ class OptionWalkTest extends StoreFixture {
     }
 
     @Test
+    void refusalsSayWhyTheOptionCannotAct() {
+        String s = store.toString();
+        assertEquals("edges: --chains does not apply with --order: it sets the sampling of --method mcmc; given an order every DAG "
+                + "is summed exactly", CliRun.of("edges", "--store", s, "--order", ORDER, "--chains", "3").errLine());
+        assertEquals("predict: --draws does not apply with --method exact: it sets the sampling of --method mcmc; the exact sum "
+                + "samples nothing", CliRun.of("predict", "--store", s, "--method", "exact", "--case", "v0=s0", "--draws", "50").errLine());
+        assertEquals("edges: --seed does not apply with --method exact without --features: nothing is drawn at random, the sums are exact",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--seed", "7").errLine());
+        assertEquals("predict: --seed does not apply with --order: nothing is drawn at random, the sums are exact",
+                CliRun.of("predict", "--store", s, "--order", ORDER, "--case", "v0=s0", "--seed", "7").errLine());
+        assertEquals("edges: --dag-prior does not apply with --order: given an order both DAG priors coincide",
+                CliRun.of("edges", "--store", s, "--order", ORDER, "--dag-prior", "order-modular").errLine());
+        assertEquals("edges: --dag-samples does not apply without --features: it counts the DAGs drawn to estimate the features",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--dag-samples", "500").errLine());
+        assertEquals("scores: --overwrite does not apply without --out: it lets --out replace an existing file; standard output "
+                + "replaces nothing", CliRun.of("scores", "--store", s, "--overwrite").errLine());
+        assertEquals("predict: --tail-mass does not apply with --method exact --dag-prior structure-modular: no parent set is skipped "
+                + "in the exact sum over every DAG",
+                CliRun.of("predict", "--store", s, "--method", "exact", "--case", "v0=s0", "--tail-mass", "0.3").errLine());
+        assertEquals("effect: --mcse-target does not apply to a fixed run in effect (--steps without --rhat-target): it sets when a "
+                + "run until converged stops", CliRun.of("effect", "--store", s, "--method", "mcmc", "--steps", "100", "--do", "v3=s1",
+                "--target", "v2=s0", "--mcse-target", "0.05").errLine());
+        assertEquals("edges: --max-steps 300 is below the first convergence check, after 20000 steps per chain: give at least 20000, "
+                + "or --steps 300 for a fixed run", CliRun.of("edges", "--store", s, "--method", "mcmc", "--max-steps", "300").errLine());
+        assertEquals("edges: --max-steps 300 is below the first convergence check, after 400 steps per chain (--steps): give at least "
+                + "400, or fewer --steps", CliRun.of("edges", "--store", s, "--method", "mcmc", "--steps", "400", "--rhat-target", "1.05",
+                "--max-steps", "300").errLine());
+        // still accepted where they act: the seed of effect's own draws given an order, the DAG draws of --features
+        assertEquals(0, CliRun.of("effect", "--store", s, "--order", ORDER, "--do", "v3=s1", "--target", "v2=s0", "--effect-draws",
+                "50", "--seed", "7").status());
+        assertEquals(0, CliRun.of("edges", "--store", s, "--method", "exact", "--features", "ancestors", "--dag-samples", "200",
+                "--seed", "7").status());
+    }
+
+    @Test
     void hiddenOptionsAreRenamedOnesRefusedWithTheirNewName() throws Exception {
         Map<String, String> renamed = Map.of("--until-rhat", "--rhat-target", "--samples", "--dag-samples",
                 "--order-samples", "--dag-samples", "effect --cases", "--questions");
