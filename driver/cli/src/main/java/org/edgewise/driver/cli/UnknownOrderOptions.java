@@ -35,7 +35,8 @@ public final class UnknownOrderOptions {
             + "first (default: a quarter of --steps; running until converged discards the first half of each chain as warm-up)")
     public Long burnIn;
 
-    @Option(names = "--draws", paramLabel = "N", description = "mcmc: draws stored per chain (thinning = steps / draws; default " + DEFAULT_DRAWS + ")") public Integer draws;
+    @Option(names = "--draws", paramLabel = "N", description = "mcmc: draws stored per chain (thinning = steps / draws; default " + DEFAULT_DRAWS + "; running until converged keeps "
+            + "at least max(1000, 1/(chains x T^2)), T the MCSE target)") public Integer draws;
 
     @Option(names = "--rhat-target", paramLabel = "R", description = "mcmc: run until every quantity has R-hat below R (default 1.01) and "
             + "a bulk effective sample size >= 400; with --steps, the first check comes after --steps")
@@ -49,7 +50,8 @@ public final class UnknownOrderOptions {
             + "0.005 and 0.5; 0.5 asks for nothing beyond the effective sample size)")
     public Double mcseTarget;
 
-    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc until converged: cap on steps per chain (default: none)")
+    @Option(names = "--max-steps", paramLabel = "N", description = "mcmc until converged: cap on steps per chain, at least the first check "
+            + "(after --steps, or " + Averaging.FIRST_CHECK + " steps; default: none)")
     public Long maxSteps;
 
     @Option(names = "--max-time", paramLabel = "SECONDS", description = "mcmc until converged: time budget of the sampling "
