@@ -24,9 +24,10 @@ public final class AveragingOptions {
      * What to average over ({@link MethodMixin#resolve} names the job as {@code what}), refusing
      * unknown-order options given with an order and, where the command does not estimate them
      * ({@code features} false), {@code --features} (refused, not dropped: a user who gave them
-     * expects them to act).
+     * expects them to act). {@code draws}: the command draws at random itself (so {@code --seed}
+     * acts even on exact sums).
      */
-    public Averaging averaging(String what, boolean features) {
+    public Averaging averaging(String what, boolean features, boolean draws) {
         String m = method.resolve(what);
         if (m.equals("order")) {
             Checks.notApplicable(!unknown.tiers.isEmpty(), "--tiers", "with --order",
@@ -36,7 +37,7 @@ public final class AveragingOptions {
         }
         Checks.notApplicable(!features && !unknown.features.isEmpty(), "--features", "in " + what,
                 "features are posteriors of the structure: ask edges --features for them");
-        return unknown.averaging(m, method.order);
+        return unknown.averaging(m, method.order, draws);
     }
 
     /** The store and scoring options. */

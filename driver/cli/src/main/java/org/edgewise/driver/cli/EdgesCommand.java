@@ -56,7 +56,7 @@ public final class EdgesCommand implements Callable<Integer> {
             throw new UserError("--top-parents must be 0 or more, got " + topParents);
         }
         Scoring scoring = averaging.scoring();
-        Averaging what = averaging.averaging("averaging", true);
+        Averaging what = averaging.averaging("averaging", true, false);
         PrintWriter err = spec.commandLine().getErr();
         EdgeResult result = EdgeAnalysis.run(scoring, what, topParents, ProgressBars.onTerminal(), r -> {
             if (r.diagnostics() != null && !r.diagnostics().converged()) {

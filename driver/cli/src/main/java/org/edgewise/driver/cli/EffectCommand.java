@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EffectAnalysis;
@@ -72,7 +73,10 @@ public final class EffectCommand implements Callable<Integer> {
             throw new UserError("--questions excludes --do, --target, --given and --versus: put them in the file's columns");
         }
         Scoring scoring = averaging.scoring();
-        Averaging what = averaging.averaging("effect", false);
+        Averaging what = averaging.averaging("effect", false, true);
+        // a fixed run's length is set; the target would only judge a verdict, and effect's verdict is R-hat's alone
+        Checks.notApplicable(what.mcseTarget() != null && what.steps() != null && what.rhatTarget() == null, CliNames.MCSE_TARGET,
+                "to a fixed run in effect (--steps without --rhat-target)", "it sets when a run until converged stops");
         List<EffectAnalysis.Question> qs = questionsFile == null
                 ? List.of(new EffectAnalysis.Question(doText, targetText, givenText, versusText, ""))
                 : EffectQuestions.read(questionsFile, "--questions");

@@ -1,6 +1,7 @@
 package org.edgewise.driver.cli;
 
 import java.nio.file.Path;
+import org.edgewise.driver.Checks;
 import picocli.CommandLine.Model.CommandSpec;
 import picocli.CommandLine.Option;
 
@@ -13,8 +14,10 @@ public final class OutputOptions {
     @Option(names = "--overwrite", description = "replace an existing --out file (never a directory)")
     public boolean overwrite;
 
-    /** Checks {@code --out} before any work ({@link Output#check}). */
+    /** Checks {@code --out} before any work ({@link Output#check}); {@code --overwrite} alone is refused. */
     public void check() {
+        Checks.notApplicable(overwrite && out == null, "--overwrite", "without --out",
+                "it lets --out replace an existing file; standard output replaces nothing");
         Output.check(out, overwrite);
     }
 

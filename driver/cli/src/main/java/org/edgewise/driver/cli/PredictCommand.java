@@ -48,9 +48,13 @@ public final class PredictCommand implements Callable<Integer> {
 
     @Option(names = "--format", paramLabel = "table|json", description = "one case: readable lines (default) or JSON") String format;
 
-    @Option(names = "--tail-mass", paramLabel = "E", defaultValue = "1e-12",
-            description = "per variable, skip the least probable parent sets whose combined posterior is at most E and renormalise (default ${DEFAULT-VALUE}; 0 = exact)")
-    double tailMass;
+    /** Default of {@code --tail-mass}. */
+    static final double DEFAULT_TAIL_MASS = 1e-12;
+
+    @Option(names = "--tail-mass", paramLabel = "E",
+            description = "per variable, skip the least probable parent sets whose combined posterior is at most E and renormalise (default "
+                    + DEFAULT_TAIL_MASS + "; 0 = exact; not with --method exact --dag-prior structure-modular, exact over every DAG)")
+    Double tailMass;
 
     @Option(names = "--max-hidden-states", paramLabel = "N", defaultValue = "1000000",
             description = "refuse a case whose hidden variables need more joint states than this to sum out (default ${DEFAULT-VALUE})")
@@ -73,14 +77,15 @@ public final class PredictCommand implements Callable<Integer> {
         if (!fmt.equals("json") && !fmt.equals("table")) {
             throw new UserError("--format must be table or json, got '" + format + "'");
         }
-        if (!(tailMass >= 0 && tailMass < 1)) {
+        double tail = tailMass == null ? DEFAULT_TAIL_MASS : tailMass;
+        if (!(tail >= 0 && tail < 1)) {
             throw new UserError("--tail-mass must be in [0, 1), got " + tailMass);
         }
         if (maxHiddenStates < 1) {
             throw new UserError("--max-hidden-states must be at least 1, got " + maxHiddenStates);
         }
         Scoring scoring = averaging.scoring();
-        Averaging what = averaging.averaging("prediction", false);
+        Averaging what = averaging.averaging("prediction", false, false);
         String meth = what.method().name().toLowerCase(Locale.ROOT);
         Checks.notApplicable(exactCases && what.method() != Averaging.Method.EXACT, "--exact-cases", "with --method " + meth,
                 "it computes the exact sum over all orders (--method exact)");
@@ -88,8 +93,10 @@ public final class PredictCommand implements Callable<Integer> {
                 "a conditional needs P(given | D), a sum over the hidden variables");
         Checks.notApplicable(exactCases && what.dagPrior() == DagPrior.STRUCTURE_MODULAR, "--exact-cases", "with --dag-prior structure-modular",
                 "every case is already exact there, Z(D + case) / Z(D) over all DAGs");
+        Checks.notApplicable(tailMass != null && what.method() == Averaging.Method.EXACT && what.dagPrior() == DagPrior.STRUCTURE_MODULAR,
+                "--tail-mass", "with --method exact --dag-prior structure-modular", "no parent set is skipped in the exact sum over every DAG");
         PredictionAnalysis.Answer a = PredictionAnalysis.run(new PredictionAnalysis.Request(scoring, what, caseText, casesFile,
-                givenText, tailMass, maxHiddenStates, exactCases), ProgressBars.onTerminal());
+                givenText, tail, maxHiddenStates, exactCases), ProgressBars.onTerminal());
         PrintWriter err = spec.commandLine().getErr();
         if (a.diagnostics() != null && !a.diagnostics().converged()) {
             err.println(UnknownOrderEdges.notConverged("predict", a.diagnostics()));

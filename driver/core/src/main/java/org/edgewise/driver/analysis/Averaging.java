@@ -25,6 +25,9 @@ public record Averaging(Method method, String order, DagPrior dagPrior, List<Lis
     /** Largest Monte Carlo standard error target (asks for nothing beyond the effective sample size). */
     public static final double MAX_MCSE_TARGET = ConvergenceTargets.MAX_MCSE;
 
+    /** Steps per chain before the first convergence check of a run until converged when no steps are given. */
+    public static final long FIRST_CHECK = UnknownOrderSettings.FIRST_CHECK;
+
     /** The sources of structures a request can ask for. */
     public enum Method {
         /** Every DAG consistent with a given order. */
