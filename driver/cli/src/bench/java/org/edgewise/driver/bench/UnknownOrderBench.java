@@ -103,7 +103,7 @@ public final class UnknownOrderBench {
 
     static void mcmc(int n, int d, long steps, int k) {
         LocalScores ls = scores(n, d, k);
-        McmcSettings s = McmcSettings.defaults(1).withSteps(steps, steps / 4).withChains(1);
+        McmcSettings s = McmcSettings.defaults(1).withSteps(steps, steps / 4).withChains(1, 1000);
         OrderMcmc.run(ls, OrderConstraints.none(n), s.withSteps(Math.min(steps, 20_000), 1000), null); // warm-up
         long t0 = System.nanoTime();
         double c0 = cpu();
@@ -116,7 +116,7 @@ public final class UnknownOrderBench {
                 r1.acceptance(), r1.setupSeconds());
         t0 = System.nanoTime();
         c0 = cpu();
-        McmcResult r4 = OrderMcmc.run(ls, OrderConstraints.none(n), s.withChains(4), null);
+        McmcResult r4 = OrderMcmc.run(ls, OrderConstraints.none(n), s.withChains(4, s.draws()), null);
         double sec4 = (System.nanoTime() - t0) / 1e9;
         double cpu4 = cpu() - c0;
         System.out.printf("mcmc n=%d d=%d%s: 4 chains x %d steps in %.2f s = %.0f steps/s per chain; max R-hat %.4f, min ESS %.0f%n",

@@ -114,7 +114,7 @@ public final class WideBench {
 
     static void mixing(int n, int k, long steps) {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
-        OrderMcmc.run(ls, OrderConstraints.none(n), McmcSettings.defaults(9).withSteps(20_000, 1000).withChains(1), null);
+        OrderMcmc.run(ls, OrderConstraints.none(n), McmcSettings.defaults(9).withSteps(20_000, 1000).withChains(1, 1000), null);
         for (int rep = 0; rep < 2; rep++) {
             for (double reloc : new double[] {0.0, 0.1, 0.5}) {
                 McmcSettings st = McmcSettings.defaults(1).withSteps(steps, steps / 4).withRelocate(reloc);

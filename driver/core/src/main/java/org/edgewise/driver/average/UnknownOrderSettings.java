@@ -128,10 +128,9 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
      */
     public McmcSettings mcmc(boolean withFeatures) {
         long first = steps == null ? FIRST_CHECK : steps;
-        double mcse = targets().mcse();
-        // in the order of the settings' own checks, so a refusal names the same value first
-        return McmcSettings.defaults(seed).withChains(chains).withSteps(first, burnInSteps()).withDraws(draws)
-                .withRhatTarget(rhatTarget()).withMcseTarget(mcse)
+        // chains, steps, burn-in and both targets are checked above: only the draws can be refused here
+        return McmcSettings.defaults(seed).withSteps(first, burnInSteps()).withChains(chains, draws)
+                .withTargets(targets())
                 .withStopping(untilConverged(), maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps,
                         maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds)
                 .withFeatures(withFeatures).withTableBudget(Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4));

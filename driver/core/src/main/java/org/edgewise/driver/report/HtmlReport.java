@@ -93,11 +93,11 @@ public final class HtmlReport {
                 .append("order".equals(r.method()) ? "the given order" : "a most probable order derived from the posteriors")
                 .append(" (").append(esc(lay.describe(m.variables()))).append("); hover over an edge for all its posteriors.</p>\n");
         if (t != null) {
-            h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(Charts.TRUE_COLOUR)
+            h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(EdgeColour.TRUE.hex)
                     .append("\"></i>in the known network (a line: joined either way)</span><span><i class=\"sw\" style=\"background:")
-                    .append(Charts.REVERSED_COLOUR)
-                    .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(Charts.EXTRA_COLOUR)
-                    .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(Charts.MISSED_COLOUR)
+                    .append(EdgeColour.REVERSED.hex)
+                    .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(EdgeColour.EXTRA.hex)
+                    .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(EdgeColour.MISSED.hex)
                     .append("\"></i>known edge not drawn (dashed)</span></p>\n");
         }
 

@@ -31,7 +31,7 @@ class TemperingDiagnosticsTest {
     @Test
     void temperedRunsNameTheirLadderAndEveryRunItsPlannedMemory() throws Exception {
         LocalScores ls = store();
-        McmcSettings st = McmcSettings.defaults(2).withSteps(4000, 1000).withDraws(200);
+        McmcSettings st = McmcSettings.defaults(2).withSteps(4000, 1000).withChains(4, 200);
         McmcResult tempered = OrderMcmc.run(ls, OrderConstraints.none(7), st.withTempering(3, 0.2), null);
         EdgeResult.Tempering t = ChainReport.tempering(tempered);
         assertEquals(3, t.rungs());

@@ -112,7 +112,7 @@ class DagEnumerationTest {
         double[][][] f = SampledOrders.features(ls, Arrays.asList(dp.sampledOrders()), 6L);
         // MCMC features: one DAG per stored draw
         McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(n),
-                McmcSettings.defaults(8).withSteps(40_000, 2000).withDraws(5000).withFeatures(true), null);
+                McmcSettings.defaults(8).withSteps(40_000, 2000).withChains(4, 5000).withFeatures(true), null);
         for (int a = 0; a < n; a++) {
             for (int b = 0; b < n; b++) {
                 if (a == b) {

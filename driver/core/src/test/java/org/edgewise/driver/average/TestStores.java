@@ -89,4 +89,21 @@ public final class TestStores {
         String v4 = s.variables().get(4).name();
         return scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)), List.of(new EdgeRule(v0, v3)));
     }
+
+    /** Scores with their order constraints, named for assertion messages. */
+    public record Constrained(String what, LocalScores scores, OrderConstraints constraints) {
+    }
+
+    /**
+     * The constrained cases of {@code s} (at least five variables): its plain scores under {@code tiers}
+     * ("tiers"), {@link #forbidTwoRequireOne} without tiers ("forbid + require") and under
+     * {@code tiersWithEdges} ("forbid + require + tiers").
+     */
+    public static List<Constrained> constrained(ScoreStore s, int[][] tiers, int[][] tiersWithEdges) {
+        LocalScores plain = scores(s);
+        LocalScores fr = forbidTwoRequireOne(s);
+        return List.of(new Constrained("tiers", plain, OrderConstraints.of(plain, tiers(s, tiers))),
+                new Constrained("forbid + require", fr, OrderConstraints.of(fr, List.of())),
+                new Constrained("forbid + require + tiers", fr, OrderConstraints.of(fr, tiers(s, tiersWithEdges))));
+    }
 }

@@ -128,19 +128,23 @@ public record McmcSettings(int chains, long steps, long burnIn, long seed, int d
         });
     }
 
-    /** {@code c} chains. */
-    public McmcSettings withChains(int c) {
-        return edit(d -> d.chains = c);
+    /** {@code c} chains, each storing {@code dr} draws (at least 4). */
+    public McmcSettings withChains(int c, int dr) {
+        return edit(d -> {
+            d.chains = c;
+            d.draws = dr;
+        });
     }
 
-    /** Draws stored per chain (at least 4). */
-    public McmcSettings withDraws(int dr) {
-        return edit(d -> d.draws = dr);
-    }
-
-    /** The seed of all randomness. */
-    public McmcSettings withSeed(long sd) {
-        return edit(d -> d.seed = sd);
+    /**
+     * The R̂ below which, and the MCSE at or below which, a quantity counts as converged: those of
+     * {@code t} (the bulk-ESS target is always {@link ChainDiagnostics#ESS_TARGET}).
+     */
+    public McmcSettings withTargets(ConvergenceTargets t) {
+        return edit(d -> {
+            d.rhatTarget = t.rhat();
+            d.mcseTarget = t.mcse();
+        });
     }
 
     /** Whether a DAG is drawn per draw for ancestor and Markov-blanket features. */
@@ -156,16 +160,6 @@ public record McmcSettings(int chains, long steps, long burnIn, long seed, int d
     /** The share of steps that are relocation (Gibbs) moves of one variable. */
     public McmcSettings withRelocate(double r) {
         return edit(d -> d.relocate = r);
-    }
-
-    /** The R̂ below which a quantity counts as converged. */
-    public McmcSettings withRhatTarget(double t) {
-        return edit(d -> d.rhatTarget = t);
-    }
-
-    /** The MCSE at or below which an edge or feature posterior counts as converged. */
-    public McmcSettings withMcseTarget(double t) {
-        return edit(d -> d.mcseTarget = t);
     }
 
     /** A copy with {@code change} applied, checked again by the canonical constructor. */

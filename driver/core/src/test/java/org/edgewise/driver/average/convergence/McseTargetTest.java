@@ -99,7 +99,7 @@ class McseTargetTest {
         assertEquals("the Monte Carlo standard error target must be between 0.005 and 0.5, got 0.001",
                 assertThrows(UserError.class, () -> ConvergenceTargets.mcse(0.001, "the Monte Carlo standard error target")).getMessage());
         assertEquals("the Monte Carlo standard error target must be between 0.005 and 0.5, got NaN",
-                assertThrows(UserError.class, () -> McmcSettings.defaults(1).withMcseTarget(Double.NaN)).getMessage());
+                assertThrows(UserError.class, () -> McmcSettings.defaults(1).withTargets(ConvergenceTargets.DEFAULTS.withMcse(Double.NaN))).getMessage());
     }
 
     /** Each convergence check's report of a run, in order. */
@@ -119,9 +119,9 @@ class McseTargetTest {
         LocalScores ls = TestStores.scores(TestStores.random(n, 2, 2, 400, 23));
         McmcSettings base = McmcSettings.defaults(5).withSteps(5_000, 0).untilConverged(Long.MAX_VALUE / 4, 0);
         McmcResult[] r = new McmcResult[1];
-        List<MultiChainDiagnostics.Report> loose = checks(base.withMcseTarget(0.5), ls, n, r);
+        List<MultiChainDiagnostics.Report> loose = checks(base.withTargets(base.targets().withMcse(0.5)), ls, n, r);
         assertEquals(ChainRunner.StopReason.CONVERGED, r[0].outcome().stop());
-        List<MultiChainDiagnostics.Report> tight = checks(base.withMcseTarget(0.005), ls, n, r);
+        List<MultiChainDiagnostics.Report> tight = checks(base.withTargets(base.targets().withMcse(0.005)), ls, n, r);
         assertEquals(ChainRunner.StopReason.CONVERGED, r[0].outcome().stop());
         assertTrue(tight.size() > loose.size(), loose.size() + " vs " + tight.size() + " checks");
         for (MultiChainDiagnostics.Report c : tight.subList(0, tight.size() - 1)) {
@@ -133,7 +133,7 @@ class McseTargetTest {
         assertTrue(last.converged() && last.maxMcse() <= 0.005, last.worst().toString());
         // with a step cap at the check before, the same seed stops there and says why
         long capped = r[0].outcome().stepsPerChain() / 2;
-        checks(base.withMcseTarget(0.005).untilConverged(capped, 0), ls, n, r);
+        checks(base.withTargets(base.targets().withMcse(0.005)).untilConverged(capped, 0), ls, n, r);
         assertEquals(ChainRunner.StopReason.MAX_STEPS, r[0].outcome().stop());
         assertFalse(r[0].converged());
         assertTrue(r[0].report().worst().get(0).mcse() > 0.005, r[0].report().worst().toString());

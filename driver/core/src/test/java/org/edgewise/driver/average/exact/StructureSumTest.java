@@ -149,12 +149,10 @@ public class StructureSumTest {
 
     @Test
     void equalsTheEnumerationUnderTiersForbiddenAndRequiredEdges() {
-        ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        LocalScores plain = TestStores.scores(s);
-        assertMatches(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0})), "tiers");
-        LocalScores fr = TestStores.forbidTwoRequireOne(s);
-        assertMatches(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
-        assertMatches(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0}, new int[] {1, 2})), "forbid + require + tiers");
+        for (TestStores.Constrained c : TestStores.constrained(TestStores.random(5, 2, 2, 150, 41),
+                new int[][] {{3, 1}, {0}}, new int[][] {{0}, {1, 2}})) {
+            assertMatches(c.scores(), c.constraints(), c.what());
+        }
     }
 
     @Test

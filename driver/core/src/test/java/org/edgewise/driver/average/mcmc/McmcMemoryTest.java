@@ -47,7 +47,7 @@ class McmcMemoryTest {
         // Per draw 4·20 (edge floats) + 8·5 (state) + 96 (headers, step, score) = 216 bytes; 2·100 draws at most
         // → 43,200 bytes per chain; state 84·5 = 420 bytes per chain; tables 5 × 8·2^4 = 640 bytes.
         LocalScores ls = TestStores.scores(TestStores.random(5, 2, 2, 100, 3));
-        McmcSettings s = McmcSettings.defaults(1).withDraws(100).withChains(4);
+        McmcSettings s = McmcSettings.defaults(1).withChains(4, 100);
         McmcMemory plan = McmcMemory.plan(ls, s, 2);
         assertEquals(640, plan.tableBytes());
         assertEquals(43_200, plan.drawBytes());
@@ -68,7 +68,7 @@ class McmcMemoryTest {
         // bitsets 5 × 8 bytes = 40; partition state and scratch (4·4 + 9·8 + 7·4) · 5 = 580 bytes: 2,540 per chain
         LocalScores ls = TestStores.scores(TestStores.random(5, 2, 2, 100, 3));
         assertEquals(2_540, PartitionChain.extraBytes(ls));
-        McmcSettings s = McmcSettings.defaults(1).withDraws(100).withChains(4);
+        McmcSettings s = McmcSettings.defaults(1).withChains(4, 100);
         assertEquals(McmcMemory.plan(ls, s, 1).totalBytes() + 4 * 2_540, McmcMemory.plan(ls, s, 1, 2_540).totalBytes());
     }
 

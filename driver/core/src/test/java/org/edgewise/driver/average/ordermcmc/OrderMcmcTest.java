@@ -72,10 +72,11 @@ public class OrderMcmcTest {
     void sameSeedSameResultWhateverTheThreads() {
         ScoreStore s = TestStores.random(8, 2, 2, 300, 4);
         LocalScores ls = TestStores.scores(s);
-        McmcSettings st = McmcSettings.defaults(99).withSteps(5000, 1000).withDraws(100);
+        McmcSettings st = McmcSettings.defaults(99).withSteps(5000, 1000).withChains(4, 100);
+        McmcSettings otherSeed = McmcSettings.defaults(100).withSteps(5000, 1000).withChains(4, 100);
         McmcResult a = OrderMcmc.run(ls, OrderConstraints.none(8), st, null);
         McmcResult b = OrderMcmc.run(ls, OrderConstraints.none(8), st, null);
-        McmcResult c = OrderMcmc.run(ls, OrderConstraints.none(8), st.withSeed(100), null);
+        McmcResult c = OrderMcmc.run(ls, OrderConstraints.none(8), otherSeed, null);
         boolean differs = false;
         for (int i = 0; i < 8; i++) {
             for (int j = 0; j < 8; j++) {
@@ -94,20 +95,16 @@ public class OrderMcmcTest {
         // 5,000 rows of a network with sharp tables: the order posterior has separated modes and
         // 60 steps per chain from random starts cannot mix — R̂ must say so (> 1.01); the same
         // diagnostic passes (≤ 1.01 is not demanded, < 1.1) on a long run of easy data above.
-        ScoreStore s = TestStores.random(10, 2, 2, 5000, 77);
-        LocalScores ls = TestStores.scores(s);
-        McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(10),
-                McmcSettings.defaults(3).withSteps(60, 0).withDraws(20), null);
+        McmcResult mc = unconstrained(TestStores.random(10, 2, 2, 5000, 77),
+                McmcSettings.defaults(3).withSteps(60, 0).withChains(4, 20));
         assertTrue(mc.maxRhat() > 1.01, "rhat " + mc.maxRhat());
         assertTrue(!mc.converged());
     }
 
     @Test
     void untilRhatRunsLongerThanAsked() {
-        ScoreStore s = TestStores.random(8, 2, 2, 2000, 78);
-        LocalScores ls = TestStores.scores(s);
-        McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(8),
-                McmcSettings.defaults(3).withSteps(400, 0).untilConverged(2_000_000, 0), null);
+        McmcResult mc = unconstrained(TestStores.random(8, 2, 2, 2000, 78),
+                McmcSettings.defaults(3).withSteps(400, 0).untilConverged(2_000_000, 0));
         assertTrue(mc.outcome().stepsPerChain() > 400, "steps " + mc.outcome().stepsPerChain());
         assertTrue(mc.converged(), "rhat " + mc.maxRhat() + " ess " + mc.minEss());
         assertEquals(ChainRunner.StopReason.CONVERGED, mc.outcome().stop());
@@ -115,5 +112,10 @@ public class OrderMcmcTest {
         assertTrue(mc.maxRhat() < 1.01 && mc.minEss() >= 400, "rhat " + mc.maxRhat() + " ess " + mc.minEss());
         // the first half is warm-up
         assertEquals(mc.outcome().stepsPerChain() / 2, mc.burnIn());
+    }
+
+    /** Order MCMC with {@code st} over every order of the variables of {@code s}. */
+    private static McmcResult unconstrained(ScoreStore s, McmcSettings st) {
+        return OrderMcmc.run(TestStores.scores(s), OrderConstraints.none(s.variables().size()), st, null);
     }
 }

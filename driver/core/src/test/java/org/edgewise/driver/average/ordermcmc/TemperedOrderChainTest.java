@@ -121,7 +121,7 @@ class TemperedOrderChainTest {
         LocalScores ls = TestStores.scores(TestStores.random(6, 2, 2, 150, 41));
         double[][] exact = ExactOrderSum.run(ls, OrderConstraints.none(6)).edgePosterior();
         McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(6),
-                McmcSettings.defaults(3).withSteps(60_000, 5_000).withDraws(5000).withTempering(3, 0.2), null);
+                McmcSettings.defaults(3).withSteps(60_000, 5_000).withChains(4, 5000).withTempering(3, 0.2), null);
         assertTrue(OrderMcmcTest.maxDiff(mc, exact) < 0.02, "max |mcmc - exact| = " + OrderMcmcTest.maxDiff(mc, exact));
         assertEquals(2, mc.swapAcceptance().length);
         assertTrue(mc.memory().rungs() == 3 && mc.memory().chains() == 4);

@@ -125,12 +125,10 @@ class PartitionMcmcTest {
 
     @Test
     void partitionScoreUnderTiersForbiddenAndRequiredEdges() {
-        ScoreStore s = TestStores.random(5, 2, 2, 150, 41);
-        LocalScores plain = TestStores.scores(s);
-        assertScoresMatch(plain, OrderConstraints.of(plain, TestStores.tiers(s, new int[] {3, 1}, new int[] {0, 4, 2})), "tiers");
-        LocalScores fr = TestStores.forbidTwoRequireOne(s);
-        assertScoresMatch(fr, OrderConstraints.of(fr, TestStores.tiers(s, new int[] {0, 4}, new int[] {1, 2, 3})), "forbid + require + tiers");
-        assertScoresMatch(fr, OrderConstraints.of(fr, List.of()), "forbid + require");
+        for (TestStores.Constrained c : TestStores.constrained(TestStores.random(5, 2, 2, 150, 41),
+                new int[][] {{3, 1}, {0, 4, 2}}, new int[][] {{0, 4}, {1, 2, 3}})) {
+            assertScoresMatch(c.scores(), c.constraints(), c.what());
+        }
     }
 
     @Test
