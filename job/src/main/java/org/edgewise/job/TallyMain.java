@@ -15,6 +15,7 @@ import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.Version;
+import org.edgewise.driver.Tiers;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.StoreTarget;
@@ -61,7 +62,8 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--require", split = ",", paramLabel = "a->b", description = "edges every family of the child must contain (repeatable)") List<String> require = new ArrayList<>();
 
-    @Option(names = "--tiers", paramLabel = "\"a,b;c;d,e\"", description = "tiers separated by ';': no parent from a later tier") String tiers;
+    @Option(names = "--tiers", paramLabel = "\"a,b;c\"", description = "tiers of variables, earliest first, separated by ';' "
+            + "(a repeated option appends tiers): no parent from a later tier") List<String> tiers = new ArrayList<>();
 
     @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'") String missing;
 
@@ -208,21 +210,7 @@ public final class TallyMain implements Callable<Integer> {
             }
             bins.put(d.substring(0, eq).trim(), k);
         }
-        List<List<String>> tierList = new ArrayList<>();
-        if (tiers != null && !tiers.isBlank()) {
-            for (String t : tiers.split(";")) {
-                List<String> names = new ArrayList<>();
-                for (String name : t.split(",")) {
-                    if (!name.isBlank()) {
-                        names.add(name.trim());
-                    }
-                }
-                if (names.isEmpty()) {
-                    throw new UserError("--tiers: '" + tiers + "' has an empty tier");
-                }
-                tierList.add(names);
-            }
-        }
+        List<List<String>> tierList = Tiers.parse(tiers, "--tiers");
         long budget = parseBytes(memoryBudget);
         if (master.startsWith("local")) { // the tasks run in this JVM
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");

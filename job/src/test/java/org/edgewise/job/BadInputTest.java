@@ -55,24 +55,26 @@ class BadInputTest {
         return TestTables.write(dir.resolve(name), text);
     }
 
+    /** Writes {@code text} to the file {@code name} and checks tally refuses it with "tally: input &lt;file&gt;" + {@code after}. */
+    static void refusedFile(String name, String text, String after, String... extra) {
+        Path input = file(name, text);
+        refused("tally: input " + input + after, input, extra);
+    }
+
     @Test
     void missingOrEmptyFiles() {
         Path none = dir.resolve("none.csv");
         refused("tally: input " + none + ": no such file or directory", none);
-        Path empty = file("empty.csv", "");
-        refused("tally: input " + empty + ": the file is empty (no header line)", empty);
-        Path header = file("header.csv", "a,b,c\n");
-        refused("tally: input " + header + ": no data rows (only a header)", header);
+        refusedFile("empty.csv", "", ": the file is empty (no header line)");
+        refusedFile("header.csv", "a,b,c\n", ": no data rows (only a header)");
     }
 
     @Test
     void malformedHeadersAndRows() {
-        Path dup = file("dup.csv", "a,b,a\n1,2,3\n");
-        refused("tally: input " + dup + " line 1: duplicate column name 'a' (columns 1 and 3)", dup);
-        Path many = file("many.csv", "a,b,c\n1,2,3\n1,2,3\n1,2,3,4\n1,2,3\n");
-        refused("tally: input " + many + " line 4: 4 fields, the header has 3 (1 malformed row in all)", many);
-        Path few = file("few.csv", "a,b,c\n1,2,3\n1,2\n1\n");
-        refused("tally: input " + few + " line 3: 2 fields, the header has 3 (2 malformed rows in all)", few);
+        refusedFile("dup.csv", "a,b,a\n1,2,3\n", " line 1: duplicate column name 'a' (columns 1 and 3)");
+        refusedFile("many.csv", "a,b,c\n1,2,3\n1,2,3\n1,2,3,4\n1,2,3\n",
+                " line 4: 4 fields, the header has 3 (1 malformed row in all)");
+        refusedFile("few.csv", "a,b,c\n1,2,3\n1,2\n1\n", " line 3: 2 fields, the header has 3 (2 malformed rows in all)");
     }
 
     @Test
@@ -85,28 +87,27 @@ class BadInputTest {
             }
             wide.append(t % 40).append(',').append(t % 2 == 0 ? "a" : "b").append('\n');
         }
-        Path ids = file("ids.csv", id.toString());
-        refused("tally: input " + ids + ": column 'id' has 50 distinct numeric values, more than --max-states 32; "
-                + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude id", ids);
-        Path num = file("wide.csv", wide.toString());
-        refused("tally: input " + num + ": column 'v' has 40 distinct numeric values, more than --max-states 32; "
-                + "discretise it, e.g. --discretize v=4, or raise --max-states", num);
-        Path text = file("text.csv", "w\np\nq\nr\ns\np\nq\nr\ns\np\nq\n");
-        refused("tally: input " + text + ": column 'w' has 4 distinct values, more than --max-states 3; "
-                + "raise --max-states or leave it out with --exclude w", text, "--max-states", "3");
+        refusedFile("ids.csv", id.toString(),
+                ": column 'id' has 50 distinct numeric values, more than --max-states 32; "
+                + "it looks like an ID column (nearly every value is distinct): leave it out with --exclude id");
+        refusedFile("wide.csv", wide.toString(),
+                ": column 'v' has 40 distinct numeric values, more than --max-states 32; "
+                + "discretise it, e.g. --discretize v=4, or raise --max-states");
+        refusedFile("text.csv", "w\np\nq\nr\ns\np\nq\nr\ns\np\nq\n",
+                ": column 'w' has 4 distinct values, more than --max-states 3; "
+                + "raise --max-states or leave it out with --exclude w", "--max-states", "3");
     }
 
     @Test
     void missingValuesAndNonNumbers() {
-        Path holes = file("holes.csv", "u,v\n1,a\n1,\n,b\n");
-        refused("tally: input " + holes + " line 3, column 'v': missing value (2 missing values in all); "
-                + "choose --missing drop or --missing state", holes);
-        Path allHoles = file("allholes.csv", "u,v\n1,\n,b\n");
-        refused("tally: input " + allHoles + ": every row has a missing value; nothing is left to count after "
-                + "--missing drop", allHoles, "--missing", "drop");
-        Path text = file("nan.csv", "x,y\n1.5,a\n2.5,b\nabc,a\n");
-        refused("tally: input " + text + " line 4, column 'x': 'abc' is not a number, but --discretize x=2 needs numbers",
-                text, "--discretize", "x=2");
+        refusedFile("holes.csv", "u,v\n1,a\n1,\n,b\n",
+                " line 3, column 'v': missing value (2 missing values in all); "
+                + "choose --missing drop or --missing state");
+        refusedFile("allholes.csv", "u,v\n1,\n,b\n",
+                ": every row has a missing value; nothing is left to count after "
+                + "--missing drop", "--missing", "drop");
+        refusedFile("nan.csv", "x,y\n1.5,a\n2.5,b\nabc,a\n",
+                " line 4, column 'x': 'abc' is not a number, but --discretize x=2 needs numbers", "--discretize", "x=2");
     }
 
     @Test
@@ -115,7 +116,9 @@ class BadInputTest {
         refused("tally: --exclude: no column 'z' in " + good + " (columns: u, v)", good, "--exclude", "z");
         refused("tally: --forbid u->z: no variable 'z' (variables: u, v)", good, "--forbid", "u->z");
         refused("tally: --require z->u: no variable 'z' (variables: u, v)", good, "--require", "z->u");
-        refused("tally: --tiers: no variable 'z' (variables: u, v)", good, "--tiers", "u;z");
+        refused("tally: --tiers: unknown variable 'z' (variables: u, v)", good, "--tiers", "u;z");
+        refused("tally: --tiers: variable 'u' is in tiers 1 and 2", good, "--tiers", "u", "--tiers", "v,u");
+        refused("tally: --tiers: empty variable name in 'u;'", good, "--tiers", "u;");
         refused("tally: --discretize: no variable 'z' among the selected columns (u, v)", good, "--discretize", "z=3");
         refused("tally: --require u->v contradicts --forbid u->v", good, "--require", "u->v", "--forbid", "u->v");
         refused("tally: --require v->u contradicts --tiers: 'v' is in a later tier than 'u'", good,

@@ -8,13 +8,11 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
-import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
-import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -26,14 +24,8 @@ import org.junit.jupiter.api.io.TempDir;
  * partitioning. Truly malformed rows keep their refusals, word for word.
  */
 class QuotedLinesTest {
-    static SparkSession spark;
     @TempDir
     static Path dir;
-
-    @BeforeAll
-    static void start() {
-        spark = SharedSpark.session();
-    }
 
     /** Network a → b; a's labels hold a quote, a comma, a line break (and one plain label). */
     static final List<String> A = List.of("plain", "say \"hi\"", "Rome, Italy", "line one\nline two");
@@ -46,11 +38,11 @@ class QuotedLinesTest {
     }
 
     static ScoreStore tally(Path input, String... extra) {
-        return TestTables.tallyInto(spark, dir, input, extra);
+        return TestTables.tallyInto(dir, input, extra);
     }
 
     static void refused(String expected, Path input) throws IOException {
-        TestTables.assertRefused(spark, dir, expected, input);
+        TestTables.assertRefused(dir, expected, input);
     }
 
     @Test
@@ -109,11 +101,11 @@ class QuotedLinesTest {
     @Test
     void aPathTheSystemCannotRepresentIsOneLineNamingTheOption() {
         Path good = TestTables.write(dir.resolve("fine.csv"), "a,b\nx,1\n");
-        TestTables.Run out = TestTables.tally(spark, "--input", good.toString(), "--out", "st\u0000ore");
+        TestTables.Run out = TestTables.tally(SharedSpark.session(), "--input", good.toString(), "--out", "st\u0000ore");
         assertEquals(2, out.status());
         assertEquals("tally: --out: 'st\\u0000ore' is not a file name this system can use: it holds a NUL character",
                 out.err());
-        TestTables.Run in = TestTables.tally(spark, "--input", "d\uDC80ta.csv", "--out", dir.resolve("s").toString());
+        TestTables.Run in = TestTables.tally(SharedSpark.session(), "--input", "d\uDC80ta.csv", "--out", dir.resolve("s").toString());
         assertEquals(2, in.status());
         assertEquals("tally: --input: 'd\\uDC80ta.csv' is not a file name this system can use: it holds a character the"
                 + " platform encoding " + System.getProperty("sun.jnu.encoding") + " cannot represent", in.err());

@@ -121,11 +121,11 @@ final class TestTables {
     private static final AtomicInteger STORES = new AtomicInteger();
 
     /** Tallies {@code input} (plus {@code extra} options) into a new store under {@code dir}; asserts success and reads it. */
-    static ScoreStore tallyInto(SparkSession spark, Path dir, Path input, String... extra) {
+    static ScoreStore tallyInto(Path dir, Path input, String... extra) {
         Path out = dir.resolve("store" + STORES.getAndIncrement());
         List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
         args.addAll(List.of(extra));
-        Run r = tally(spark, args.toArray(String[]::new));
+        Run r = tally(SharedSpark.session(), args.toArray(String[]::new));
         assertEquals(0, r.status(), r.err());
         return read(out);
     }
@@ -134,12 +134,12 @@ final class TestTables {
      * {@code tally} refuses {@code input} with exactly {@code expected} on standard error and exit 2,
      * writes no store and leaves the input byte for byte as it was.
      */
-    static void assertRefused(SparkSession spark, Path dir, String expected, Path input, String... extra) throws IOException {
+    static void assertRefused(Path dir, String expected, Path input, String... extra) throws IOException {
         byte[] before = Files.readAllBytes(input);
         Path out = dir.resolve("store" + STORES.getAndIncrement());
         List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
         args.addAll(List.of(extra));
-        Run r = tally(spark, args.toArray(String[]::new));
+        Run r = tally(SharedSpark.session(), args.toArray(String[]::new));
         assertEquals(2, r.status(), r.err());
         assertEquals(expected, r.err());
         assertEquals(false, Files.exists(out), "nothing written");

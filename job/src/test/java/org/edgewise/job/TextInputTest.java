@@ -7,9 +7,7 @@ import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
-import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.store.ScoreStore;
-import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -20,21 +18,15 @@ import org.junit.jupiter.api.io.TempDir;
  * Each of these was silently wrong before. Messages word for word.
  */
 class TextInputTest {
-    static SparkSession spark;
     @TempDir
     static Path dir;
 
-    @BeforeAll
-    static void start() {
-        spark = SharedSpark.session();
-    }
-
     static ScoreStore tally(Path input, String... extra) {
-        return TestTables.tallyInto(spark, dir, input, extra);
+        return TestTables.tallyInto(dir, input, extra);
     }
 
     static void refused(String expected, Path input, String... extra) throws IOException {
-        TestTables.assertRefused(spark, dir, expected, input, extra);
+        TestTables.assertRefused(dir, expected, input, extra);
     }
 
     @Test

@@ -27,14 +27,19 @@ package org.edgewise.driver;
  * @param intervention         the variables an effect query sets
  * @param target               the outcome of an effect query
  * @param versus               the contrasting setting of an effect query
+ * @param order                the given variable order
+ * @param oneCase              one case to predict
+ * @param cases                a file of cases to predict
+ * @param chains               the number of MCMC chains
  */
 public record InputNames(String ess, String forbid, String require, String tiers, String given,
                          String maxHiddenStates, String exactCases, String candidates, String draws,
                          String samples, String methodMcmc, String orderModular, String structureModular,
-                         String drawFeatures, String intervention, String target, String versus) {
+                         String drawFeatures, String intervention, String target, String versus,
+                         String order, String oneCase, String cases, String chains) {
     /** The names of the Java API: the fields of the request records and the enum constants. */
     public static final InputNames API = new InputNames("ess", "forbid", "require", "tiers", "given",
             "maxHiddenStates", "ExactCasePrediction", "candidates K", "draws", "orderSamples", "method MCMC",
             "dagPrior ORDER_MODULAR", "dagPrior STRUCTURE_MODULAR", "essentialGraph, ancestors or markovBlanket",
-            "intervention", "target", "versus");
+            "intervention", "target", "versus", "order", "caseText", "casesFile", "chains");
 }

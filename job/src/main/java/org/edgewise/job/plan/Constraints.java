@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.Tiers;
 import org.edgewise.driver.store.EdgeRule;
 
 /**
@@ -39,17 +40,7 @@ public final class Constraints {
             Arrays.fill(allowed[i], true);
             allowed[i][i] = false;
         }
-        int[] tierOf = new int[n];
-        Arrays.fill(tierOf, -1);
-        for (int t = 0; t < tiers.size(); t++) {
-            for (String name : tiers.get(t)) {
-                int v = index(names, name, "--tiers");
-                if (tierOf[v] >= 0 && tierOf[v] != t) {
-                    throw new UserError("--tiers: variable '" + name + "' is in tiers " + (tierOf[v] + 1) + " and " + (t + 1));
-                }
-                tierOf[v] = t;
-            }
-        }
+        int[] tierOf = Tiers.resolve(names, tiers, "--tiers");
         for (int child = 0; child < n; child++) {
             for (int p = 0; p < n; p++) {
                 if (tierOf[child] >= 0 && tierOf[p] > tierOf[child]) {

@@ -152,17 +152,12 @@ class ClusterIT {
     @Test
     @Order(2)
     void killedWorkerDoesNotChangeTheStore() throws Exception {
-        Path reference = localStore();
-        Set<String> before = apps();
-        Path out = dir.resolve("worker-killed-store");
-        // more partitions than cores, so tasks remain to be run (and re-run) when the worker goes
-        Process p = tally(out, cluster.masterUrl(), "worker-killed", "--partitions", "24");
-        String app = awaitApp(before, p);
+        Running t = startTally("worker-killed");
+        Process p = t.process();
         // wait until the victim's executor has finished work of this tally and is running more
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(300);
         boolean killed = false;
-        while (p.isAlive() && System.nanoTime() < deadline) {
-            String exec = cluster.executorLog(2, app);
+        while (p.isAlive() && System.nanoTime() < t.deadline()) {
+            String exec = cluster.executorLog(2, t.app());
             int finished = count(exec, "Finished task");
             int running = count(exec, "Running task");
             if (finished >= 1 && running > finished) {
@@ -177,19 +172,16 @@ class ClusterIT {
         assertEquals(0, waitFor(p, 600), "tally after a lost worker failed:\n" + log("worker-killed"));
         String driverLog = log("worker-killed");
         assertTrue(driverLog.contains("Lost executor"), "the driver saw the executor go:\n" + driverLog);
-        assertSameStore(reference, out);
+        assertSameStore(t.reference(), t.out());
     }
 
     @Test
     @Order(3)
     void killedDriverLeavesNoStoreAndARerunSucceeds() throws Exception {
-        Path reference = localStore();
-        Set<String> before = apps();
-        Path out = dir.resolve("driver-killed-store");
-        Process p = tally(out, cluster.masterUrl(), "driver-killed", "--partitions", "24");
-        String app = awaitApp(before, p);
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(300);
-        while (p.isAlive() && System.nanoTime() < deadline && !runningOnAnyWorker(app)) {
+        Running t = startTally("driver-killed");
+        Process p = t.process();
+        Path out = t.out();
+        while (p.isAlive() && System.nanoTime() < t.deadline() && !runningOnAnyWorker(t.app())) {
             Thread.sleep(20);
         }
         assertTrue(p.isAlive(), "the tally was still running when killed (else nothing was checked):\n"
@@ -209,7 +201,25 @@ class ClusterIT {
         Files.writeString(leftover.resolve(StoreFormat.COUNTS), "partial");
         Process rerun = tally(out, cluster.masterUrl(), "driver-rerun", "--partitions", "24");
         assertEquals(0, waitFor(rerun, 600), "rerun after a killed driver failed:\n" + log("driver-rerun"));
-        assertSameStore(reference, out);
+        assertSameStore(t.reference(), out);
+    }
+
+    /**
+     * A tally running on the cluster into {@code out}, its application registered, with the local
+     * store it must equal and a deadline five minutes on for waiting on it.
+     */
+    private record Running(Path reference, Path out, Process process, String app, long deadline) {
+    }
+
+    /** Starts a tally named {@code name} (its log, and its store {@code name-store}) on the cluster. */
+    private static Running startTally(String name) throws Exception {
+        Path reference = localStore();
+        Set<String> before = apps();
+        Path out = dir.resolve(name + "-store");
+        // more partitions than cores, so tasks remain to be run (and re-run) when a worker or the driver goes
+        Process p = tally(out, cluster.masterUrl(), name, "--partitions", "24");
+        String app = awaitApp(before, p);
+        return new Running(reference, out, p, app, System.nanoTime() + TimeUnit.SECONDS.toNanos(300));
     }
 
     private static boolean runningOnAnyWorker(String app) throws IOException {

@@ -49,8 +49,8 @@ public final class HeldOutBench {
         for (EdgeResult r : new EdgeResult[] {a, b}) {
             EdgeResult.Diagnostics d = r.diagnostics();
             System.out.printf("  %s prior, seed %d: converged %s (%s) after %d steps/chain, %.1f s sampling; max R-hat %.4f, "
-                            + "min bulk ESS %.0f, max MCSE %s%n", r.dagPrior(), d.seed(), d.converged(), d.stopReason(),
-                    d.steps() + d.burnIn(), d.samplingSeconds(), d.rhat(), d.ess(), d.mcse());
+                            + "min bulk eff. n %.0f, max MCSE %s%n", r.dagPrior(), d.seed(), d.converged(), d.stopReason(),
+                    d.steps() + d.burnIn(), d.samplingSeconds(), d.rhat(), d.bulkEffectiveSampleSize(), d.mcse());
         }
         System.out.printf("  max |delta| over edge posteriors between the two runs: %.4f (%s)%n", max, where);
     }

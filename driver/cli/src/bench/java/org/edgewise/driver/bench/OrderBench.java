@@ -10,11 +10,12 @@ import java.util.Locale;
 import java.util.Random;
 import java.util.stream.IntStream;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
+import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.cli.EdgewiseCli;
 import org.edgewise.driver.query.CasePredictor;
-import org.edgewise.driver.result.ResultBuilder;
+import org.edgewise.driver.analysis.EdgeAnalysis;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
@@ -96,9 +97,8 @@ public final class OrderBench {
             orderText.append(orderText.length() == 0 ? "" : ",").append(vars.get(v).name());
         }
         t0 = mark();
-        LocalScores ls = LocalScores.build(read, ScoringOptions.asStored());
-        OrderPosterior op = OrderPosterior.of(ls, order);
-        String json = ResultJson.toJson(ResultBuilder.forOrder(op, dir, 5, null));
+        String json = ResultJson.toJson(EdgeAnalysis.run(read, dir, List.of(ScoringOptions.asStored()), order, null, 5,
+                ProgressListener.NONE, r -> { }));
         report("edges given the order, store in memory", t0, String.format(Locale.ROOT, "%,d bytes of JSON", json.length()));
         t0 = mark();
         OrderPosterior rescored = OrderPosterior.of(LocalScores.build(read, ScoringOptions.asStored().withEss(10)), order);
@@ -120,6 +120,8 @@ public final class OrderBench {
             }
         }
         t0 = mark();
+        LocalScores ls = LocalScores.build(read, ScoringOptions.asStored());
+        OrderPosterior op = OrderPosterior.of(ls, order);
         CasePredictor avg = CasePredictor.averaged(op, 1e-12);
         CasePredictor exact = CasePredictor.averaged(op, 0);
         report("predictor set-up (posterior weights once)", t0, String.format(Locale.ROOT,

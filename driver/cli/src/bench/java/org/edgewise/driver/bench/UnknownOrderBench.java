@@ -3,12 +3,12 @@ package org.edgewise.driver.bench;
 import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.store.ParentSets;
-import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.network.ForwardSampler;
@@ -18,6 +18,8 @@ import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.Variable;
+import org.edgewise.driver.average.mcmc.McmcResult;
+import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * Benchmark of the unknown-order engines ({@code scripts/bench unknown-order}). Prints one line per
@@ -101,11 +103,11 @@ public final class UnknownOrderBench {
 
     static void mcmc(int n, int d, long steps, int k) {
         LocalScores ls = scores(n, d, k);
-        OrderMcmc.Settings s = OrderMcmc.Settings.defaults(1).withSteps(steps, steps / 4).withChains(1);
+        McmcSettings s = McmcSettings.defaults(1).withSteps(steps, steps / 4).withChains(1, 1000);
         OrderMcmc.run(ls, OrderConstraints.none(n), s.withSteps(Math.min(steps, 20_000), 1000), null); // warm-up
         long t0 = System.nanoTime();
         double c0 = cpu();
-        OrderMcmc.Result r1 = OrderMcmc.run(ls, OrderConstraints.none(n), s, null);
+        McmcResult r1 = OrderMcmc.run(ls, OrderConstraints.none(n), s, null);
         double sec1 = (System.nanoTime() - t0) / 1e9;
         double cpu1 = cpu() - c0;
         long total = steps + steps / 4;
@@ -114,7 +116,7 @@ public final class UnknownOrderBench {
                 r1.acceptance(), r1.setupSeconds());
         t0 = System.nanoTime();
         c0 = cpu();
-        OrderMcmc.Result r4 = OrderMcmc.run(ls, OrderConstraints.none(n), s.withChains(4), null);
+        McmcResult r4 = OrderMcmc.run(ls, OrderConstraints.none(n), s.withChains(4, s.draws()), null);
         double sec4 = (System.nanoTime() - t0) / 1e9;
         double cpu4 = cpu() - c0;
         System.out.printf("mcmc n=%d d=%d%s: 4 chains x %d steps in %.2f s = %.0f steps/s per chain; max R-hat %.4f, min ESS %.0f%n",
@@ -136,11 +138,11 @@ public final class UnknownOrderBench {
         for (int rep = 0; rep < 2; rep++) {
             double[] a = base.clone();
             double c0 = cpu();
-            org.edgewise.driver.average.ZetaBench.full(a, n - 1);
+            org.edgewise.driver.average.exact.ZetaBench.full(a, n - 1);
             double full = cpu() - c0;
             a = base.clone();
             c0 = cpu();
-            org.edgewise.driver.average.ZetaBench.upTo(a, n - 1, d);
+            org.edgewise.driver.average.exact.ZetaBench.upTo(a, n - 1, d);
             double trunc = cpu() - c0;
             System.out.printf("superset transform over 2^%d entries: full %.2f s CPU, truncated to |U| <= %d %.2f s CPU (ratio %.2f)%n",
                     n - 1, full, d, trunc, full / trunc);

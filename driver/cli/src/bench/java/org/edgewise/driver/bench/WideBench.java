@@ -1,10 +1,12 @@
 package org.edgewise.driver.bench;
 
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.PartitionMcmc;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.partition.PartitionMcmc;
+import org.edgewise.driver.average.mcmc.McmcResult;
+import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * {@code scripts/bench wide}: order MCMC run until converged on wide tables — random networks
@@ -45,9 +47,9 @@ public final class WideBench {
 
     static void wide(int n, int k, double maxSec) {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
-        OrderMcmc.Result[] r = new OrderMcmc.Result[2];
+        McmcResult[] r = new McmcResult[2];
         for (int s = 0; s < 2; s++) {
-            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
+            McmcSettings st = McmcSettings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
             long t0 = System.nanoTime();
             r[s] = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
             double wall = (System.nanoTime() - t0) / 1e9;
@@ -76,9 +78,9 @@ public final class WideBench {
     static void priors(int n, int k, double maxSec) {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
         for (String prior : new String[] {"order-modular", "structure-modular"}) {
-            OrderMcmc.Result[] r = new OrderMcmc.Result[2];
+            McmcResult[] r = new McmcResult[2];
             for (int s = 0; s < 2; s++) {
-                OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
+                McmcSettings st = McmcSettings.defaults(1 + s).withSteps(20_000, 0).untilConverged(Long.MAX_VALUE / 4, maxSec);
                 long t0 = System.nanoTime();
                 r[s] = prior.equals("order-modular") ? OrderMcmc.run(ls, OrderConstraints.none(n), st, null)
                         : PartitionMcmc.run(ls, OrderConstraints.none(n), st, null).chains();
@@ -112,11 +114,11 @@ public final class WideBench {
 
     static void mixing(int n, int k, long steps) {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
-        OrderMcmc.run(ls, OrderConstraints.none(n), OrderMcmc.Settings.defaults(9).withSteps(20_000, 1000).withChains(1), null);
+        OrderMcmc.run(ls, OrderConstraints.none(n), McmcSettings.defaults(9).withSteps(20_000, 1000).withChains(1, 1000), null);
         for (int rep = 0; rep < 2; rep++) {
             for (double reloc : new double[] {0.0, 0.1, 0.5}) {
-                OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(steps, steps / 4).withRelocate(reloc);
-                OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
+                McmcSettings st = McmcSettings.defaults(1).withSteps(steps, steps / 4).withRelocate(reloc);
+                McmcResult r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
                 System.out.printf("mixing n=%d candidates<=%d relocate %.1f: 4 chains x %d steps, %.1f s CPU (%.0f steps/CPU-s per chain); "
                                 + "max R-hat %.4f, min bulk ESS %.0f = %.1f ESS per CPU-second, log-score ESS %.0f; worst %s; load %.1f%n",
                         n, 2 * k, reloc, steps + steps / 4, r.chainCpuSeconds(), 4 * (steps + steps / 4) / r.chainCpuSeconds(),
@@ -137,16 +139,16 @@ public final class WideBench {
         LocalScores ls = UnknownOrderBench.scores(n, 3, k);
         for (String spec : ladders) {
             String[] p = spec.split(":");
-            double reloc = p.length > 2 ? Double.parseDouble(p[2]) : OrderMcmc.Settings.DEFAULT_RELOCATE;
-            OrderMcmc.Settings st = OrderMcmc.Settings.defaults(1).withSteps(20_000, 0)
+            double reloc = p.length > 2 ? Double.parseDouble(p[2]) : McmcSettings.DEFAULT_RELOCATE;
+            McmcSettings st = McmcSettings.defaults(1).withSteps(20_000, 0)
                     .untilConverged(Long.MAX_VALUE / 4, maxSec).withRelocate(reloc);
             if (!p[0].equals("auto")) {
-                st = st.withTempering(Integer.parseInt(p[0]), p.length > 1 ? Double.parseDouble(p[1]) : OrderMcmc.Settings.DEFAULT_BETA_MIN);
+                st = st.withTempering(Integer.parseInt(p[0]), p.length > 1 ? Double.parseDouble(p[1]) : McmcSettings.DEFAULT_BETA_MIN);
             }
             int rungs = st.rungsFor(n);
             double bmin = st.betaMinFor(n);
             long t0 = System.nanoTime();
-            OrderMcmc.Result r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
+            McmcResult r = OrderMcmc.run(ls, OrderConstraints.none(n), st, null);
             double wall = (System.nanoTime() - t0) / 1e9;
             var o = r.outcome();
             StringBuilder chains = new StringBuilder();
@@ -170,7 +172,7 @@ public final class WideBench {
 
     /** Largest |P₁(a→b) − P₂(a→b)| over all pairs. */
     static final class OrderMcmcDiff {
-        static double maxDiff(OrderMcmc.Result a, OrderMcmc.Result b, int n) {
+        static double maxDiff(McmcResult a, McmcResult b, int n) {
             double worst = 0;
             for (int i = 0; i < n; i++) {
                 for (int j = 0; j < n; j++) {

@@ -1,6 +1,8 @@
 package org.edgewise.driver.cli;
 
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.analysis.Averaging;
+import org.edgewise.driver.analysis.Scoring;
 import picocli.CommandLine.Mixin;
 
 /**
@@ -19,10 +21,13 @@ public final class AveragingOptions {
     public UnknownOrderOptions unknown = new UnknownOrderOptions();
 
     /**
-     * The method ({@link MethodMixin#resolve}), refusing unknown-order options given with an order
-     * (refused, not dropped: a user who gave them expects them to act).
+     * What to average over ({@link MethodMixin#resolve} names the job as {@code what}), refusing
+     * unknown-order options given with an order and, where the command does not estimate them
+     * ({@code features} false), {@code --features} (refused, not dropped: a user who gave them
+     * expects them to act). {@code draws}: the command draws at random itself (so {@code --seed}
+     * acts even on exact sums).
      */
-    public String method(String what) {
+    public Averaging averaging(String what, boolean features, boolean draws) {
         String m = method.resolve(what);
         if (m.equals("order")) {
             Checks.notApplicable(!unknown.tiers.isEmpty(), "--tiers", "with --order",
@@ -30,6 +35,13 @@ public final class AveragingOptions {
             Checks.notApplicable(!unknown.features.isEmpty(), "--features", "with --order",
                     "features are estimated over unknown orders (--method exact or mcmc)");
         }
-        return m;
+        Checks.notApplicable(!features && !unknown.features.isEmpty(), "--features", "in " + what,
+                "features are posteriors of the structure: ask edges --features for them");
+        return unknown.averaging(m, method.order, draws);
+    }
+
+    /** The store and scoring options. */
+    public Scoring scoring() {
+        return scoring.scoring();
     }
 }

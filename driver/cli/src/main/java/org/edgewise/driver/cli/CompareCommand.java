@@ -12,6 +12,7 @@ import org.edgewise.driver.report.EdgeRecovery;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
@@ -34,20 +35,20 @@ final class CompareCommand implements Callable<Integer> {
 
     @Option(names = "--format", defaultValue = "table", paramLabel = "table|json", description = "output format (default ${DEFAULT-VALUE})") String format;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Override
     public Integer call() {
-        Output.check(out, overwrite);
+        output.check();
         String fmt = Output.format(format, "table", "json");
         checkThreshold(threshold);
         EdgeResult r = ResultJson.readEdges(result);
         Network net = NetworkReader.read(truth);
         EdgeRecovery rec = EdgeRecovery.of(EdgeMatrix.of(r), net, truth.toString(), threshold);
         String text = fmt.equals("json") ? ResultJson.toJson(rec) + "\n" : table(rec);
-        Output.write(spec, out, text);
+        output.write(spec, text);
         return 0;
     }
 

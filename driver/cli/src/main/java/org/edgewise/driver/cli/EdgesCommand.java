@@ -1,7 +1,6 @@
 package org.edgewise.driver.cli;
 
 import java.io.PrintWriter;
-import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -9,14 +8,11 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.analysis.EssSweep;
-import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.UnknownOrderSettings;
-import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.analysis.Averaging;
+import org.edgewise.driver.analysis.EdgeAnalysis;
+import org.edgewise.driver.analysis.Scoring;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultJson;
-import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.StoreReader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
@@ -24,9 +20,8 @@ import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 
 /**
- * {@code edges}: model-averaged edge posteriors. {@code --method order} (the default when
- * {@code --order} is given) sums over every DAG consistent with the order in closed form; the
- * unknown-order methods are dispatched by {@link #compute}.
+ * {@code edges}: model-averaged edge posteriors from {@link EdgeAnalysis}, over every DAG
+ * consistent with a given order or over unknown orders; prints the result as a table or JSON.
  */
 @Command(name = "edges", mixinStandardHelpOptions = true,
         description = {"Model-averaged edge posteriors, most probable parent sets and the best network, from a score store.",
@@ -44,31 +39,34 @@ public final class EdgesCommand implements Callable<Integer> {
 
     @Option(names = "--top-parents", paramLabel = "K", defaultValue = "5", description = "most probable parent sets listed per variable (default ${DEFAULT-VALUE})") int topParents;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Option(names = "--format", paramLabel = "table|json", description = "standard output as a table (default) or JSON") String format;
 
     @Override
     public Integer call() {
-        Output.check(out, overwrite);
-        String fmt = format == null ? (out != null ? "json" : "table") : format.toLowerCase(Locale.ROOT);
+        output.check();
+        String fmt = format == null ? (output.out != null ? "json" : "table") : format.toLowerCase(Locale.ROOT);
         if (!fmt.equals("json") && !fmt.equals("table")) {
             throw new UserError("--format must be table or json, got '" + format + "'");
         }
         if (topParents < 0) {
             throw new UserError("--top-parents must be 0 or more, got " + topParents);
         }
-        List<Double> esses = averaging.scoring.ess.isEmpty() ? List.of(Double.NaN) : averaging.scoring.ess;
-        for (double e : esses) {
-            averaging.scoring.options(e); // refuses ESS <= 0 before the store is read
-        }
-        EdgeResult result = compute(esses);
-        if (out != null) {
-            ResultJson.write(out, result);
+        Scoring scoring = averaging.scoring();
+        Averaging what = averaging.averaging("averaging", true, false);
+        PrintWriter err = spec.commandLine().getErr();
+        EdgeResult result = EdgeAnalysis.run(scoring, what, topParents, ProgressBars.onTerminal(), r -> {
+            if (r.diagnostics() != null && !r.diagnostics().converged()) {
+                err.println(UnknownOrderEdges.notConverged("edges", r.diagnostics()));
+            }
+        });
+        if (output.out != null) {
+            ResultJson.write(output.out, result);
             if (format == null) {
-                spec.commandLine().getErr().println("edges: wrote " + out);
+                spec.commandLine().getErr().println("edges: wrote " + output.out);
                 return 0;
             }
         }
@@ -76,27 +74,10 @@ public final class EdgesCommand implements Callable<Integer> {
         if (fmt.equals("json")) {
             w.println(ResultJson.toJson(result));
         } else {
-            w.print(table(result, esses.size() > 1));
+            w.print(table(result, scoring.ess().size() > 1));
         }
         w.flush();
         return 0;
-    }
-
-    /** Dispatches on the method: the core's {@link EssSweep} given an order or over unknown orders. */
-    EdgeResult compute(List<Double> esses) {
-        String m = averaging.method("averaging");
-        UnknownOrderSettings settings = m.equals("order") ? null
-                : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(m.toUpperCase(Locale.ROOT)), topParents);
-        List<ScoringOptions> opts = new ArrayList<>();
-        for (double e : esses) {
-            opts.add(averaging.scoring.options(e));
-        }
-        ScoreStore store = StoreReader.read(averaging.scoring.store);
-        if (settings == null) {
-            return EssSweep.givenOrder(store, averaging.scoring.store, VariableOrder.parse(store.manifest(), averaging.method.order, "--order"),
-                    opts, topParents);
-        }
-        return UnknownOrderEdges.compute(store, averaging.scoring.store, opts, settings, spec.commandLine().getErr());
     }
 
     /** The result for people: edges by posterior, top parent sets, best network, the caution. */

@@ -1,27 +1,21 @@
 package org.edgewise.driver.cli;
 
-import java.io.IOException;
 import java.io.PrintWriter;
-import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EffectAnalysis;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.TooLargeForExact;
-import org.edgewise.driver.average.UnknownOrderSettings;
-import org.edgewise.driver.average.VariableOrder;
-import org.edgewise.driver.effect.EffectEngine;
+import org.edgewise.driver.analysis.EffectQuestions;
+import org.edgewise.driver.analysis.Scoring;
+import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.result.ResultJson;
-import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.StoreReader;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
@@ -31,7 +25,7 @@ import picocli.CommandLine.Model.CommandSpec;
 /** {@code effect}: P(target | do(x = a), D) averaged over structures and parameters, with the cautions. */
 @Command(name = "effect", mixinStandardHelpOptions = true,
         description = {"P(target | do(x = a), D): what setting variables would do, averaged over structures (given order, or unknown orders with --method exact|mcmc) and parameters.",
-                "Prints the probability, the reference intervention (--versus) and the difference, the probability of no effect, a 95% credible interval, the observational P(target | x = a) beside it, and the assumptions."})
+                "Prints the probability, the reference intervention (--versus) and the difference, the probability of no effect, a 95%% credible interval, the observational P(target | x = a) beside it, and the assumptions."})
 public final class EffectCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
@@ -47,63 +41,63 @@ public final class EffectCommand implements Callable<Integer> {
 
     @Option(names = "--versus", paramLabel = "x=a0", description = "the reference intervention on the same variables: adds difference and ratio") String versusText;
 
-    @Option(names = "--cases", paramLabel = "FILE", description = "CSV with columns do,target[,given][,versus]: one question per row") Path casesFile;
+    @Option(names = "--questions", paramLabel = "FILE", description = "CSV with columns do,target[,given][,versus]: one question per row") Path questionsFile;
 
-    @Option(names = "--effect-draws", paramLabel = "N", defaultValue = "" + EffectEngine.DEFAULT_DRAWS,
+    @Option(names = "--cases", hidden = true, paramLabel = "FILE", description = "renamed --questions")
+    String oldCases;
+
+    @Option(names = "--effect-draws", paramLabel = "N", defaultValue = "" + EffectAnalysis.DEFAULT_DRAWS,
             description = "(DAG, parameter) draws for the effect's credible interval and histogram (default ${DEFAULT-VALUE})") int effectDraws;
 
     @Option(names = "--max-hidden-states", paramLabel = "N", defaultValue = "1000000",
             description = "refuse when the hidden ancestors of the target need more joint states than this (default ${DEFAULT-VALUE})") long maxHiddenStates;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write the JSON result here") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Option(names = "--format", paramLabel = "table|json", defaultValue = "table", description = "standard output: readable lines (default) or JSON") String format;
 
     @Override
     public Integer call() {
+        if (oldCases != null) {
+            throw new UserError("effect's file of questions is --questions FILE (--cases is predict's file of cases): "
+                    + "give --questions " + oldCases);
+        }
         String fmt = Output.format(format, "table", "json");
-        Output.check(out, overwrite);
+        output.check();
         if (averaging.scoring.ess.size() > 1) {
             throw new UserError("effect takes one --ess value, got " + averaging.scoring.ess.size());
         }
-        if (casesFile != null && (doText != null || targetText != null || givenText != null || versusText != null)) {
-            throw new UserError("--cases excludes --do, --target, --given and --versus: put them in the file's columns");
+        if (questionsFile != null && (doText != null || targetText != null || givenText != null || versusText != null)) {
+            throw new UserError("--questions excludes --do, --target, --given and --versus: put them in the file's columns");
         }
-        String meth = averaging.method.resolve("effect");
-        UnknownOrderSettings settings = meth.equals("order") ? null
-                : averaging.unknown.settings(UnknownOrderSettings.Method.valueOf(meth.toUpperCase(Locale.ROOT)), 0);
-        DagPrior prior = settings != null ? settings.dagPrior() : DagPrior.parse(averaging.unknown.dagPrior, "--dag-prior");
-        EffectEngine.Settings engine = new EffectEngine.Settings(effectDraws, averaging.unknown.seed, maxHiddenStates);
-        ScoreStore store = StoreReader.read(averaging.scoring.store);
-        int[] ord = averaging.method.order == null ? null : VariableOrder.parse(store.manifest(), averaging.method.order, "--order");
-        List<EffectAnalysis.Question> qs = casesFile == null
+        Scoring scoring = averaging.scoring();
+        Averaging what = averaging.averaging("effect", false, true);
+        // a fixed run's length is set; the target would only judge a verdict, and effect's verdict is R-hat's alone
+        Checks.notApplicable(what.mcseTarget() != null && what.steps() != null && what.rhatTarget() == null, CliNames.MCSE_TARGET,
+                "to a fixed run in effect (--steps without --rhat-target)", "it sets when a run until converged stops");
+        List<EffectAnalysis.Question> qs = questionsFile == null
                 ? List.of(new EffectAnalysis.Question(doText, targetText, givenText, versusText, ""))
-                : questions(casesFile);
-        LocalScores ls = LocalScores.build(store, averaging.scoring.options());
-        List<EffectResult> rs;
-        try {
-            rs = EffectAnalysis.run(new EffectAnalysis.Request(ls, ord, settings, prior, qs, engine), ProgressBars.onTerminal());
-        } catch (TooLargeForExact e) {
-            throw UnknownOrderEdges.tooLarge(e);
-        }
+                : EffectQuestions.read(questionsFile, "--questions");
+        List<EffectResult> rs = EffectAnalysis.run(scoring, what, qs, effectDraws, maxHiddenStates, ProgressBars.onTerminal());
         for (EffectResult r : rs) {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
-                        "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < %.2f; and every edge "
-                                + "posterior needs MCSE <= its target): the effect is not reliable; run longer (--max-time)",
-                        r.maxRhat(), UnknownOrderEdges.RHAT_WARN));
+                        "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < 1.01; and every edge "
+                                + "posterior needs MCSE <= its target): the effect is not reliable; "
+                                + ConvergenceAdvice.runLonger(what.steps() != null && what.rhatTarget() == null ? "steps" : null,
+                                CliNames.RUN), r.maxRhat()));
                 break;
             }
         }
-        Object json = casesFile == null ? rs.get(0) : new EffectResult.Batch(rs);
-        if (out != null) {
-            ResultJson.write(out, json);
+        Object json = questionsFile == null ? rs.get(0) : new EffectResult.Batch(rs);
+        if (output.out != null) {
+            ResultJson.write(output.out, json);
         }
         PrintWriter w = spec.commandLine().getOut();
         if (fmt.equals("json")) {
-            if (out == null) {
+            if (output.out == null) {
                 w.println(ResultJson.toJson(json));
             }
         } else {
@@ -142,52 +136,5 @@ public final class EffectCommand implements Callable<Integer> {
         List<String> parts = new ArrayList<>();
         m.forEach((k, v) -> parts.add(k + "=" + v));
         return String.join(",", parts);
-    }
-
-    /** The questions of a CSV: header with {@code do} and {@code target}, optionally {@code given} and {@code versus}. */
-    static List<EffectAnalysis.Question> questions(Path file) {
-        if (!Files.isRegularFile(file)) {
-            throw new UserError("--cases: file " + file + " does not exist");
-        }
-        List<String> lines;
-        try {
-            lines = Files.readAllLines(file, StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            throw new UserError("--cases: cannot read " + file + ": " + e.getMessage());
-        }
-        if (lines.isEmpty()) {
-            throw new UserError(file + ": empty file; the first line must be do,target[,given][,versus]");
-        }
-        List<String> head = CaseCsv.fields(file, 1, lines.get(0).replace("\uFEFF", ""));
-        int[] col = {-1, -1, -1, -1};
-        String[] names = {"do", "target", "given", "versus"};
-        for (int c = 0; c < head.size(); c++) {
-            String h = head.get(c).trim().toLowerCase(Locale.ROOT);
-            int k = List.of(names).indexOf(h);
-            if (k < 0 || col[k] >= 0) {
-                throw new UserError(file + ": line 1, column " + (c + 1) + ": expected do, target, given or versus (once each), got '"
-                        + head.get(c).trim() + "'");
-            }
-            col[k] = c;
-        }
-        if (col[0] < 0 || col[1] < 0) {
-            throw new UserError(file + ": line 1: the header must name the columns do and target");
-        }
-        List<EffectAnalysis.Question> out = new ArrayList<>();
-        for (int i = 1; i < lines.size(); i++) {
-            if (lines.get(i).isBlank()) {
-                continue;
-            }
-            List<String> f = CaseCsv.fields(file, i + 1, lines.get(i));
-            if (f.size() != head.size()) {
-                throw new UserError(file + ": line " + (i + 1) + " has " + f.size() + " fields, the header has " + head.size());
-            }
-            out.add(new EffectAnalysis.Question(f.get(col[0]), f.get(col[1]), col[2] < 0 ? null : f.get(col[2]),
-                    col[3] < 0 ? null : f.get(col[3]), file + ": line " + (i + 1) + ": "));
-        }
-        if (out.isEmpty()) {
-            throw new UserError(file + ": no questions after the header");
-        }
-        return out;
     }
 }

@@ -50,7 +50,7 @@ final class ProgressBars implements ProgressListener {
 
     /** The bar's MCMC text: acceptance, then each figure of the last check with its target. */
     static String line(ChainState s) {
-        return String.format(Locale.ROOT, "acceptance %.3f  worst R-hat %s (< %s)  min ESS %s (>= %.0f)%s", s.acceptance(),
+        return String.format(Locale.ROOT, "acceptance %.3f  worst R-hat %s (< %s)  min eff. n %s (>= %.0f)%s", s.acceptance(),
                 Double.isNaN(s.maxRhat()) ? "-" : Double.isInfinite(s.maxRhat()) ? "inf" : String.format(Locale.ROOT, "%.3f", s.maxRhat()),
                 UnknownOrderEdges.trim(s.rhatTarget()), Double.isNaN(s.minEss()) ? "-" : String.format(Locale.ROOT, "%.0f", s.minEss()),
                 s.essTarget(), Double.isNaN(s.mcseTarget()) ? "" : String.format(Locale.ROOT, "  max MCSE %s (<= %s)",

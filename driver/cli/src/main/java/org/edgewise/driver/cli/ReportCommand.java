@@ -14,6 +14,7 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
@@ -21,7 +22,7 @@ import picocli.CommandLine.Model.CommandSpec;
 /** {@code report}: a self-contained HTML report (or the consensus graph as DOT) from a result. */
 @Command(name = "report", mixinStandardHelpOptions = true,
         description = "Write a self-contained HTML report of an edges result (heatmap, consensus graph, parent sets, "
-                + "MCMC diagnostics, ESS sensitivity, provenance, cautions), or the consensus graph as DOT.")
+                + "convergence and chain traces, ESS sensitivity, provenance, cautions), or the consensus graph as DOT.")
 final class ReportCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
@@ -32,9 +33,9 @@ final class ReportCommand implements Callable<Integer> {
 
     @Option(names = "--truth", paramLabel = "FILE", description = "a known network (network JSON) to mark and compare against") Path truth;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "file to write (default: standard output)") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Option(names = "--threshold", defaultValue = "0.5", paramLabel = "T",
             description = "consensus graph: edges with posterior > T (default ${DEFAULT-VALUE})")
@@ -49,12 +50,12 @@ final class ReportCommand implements Callable<Integer> {
         if (result == null && effect == null) {
             throw new UserError("give --result FILE (an edges result), --effect FILE (an effect result), or both");
         }
-        Output.check(out, overwrite);
+        output.check();
         if (result == null) {
             if (fmt.equals("dot")) {
                 throw new UserError("--format dot needs --result (an edges result)");
             }
-            Output.write(spec, out, EffectSection.page(EffectResult.read(effect), effect.getFileName().toString()));
+            output.write(spec, EffectSection.page(EffectResult.read(effect), effect.getFileName().toString()));
             return 0;
         }
         EdgeResult r = ResultJson.readEdges(result);
@@ -70,9 +71,9 @@ final class ReportCommand implements Callable<Integer> {
                 text = EffectSection.insertInto(text, EffectResult.read(effect));
             }
         }
-        Output.write(spec, out, text);
-        if (out != null) {
-            spec.commandLine().getErr().println("report: wrote " + out);
+        output.write(spec, text);
+        if (output.out != null) {
+            spec.commandLine().getErr().println("report: wrote " + output.out);
         }
         return 0;
     }

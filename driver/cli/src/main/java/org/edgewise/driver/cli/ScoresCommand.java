@@ -3,9 +3,7 @@ package org.edgewise.driver.cli;
 import java.nio.file.Path;
 import org.edgewise.driver.Checks;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.CsvFields;
 import org.edgewise.driver.score.FamilyScore;
@@ -14,8 +12,10 @@ import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
+import org.edgewise.driver.result.FamilyScores;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
@@ -35,13 +35,13 @@ final class ScoresCommand implements Callable<Integer> {
 
     @Option(names = "--ess", paramLabel = "A", description = "rescore with this BDeu ESS (default: as stored)") Double ess;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "write here instead of standard output") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
-    @Option(names = "--overwrite", description = "replace an existing --out file") boolean overwrite;
 
     @Override
     public Integer call() {
-        Output.check(out, overwrite);
+        output.check();
         String fmt = Output.format(format, "json", "csv");
         if (ess != null) {
             Checks.ess(ess, "--ess");
@@ -50,13 +50,12 @@ final class ScoresCommand implements Callable<Integer> {
         Manifest m = s.manifest();
         ScoreKind stored = ScoreKind.parse(m.score());
         ScoreKind kind = score == null ? stored : ScoreKind.parse(score);
-        Checks.notApplicable(kind == ScoreKind.K2 && ess != null, "--ess", "to score k2",
-                "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
+        kind.checkEss(ess != null, "--ess");
         double e = ess == null ? m.ess() : ess;
-        boolean rescore = kind != stored || (kind == ScoreKind.BDEU && e != m.ess());
+        boolean rescore = kind.rescores(stored, m.ess(), e);
         FamilyScore fs = FamilyScore.of(kind, e);
         StringBuilder sb = new StringBuilder();
-        List<Map<String, Object>> rows = new ArrayList<>();
+        List<FamilyScores.Family> rows = new ArrayList<>();
         if (fmt.equals("csv")) {
             sb.append("child,parents,logScore\n");
         }
@@ -73,15 +72,11 @@ final class ScoresCommand implements Callable<Integer> {
                 sb.append(CsvFields.quote(child)).append(',').append(CsvFields.quote(String.join(";", parents)))
                         .append(',').append(Double.toString(lp)).append('\n');
             } else {
-                Map<String, Object> row = new LinkedHashMap<>();
-                row.put("child", child);
-                row.put("parents", parents);
-                row.put("logScore", lp);
-                rows.add(row);
+                rows.add(new FamilyScores.Family(child, parents, lp));
             }
         }
-        String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(rows) + "\n";
-        Output.write(spec, out, text);
+        String text = fmt.equals("csv") ? sb.toString() : ResultJson.toJson(new FamilyScores(kind.label(), kind.reportedEss(e), rows)) + "\n";
+        output.write(spec, text);
         return 0;
     }
 }

@@ -4,7 +4,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.Checks;
-import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.analysis.Scoring;
 import org.edgewise.driver.score.ScoreKind;
 import org.edgewise.driver.score.StructurePrior;
 import org.edgewise.driver.store.EdgeRule;
@@ -25,20 +25,15 @@ public final class ScoringMixin {
     @Option(names = "--require", paramLabel = "a->b", split = ",", description = "edges to require at query time") public List<String> require = new ArrayList<>();
 
     /**
-     * The options for one ESS value (NaN = as stored). Every value the user gave is checked first,
-     * so a typed {@code --ess NaN} is refused like any other bad ESS, never read as "as stored".
+     * The store and scoring asked for. Every ESS value is checked first, so a typed {@code --ess NaN}
+     * is refused like any other bad ESS, never read as "as stored".
      */
-    public ScoringOptions options(double essValue) {
+    public Scoring scoring() {
         for (double given : ess) {
             Checks.ess(given, "--ess");
         }
-        return new ScoringOptions(score == null ? null : ScoreKind.parse(score), essValue,
-                StructurePrior.parse(prior), rules(forbid, "--forbid"), rules(require, "--require"), CliNames.NAMES);
-    }
-
-    /** The options for the first (or stored) ESS. */
-    public ScoringOptions options() {
-        return options(ess.isEmpty() ? Double.NaN : ess.get(0));
+        return new Scoring(store, score == null ? null : ScoreKind.parse(score), ess, StructurePrior.parse(prior),
+                rules(forbid, "--forbid"), rules(require, "--require"), CliNames.NAMES);
     }
 
     static List<EdgeRule> rules(List<String> texts, String option) {

@@ -15,6 +15,7 @@ import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.network.NetworkReader;
 import picocli.CommandLine.Command;
+import picocli.CommandLine.Mixin;
 import picocli.CommandLine.Option;
 import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
@@ -33,15 +34,15 @@ final class SimulateCommand implements Callable<Integer> {
 
     @Option(names = "--seed", defaultValue = "1", paramLabel = "S", description = "random seed (default ${DEFAULT-VALUE})") long seed;
 
-    @Option(names = "--out", paramLabel = "FILE", description = "CSV file to write (default: standard output)") Path out;
+    @Mixin
+    OutputOptions output = new OutputOptions();
 
     @Option(names = "--format", defaultValue = "csv", paramLabel = "csv", description = "output format (default ${DEFAULT-VALUE})") String format;
 
-    @Option(names = "--overwrite", description = "replace an existing output file") boolean overwrite;
 
     @Override
     public Integer call() throws IOException {
-        Output.check(out, overwrite);
+        output.check();
         if (!format.toLowerCase(Locale.ROOT).equals("csv")) {
             throw new UserError("--format must be csv, got '" + format + "'");
         }
@@ -50,7 +51,7 @@ final class SimulateCommand implements Callable<Integer> {
         }
         Network net = NetworkReader.read(network);
         ForwardSampler sampler = new ForwardSampler(net);
-        if (out == null) {
+        if (output.out == null) {
             PrintWriter w = spec.commandLine().getOut();
             // the sampler writes whole labels per chunk, so decoding chunk by chunk never splits a character
             OutputStream o = new OutputStream() {
@@ -69,16 +70,16 @@ final class SimulateCommand implements Callable<Integer> {
             return 0;
         }
         try (Progress p = Progress.start("simulate", rows)) {
-            AtomicWrite.file(out, tmp -> {
+            AtomicWrite.file(output.out, tmp -> {
                 try (OutputStream o = new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16)) {
                     sampler.writeCsv(rows, seed, o, p::step);
                 }
             });
         } catch (IOException e) {
-            throw new UserError("cannot write " + out + ": " + AtomicWrite.reason(e));
+            throw new UserError("cannot write " + output.out + ": " + AtomicWrite.reason(e));
         }
         spec.commandLine().getErr().println("simulate: wrote " + rows + " rows of " + net.size()
-                + " variables to " + out + " (seed " + seed + ")");
+                + " variables to " + output.out + " (seed " + seed + ")");
         return 0;
     }
 }

@@ -1,104 +1,27 @@
 package org.edgewise.driver.cli;
 
-import java.io.PrintWriter;
-import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
-import org.edgewise.driver.analysis.EssSweep;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.ExactOrderSum;
-import org.edgewise.driver.average.StructureSum;
-import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.TooLargeForExact;
-import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EdgeResult;
-import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.UserError;
 
 /**
- * {@code edges --method exact|mcmc}: calls {@link EssSweep#unknownOrder} and says on standard
- * error what users should know (the time the exact sum will take, chains that disagree); the
- * terminal lines of the MCMC diagnostics and features.
+ * The terminal lines of a result over unknown orders: the not-converged warning every averaging
+ * command prints, the convergence block, the essential graph and the features.
  */
 final class UnknownOrderEdges {
-    /** R̂ above this is reported as not converged. */
-    static final double RHAT_WARN = org.edgewise.driver.analysis.UnknownOrderAveraging.RHAT_WARN;
-
     private UnknownOrderEdges() {
     }
 
-    static EdgeResult compute(ScoreStore store, Path storePath, List<ScoringOptions> options,
-                              UnknownOrderSettings settings, PrintWriter err) {
-        if (settings.method() == UnknownOrderSettings.Method.EXACT) {
-            Object est = settings.dagPrior() == DagPrior.STRUCTURE_MODULAR ? StructureSum.estimateHere(store.variableCount())
-                    : ExactOrderSum.estimateHere(store.variableCount());
-            double seconds = est instanceof StructureSum.Estimate e ? e.seconds() : ((ExactOrderSum.Estimate) est).seconds();
-            int n = store.variableCount();
-            int largest = est instanceof StructureSum.Estimate e ? e.largestN() : ((ExactOrderSum.Estimate) est).largestN();
-            // only a sum that will run is announced: a refused one says the same in its refusal
-            if (seconds > 5 && n <= largest) {
-                err.println("edges: " + est + (options.size() > 1 ? " (for each of the " + options.size()
-                        + " ESS values)" : ""));
-            }
-        }
-        try {
-            return EssSweep.unknownOrder(store, storePath, options, settings, ProgressBars.onTerminal(), r -> {
-                if (r.diagnostics() != null && !r.diagnostics().converged()) {
-                    err.println(notConverged(r.diagnostics()));
-                }
-            });
-        } catch (TooLargeForExact e) {
-            throw tooLarge(e);
-        } catch (StructureSum.TooLarge e) {
-            throw new UserError(e.getMessage() + " (or raise the heap with EDGEWISE_JAVA_OPTS=-Xmx…)", e);
-        }
-    }
-
     /** Why a run is not converged, in one line: the stop reason, the targets, the worst quantities and what to do. */
-    static String notConverged(EdgeResult.Diagnostics d) {
-        StringBuilder sb = new StringBuilder(String.format(Locale.ROOT,
-                "edges: WARNING: not converged (%s; needs R-hat < %s, bulk ESS >= %.0f%s for every quantity): "
-                        + "the posteriors are not reliable. Worst:", d.stopReason() == null ? "?" : stopText(d.stopReason()),
-                d.rhatTarget() == null ? "1.01" : trim(d.rhatTarget()), d.essTarget() == null ? 400 : d.essTarget(),
-                d.mcseTarget() == null ? "" : " and MCSE <= " + trim(d.mcseTarget())));
-        if (d.worst() != null && !d.worst().isEmpty()) {
-            for (EdgeResult.Worst w : d.worst()) {
-                sb.append(String.format(Locale.ROOT, " %s (R-hat %s, ESS %s, MCSE %s)%s", w.quantity(),
-                        w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()),
-                        w.ess() == null ? "-" : String.format(Locale.ROOT, "%.0f", w.ess()),
-                        w.mcse() == null ? "-" : String.format(Locale.ROOT, "%.4f", w.mcse()),
-                        "stuck".equals(w.state()) ? " stuck" : ""));
-                sb.append(';');
-            }
-            sb.setLength(sb.length() - 1);
-        } else {
-            sb.append(" -");
-        }
-        sb.append(". ").append(ConvergenceAdvice.next(d, CliNames.RUN).get(0));
-        return sb.toString();
-    }
-
-    private static String stopText(String reason) {
-        return switch (reason) {
-            case "max-time" -> "stopped at the time budget";
-            case "max-steps" -> "stopped at the step cap";
-            case "steps" -> "ran the requested --steps";
-            case "converged" -> "the chains met the targets, the reported posteriors did not";
-            default -> reason;
-        };
+    static String notConverged(String command, EdgeResult.Diagnostics d) {
+        return command + ": " + ConvergenceAdvice.warning(d, CliNames.RUN);
     }
 
     /** {@code x} without trailing zeros: 1.01, 0.01, 400. */
     static String trim(double x) {
         return java.math.BigDecimal.valueOf(x).stripTrailingZeros().toPlainString();
-    }
-
-    /** The exact method's refusal in the launcher's words. */
-    static UserError tooLarge(TooLargeForExact e) {
-        return new UserError(e.estimate() + " (heap " + (e.heapBytes() >> 20)
-                + " MiB; raise it with EDGEWISE_JAVA_OPTS=-Xmx…, or use --method mcmc)", e);
     }
 
     /** Pairs shown in the essential-graph table. */
@@ -147,9 +70,9 @@ final class UnknownOrderEdges {
         for (int k = 0; k < next.size(); k++) {
             line(sb, k == 0 ? "next" : "", next.get(k));
         }
-        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail ESS %s",
-                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
-                d.essTail() == null ? "-" : String.format(Locale.ROOT, "%.0f", d.essTail())));
+        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail eff. n %s",
+                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(), d.tailEffectiveSampleSize() == null ? "-"
+                        : String.format(Locale.ROOT, "%.0f", d.tailEffectiveSampleSize())));
         return sb.toString();
     }
 

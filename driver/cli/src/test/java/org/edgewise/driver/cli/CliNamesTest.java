@@ -9,9 +9,9 @@ import java.io.StringWriter;
 import java.util.List;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DrawStore;
-import org.edgewise.driver.average.McmcMemory;
-import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.average.mcmc.DrawStore;
+import org.edgewise.driver.average.mcmc.McmcMemory;
+import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
 import org.junit.jupiter.api.Test;
 
 /** The CLI words the core's typed user errors with its own option names; other failures pass through. */
@@ -32,12 +32,12 @@ class CliNamesTest {
         MultiChainDiagnostics.TooFewDraws e = assertThrows(MultiChainDiagnostics.TooFewDraws.class,
                 () -> MultiChainDiagnostics.evaluate(chains(2), 0, MultiChainDiagnostics.rows(q -> "q" + q, 1), 1.01));
         // the core in the Java API's words; the CLI in its own (the message users read, word for word)
-        assertEquals("only 2 draws per chain were stored after burn-in; run more steps or store more draws (draws)",
+        assertEquals("only 2 draws per chain were stored after the warm-up; run more steps or store more draws (draws)",
                 e.getMessage());
         StringWriter err = new StringWriter();
         int status = ErrorReport.report("edges", CliNames.worded(new RuntimeException("wrapped", e)), new PrintWriter(err));
         assertEquals(ErrorReport.USER_MISTAKE, status);
-        assertEquals("edges: only 2 draws per chain were stored after burn-in; run more steps or store more draws (--draws)\n",
+        assertEquals("edges: only 2 draws per chain were stored after the warm-up; run more steps or store more draws (--draws)\n",
                 err.toString().replace(System.lineSeparator(), "\n"));
     }
 

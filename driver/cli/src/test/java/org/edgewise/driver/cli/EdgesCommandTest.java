@@ -10,7 +10,7 @@ import java.nio.file.Path;
 import java.util.HashSet;
 import java.util.Set;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderSum;
+import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeEach;

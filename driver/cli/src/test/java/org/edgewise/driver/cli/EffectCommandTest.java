@@ -49,7 +49,7 @@ class EffectCommandTest extends StoreFixture {
         assertEquals("order", j.get("method").asText());
         assertEquals("effect", j.get("kind").asText());
         EffectResult lib = EffectAnalysis.run(new EffectAnalysis.Request(LocalScores.build(mem, ScoringOptions.asStored()),
-                new int[] {3, 0, 4, 1, 2}, null, null,
+                new int[] {3, 0, 4, 1, 2}, null,
                 List.of(new EffectAnalysis.Question("v0=s1", "v2=s0", null, "v0=s0", "")),
                 new EffectEngine.Settings(200, 1L, 1_000_000L)), ProgressListener.NONE).get(0);
         assertEquals(lib.probability(), j.get("probability").asDouble(), 1e-15);
@@ -70,13 +70,13 @@ class EffectCommandTest extends StoreFixture {
         Path in = dir.resolve("q.csv");
         Files.writeString(in, "do,target,versus\n\"v0=s1\",v2=s0,v0=s0\nv4=s2,v1=s1,\n");
         Path out = dir.resolve("e.json");
-        CliRun r = effect("--order", ORDER, "--cases", in.toString(), "--out", out.toString(), "--format", "json",
+        CliRun r = effect("--order", ORDER, "--questions", in.toString(), "--out", out.toString(), "--format", "json",
                 "--effect-draws", "100");
         assertEquals(0, r.status(), r.err());
         List<EffectResult> rs = EffectResult.read(out);
         assertEquals(2, rs.size());
         assertEquals(null, rs.get(1).versus());
-        CliRun bad = effect("--order", ORDER, "--cases", write("b.csv", "do,target\nv0=s9,v2=s0\n"));
+        CliRun bad = effect("--order", ORDER, "--questions", write("b.csv", "do,target\nv0=s9,v2=s0\n"));
         assertEquals(2, bad.status());
         assertEquals("effect: " + dir.resolve("b.csv") + ": line 2: --do: variable 'v0' has no state 's9' (valid states: s0, s1)",
                 bad.errLine());

@@ -9,7 +9,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import org.edgewise.driver.HeldOutData;
-import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
@@ -65,8 +65,8 @@ class HonestLabelsTest {
                 "--tail-mass", "0");
         assertEquals(0, sampled.status(), sampled.err());
         JsonNode j = JSON.readTree(sampled.out());
-        assertEquals("sampled", j.get("orders").asText());
-        assertEquals(1000, j.get("orderSamples").asInt());
+        assertEquals("sampled orders", j.get("averagedOver").asText());
+        assertEquals(1000, j.get("samples").asInt());
         assertEquals("order-modular", j.get("dagPrior").asText());
         assertEquals("exact", j.get("method").asText());
         double mcse = j.get("mcse").asDouble();
@@ -75,10 +75,10 @@ class HonestLabelsTest {
         CliRun ex = CliRun.of("predict", "--dag-prior", "order-modular", "--store", s, "--method", "exact", "--exact-cases", "--case", CASE8, "--format", "json");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
-        assertEquals("all", e.get("orders").asText());
+        assertEquals("all orders", e.get("averagedOver").asText());
         assertTrue(e.get("exactCase").asBoolean());
         assertFalse(e.has("mcse"));
-        assertFalse(e.has("orderSamples"));
+        assertFalse(e.has("samples"));
         double expected = logOrderSum(HeldOutData.plus(rows8, X8)) - logOrderSum(rows8);
         assertEquals(expected, e.get("logProbability").asDouble(), 1e-9);
         double p = Math.exp(expected);
@@ -93,9 +93,9 @@ class HonestLabelsTest {
     void allOrdersSayAllAndBatchesCarryAnMcseColumn() throws Exception {
         CliRun r = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "exact", "--case", "v0=s1", "--format", "json");
         JsonNode j = JSON.readTree(r.out());
-        assertEquals("all", j.get("orders").asText());
+        assertEquals("all orders", j.get("averagedOver").asText());
         assertFalse(j.has("mcse"));
-        assertFalse(j.has("orderSamples"));
+        assertFalse(j.has("samples"));
         Path cases = dir.resolve("cases.csv");
         Files.writeString(cases, "v0,v1\ns1,s2\ns0,\n");
         CliRun b = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "mcmc", "--steps", "2000", "--cases", cases.toString());
@@ -151,7 +151,7 @@ class HonestLabelsTest {
     @Test
     void estimatesOfZeroReportTheRuleOfThree() throws Exception {
         CliRun r = CliRun.of("edges", "--store", store5.toString(), "--method", "exact", "--dag-prior", "order-modular", "--features", "ancestors",
-                "--order-samples", "500", "--forbid", "v0->v1,v0->v2,v0->v3,v0->v4", "--format", "json");
+                "--dag-samples", "500", "--forbid", "v0->v1,v0->v2,v0->v3,v0->v4", "--format", "json");
         assertEquals(0, r.status(), r.err());
         int checked = 0;
         for (JsonNode f : JSON.readTree(r.out()).get("features")) {

@@ -64,4 +64,32 @@ class LayeringTest {
                 .because("analysis/ runs the engines for a request and assembles results; nothing below calls up")
                 .check(classes);
     }
+
+    @Test
+    void theCliImportsNoEngine() {
+        noClasses().that().resideInAPackage("org.edgewise.driver.cli..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.average..",
+                        "org.edgewise.driver.query..", "org.edgewise.driver.effect..", "org.edgewise.driver.posterior..")
+                .because("the CLI parses and prints; every command calls one service in analysis/ (DEVELOPERS.md)")
+                .check(classes);
+    }
+
+    @Test
+    void resultsImportNoEngine() {
+        noClasses().that().resideInAPackage("org.edgewise.driver.result..")
+                .should().dependOnClassesThat().resideInAnyPackage("org.edgewise.driver.average..",
+                        "org.edgewise.driver.query..", "org.edgewise.driver.effect..", "org.edgewise.driver.posterior..",
+                        "org.edgewise.driver.analysis..")
+                .because("result/ holds the JSON records and their reading and writing; analysis/ assembles them")
+                .check(classes);
+    }
+
+    @Test
+    void onlyAnalysisChoosesThePosterior() {
+        noClasses().that().resideInAnyPackage("org.edgewise.driver.average..", "org.edgewise.driver.query..",
+                        "org.edgewise.driver.effect..", "org.edgewise.driver.report..", "org.edgewise.driver.result..")
+                .should().dependOnClassesThat().resideInAPackage("org.edgewise.driver.posterior..")
+                .because("the structure posterior is chosen once per request, by the services in analysis/")
+                .check(classes);
+    }
 }

@@ -35,7 +35,7 @@ class OutputSafetyTest extends StoreFixture {
         }
         CliRun r = CliRun.of("scores", "--store", s, "--out", notes.toString(), "--overwrite");
         assertEquals(0, r.status(), r.err());
-        assertTrue(Files.readString(notes).startsWith("["), "replaced with --overwrite");
+        assertTrue(Files.readString(notes).startsWith("{\n  \"formatVersion\""), "replaced with --overwrite");
     }
 
     @Test

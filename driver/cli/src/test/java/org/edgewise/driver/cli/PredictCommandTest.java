@@ -11,7 +11,7 @@ import java.nio.file.Path;
 import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.score.FamilyScore;
@@ -130,6 +130,14 @@ class PredictCommandTest {
         refused("predict: --ess must be between 1e-9 and 1e15, got 1.0E-323 (beyond these the prior alone decides every"
                 + " score, or the data alone)",
                 "predict", "--store", p.toString(), "--order", "v0,v1", "--case", "v1=s0", "--given", "v0=s1", "--ess", "1e-323");
+    }
+
+    /** A case that contradicts its own evidence is refused in one line, never answered with a log of −∞ (issue 23). */
+    @Test
+    void aCaseThatContradictsItsEvidenceIsRefused() {
+        refused("predict: --case sets v0=s0 but --given observed v0=s1: a case that contradicts its evidence has conditional "
+                + "probability 0 by definition; nothing to average",
+                "predict", "--store", store.toString(), "--order", ORDER, "--case", "v0=s0", "--given", "v0=s1");
     }
 
     /** {@code predict --cases f} with {@code content} in f is refused with "predict: f" + {@code message}. */

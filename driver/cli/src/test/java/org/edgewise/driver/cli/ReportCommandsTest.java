@@ -127,14 +127,14 @@ class ReportCommandsTest {
     void reportAndCompareRefuseAResultOfAnotherFormatVersion() throws Exception {
         files();
         Path r = dir.resolve("r.json");
-        Files.writeString(r, Files.readString(r).replace("\"formatVersion\" : 1", "\"formatVersion\" : 2"));
+        Files.writeString(r, Files.readString(r).replace("\"formatVersion\" : 2", "\"formatVersion\" : 1"));
         String truth = dir.resolve("net.json").toString();
         for (String command : List.of("report", "compare")) {
             Path out = dir.resolve(command + ".out");
             CliRun run = run(command, "--result", r.toString(), "--truth", truth, "--out", out.toString());
             assertEquals(2, run.status(), run.err());
-            assertEquals(command + ": result file " + r + " has format version 2; this Edgewise reads edges results of"
-                    + " format version 1\n", run.err());
+            assertEquals(command + ": result file " + r + " has format version 1; this Edgewise reads edges results of"
+                    + " format version 2; re-run the analysis that wrote it with this Edgewise\n", run.err());
             assertFalse(Files.exists(out));
         }
     }

@@ -52,10 +52,17 @@ class ScoresCommandTest {
         Path ess10 = store("ess10", FamilyScore.of(ScoreKind.BDEU, 10));
         Path k2 = store("k2", FamilyScore.of(ScoreKind.K2, 1));
         ObjectMapper json = new ObjectMapper();
-        JsonNode rescored = json.readTree(run("scores", "--store", ess1.toString(), "--ess", "10").out());
-        JsonNode direct = json.readTree(run("scores", "--store", ess10.toString()).out());
-        JsonNode rescoredK2 = json.readTree(run("scores", "--store", ess1.toString(), "--score", "k2").out());
-        JsonNode directK2 = json.readTree(run("scores", "--store", k2.toString()).out());
+        JsonNode rescoredAll = json.readTree(run("scores", "--store", ess1.toString(), "--ess", "10").out());
+        // every result JSON starts with its format version and kind (ResultJson stamps them in one place)
+        assertEquals("[formatVersion, kind, score, ess, families]", fieldNames(rescoredAll));
+        assertEquals("scores", rescoredAll.get("kind").asText());
+        assertEquals(10.0, rescoredAll.get("ess").asDouble());
+        JsonNode rescored = rescoredAll.get("families");
+        JsonNode direct = json.readTree(run("scores", "--store", ess10.toString()).out()).get("families");
+        JsonNode k2All = json.readTree(run("scores", "--store", ess1.toString(), "--score", "k2").out());
+        assertTrue(k2All.get("ess") == null, "K2 has no ESS: " + k2All);
+        JsonNode rescoredK2 = k2All.get("families");
+        JsonNode directK2 = json.readTree(run("scores", "--store", k2.toString()).out()).get("families");
         assertEquals(direct.size(), rescored.size());
         assertEquals(3 * (1 + 2 + 1), direct.size(), "3 children × parent sets of size ≤ 2 from 2 others");
         for (int i = 0; i < direct.size(); i++) {
@@ -90,5 +97,11 @@ class ScoresCommandTest {
         r = run("scores", "--store", dir.resolve("nope").toString());
         assertEquals(2, r.status());
         assertEquals("scores: store " + dir.resolve("nope") + " does not exist or is not a directory\n", r.err());
+    }
+
+    static String fieldNames(JsonNode n) {
+        java.util.List<String> names = new java.util.ArrayList<>();
+        n.fieldNames().forEachRemaining(names::add);
+        return names.toString();
     }
 }

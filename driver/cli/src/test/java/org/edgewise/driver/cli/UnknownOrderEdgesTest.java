@@ -1,15 +1,17 @@
 package org.edgewise.driver.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import java.nio.file.Path;
-import org.edgewise.driver.average.ExactOrderSum;
+import java.util.List;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -35,7 +37,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void exactAndMcmcAgreeAndReportTheirDiagnostics() throws Exception {
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
-                "--features", "ancestors,markov-blanket", "--order-samples", "2000", "--dag-prior", "order-modular");
+                "--features", "ancestors,markov-blanket", "--dag-samples", "2000", "--dag-prior", "order-modular");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("exact", e.get("method").asText());
@@ -68,7 +70,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
     @Test
     void structureModularIsTheDefaultExactAndMcmcAgreeWithTheLibrary() throws Exception {
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json",
-                "--features", "essential-graph", "--samples", "4000");
+                "--features", "essential-graph", "--dag-samples", "4000");
         assertEquals(0, ex.status(), ex.err());
         JsonNode e = JSON.readTree(ex.out());
         assertEquals("structure-modular", e.get("dagPrior").asText());
@@ -110,7 +112,8 @@ class UnknownOrderEdgesTest extends StoreFixture {
         assertEquals(0, r.status(), r.err());
         assertTrue(r.out().contains("\nConvergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)\n"
                 + "  verdict   "), r.out());
-        assertTrue(r.out().contains("\n  targets   R-hat < 1.01, bulk ESS >= 400, MCSE <= 0.01 for every edge and feature posterior\n"),
+        assertTrue(r.out().contains("\n  targets   R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature "
+                + "posterior\n"),
                 r.out());
         CliRun ex = CliRun.of("edges", "--store", store.toString(), "--method", "exact");
         assertTrue(ex.out().contains("\nEdge posteriors are exact (summed over every order or DAG, not sampled): no Monte Carlo "
@@ -132,10 +135,12 @@ class UnknownOrderEdgesTest extends StoreFixture {
         CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "8", "--draws", "4",
                 "--burn-in", "0", "--chains", "4", "--format", "json");
         assertEquals(0, r.status(), r.err());
-        assertTrue(r.err().contains("edges: WARNING: not converged (ran the requested --steps; needs R-hat < 1.01, bulk ESS >= 400 "
-                + "and MCSE <= 0.01 for every quantity): the posteriors are not reliable. Worst: "), r.err());
-        assertTrue(r.err().contains(". Run until converged instead of a fixed number of steps (no --steps, or --until-rhat)."),
-                r.err());
+        assertTrue(r.err().contains("edges: WARNING: not converged (a fixed number of steps was run, with no check until "
+                + "converged; needs R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature "
+                + "posterior): the posteriors are not reliable. Worst: "), r.err());
+        assertTrue(r.err().contains(". Run longer: raise the steps per chain (--steps) or run until converged instead (no --steps, "
+                + "or --rhat-target)."), r.err());
+        assertFalse(r.err().contains("--max-time"), "refused after --steps, so never advised: " + r.err());
         JsonNode d = JSON.readTree(r.out()).get("diagnostics");
         assertEquals("steps", d.get("stopReason").asText());
         assertTrue(d.get("worst").size() >= 1, d.toString());
@@ -150,28 +155,40 @@ class UnknownOrderEdgesTest extends StoreFixture {
         ((com.fasterxml.jackson.databind.node.ObjectNode) d).remove("traces");
         assertTrue(d.get("converged").asBoolean(), d.toString());
         assertEquals(1.01, d.get("rhatTarget").asDouble(), 0.0);
-        assertEquals(400, d.get("essTarget").asDouble(), 0.0);
+        assertEquals(400, d.get("effectiveSampleSizeTarget").asDouble(), 0.0);
         assertEquals(0.01, d.get("mcseTarget").asDouble(), 0.0);
         assertTrue(d.get("mcse").asDouble() <= 0.01, d.toString());
         for (JsonNode e : JSON.readTree(r.out()).get("edges")) {
             assertTrue(e.get("mcse").asDouble() <= 0.01, e.toString()); // every reported posterior meets the target
         }
-        assertTrue(d.get("rhat").asDouble() < 1.01 && d.get("ess").asDouble() >= 400, d.toString());
+        assertTrue(d.get("rhat").asDouble() < 1.01 && d.get("bulkEffectiveSampleSize").asDouble() >= 400, d.toString());
+        assertTrue(d.get("tailEffectiveSampleSize").asDouble() > 0, d.toString());
+        // one word, one meaning: "ess" is BDeu's equivalent sample size (settings.ess), never the MCMC's
+        for (String old : List.of("ess", "essTail", "essTarget")) {
+            assertFalse(d.has(old), old + " in " + d);
+        }
+        for (JsonNode w : d.has("worst") ? d.get("worst") : JSON.createArrayNode()) {
+            assertFalse(w.has("ess") || w.has("essTail"), w.toString());
+        }
         assertEquals(d.get("steps").asLong(), d.get("burnIn").asLong()); // the first half is warm-up
     }
 
     @Test
     void refusals() {
         String s = store.toString();
-        assertEquals("edges: --tiers: unknown variable 'zz'",
+        assertEquals("edges: --tiers: unknown variable 'zz' (variables: v0, v1, v2, v3, v4)",
                 CliRun.of("edges", "--store", s, "--method", "exact", "--tiers", "v0,zz").errLine());
         assertEquals("edges: --features: unknown feature 'paths' (valid: ancestors, markov-blanket, essential-graph)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--features", "paths").errLine());
-        assertEquals("edges: --until-rhat must be above 1 (e.g. 1.01), got 0.9",
-                CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "0.9").errLine());
-        assertEquals("edges: --max-time applies when running until converged (no --steps, or --until-rhat)",
+        assertEquals("edges: --rhat-target must be above 1 (e.g. 1.01), got 0.9",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--rhat-target", "0.9").errLine());
+        assertEquals("edges: --until-rhat is now --rhat-target (beside --mcse-target): give --rhat-target 1.02",
+                CliRun.of("edges", "--store", s, "--method", "mcmc", "--until-rhat", "1.02").errLine());
+        assertEquals("edges: --samples and --order-samples are now --dag-samples (they count DAGs drawn for --features): give --dag-samples 10",
+                CliRun.of("edges", "--store", s, "--method", "exact", "--order-samples", "10").errLine());
+        assertEquals("edges: --max-time applies when running until converged (no --steps, or --rhat-target)",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--steps", "100", "--max-time", "5").errLine());
-        assertEquals("edges: --burn-in applies to a fixed run (--steps without --until-rhat); "
+        assertEquals("edges: --burn-in applies to a fixed run (--steps without --rhat-target); "
                         + "running until converged discards the first half of each chain",
                 CliRun.of("edges", "--store", s, "--method", "mcmc", "--burn-in", "5").errLine());
         assertEquals("edges: --mcse-target must be between 0.005 and 0.5, got 0.001",

@@ -1,55 +1,27 @@
 package org.edgewise.driver.analysis;
 
 import java.util.ArrayList;
-import java.util.Arrays;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DagPrior;
-import org.edgewise.driver.average.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderMcmc;
-import org.edgewise.driver.average.OrderPosterior;
-import org.edgewise.driver.average.OrderSampling;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.effect.Effect;
 import org.edgewise.driver.effect.EffectEngine;
-import org.edgewise.driver.effect.EffectOrders;
 import org.edgewise.driver.effect.EffectQuery;
 import org.edgewise.driver.query.CaseParser;
-import org.edgewise.driver.query.UnknownOrderPrediction;
+import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EffectResult;
-import org.edgewise.driver.result.ResultBuilder;
 import org.edgewise.driver.store.Manifest;
+import org.edgewise.driver.store.ScoreStore;
 
 /**
- * The {@code effect} service: parses the questions, picks the orders to average over, runs the
- * {@link EffectEngine} and assembles {@link EffectResult}s.
- * <ul>
- * <li>given an order: exact;</li>
- * <li>over unknown orders, order-modular prior, {@code exact}: every allowed order with its exact
- * weight when n ≤ {@value #ENUMERATE_MAX} (at most 40,320 orders), else at most
- * {@value #MAX_SAMPLED_ORDERS} orders drawn from the exact order posterior (Koivisto &amp; Sood
- * 2004), with MCSE;</li>
- * <li>{@code mcmc}: the orders kept by the chains, at most {@value #MAX_ORDERS_PER_CHAIN} per chain
- * evenly spaced, with an autocorrelation-aware MCSE;</li>
- * <li>structure-modular prior: DAGs drawn from the structure-modular posterior ({@link StructureDraws}:
- * exact draws for {@code exact}, partition-MCMC DAGs for {@code mcmc}) fed to
- * {@link EffectEngine#overDags}, with MCSE (sampled).</li>
- * </ul>
+ * The {@code effect} service: parses the questions, asks the request's {@link StructurePosterior}
+ * what to average over — weighted orders (each summed over its DAGs in closed form) or weighted DAGs
+ * — runs the {@link EffectEngine} over it and assembles {@link EffectResult}s. Which orders or DAGs,
+ * exact or sampled, is the posterior's to say ({@link StructurePosterior#effectSource}).
  */
 public final class EffectAnalysis {
-    /** Largest n for which every allowed order is enumerated. */
-    public static final int ENUMERATE_MAX = 8;
-    /** Orders drawn from the exact order posterior beyond {@link #ENUMERATE_MAX}. */
-    public static final int MAX_SAMPLED_ORDERS = 2000;
-    /** Orders kept per MCMC chain. */
-    public static final int MAX_ORDERS_PER_CHAIN = 500;
-
     /** Printed with every result (DESIGN.md, "Interventions"). */
     public static final List<String> ASSUMPTIONS = List.of(
             "causal sufficiency: the variables include every common cause of the ones involved (no hidden confounders)",
@@ -70,17 +42,30 @@ public final class EffectAnalysis {
     /**
      * @param order    the given order, or null for unknown orders
      * @param settings unknown orders: the method and its settings, else null
-     * @param dagPrior unknown orders: the DAG prior asked for
      */
-    public record Request(LocalScores scores, int[] order, UnknownOrderSettings settings, DagPrior dagPrior,
+    public record Request(LocalScores scores, int[] order, UnknownOrderSettings settings,
                           List<Question> questions, EffectEngine.Settings engine) {
     }
 
     private EffectAnalysis() {
     }
 
-    /** DAGs drawn under the structure-modular prior (exact draws, or spread over the MCMC chains' orders). */
-    public static final int DAG_DRAWS = 20_000;
+    /** Draws of (DAG, parameters) for an effect's credible interval and histogram by default. */
+    public static final int DEFAULT_DRAWS = EffectEngine.DEFAULT_DRAWS;
+
+    /**
+     * The effects of {@code questions} on the store and scoring of {@code scoring}, averaged over
+     * what {@code averaging} asks for, with {@code draws} (DAG, parameter) draws for each interval.
+     */
+    public static List<EffectResult> run(Scoring scoring, Averaging averaging, List<Question> questions, int draws,
+                                         long maxHiddenStates, ProgressListener progress) {
+        ScoreStore store = scoring.read();
+        int[] order = averaging.order() == null ? null
+                : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
+        LocalScores ls = LocalScores.build(store, scoring.first());
+        return run(new Request(ls, order, averaging.settings(0), questions,
+                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates)), progress);
+    }
 
     public static List<EffectResult> run(Request r, ProgressListener progress) {
         LocalScores ls = r.scores();
@@ -89,75 +74,16 @@ public final class EffectAnalysis {
         for (Question q : r.questions()) {
             qs.add(EffectQuery.parse(m, q.doText(), q.targetText(), q.givenText(), q.versusText(), q.where(), ls.options().names()));
         }
-        int n = ls.variableCount();
-        EffectOrders src;
-        String method;
-        String over;
-        Boolean converged = null;
-        Double maxRhat = null;
-        if (r.order() != null) {
-            OrderPosterior.of(ls, r.order()); // refuses a required edge against the order, naming it
-            src = EffectOrders.given(r.order());
-            method = "order";
-            over = "every DAG consistent with the given order (exact; both DAG priors coincide given an order)";
-        } else if (r.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
-            src = null; // DAG draws below
-            method = null;
-            over = null;
-        } else {
-            UnknownOrderSettings s = r.settings();
-            OrderConstraints oc = s.constraints(ls);
-            if (s.method() == UnknownOrderSettings.Method.EXACT) {
-                method = "exact";
-                if (n <= ENUMERATE_MAX) {
-                    List<int[]> all = UnknownOrderPrediction.allowedOrders(oc, n);
-                    src = EffectOrders.enumerated(all);
-                    over = "every allowed order (" + all.size() + ") with its exact posterior weight, and every DAG consistent with each (exact)";
-                } else {
-                    ExactOrderSum.Result er = ExactOrderSum.run(ls, oc, MAX_SAMPLED_ORDERS, s.seed(), null);
-                    src = EffectOrders.independent(Arrays.asList(er.sampledOrders()));
-                    over = MAX_SAMPLED_ORDERS + " orders drawn from the exact order posterior, and every DAG consistent with each (sampled; see mcse)";
-                }
-            } else {
-                method = "mcmc";
-                OrderMcmc.Result mr = OrderSampling.runMcmc(ls, oc, s, false, progress);
-                List<int[]> kept = perChain(mr.orders(), s.chains());
-                src = EffectOrders.chains(kept, s.chains());
-                converged = mr.converged();
-                maxRhat = mr.maxRhat();
-                over = kept.size() + " orders kept by " + s.chains() + " order-MCMC chains, and every DAG consistent with each (sampled; see mcse)";
-            }
-        }
-        List<Effect> effects;
-        if (r.order() == null && r.dagPrior() == DagPrior.STRUCTURE_MODULAR) {
-            UnknownOrderSettings s = r.settings();
-            StructureDraws d = StructureDraws.of(ls, s, progress);
-            effects = EffectEngine.overDags(ls, d, qs, r.engine());
-            method = s.method().label();
-            over = d.description();
-            converged = d.converged();
-            maxRhat = d.maxRhat();
-        } else {
-            effects = EffectEngine.overOrders(ls, src, qs, r.engine());
-        }
+        StructurePosterior p = StructurePosterior.of(ls, r.order(), r.settings(), progress);
+        StructurePosterior.EffectSource src = p.effectSource();
+        List<Effect> effects = src instanceof StructurePosterior.OverDags d
+                ? EffectEngine.overDags(ls, d.dags(), qs, r.engine())
+                : EffectEngine.overOrders(ls, ((StructurePosterior.OverOrders) src).orders(), qs, r.engine());
+        StructurePosterior.Labels l = p.labels();
         List<EffectResult> out = new ArrayList<>();
         for (int i = 0; i < qs.size(); i++) {
-            out.add(result(m, ls, qs.get(i), effects.get(i), method, r.order() == null ? r.dagPrior().label() : null,
-                    over, r.order(), converged, maxRhat));
-        }
-        return out;
-    }
-
-    /** At most {@link #MAX_ORDERS_PER_CHAIN} evenly spaced orders of each chain, chains kept apart and equally long. */
-    static List<int[]> perChain(List<int[]> orders, int chains) {
-        int per = orders.size() / chains;
-        int every = Math.max(1, (per + MAX_ORDERS_PER_CHAIN - 1) / MAX_ORDERS_PER_CHAIN);
-        int keep = per / every;
-        List<int[]> out = new ArrayList<>();
-        for (int c = 0; c < chains; c++) {
-            for (int t = 0; t < keep; t++) {
-                out.add(orders.get(c * per + t * every));
-            }
+            out.add(result(m, ls, qs.get(i), effects.get(i), l.method(), l.dagPriorLabel(null), src.over(), r.order(),
+                    src.converged(), src.maxRhat()));
         }
         return out;
     }
@@ -166,9 +92,9 @@ public final class EffectAnalysis {
                                        String dagPrior, String over, int[] order, Boolean converged, Double maxRhat) {
         boolean vs = q.versus() != null;
         String est = e.exact() ? "exact" : "sampled";
-        EffectResult.Versus versus = vs ? new EffectResult.Versus(named(m, q.versus()), e.versusProbability(), e.versusMcse()) : null;
+        EffectResult.Versus versus = vs ? new EffectResult.Versus(CaseParser.named(m, q.versus()), e.versusProbability(), e.versusMcse()) : null;
         var d = e.draws();
-        return new EffectResult(named(m, q.set()), named(m, q.target()), q.hasGiven() ? named(m, q.given()) : null,
+        return new EffectResult(CaseParser.named(m, q.set()), CaseParser.named(m, q.target()), q.hasGiven() ? CaseParser.named(m, q.given()) : null,
                 e.probability(), e.mcse(), est, versus, vs ? e.difference() : null, vs ? e.differenceMcse() : null,
                 vs ? e.ratio() : null, e.noPath(), e.noPathMcse(), e.noPathExact() ? "exact" : "sampled",
                 new EffectResult.Interval(d.level(), d.lower(), d.upper(), d.of()),
@@ -179,13 +105,4 @@ public final class EffectAnalysis {
                 converged, maxRhat, ASSUMPTIONS, NOTE);
     }
 
-    static Map<String, String> named(Manifest m, int[] states) {
-        Map<String, String> out = new LinkedHashMap<>();
-        for (int v = 0; v < states.length; v++) {
-            if (states[v] != CaseParser.HIDDEN) {
-                out.put(m.variables().get(v).name(), m.variables().get(v).states().get(states[v]));
-            }
-        }
-        return out;
-    }
 }

@@ -3,8 +3,8 @@ package org.edgewise.driver.analysis;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
-import org.edgewise.driver.average.ConvergenceTargets;
-import org.edgewise.driver.average.MultiChainDiagnostics;
+import org.edgewise.driver.average.convergence.ConvergenceTargets;
+import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
 import org.edgewise.driver.result.EdgeResult;
 
 /**

@@ -1,6 +1,9 @@
 package org.edgewise.driver.average;
 
 import java.util.Arrays;
+import org.edgewise.driver.average.exact.ExactOrderSum;
+import org.edgewise.driver.average.givenorder.OrderSum;
+import org.edgewise.driver.average.mcmc.McmcMemory;
 
 /**
  * Per child, log Σ_{U ⊆ P} exp(s(i,U) + log ρ_i(U)) for every subset P of its candidates, as one
@@ -15,16 +18,16 @@ import java.util.Arrays;
  * until {@code budgetBytes} is used; the others (and any with K &gt; 26) are summed directly
  * ({@link OrderSum#childLogSum}) with a small per-chain cache.
  */
-final class ChildTables {
+public final class ChildTables {
     static final int MAX_TABLE_BITS = 26;
     private final double[][] table;
 
     /** Which children get a table within a budget, and the bytes those tables take. */
-    record Plan(int[] children, long bytes) {
+    public record Plan(int[] children, long bytes) {
     }
 
     /** The children tabulated within {@code budgetBytes}: fewest candidates first, 8·2^K bytes each. */
-    static Plan plan(LocalScores ls, long budgetBytes) {
+    public static Plan plan(LocalScores ls, long budgetBytes) {
         int n = ls.variableCount();
         Integer[] byK = new Integer[n];
         for (int i = 0; i < n; i++) {
@@ -46,7 +49,7 @@ final class ChildTables {
         return new Plan(Arrays.copyOf(chosen, count), used);
     }
 
-    ChildTables(LocalScores ls, long budgetBytes) {
+    public ChildTables(LocalScores ls, long budgetBytes) {
         table = new double[ls.variableCount()][];
         int[] chosen = plan(ls, budgetBytes).children();
         // children are independent: build their tables on all cores
@@ -66,7 +69,7 @@ final class ChildTables {
     }
 
     /** The table of {@code child}, or null when it is summed directly. */
-    double[] table(int child) {
+    public double[] table(int child) {
         return table[child];
     }
 }

@@ -5,7 +5,6 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.TreeSet;
 import java.util.stream.IntStream;
-import org.edgewise.driver.Checks;
 import org.edgewise.driver.InputNames;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.score.FamilyScore;
@@ -61,11 +60,10 @@ public final class LocalScores {
         ScoreKind storedKind = ScoreKind.parse(m.score());
         ScoreKind kind = options.score() == null ? storedKind : options.score();
         InputNames in = options.names();
-        Checks.notApplicable(kind == ScoreKind.K2 && !Double.isNaN(options.ess()), in.ess(), "to score k2",
-                "K2 has no equivalent sample size (every Dirichlet parameter is 1)");
+        kind.checkEss(!Double.isNaN(options.ess()), in.ess());
         double ess = Double.isNaN(options.ess()) ? m.ess() : options.ess();
         FamilyScore fs = FamilyScore.of(kind, ess);
-        boolean rescore = kind != storedKind || (kind == ScoreKind.BDEU && ess != m.ess());
+        boolean rescore = kind.rescores(storedKind, m.ess(), ess);
         int n = store.variableCount();
         boolean[][] forbidden = new boolean[n][n];
         boolean[][] required = new boolean[n][n];

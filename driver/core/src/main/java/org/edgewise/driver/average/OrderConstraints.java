@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.SplittableRandom;
 import org.apache.commons.math3.special.Gamma;
 import org.edgewise.driver.InputNames;
+import org.edgewise.driver.Tiers;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.EdgeRule;
 
@@ -53,24 +54,12 @@ public final class OrderConstraints {
         InputNames in = ls.options().names();
         int n = ls.variableCount();
         var vars = ls.store().variables();
-        int[] tier = new int[n];
-        Arrays.fill(tier, -1);
+        int[] tier = Tiers.resolve(vars.stream().map(org.edgewise.driver.store.Variable::name).toList(), tiers, in.tiers());
         double logSizes = 0;
         int listed = 0;
         List<List<String>> names = new ArrayList<>();
-        for (int t = 0; t < tiers.size(); t++) {
-            List<String> tierList = tiers.get(t);
-            for (String name : tierList) {
-                int v = ls.store().manifest().variableIndex(name.trim());
-                if (v < 0) {
-                    throw new UserError(in.tiers() + ": unknown variable '" + name.trim() + "'");
-                }
-                if (tier[v] >= 0) {
-                    throw new UserError(in.tiers() + ": variable '" + name.trim() + "' is in two tiers");
-                }
-                tier[v] = t;
-                listed++;
-            }
+        for (List<String> tierList : tiers) {
+            listed += tierList.size();
             logSizes += Gamma.logGamma(tierList.size() + 1.0);
             names.add(List.copyOf(tierList));
         }

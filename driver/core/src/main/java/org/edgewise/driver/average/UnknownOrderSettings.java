@@ -1,9 +1,13 @@
 package org.edgewise.driver.average;
 
+import org.edgewise.driver.score.DagPrior;
 import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.ConvergenceTargets;
+import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * What an average over unknown orders is asked for.
@@ -122,13 +126,14 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
      * The order-MCMC settings: the per-child tables may take a quarter of the JVM's maximum heap
      * (at least 64 MiB).
      */
-    public OrderMcmc.Settings mcmc(boolean withFeatures) {
+    public McmcSettings mcmc(boolean withFeatures) {
         long first = steps == null ? FIRST_CHECK : steps;
-        return new OrderMcmc.Settings(chains, first, burnInSteps(), seed, draws, untilConverged(),
-                maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps, maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds,
-                withFeatures, Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4),
-                OrderMcmc.Settings.DEFAULT_RELOCATE, rhatTarget(), targets().mcse(), OrderMcmc.Settings.DEFAULT_RUNGS,
-                OrderMcmc.Settings.DEFAULT_BETA_MIN);
+        // chains, steps, burn-in and both targets are checked above: only the draws can be refused here
+        return McmcSettings.defaults(seed).withSteps(first, burnInSteps()).withChains(chains, draws)
+                .withTargets(targets())
+                .withStopping(untilConverged(), maxSteps == null ? Long.MAX_VALUE / 4 : maxSteps,
+                        maxSeconds == null ? DEFAULT_MAX_SECONDS : maxSeconds)
+                .withFeatures(withFeatures).withTableBudget(Math.max(64L << 20, Runtime.getRuntime().maxMemory() / 4));
     }
 
     /** The order constraints: these tiers when given, else the store's. */

@@ -8,10 +8,10 @@ import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.DagFeatures;
+import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
-import org.edgewise.driver.average.OrderSum;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.CasePredictor;
 
@@ -41,7 +41,7 @@ import org.edgewise.driver.query.CasePredictor;
  * <p>MCSE of a sampled ratio by the delta method: the standard error of the mean of
  * z_k = (a_k − R b_k)/b̄ (Owen 2013, "Monte Carlo theory, methods and examples", §9.2), over
  * independent draws sqrt(Σ w_k² z_k²)/Σ w_k; over chains of order MCMC from
- * {@link org.edgewise.driver.average.ChainDiagnostics} (autocorrelation-aware, Vehtari et al. 2021).
+ * {@link org.edgewise.driver.average.convergence.ChainDiagnostics} (autocorrelation-aware, Vehtari et al. 2021).
  *
  * <p>Memory: per order (or DAG) 9 doubles per query; one {@link CasePredictor} at a time.
  */
@@ -50,17 +50,6 @@ public final class EffectEngine {
     public static final int DEFAULT_DRAWS = 2000;
     /** Level of the credible interval. */
     public static final double LEVEL = 0.95;
-
-    /** Term columns per order or DAG: logs of truncated and observational joints, then noPath (linear). */
-    static final int JOINT = 0;
-    static final int GIVEN = 1;
-    static final int VS_JOINT = 2;
-    static final int VS_GIVEN = 3;
-    static final int OBS_JOINT = 4;
-    static final int OBS_GIVEN = 5;
-    static final int OBS_VS_JOINT = 6;
-    static final int OBS_VS_GIVEN = 7;
-    static final int NO_PATH = 8;
 
     /**
      * @param draws           (DAG, θ) draws for the distribution of the effect (≥ 10)
@@ -101,7 +90,7 @@ public final class EffectEngine {
         for (int o = 0; o < k; o++) {
             if (logW[o] == Double.NEGATIVE_INFINITY) {
                 for (double[][] t : terms) {
-                    t[o] = impossible();
+                    t[o] = Term.impossible();
                 }
                 continue;
             }
@@ -112,7 +101,7 @@ public final class EffectEngine {
             } catch (UserError e) {
                 logW[o] = Double.NEGATIVE_INFINITY; // a required edge against this order: likelihood zero
                 for (double[][] t : terms) {
-                    t[o] = impossible();
+                    t[o] = Term.impossible();
                 }
                 continue;
             }
@@ -121,8 +110,8 @@ public final class EffectEngine {
             for (int qi = 0; qi < qs.size(); qi++) {
                 EffectQuery q = qs.get(qi);
                 CasePredictor t = cut.computeIfAbsent(Arrays.toString(q.setVariables()), key -> plain.intervened(q.setVariables()));
-                double[] row = orderTerms(q, plain, t);
-                row[NO_PATH] = NoPath.exact(order, op.setPosteriors(), masks, flags(n, q.setVariables()), outcome(q));
+                double[] row = Term.row(q, (intervened, states) -> (intervened ? t : plain).logProbability(states));
+                Term.NO_PATH.set(row, NoPath.exact(order, op.setPosteriors(), masks, flags(n, q.setVariables()), outcome(q)));
                 terms[qi][o] = row;
             }
             if (byUnit[o].length > 0) {
@@ -151,7 +140,7 @@ public final class EffectEngine {
     }
 
     /** The effect of every query over a weighted list of DAGs, with posterior-mean parameters per DAG. */
-    public static List<Effect> overDags(LocalScores ls, DagDraws dags, List<EffectQuery> qs, Settings s) {
+    public static List<Effect> overDags(LocalScores ls, WeightedDags dags, List<EffectQuery> qs, Settings s) {
         checkSize(ls);
         int n = ls.variableCount();
         int k = dags.size();
@@ -175,20 +164,10 @@ public final class EffectEngine {
             }
             for (int qi = 0; qi < qs.size(); qi++) {
                 EffectQuery q = qs.get(qi);
-                double[] row = new double[NO_PATH + 1];
                 boolean[] cut = flags(n, q.setVariables());
-                row[JOINT] = dag.logProbability(parents, cut, q.jointCase(q.set()), mean);
-                row[GIVEN] = dag.logProbability(parents, cut, q.givenCase(q.set()), mean);
                 boolean[] noneCut = new boolean[n];
-                row[OBS_JOINT] = dag.logProbability(parents, noneCut, q.jointCase(q.set()), mean);
-                row[OBS_GIVEN] = dag.logProbability(parents, noneCut, q.givenCase(q.set()), mean);
-                if (q.versus() != null) {
-                    row[VS_JOINT] = dag.logProbability(parents, cut, q.jointCase(q.versus()), mean);
-                    row[VS_GIVEN] = dag.logProbability(parents, cut, q.givenCase(q.versus()), mean);
-                    row[OBS_VS_JOINT] = dag.logProbability(parents, noneCut, q.jointCase(q.versus()), mean);
-                    row[OBS_VS_GIVEN] = dag.logProbability(parents, noneCut, q.givenCase(q.versus()), mean);
-                }
-                row[NO_PATH] = DagEffects.hasPath(parents, q.setVariables(), outcomeVariables(q)) ? 0 : 1;
+                double[] row = Term.row(q, (intervened, states) -> dag.logProbability(parents, intervened ? cut : noneCut, states, mean));
+                Term.NO_PATH.set(row, DagEffects.hasPath(parents, q.setVariables(), outcomeVariables(q)) ? 0 : 1);
                 terms[qi][g] = row;
             }
         }
@@ -212,28 +191,6 @@ public final class EffectEngine {
         if (ls.variableCount() > 64) {
             throw new UserError("effect handles at most 64 variables, the store has " + ls.variableCount());
         }
-    }
-
-    private static double[] orderTerms(EffectQuery q, CasePredictor plain, CasePredictor cut) {
-        double[] row = new double[NO_PATH + 1];
-        row[JOINT] = cut.logProbability(q.jointCase(q.set()));
-        row[GIVEN] = cut.logProbability(q.givenCase(q.set()));
-        row[OBS_JOINT] = plain.logProbability(q.jointCase(q.set()));
-        row[OBS_GIVEN] = plain.logProbability(q.givenCase(q.set()));
-        if (q.versus() != null) {
-            row[VS_JOINT] = cut.logProbability(q.jointCase(q.versus()));
-            row[VS_GIVEN] = cut.logProbability(q.givenCase(q.versus()));
-            row[OBS_VS_JOINT] = plain.logProbability(q.jointCase(q.versus()));
-            row[OBS_VS_GIVEN] = plain.logProbability(q.givenCase(q.versus()));
-        }
-        return row;
-    }
-
-    private static double[] impossible() {
-        double[] row = new double[NO_PATH + 1];
-        Arrays.fill(row, Double.NEGATIVE_INFINITY);
-        row[NO_PATH] = 0;
-        return row;
     }
 
     /** One (DAG, θ) draw: the effect of every query under it, and whether it has no path. */

@@ -1,17 +1,17 @@
 package org.edgewise.driver.effect;
 
-import static org.edgewise.driver.effect.EffectEngine.GIVEN;
-import static org.edgewise.driver.effect.EffectEngine.JOINT;
-import static org.edgewise.driver.effect.EffectEngine.NO_PATH;
-import static org.edgewise.driver.effect.EffectEngine.OBS_GIVEN;
-import static org.edgewise.driver.effect.EffectEngine.OBS_JOINT;
-import static org.edgewise.driver.effect.EffectEngine.OBS_VS_GIVEN;
-import static org.edgewise.driver.effect.EffectEngine.OBS_VS_JOINT;
-import static org.edgewise.driver.effect.EffectEngine.VS_GIVEN;
-import static org.edgewise.driver.effect.EffectEngine.VS_JOINT;
+import static org.edgewise.driver.effect.Term.GIVEN;
+import static org.edgewise.driver.effect.Term.JOINT;
+import static org.edgewise.driver.effect.Term.NO_PATH;
+import static org.edgewise.driver.effect.Term.OBS_GIVEN;
+import static org.edgewise.driver.effect.Term.OBS_JOINT;
+import static org.edgewise.driver.effect.Term.OBS_VS_GIVEN;
+import static org.edgewise.driver.effect.Term.OBS_VS_JOINT;
+import static org.edgewise.driver.effect.Term.VS_GIVEN;
+import static org.edgewise.driver.effect.Term.VS_JOINT;
 
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.LogSum;
 
 /**
@@ -25,7 +25,7 @@ final class EffectMix {
 
     /**
      * @param logW    log weights of the units (null: equal weights)
-     * @param terms   per unit, the term row of {@link EffectEngine}
+     * @param terms   per unit, the term row ({@link Term})
      * @param exact   whether the units are an exact enumeration (no MCSE)
      * @param chains  for MCMC orders, the number of chains (else 0)
      * @param values  the (DAG, θ) draws' effect values
@@ -64,7 +64,7 @@ final class EffectMix {
         boolean noPathExact = true;
         double[] np = new double[k];
         for (int u = 0; u < k; u++) {
-            np[u] = terms[u][NO_PATH];
+            np[u] = NO_PATH.in(terms[u]);
             if (Double.isNaN(np[u])) {
                 noPathExact = false;
             } else {
@@ -103,19 +103,19 @@ final class EffectMix {
     }
 
     /** log Σ_u w_u exp(terms[u][col]) with w_u = exp(lw_u − z). */
-    private static double mix(double[] lw, double z, double[][] terms, int col) {
+    private static double mix(double[] lw, double z, double[][] terms, Term col) {
         double[] x = new double[lw.length];
         for (int u = 0; u < lw.length; u++) {
-            x[u] = lw[u] + terms[u][col];
+            x[u] = lw[u] + col.in(terms[u]);
         }
         return LogSum.of(x) - z;
     }
 
     /** z_u = (a_u − R b_u) / b̄ for the ratio R = ā / b̄ (delta method). */
-    private static double[] residuals(double[][] terms, int a, int b, double logBbar, double r) {
+    private static double[] residuals(double[][] terms, Term a, Term b, double logBbar, double r) {
         double[] out = new double[terms.length];
         for (int u = 0; u < terms.length; u++) {
-            double x = Math.exp(terms[u][a] - logBbar) - r * Math.exp(terms[u][b] - logBbar);
+            double x = Math.exp(a.in(terms[u]) - logBbar) - r * Math.exp(b.in(terms[u]) - logBbar);
             out[u] = Double.isNaN(x) ? 0 : x;
         }
         return out;

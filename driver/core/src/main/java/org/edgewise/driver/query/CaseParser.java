@@ -87,4 +87,15 @@ public final class CaseParser {
         }
         return String.join(",", parts);
     }
+
+    /** The observed cells of {@code states} as variable → state, in store order. */
+    public static java.util.Map<String, String> named(Manifest m, int[] states) {
+        java.util.Map<String, String> out = new java.util.LinkedHashMap<>();
+        for (int v = 0; v < states.length; v++) {
+            if (states[v] != HIDDEN) {
+                out.put(m.variables().get(v).name(), m.variables().get(v).states().get(states[v]));
+            }
+        }
+        return out;
+    }
 }

@@ -7,10 +7,7 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.LogSum;
-import org.edgewise.driver.average.OrderPosterior;
-import org.edgewise.driver.score.FamilyScore;
-import org.edgewise.driver.store.FamilyCounts;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.store.ScoreStore;
 
 /**
@@ -34,73 +31,30 @@ import org.edgewise.driver.store.ScoreStore;
  * <p>Sets whose total posterior per variable is at most {@code tailMass} (smallest first) may be
  * skipped and the remaining weights renormalised; 0 keeps every set (exact).
  *
- * <p>Memory: per kept parent set its parent list, the family's stored configurations and counts
- * (shared with the store), one long per configuration for N_ij, and for sets of at most
- * {@value #DENSE_CELLS} cells a dense table of 8·q·r bytes (≈ 3 MB for 4,500 kept sets of ≤ 81 cells).
+ * <p>The factors, their tables and memory: {@link AveragedFamilies}; the summing out of hidden
+ * variables: {@link HiddenSum}.
  *
  * <p>Immutable and thread-safe.
  */
 public final class CasePredictor implements CaseProbability {
-    /**
-     * Kept parent sets with at most this many cells (q·r) get a dense table of weighted predictive
-     * probabilities (8 bytes a cell), so a lookup needs no search; larger ones use binary search.
-     */
-    static final int DENSE_CELLS = 4096;
-
     /** Default limit on the joint states of hidden variables enumerated for one case. */
     public static final long DEFAULT_MAX_HIDDEN_STATES = 1_000_000L;
 
     private final ScoreStore store;
-    private final FamilyScore score;
     private final int n;
     private final int[] order;
-    private final int[] arity;
-    private final int[][][] parents;
-    private final long[][][] configs;
-    private final long[][][] counts;
-    private final long[][][] rowTotals;
-    private final double[][] q;
-    private final double[][] weight;
-    private final double[][][] dense;
-    private final int[][] parentUnion;
-    /** Per kept set, its parents as a bitmask over variable indices (only when n ≤ 64, else null). */
-    private final long[][] setMask;
+    private final AveragedFamilies families;
     private final double skippedMass;
     private final long maxHiddenStates;
     /** How the caller names the evidence and the hidden-state limit in messages. */
     private final InputNames names;
 
-    private CasePredictor(ScoreStore store, FamilyScore score, int[] order, int[][][] parents, long[][][] configs,
-                          long[][][] counts, long[][][] rowTotals, double[][] q, double[][] weight,
-                          double[][][] dense, int[][] parentUnion, double skippedMass, long maxHiddenStates,
-                          InputNames names) {
+    private CasePredictor(ScoreStore store, int[] order, AveragedFamilies families, double skippedMass,
+                          long maxHiddenStates, InputNames names) {
         this.store = store;
-        this.score = score;
         this.n = store.variableCount();
         this.order = order;
-        this.arity = new int[n];
-        for (int v = 0; v < n; v++) {
-            arity[v] = store.arity(v);
-        }
-        this.parents = parents;
-        this.configs = configs;
-        this.counts = counts;
-        this.rowTotals = rowTotals;
-        this.q = q;
-        this.weight = weight;
-        this.dense = dense;
-        this.parentUnion = parentUnion;
-        this.setMask = n <= 64 ? new long[n][] : null;
-        if (setMask != null) {
-            for (int c = 0; c < n; c++) {
-                setMask[c] = new long[parents[c].length];
-                for (int t = 0; t < parents[c].length; t++) {
-                    for (int p : parents[c][t]) {
-                        setMask[c][t] |= 1L << p;
-                    }
-                }
-            }
-        }
+        this.families = families;
         this.skippedMass = skippedMass;
         this.maxHiddenStates = maxHiddenStates;
         this.names = names;
@@ -156,86 +110,14 @@ public final class CasePredictor implements CaseProbability {
 
     private static CasePredictor build(OrderPosterior op, int[][] sets, double[][] w, double skipped) {
         LocalScores ls = op.scores();
-        ScoreStore store = ls.store();
-        int n = ls.variableCount();
-        int[][][] parents = new int[n][][];
-        long[][][] configs = new long[n][][];
-        long[][][] counts = new long[n][][];
-        long[][][] totals = new long[n][][];
-        double[][] q = new double[n][];
-        int[][] union = new int[n][];
-        for (int c = 0; c < n; c++) {
-            int k = sets[c].length;
-            parents[c] = new int[k][];
-            configs[c] = new long[k][];
-            counts[c] = new long[k][];
-            totals[c] = new long[k][];
-            q[c] = new double[k];
-            int r = store.arity(c);
-            boolean[] in = new boolean[n];
-            for (int t = 0; t < k; t++) {
-                FamilyCounts fc = store.family(ls.families(c)[sets[c][t]]);
-                parents[c][t] = fc.parents();
-                configs[c][t] = fc.configs();
-                counts[c][t] = fc.counts();
-                long[] tot = new long[fc.rows()];
-                for (int row = 0; row < tot.length; row++) {
-                    long s = 0;
-                    for (int x = 0; x < r; x++) {
-                        s += fc.counts()[row * r + x];
-                    }
-                    tot[row] = s;
-                }
-                totals[c][t] = tot;
-                q[c][t] = store.configurations(fc.parents());
-                for (int p : fc.parents()) {
-                    in[p] = true;
-                }
-            }
-            List<Integer> u = new ArrayList<>();
-            for (int v = 0; v < n; v++) {
-                if (in[v]) {
-                    u.add(v);
-                }
-            }
-            union[c] = u.stream().mapToInt(Integer::intValue).toArray();
-        }
-        double[][][] dense = new double[n][][];
-        for (int c = 0; c < n; c++) {
-            int r = store.arity(c);
-            dense[c] = new double[sets[c].length][];
-            for (int t = 0; t < sets[c].length; t++) {
-                if (q[c][t] * r <= DENSE_CELLS) {
-                    dense[c][t] = denseTable(ls.familyScore(), w[c][t], configs[c][t], counts[c][t], totals[c][t], r, q[c][t]);
-                }
-            }
-        }
-        return new CasePredictor(store, ls.familyScore(), op.order(), parents, configs, counts, totals, q, w,
-                dense, union, skipped, DEFAULT_MAX_HIDDEN_STATES, ls.options().names());
-    }
-
-    /**
-     * w · (N_ijk + α_ijk)/(N_ij + α_ij) for every configuration j and state k, row-major: the
-     * stored configurations from their counts, the unobserved ones with N = 0 (the prior mean).
-     */
-    private static double[] denseTable(FamilyScore fs, double w, long[] configs, long[] counts, long[] totals,
-                                       int r, double q) {
-        double[] table = new double[(int) (q * r)];
-        java.util.Arrays.fill(table, w * fs.predictive(0, 0, r, q));
-        for (int row = 0; row < configs.length; row++) {
-            int base = (int) configs[row] * r;
-            for (int k = 0; k < r; k++) {
-                table[base + k] = w * fs.predictive(counts[row * r + k], totals[row], r, q);
-            }
-        }
-        return table;
+        return new CasePredictor(ls.store(), op.order(), AveragedFamilies.of(ls, sets, w), skipped,
+                DEFAULT_MAX_HIDDEN_STATES, ls.options().names());
     }
 
     /** The same predictor with another limit on the hidden joint states enumerated per case. */
     public CasePredictor withMaxHiddenStates(long limit) {
         Checks.atLeast(limit, 1, "the limit on hidden joint states");
-        return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, dense,
-                parentUnion, skippedMass, limit, names);
+        return new CasePredictor(store, order, families, skippedMass, limit, names);
     }
 
     /**
@@ -246,38 +128,12 @@ public final class CasePredictor implements CaseProbability {
      * needed on its account.
      */
     public CasePredictor intervened(int[] vars) {
-        int[][][] ps = parents.clone();
-        long[][][] cf = configs.clone();
-        long[][][] ct = counts.clone();
-        long[][][] tot = rowTotals.clone();
-        double[][] qq = q.clone();
-        double[][] w = weight.clone();
-        double[][][] dn = dense.clone();
-        int[][] union = parentUnion.clone();
-        for (int v : vars) {
-            Checks.atLeast(v, 0, "an intervened variable");
-            ps[v] = new int[][] {new int[0]};
-            cf[v] = new long[][] {new long[0]};
-            ct[v] = new long[][] {new long[0]};
-            tot[v] = new long[][] {new long[0]};
-            qq[v] = new double[] {1};
-            w[v] = new double[] {1};
-            double[] one = new double[arity[v]];
-            Arrays.fill(one, 1.0);
-            dn[v] = new double[][] {one};
-            union[v] = new int[0];
-        }
-        return new CasePredictor(store, score, order, ps, cf, ct, tot, qq, w, dn, union, skippedMass, maxHiddenStates, names);
+        return new CasePredictor(store, order, families.intervened(vars), skippedMass, maxHiddenStates, names);
     }
 
     /** The same predictor without dense tables: every lookup by binary search (for tests of that path). */
     CasePredictor sparse() {
-        double[][][] none = new double[n][][];
-        for (int c = 0; c < n; c++) {
-            none[c] = new double[weight[c].length][];
-        }
-        return new CasePredictor(store, score, order, parents, configs, counts, rowTotals, q, weight, none,
-                parentUnion, skippedMass, maxHiddenStates, names);
+        return new CasePredictor(store, order, families.sparse(), skippedMass, maxHiddenStates, names);
     }
 
     /** Posterior mass skipped in total over all variables (0 when exact). */
@@ -287,11 +143,7 @@ public final class CasePredictor implements CaseProbability {
 
     /** Number of parent sets kept, summed over variables. */
     public long keptSets() {
-        long s = 0;
-        for (double[] w : weight) {
-            s += w.length;
-        }
-        return s;
+        return families.keptSets();
     }
 
     /**
@@ -309,7 +161,7 @@ public final class CasePredictor implements CaseProbability {
         if (complete) {
             double lp = 0;
             for (int c = 0; c < n; c++) {
-                lp += logFactor(c, states);
+                lp += families.logFactor(c, states);
             }
             return lp;
         }
@@ -320,7 +172,7 @@ public final class CasePredictor implements CaseProbability {
             double lp = 0;
             for (int c = 0; c < n; c++) {
                 if (keep[c]) {
-                    lp += logFactor(c, x);
+                    lp += families.logFactor(c, x);
                 }
             }
             return lp;
@@ -331,243 +183,7 @@ public final class CasePredictor implements CaseProbability {
                     + String.format(java.util.Locale.ROOT, "%.0f", joint) + " joint states (limit "
                     + maxHiddenStates + "); observe some of them or raise " + names.maxHiddenStates());
         }
-        boolean[] isHidden = new boolean[n];
-        long hiddenMask = 0;
-        for (int h : hidden) {
-            isHidden[h] = true;
-            hiddenMask |= n <= 64 ? 1L << h : 0;
-        }
-        // Split every dependent factor into the sets that touch no hidden variable (summed once per
-        // child state, in base) and the sets that do (re-evaluated for every joint state).
-        double constant = 0;
-        int[] dependent = new int[n];
-        int nd = 0;
-        for (int c = 0; c < n; c++) {
-            if (!keep[c]) {
-                continue;
-            }
-            boolean depends = isHidden[c];
-            for (int p : parentUnion[c]) {
-                depends |= isHidden[p];
-            }
-            if (depends) {
-                dependent[nd++] = c;
-            } else {
-                constant += logFactor(c, x);
-            }
-        }
-        dependent = Arrays.copyOf(dependent, nd);
-        double[][] base = new double[dependent.length][];
-        int[][] varying = new int[dependent.length][];
-        for (int d = 0; d < dependent.length; d++) {
-            int c = dependent[d];
-            int[][] ps = parents[c];
-            int[] vary = new int[ps.length];
-            int nv = 0;
-            double[] b = new double[arity[c]];
-            int saved = x[c];
-            for (int t = 0; t < ps.length; t++) {
-                boolean touches = false;
-                if (setMask != null) {
-                    touches = (setMask[c][t] & hiddenMask) != 0;
-                } else {
-                    for (int p : ps[t]) {
-                        touches |= isHidden[p];
-                    }
-                }
-                if (touches) {
-                    vary[nv++] = t;
-                } else if (isHidden[c]) {
-                    for (int k = 0; k < arity[c]; k++) {
-                        x[c] = k;
-                        b[k] += term(c, t, x);
-                    }
-                } else {
-                    b[saved] += term(c, t, x);
-                }
-            }
-            x[c] = saved;
-            base[d] = b;
-            varying[d] = Arrays.copyOf(vary, nv);
-        }
-        // Tabulate each dependent factor over the joint states of the hidden variables it depends
-        // on (usually one or two), so the enumeration below only looks values up.
-        double[][] logTable = new double[dependent.length][];
-        int[][] on = new int[dependent.length][];
-        boolean[] uses = new boolean[n];
-        int[] hsBuf = new int[hidden.length];
-        for (int d = 0; d < dependent.length; d++) {
-            int c = dependent[d];
-            uses[c] = isHidden[c];
-            for (int t : varying[d]) {
-                for (int p : parents[c][t]) {
-                    uses[p] |= isHidden[p];
-                }
-            }
-            int m = 0;
-            for (int h : hidden) {
-                if (uses[h]) {
-                    hsBuf[m++] = h;
-                    uses[h] = false;
-                }
-            }
-            uses[c] = false;
-            int[] hs = Arrays.copyOf(hsBuf, m);
-            logTable[d] = tabulate(c, x, hs, isHidden[c], base[d], varying[d]);
-            on[d] = hs;
-        }
-        for (int h : hidden) {
-            x[h] = 0;
-        }
-        double acc = Double.NEGATIVE_INFINITY;
-        while (true) {
-            double lp = 0;
-            for (int d = 0; d < dependent.length; d++) {
-                int cell = 0;
-                for (int h : on[d]) {
-                    cell = cell * arity[h] + x[h];
-                }
-                lp += logTable[d][cell];
-            }
-            acc = LogSum.add(acc, lp);
-            int i = 0;
-            while (i < hidden.length && ++x[hidden[i]] == arity[hidden[i]]) {
-                x[hidden[i]] = 0;
-                i++;
-            }
-            if (i == hidden.length) {
-                break;
-            }
-        }
-        return constant + acc;
-    }
-
-    /**
-     * log f_c over the joint states of {@code hs} (the hidden variables factor c depends on; c
-     * itself among them when hidden), mixed radix with hs[0] most significant. Each parent set
-     * touches only the hidden variables it contains, so its terms are evaluated over those alone,
-     * summed into one small table per distinct subset, and the subsets are broadcast once.
-     * Memory: the result (one double per joint state) plus one small table per subset.
-     */
-    private double[] tabulate(int c, int[] x, int[] hs, boolean childHidden, double[] base, int[] varying) {
-        int m = hs.length;
-        int size = 1;
-        for (int h : hs) {
-            size *= arity[h];
-        }
-        int childBit = 0;
-        if (childHidden) {
-            for (int i = 0; i < m; i++) {
-                if (hs[i] == c) {
-                    childBit = 1 << i;
-                }
-            }
-        }
-        int[] keys = new int[4];
-        double[][] sums = new double[4][];
-        int groups = 0;
-        if (childHidden) {
-            keys[0] = childBit;
-            sums[0] = base.clone();
-            groups = 1;
-        }
-        int[] saved = new int[m];
-        for (int i = 0; i < m; i++) {
-            saved[i] = x[hs[i]];
-        }
-        for (int t : varying) {
-            int key = childBit;
-            for (int p : parents[c][t]) {
-                for (int i = 0; i < m; i++) {
-                    if (hs[i] == p) {
-                        key |= 1 << i;
-                    }
-                }
-            }
-            int g = 0;
-            while (g < groups && keys[g] != key) {
-                g++;
-            }
-            if (g == groups) {
-                if (groups == keys.length) {
-                    keys = Arrays.copyOf(keys, groups * 2);
-                    sums = Arrays.copyOf(sums, groups * 2);
-                }
-                keys[g] = key;
-                sums[g] = new double[subStates(hs, key)];
-                groups++;
-            }
-            double[] sum = sums[g];
-            for (int i = 0; i < m; i++) {
-                if ((key >>> i & 1) != 0) {
-                    x[hs[i]] = 0;
-                }
-            }
-            for (int cell = 0; cell < sum.length; cell++) {
-                sum[cell] += term(c, t, x);
-                int i = m - 1;
-                while (i >= 0) {
-                    if ((key >>> i & 1) != 0) {
-                        if (++x[hs[i]] < arity[hs[i]]) {
-                            break;
-                        }
-                        x[hs[i]] = 0;
-                    }
-                    i--;
-                }
-            }
-        }
-        double constant = childHidden ? 0 : base[x[c]];
-        // stride[g][i]: how far group g's sub-index moves when digit i moves by one (0 when the
-        // group does not involve hs[i]); sub-indices are updated as the digits count up.
-        int[][] stride = new int[groups][m];
-        for (int g = 0; g < groups; g++) {
-            int st = 1;
-            for (int i = m - 1; i >= 0; i--) {
-                if ((keys[g] >>> i & 1) != 0) {
-                    stride[g][i] = st;
-                    st *= arity[hs[i]];
-                }
-            }
-        }
-        double[] table = new double[size];
-        int[] digit = new int[m];
-        int[] sub = new int[groups];
-        for (int cell = 0; cell < size; cell++) {
-            double f = constant;
-            for (int g = 0; g < groups; g++) {
-                f += sums[g][sub[g]];
-            }
-            table[cell] = Math.log(f);
-            int i = m - 1;
-            while (i >= 0) {
-                if (++digit[i] < arity[hs[i]]) {
-                    for (int g = 0; g < groups; g++) {
-                        sub[g] += stride[g][i];
-                    }
-                    break;
-                }
-                digit[i] = 0;
-                for (int g = 0; g < groups; g++) {
-                    sub[g] -= (arity[hs[i]] - 1) * stride[g][i];
-                }
-                i--;
-            }
-        }
-        for (int i = 0; i < m; i++) {
-            x[hs[i]] = saved[i];
-        }
-        return table;
-    }
-
-    private int subStates(int[] hs, int key) {
-        int s = 1;
-        for (int i = 0; i < hs.length; i++) {
-            if ((key >>> i & 1) != 0) {
-                s *= arity[hs[i]];
-            }
-        }
-        return s;
+        return HiddenSum.logSum(families, x, keep, hidden);
     }
 
     /** The hidden variables {@link #logProbability} must sum out for this case (the others drop out). */
@@ -598,7 +214,7 @@ public final class CasePredictor implements CaseProbability {
             int v = order[p];
             if (x[v] != CaseParser.HIDDEN || needed[v]) {
                 keep[v] = true;
-                for (int u : parentUnion[v]) {
+                for (int u : families.parentUnion(v)) {
                     needed[u] = true;
                 }
             }
@@ -625,42 +241,9 @@ public final class CasePredictor implements CaseProbability {
     private double jointStates(int[] hidden) {
         double joint = 1;
         for (int h : hidden) {
-            joint *= arity[h];
+            joint *= families.arity(h);
         }
         return joint;
-    }
-
-    /**
-     * log f_c(x_c | x_pred) = log Σ_U w_c(U) (N_ijk + α_ijk)/(N_ij + α_ij), with N_ij found by binary
-     * search over the family's sorted observed configurations (0 when j was never observed).
-     */
-    private double logFactor(int c, int[] x) {
-        double f = 0;
-        for (int t = 0; t < parents[c].length; t++) {
-            f += term(c, t, x);
-        }
-        return Math.log(f);
-    }
-
-    /** w_c(U_t) · (N_ijk + α_ijk)/(N_ij + α_ij) for parent set t of child c, with j, k read from {@code x}. */
-    private double term(int c, int t, int[] x) {
-        int r = arity[c];
-        long j = 0;
-        for (int p : parents[c][t]) {
-            j = j * arity[p] + x[p];
-        }
-        double[] table = dense[c][t];
-        if (table != null) {
-            return table[(int) j * r + x[c]];
-        }
-        int row = Arrays.binarySearch(configs[c][t], j);
-        long nijk = 0;
-        long nij = 0;
-        if (row >= 0) {
-            nijk = counts[c][t][row * r + x[c]];
-            nij = rowTotals[c][t][row];
-        }
-        return weight[c][t] * score.predictive(nijk, nij, r, q[c][t]);
     }
 
     private String names(int[] vars) {

@@ -2,7 +2,7 @@ package org.edgewise.driver.query;
 
 import java.util.Arrays;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.score.FamilyScore;

@@ -10,7 +10,7 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 
 /**
  * Prediction when the order is unknown: a mixture over orders of the given-order predictors,

@@ -7,7 +7,7 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 
 /**
  * Exact predictive probability of a case over all DAGs under the <b>structure-modular</b> DAG

@@ -23,7 +23,7 @@ final class Cautions {
                         + "It holds only under the stated assumptions: the discretisation of the variables, the structure prior")
                 .append(s != null ? " (" + esc(s.prior()) + ")" : "")
                 .append(" and the DAG prior (below), the score and, for BDeu, its equivalent sample size")
-                .append(s != null ? " (" + esc(s.score()) + (s.ess() != null ? ", ESS " + esc(HtmlReport.num(s.ess())) : ", which has no ESS") + ")" : "")
+                .append(s != null ? " (" + esc(s.score()) + (s.ess() != null ? ", ESS " + esc(Html.num(s.ess())) : ", which has no ESS") + ")" : "")
                 .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
                 .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
                 .append("<li>").append(dagPrior(r)).append("</li>\n")

@@ -17,11 +17,6 @@ public final class Charts {
     /** Distinct line colours for chains (the "Tableau 10" set, common practice). */
     private static final String[] CHAIN = {"#4e79a7", "#f28e2b", "#e15759", "#76b7b2", "#59a14f", "#edc948",
         "#b07aa1", "#ff9da7", "#9c755f", "#bab0ac"};
-    static final String TRUE_COLOUR = "#1a7f37";
-    static final String REVERSED_COLOUR = "#b35c00";
-    static final String EXTRA_COLOUR = "#c0254a";
-    static final String PLAIN_COLOUR = "#34495e";
-    static final String MISSED_COLOUR = "#8a8a8a";
 
     private Charts() {
     }
@@ -51,15 +46,12 @@ public final class Charts {
             maxLen = Math.max(maxLen, Html.shorten(v, 24).length());
         }
         double label = 7.2 * maxLen + 12;
-        double left = label;
         double top = label * 0.72 + 14;
-        double w = left + n * cell + 110;
-        double h = top + n * cell + 40;
+        // names left and above, the legend right, the key below
+        Frame f = new Frame(label + n * cell + 110, top + n * cell + 40, label, 110, top, 40);
+        double left = f.left();
         boolean values = cell >= 24;
-        StringBuilder s = new StringBuilder();
-        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"heatmap\" role=\"img\" width=\"").append(c(w))
-                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
-                .append("\" font-family=\"sans-serif\" font-size=\"12\">\n");
+        StringBuilder s = f.open("heatmap", 12);
         s.append("<title>Edge posterior heatmap: row = parent (from), column = child (to)</title>\n");
         s.append("<defs><linearGradient id=\"hm-scale\" x1=\"0\" y1=\"1\" x2=\"0\" y2=\"0\">");
         for (int i = 0; i < BLUES.length; i++) {
@@ -93,7 +85,7 @@ public final class Charts {
                 if (truth != null && truth[a][b]) {
                     s.append("<rect x=\"").append(c(x + 2)).append("\" y=\"").append(c(y + 2)).append("\" width=\"")
                             .append(c(cell - 4)).append("\" height=\"").append(c(cell - 4))
-                            .append("\" fill=\"none\" stroke=\"").append(TRUE_COLOUR).append("\" stroke-width=\"2.5\"/>\n");
+                            .append("\" fill=\"none\" stroke=\"").append(EdgeColour.TRUE.hex).append("\" stroke-width=\"2.5\"/>\n");
                 }
                 if (values && p >= 0.005) {
                     s.append("<text x=\"").append(c(x + cell / 2)).append("\" y=\"").append(c(y + cell / 2 + 4))
@@ -133,14 +125,10 @@ public final class Charts {
         int n = m.size();
         double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
-        double w = lay.width();
-        double h = lay.height();
-        StringBuilder s = new StringBuilder();
-        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"graph\" role=\"img\" width=\"").append(c(w))
-                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
-                .append("\" font-family=\"sans-serif\" font-size=\"12\">\n");
+        StringBuilder s = Frame.of(lay.width(), lay.height()).open("graph", 12);
         s.append("<title>Consensus graph</title>\n<defs>");
-        for (String col : new String[] {PLAIN_COLOUR, TRUE_COLOUR, REVERSED_COLOUR, EXTRA_COLOUR, MISSED_COLOUR}) {
+        for (EdgeColour ec : EdgeColour.values()) {
+            String col = ec.hex;
             s.append("<marker id=\"arrow-").append(col.substring(1)).append("\" viewBox=\"0 0 10 10\" refX=\"10\" refY=\"5\" ")
                     .append("markerUnits=\"userSpaceOnUse\" markerWidth=\"11\" markerHeight=\"11\" orient=\"auto\">")
                     .append("<path d=\"M0,0 L10,5 L0,10 z\" fill=\"").append(col).append("\"/></marker>");
@@ -161,9 +149,7 @@ public final class Charts {
             int a = d.from();
             int b = d.to();
             boolean arrow = d.shape() == ConsensusEdges.Shape.ARROW;
-            String col = truth == null ? PLAIN_COLOUR
-                    : arrow ? (truth[a][b] ? TRUE_COLOUR : truth[b][a] ? REVERSED_COLOUR : EXTRA_COLOUR)
-                    : (truth[a][b] || truth[b][a] ? TRUE_COLOUR : EXTRA_COLOUR);
+            String col = EdgeColour.of(truth, a, b, arrow).hex;
             String title = arrow && ce.givenOrder()
                     ? m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(d.p(), 3)
                             + " (direction from the given order)"
@@ -174,7 +160,7 @@ public final class Charts {
             for (int a = 0; a < n; a++) {
                 for (int b = 0; b < n; b++) {
                     if (truth[a][b] && !pairDrawn[a][b]) {
-                        path(s, null, lay, a, b, MISSED_COLOUR, 1.2, true, true, m.variables().get(a) + " \u2192 "
+                        path(s, null, lay, a, b, EdgeColour.MISSED.hex, 1.2, true, true, m.variables().get(a) + " \u2192 "
                                 + m.variables().get(b) + ": edge of the known network, not drawn (P(adjacent) "
                                 + Html.f(ce.pair(a, b).adjacent(), 3) + ")", null);
                     }
@@ -249,14 +235,11 @@ public final class Charts {
         }
     }
 
-    /** Trace plot: log evidence per chain against the trace sample index. */
+    /** Trace plot: the log-score trace of each chain (what it holds depends on the sampler) against the trace sample index. */
     public static String traces(List<List<Double>> traces, int thin) {
-        double w = 760;
-        double h = 260;
-        double left = 80;
-        double right = 110;
-        double top = 14;
-        double bottom = 40;
+        Frame f = new Frame(760, 260, 80, 110, 14, 40); // the chains' key in the right margin
+        double left = f.left();
+        double top = f.top();
         double lo = Double.POSITIVE_INFINITY;
         double hi = Double.NEGATIVE_INFINITY;
         int len = 1;
@@ -277,12 +260,9 @@ public final class Charts {
             lo -= 1;
             hi += 1;
         }
-        double pw = w - left - right;
-        double ph = h - top - bottom;
-        StringBuilder s = new StringBuilder();
-        s.append("<svg xmlns=\"http://www.w3.org/2000/svg\" class=\"trace\" role=\"img\" width=\"").append(c(w))
-                .append("\" height=\"").append(c(h)).append("\" viewBox=\"0 0 ").append(c(w)).append(' ').append(c(h))
-                .append("\" font-family=\"sans-serif\" font-size=\"11\">\n<title>Log evidence per chain</title>\n");
+        double pw = f.plotWidth();
+        double ph = f.plotHeight();
+        StringBuilder s = f.open("trace", 11).append("<title>Log evidence per chain</title>\n");
         s.append("<rect x=\"").append(c(left)).append("\" y=\"").append(c(top)).append("\" width=\"").append(c(pw))
                 .append("\" height=\"").append(c(ph)).append("\" fill=\"#fbfbfb\" stroke=\"#999999\"/>\n");
         for (int i = 0; i <= 4; i++) {
@@ -299,12 +279,13 @@ public final class Charts {
                     .append("\" y2=\"").append(c(top + ph + 4)).append("\" stroke=\"#555555\"/><text x=\"").append(c(xx))
                     .append("\" y=\"").append(c(top + ph + 16)).append("\" text-anchor=\"middle\">").append(step).append("</text>\n");
         }
-        s.append("<text x=\"").append(c(left + pw / 2)).append("\" y=\"").append(c(h - 6))
+        s.append("<text x=\"").append(c(left + pw / 2)).append("\" y=\"").append(c(f.height() - 6))
                 .append("\" text-anchor=\"middle\">step (trace kept every ").append(Math.max(thin, 1)).append(" steps)</text>\n");
         s.append("<text transform=\"translate(14,").append(c(top + ph / 2)).append(") rotate(-90)\" text-anchor=\"middle\">log evidence of the order</text>\n");
         for (int k = 0; k < traces.size(); k++) {
             List<Double> t = traces.get(k);
             String col = CHAIN[k % CHAIN.length];
+            double key = f.width() - f.right();
             StringBuilder pts = new StringBuilder();
             for (int i = 0; i < t.size(); i++) {
                 Double v = t.get(i);
@@ -317,9 +298,9 @@ public final class Charts {
             }
             s.append("<polyline fill=\"none\" stroke=\"").append(col).append("\" stroke-width=\"1.2\" points=\"")
                     .append(pts.toString().trim()).append("\"/>\n");
-            s.append("<line x1=\"").append(c(w - right + 12)).append("\" x2=\"").append(c(w - right + 32)).append("\" y1=\"")
+            s.append("<line x1=\"").append(c(key + 12)).append("\" x2=\"").append(c(key + 32)).append("\" y1=\"")
                     .append(c(top + 10 + 16 * k)).append("\" y2=\"").append(c(top + 10 + 16 * k)).append("\" stroke=\"")
-                    .append(col).append("\" stroke-width=\"2\"/><text x=\"").append(c(w - right + 36)).append("\" y=\"")
+                    .append(col).append("\" stroke-width=\"2\"/><text x=\"").append(c(key + 36)).append("\" y=\"")
                     .append(c(top + 14 + 16 * k)).append("\">chain ").append(k + 1).append("</text>\n");
         }
         return s.append("</svg>").toString();

@@ -25,8 +25,13 @@ import org.edgewise.driver.result.EdgeResult;
  *     its direction taken from the order — an assumption the user stated, not learned.</li>
  * </ul>
  * Memory: O(n²) for the pair table.
+ *
+ * @param matrix     the result's edge posteriors
+ * @param grid       the pair {a, b} at {@code grid[a][b]}, a &lt; b ({@link #pair} in either order)
+ * @param assessed   whether directions were assessed by essential-graph posteriors
+ * @param givenOrder whether the result was computed for a given order (directions then come from the order)
  */
-public final class ConsensusEdges {
+public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed, boolean givenOrder) {
     /** How a pair is drawn. */
     public enum Shape { ARROW, LINE }
 
@@ -42,18 +47,6 @@ public final class ConsensusEdges {
 
     /** One drawn pair: from → to for an arrow (for a line, the orientation used only for layout); {@code p} labels it. */
     public record Drawn(int from, int to, Shape shape, double p, Pair pair) {
-    }
-
-    private final EdgeMatrix m;
-    private final Pair[][] pairs;
-    private final boolean assessed;
-    private final boolean givenOrder;
-
-    private ConsensusEdges(EdgeMatrix m, Pair[][] pairs, boolean assessed, boolean givenOrder) {
-        this.m = m;
-        this.pairs = pairs;
-        this.assessed = assessed;
-        this.givenOrder = givenOrder;
     }
 
     /** The pairs of {@code r}; a malformed {@code essentialGraph} entry is the user's (the result file's) mistake. */
@@ -100,26 +93,16 @@ public final class ConsensusEdges {
         return Math.min(1, p);
     }
 
-    /** Whether directions were assessed by essential-graph posteriors. */
-    public boolean assessed() {
-        return assessed;
-    }
-
-    /** Whether the result was computed for a given order (directions then come from the order). */
-    public boolean givenOrder() {
-        return givenOrder;
-    }
-
     public Pair pair(int a, int b) {
-        return a < b ? pairs[a][b] : pairs[b][a];
+        return a < b ? grid[a][b] : grid[b][a];
     }
 
     /** Every unordered pair, a &lt; b. */
     public List<Pair> pairs() {
         List<Pair> out = new ArrayList<>();
-        for (int a = 0; a < m.size(); a++) {
-            for (int b = a + 1; b < m.size(); b++) {
-                out.add(pairs[a][b]);
+        for (int a = 0; a < matrix.size(); a++) {
+            for (int b = a + 1; b < matrix.size(); b++) {
+                out.add(grid[a][b]);
             }
         }
         return out;
@@ -128,7 +111,7 @@ public final class ConsensusEdges {
     /** The pairs drawn at threshold {@code t}, by the rules of the class comment. */
     public List<Drawn> drawn(double t) {
         List<Drawn> out = new ArrayList<>();
-        double[][] p = m.p();
+        double[][] p = matrix.p();
         for (Pair x : pairs()) {
             int a = x.a();
             int b = x.b();
@@ -154,7 +137,7 @@ public final class ConsensusEdges {
 
     /** {@code g[from][to]} for every drawn pair: the graph the layout layers. */
     public boolean[][] layoutGraph(List<Drawn> drawn) {
-        int n = m.size();
+        int n = matrix.size();
         boolean[][] g = new boolean[n][n];
         for (Drawn d : drawn) {
             g[d.from()][d.to()] = true;
@@ -164,11 +147,11 @@ public final class ConsensusEdges {
 
     /** The pair's posteriors for a tooltip or a DOT comment, e.g. "adjacent 0.91; a → b compelled 0.02; …". */
     public String describe(Pair x) {
-        String a = m.variables().get(x.a());
-        String b = m.variables().get(x.b());
+        String a = matrix.variables().get(x.a());
+        String b = matrix.variables().get(x.b());
         if (!x.assessed()) {
             return a + " \u2013 " + b + ": P(adjacent) " + Html.f(x.adjacent(), 3) + " (P(" + a + " \u2192 " + b + ") "
-                    + Html.f(m.p()[x.a()][x.b()], 3) + " + P(" + b + " \u2192 " + a + ") " + Html.f(m.p()[x.b()][x.a()], 3)
+                    + Html.f(matrix.p()[x.a()][x.b()], 3) + " + P(" + b + " \u2192 " + a + ") " + Html.f(matrix.p()[x.b()][x.a()], 3)
                     + "); direction not assessed";
         }
         return a + " \u2013 " + b + ": P(adjacent) " + Html.f(x.adjacent(), 3) + "; compelled " + a + " \u2192 " + b + " "

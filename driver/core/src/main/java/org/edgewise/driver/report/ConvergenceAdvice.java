@@ -1,5 +1,7 @@
 package org.edgewise.driver.report;
 
+import static org.edgewise.driver.report.Html.num;
+
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
@@ -9,8 +11,12 @@ import org.edgewise.driver.result.EdgeResult;
  * The convergence verdict of a sampled result in plain words — whether it converged, why the run
  * stopped, the targets, the worst quantities and what to do next — shared by the HTML report
  * ({@link ConvergenceSection}) and the command line's text summary, so both say the same thing.
- * The targets: rank-normalised R̂ and bulk-ESS (Vehtari, Gelman, Simpson, Carpenter &amp; Bürkner
- * 2021) and the MCSE of every reported posterior ({@code average.ConvergenceTargets}).
+ * The targets: rank-normalised R̂ and bulk effective sample size (Vehtari, Gelman, Simpson, Carpenter
+ * &amp; Bürkner 2021) and the MCSE of every reported posterior ({@code average.ConvergenceTargets}).
+ *
+ * <p>Words: "effective sample size" (in tight places "eff. n") is the MCMC's; "ESS" is never used
+ * here, as it names BDeu's equivalent sample size everywhere else. The steps discarded first are
+ * the "warm-up".
  */
 public final class ConvergenceAdvice {
     private ConvergenceAdvice() {
@@ -22,42 +28,72 @@ public final class ConvergenceAdvice {
                 : "NOT converged: do not use these posteriors yet";
     }
 
-    /** Why the run stopped. */
+    /** Why the run stopped (the one wording of the stop reasons: the report's and the command line's). */
     public static String stopped(EdgeResult.Diagnostics d) {
         String r = d.stopReason();
         if (r == null) {
             return "not recorded";
         }
         return switch (r) {
-            case "converged" -> "every target was met by the chains";
+            case "converged" -> d.converged() ? "every target was met by the chains"
+                    : "the chains met the targets, the reported posteriors did not";
             case "max-time" -> "the time budget ran out before every target was met";
             case "max-steps" -> "the step cap was reached before every target was met";
-            case "steps" -> "a fixed number of steps was run (no check until converged)";
+            case "steps" -> "a fixed number of steps was run, with no check until converged";
             default -> r;
         };
     }
 
-    /** The targets, e.g. {@code R-hat < 1.01, bulk ESS >= 400, MCSE <= 0.01 for every edge and feature posterior}. */
+    /** The targets, e.g. {@code R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior}. */
     public static String targets(EdgeResult.Diagnostics d) {
-        return "R-hat < " + num(d.rhatTarget() == null ? 1.01 : d.rhatTarget()) + ", bulk ESS >= "
-                + num(d.essTarget() == null ? 400 : d.essTarget())
+        return "R-hat < " + num(rhatTarget(d)) + ", bulk effective sample size >= " + num(effectiveSampleSizeTarget(d))
                 + (d.mcseTarget() == null ? " (no MCSE target: the result predates it)"
                 : ", MCSE <= " + num(d.mcseTarget()) + " for every edge and feature posterior");
     }
 
-    /** What the run reached: the largest R̂, the smallest bulk ESS, the largest MCSE. */
+    /** What the run reached: the largest R̂, the smallest bulk effective sample size, the largest MCSE. */
     public static String reached(EdgeResult.Diagnostics d) {
-        return String.format(Locale.ROOT, "largest R-hat %s, smallest bulk ESS %.0f, largest MCSE %s",
-                Double.isInfinite(d.rhat()) ? "inf" : String.format(Locale.ROOT, "%.4f", d.rhat()), d.ess(),
-                d.mcse() == null ? "-" : String.format(Locale.ROOT, "%.4f", d.mcse()));
+        return "largest R-hat " + (Double.isInfinite(d.rhat()) ? "inf" : String.format(Locale.ROOT, "%.4f", d.rhat()))
+                + ", smallest bulk effective sample size " + String.format(Locale.ROOT, "%.0f", d.bulkEffectiveSampleSize())
+                + ", largest MCSE " + orDash(d.mcse(), "%.4f");
     }
 
-    /** One worst quantity: {@code edge a -> b: R-hat 1.020, bulk ESS 380, MCSE 0.0150 (stuck)}. */
+    /** One worst quantity: {@code edge a -> b: R-hat 1.020, bulk eff. n 380, MCSE 0.0150 (stuck: …)}. */
     public static String worst(EdgeResult.Worst w) {
         return w.quantity() + ": R-hat " + (w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()))
-                + ", bulk ESS " + (w.ess() == null ? "-" : String.format(Locale.ROOT, "%.0f", w.ess()))
-                + ", MCSE " + (w.mcse() == null ? "-" : String.format(Locale.ROOT, "%.4f", w.mcse()))
+                + ", bulk eff. n " + orDash(w.bulkEffectiveSampleSize(), "%.0f") + ", MCSE " + orDash(w.mcse(), "%.4f")
                 + ("stuck".equals(w.state()) ? " (stuck: each chain keeps its own value)" : "");
+    }
+
+    /**
+     * The one-line warning of an unconverged run (after the caller's prefix): why it stopped, the
+     * targets, the worst quantities and the first thing to do, the settings named as {@code h} does.
+     */
+    public static String warning(EdgeResult.Diagnostics d, RunHint h) {
+        StringBuilder sb = new StringBuilder("WARNING: not converged (").append(stopped(d)).append("; needs ")
+                .append(targets(d)).append("): the posteriors are not reliable. Worst: ");
+        if (d.worst() == null || d.worst().isEmpty()) {
+            sb.append('-');
+        } else {
+            for (int k = 0; k < d.worst().size(); k++) {
+                sb.append(k == 0 ? "" : "; ").append(worst(d.worst().get(k)));
+            }
+        }
+        return sb.append(". ").append(next(d, h).get(0)).toString();
+    }
+
+    /**
+     * How to run longer after a run that stopped for {@code stopReason}: a fixed run ({@code steps})
+     * raises its steps or runs until converged, one stopped by the step cap raises the cap, any other
+     * the time budget. Lower case, no full stop.
+     */
+    public static String runLonger(String stopReason, RunHint h) {
+        return switch (stopReason == null ? "" : stopReason) {
+            case "steps" -> "run longer: raise the steps per chain (" + h.steps() + ") or run until converged instead ("
+                    + h.untilConverged() + ")";
+            case "max-steps" -> "run longer: raise or drop the step cap (" + h.maxSteps() + ")";
+            default -> "run longer: raise the time budget (" + h.maxTime() + ")";
+        };
     }
 
     /** What to do next, in plain sentences naming the settings as {@code h} does. */
@@ -70,26 +106,25 @@ public final class ConvergenceAdvice {
         }
         boolean stuck = false;
         boolean onlyMcse = d.worst() != null && !d.worst().isEmpty() && d.mcseTarget() != null;
-        double rt = d.rhatTarget() == null ? 1.01 : d.rhatTarget();
-        double et = d.essTarget() == null ? 400 : d.essTarget();
+        double rt = rhatTarget(d);
+        double et = effectiveSampleSizeTarget(d);
         if (d.worst() != null) {
             for (EdgeResult.Worst w : d.worst()) {
                 stuck |= "stuck".equals(w.state());
-                onlyMcse &= w.rhat() != null && w.rhat() < rt && (w.ess() == null || w.ess() >= et)
+                onlyMcse &= w.rhat() != null && w.rhat() < rt
+                        && (w.bulkEffectiveSampleSize() == null || w.bulkEffectiveSampleSize() >= et)
                         && w.mcse() != null && w.mcse() > d.mcseTarget();
             }
         }
         onlyMcse &= !stuck;
         String r = d.stopReason() == null ? "" : d.stopReason();
-        switch (r) {
-            case "max-time" -> out.add("Run longer: raise the time budget (" + h.maxTime() + ")"
-                    + (onlyMcse ? "; the chains agree, only the Monte Carlo error is still above its target." : "."));
-            case "max-steps" -> out.add("Run longer: raise or drop the step cap (" + h.maxSteps() + ").");
-            case "steps" -> out.add("Run until converged instead of a fixed number of steps (" + h.untilConverged() + ").");
-            case "converged" -> out.add("The chains met the targets but a posterior as reported did not (a posterior of "
+        if ("converged".equals(r)) {
+            out.add("The chains met the targets but a posterior as reported did not (a posterior of "
                     + "exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target (" + h.mcseTarget()
                     + ", e.g. 0.005) so that the chains run longer and keep more draws.");
-            default -> out.add("Run longer (" + h.maxTime() + ").");
+        } else {
+            out.add("R" + runLonger(r, h).substring(1) + ("max-time".equals(r) && onlyMcse
+                    ? "; the chains agree, only the Monte Carlo error is still above its target." : "."));
         }
         if (stuck) {
             out.add("A stuck quantity means the chains sit in different modes, which running longer may not cure: try more "
@@ -110,7 +145,15 @@ public final class ConvergenceAdvice {
                 + "another seed. It measures sampling noise only, not whether the model's assumptions hold.";
     }
 
-    static String num(double x) {
-        return x == Math.rint(x) && Math.abs(x) < 1e15 ? String.valueOf((long) x) : String.valueOf(x);
+    static double rhatTarget(EdgeResult.Diagnostics d) {
+        return d.rhatTarget() == null ? 1.01 : d.rhatTarget();
+    }
+
+    static double effectiveSampleSizeTarget(EdgeResult.Diagnostics d) {
+        return d.effectiveSampleSizeTarget() == null ? 400 : d.effectiveSampleSizeTarget();
+    }
+
+    private static String orDash(Double x, String format) {
+        return x == null ? "-" : String.format(Locale.ROOT, format, x);
     }
 }

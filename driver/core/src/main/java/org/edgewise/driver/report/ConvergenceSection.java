@@ -2,15 +2,18 @@ package org.edgewise.driver.report;
 
 import static org.edgewise.driver.report.Html.esc;
 import static org.edgewise.driver.report.Html.f;
+import static org.edgewise.driver.report.Html.num;
+import static org.edgewise.driver.report.Html.row;
 
 import org.edgewise.driver.result.EdgeResult;
 
 /**
  * The report's "Convergence" section for a sampled (MCMC) result: converged or not, why the run
- * stopped, the targets (R̂, bulk-ESS, MCSE), the worst quantities with their R̂, ESS and MCSE
- * (table {@code id="convergence-worst"}), what to do next, and that sampled figures carry an MCSE
- * — the words of {@link ConvergenceAdvice}. An exact result has no such section: its summary says
- * "exact" ({@link #estimates}).
+ * stopped, the targets (R̂, bulk effective sample size, MCSE), how the chains ran (warm-up,
+ * acceptance), the worst quantities with their R̂, effective sample size and MCSE (table
+ * {@code id="convergence-worst"}, the report's only such table, from {@code diagnostics.worst}), what
+ * to do next, and that sampled figures carry an MCSE — the words of {@link ConvergenceAdvice}; then
+ * the chains' traces. An exact result has no such section: its summary says "exact" ({@link #estimates}).
  */
 final class ConvergenceSection {
     private ConvergenceSection() {
@@ -44,18 +47,18 @@ final class ConvergenceSection {
         row(h, "targets", esc(ConvergenceAdvice.targets(d)));
         row(h, "reached", esc(ConvergenceAdvice.reached(d)));
         row(h, "run", d.chains() + " chains \u00d7 " + d.steps() + " steps kept (after " + d.burnIn()
-                + " warm-up), seed " + d.seed());
+                + " warm-up), seed " + d.seed() + ", acceptance rate " + f(d.acceptance(), 3));
         h.append("</table>\n");
         if (d.worst() != null && !d.worst().isEmpty()) {
-            String rt = d.rhatTarget() == null ? "1.01" : ConvergenceAdvice.num(d.rhatTarget());
-            String et = d.essTarget() == null ? "400" : ConvergenceAdvice.num(d.essTarget());
-            String mt = d.mcseTarget() == null ? "none" : ConvergenceAdvice.num(d.mcseTarget());
+            String rt = num(ConvergenceAdvice.rhatTarget(d));
+            String et = num(ConvergenceAdvice.effectiveSampleSizeTarget(d));
+            String mt = d.mcseTarget() == null ? "none" : num(d.mcseTarget());
             h.append("<table id=\"convergence-worst\">\n<tr><th>quantity</th><th>state</th><th>R\u0302 (target &lt; ").append(rt)
-                    .append(")</th><th>bulk ESS (&ge; ").append(et).append(")</th><th>MCSE (&le; ").append(mt).append(")</th></tr>\n");
+                    .append(")</th><th>bulk effective sample size (&ge; ").append(et).append(")</th><th>MCSE (&le; ").append(mt).append(")</th></tr>\n");
             for (EdgeResult.Worst w : d.worst()) {
                 h.append("<tr><td>").append(esc(w.quantity())).append("</td><td>").append(esc(w.state()))
                         .append("</td><td class=\"num\">").append(w.rhat() == null ? "\u221e" : f(w.rhat(), 3))
-                        .append("</td><td class=\"num\">").append(w.ess() == null ? "\u2013" : f(w.ess(), 0))
+                        .append("</td><td class=\"num\">").append(w.bulkEffectiveSampleSize() == null ? "\u2013" : f(w.bulkEffectiveSampleSize(), 0))
                         .append("</td><td class=\"num\">").append(w.mcse() == null ? "\u2013" : f(w.mcse(), 4))
                         .append("</td></tr>\n");
             }
@@ -70,7 +73,23 @@ final class ConvergenceSection {
         h.append("</ul>\n<p class=\"cap\">").append(esc(ConvergenceAdvice.mcseNote())).append("</p>\n");
     }
 
-    private static void row(StringBuilder h, String key, String valueHtml) {
-        h.append("<tr><th>").append(key).append("</th><td>").append(valueHtml).append("</td></tr>\n");
+    /** The chains' trace plot, captioned with what the trace holds under the result's sampler. */
+    static void traces(StringBuilder h, EdgeResult r) {
+        EdgeResult.Diagnostics d = r.diagnostics();
+        if (d == null || d.traces() == null || d.traces().isEmpty()) {
+            return;
+        }
+        h.append("<h2>Chain traces</h2>\n<div class=\"fig\">").append(Charts.traces(d.traces(), d.traceThin())).append("</div>\n")
+                .append("<p class=\"cap\">").append(partitionMcmc(r)
+                        ? "Log score of the current DAG of each partition chain: log P(G) + log P(D | G), up to a constant, "
+                        + "of the DAG the chain holds in its current partition."
+                        : "Log evidence of the current order in each chain.")
+                .append(" Chains that have mixed overlap and wander over the same band; a chain stuck at a different level "
+                        + "signals a separate mode.</p>\n");
+    }
+
+    /** Whether a sampled result comes from partition MCMC (structure-modular DAG prior), else order MCMC. */
+    static boolean partitionMcmc(EdgeResult r) {
+        return "mcmc".equals(r.method()) && "structure-modular".equals(r.dagPrior());
     }
 }

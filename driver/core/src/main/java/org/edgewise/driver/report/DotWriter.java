@@ -69,9 +69,7 @@ public final class DotWriter {
                 sb.append(", tooltip=").append(id(ce.describe(d.pair())));
             }
             if (truth != null) {
-                String col = arrow ? (truth[a][b] ? Charts.TRUE_COLOUR : truth[b][a] ? Charts.REVERSED_COLOUR : Charts.EXTRA_COLOUR)
-                        : (truth[a][b] || truth[b][a] ? Charts.TRUE_COLOUR : Charts.EXTRA_COLOUR);
-                sb.append(", color=\"").append(col).append('"');
+                sb.append(", color=\"").append(EdgeColour.of(truth, a, b, arrow).hex).append('"');
             }
             sb.append("];\n");
         }

@@ -25,7 +25,18 @@ import org.edgewise.driver.network.Network;
  * variables the result lacks are listed in {@code truthOnly}.
  */
 public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranking directed, Ranking skeleton,
-                           String skeletonScore, Consensus consensus, List<String> truthOnly) {
+                           String skeletonScore, Consensus consensus, List<String> truthOnly)
+        implements org.edgewise.driver.result.JsonResult {
+    @Override
+    public String kind() {
+        return "recovery";
+    }
+
+    @Override
+    public int formatVersion() {
+        return 1;
+    }
+
     /** How a pair is scored for the skeleton figures (stated in the JSON output). */
     public static final String SKELETON_SCORE = "min(1, P(a->b) + P(b->a))";
 
@@ -112,26 +123,19 @@ public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranki
         List<String> missing = new ArrayList<>();
         List<String> extra = new ArrayList<>();
         List<String> reversed = new ArrayList<>();
-        int edges = 0;
-        int correct = 0;
-        int skelEst = 0;
-        int skelCorrect = 0;
-        int skelTrue = 0;
-        int trueEdges = 0;
+        Agreement directed = new Agreement();
+        Agreement skeleton = new Agreement();
         for (int a = 0; a < n; a++) {
             for (int b = a + 1; b < n; b++) {
                 boolean ab = g[a][b];
                 boolean ba = g[b][a];
                 boolean tab = t[a][b];
                 boolean tba = t[b][a];
-                edges += (ab ? 1 : 0) + (ba ? 1 : 0);
-                correct += (ab && tab ? 1 : 0) + (ba && tba ? 1 : 0);
-                trueEdges += (tab ? 1 : 0) + (tba ? 1 : 0);
+                directed.add(ab, tab);
+                directed.add(ba, tba);
                 boolean est = ab || ba;
                 boolean tru = tab || tba;
-                skelEst += est ? 1 : 0;
-                skelTrue += tru ? 1 : 0;
-                skelCorrect += est && tru ? 1 : 0;
+                skeleton.add(est, tru);
                 if (!tru) {
                     if (ab) {
                         extra.add(names.get(a) + " -> " + names.get(b));
@@ -153,8 +157,29 @@ public record EdgeRecovery(double threshold, int variables, int trueEdges, Ranki
             }
         }
         int shd = missing.size() + extra.size() + reversed.size();
-        return new Consensus(edges, correct, ratio(correct, edges), ratio(correct, trueEdges),
-                ratio(skelCorrect, skelEst), ratio(skelCorrect, skelTrue), shd, missing, extra, reversed);
+        return new Consensus(directed.estimated, directed.correct, directed.precision(), directed.recall(),
+                skeleton.precision(), skeleton.recall(), shd, missing, extra, reversed);
+    }
+
+    /** Items (edges, or pairs for the skeleton) in the consensus graph, in the truth, and in both. */
+    private static final class Agreement {
+        int estimated;
+        int truth;
+        int correct;
+
+        void add(boolean inConsensus, boolean inTruth) {
+            estimated += inConsensus ? 1 : 0;
+            truth += inTruth ? 1 : 0;
+            correct += inConsensus && inTruth ? 1 : 0;
+        }
+
+        Double precision() {
+            return ratio(correct, estimated);
+        }
+
+        Double recall() {
+            return ratio(correct, truth);
+        }
     }
 
     private static Double ratio(int a, int b) {

@@ -66,4 +66,19 @@ public final class Html {
         }
         return f(p, 2);
     }
+
+    /** A table row of a key and a value, both HTML already escaped (a null value: an empty cell). */
+    static void row(StringBuilder h, String keyHtml, String valueHtml) {
+        h.append("<tr><th>").append(keyHtml).append("</th><td>").append(valueHtml == null ? "" : valueHtml).append("</td></tr>\n");
+    }
+
+    /** A figure with three decimals, "n/a" when absent. */
+    static String fig(Double v) {
+        return v == null ? "n/a" : f(v, 3);
+    }
+
+    /** A number as a person writes it: whole numbers without decimals (400, not 400.0), others as they are. */
+    static String num(double v) {
+        return v == Math.rint(v) && Math.abs(v) < 1e15 ? String.valueOf((long) v) : String.valueOf(v);
+    }
 }

@@ -34,10 +34,7 @@ public final class RankMetrics {
         double rankSum = 0;
         int i = 0;
         while (i < n) {
-            int j = i;
-            while (j + 1 < n && scores[idx[j + 1]] == scores[idx[i]]) {
-                j++;
-            }
+            int j = lastTied(scores, idx, i);
             double midrank = (i + j) / 2.0 + 1; // ranks i+1 … j+1
             for (int m = i; m <= j; m++) {
                 if (positive[idx[m]]) {
@@ -75,10 +72,7 @@ public final class RankMetrics {
         double prevRecall = 0;
         int i = 0;
         while (i < n) {
-            int j = i;
-            while (j + 1 < n && scores[idx[j + 1]] == scores[idx[i]]) {
-                j++;
-            }
+            int j = lastTied(scores, idx, i);
             for (int m = i; m <= j; m++) {
                 seen++;
                 if (positive[idx[m]]) {
@@ -91,6 +85,15 @@ public final class RankMetrics {
             i = j + 1;
         }
         return ap;
+    }
+
+    /** The last position from {@code i} on whose score ties the score at {@code i} (a group of tied scores is one rank or threshold). */
+    private static int lastTied(double[] scores, Integer[] idx, int i) {
+        int j = i;
+        while (j + 1 < idx.length && scores[idx[j + 1]] == scores[idx[i]]) {
+            j++;
+        }
+        return j;
     }
 
     private static Integer[] order(double[] scores, boolean descending) {

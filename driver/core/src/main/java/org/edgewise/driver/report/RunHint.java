@@ -7,14 +7,15 @@ package org.edgewise.driver.report;
  *
  * @param maxTime        the time budget of a run until converged
  * @param maxSteps       the cap on steps per chain
+ * @param steps          the steps per chain of a fixed run
  * @param untilConverged how to run until converged instead of a fixed number of steps
  * @param mcseTarget     the MCSE target of the reported posteriors
  * @param chains         the number of chains
  * @param exact          the exact method
  */
-public record RunHint(String maxTime, String maxSteps, String untilConverged, String mcseTarget, String chains,
-                      String exact) {
+public record RunHint(String maxTime, String maxSteps, String steps, String untilConverged, String mcseTarget,
+                      String chains, String exact) {
     /** The Java API: the fields of {@code UnknownOrderSettings}. */
-    public static final RunHint API = new RunHint("maxSeconds", "maxSteps", "steps = null", "mcseTarget", "chains",
+    public static final RunHint API = new RunHint("maxSeconds", "maxSteps", "steps", "steps = null", "mcseTarget", "chains",
             "method EXACT");
 }

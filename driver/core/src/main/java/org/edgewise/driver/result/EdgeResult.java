@@ -34,7 +34,16 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          List<VariableParents> parentSets, Network bestNetwork,
                          Diagnostics diagnostics, List<Feature> features,
                          List<Sensitivity> sensitivity, String dagPrior,
-                         List<EssentialPair> essentialGraph) {
+                         List<EssentialPair> essentialGraph) implements JsonResult {
+    @Override
+    public String kind() {
+        return "edges";
+    }
+
+    @Override
+    public int formatVersion() {
+        return ResultJson.EDGES_FORMAT_VERSION;
+    }
 
     /**
      * Posterior features of the essential graph (CPDAG; Chickering 1995, Andersson, Madigan &amp;
@@ -80,37 +89,42 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * MCMC diagnostics (Vehtari, Gelman, Simpson, Carpenter &amp; Bürkner 2021), over every edge, feature
      * and the log score trace: {@code rhat} the largest rank-normalised split-R̂ (max of bulk and
      * folded; +∞ when a quantity is stuck: constant within each chain, different between chains);
-     * {@code ess} the smallest bulk effective sample size; {@code essTail} the smallest tail-ESS;
-     * {@code converged}: every quantity has R̂ &lt; {@code rhatTarget} and bulk-ESS ≥ {@code essTarget},
-     * and every reported edge and feature posterior a Monte Carlo standard error ≤ {@code mcseTarget}
-     * (null in results written before the MCSE target existed), except {@code constant} ones (equal in
-     * every draw) and {@code settled} ones (probabilities whose draws all lie within {@code settleSpan});
+     * {@code bulkEffectiveSampleSize} the smallest bulk effective sample size;
+     * {@code tailEffectiveSampleSize} the smallest tail effective sample size (never {@code ess}: that
+     * is BDeu's equivalent sample size, {@link Settings#ess});
+     * {@code converged}: every quantity has R̂ &lt; {@code rhatTarget} and bulk effective sample size ≥
+     * {@code effectiveSampleSizeTarget}, and every reported edge and feature posterior a Monte Carlo
+     * standard error ≤ {@code mcseTarget}, except {@code constant} ones (equal in every draw) and
+     * {@code settled} ones (probabilities whose draws all lie within {@code settleSpan});
      * {@code mcse}: the largest MCSE of a deciding probability; {@code worst}: the quantities furthest
      * from the targets;
      * {@code stopReason}: {@code steps} (a fixed run), {@code converged}, {@code max-steps} or
-     * {@code max-time}; {@code traces}: log evidence per chain (thinned), for trace plots;
+     * {@code max-time}; {@code burnIn}: the warm-up, steps per chain discarded before the kept ones;
+     * {@code traces}: per chain (thinned), the log evidence of the current order (order MCMC) or
+     * the log score of the current partition's DAG (partition MCMC), for trace plots;
      * {@code tempering}: the ladder of tempered chains behind each reported chain (null without);
      * {@code plannedMemoryBytes}: the memory planned before sampling (per-child tables, chains, draw stores).
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
-                              double rhat, double ess, boolean converged, List<List<Double>> traces,
-                              int traceThin, Double rhatTarget, Double essTarget, Double mcseTarget, Double mcse,
-                              Double essTail, String stopReason,
+                              double rhat, double bulkEffectiveSampleSize, boolean converged, List<List<Double>> traces,
+                              int traceThin, Double rhatTarget, Double effectiveSampleSizeTarget, Double mcseTarget,
+                              Double mcse, Double tailEffectiveSampleSize, String stopReason,
                               Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
                               Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
                               Double samplingSeconds, Tempering tempering, Long plannedMemoryBytes) {
         /** Diagnostics with the original fields only. */
-        public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat, double ess,
-                           boolean converged, List<List<Double>> traces, int traceThin) {
-            this(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin, null, null, null, null,
+        public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat,
+                           double bulkEffectiveSampleSize, boolean converged, List<List<Double>> traces, int traceThin) {
+            this(chains, steps, burnIn, seed, acceptance, rhat, bulkEffectiveSampleSize, converged, traces, traceThin, null, null, null, null,
                     null, null, null, null, null, null, null, null, null, null, null, null, null, null);
         }
 
         /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
         public Diagnostics withVerdict(boolean converged, Double mcse, List<Worst> worst) {
-            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, ess, converged, traces, traceThin,
-                    rhatTarget, essTarget, mcseTarget, mcse, essTail, stopReason, constant, settled, stuck, settleSpan, worst,
+            return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, bulkEffectiveSampleSize, converged,
+                    traces, traceThin, rhatTarget, effectiveSampleSizeTarget, mcseTarget, mcse, tailEffectiveSampleSize,
+                    stopReason, constant, settled, stuck, settleSpan, worst,
                     drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes);
         }
     }
@@ -125,13 +139,14 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     }
 
     /**
-     * A quantity far from convergence: {@code rhat} (null when infinite), bulk {@code ess},
+     * A quantity far from convergence: {@code rhat} (null when infinite), {@code bulkEffectiveSampleSize},
      * {@code mcse} (Monte Carlo standard error; null for a quantity that is no reported probability,
-     * such as the log score) and {@code essTail} (null when undefined), {@code state} {@code varies}
-     * or {@code stuck}.
+     * such as the log score) and {@code tailEffectiveSampleSize} (null when undefined), {@code state}
+     * {@code varies} or {@code stuck}.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
-    public record Worst(String quantity, Double rhat, Double ess, Double mcse, Double essTail, String state) {
+    public record Worst(String quantity, Double rhat, Double bulkEffectiveSampleSize, Double mcse,
+                        Double tailEffectiveSampleSize, String state) {
     }
 
     /** A feature beyond a single edge: {@code kind} {@code ancestor} (from ⇝ to) or {@code markov-blanket}. */

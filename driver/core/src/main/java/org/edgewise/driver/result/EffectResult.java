@@ -43,7 +43,7 @@ import org.edgewise.driver.UserError;
  * @param note              how to read it
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
-@JsonPropertyOrder({"formatVersion", "kind", "do", "target", "given", "probability", "mcse", "estimate", "versus",
+@JsonPropertyOrder({"do", "target", "given", "probability", "mcse", "estimate", "versus",
     "difference", "differenceMcse", "ratio", "noPathProbability", "noPathMcse", "noPathEstimate", "interval",
     "posterior", "observational"})
 public record EffectResult(@JsonProperty("do") Map<String, String> intervention, Map<String, String> target,
@@ -52,16 +52,16 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
                            double noPathMcse, String noPathEstimate, Interval interval, Posterior posterior,
                            Observational observational, String method, String dagPrior, String averagedOver,
                            List<String> order, EdgeResult.Settings settings, Boolean converged, Double maxRhat,
-                           List<String> assumptions, String note) {
+                           List<String> assumptions, String note) implements JsonResult {
     /** The format version written and read. */
     public static final int FORMAT_VERSION = 1;
 
-    @JsonProperty("formatVersion")
+    @Override
     public int formatVersion() {
         return FORMAT_VERSION;
     }
 
-    @JsonProperty("kind")
+    @Override
     public String kind() {
         return "effect";
     }
@@ -87,14 +87,13 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
     }
 
     /** Several results ({@code effect --cases}). */
-    @JsonPropertyOrder({"formatVersion", "kind", "results"})
-    public record Batch(List<EffectResult> results) {
-        @JsonProperty("formatVersion")
+    public record Batch(List<EffectResult> results) implements JsonResult {
+        @Override
         public int formatVersion() {
             return FORMAT_VERSION;
         }
 
-        @JsonProperty("kind")
+        @Override
         public String kind() {
             return "effects";
         }

@@ -17,11 +17,14 @@ import org.edgewise.driver.UserError;
  * <p>An edges result ({@link EdgeResult}) is written with {@code "formatVersion": }
  * {@value #EDGES_FORMAT_VERSION} as its first field, and {@link #readEdges} refuses a file with
  * another version or none (e.g. from an older build), naming the file, before reading the rest.
- * Raise the version when a field of the result changes meaning or a required field is added.
+ * Raise the version when a field of the result changes meaning or name, or a required field is
+ * added. Version 2: the MCMC effective sample sizes are {@code bulkEffectiveSampleSize},
+ * {@code tailEffectiveSampleSize} and {@code effectiveSampleSizeTarget} (version 1 called them
+ * {@code ess}, {@code essTail} and {@code essTarget}, the word of BDeu's equivalent sample size).
  */
 public final class ResultJson {
     /** The format version of an edges result that this build writes and reads. */
-    public static final int EDGES_FORMAT_VERSION = 1;
+    public static final int EDGES_FORMAT_VERSION = 2;
 
     public static final ObjectMapper MAPPER = new ObjectMapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
@@ -30,9 +33,10 @@ public final class ResultJson {
     private ResultJson() {
     }
 
+    /** {@code value} as indented JSON; a {@link JsonResult} with its {@code formatVersion} and {@code kind} first. */
     public static String toJson(Object value) {
         try {
-            return MAPPER.writeValueAsString(value instanceof EdgeResult r ? versioned(r) : value);
+            return MAPPER.writeValueAsString(value instanceof JsonResult r ? stamped(r) : value);
         } catch (IOException e) {
             throw new IllegalStateException(e);
         }
@@ -52,11 +56,15 @@ public final class ResultJson {
         }
     }
 
-    /** The result as a JSON object with {@code formatVersion} first. */
-    private static ObjectNode versioned(EdgeResult r) {
+    /** The result as a JSON object with {@code formatVersion} and {@code kind} first: the one place they are written. */
+    private static ObjectNode stamped(JsonResult r) {
         ObjectNode node = MAPPER.createObjectNode();
-        node.put("formatVersion", EDGES_FORMAT_VERSION);
-        node.setAll((ObjectNode) MAPPER.valueToTree(r));
+        node.put("formatVersion", r.formatVersion());
+        node.put("kind", r.kind());
+        ObjectNode fields = (ObjectNode) MAPPER.valueToTree(r);
+        fields.remove("formatVersion");
+        fields.remove("kind");
+        node.setAll(fields);
         return node;
     }
 
@@ -69,11 +77,15 @@ public final class ResultJson {
             if (tree == null || tree.get("variables") == null || tree.get("edges") == null) {
                 throw new UserError("result file " + file + " is not an edges result (no variables or edges)");
             }
+            JsonNode kind = tree.get("kind");
+            if (kind != null && !kind.asText().equals("edges")) {
+                throw new UserError("result file " + file + " is a " + kind.asText() + " result, not an edges result");
+            }
             JsonNode version = tree.get("formatVersion");
             if (version == null || !version.canConvertToInt() || version.asInt() != EDGES_FORMAT_VERSION) {
                 throw new UserError("result file " + file + " has " + (version == null ? "no format version"
                         : "format version " + version) + "; this Edgewise reads edges results of format version "
-                        + EDGES_FORMAT_VERSION);
+                        + EDGES_FORMAT_VERSION + "; re-run the analysis that wrote it with this Edgewise");
             }
             EdgeResult r = MAPPER.readValue(file.toFile(), EdgeResult.class);
             if (r.variables() == null || r.edges() == null) {

@@ -50,6 +50,11 @@ public final class FamilyScore {
         return ess;
     }
 
+    /** The ESS to report with these scores: null for K2, which has none ({@link ScoreKind#reportedEss}). */
+    public Double reportedEss() {
+        return kind.reportedEss(ess);
+    }
+
     /** α_ijk for a child with {@code r} states and {@code q} parent configurations. */
     public double cellAlpha(int r, double q) {
         return kind.cellAlpha(ess, r, q);

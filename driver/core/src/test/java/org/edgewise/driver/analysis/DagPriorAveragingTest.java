@@ -13,12 +13,12 @@ import java.util.Map;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.ProjectFiles;
 import org.edgewise.driver.average.DagEnumeration;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
-import org.edgewise.driver.average.StructureSum;
+import org.edgewise.driver.average.exact.StructureSum;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
@@ -59,7 +59,7 @@ class DagPriorAveragingTest {
             ScoreStore s = random(n, 2, 300, 70 + n);
             LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
             StructureSum.Result exact = StructureSum.run(ls, OrderConstraints.none(n));
-            EdgeResult mc = UnknownOrderAveraging.edges(ls, null,
+            EdgeResult mc = EdgeAnalysis.edges(ls, null,
                     settings(UnknownOrderSettings.Method.MCMC, DagPrior.STRUCTURE_MODULAR, false, 10000, 100_000, 5000),
                     ProgressListener.NONE);
             assertEquals("structure-modular", mc.dagPrior());
@@ -126,7 +126,7 @@ class DagPriorAveragingTest {
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
         for (DagPrior prior : DagPrior.values()) {
             double[][][] exact = enumeratedEssential(ls, prior);
-            EdgeResult r = UnknownOrderAveraging.edges(ls, null,
+            EdgeResult r = EdgeAnalysis.edges(ls, null,
                     settings(UnknownOrderSettings.Method.EXACT, prior, true, 20_000, 1), ProgressListener.NONE);
             assertEquals(10, r.essentialGraph().size());
             for (EdgeResult.EssentialPair p : r.essentialGraph()) {
@@ -148,9 +148,9 @@ class DagPriorAveragingTest {
         ScoreStore s = random(5, 4, 60, 93);
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
         double[][][] exact = enumeratedEssential(ls, DagPrior.STRUCTURE_MODULAR);
-        var d = org.edgewise.driver.average.ExactDagSampler.of(ls, OrderConstraints.none(5)).drawWeighted(40_000, 3);
-        List<String> names = UnknownOrderAveraging.names(ls);
-        for (EdgeResult.EssentialPair p : DagPriorAveraging.essential(names, d)) {
+        var d = org.edgewise.driver.average.exact.ExactDagSampler.of(ls, OrderConstraints.none(5)).drawWeighted(40_000, 3);
+        List<String> names = EdgeAnalysis.names(ls);
+        for (EdgeResult.EssentialPair p : EdgeAnalysis.essential(names, d)) {
             int a = s.manifest().variableIndex(p.a());
             int b = s.manifest().variableIndex(p.b());
             double tol = 5 * p.mcse() + 2e-3;
@@ -188,7 +188,7 @@ class DagPriorAveragingTest {
     void demoSeasonAndAmbientHeatAreAdjacentButMostlyReversible() throws IOException {
         ScoreStore s = fleet();
         LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
-        EdgeResult r = UnknownOrderAveraging.edges(ls, null,
+        EdgeResult r = EdgeAnalysis.edges(ls, null,
                 settings(UnknownOrderSettings.Method.EXACT, DagPrior.STRUCTURE_MODULAR, true, 10_000, 1), ProgressListener.NONE);
         EdgeResult.EssentialPair pair = r.essentialGraph().stream()
                 .filter(p -> Set2.of(p.a(), p.b()).equals(Set2.of("season", "ambient_heat"))).findFirst().orElseThrow();

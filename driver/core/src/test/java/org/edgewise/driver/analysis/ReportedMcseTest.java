@@ -7,7 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -58,7 +58,7 @@ class ReportedMcseTest {
         UnknownOrderSettings st = new UnknownOrderSettings(UnknownOrderSettings.Method.MCMC, List.of(), 5, 4, null, null, 1000,
                 null, null, 120.0, false, false, 10_000, 3, DagPrior.STRUCTURE_MODULAR, false, target);
         // partition MCMC: the reported posteriors are the chains' own Rao-Blackwellised estimates, held to the target
-        EdgeResult r = UnknownOrderAveraging.edges(ls, null, st, ProgressListener.NONE);
+        EdgeResult r = EdgeAnalysis.edges(ls, null, st, ProgressListener.NONE);
         EdgeResult.Diagnostics d = r.diagnostics();
         assertEquals("structure-modular", r.dagPrior());
         assertTrue(d.converged(), d.worst().toString());

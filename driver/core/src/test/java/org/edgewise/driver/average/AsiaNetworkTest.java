@@ -13,6 +13,7 @@ import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.Variable;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 
 /**
  * The ASIA ("chest clinic") network of Lauritzen &amp; Spiegelhalter (1988), "Local computations

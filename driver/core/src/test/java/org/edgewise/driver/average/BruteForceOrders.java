@@ -1,18 +1,19 @@
 package org.edgewise.driver.average;
 
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.givenorder.OrderSum;
 
 /**
  * The independent reference for the unknown-order engines: every one of the n! orders
  * enumerated (Heap's algorithm, Heap 1963), each evaluated in closed form by
  * {@link OrderSum#evaluate}, and combined by a log-sum-exp. Exponential; for n ≤ 8 in tests.
  */
-final class BruteForceOrders {
-    final double logOrderSum;
-    final double[][] edges;
-    final int orders;
+public final class BruteForceOrders {
+    public final double logOrderSum;
+    public final double[][] edges;
+    public final int orders;
 
-    BruteForceOrders(LocalScores ls, OrderConstraints oc) {
+    public BruteForceOrders(LocalScores ls, OrderConstraints oc) {
         int n = ls.variableCount();
         int[] perm = new int[n];
         for (int i = 0; i < n; i++) {

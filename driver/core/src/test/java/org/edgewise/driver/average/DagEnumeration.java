@@ -4,6 +4,7 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.function.IntFunction;
+import org.edgewise.driver.average.dag.EssentialGraphTest;
 
 /**
  * The tests' enumeration of every DAG on a few nodes (parent bitmasks), the reference the exact

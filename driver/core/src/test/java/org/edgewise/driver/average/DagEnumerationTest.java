@@ -6,6 +6,11 @@ import java.util.Arrays;
 import java.util.List;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.Test;
+import org.edgewise.driver.average.exact.ExactOrderSum;
+import org.edgewise.driver.average.mcmc.McmcResult;
+import org.edgewise.driver.average.mcmc.McmcSettings;
+import org.edgewise.driver.average.ordermcmc.OrderMcmc;
+import org.edgewise.driver.average.ordermcmc.SampledOrders;
 
 /**
  * Features beyond edges against an enumeration of every DAG. The enumeration is first checked
@@ -106,8 +111,8 @@ class DagEnumerationTest {
         // features from 20,000 orders drawn from the exact posterior: within 4 standard errors
         double[][][] f = SampledOrders.features(ls, Arrays.asList(dp.sampledOrders()), 6L);
         // MCMC features: one DAG per stored draw
-        OrderMcmc.Result mc = OrderMcmc.run(ls, OrderConstraints.none(n),
-                OrderMcmc.Settings.defaults(8).withSteps(40_000, 2000).withDraws(5000).withFeatures(true), null);
+        McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(n),
+                McmcSettings.defaults(8).withSteps(40_000, 2000).withChains(4, 5000).withFeatures(true), null);
         for (int a = 0; a < n; a++) {
             for (int b = 0; b < n; b++) {
                 if (a == b) {

@@ -13,6 +13,7 @@ import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.Variable;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 
 /**
  * Rescoring from stored counts (DESIGN.md: "Rescoring under another ESS or score kind uses the

@@ -11,11 +11,11 @@ import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
 
 /** Small stores for the unknown-order tests, tallied with the reference {@link InMemoryTally}. */
-final class TestStores {
+public final class TestStores {
     private TestStores() {
     }
 
-    static ScoreStore random(int n, int arity, int d, int rows, long seed) {
+    public static ScoreStore random(int n, int arity, int d, int rows, long seed) {
         Network net = RandomNetwork.generate("v", n, arity, 2, n, 1.5, 0, seed);
         return InMemoryTally.tally(RandomNetwork.variables(net), new ForwardSampler(net).sample(rows, seed + 1), d,
                 FamilyScore.withDefaults());
@@ -26,7 +26,7 @@ final class TestStores {
      * variables), each child's candidate parents its {@code k} nearest neighbours on each side in
      * the generating order (standing in for a store tallied with {@code --candidates 2k}).
      */
-    static ScoreStore windowed(int n, int k, int d, int rows, long seed) {
+    public static ScoreStore windowed(int n, int k, int d, int rows, long seed) {
         Network net = RandomNetwork.generate("v", n, 3, 2, 6, 1.5, 0, seed);
         List<org.edgewise.driver.store.Variable> vars = RandomNetwork.variables(net);
         int[][] data = new ForwardSampler(net).sample(rows, seed + 1);
@@ -52,7 +52,7 @@ final class TestStores {
     }
 
     /** The same store with every stored score multiplied by {@code factor} (e.g. to reach −10⁶). */
-    static ScoreStore scaled(ScoreStore s, double factor) {
+    public static ScoreStore scaled(ScoreStore s, double factor) {
         double[] sc = s.logScores();
         for (int k = 0; k < sc.length; k++) {
             sc[k] *= factor;
@@ -60,16 +60,16 @@ final class TestStores {
         return new ScoreStore(s.manifest(), s.families(), sc);
     }
 
-    static LocalScores scores(ScoreStore s) {
+    public static LocalScores scores(ScoreStore s) {
         return LocalScores.build(s, ScoringOptions.asStored());
     }
 
-    static LocalScores scores(ScoreStore s, List<EdgeRule> forbid, List<EdgeRule> require) {
+    public static LocalScores scores(ScoreStore s, List<EdgeRule> forbid, List<EdgeRule> require) {
         return LocalScores.build(s, new ScoringOptions(null, Double.NaN, null, forbid, require));
     }
 
     /** The variables' names, by index, tier by tier (tiers as {@link OrderConstraints#of} takes them). */
-    static List<List<String>> tiers(ScoreStore s, int[]... tiers) {
+    public static List<List<String>> tiers(ScoreStore s, int[]... tiers) {
         List<List<String>> out = new ArrayList<>();
         for (int[] tier : tiers) {
             List<String> names = new ArrayList<>();
@@ -82,11 +82,28 @@ final class TestStores {
     }
 
     /** The scores of {@code s} with the edges between variables 2 and 4 forbidden both ways and 0 → 3 required. */
-    static LocalScores forbidTwoRequireOne(ScoreStore s) {
+    public static LocalScores forbidTwoRequireOne(ScoreStore s) {
         String v0 = s.variables().get(0).name();
         String v2 = s.variables().get(2).name();
         String v3 = s.variables().get(3).name();
         String v4 = s.variables().get(4).name();
         return scores(s, List.of(new EdgeRule(v2, v4), new EdgeRule(v4, v2)), List.of(new EdgeRule(v0, v3)));
+    }
+
+    /** Scores with their order constraints, named for assertion messages. */
+    public record Constrained(String what, LocalScores scores, OrderConstraints constraints) {
+    }
+
+    /**
+     * The constrained cases of {@code s} (at least five variables): its plain scores under {@code tiers}
+     * ("tiers"), {@link #forbidTwoRequireOne} without tiers ("forbid + require") and under
+     * {@code tiersWithEdges} ("forbid + require + tiers").
+     */
+    public static List<Constrained> constrained(ScoreStore s, int[][] tiers, int[][] tiersWithEdges) {
+        LocalScores plain = scores(s);
+        LocalScores fr = forbidTwoRequireOne(s);
+        return List.of(new Constrained("tiers", plain, OrderConstraints.of(plain, tiers(s, tiers))),
+                new Constrained("forbid + require", fr, OrderConstraints.of(fr, List.of())),
+                new Constrained("forbid + require + tiers", fr, OrderConstraints.of(fr, tiers(s, tiersWithEdges))));
     }
 }

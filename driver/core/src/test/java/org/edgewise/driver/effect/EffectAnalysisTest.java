@@ -9,13 +9,13 @@ import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.analysis.EffectAnalysis;
-import org.edgewise.driver.average.DagPrior;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.query.OrderMixture;
-import org.edgewise.driver.query.UnknownOrderPrediction;
+import org.edgewise.driver.posterior.ExactOrders;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.EdgeRule;
@@ -35,7 +35,10 @@ class EffectAnalysisTest {
 
     static EffectResult one(LocalScores ls, int[] order, UnknownOrderSettings s, DagPrior prior, String set,
                             String target, String given, String versus) {
-        return EffectAnalysis.run(new EffectAnalysis.Request(ls, order, s, prior,
+        UnknownOrderSettings withPrior = s == null ? null : new UnknownOrderSettings(s.method(), s.tiers(), s.seed(), s.chains(),
+                s.steps(), s.burnIn(), s.draws(), s.untilRhat(), s.maxSteps(), s.maxSeconds(), s.ancestors(), s.markovBlanket(),
+                s.orderSamples(), s.topParents(), prior, s.essentialGraph(), s.mcseTarget());
+        return EffectAnalysis.run(new EffectAnalysis.Request(ls, order, withPrior,
                 List.of(new EffectAnalysis.Question(set, target, given, versus, "")), ENGINE), ProgressListener.NONE).get(0);
     }
 
@@ -114,7 +117,7 @@ class EffectAnalysisTest {
         }
         LocalScores ls = LocalScores.build(f.store(), new ScoringOptions(null, Double.NaN, null, forbid, List.of()));
         EffectResult r = one(ls, null, exact(), DagPrior.ORDER_MODULAR, "v2=s1", "v0=s1", null, null);
-        OrderMixture mix = OrderMixture.exact(ls, UnknownOrderPrediction.allowedOrders(OrderConstraints.none(5), 5), 0,
+        OrderMixture mix = OrderMixture.exact(ls, ExactOrders.allowedOrders(OrderConstraints.none(5), 5), 0,
                 1_000_000L);
         assertEquals(Math.exp(mix.logProbability(new int[] {1, -1, -1, -1, -1})), r.probability(), 1e-12);
         assertEquals(1.0, r.noPathProbability(), 1e-12); // a sum of normalised order weights: rounding only

@@ -11,7 +11,7 @@ import org.edgewise.driver.BruteForce;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;
@@ -124,7 +124,7 @@ class EffectEngineTest {
         int[] order = {2, 0, 1, 3};
         List<BruteForce.Dag> dags = BruteForce.dags(f.vars(), f.rows(), order, 3, false, 1.0, BruteForce.Prior.UNIFORM,
                 null, null);
-        DagDraws list = new DagDraws() {
+        WeightedDags list = new WeightedDags() {
             @Override
             public int size() {
                 return dags.size();

@@ -11,7 +11,7 @@ import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderPosterior;
+import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.InMemoryTally;

@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import java.util.List;
 import org.edgewise.driver.HeldOutData;
 import org.edgewise.driver.UserError;
-import org.edgewise.driver.average.ExactOrderSum;
+import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
 import org.edgewise.driver.average.OrderConstraints;
@@ -49,7 +49,7 @@ class ExactCasePredictionTest {
             LocalScores ls = LocalScores.build(store, ScoringOptions.asStored());
             OrderConstraints oc = OrderConstraints.none(ARITIES.length);
             ExactCasePrediction exact = new ExactCasePrediction(ls, oc);
-            OrderMixture all = OrderMixture.exact(ls, UnknownOrderPrediction.allowedOrders(oc, ARITIES.length), 0, 1_000_000);
+            OrderMixture all = OrderMixture.exact(ls, org.edgewise.driver.posterior.ExactOrders.allowedOrders(oc, ARITIES.length), 0, 1_000_000);
             assertEquals(120, all.size(), "5! orders");
             double logZ = ExactOrderSum.run(ls, oc).logOrderSum();
             for (int[] x : new int[][] {{0, 0, 0, 0, 0}, {1, 2, 1, 0, 2}, {0, 1, 1, 1, 0}, {1, 0, 0, 1, 1}}) {
@@ -71,7 +71,7 @@ class ExactCasePredictionTest {
         LocalScores ls = LocalScores.build(InMemoryTally.tally(vars, rows, 2, fs), ScoringOptions.asStored());
         OrderConstraints oc = OrderConstraints.of(ls, List.of(List.of("v3"), List.of("v0", "v1", "v2", "v4")));
         ExactCasePrediction exact = new ExactCasePrediction(ls, oc);
-        OrderMixture all = OrderMixture.exact(ls, UnknownOrderPrediction.allowedOrders(oc, ARITIES.length), 0, 1_000_000);
+        OrderMixture all = OrderMixture.exact(ls, org.edgewise.driver.posterior.ExactOrders.allowedOrders(oc, ARITIES.length), 0, 1_000_000);
         assertEquals(24, all.size(), "4! orders with v3 first");
         int[] x = {1, 1, 0, 1, 2};
         assertEquals(all.logProbability(x), exact.logProbability(x), 1e-9);

@@ -13,7 +13,7 @@ import org.junit.jupiter.api.Test;
 
 /**
  * The report's convergence section (what a reader of a sampled result must see: verdict, why the
- * run stopped, the targets, the worst quantities with R̂ / ESS / MCSE, what to do next), parsed
+ * run stopped, the targets, the worst quantities with R̂ / effective sample size / MCSE, what to do next), parsed
  * back from the HTML; and its absence from an exact result, which says "exact".
  */
 class ConvergenceSectionTest {
@@ -36,14 +36,14 @@ class ConvergenceSectionTest {
     @Test
     void anUnconvergedRunListsItsWorstQuantitiesAndWhatToDo() {
         String html = HtmlReport.render(unconverged(), "r.json", null, null, 0.5, AssessHint.API,
-                new RunHint("--max-time", "--max-steps", "no --steps", "--mcse-target", "--chains", "--method exact"));
+                new RunHint("--max-time", "--max-steps", "--steps", "no --steps", "--mcse-target", "--chains", "--method exact"));
         assertTrue(html.contains("<h2>Convergence</h2>\n<div class=\"warn\"><b>Not converged: do not use these posteriors yet.</b> "
                 + "The run stopped because the time budget ran out before every target was met.</div>"), html);
-        assertTrue(html.contains("<tr><th>targets</th><td>R-hat &lt; 1.01, bulk ESS &gt;= 400, MCSE &lt;= 0.01 for every edge "
+        assertTrue(html.contains("<tr><th>targets</th><td>R-hat &lt; 1.01, bulk effective sample size &gt;= 400, MCSE &lt;= 0.01 for every edge "
                 + "and feature posterior</td></tr>"));
         assertTrue(html.contains("<tr><th>why it stopped</th><td>the time budget ran out before every target was met "
                 + "(<code>max-time</code>)</td></tr>"));
-        assertTrue(html.contains("<tr><th>reached</th><td>largest R-hat inf, smallest bulk ESS 455, largest MCSE 0.2100</td></tr>"));
+        assertTrue(html.contains("<tr><th>reached</th><td>largest R-hat inf, smallest bulk effective sample size 455, largest MCSE 0.2100</td></tr>"));
         Matcher table = Pattern.compile("<table id=\"convergence-worst\">(.*?)</table>", Pattern.DOTALL).matcher(html);
         assertTrue(table.find(), "the worst-quantity table");
         Matcher row = Pattern.compile("<tr><td>(.*?)</td><td>(.*?)</td><td class=\"num\">(.*?)</td><td class=\"num\">(.*?)</td>"
@@ -100,5 +100,63 @@ class ConvergenceSectionTest {
         assertTrue(html.contains("<div class=\"ok\"><b>Converged.</b>"));
         assertTrue(html.contains("<li>Nothing more is needed. Each posterior carries its MCSE; two runs with other seeds differ on "
                 + "an edge by about 1.4 x its MCSE (the spread of a difference of two independent estimates).</li>"));
+    }
+    /** The report's words for the MCMC: "effective sample size" (never "ESS", BDeu's word) and "warm-up" (never "burn-in"). */
+    @Test
+    void oneWordPerMeaningEffectiveSampleSizeAndWarmUp() {
+        String html = HtmlReport.render(unconverged(), "r.json", null, null, 0.5);
+        assertTrue(html.contains("<tr><th>run</th><td>4 chains \u00d7 640000 steps kept (after 640000 warm-up), seed 42, "
+                + "acceptance rate 0.310</td></tr>"), html);
+        assertTrue(html.contains("<th>bulk effective sample size (&ge; 400)</th>"));
+        assertFalse(html.contains("burn-in"), "one word for the discarded steps: warm-up");
+        assertFalse(html.contains("bulk ESS"));
+        assertFalse(html.contains("effective sample size</th><td>"), "no second, differently sourced figure");
+    }
+
+    /** One worst table, from diagnostics.worst: the second list ("the ten edges with the largest R̂") is gone. */
+    @Test
+    void oneSectionOwnsTheOneWorstTable() {
+        String html = HtmlReport.render(unconverged(), "r.json", null, null, 0.5);
+        assertEquals(1, html.split("<table id=\"convergence-worst\">", -1).length - 1);
+        assertFalse(html.contains("largest R\u0302"), html);
+        assertFalse(html.contains("MCMC diagnostics"));
+        assertEquals(1, html.split("<h2>Convergence</h2>", -1).length - 1);
+    }
+
+    /** The trace caption says what the trace holds: the order's log evidence (order MCMC), the DAG's log score (partition MCMC). */
+    @Test
+    void theTraceCaptionFollowsTheSampler() {
+        EdgeResult order = unconverged();
+        String orderHtml = HtmlReport.render(order, "r.json", null, null, 0.5);
+        assertTrue(orderHtml.contains("<p class=\"cap\">Log evidence of the current order in each chain."), orderHtml);
+        EdgeResult partition = new EdgeResult(order.method(), order.variables(), null, null, order.evidenceConvention(), null,
+                order.settings(), order.store(), order.edges(), order.parentSets(), null, order.diagnostics(), order.features(),
+                null, "structure-modular", null);
+        String html = HtmlReport.render(partition, "r.json", null, null, 0.5);
+        assertFalse(html.contains("current order"), "partition MCMC samples partitions, not orders");
+        assertTrue(html.contains("<p class=\"cap\">Log score of the current DAG of each partition chain: log P(G) + log P(D | G), "
+                + "up to a constant, of the DAG the chain holds in its current partition."), html);
+    }
+
+    /** After a fixed run (stopReason "steps") the advice raises the steps or runs until converged, never the time budget. */
+    @Test
+    void aFixedRunIsToldToRaiseItsStepsNotTheTimeBudget() {
+        EdgeResult r = unconverged();
+        EdgeResult.Diagnostics d = r.diagnostics();
+        EdgeResult.Diagnostics fixed = new EdgeResult.Diagnostics(d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(),
+                d.rhat(), d.bulkEffectiveSampleSize(), false, d.traces(), d.traceThin(), d.rhatTarget(),
+                d.effectiveSampleSizeTarget(), d.mcseTarget(), d.mcse(), d.tailEffectiveSampleSize(), "steps", d.constant(),
+                d.settled(), d.stuck(), d.settleSpan(), List.of(new EdgeResult.Worst("edge c -> d", 1.004, 812.0, 0.0173, 640.0,
+                "varies")), d.drawsPerChain(), d.relocateShare(), d.checks(), d.checkSeconds(), d.samplingSeconds(), null, null);
+        RunHint cli = new RunHint("--max-time", "--max-steps", "--steps", "no --steps, or --until-rhat", "--mcse-target",
+                "--chains", "--method exact");
+        List<String> next = ConvergenceAdvice.next(fixed, cli);
+        assertEquals("Run longer: raise the steps per chain (--steps) or run until converged instead (no --steps, or "
+                + "--until-rhat).", next.get(0));
+        assertFalse(String.join(" ", next).contains("--max-time"), next.toString());
+        assertFalse(ConvergenceAdvice.warning(fixed, cli).contains("--max-time"));
+        assertEquals("run longer: raise the steps per chain (--steps) or run until converged instead (no --steps, or "
+                + "--until-rhat)", ConvergenceAdvice.runLonger("steps", cli));
+        assertEquals("run longer: raise the time budget (--max-time)", ConvergenceAdvice.runLonger(null, cli));
     }
 }

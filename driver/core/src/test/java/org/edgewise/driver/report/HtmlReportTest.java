@@ -128,7 +128,7 @@ class HtmlReportTest {
         // negatives 0.05, 0.3, 0.1, 0.2 — all 8 pairs ordered: 1.000
         assertTrue(html.contains("<th>structural Hamming distance</th><td>0 = 0 missing + 0 extra + 0 reversed</td>"), html);
         assertTrue(html.contains("directed AUROC 1.000"));
-        assertFalse(html.contains("MCMC diagnostics"), "no MCMC section for an exact result");
+        assertFalse(html.contains("Chain traces"), "no MCMC section for an exact result");
         assertFalse(html.contains("http://") && !html.contains("http://www.w3.org/2000/svg"), "no external references");
         assertFalse(html.contains("https://"));
     }
@@ -138,7 +138,8 @@ class HtmlReportTest {
         EdgeResult order = ReportFixtures.fleetGivenOrder(1500);
         String bad = HtmlReport.render(ReportFixtures.asMcmc(order, 1.2), "r.json", null, null, 0.5);
         assertTrue(bad.contains("<b>Not converged: do not use these posteriors yet.</b>"), bad);
-        assertTrue(bad.contains("largest split-R\u0302 over edges</th><td>1.2000 \u2014 <b>above 1.01</b>"));
+        assertTrue(bad.contains("<tr><th>reached</th><td>largest R-hat 1.2000, smallest bulk effective sample size 413, "
+                + "largest MCSE -</td></tr>"), bad);
         String good = HtmlReport.render(ReportFixtures.asMcmc(order, 1.004), "r.json", null, null, 0.5);
         assertFalse(good.contains("Not converged"));
         assertTrue(good.contains("<b>Converged.</b>"));

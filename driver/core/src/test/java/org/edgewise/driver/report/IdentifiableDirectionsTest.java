@@ -136,9 +136,9 @@ class IdentifiableDirectionsTest {
         t[0][1] = true; // season → ambient_heat: the line is right
         t[4][2] = true; // sensor_fault → compressor_wear: the compelled arrow is reversed
         String dot = DotWriter.write(r, 0.5, t);
-        assertTrue(line(dot, "\"ambient_heat\" -> \"season\"").endsWith(", color=\"" + Charts.TRUE_COLOUR + "\"];"), dot);
-        assertTrue(line(dot, "\"compressor_wear\" -> \"sensor_fault\"").endsWith(", color=\"" + Charts.REVERSED_COLOUR + "\"];"), dot);
-        assertTrue(line(dot, "\"compressor_age\" -> \"sensor_fault\"").endsWith(", color=\"" + Charts.EXTRA_COLOUR + "\"];"), dot);
+        assertTrue(line(dot, "\"ambient_heat\" -> \"season\"").endsWith(", color=\"" + EdgeColour.TRUE.hex + "\"];"), dot);
+        assertTrue(line(dot, "\"compressor_wear\" -> \"sensor_fault\"").endsWith(", color=\"" + EdgeColour.REVERSED.hex + "\"];"), dot);
+        assertTrue(line(dot, "\"compressor_age\" -> \"sensor_fault\"").endsWith(", color=\"" + EdgeColour.EXTRA.hex + "\"];"), dot);
         // the HTML draws the known edge of an undrawn pair? none here: both known pairs are drawn
         List<String> p = paths(HtmlReport.render(r, "demo.json", null, null, 0.5));
         assertEquals(4, p.size());

@@ -9,7 +9,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.average.LocalScores;
-import org.edgewise.driver.average.OrderSum;
+import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;

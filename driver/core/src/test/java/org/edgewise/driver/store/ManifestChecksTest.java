@@ -19,8 +19,11 @@ class ManifestChecksTest {
     @TempDir
     Path dir;
 
+    private int stores;
+
+    /** A fresh good store. */
     Path store() {
-        Path store = dir.resolve("s");
+        Path store = dir.resolve("s" + stores++);
         StoreWriter.write(store, StoreRoundTripTest.manifest(), StoreRoundTripTest.families(),
                 new double[] {-1, -2, -3, -4}, false);
         return store;
@@ -39,25 +42,26 @@ class ManifestChecksTest {
         Files.writeString(m, text.replace(from, to));
     }
 
+    /** A fresh store whose manifest has {@code from} edited to {@code to} is refused with "store &lt;path&gt;" + {@code after}. */
+    void assertRefused(String from, String to, String after) throws Exception {
+        Path s = store();
+        edit(s, from, to);
+        assertEquals("store " + s + after, refused(s));
+    }
+
     @Test
     void anEditedMaxParentsIsCaught() throws Exception {
-        Path s = store();
-        edit(s, "\"maxParents\" : 1", "\"maxParents\" : 0");
-        assertEquals("store " + s + " contradicts its manifest.json: family 1 has 1 parent, but maxParents is 0", refused(s));
-        edit(s, "\"maxParents\" : 0", "\"maxParents\" : -1");
-        assertEquals("store " + s + ": manifest.json has maxParents -1; it must be 0 or more", refused(s));
+        assertRefused("\"maxParents\" : 1", "\"maxParents\" : 0",
+                " contradicts its manifest.json: family 1 has 1 parent, but maxParents is 0");
+        assertRefused("\"maxParents\" : 1", "\"maxParents\" : -1", ": manifest.json has maxParents -1; it must be 0 or more");
     }
 
     @Test
     void editedRowsDuplicateStatesAndTrailingTextAreCaught() throws Exception {
+        assertRefused("\"rows\" : 5", "\"rows\" : 50", " is damaged: family 0 (child a) counts 5 rows; the data fingerprint says 50");
+        assertRefused("\"x\", \"y\", \"z\"", "\"x\", \"y\", \"x\"", ": manifest.json lists the state 'x' of variable 'b' twice");
         Path s = store();
-        edit(s, "\"rows\" : 5", "\"rows\" : 50");
-        assertEquals("store " + s + " is damaged: family 0 (child a) counts 5 rows; the data fingerprint says 50", refused(s));
-        edit(s, "\"rows\" : 50", "\"rows\" : 5");
-        edit(s, "\"x\", \"y\", \"z\"", "\"x\", \"y\", \"x\"");
-        assertEquals("store " + s + ": manifest.json lists the state 'x' of variable 'b' twice", refused(s));
-        edit(s, "\"x\", \"y\", \"x\"", "\"x\", \"y\", \"z\"");
-        StoreReader.read(s); // back to a good store
+        StoreReader.read(s); // a good store
         Files.writeString(s.resolve(StoreFormat.MANIFEST), "\n{\"garbage\": 1}", java.nio.file.StandardOpenOption.APPEND);
         String m = refused(s);
         assertEquals(true, m.startsWith("store " + s + ": manifest.json has text after its JSON (line "), m);
@@ -65,7 +69,7 @@ class ManifestChecksTest {
 
     @Test
     void jsonOfTheWrongShapeIsNotCalledInvalid() throws Exception {
-        Path f = Files.writeString(dir.resolve("r.json"), "{\"formatVersion\": 1, \"variables\": [\"a\"], \"edges\": 7}");
+        Path f = Files.writeString(dir.resolve("r.json"), "{\"formatVersion\": " + ResultJson.EDGES_FORMAT_VERSION + ", \"variables\": [\"a\"], \"edges\": 7}");
         UserError e = assertThrows(UserError.class, () -> ResultJson.readEdges(f));
         assertEquals("result file " + f + " is JSON but not an edges result: edges has the wrong type (line 1, column 51)",
                 e.getMessage());

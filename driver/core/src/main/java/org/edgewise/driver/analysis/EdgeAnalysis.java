@@ -1,0 +1,189 @@
+package org.edgewise.driver.analysis;
+
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.function.Consumer;
+import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.convergence.McseBound;
+import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.posterior.StructurePosterior;
+import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.mcmc.McmcResult;
+
+/**
+ * The {@code edges} service: asks a {@link StructurePosterior} for its edge and parent-set
+ * posteriors, features and diagnostics and assembles the {@link EdgeResult} — the same assembly
+ * whatever the source of structures. With several scoring options (in practice several ESS values,
+ * to which BDeu results are known to be sensitive — Silander, Kontkanen &amp; Myllymäki 2007) the
+ * first gives the result and every further one a {@link EdgeResult.Sensitivity} entry beside it.
+ * A Monte Carlo estimate of exactly 0 or 1 reports the rule-of-three bound 3/K as its error
+ * ({@link McseBound}), not 0; pairs that cannot be edges at all (no candidate) are exactly 0 with error 0.
+ */
+public final class EdgeAnalysis {
+    private EdgeAnalysis() {
+    }
+
+    /**
+     * The averaged edges of a request: the store and scoring of {@code scoring} (several ESS values
+     * make a sensitivity sweep), averaged over what {@code averaging} asks for.
+     */
+    public static EdgeResult run(Scoring scoring, Averaging averaging, int topParents, ProgressListener progress,
+                                 Consumer<EdgeResult> eachRun) {
+        List<ScoringOptions> options = scoring.options();
+        ScoreStore store = scoring.read();
+        int[] order = averaging.order() == null ? null
+                : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
+        UnknownOrderSettings settings = averaging.settings(topParents);
+        return run(store, scoring.store(), options, order, settings, topParents, progress, eachRun);
+    }
+
+    /**
+     * The averaged edges under each of {@code options} (the first is the result, the rest its
+     * sensitivity list): given {@code order} when it is not null, else as {@code settings} say;
+     * {@code eachRun} sees every run's result (e.g. to warn about chains that disagree).
+     */
+    public static EdgeResult run(ScoreStore store, Path storePath, List<ScoringOptions> options, int[] order,
+                                 UnknownOrderSettings settings, int topParents, ProgressListener progress,
+                                 Consumer<EdgeResult> eachRun) {
+        EdgeResult primary = null;
+        List<EdgeResult.Sensitivity> sens = new ArrayList<>();
+        for (ScoringOptions so : options) {
+            LocalScores ls = LocalScores.build(store, so);
+            StructurePosterior p = StructurePosterior.of(ls, order, settings, progress);
+            if (primary == null && p.cost() != null) {
+                progress.note(p.cost() + (options.size() > 1 ? " (for each of the " + options.size() + " ESS values)" : ""));
+            }
+            EdgeResult r = result(p, settings, storePath, topParents);
+            eachRun.accept(r);
+            if (primary == null) {
+                primary = r;
+            } else {
+                sens.add(new EdgeResult.Sensitivity(ls.familyScore().ess(), r.logEvidence(), r.edges()));
+            }
+        }
+        if (sens.isEmpty()) {
+            return primary;
+        }
+        return new EdgeResult(primary.method(), primary.variables(), primary.logEvidence(), primary.logEvidenceNormalized(),
+                primary.evidenceConvention(), primary.order(), primary.settings(), primary.store(), primary.edges(),
+                primary.parentSets(), primary.bestNetwork(), primary.diagnostics(), primary.features(), sens,
+                primary.dagPrior(), primary.essentialGraph());
+    }
+
+    /** The edges of {@code ls} over unknown orders as {@code s} says (the Java API's one-call form). */
+    public static EdgeResult edges(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
+        return result(StructurePosterior.of(ls, null, s, progress), s, storePath, s.topParents());
+    }
+
+    /** The result of one posterior; {@code s} (null given an order) says which features were asked for. */
+    static EdgeResult result(StructurePosterior p, UnknownOrderSettings s, Path storePath, int topParents) {
+        LocalScores ls = p.scores();
+        List<String> names = names(ls);
+        StructurePosterior.Labels l = p.labels();
+        StructurePosterior.EdgeEstimates e = p.edges();
+        EdgeResult.Settings base = ResultBuilder.settings(ls);
+        EdgeResult.Settings settings = new EdgeResult.Settings(base.score(), base.ess(), base.prior(), base.maxParents(),
+                base.forbid(), base.require(), p.tiers());
+        int[] order = p.order();
+        McmcResult chains = p.chains();
+        DagDraws essential = p.essentialDraws();
+        EdgeResult r = new EdgeResult(l.method(), names, e.logEvidence(), e.logEvidenceNormalized(),
+                l.dagPriorLabel(ResultBuilder.ORDER_MODULAR), order == null ? null : VariableOrder.names(ls.store().manifest(), order),
+                settings, ResultBuilder.provenance(ls.store(), storePath),
+                e.sampled() == null ? ResultBuilder.edges(names, e.posterior()) : sampledEdges(names, e),
+                ResultBuilder.topParents(ls, p.setPosterior(), topParents),
+                p.bestSets() == null ? null : ResultBuilder.network(ls, p.bestSets()),
+                chains == null ? null : ChainReport.diagnostics(chains, s), features(names, s, p.features()), null,
+                l.dagPriorLabel(ResultBuilder.EITHER_GIVEN_ORDER), essential == null ? null : essential(names, essential));
+        return ReportedMcse.check(r);
+    }
+
+    private static List<EdgeResult.Edge> sampledEdges(List<String> names, StructurePosterior.EdgeEstimates est) {
+        int n = names.size();
+        List<EdgeResult.Edge> edges = new ArrayList<>();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a == b) {
+                    continue;
+                }
+                Estimate e = est.sampled()[a][b];
+                edges.add(e == null ? new EdgeResult.Edge(names.get(a), names.get(b), 0.0, 0.0, null)
+                        : new EdgeResult.Edge(names.get(a), names.get(b), clamp(e.mean()),
+                        finite(McseBound.reported(clamp(e.mean()), e.mcse(), est.draws())), finite(e.rhat())));
+            }
+        }
+        return edges;
+    }
+
+    /**
+     * The {@code features} of a result: with {@code s.ancestors()} a ⇝ b for every ordered pair
+     * a ≠ b, with {@code s.markovBlanket()} a — b for every a &lt; b; posteriors clamped to [0, 1].
+     */
+    private static List<EdgeResult.Feature> features(List<String> names, UnknownOrderSettings s, StructurePosterior.Features f) {
+        if (f == null) {
+            return null;
+        }
+        int n = names.size();
+        List<EdgeResult.Feature> out = new ArrayList<>();
+        if (s.ancestors()) {
+            for (int a = 0; a < n; a++) {
+                for (int b = 0; b < n; b++) {
+                    if (a != b) {
+                        out.add(new EdgeResult.Feature("ancestor", names.get(a), names.get(b), clamp(f.ancestor()[a][b]),
+                                finite(f.ancestorMcse()[a][b])));
+                    }
+                }
+            }
+        }
+        if (s.markovBlanket()) {
+            for (int a = 0; a < n; a++) {
+                for (int b = a + 1; b < n; b++) {
+                    out.add(new EdgeResult.Feature("markov-blanket", names.get(a), names.get(b), clamp(f.blanket()[a][b]),
+                            finite(f.blanketMcse()[a][b])));
+                }
+            }
+        }
+        return out;
+    }
+
+    /** Essential-graph features of every unordered pair: adjacent, compelled either way, reversible. */
+    static List<EdgeResult.EssentialPair> essential(List<String> names, DagDraws d) {
+        int n = names.size();
+        List<EdgeResult.EssentialPair> out = new ArrayList<>();
+        for (int a = 0; a < n; a++) {
+            for (int b = a + 1; b < n; b++) {
+                Estimate adj = d.estimate(d.adjacent(a, b));
+                Estimate ab = d.estimate(d.compelled(a, b));
+                Estimate ba = d.estimate(d.compelled(b, a));
+                Estimate un = d.estimate(d.reversible(a, b));
+                double mcse = Math.max(Math.max(adj.mcse(), ab.mcse()), Math.max(ba.mcse(), un.mcse()));
+                out.add(new EdgeResult.EssentialPair(names.get(a), names.get(b), clamp(adj.mean()), clamp(ab.mean()),
+                        clamp(ba.mean()), clamp(un.mean()), finite(mcse)));
+            }
+        }
+        return out;
+    }
+
+    static Double finite(double x) {
+        return Double.isFinite(x) ? x : null;
+    }
+
+    static double clamp(double p) {
+        return p < 0 ? 0 : Math.min(p, 1.0);
+    }
+
+    static List<String> names(LocalScores ls) {
+        List<String> out = new ArrayList<>();
+        for (var v : ls.store().variables()) {
+            out.add(v.name());
+        }
+        return out;
+    }
+}

@@ -1,0 +1,93 @@
+package org.edgewise.driver.query;
+
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import org.edgewise.driver.CsvFields;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.store.Manifest;
+
+/**
+ * A CSV table of cases to predict: a header of variable names (any subset, any
+ * order), then one case per line; a blank cell is a hidden variable. Fields follow RFC 4180
+ * quoting on one line (read by {@link CsvFields}). Every mistake names the file, line and column.
+ *
+ * <p>Memory: the raw lines plus one int per cell.
+ */
+public record CaseTable(List<String> header, List<String> lines, int[][] cases) {
+
+    /** Reads {@code file}; {@code what} names the input in messages about the file as a whole. */
+    public static CaseTable read(Path file, Manifest m, String what) {
+        if (!Files.isRegularFile(file)) {
+            throw new UserError(what + ": file " + file + " does not exist");
+        }
+        List<String> raw;
+        try (BufferedReader r = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            raw = new ArrayList<>();
+            for (String line; (line = r.readLine()) != null; ) {
+                raw.add(line);
+            }
+        } catch (IOException e) {
+            throw new UserError(what + ": cannot read " + file + ": " + e.getMessage());
+        }
+        if (raw.isEmpty()) {
+            throw new UserError(file + ": empty file; the first line must name the variables");
+        }
+        String first = raw.get(0);
+        if (first.startsWith("\uFEFF")) {
+            first = first.substring(1);
+        }
+        List<String> header = fields(file, 1, first);
+        int[] column = new int[header.size()];
+        boolean[] seen = new boolean[m.variableCount()];
+        for (int c = 0; c < header.size(); c++) {
+            String where = file + ": line 1, column " + (c + 1);
+            int v = CaseParser.variable(m, header.get(c).trim(), where);
+            if (seen[v]) {
+                throw new UserError(where + ": variable '" + header.get(c).trim() + "' appears twice in the header");
+            }
+            seen[v] = true;
+            column[c] = v;
+        }
+        List<String> lines = new ArrayList<>();
+        List<int[]> cases = new ArrayList<>();
+        for (int i = 1; i < raw.size(); i++) {
+            String line = raw.get(i);
+            if (line.isEmpty()) {
+                continue;
+            }
+            List<String> f = fields(file, i + 1, line);
+            if (f.size() != header.size()) {
+                throw new UserError(file + ": line " + (i + 1) + " has " + f.size() + " fields, the header has " + header.size());
+            }
+            int[] states = new int[m.variableCount()];
+            Arrays.fill(states, CaseParser.HIDDEN);
+            for (int c = 0; c < f.size(); c++) {
+                String cell = f.get(c).trim();
+                if (!cell.isEmpty()) {
+                    states[column[c]] = CaseParser.state(m.variables().get(column[c]), cell,
+                            file + ": line " + (i + 1) + ", column " + (c + 1));
+                }
+            }
+            lines.add(line);
+            cases.add(states);
+        }
+        return new CaseTable(header, lines, cases.toArray(new int[0][]));
+    }
+
+    /** Splits one line into fields (RFC 4180, {@link CsvFields}); a malformed quote names its column. */
+    public static List<String> fields(Path file, int lineNo, String line) {
+        try {
+            return CsvFields.split(line, ',');
+        } catch (CsvFields.Malformed e) {
+            throw new UserError(file + ": line " + lineNo + ", column " + e.column() + ": "
+                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
+                    : "text after a closing quote"));
+        }
+    }
+}
