@@ -7,6 +7,7 @@ import java.net.URI;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Files;
 import java.nio.file.InvalidPathException;
+import java.nio.file.LinkOption;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Set;
@@ -27,7 +28,7 @@ public final class StoreTarget {
 
     /**
      * Refuses {@code out} unless it is new, or an existing store and {@code overwrite}; refuses an
-     * {@code out} that is, or holds, one of the local {@code inputs} (paths or {@code file:} URIs;
+     * {@code out} that is, holds or lies inside one of the local {@code inputs} (paths or {@code file:} URIs;
      * other filesystems cannot hold a local store); refuses an unwritable directory. {@code outName}
      * and {@code overwriteName} name the target and the permission to replace it in messages (the
      * CLI: {@code --out}, {@code --overwrite}).
@@ -40,8 +41,15 @@ public final class StoreTarget {
                 throw new UserError(outName + " " + out + (real(p).equals(abs) ? " is" : " holds") + " the input " + in
                         + "; write the store elsewhere");
             }
+            if (p != null && abs.startsWith(real(p))) {
+                throw new UserError(outName + " " + out + " is inside the input " + in + "; write the store elsewhere");
+            }
         }
-        if (Files.exists(out)) {
+        if (Files.exists(out, LinkOption.NOFOLLOW_LINKS)) {
+            String kind = AtomicWrite.notRegular(out);
+            if (kind != null) {
+                throw new UserError(outName + " " + out + " is " + kind + ", not a store; give a new name or a store");
+            }
             if (!overwrite) {
                 throw new UserError("output " + out + " already exists; pass " + overwriteName + " to replace it");
             }
