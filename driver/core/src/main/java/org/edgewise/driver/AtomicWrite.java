@@ -93,6 +93,49 @@ public final class AtomicWrite {
         }
     }
 
+    /** The path with symbolic links resolved as far as it exists (the rest appended as given, normalized). */
+    public static Path realPath(Path p) {
+        Path abs = p.toAbsolutePath().normalize();
+        Path existing = abs;
+        while (existing != null && !Files.exists(existing)) {
+            existing = existing.getParent();
+        }
+        if (existing == null) {
+            return abs;
+        }
+        try {
+            return existing.toRealPath().resolve(existing.relativize(abs)).normalize();
+        } catch (IOException | java.nio.file.InvalidPathException e) {
+            return abs;
+        }
+    }
+
+    /**
+     * Refuses an output {@code target} that is one of a command's inputs, or lies inside an input
+     * directory, by real path (symbolic links resolved, hard links compared): {@code inputs} maps how
+     * the caller names each input (e.g. {@code --store}) to its path; {@code option} names the output.
+     */
+    public static void checkNotInput(Path target, String option, java.util.Map<String, Path> inputs) {
+        Path out = realPath(target);
+        for (java.util.Map.Entry<String, Path> in : inputs.entrySet()) {
+            Path real = realPath(in.getValue());
+            boolean same = out.equals(real);
+            try {
+                same |= Files.exists(target) && Files.exists(in.getValue()) && Files.isSameFile(target, in.getValue());
+            } catch (IOException e) {
+                // unreadable: the read of the input reports it
+            }
+            if (same) {
+                throw new UserError(option + " " + target + " is the input " + in.getKey() + " " + in.getValue()
+                        + "; write elsewhere");
+            }
+            if (out.startsWith(real) && Files.isDirectory(real)) {
+                throw new UserError(option + " " + target + " is inside the input " + in.getKey() + " " + in.getValue()
+                        + "; write elsewhere");
+            }
+        }
+    }
+
     /**
      * What an existing {@code path} is when it is neither a regular file nor a directory ("a
      * symbolic link", "a FIFO", "a device file", "a socket"), links not followed; null when it is

@@ -89,7 +89,7 @@ public final class EffectCommand implements Callable<Integer> {
         }
         Object json = questionsFile == null ? rs.get(0) : new EffectResult.Batch(rs);
         if (output.out != null) {
-            ResultJson.write(output.out, json);
+            output.writeJson(json);
         }
         PrintWriter w = spec.commandLine().getOut();
         if (fmt.equals("json")) {

@@ -46,6 +46,23 @@ public final class ResultJson {
         writeText(file, toJson(value) + "\n");
     }
 
+    /**
+     * Writes {@code value} as JSON to {@code file} atomically; an existing file is replaced only with
+     * {@code replace} (and only a regular file), else kept and refused ({@link AtomicWrite#file(Path, boolean, AtomicWrite.Content)}).
+     */
+    public static void write(Path file, boolean replace, Object value) {
+        writeText(file, replace, toJson(value) + "\n");
+    }
+
+    /** Writes text to {@code file} atomically; an existing file is replaced only with {@code replace}. */
+    public static void writeText(Path file, boolean replace, String text) {
+        try {
+            AtomicWrite.text(file, replace, text);
+        } catch (IOException e) {
+            throw new UserError("cannot write " + file + ": " + AtomicWrite.reason(e));
+        }
+    }
+
     /** Writes text to {@code file} atomically (temporary sibling, then rename). */
     public static void writeText(Path file, String text) {
         try {

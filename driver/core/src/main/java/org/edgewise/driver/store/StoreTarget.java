@@ -6,7 +6,6 @@ import java.io.IOException;
 import java.net.URI;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Files;
-import java.nio.file.InvalidPathException;
 import java.nio.file.LinkOption;
 import java.nio.file.Path;
 import java.util.List;
@@ -104,18 +103,6 @@ public final class StoreTarget {
 
     /** The path with symbolic links resolved as far as it exists. */
     static Path real(Path p) {
-        Path abs = p.toAbsolutePath().normalize();
-        Path existing = abs;
-        while (existing != null && !Files.exists(existing)) {
-            existing = existing.getParent();
-        }
-        if (existing == null) {
-            return abs;
-        }
-        try {
-            return existing.toRealPath().resolve(existing.relativize(abs));
-        } catch (IOException | InvalidPathException e) {
-            return abs;
-        }
+        return AtomicWrite.realPath(p);
     }
 }
