@@ -26,7 +26,7 @@ public final class ResultJson {
     /** The format version of an edges result that this build writes and reads. */
     public static final int EDGES_FORMAT_VERSION = 2;
 
-    public static final ObjectMapper MAPPER = new ObjectMapper()
+    public static final ObjectMapper MAPPER = org.edgewise.driver.JsonInput.mapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
             .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false);
 
@@ -84,6 +84,7 @@ public final class ResultJson {
         if (!Files.isRegularFile(file)) {
             throw new UserError("result file " + file + " does not exist");
         }
+        org.edgewise.driver.JsonInput.checkSize(file, "result file " + file);
         try {
             JsonNode tree = MAPPER.readTree(file.toFile());
             if (tree == null || tree.get("variables") == null || tree.get("edges") == null) {
@@ -102,11 +103,9 @@ public final class ResultJson {
             return r;
         } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
             throw new UserError("result file " + file + " is JSON but not an edges result: " + fieldPath(e)
-                    + " has the wrong type (line " + e.getLocation().getLineNr() + ", column "
-                    + e.getLocation().getColumnNr() + ")");
+                    + " has the wrong type" + org.edgewise.driver.JsonInput.at(e.getLocation()));
         } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
-            throw new UserError("result file " + file + " is not valid JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("result file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
         } catch (IOException e) {
             throw new UserError("cannot read result file " + file + ": " + e.getMessage());
         }

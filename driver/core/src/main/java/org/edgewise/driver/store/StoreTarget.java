@@ -1,7 +1,6 @@
 package org.edgewise.driver.store;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.IOException;
 import java.net.URI;
 import java.nio.file.DirectoryStream;
@@ -66,7 +65,10 @@ public final class StoreTarget {
             throw new UserError(only + out + " is a directory without " + StoreFormat.MANIFEST + "; choose another " + outName);
         }
         try {
-            JsonNode tree = new ObjectMapper().readTree(manifest.toFile());
+            if (Files.size(manifest) > org.edgewise.driver.JsonInput.MAX_BYTES) {
+                throw new IOException("too large for a manifest");
+            }
+            JsonNode tree = org.edgewise.driver.JsonInput.mapper().readTree(manifest.toFile());
             if (tree == null || !tree.isObject() || !tree.has("formatVersion") || !tree.has("variables")) {
                 throw new UserError(only + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another " + outName);
             }
