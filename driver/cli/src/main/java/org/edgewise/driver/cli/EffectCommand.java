@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.Checks;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EffectAnalysis;
@@ -71,6 +72,7 @@ public final class EffectCommand implements Callable<Integer> {
         if (questionsFile != null && (doText != null || targetText != null || givenText != null || versusText != null)) {
             throw new UserError("--questions excludes --do, --target, --given and --versus: put them in the file's columns");
         }
+        Checks.atMost(effectDraws, Checks.MAX_EFFECT_DRAWS, "--effect-draws", "each draw is kept in memory");
         Scoring scoring = averaging.scoring();
         Averaging what = averaging.averaging("effect", false);
         List<EffectAnalysis.Question> qs = questionsFile == null

@@ -108,6 +108,7 @@ public final class UnknownOrderOptions {
         boolean anc = ancestors();
         boolean mb = markovBlanket();
         boolean eg = essentialGraph();
+        Checks.atMost(dagSamples, Checks.MAX_DAG_SAMPLES, "--dag-samples", "each DAG drawn is kept in memory");
         if (anc || mb || eg) {
             Checks.atLeast(dagSamples, 1, "--dag-samples");
         }

@@ -195,4 +195,35 @@ class OutputTargetsTest extends StoreFixture {
         Path relative = dir.relativize(Path.of("").toAbsolutePath()).resolve(dir.relativize(net)).normalize();
         assertEquals(before, snapshot(), "every input byte for byte, nothing left behind (" + relative + ")");
     }
+
+    /** Item 6: no -Infinity in JSON: a conditional on evidence the case contradicts is refused in one line. */
+    @Test
+    void aContradictedConditionalIsRefusedNotMinusInfinity() throws Exception {
+        Map<String, String> before = snapshot();
+        String s = store.toString();
+        String why = "; a probability given evidence the case contradicts is 0 by definition, not from the data:"
+                + " leave v0 out of one of them";
+        refused("predict: the case has v0=s0 but --given has v0=s1" + why,
+                "predict", "--store", s, "--order", ORDER, "--case", "v0=s0", "--given", "v0=s1", "--format", "json");
+        refused("predict: the case has v0=s0 but --given has v0=s1" + why,
+                "predict", "--store", s, "--method", "exact", "--case", "v0=s0,v1=s1", "--given", "v0=s1");
+        CliRun ok = CliRun.of("predict", "--store", s, "--order", ORDER, "--case", "v0=s0", "--given", "v1=s1", "--format", "json");
+        assertEquals(0, ok.status(), ok.err());
+        assertTrue(!ok.out().contains("Infinity") && !ok.out().contains("NaN"), ok.out());
+        assertEquals("null", org.edgewise.driver.result.ResultJson.toJson(Map.of("x", Double.NEGATIVE_INFINITY))
+                .replaceAll("[\\s{}\"x:]", ""), "a non-finite number is written as null");
+        assertEquals(before, snapshot());
+    }
+
+    /** Item 8: draw counts beyond what memory can hold are refused with the figure and the limit. */
+    @Test
+    void hugeDrawCountsAreRefusedWithTheLimit() throws Exception {
+        Map<String, String> before = snapshot();
+        String s = store.toString();
+        refused("effect: --effect-draws must be at most 1000000, got 2147483647 (each draw is kept in memory)",
+                "effect", "--store", s, "--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--effect-draws", "2147483647");
+        refused("edges: --dag-samples must be at most 1000000, got 200000000 (each DAG drawn is kept in memory)",
+                "edges", "--store", s, "--method", "mcmc", "--features", "ancestors", "--dag-samples", "200000000");
+        assertEquals(before, snapshot());
+    }
 }

@@ -28,7 +28,33 @@ public final class ResultJson {
 
     public static final ObjectMapper MAPPER = org.edgewise.driver.JsonInput.mapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
-            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false);
+            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false)
+            .registerModule(new com.fasterxml.jackson.databind.module.SimpleModule("finite-numbers")
+                    .addSerializer(Double.class, FiniteOrNull.INSTANCE)
+                    .addSerializer(double.class, FiniteOrNull.INSTANCE));
+
+    /**
+     * A number that is not finite (NaN, ±∞: e.g. the log of a probability 0) is written as JSON
+     * {@code null}, never as the strings {@code "NaN"} or {@code "-Infinity"} that no JSON reader
+     * takes for a number.
+     */
+    private static final class FiniteOrNull extends com.fasterxml.jackson.databind.ser.std.StdSerializer<Double> {
+        static final FiniteOrNull INSTANCE = new FiniteOrNull();
+
+        FiniteOrNull() {
+            super(Double.class);
+        }
+
+        @Override
+        public void serialize(Double value, com.fasterxml.jackson.core.JsonGenerator gen,
+                              com.fasterxml.jackson.databind.SerializerProvider provider) throws IOException {
+            if (value == null || !Double.isFinite(value)) {
+                gen.writeNull();
+            } else {
+                gen.writeNumber(value);
+            }
+        }
+    }
 
     private ResultJson() {
     }
