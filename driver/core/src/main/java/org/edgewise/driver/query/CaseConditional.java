@@ -9,36 +9,19 @@ final class CaseConditional {
 
     /**
      * log P(target | given) = log P(target ∪ given) − log P(given) (the definition of a conditional
-     * probability). Throws a {@link UserError} with {@code zeroEvidence} when P(given) = 0, and
-     * one naming {@code givenName} when the case and the evidence fix different states of one
-     * variable (the answer would be 0 by definition, not from the data: a mistake in the question).
+     * probability); −∞ when the two disagree on a variable. Throws a {@link UserError} with
+     * {@code zeroEvidence} when P(given) = 0.
      */
-    static double of(CaseProbability p, int[] target, int[] given, String zeroEvidence, String givenName,
-                     java.util.List<org.edgewise.driver.store.Variable> variables) {
-        int[] joint = joint(target, given);
-        if (joint == null) {
-            int i = contradicted(target, given);
-            org.edgewise.driver.store.Variable v = variables.get(i);
-            throw new UserError("the case has " + v.name() + "=" + v.states().get(target[i])
-                    + " but " + givenName + " has " + v.name() + "=" + v.states().get(given[i])
-                    + "; a probability given evidence the case contradicts is 0 by definition, not from the data:"
-                    + " leave " + v.name() + " out of one of them");
-        }
+    static double of(CaseProbability p, int[] target, int[] given, String zeroEvidence) {
         double lg = p.logProbability(given);
         if (lg == Double.NEGATIVE_INFINITY) {
             throw new UserError(zeroEvidence);
         }
-        return p.logProbability(joint) - lg;
-    }
-
-    /** The first variable the two fix at different states, or −1. */
-    static int contradicted(int[] target, int[] given) {
-        for (int v = 0; v < target.length; v++) {
-            if (target[v] != CaseParser.HIDDEN && given[v] != CaseParser.HIDDEN && target[v] != given[v]) {
-                return v;
-            }
+        int[] joint = joint(target, given);
+        if (joint == null) {
+            return Double.NEGATIVE_INFINITY;
         }
-        return -1;
+        return p.logProbability(joint) - lg;
     }
 
     /** The case with the states of both; null when they disagree on a variable (a joint of probability 0). */

@@ -203,13 +203,7 @@ public final class CasePredictor implements CaseProbability {
      * disagree on a variable. Throws a {@link UserError} when the evidence has probability zero.
      */
     public double logConditional(int[] target, int[] given) {
-        return CaseConditional.of(this, target, given, names.given() + " has probability zero under this order and store; a conditional on it is undefined", names.given(),
-                store.manifest().variables());
-    }
-
-    /** The store's variables. */
-    java.util.List<org.edgewise.driver.store.Variable> variables() {
-        return store.manifest().variables();
+        return CaseConditional.of(this, target, given, names.given() + " has probability zero under this order and store; a conditional on it is undefined");
     }
 
     /** Backward pass through the order: which factors matter for this case. */

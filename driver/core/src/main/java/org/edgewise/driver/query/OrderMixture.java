@@ -188,8 +188,7 @@ public final class OrderMixture implements CaseProbability {
 
     @Override
     public double logConditional(int[] target, int[] given) {
-        return CaseConditional.of(this, target, given, names.given() + " has probability zero under the store; a conditional on it is undefined", names.given(),
-                parts[0].variables());
+        return CaseConditional.of(this, target, given, names.given() + " has probability zero under the store; a conditional on it is undefined");
     }
 
     @Override

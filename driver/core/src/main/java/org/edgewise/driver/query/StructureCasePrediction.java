@@ -86,8 +86,7 @@ public final class StructureCasePrediction implements CaseProbability {
 
     @Override
     public double logConditional(int[] target, int[] given) {
-        return CaseConditional.of(this, target, given, ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined",
-                ls.options().names().given(), ls.store().variables());
+        return CaseConditional.of(this, target, given, ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined");
     }
 
     /** Every hidden variable: any of them may be a parent in some DAG, so none drops out of the sum. */
