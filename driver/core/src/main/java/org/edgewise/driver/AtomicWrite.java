@@ -4,9 +4,12 @@ import java.io.IOException;
 import java.nio.file.AtomicMoveNotSupportedException;
 import java.nio.file.DirectoryStream;
 import java.nio.file.FileAlreadyExistsException;
+import java.nio.file.FileSystemException;
 import java.nio.file.Files;
+import java.nio.file.LinkOption;
 import java.nio.file.Path;
 import java.nio.file.StandardCopyOption;
+import java.nio.file.attribute.BasicFileAttributes;
 import java.util.Comparator;
 import java.util.Set;
 import java.util.UUID;
@@ -56,6 +59,10 @@ public final class AtomicWrite {
         if (Files.isDirectory(target)) {
             throw new UserError(option + " " + target + " is a directory; give a file name");
         }
+        String kind = notRegular(target);
+        if (kind != null) {
+            throw new UserError(option + " " + target + " is " + kind + ", not a regular file; give a file name");
+        }
         if (Files.exists(target) && !overwrite) {
             throw new UserError(option + " " + target + " already exists; pass " + overwriteOption + " to replace it");
         }
@@ -86,21 +93,156 @@ public final class AtomicWrite {
         }
     }
 
-    /** Writes a file: {@code content} writes {@code tmp}; it then replaces {@code target}. */
+    /** The path with symbolic links resolved as far as it exists (the rest appended as given, normalized). */
+    public static Path realPath(Path p) {
+        Path abs = p.toAbsolutePath().normalize();
+        Path existing = abs;
+        while (existing != null && !Files.exists(existing)) {
+            existing = existing.getParent();
+        }
+        if (existing == null) {
+            return abs;
+        }
+        try {
+            return existing.toRealPath().resolve(existing.relativize(abs)).normalize();
+        } catch (IOException | java.nio.file.InvalidPathException e) {
+            return abs;
+        }
+    }
+
+    /**
+     * Refuses an output {@code target} that is one of a command's inputs, or lies inside an input
+     * directory, by real path (symbolic links resolved, hard links compared): {@code inputs} maps how
+     * the caller names each input (e.g. {@code --store}) to its path; {@code option} names the output.
+     */
+    public static void checkNotInput(Path target, String option, java.util.Map<String, Path> inputs) {
+        Path out = realPath(target);
+        for (java.util.Map.Entry<String, Path> in : inputs.entrySet()) {
+            Path real = realPath(in.getValue());
+            boolean same = out.equals(real);
+            try {
+                same |= Files.exists(target) && Files.exists(in.getValue()) && Files.isSameFile(target, in.getValue());
+            } catch (IOException e) {
+                // unreadable: the read of the input reports it
+            }
+            if (same) {
+                throw new UserError(option + " " + target + " is the input " + in.getKey() + " " + in.getValue()
+                        + "; write elsewhere");
+            }
+            if (out.startsWith(real) && Files.isDirectory(real)) {
+                throw new UserError(option + " " + target + " is inside the input " + in.getKey() + " " + in.getValue()
+                        + "; write elsewhere");
+            }
+        }
+    }
+
+    /**
+     * What an existing {@code path} is when it is neither a regular file nor a directory ("a
+     * symbolic link", "a FIFO", "a device file", "a socket"), links not followed; null when it is
+     * missing, a regular file or a directory.
+     */
+    public static String notRegular(Path path) {
+        BasicFileAttributes a;
+        try {
+            a = Files.readAttributes(path, BasicFileAttributes.class, LinkOption.NOFOLLOW_LINKS);
+        } catch (IOException e) {
+            return null; // missing (or unreadable: the write reports it)
+        }
+        if (a.isRegularFile() || a.isDirectory()) {
+            return null;
+        }
+        if (a.isSymbolicLink()) {
+            return "a symbolic link";
+        }
+        try {
+            Object mode = Files.getAttribute(path, "unix:mode", LinkOption.NOFOLLOW_LINKS);
+            int type = (Integer) mode & 0170000;
+            return switch (type) {
+                case 0010000 -> "a FIFO";
+                case 0140000 -> "a socket";
+                case 0020000, 0060000 -> "a device file";
+                default -> "not a regular file";
+            };
+        } catch (IOException | UnsupportedOperationException | IllegalArgumentException e) {
+            return "a special file";
+        }
+    }
+
+    /**
+     * Writes a file that replaces an existing {@code target}: {@code content} writes {@code tmp},
+     * which then replaces {@code target} — only a regular file (a symbolic link, FIFO or device
+     * file that took its place meanwhile is refused).
+     */
     public static void file(Path target, Content content) throws IOException {
+        file(target, true, content);
+    }
+
+    /**
+     * Writes a file: {@code content} writes {@code tmp}, which is then put in place. With
+     * {@code replace} it replaces a regular file {@code target} (never a symbolic link, FIFO or
+     * device file); without, a {@code target} that appeared since the caller checked (another run
+     * writing the same file) is kept and a {@link UserError} thrown: the new file is hard-linked
+     * to the target name, which fails atomically when the name exists, and the temporary removed.
+     */
+    public static void file(Path target, boolean replace, Content content) throws IOException {
         Path abs = target.toAbsolutePath().normalize();
         Path tmp = temporarySibling(abs, "tmp");
         try {
             content.writeTo(tmp);
-            Files.move(tmp, abs, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
+            if (replace) {
+                refuseSpecial(target, abs);
+                Files.move(tmp, abs, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
+            } else {
+                publishNew(tmp, target, abs);
+            }
         } finally {
             done(tmp);
         }
     }
 
-    /** Writes {@code text} (UTF-8) as a file. */
+    private static void refuseSpecial(Path target, Path abs) {
+        if (Files.isDirectory(abs, LinkOption.NOFOLLOW_LINKS)) {
+            throw new UserError("output " + target + " became a directory while writing; nothing was replaced");
+        }
+        String kind = notRegular(abs);
+        if (kind != null) {
+            throw new UserError("output " + target + " is " + kind + ", not a regular file; nothing was replaced");
+        }
+    }
+
+    /** Puts {@code tmp} at {@code abs} unless a file of that name exists (then it is kept). */
+    private static void publishNew(Path tmp, Path target, Path abs) throws IOException {
+        try {
+            Files.createLink(abs, tmp);
+            return;
+        } catch (FileAlreadyExistsException e) {
+            throw appeared(target);
+        } catch (UnsupportedOperationException | FileSystemException e) {
+            if (e instanceof FileSystemException f && Files.exists(abs, LinkOption.NOFOLLOW_LINKS)) {
+                throw appeared(target);
+            }
+            // no hard links on this filesystem: a move that refuses an existing target (a narrow window)
+        }
+        try {
+            Files.move(tmp, abs);
+        } catch (FileAlreadyExistsException e) {
+            throw appeared(target);
+        }
+    }
+
+    private static UserError appeared(Path target) {
+        return new UserError("output " + target + " appeared while writing (another run writing it?); it was kept and"
+                + " nothing was written");
+    }
+
+    /** Writes {@code text} (UTF-8) as a file, replacing a regular file {@code target}. */
     public static void text(Path target, String text) throws IOException {
         file(target, tmp -> Files.writeString(tmp, text));
+    }
+
+    /** Writes {@code text} (UTF-8) as a file; an existing {@code target} is replaced only with {@code replace}. */
+    public static void text(Path target, boolean replace, String text) throws IOException {
+        file(target, replace, tmp -> Files.writeString(tmp, text));
     }
 
     /**
@@ -116,7 +258,7 @@ public final class AtomicWrite {
         if (Files.isDirectory(abs.getParent())) {
             removeLeftovers(abs); // first: a store moved aside by a killed writer is back before the check
         }
-        if (Files.exists(abs) && !overwrite) {
+        if (Files.exists(abs, LinkOption.NOFOLLOW_LINKS) && !overwrite) {
             throw new UserError("output " + target + " already exists; pass " + overwriteOption + " to replace it");
         }
         Path tmp = temporarySibling(abs, "tmp");
@@ -172,9 +314,14 @@ public final class AtomicWrite {
 
     private static void publish(Path tmp, Path target, boolean overwrite, String overwriteOption) throws IOException {
         Path old = null;
-        if (Files.exists(target)) {
+        if (Files.exists(target, LinkOption.NOFOLLOW_LINKS)) {
             if (!overwrite) {
                 throw new UserError("output " + target + " already exists; pass " + overwriteOption + " to replace it");
+            }
+            if (!Files.isDirectory(target, LinkOption.NOFOLLOW_LINKS)) {
+                String kind = notRegular(target);
+                throw new UserError("output " + target + " is " + (kind == null ? "a file" : kind) + ", not a store;"
+                        + " nothing was replaced");
             }
             old = target.resolveSibling(leftoverName(target, "old"));
             Files.move(target, old, StandardCopyOption.ATOMIC_MOVE);

@@ -28,6 +28,17 @@ public final class Checks {
     static final String TOO_SMALL = "%s must be at least %d, got %d";
     /** Template of {@link #notNegative}: {@code what}, the value. */
     static final String NEGATIVE = "%s must not be negative, got %d";
+    /** Template of {@link #atMost}: {@code what}, the maximum, the value, why. */
+    static final String TOO_LARGE = "%s must be at most %d, got %d (%s)";
+    /**
+     * Most (DAG, parameter) draws of an effect: every draw's value is kept for every question (with
+     * the sort for its interval, about 20 bytes each), so 10^6 stay within a small heap; the Monte
+     * Carlo error of an interval is by then far below the posterior's own spread.
+     */
+    public static final long MAX_EFFECT_DRAWS = 1_000_000;
+    /** Most DAGs drawn for features: every DAG is kept (a parent mask per variable, up to ~150 bytes). */
+    public static final long MAX_DAG_SAMPLES = 1_000_000;
+
     /** Template of {@link #zeroOrMore}: {@code what}, the value. */
     static final String BELOW_ZERO = "%s must be 0 or more, got %d";
     /** Template of {@link #unitInterval}: {@code what}, the value. */
@@ -105,6 +116,14 @@ public final class Checks {
     public static long atLeast(long value, long min, String what) {
         if (value < min) {
             throw new UserError(String.format(Locale.ROOT, TOO_SMALL, what, min, value));
+        }
+        return value;
+    }
+
+    /** {@code value ≤ max}, with {@code why} the bound exists (e.g. "each draw is kept in memory"). */
+    public static long atMost(long value, long max, String what, String why) {
+        if (value > max) {
+            throw new UserError(String.format(Locale.ROOT, TOO_LARGE, what, max, value, why));
         }
         return value;
     }

@@ -64,7 +64,7 @@ public final class EdgesCommand implements Callable<Integer> {
             }
         });
         if (output.out != null) {
-            ResultJson.write(output.out, result);
+            output.writeJson(result);
             if (format == null) {
                 spec.commandLine().getErr().println("edges: wrote " + output.out);
                 return 0;

@@ -1,6 +1,15 @@
 package org.edgewise.driver.cli;
 
+import java.io.BufferedOutputStream;
+import java.io.FileDescriptor;
+import java.io.FileOutputStream;
+import java.io.FilterOutputStream;
+import java.io.IOException;
+import java.io.OutputStream;
+import java.io.OutputStreamWriter;
 import java.io.PrintWriter;
+import java.nio.charset.Charset;
+import org.edgewise.driver.AtomicWrite;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.Version;
 import picocli.CommandLine;
@@ -39,7 +48,80 @@ public final class EdgewiseCli implements Runnable {
 
     /** Runs a command line and returns its exit status (for tests and for {@link #main}). */
     public static int execute(String... args) {
-        return commandLine(new PrintWriter(System.out, true), new PrintWriter(System.err, true)).execute(args);
+        return execute(new FileOutputStream(FileDescriptor.out), new PrintWriter(System.err, true), args);
+    }
+
+    /**
+     * Runs a command line writing its results to {@code stdout} and its messages to {@code err}. The
+     * one place where standard output is flushed for the last time and checked: a write that failed
+     * (a full disk, {@code /dev/full}, a closed pipe) ends in one line and exit status
+     * {@link #OUTPUT_FAILED} instead of a truncated output and exit 0.
+     */
+    public static int execute(OutputStream stdout, PrintWriter err, String... args) {
+        FailedWrite failed = new FailedWrite(new BufferedOutputStream(stdout, 1 << 16));
+        PrintWriter out = new PrintWriter(new OutputStreamWriter(failed, Charset.defaultCharset()), true);
+        CommandLine cl = commandLine(out, err);
+        int status = cl.execute(args);
+        if (out.checkError() && status == 0) { // checkError flushes
+            String command = "edgewise";
+            for (CommandLine.ParseResult r = cl.getParseResult(); r != null; r = r.subcommand()) {
+                command = r.commandSpec().name();
+            }
+            err.println(command + ": cannot write standard output: " + failed.reason());
+            err.flush();
+            return OUTPUT_FAILED;
+        }
+        return status;
+    }
+
+    /** Exit status when standard output could not be written. */
+    public static final int OUTPUT_FAILED = ErrorReport.BUG;
+
+    /** Remembers the first failure of the stream under a {@code PrintWriter}, which keeps only a flag. */
+    private static final class FailedWrite extends FilterOutputStream {
+        private IOException first;
+
+        FailedWrite(OutputStream out) {
+            super(out);
+        }
+
+        @Override
+        public void write(byte[] b, int off, int len) throws IOException {
+            try {
+                out.write(b, off, len);
+            } catch (IOException e) {
+                throw remember(e);
+            }
+        }
+
+        @Override
+        public void write(int b) throws IOException {
+            try {
+                out.write(b);
+            } catch (IOException e) {
+                throw remember(e);
+            }
+        }
+
+        @Override
+        public void flush() throws IOException {
+            try {
+                out.flush();
+            } catch (IOException e) {
+                throw remember(e);
+            }
+        }
+
+        private IOException remember(IOException e) {
+            if (first == null) {
+                first = e;
+            }
+            return e;
+        }
+
+        String reason() {
+            return first == null ? "write error" : AtomicWrite.reason(first);
+        }
     }
 
     /** A configured command line writing to {@code out} and {@code err}. */

@@ -72,6 +72,7 @@ public final class EffectCommand implements Callable<Integer> {
         if (questionsFile != null && (doText != null || targetText != null || givenText != null || versusText != null)) {
             throw new UserError("--questions excludes --do, --target, --given and --versus: put them in the file's columns");
         }
+        Checks.atMost(effectDraws, Checks.MAX_EFFECT_DRAWS, "--effect-draws", "each draw is kept in memory");
         Scoring scoring = averaging.scoring();
         Averaging what = averaging.averaging("effect", false, true);
         // a fixed run's length is set; the target would only judge a verdict, and effect's verdict is R-hat's alone
@@ -93,7 +94,7 @@ public final class EffectCommand implements Callable<Integer> {
         }
         Object json = questionsFile == null ? rs.get(0) : new EffectResult.Batch(rs);
         if (output.out != null) {
-            ResultJson.write(output.out, json);
+            output.writeJson(json);
         }
         PrintWriter w = spec.commandLine().getOut();
         if (fmt.equals("json")) {

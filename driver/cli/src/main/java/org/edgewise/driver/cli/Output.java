@@ -32,10 +32,11 @@ final class Output {
         }
     }
 
-    /** Writes {@code text} to {@code out} atomically, or to standard output when {@code out} is null. */
-    static void write(CommandSpec spec, Path out, String text) {
+    /** Writes {@code text} to {@code out} atomically (an existing file replaced only with
+     * {@code overwrite}), or to standard output when {@code out} is null. */
+    static void write(CommandSpec spec, Path out, boolean overwrite, String text) {
         if (out != null) {
-            ResultJson.writeText(out, text);
+            ResultJson.writeText(out, overwrite, text);
         } else {
             PrintWriter w = spec.commandLine().getOut();
             w.print(text);

@@ -110,7 +110,7 @@ public final class PredictCommand implements Callable<Integer> {
             return 0;
         }
         if (output.out != null) {
-            ResultJson.write(output.out, a.prediction());
+            output.writeJson(a.prediction());
             if (format == null) {
                 return 0;
             }

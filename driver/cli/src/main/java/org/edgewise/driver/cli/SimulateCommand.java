@@ -70,7 +70,7 @@ final class SimulateCommand implements Callable<Integer> {
             return 0;
         }
         try (Progress p = Progress.start("simulate", rows)) {
-            AtomicWrite.file(output.out, tmp -> {
+            AtomicWrite.file(output.out, output.overwrite, tmp -> {
                 try (OutputStream o = new BufferedOutputStream(Files.newOutputStream(tmp), 1 << 16)) {
                     sampler.writeCsv(rows, seed, o, p::step);
                 }

@@ -148,6 +148,9 @@ public final class UnknownOrderOptions {
                 m == Averaging.Method.ORDER ? situation : situation + " without --features",
                 "nothing is drawn at random, the sums are exact");
         int nDagSamples = dagSamples == null ? DEFAULT_DAG_SAMPLES : dagSamples;
+        if (dagSamples != null) {
+            Checks.atMost(dagSamples, Checks.MAX_DAG_SAMPLES, "--dag-samples", "each DAG drawn is kept in memory");
+        }
         if (anc || mb || eg) {
             Checks.atLeast(nDagSamples, 1, "--dag-samples");
         }

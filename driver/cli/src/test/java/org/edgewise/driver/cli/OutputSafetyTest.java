@@ -40,7 +40,9 @@ class OutputSafetyTest extends StoreFixture {
 
     @Test
     void aDirectoryIsNeverAnOutFile() throws Exception {
-        EdgesCommandTest.refused("scores: --out " + store + " is a directory; give a file name",
+        EdgesCommandTest.refused("scores: --out " + dir + " is a directory; give a file name",
+                "scores", "--store", store.toString(), "--out", dir.toString(), "--overwrite");
+        EdgesCommandTest.refused("scores: --out " + store + " is the input --store " + store + "; write elsewhere",
                 "scores", "--store", store.toString(), "--out", store.toString(), "--overwrite");
         assertTrue(Files.exists(store.resolve("manifest.json")));
         Path plain = Files.writeString(dir.resolve("plain"), "x");

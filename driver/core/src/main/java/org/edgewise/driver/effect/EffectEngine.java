@@ -59,6 +59,7 @@ public final class EffectEngine {
     public record Settings(int draws, long seed, long maxHiddenStates) {
         public Settings {
             Checks.atLeast(draws, 10, "the number of effect draws");
+            Checks.atMost(draws, Checks.MAX_EFFECT_DRAWS, "the number of effect draws", "each draw is kept in memory");
             Checks.atLeast(maxHiddenStates, 1, "the limit on hidden joint states");
         }
     }

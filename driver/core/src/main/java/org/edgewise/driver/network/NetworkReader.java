@@ -33,7 +33,9 @@ public final class NetworkReader {
     /** The format version this reader understands. */
     public static final int VERSION = 1;
 
-    private static final ObjectMapper MAPPER = new ObjectMapper();
+    private static final ObjectMapper MAPPER = org.edgewise.driver.JsonInput.mapper();
+    /** Most entries of one variable's cpt (parent configurations × states). */
+    public static final long MAX_CPT_ENTRIES = 10_000_000;
 
     private NetworkReader() {
     }
@@ -42,12 +44,12 @@ public final class NetworkReader {
         if (!Files.isRegularFile(file)) {
             throw new UserError("network file " + file + " does not exist");
         }
+        org.edgewise.driver.JsonInput.checkSize(file, "network file " + file);
         JsonNode root;
         try {
             root = MAPPER.readTree(file.toFile());
         } catch (JsonProcessingException e) {
-            throw new UserError("network file " + file + " is not valid JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("network file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
         } catch (IOException e) {
             throw new UserError("cannot read network file " + file + ": " + e.getMessage());
         }
@@ -59,8 +61,7 @@ public final class NetworkReader {
         try {
             return parse(source, MAPPER.readTree(json));
         } catch (JsonProcessingException e) {
-            throw new UserError("network " + source + " is not valid JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("network " + source + " " + org.edgewise.driver.JsonInput.problem(e));
         }
     }
 
@@ -165,6 +166,15 @@ public final class NetworkReader {
             List<String> ps = parentNames.get(i);
             parents[i] = new int[ps.size()];
             Set<String> seen = new HashSet<>();
+            java.math.BigInteger entries = java.math.BigInteger.valueOf(states.get(i).size());
+            for (String pn : ps) {
+                Integer idx = index.get(pn);
+                entries = entries.multiply(java.math.BigInteger.valueOf(idx == null ? 1 : states.get(idx).size()));
+            }
+            if (entries.compareTo(java.math.BigInteger.valueOf(MAX_CPT_ENTRIES)) > 0) {
+                throw new UserError(String.format(java.util.Locale.ROOT, "%s has %d parents and a cpt of %,d entries;"
+                        + " a variable's cpt may hold at most %,d", at, ps.size(), entries, MAX_CPT_ENTRIES));
+            }
             int q = 1;
             for (int p = 0; p < ps.size(); p++) {
                 String pn = ps.get(p);

@@ -104,6 +104,7 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
         if (!Files.isRegularFile(file)) {
             throw new UserError("effect file " + file + " does not exist");
         }
+        org.edgewise.driver.JsonInput.checkSize(file, "effect file " + file);
         try {
             JsonNode tree = ResultJson.MAPPER.readTree(file.toFile());
             String kind = tree == null || tree.get("kind") == null ? "" : tree.get("kind").asText();
@@ -125,8 +126,7 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
             }
             return out;
         } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
-            throw new UserError("effect file " + file + " is not valid JSON (line " + e.getLocation().getLineNr()
-                    + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("effect file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
         } catch (IOException e) {
             throw new UserError("cannot read effect file " + file + ": " + e.getMessage());
         }

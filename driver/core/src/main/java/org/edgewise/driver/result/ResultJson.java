@@ -26,9 +26,35 @@ public final class ResultJson {
     /** The format version of an edges result that this build writes and reads. */
     public static final int EDGES_FORMAT_VERSION = 2;
 
-    public static final ObjectMapper MAPPER = new ObjectMapper()
+    public static final ObjectMapper MAPPER = org.edgewise.driver.JsonInput.mapper()
             .enable(SerializationFeature.INDENT_OUTPUT)
-            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false);
+            .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false)
+            .registerModule(new com.fasterxml.jackson.databind.module.SimpleModule("finite-numbers")
+                    .addSerializer(Double.class, FiniteOrNull.INSTANCE)
+                    .addSerializer(double.class, FiniteOrNull.INSTANCE));
+
+    /**
+     * A number that is not finite (NaN, ±∞: e.g. the log of a probability 0) is written as JSON
+     * {@code null}, never as the strings {@code "NaN"} or {@code "-Infinity"} that no JSON reader
+     * takes for a number.
+     */
+    private static final class FiniteOrNull extends com.fasterxml.jackson.databind.ser.std.StdSerializer<Double> {
+        static final FiniteOrNull INSTANCE = new FiniteOrNull();
+
+        FiniteOrNull() {
+            super(Double.class);
+        }
+
+        @Override
+        public void serialize(Double value, com.fasterxml.jackson.core.JsonGenerator gen,
+                              com.fasterxml.jackson.databind.SerializerProvider provider) throws IOException {
+            if (value == null || !Double.isFinite(value)) {
+                gen.writeNull();
+            } else {
+                gen.writeNumber(value);
+            }
+        }
+    }
 
     private ResultJson() {
     }
@@ -45,6 +71,23 @@ public final class ResultJson {
     /** Writes {@code value} as JSON to {@code file} atomically. */
     public static void write(Path file, Object value) {
         writeText(file, toJson(value) + "\n");
+    }
+
+    /**
+     * Writes {@code value} as JSON to {@code file} atomically; an existing file is replaced only with
+     * {@code replace} (and only a regular file), else kept and refused ({@link AtomicWrite#file(Path, boolean, AtomicWrite.Content)}).
+     */
+    public static void write(Path file, boolean replace, Object value) {
+        writeText(file, replace, toJson(value) + "\n");
+    }
+
+    /** Writes text to {@code file} atomically; an existing file is replaced only with {@code replace}. */
+    public static void writeText(Path file, boolean replace, String text) {
+        try {
+            AtomicWrite.text(file, replace, text);
+        } catch (IOException e) {
+            throw new UserError("cannot write " + file + ": " + AtomicWrite.reason(e));
+        }
     }
 
     /** Writes text to {@code file} atomically (temporary sibling, then rename). */
@@ -72,6 +115,7 @@ public final class ResultJson {
         if (!Files.isRegularFile(file)) {
             throw new UserError("result file " + file + " does not exist");
         }
+        org.edgewise.driver.JsonInput.checkSize(file, "result file " + file);
         try {
             JsonNode tree = MAPPER.readTree(file.toFile());
             if (tree == null || tree.get("variables") == null || tree.get("edges") == null) {
@@ -94,11 +138,9 @@ public final class ResultJson {
             return r;
         } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
             throw new UserError("result file " + file + " is JSON but not an edges result: " + fieldPath(e)
-                    + " has the wrong type (line " + e.getLocation().getLineNr() + ", column "
-                    + e.getLocation().getColumnNr() + ")");
+                    + " has the wrong type" + org.edgewise.driver.JsonInput.at(e.getLocation()));
         } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
-            throw new UserError("result file " + file + " is not valid JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("result file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
         } catch (IOException e) {
             throw new UserError("cannot read result file " + file + ": " + e.getMessage());
         }

@@ -91,13 +91,26 @@ public final class StoreFormat {
     }
 
     /**
-     * What the manifest says that can be checked before the parts are read: maxParents is not
-     * negative, and every variable's state labels are unique (a query names states by label).
+     * What the manifest says that can be checked before the parts are read: every part is a plain
+     * file name inside the store (never a path that leads out of it), maxParents is not negative,
+     * variable names are unique, and every variable's state labels are unique (a query names
+     * variables and states by label).
      */
     static void checkManifest(Path dir, Manifest m) {
+        checkPartName(dir, "parts.scoresFile", m.parts().scoresFile());
+        checkPartName(dir, "parts.countsFile", m.parts().countsFile());
         if (m.maxParents() < 0) {
             throw new UserError("store " + dir + ": " + MANIFEST + " has maxParents " + m.maxParents()
                     + "; it must be 0 or more");
+        }
+        java.util.Set<String> names = new java.util.HashSet<>();
+        for (Variable v : m.variables()) {
+            if (v == null || v.name() == null || v.states() == null) {
+                throw new UserError("store " + dir + ": " + MANIFEST + " lists a variable without a name or states");
+            }
+            if (!names.add(v.name())) {
+                throw new UserError("store " + dir + ": " + MANIFEST + " lists the variable '" + v.name() + "' twice");
+            }
         }
         for (Variable v : m.variables()) {
             java.util.Set<String> seen = new java.util.HashSet<>();
@@ -107,6 +120,20 @@ public final class StoreFormat {
                             + v.name() + "' twice");
                 }
             }
+        }
+    }
+
+    /**
+     * Refuses a part name that is not a plain file name of the store directory: empty, {@code .} or
+     * {@code ..}, or holding a path separator or NUL (so {@code ../other/scores.parquet} and
+     * {@code /etc/passwd} are never opened).
+     */
+    static void checkPartName(Path dir, String field, String name) {
+        boolean plain = name != null && !name.isEmpty() && !name.equals(".") && !name.equals("..")
+                && name.indexOf('/') < 0 && name.indexOf('\\') < 0 && name.indexOf('\0') < 0;
+        if (!plain) {
+            throw new UserError("store " + dir + ": " + MANIFEST + " field " + field + " is "
+                    + (name == null ? "missing" : "'" + name + "'") + "; it must be the name of a file inside the store");
         }
     }
 

@@ -23,6 +23,7 @@ import org.apache.parquet.hadoop.util.HadoopInputFile;
 import org.apache.parquet.schema.MessageType;
 import org.apache.parquet.hadoop.ParquetReader;
 import org.apache.parquet.hadoop.example.GroupReadSupport;
+import org.edgewise.driver.JsonInput;
 import org.edgewise.driver.UserError;
 
 /**
@@ -33,7 +34,7 @@ import org.edgewise.driver.UserError;
  * a {@link UserError} that says which store and what is wrong.
  */
 public final class StoreReader {
-    private static final ObjectMapper JSON = new ObjectMapper()
+    private static final ObjectMapper JSON = JsonInput.mapper()
             .configure(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES, false)
             .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
 
@@ -49,15 +50,15 @@ public final class StoreReader {
         if (!Files.isRegularFile(file)) {
             throw new UserError("store " + dir + " has no " + StoreFormat.MANIFEST + "; it is not an Edgewise score store (or was not written completely)");
         }
+        JsonInput.checkSize(file, "store " + dir + ": " + StoreFormat.MANIFEST);
         JsonNode tree;
         try {
             tree = JSON.readTree(file.toFile());
         } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
-            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " has text after its JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " has text after its JSON"
+                    + JsonInput.at(e.getLocation()));
         } catch (JsonProcessingException e) {
-            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " is not valid JSON (line "
-                    + e.getLocation().getLineNr() + ", column " + e.getLocation().getColumnNr() + ")");
+            throw new UserError("store " + dir + ": " + StoreFormat.MANIFEST + " " + JsonInput.problem(e));
         } catch (IOException e) {
             throw new UserError("store " + dir + ": cannot read " + StoreFormat.MANIFEST + ": " + e.getMessage());
         }
@@ -423,6 +424,10 @@ public final class StoreReader {
     private static void checkPart(Path dir, Path file, String sha) {
         if (!Files.isRegularFile(file)) {
             throw new UserError("store " + dir + " is damaged: " + file.getFileName() + " is missing");
+        }
+        if (!Files.isRegularFile(file, java.nio.file.LinkOption.NOFOLLOW_LINKS)) {
+            throw new UserError("store " + dir + " is damaged: " + file.getFileName() + " is a symbolic link, not a part"
+                    + " of the store");
         }
         try {
             String actual = StoreWriter.sha256(file);

@@ -1,12 +1,11 @@
 package org.edgewise.driver.store;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.IOException;
 import java.net.URI;
 import java.nio.file.DirectoryStream;
 import java.nio.file.Files;
-import java.nio.file.InvalidPathException;
+import java.nio.file.LinkOption;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Set;
@@ -27,7 +26,7 @@ public final class StoreTarget {
 
     /**
      * Refuses {@code out} unless it is new, or an existing store and {@code overwrite}; refuses an
-     * {@code out} that is, or holds, one of the local {@code inputs} (paths or {@code file:} URIs;
+     * {@code out} that is, holds or lies inside one of the local {@code inputs} (paths or {@code file:} URIs;
      * other filesystems cannot hold a local store); refuses an unwritable directory. {@code outName}
      * and {@code overwriteName} name the target and the permission to replace it in messages (the
      * CLI: {@code --out}, {@code --overwrite}).
@@ -40,8 +39,15 @@ public final class StoreTarget {
                 throw new UserError(outName + " " + out + (real(p).equals(abs) ? " is" : " holds") + " the input " + in
                         + "; write the store elsewhere");
             }
+            if (p != null && abs.startsWith(real(p))) {
+                throw new UserError(outName + " " + out + " is inside the input " + in + "; write the store elsewhere");
+            }
         }
-        if (Files.exists(out)) {
+        if (Files.exists(out, LinkOption.NOFOLLOW_LINKS)) {
+            String kind = AtomicWrite.notRegular(out);
+            if (kind != null) {
+                throw new UserError(outName + " " + out + " is " + kind + ", not a store; give a new name or a store");
+            }
             if (!overwrite) {
                 throw new UserError("output " + out + " already exists; pass " + overwriteName + " to replace it");
             }
@@ -59,7 +65,10 @@ public final class StoreTarget {
             throw new UserError(only + out + " is a directory without " + StoreFormat.MANIFEST + "; choose another " + outName);
         }
         try {
-            JsonNode tree = new ObjectMapper().readTree(manifest.toFile());
+            if (Files.size(manifest) > org.edgewise.driver.JsonInput.MAX_BYTES) {
+                throw new IOException("too large for a manifest");
+            }
+            JsonNode tree = org.edgewise.driver.JsonInput.mapper().readTree(manifest.toFile());
             if (tree == null || !tree.isObject() || !tree.has("formatVersion") || !tree.has("variables")) {
                 throw new UserError(only + out + "/" + StoreFormat.MANIFEST + " is not a store manifest; choose another " + outName);
             }
@@ -96,18 +105,6 @@ public final class StoreTarget {
 
     /** The path with symbolic links resolved as far as it exists. */
     static Path real(Path p) {
-        Path abs = p.toAbsolutePath().normalize();
-        Path existing = abs;
-        while (existing != null && !Files.exists(existing)) {
-            existing = existing.getParent();
-        }
-        if (existing == null) {
-            return abs;
-        }
-        try {
-            return existing.toRealPath().resolve(existing.relativize(abs));
-        } catch (IOException | InvalidPathException e) {
-            return abs;
-        }
+        return AtomicWrite.realPath(p);
     }
 }

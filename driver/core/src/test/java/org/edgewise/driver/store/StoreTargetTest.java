@@ -73,6 +73,48 @@ class StoreTargetTest {
     }
 
     @Test
+    void theOutputIsNeverInsideTheInput() throws Exception {
+        Path data = Files.createDirectory(dir.resolve("data"));
+        Files.writeString(data.resolve("part-1.csv"), "a\n1\n");
+        Path inside = data.resolve("store");
+        assertEquals("--out " + inside + " is inside the input " + data + "; write the store elsewhere",
+                refused(inside, false, List.of(data.toString())));
+        Path viaLink = Files.createSymbolicLink(dir.resolve("data-link"), data).resolve("store");
+        assertEquals("--out " + viaLink + " is inside the input " + data + "; write the store elsewhere",
+                refused(viaLink, false, List.of(data.toString())));
+        assertFalse(Files.exists(inside));
+        try (Stream<Path> s = Files.list(data)) {
+            assertEquals(List.of("part-1.csv"), s.map(x -> x.getFileName().toString()).toList());
+        }
+    }
+
+    /** --overwrite replaces a store, never a symbolic link (to a store or not), a FIFO or a device file. */
+    @Test
+    void aSpecialFileIsNeverReplaced() throws Exception {
+        Path store = dir.resolve("store");
+        StoreWriter.write(store, StoreRoundTripTest.manifest(), StoreRoundTripTest.families(), new double[] {-1, -2, -3, -4},
+                false);
+        Path link = Files.createSymbolicLink(dir.resolve("link"), store);
+        assertEquals("--out " + link + " is a symbolic link, not a store; give a new name or a store",
+                refused(link, true, List.of()));
+        Path dangling = Files.createSymbolicLink(dir.resolve("dangling"), dir.resolve("nowhere"));
+        assertEquals("--out " + dangling + " is a symbolic link, not a store; give a new name or a store",
+                refused(dangling, true, List.of()));
+        Path fifo = dir.resolve("fifo");
+        assertEquals(0, new ProcessBuilder("mkfifo", fifo.toString()).start().waitFor());
+        assertEquals("--out " + fifo + " is a FIFO, not a store; give a new name or a store", refused(fifo, true, List.of()));
+        // the final move checks again: a link put in place after the check is not replaced
+        UserError e = assertThrows(UserError.class, () -> StoreWriter.write(dangling, StoreRoundTripTest.manifest(),
+                StoreRoundTripTest.families(), new double[] {-1, -2, -3, -4}, true));
+        assertEquals("output " + dangling + " is a symbolic link, not a store; nothing was replaced", e.getMessage());
+        assertTrue(Files.isSymbolicLink(link) && Files.isSymbolicLink(dangling) && !Files.exists(dangling));
+        assertEquals(-1, StoreReader.read(store).logScore(0));
+        try (Stream<Path> s = Files.list(dir)) {
+            assertEquals(List.of("dangling", "fifo", "link", "store"), s.map(x -> x.getFileName().toString()).sorted().toList());
+        }
+    }
+
+    @Test
     void anUnwritableDirectoryIsFoundBeforeAnyWork() throws Exception {
         Path file = Files.writeString(dir.resolve("plain"), "x");
         Path out = file.resolve("store");
