@@ -42,7 +42,7 @@ final class InputRefusals {
         int n = names.size();
         int corrupt = table.corruptField();
 
-        if (stats.rows() == 0) {
+        if (stats.rows() == 0 && stats.badWeights() == 0 && stats.zeroWeights() == 0) {
             throw new UserError("input " + TableScan.inputs(table) + ": no data rows (only a header)");
         }
         if (stats.malformed() > 0) {
@@ -52,6 +52,9 @@ final class InputRefusals {
             throw new UserError("input " + InputFiles.display(bad.file()) + " line " + bad.line()
                     + ": " + got + (got == 1 ? " field" : " fields") + ", the header has " + header.size()
                     + " (" + stats.malformed() + " malformed " + (stats.malformed() == 1 ? "row" : "rows") + " in all)");
+        }
+        if (o.weight() != null) {
+            checkWeights(table, o.weight(), stats);
         }
         if (stats.rows() == stats.dropped()) {
             throw new UserError("input " + TableScan.inputs(table) + ": every row has a missing value; nothing is left to count"
@@ -111,6 +114,31 @@ final class InputRefusals {
                         + "' is also the label --missing state gives to empty fields; rename that value or choose"
                         + " --missing drop");
             }
+        }
+    }
+
+    /**
+     * A table of counts: the first bad weight (blank, negative, a fraction, not a number, too large)
+     * is refused naming its line; so are weights that add up to more rows than a long holds, and a
+     * table whose every weight is 0.
+     */
+    private static void checkWeights(Table table, String column, ColumnStats stats) {
+        int field = table.columns().indexOf(column);
+        if (stats.badWeights() > 0) {
+            BadRow bad = first(table, r -> Weights.problem(r.isNullAt(field) ? null : r.getString(field)) != null);
+            Row r = bad.row();
+            throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " " + bad.line()
+                    + ", column '" + column + "': " + Weights.problem(r.isNullAt(field) ? null : r.getString(field))
+                    + "; --weight " + column + " needs a whole number of rows (0 or more) on every " + table.unit()
+                    + " (" + stats.badWeights() + " bad " + (stats.badWeights() == 1 ? "weight" : "weights") + " in all)");
+        }
+        if (stats.weightOverflow()) {
+            throw new UserError("input " + TableScan.inputs(table) + ", column '" + column + "': the weights add up to more than "
+                    + Long.MAX_VALUE + " rows");
+        }
+        if (stats.rows() == 0) {
+            throw new UserError("input " + TableScan.inputs(table) + ", column '" + column + "': every weight is 0;"
+                    + " nothing is left to count");
         }
     }
 
