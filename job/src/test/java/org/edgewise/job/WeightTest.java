@@ -295,6 +295,12 @@ class WeightTest {
         Path sum = TestTables.write(dir.resolve("sum.csv"), "a,n,b\nx,9223372036854775807,u\ny,1,v\n");
         TestTables.assertRefused(spark, refusals(), "tally: input " + sum + ", column 'n': the weights add up to more than"
                 + " 9223372036854775807 rows", sum, "--weight", "n");
+        // a line of weight 0 stands for no row: its empty field is no missing value, and a refusal names a counted line
+        Path gap = TestTables.write(dir.resolve("gap.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,\n");
+        TestTables.assertRefused(spark, refusals(), "tally: input " + gap + " line 4, column 'b': missing value"
+                + " (1 missing value in all); choose --missing drop or --missing state", gap, "--weight", "n");
+        Path gapOnly = TestTables.write(dir.resolve("gap-only.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,v\n");
+        assertEquals(3, TestTables.read(tally(gapOnly, "--weight", "n")).manifest().input().rows());
         Path zero = TestTables.write(dir.resolve("zero.csv"), "a,n,b\nx,0,u\ny,0,v\n");
         TestTables.assertRefused(spark, refusals(), "tally: input " + zero + ", column 'n': every weight is 0; nothing is left"
                 + " to count", zero, "--weight", "n");

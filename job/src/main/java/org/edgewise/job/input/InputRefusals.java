@@ -41,6 +41,7 @@ final class InputRefusals {
         List<String> header = table.columns();
         int n = names.size();
         int corrupt = table.corruptField();
+        int wf = o.weight() == null ? -1 : header.indexOf(o.weight());
 
         if (stats.rows() == 0 && stats.badWeights() == 0 && stats.zeroWeights() == 0) {
             throw new UserError("input " + TableScan.inputs(table) + ": no data rows (only a header)");
@@ -66,7 +67,7 @@ final class InputRefusals {
                 total += stats.missing(v);
             }
             if (total > 0) {
-                BadRow bad = first(table, r -> {
+                BadRow bad = firstCounted(table, wf, r -> {
                     for (int f : fields) {
                         if (ColumnStats.isMissing(r, f)) {
                             return true;
@@ -92,7 +93,7 @@ final class InputRefusals {
                 if (stats.missing(v) + stats.dropped() >= stats.rows()) {
                     throw new UserError("--discretize " + names.get(v) + ": the column has no values");
                 }
-                BadRow bad = first(table,
+                BadRow bad = firstCounted(table, wf,
                         r -> !ColumnStats.isMissing(r, f) && Double.isNaN(ColumnStats.parse(r.getString(f))));
                 throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
                         + bad.line() + ", column '" + names.get(v) + "': '" + bad.row().getString(f)
@@ -107,7 +108,7 @@ final class InputRefusals {
         }
         for (int v = 0; v < n; v++) {
             if (table.isCsv() && !binned[v] && stats.distinct(v).stream().anyMatch(x -> x.indexOf('\uFFFD') >= 0)) {
-                throw notInEncoding(table, names.get(v), fields[v]);
+                throw notInEncoding(table, names.get(v), fields[v], wf);
             }
             if (o.missing() == MissingPolicy.STATE && stats.missing(v) > 0 && stats.distinct(v).contains(TableScan.MISSING_STATE)) {
                 throw new UserError("input " + TableScan.inputs(table) + ", column '" + names.get(v) + "': the value '" + TableScan.MISSING_STATE
@@ -164,8 +165,8 @@ final class InputRefusals {
      * Bytes that are not valid in the encoding arrive from Spark's CSV reader as U+FFFD, silently;
      * they are refused here, naming the first line that holds one.
      */
-    private static UserError notInEncoding(Table table, String name, int field) {
-        BadRow bad = first(table,
+    private static UserError notInEncoding(Table table, String name, int field, int weightField) {
+        BadRow bad = firstCounted(table, weightField,
                 r -> !r.isNullAt(field) && r.getString(field).indexOf('\uFFFD') >= 0);
         return new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
                 + bad.line() + ", column '" + name + "': bytes that are not valid "
@@ -182,6 +183,17 @@ final class InputRefusals {
             }
         }
         throw new IllegalStateException("a bad row was counted but not found again");
+    }
+
+    /**
+     * As {@link #first}, among the rows that are counted: with a weight column ({@code weightField} ≥ 0)
+     * a line of weight 0 stands for no row, so it is never the one a refusal names.
+     */
+    private static BadRow firstCounted(Table table, int weightField, RowTest test) {
+        if (weightField < 0) {
+            return first(table, test);
+        }
+        return first(table, r -> !Weights.isZero(r.isNullAt(weightField) ? null : r.getString(weightField)) && test.test(r));
     }
 
     /** Fields of a malformed row for the message; a row with a broken quote counts up to its bad field. */

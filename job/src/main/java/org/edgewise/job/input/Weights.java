@@ -60,6 +60,11 @@ final class Weights {
         }
     }
 
+    /** True when {@code text} is a good weight of 0 (a line that stands for no row). */
+    static boolean isZero(String text) {
+        return problem(text) == null && new BigDecimal(text.trim()).signum() == 0;
+    }
+
     /**
      * Why a weight's text is bad, for the refusal ({@code missing weight}, {@code '2.5' is not a whole
      * number} …), or null when it is a good weight.
