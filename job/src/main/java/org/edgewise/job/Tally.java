@@ -30,7 +30,7 @@ import org.edgewise.job.input.Table;
  * session (docs/cluster.md):
  * {@code spark._jvm.org.edgewise.job.Tally.of(df._jdf).maxParents(3).candidates(15).writeTo("/data/store")}.
  *
- * <p>Every column is a variable and its values are read as text, as for a Parquet input (numbers
+ * <p>Every column but a {@link #weight} column is a variable and its values are read as text, as for a Parquet input (numbers
  * ordered numerically, the rest lexicographically); the defaults are those of the command line
  * (d = 3, BDeu with ESS 1, missing values refused, at most 32 states, 256 MiB of counts per task).
  * Mistakes are {@link UserError}s (one line) named after the builder method ({@code columns: no column
