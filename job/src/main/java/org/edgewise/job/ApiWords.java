@@ -14,7 +14,7 @@ final class ApiWords {
     private static final Pattern MISSING = Pattern.compile("--missing (error|drop|state)\\b");
     private static final Pattern DISCRETIZE = Pattern.compile("--discretize (\\S+?)=(\\d+)");
     private static final Pattern EDGE = Pattern.compile("--(forbid|require) (\\S+?->\\S+?)(?=[:,;]?(\\s|$))");
-    private static final Pattern NAMED = Pattern.compile("--(exclude|discretize) ([^\\s:,;]+)(?=[:,;]?(\\s|$))");
+    private static final Pattern NAMED = Pattern.compile("--(exclude|discretize|weight) ([^\\s:,;]+)(?=[:,;]?(\\s|$))");
     private static final Pattern CANDIDATES = Pattern.compile("--candidates K\\b");
     private static final Pattern OPTION = Pattern.compile("--([a-z]+(?:-[a-z]+)*)");
 

@@ -30,7 +30,7 @@ import org.edgewise.job.input.Table;
  * session (docs/cluster.md):
  * {@code spark._jvm.org.edgewise.job.Tally.of(df._jdf).maxParents(3).candidates(15).writeTo("/data/store")}.
  *
- * <p>Every column is a variable and its values are read as text, as for a Parquet input (numbers
+ * <p>Every column but a {@link #weight} column is a variable and its values are read as text, as for a Parquet input (numbers
  * ordered numerically, the rest lexicographically); the defaults are those of the command line
  * (d = 3, BDeu with ESS 1, missing values refused, at most 32 states, 256 MiB of counts per task).
  * Mistakes are {@link UserError}s (one line) named after the builder method ({@code columns: no column
@@ -53,6 +53,7 @@ public final class Tally {
     private Integer partitions;
     private long memoryBudget = 256L << 20;
     private boolean overwrite;
+    private String weight;
 
     private Tally(Dataset<Row> data) {
         this.data = data;
@@ -165,6 +166,19 @@ public final class Tally {
         return this;
     }
 
+    /**
+     * A table of counts: column {@code column} holds the number of rows each row stands for (a whole
+     * number, 0 or more); the store is that of the table expanded to one row per unit. The column
+     * is never a variable.
+     */
+    public Tally weight(String column) {
+        if (column == null || column.isBlank()) {
+            throw new UserError("weight: give a column name");
+        }
+        weight = column.trim();
+        return this;
+    }
+
     /** Replace an existing store at the output path (default: refuse). */
     public Tally overwrite(boolean yes) {
         overwrite = yes;
@@ -188,7 +202,7 @@ public final class Tally {
         }
         TallyOptions o = new TallyOptions(List.of(Table.DATASET), "dataset", ',', out, overwrite, maxParents,
                 columns, exclude, candidates, forbid, require, tiers, missing, maxStates, discretize, score, ess,
-                partitions, memoryBudget);
+                partitions, memoryBudget, java.nio.charset.StandardCharsets.UTF_8, weight);
         try {
             return TallyJob.run(Table.of(data), o);
         } catch (UserError e) { // the job words its refusals for the command line: name the builder methods

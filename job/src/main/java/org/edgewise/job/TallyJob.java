@@ -119,7 +119,7 @@ public final class TallyJob {
             Manifest m = Manifest.of("edgewise", Version.PROGRAM,
                     Instant.now().toString(),
                     new InputInfo(o.inputs(), table.format(), rows, scan.stats().dropped(),
-                            o.missing().label(), fingerprint),
+                            o.missing().label(), fingerprint, o.weight()),
                     variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
                     o.score().label(), o.ess());
             StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite(), "--overwrite");

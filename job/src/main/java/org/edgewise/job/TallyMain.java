@@ -67,6 +67,9 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'") String missing;
 
+    @Option(names = "--weight", paramLabel = "COL", description = "a table of counts: column COL holds the number of rows each line stands for "
+            + "(a whole number, 0 or more); counts, scores and fingerprint are those of the table expanded to one row per unit. COL is never a variable") String weight;
+
     @Option(names = "--max-states", defaultValue = "32", paramLabel = "N", description = "most states a variable may have, at most 255 (default ${DEFAULT-VALUE})") int maxStates;
 
     @Option(names = "--discretize", split = ",", paramLabel = "COL=k", description = "cut numeric column COL into k equal-frequency bins (repeatable)") List<String> discretize = new ArrayList<>();
@@ -234,7 +237,8 @@ public final class TallyMain implements Callable<Integer> {
                 : inputs.stream().allMatch(i -> i.toLowerCase(Locale.ROOT).matches(".*\\.tsv(\\.gz|\\.bz2)?")) ? '\t' : ',';
         return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
-                tierList, policy, maxStates, bins, kind, ess, partitions, budget, charset);
+                tierList, policy, maxStates, bins, kind, ess, partitions, budget, charset,
+                weight == null ? null : weight.trim());
     }
 
     static char delimiterChar(String d) {

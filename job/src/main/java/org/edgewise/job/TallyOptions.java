@@ -24,13 +24,15 @@ import org.edgewise.driver.store.EdgeRule;
  * @param partitions   repartition the input into this many partitions (null: as read)
  * @param memoryBudget per-task budget for the count arrays, bytes
  * @param encoding     character encoding of CSV input (invalid bytes are refused, never replaced)
+ * @param weight       the column holding the number of rows each line stands for (a table of
+ *                     counts), never a variable; null when every line is one row
  */
 public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                            int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                            List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
                            MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
                            ScoreKind score, double ess, Integer partitions, long memoryBudget,
-                           java.nio.charset.Charset encoding) {
+                           java.nio.charset.Charset encoding, String weight) {
 
     /** What to do with an empty field. */
     public enum MissingPolicy {
@@ -54,7 +56,18 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                         ScoreKind score, double ess, Integer partitions, long memoryBudget) {
         this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
                 missing, maxStates, discretize, score, ess, partitions, memoryBudget,
-                java.nio.charset.StandardCharsets.UTF_8);
+                java.nio.charset.StandardCharsets.UTF_8, null);
+    }
+
+    /** One row per line (no weight column). */
+    public TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
+                        int maxParents, List<String> columns, List<String> exclude, Integer candidates,
+                        List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
+                        MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
+                        ScoreKind score, double ess, Integer partitions, long memoryBudget,
+                        java.nio.charset.Charset encoding) {
+        this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, null);
     }
 
     public TallyOptions {

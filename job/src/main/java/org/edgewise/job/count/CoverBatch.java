@@ -16,8 +16,14 @@ import org.edgewise.job.input.Block;
  * all but their last variable: they form a group whose prefix index is computed once per block
  * and reused ({@code pre[t]·r_last + s_last}).
  *
+ * <p>A block of a table of counts ({@link Block#weights()}) is counted by the weighted kernel,
+ * which adds each row's weight (a long) where the plain kernel adds 1, straight into the long
+ * array; the job refuses weights whose sum passes {@link Long#MAX_VALUE}, so no partial sum of
+ * these non-negative weights can overflow.
+ *
  * <p>Memory per task: 4 bytes per cell (int counts) while counting and 8 bytes per cell for the
- * long array handed to the reduce, plus one int per block row for the prefix index.
+ * long array handed to the reduce (the weighted kernel's only array), plus one int per block row
+ * for the prefix index.
  */
 public final class CoverBatch implements Serializable {
     private static final long serialVersionUID = 1L;
@@ -95,6 +101,10 @@ public final class CoverBatch implements Serializable {
         long sinceFold = 0;
         while (blocks.hasNext()) {
             Block b = blocks.next();
+            if (b.weights() != null) {
+                countWeighted(b, total, pre);
+                continue;
+            }
             if (sinceFold + b.rows() > Integer.MAX_VALUE) {
                 fold(counts, total);
                 sinceFold = 0;
@@ -113,27 +123,32 @@ public final class CoverBatch implements Serializable {
         }
     }
 
+    /** Writes the mixed-radix index of group g's prefix variables for each of the block's n rows into pre. */
+    private void prefix(int g, byte[][] cols, int n, int[] pre) {
+        int[] prefix = groupPrefix[g];
+        if (prefix.length == 0) {
+            Arrays.fill(pre, 0, n, 0);
+            return;
+        }
+        byte[] c0 = cols[prefix[0]];
+        for (int t = 0; t < n; t++) {
+            pre[t] = c0[t] & 0xFF;
+        }
+        for (int k = 1; k < prefix.length; k++) {
+            byte[] ck = cols[prefix[k]];
+            int r = arity[prefix[k]];
+            for (int t = 0; t < n; t++) {
+                pre[t] = pre[t] * r + (ck[t] & 0xFF);
+            }
+        }
+    }
+
     /** The kernel: for each group, the prefix index of every row once, then one increment per row per member. */
     void countBlock(Block b, int[] counts, int[] pre) {
         int n = b.rows();
         byte[][] cols = b.cols();
         for (int g = 0; g < groupPrefix.length; g++) {
-            int[] prefix = groupPrefix[g];
-            if (prefix.length == 0) {
-                Arrays.fill(pre, 0, n, 0);
-            } else {
-                byte[] c0 = cols[prefix[0]];
-                for (int t = 0; t < n; t++) {
-                    pre[t] = c0[t] & 0xFF;
-                }
-                for (int k = 1; k < prefix.length; k++) {
-                    byte[] ck = cols[prefix[k]];
-                    int r = arity[prefix[k]];
-                    for (int t = 0; t < n; t++) {
-                        pre[t] = pre[t] * r + (ck[t] & 0xFF);
-                    }
-                }
-            }
+            prefix(g, cols, n, pre);
             int[] ms = groupMembers[g];
             int i = 0;
             // members two at a time: one load of the prefix index feeds two independent increment
@@ -161,6 +176,47 @@ public final class CoverBatch implements Serializable {
                 int off = offset[ms[i]];
                 for (int t = 0; t < n; t++) {
                     counts[off + pre[t] * r + (cl[t] & 0xFF)]++;
+                }
+            }
+        }
+    }
+
+    /**
+     * The weighted kernel (a table of counts): as {@link #countBlock}, adding each row's weight into
+     * the long counts instead of 1 into the int counts.
+     */
+    void countWeighted(Block b, long[] counts, int[] pre) {
+        int n = b.rows();
+        byte[][] cols = b.cols();
+        long[] w = b.weights();
+        for (int g = 0; g < groupPrefix.length; g++) {
+            prefix(g, cols, n, pre);
+            int[] ms = groupMembers[g];
+            int i = 0;
+            for (; i + 1 < ms.length; i += 2) {
+                int[] s1 = sets[ms[i]];
+                int[] s2 = sets[ms[i + 1]];
+                byte[] l1 = cols[s1[s1.length - 1]];
+                byte[] l2 = cols[s2[s2.length - 1]];
+                int r1 = arity[s1[s1.length - 1]];
+                int r2 = arity[s2[s2.length - 1]];
+                int o1 = offset[ms[i]];
+                int o2 = offset[ms[i + 1]];
+                for (int t = 0; t < n; t++) {
+                    int p = pre[t];
+                    long wt = w[t];
+                    counts[o1 + p * r1 + (l1[t] & 0xFF)] += wt;
+                    counts[o2 + p * r2 + (l2[t] & 0xFF)] += wt;
+                }
+            }
+            if (i < ms.length) {
+                int[] set = sets[ms[i]];
+                int last = set[set.length - 1];
+                byte[] cl = cols[last];
+                int r = arity[last];
+                int off = offset[ms[i]];
+                for (int t = 0; t < n; t++) {
+                    counts[off + pre[t] * r + (cl[t] & 0xFF)] += w[t];
                 }
             }
         }

@@ -7,7 +7,11 @@ import java.io.Serializable;
  * variable v in row t, as an unsigned byte (so at most 256 states). Column-major so that a
  * counting kernel streams over only the columns of the variable set it counts.
  *
- * <p>Memory: one byte per cell, {@code rows × variables} bytes plus an array header per column.
+ * <p>A block of a table of counts also holds each row's weight w ≥ 1 (the number of rows the
+ * line stands for); the counting kernels add w where they would add 1.
+ *
+ * <p>Memory: one byte per cell, {@code rows × variables} bytes plus an array header per column,
+ * and eight bytes per row for the weights of a table of counts.
  */
 public final class Block implements Serializable {
     private static final long serialVersionUID = 1L;
@@ -16,10 +20,22 @@ public final class Block implements Serializable {
 
     private final int rows;
     private final byte[][] cols;
+    private final long[] weights;
 
     public Block(int rows, byte[][] cols) {
+        this(rows, cols, null);
+    }
+
+    /** @param weights rows each row stands for (each ≥ 1), or null for one each */
+    public Block(int rows, byte[][] cols, long[] weights) {
         this.rows = rows;
         this.cols = cols;
+        this.weights = weights;
+    }
+
+    /** The weights (shared, read-only), or null when every row is one row. */
+    public long[] weights() {
+        return weights;
     }
 
     public int rows() {
@@ -34,8 +50,14 @@ public final class Block implements Serializable {
     /**
      * Fingerprint contribution {rows, Σ h, ⊕ h} with h a 64-bit mix of each encoded row; summing
      * and xor-ing make it independent of row order and partitioning.
+     *
+     * <p>A row of weight w stands for w equal rows, so it adds what those w rows would: w to the
+     * row count, w·h to the sum (mod 2^64, as w additions of h would wrap) and h to the xor once
+     * when w is odd (h ⊕ h = 0). The fingerprint of a table of counts is therefore exactly that of
+     * its expansion to one row per unit, with no expansion.
      */
     public long[] fingerprint() {
+        long units = 0;
         long sum = 0;
         long xor = 0;
         for (int t = 0; t < rows; t++) {
@@ -44,10 +66,12 @@ public final class Block implements Serializable {
                 h = (h ^ (c[t] & 0xFF)) * 0x100000001B3L;
             }
             h = mix(h);
-            sum += h;
-            xor ^= h;
+            long w = weights == null ? 1 : weights[t];
+            units += w;
+            sum += w * h;
+            xor ^= (w & 1) != 0 ? h : 0;
         }
-        return new long[] {rows, sum, xor};
+        return new long[] {units, sum, xor};
     }
 
     /** The splitmix64 finaliser (Steele, Lea &amp; Flood 2014). */

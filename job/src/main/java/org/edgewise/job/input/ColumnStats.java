@@ -30,6 +30,8 @@ public final class ColumnStats implements Serializable {
     final int cap;
     final boolean dropMissing;
     final int corruptField;
+    /** Field of the weight column of a table of counts, or −1 (one row per line). */
+    final int weightField;
     /** value → block-local code (UTF-8 bytes as Spark holds them: no String decoding per row). */
     final HashMap<UTF8String, Integer>[] codes;
     final boolean[] overflow;
@@ -38,9 +40,17 @@ public final class ColumnStats implements Serializable {
     final boolean[] numeric;
     final double[] min;
     final double[] max;
+    /** Rows read: with a weight column, the sum of the weights (malformed lines count one). */
     long rows;
     long malformed;
+    /** Rows dropped for missing values (with a weight column, the sum of their weights). */
     long dropped;
+    /** Lines whose weight is bad (blank, negative, a fraction, not a number, too large). */
+    long badWeights;
+    /** Lines of weight 0: read as if they were not there. */
+    long zeroWeights;
+    /** The weights add up to more than {@link Long#MAX_VALUE}. */
+    boolean weightOverflow;
 
     /**
      * @param fields       row field index of each selected column
@@ -49,9 +59,15 @@ public final class ColumnStats implements Serializable {
      * @param dropMissing  rows with a missing selected value are dropped (and not counted in the states)
      * @param corruptField field holding the malformed-row text, or −1
      */
-    @SuppressWarnings("unchecked")
     public ColumnStats(int[] fields, boolean[] binned, int cap, boolean dropMissing, int corruptField) {
+        this(fields, binned, cap, dropMissing, corruptField, -1);
+    }
+
+    /** As above, for a table of counts whose weight column is row field {@code weightField} (−1: none). */
+    @SuppressWarnings("unchecked")
+    public ColumnStats(int[] fields, boolean[] binned, int cap, boolean dropMissing, int corruptField, int weightField) {
         int n = fields.length;
+        this.weightField = weightField;
         this.fields = fields.clone();
         this.binned = binned.clone();
         this.cap = cap;
@@ -73,26 +89,45 @@ public final class ColumnStats implements Serializable {
 
     /** A fresh, empty instance with the same settings. */
     ColumnStats empty() {
-        return new ColumnStats(fields, binned, cap, dropMissing, corruptField);
+        return new ColumnStats(fields, binned, cap, dropMissing, corruptField, weightField);
     }
 
     /**
      * Adds one row and writes its block-local codes (categorical columns, {@link #MISSING_CODE} for
      * missing) or values (discretised columns, NaN for missing or not a number) into slot t.
      *
-     * @return false when the row is malformed or dropped (slot t not used)
+     * With a weight column the row stands for w rows: it adds w to the rows, dropped and missing
+     * counts (saturating: {@link #weightOverflow} records a sum past {@link Long#MAX_VALUE}) and its
+     * weight into {@code weights[t]}; a line of weight 0 is skipped as if it were not there (its
+     * values make no state), a line with a bad weight is skipped and counted for the refusal.
+     *
+     * @return false when the row is malformed, dropped, of weight 0 or of a bad weight (slot t not used)
      */
-    boolean add(InternalRow r, byte[][] out, double[][] values, int t) {
-        rows++;
+    boolean add(InternalRow r, byte[][] out, double[][] values, long[] weights, int t) {
         if (corruptField >= 0 && !r.isNullAt(corruptField)) {
+            rows++;
             malformed++;
             return false;
         }
+        long w = 1;
+        if (weightField >= 0) {
+            w = Weights.parse(r, weightField);
+            if (w == Weights.BAD) {
+                badWeights++;
+                return false;
+            }
+            if (w == 0) {
+                zeroWeights++;
+                return false;
+            }
+            weights[t] = w;
+        }
+        rows = plus(rows, w);
         int n = fields.length;
         if (dropMissing) {
             for (int i = 0; i < n; i++) {
                 if (isMissing(r, fields[i])) {
-                    dropped++;
+                    dropped = plus(dropped, w);
                     return false;
                 }
             }
@@ -100,7 +135,7 @@ public final class ColumnStats implements Serializable {
         for (int i = 0; i < n; i++) {
             UTF8String v = r.isNullAt(fields[i]) ? null : trim(r.getUTF8String(fields[i]));
             if (v == null || v.numBytes() == 0) {
-                missing[i]++;
+                missing[i] = plus(missing[i], w);
                 if (binned[i]) {
                     values[i][t] = Double.NaN;
                 } else {
@@ -134,6 +169,15 @@ public final class ColumnStats implements Serializable {
             }
         }
         return true;
+    }
+
+    /** a + b for non-negative counts, saturating at {@link Long#MAX_VALUE} (and noting it). */
+    private long plus(long a, long b) {
+        if (a > Long.MAX_VALUE - b) {
+            weightOverflow = true;
+            return Long.MAX_VALUE;
+        }
+        return a + b;
     }
 
     private void setOverflow(int i) {
@@ -201,11 +245,14 @@ public final class ColumnStats implements Serializable {
 
     /** Merges {@code o} into this (codes are renumbered: only the distinct values matter) and returns this. */
     public ColumnStats merge(ColumnStats o) {
-        rows += o.rows;
+        rows = plus(rows, o.rows);
         malformed += o.malformed;
-        dropped += o.dropped;
+        dropped = plus(dropped, o.dropped);
+        badWeights += o.badWeights;
+        zeroWeights += o.zeroWeights;
+        weightOverflow |= o.weightOverflow;
         for (int i = 0; i < fields.length; i++) {
-            missing[i] += o.missing[i];
+            missing[i] = plus(missing[i], o.missing[i]);
             min[i] = Math.min(min[i], o.min[i]);
             max[i] = Math.max(max[i], o.max[i]);
             if (binned[i]) {
@@ -245,6 +292,21 @@ public final class ColumnStats implements Serializable {
 
     public long dropped() {
         return dropped;
+    }
+
+    /** Lines with a bad weight (table of counts). */
+    public long badWeights() {
+        return badWeights;
+    }
+
+    /** Lines of weight 0 (table of counts). */
+    public long zeroWeights() {
+        return zeroWeights;
+    }
+
+    /** True when the weights add up to more than {@link Long#MAX_VALUE} rows. */
+    public boolean weightOverflow() {
+        return weightOverflow;
     }
 
     public long missing(int i) {

@@ -90,7 +90,7 @@ public final class Encoding implements Serializable {
                 }
             }
         }
-        return new Block(rows, cols);
+        return new Block(rows, cols, raw.weights);
     }
 
     /** Number of edges ≤ x: bin k is [e_{k−1}, e_k). */

@@ -41,8 +41,9 @@ final class InputRefusals {
         List<String> header = table.columns();
         int n = names.size();
         int corrupt = table.corruptField();
+        int wf = o.weight() == null ? -1 : header.indexOf(o.weight());
 
-        if (stats.rows() == 0) {
+        if (stats.rows() == 0 && stats.badWeights() == 0 && stats.zeroWeights() == 0) {
             throw new UserError("input " + TableScan.inputs(table) + ": no data rows (only a header)");
         }
         if (stats.malformed() > 0) {
@@ -52,6 +53,9 @@ final class InputRefusals {
             throw new UserError("input " + InputFiles.display(bad.file()) + " line " + bad.line()
                     + ": " + got + (got == 1 ? " field" : " fields") + ", the header has " + header.size()
                     + " (" + stats.malformed() + " malformed " + (stats.malformed() == 1 ? "row" : "rows") + " in all)");
+        }
+        if (o.weight() != null) {
+            checkWeights(table, o.weight(), stats);
         }
         if (stats.rows() == stats.dropped()) {
             throw new UserError("input " + TableScan.inputs(table) + ": every row has a missing value; nothing is left to count"
@@ -63,7 +67,7 @@ final class InputRefusals {
                 total += stats.missing(v);
             }
             if (total > 0) {
-                BadRow bad = first(table, r -> {
+                BadRow bad = firstCounted(table, wf, r -> {
                     for (int f : fields) {
                         if (ColumnStats.isMissing(r, f)) {
                             return true;
@@ -89,7 +93,7 @@ final class InputRefusals {
                 if (stats.missing(v) + stats.dropped() >= stats.rows()) {
                     throw new UserError("--discretize " + names.get(v) + ": the column has no values");
                 }
-                BadRow bad = first(table,
+                BadRow bad = firstCounted(table, wf,
                         r -> !ColumnStats.isMissing(r, f) && Double.isNaN(ColumnStats.parse(r.getString(f))));
                 throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
                         + bad.line() + ", column '" + names.get(v) + "': '" + bad.row().getString(f)
@@ -104,13 +108,38 @@ final class InputRefusals {
         }
         for (int v = 0; v < n; v++) {
             if (table.isCsv() && !binned[v] && stats.distinct(v).stream().anyMatch(x -> x.indexOf('\uFFFD') >= 0)) {
-                throw notInEncoding(table, names.get(v), fields[v]);
+                throw notInEncoding(table, names.get(v), fields[v], wf);
             }
             if (o.missing() == MissingPolicy.STATE && stats.missing(v) > 0 && stats.distinct(v).contains(TableScan.MISSING_STATE)) {
                 throw new UserError("input " + TableScan.inputs(table) + ", column '" + names.get(v) + "': the value '" + TableScan.MISSING_STATE
                         + "' is also the label --missing state gives to empty fields; rename that value or choose"
                         + " --missing drop");
             }
+        }
+    }
+
+    /**
+     * A table of counts: the first bad weight (blank, negative, a fraction, not a number, too large)
+     * is refused naming its line; so are weights that add up to more rows than a long holds, and a
+     * table whose every weight is 0.
+     */
+    private static void checkWeights(Table table, String column, ColumnStats stats) {
+        int field = table.columns().indexOf(column);
+        if (stats.badWeights() > 0) {
+            BadRow bad = first(table, r -> Weights.problem(r.isNullAt(field) ? null : r.getString(field)) != null);
+            Row r = bad.row();
+            throw new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " " + bad.line()
+                    + ", column '" + column + "': " + Weights.problem(r.isNullAt(field) ? null : r.getString(field))
+                    + "; --weight " + column + " needs a whole number of rows (0 or more) on every " + table.unit()
+                    + " (" + stats.badWeights() + " bad " + (stats.badWeights() == 1 ? "weight" : "weights") + " in all)");
+        }
+        if (stats.weightOverflow()) {
+            throw new UserError("input " + TableScan.inputs(table) + ", column '" + column + "': the weights add up to more than "
+                    + Long.MAX_VALUE + " rows");
+        }
+        if (stats.rows() == 0) {
+            throw new UserError("input " + TableScan.inputs(table) + ", column '" + column + "': every weight is 0;"
+                    + " nothing is left to count");
         }
     }
 
@@ -136,8 +165,8 @@ final class InputRefusals {
      * Bytes that are not valid in the encoding arrive from Spark's CSV reader as U+FFFD, silently;
      * they are refused here, naming the first line that holds one.
      */
-    private static UserError notInEncoding(Table table, String name, int field) {
-        BadRow bad = first(table,
+    private static UserError notInEncoding(Table table, String name, int field, int weightField) {
+        BadRow bad = firstCounted(table, weightField,
                 r -> !r.isNullAt(field) && r.getString(field).indexOf('\uFFFD') >= 0);
         return new UserError("input " + InputFiles.display(bad.file()) + " " + table.unit() + " "
                 + bad.line() + ", column '" + name + "': bytes that are not valid "
@@ -154,6 +183,17 @@ final class InputRefusals {
             }
         }
         throw new IllegalStateException("a bad row was counted but not found again");
+    }
+
+    /**
+     * As {@link #first}, among the rows that are counted: with a weight column ({@code weightField} ≥ 0)
+     * a line of weight 0 stands for no row, so it is never the one a refusal names.
+     */
+    private static BadRow firstCounted(Table table, int weightField, RowTest test) {
+        if (weightField < 0) {
+            return first(table, test);
+        }
+        return first(table, r -> !Weights.isZero(r.isNullAt(weightField) ? null : r.getString(weightField)) && test.test(r));
     }
 
     /** Fields of a malformed row for the message; a row with a broken quote counts up to its bad field. */

@@ -11,7 +11,8 @@ import org.apache.spark.sql.catalyst.InternalRow;
  * holds the code of each value), discretised columns as doubles. {@link Encoding#encode} turns it
  * into a {@link Block} once the statistics of all blocks are merged — so the input is parsed once.
  *
- * <p>Memory: one byte per categorical cell, eight per discretised cell, plus at most
+ * <p>Memory: one byte per categorical cell, eight per discretised cell, eight per line for the
+ * weight of a table of counts, plus at most
  * {@code cap} strings per column for the local dictionary.
  */
 public final class RawBlock implements Serializable {
@@ -20,12 +21,15 @@ public final class RawBlock implements Serializable {
     final int rows;
     final byte[][] codes;
     final double[][] values;
+    /** Rows each line stands for (a table of counts), all ≥ 1; null when every line is one row. */
+    final long[] weights;
     final ColumnStats stats;
 
-    RawBlock(int rows, byte[][] codes, double[][] values, ColumnStats stats) {
+    RawBlock(int rows, byte[][] codes, double[][] values, long[] weights, ColumnStats stats) {
         this.rows = rows;
         this.codes = codes;
         this.values = values;
+        this.weights = weights;
         this.stats = stats;
     }
 
@@ -61,9 +65,10 @@ public final class RawBlock implements Serializable {
                         codes[v] = new byte[Block.ROWS];
                     }
                 }
+                long[] weights = template.weightField >= 0 ? new long[Block.ROWS] : null;
                 int t = 0;
                 while (t < Block.ROWS && rows.hasNext()) {
-                    if (st.add(rows.next(), codes, values, t)) {
+                    if (st.add(rows.next(), codes, values, weights, t)) {
                         t++;
                     }
                 }
@@ -75,7 +80,10 @@ public final class RawBlock implements Serializable {
                         values[v] = java.util.Arrays.copyOf(values[v], t);
                     }
                 }
-                return new RawBlock(t, codes, values, st);
+                if (weights != null && t < Block.ROWS) {
+                    weights = java.util.Arrays.copyOf(weights, t);
+                }
+                return new RawBlock(t, codes, values, weights, st);
             }
         };
     }

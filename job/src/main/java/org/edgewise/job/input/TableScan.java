@@ -56,9 +56,28 @@ public final class TableScan {
     private record Pass(JavaRDD<RawBlock> rawBlocks, ColumnStats stats) {
     }
 
-    /** The selected variables' names, in column order; unknown names in --columns/--exclude/--discretize refused. */
+    /**
+     * The selected variables' names, in column order; unknown names in --columns/--exclude/--discretize
+     * refused, and so are an unknown weight column and a weight column named as a variable.
+     */
     public static List<String> selected(Table table, TallyOptions o) {
         List<String> header = table.columns();
+        String w = o.weight();
+        if (w != null) {
+            if (!header.contains(w)) {
+                throw new UserError("--weight: no column '" + w + "' in " + inputs(table) + " (columns: "
+                        + String.join(", ", header) + ")");
+            }
+            String by = o.columns().contains(w) ? "--columns"
+                    : o.discretize().containsKey(w) ? "--discretize"
+                    : o.forbid().stream().anyMatch(e -> e.from().equals(w) || e.to().equals(w)) ? "--forbid"
+                    : o.require().stream().anyMatch(e -> e.from().equals(w) || e.to().equals(w)) ? "--require"
+                    : o.tiers().stream().anyMatch(t -> t.contains(w)) ? "--tiers" : null;
+            if (by != null) {
+                throw new UserError("--weight " + w + ": the weight column counts rows and is never a variable, but "
+                        + by + " names it");
+            }
+        }
         for (String c : o.columns()) {
             if (!header.contains(c)) {
                 throw new UserError("--columns: no column '" + c + "' in " + inputs(table) + " (columns: "
@@ -74,12 +93,12 @@ public final class TableScan {
         List<String> names = new ArrayList<>();
         for (int i = 0; i < header.size(); i++) {
             String c = header.get(i);
-            if ((o.columns().isEmpty() || o.columns().contains(c)) && !o.exclude().contains(c)) {
+            if ((o.columns().isEmpty() || o.columns().contains(c)) && !o.exclude().contains(c) && !c.equals(w)) {
                 names.add(c);
             }
         }
         if (names.isEmpty()) {
-            throw new UserError("no variables left after --columns/--exclude");
+            throw new UserError("no variables left after --columns/--exclude" + (w == null ? "" : "/--weight"));
         }
         for (String c : o.discretize().keySet()) {
             if (!names.contains(c)) {
@@ -132,7 +151,9 @@ public final class TableScan {
             raw = raw.map(InternalRow::copy).repartition(spread);
         }
         boolean drop = o.missing() == MissingPolicy.DROP;
-        ColumnStats template = new ColumnStats(fields, binned, Math.min(o.maxStates(), 255), drop, table.corruptField());
+        int weightField = o.weight() == null ? -1 : table.columns().indexOf(o.weight());
+        ColumnStats template = new ColumnStats(fields, binned, Math.min(o.maxStates(), 255), drop, table.corruptField(),
+                weightField);
         JavaRDD<RawBlock> rawBlocks = raw.mapPartitions(it -> RawBlock.read(it, template))
                 .persist(StorageLevel.MEMORY_AND_DISK_SER());
         try {

@@ -60,13 +60,21 @@ final class VariableStates {
         return states;
     }
 
-    /** Interior cut points of k equal-frequency bins (approximate quantiles), duplicates and ≤ min removed. */
+    /**
+     * Interior cut points of k equal-frequency bins (approximate quantiles), duplicates and ≤ min removed.
+     * A line of a table of counts gives its value once per row it stands for, so the quantiles are
+     * taken over exactly the values of the expanded table (this step's cost grows with the sum of
+     * the weights, not the number of lines).
+     */
     static List<Double> binEdges(Table table, JavaRDD<RawBlock> rawBlocks, int v, int k, double min) {
         double[] probs = new double[k - 1];
         for (int i = 1; i < k; i++) {
             probs[i - 1] = (double) i / k;
         }
         JavaRDD<Double> xs = rawBlocks.flatMap(b -> {
+            if (b.weights != null) {
+                return repeated(b.values[v], b.weights);
+            }
             List<Double> out = new ArrayList<>(b.rows);
             for (int t = 0; t < b.rows; t++) {
                 double x = b.values[v][t];
@@ -85,6 +93,32 @@ final class VariableStates {
             }
         }
         return edges;
+    }
+
+    /** Each non-missing x[t], w[t] times, lazily (a weight may be far larger than memory). */
+    private static java.util.Iterator<Double> repeated(double[] x, long[] w) {
+        return new java.util.Iterator<>() {
+            int t = -1;
+            long left;
+
+            @Override
+            public boolean hasNext() {
+                while (left == 0 && t + 1 < x.length) {
+                    t++;
+                    left = Double.isNaN(x[t]) ? 0 : w[t];
+                }
+                return left > 0;
+            }
+
+            @Override
+            public Double next() {
+                if (!hasNext()) {
+                    throw new java.util.NoSuchElementException();
+                }
+                left--;
+                return x[t];
+            }
+        };
     }
 
     /** Labels [lo,hi) of the bins, the last closed at the maximum: [min,e1), [e1,e2), …, [e_m,max]. */
