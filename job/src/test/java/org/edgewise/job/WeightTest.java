@@ -273,51 +273,51 @@ class WeightTest {
     @Test
     void badWeightsAreRefusedWithTheirLine() throws IOException {
         Path frac = TestTables.write(dir.resolve("frac.csv"), "a,n,b\nx,2,u\ny,2.5,v\ny,1.5,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + frac + " line 3, column 'n': '2.5' is not a whole number;"
+        TestTables.assertRefused(refusals(), "tally: input " + frac + " line 3, column 'n': '2.5' is not a whole number;"
                 + " --weight n needs a whole number of rows (0 or more) on every line (2 bad weights in all)", frac,
                 "--weight", "n");
         Path neg = TestTables.write(dir.resolve("neg.csv"), "a,n,b\nx,2,u\ny,3,v\nx,-1,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + neg + " line 4, column 'n': '-1' is negative;"
+        TestTables.assertRefused(refusals(), "tally: input " + neg + " line 4, column 'n': '-1' is negative;"
                 + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", neg,
                 "--weight", "n");
         Path blank = TestTables.write(dir.resolve("blank.csv"), "a,n,b\nx,2,u\ny, ,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + blank + " line 3, column 'n': missing weight;"
+        TestTables.assertRefused(refusals(), "tally: input " + blank + " line 3, column 'n': missing weight;"
                 + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", blank,
                 "--weight", "n", "--missing", "drop");
         Path word = TestTables.write(dir.resolve("word.csv"), "a,n,b\nx,two,u\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + word + " line 2, column 'n': 'two' is not a whole number;"
+        TestTables.assertRefused(refusals(), "tally: input " + word + " line 2, column 'n': 'two' is not a whole number;"
                 + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", word,
                 "--weight", "n");
         Path big = TestTables.write(dir.resolve("big.csv"), "a,n,b\nx,99999999999999999999,u\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + big + " line 2, column 'n': '99999999999999999999' is more"
+        TestTables.assertRefused(refusals(), "tally: input " + big + " line 2, column 'n': '99999999999999999999' is more"
                 + " than 9223372036854775807; --weight n needs a whole number of rows (0 or more) on every line"
                 + " (1 bad weight in all)", big, "--weight", "n");
         Path sum = TestTables.write(dir.resolve("sum.csv"), "a,n,b\nx,9223372036854775807,u\ny,1,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + sum + ", column 'n': the weights add up to more than"
+        TestTables.assertRefused(refusals(), "tally: input " + sum + ", column 'n': the weights add up to more than"
                 + " 9223372036854775807 rows", sum, "--weight", "n");
         // a line of weight 0 stands for no row: its empty field is no missing value, and a refusal names a counted line
         Path gap = TestTables.write(dir.resolve("gap.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + gap + " line 4, column 'b': missing value"
+        TestTables.assertRefused(refusals(), "tally: input " + gap + " line 4, column 'b': missing value"
                 + " (1 missing value in all); choose --missing drop or --missing state", gap, "--weight", "n");
         Path gapOnly = TestTables.write(dir.resolve("gap-only.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,v\n");
         assertEquals(3, TestTables.read(tally(gapOnly, "--weight", "n")).manifest().input().rows());
         Path zero = TestTables.write(dir.resolve("zero.csv"), "a,n,b\nx,0,u\ny,0,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: input " + zero + ", column 'n': every weight is 0; nothing is left"
+        TestTables.assertRefused(refusals(), "tally: input " + zero + ", column 'n': every weight is 0; nothing is left"
                 + " to count", zero, "--weight", "n");
     }
 
     @Test
     void weightColumnUnknownOrAlsoAVariableIsRefused() throws IOException {
         Path f = TestTables.write(dir.resolve("names.csv"), "a,n,b\nx,2,u\ny,3,v\n");
-        TestTables.assertRefused(spark, refusals(), "tally: --weight: no column 'm' in " + f + " (columns: a, n, b)", f,
+        TestTables.assertRefused(refusals(), "tally: --weight: no column 'm' in " + f + " (columns: a, n, b)", f,
                 "--weight", "m");
-        TestTables.assertRefused(spark, refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
+        TestTables.assertRefused(refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
                 + " but --columns names it", f, "--weight", "n", "--columns", "a,n");
-        TestTables.assertRefused(spark, refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
+        TestTables.assertRefused(refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
                 + " but --forbid names it", f, "--weight", "n", "--forbid", "n->a");
-        TestTables.assertRefused(spark, refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
+        TestTables.assertRefused(refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
                 + " but --tiers names it", f, "--weight", "n", "--tiers", "a;n,b");
-        TestTables.assertRefused(spark, refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
+        TestTables.assertRefused(refusals(), "tally: --weight n: the weight column counts rows and is never a variable,"
                 + " but --discretize names it", f, "--weight", "n", "--discretize", "n=2");
     }
 }
