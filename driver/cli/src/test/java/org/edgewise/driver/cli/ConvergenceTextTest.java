@@ -20,12 +20,8 @@ class ConvergenceTextTest {
                 0.01, converged ? 0.0081 : 0.0173, 512.0, stop, 300, 120, 0, 0.005, worst, 1250, 0.1, 6, 1.2, 2.4, null, null);
     }
 
-    @Test
-    void anUnconvergedRunSaysWhyAndWhatToDo() {
-        EdgeResult.Diagnostics d = diagnostics(false, "max-time",
-                List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"),
-                        new EdgeResult.Worst("edge v3 -> v4", null, null, 0.25, null, "stuck")));
-        assertEquals("""
+    /** The lines every unconverged run's block starts with (the same run stopped by its time budget). */
+    static final String UNCONVERGED_HEAD = """
 
                 Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
                   verdict   NOT converged: do not use these posteriors yet
@@ -33,6 +29,14 @@ class ConvergenceTextTest {
                   targets   R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior
                   reached   largest R-hat 1.0071, smallest bulk effective sample size 644, largest MCSE 0.0173
                   worst     edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173
+                """;
+
+    @Test
+    void anUnconvergedRunSaysWhyAndWhatToDo() {
+        EdgeResult.Diagnostics d = diagnostics(false, "max-time",
+                List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"),
+                        new EdgeResult.Worst("edge v3 -> v4", null, null, 0.25, null, "stuck")));
+        assertEquals(UNCONVERGED_HEAD + """
                             edge v3 -> v4: R-hat inf, bulk eff. n -, MCSE 0.2500 (stuck: each chain keeps its own value)
                   next      Run longer: raise the time budget (--max-time).
                             A stuck quantity means the chains sit in different modes, which running longer may not cure: try more chains (--chains) or, where the number of variables allows, the exact method (--method exact).
@@ -49,14 +53,7 @@ class ConvergenceTextTest {
     @Test
     void onlyTheMcseMissingAndAReportedFigureMissing() {
         List<EdgeResult.Worst> noisy = List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"));
-        assertEquals("""
-
-                Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
-                  verdict   NOT converged: do not use these posteriors yet
-                  stopped   the time budget ran out before every target was met (max-time)
-                  targets   R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior
-                  reached   largest R-hat 1.0071, smallest bulk effective sample size 644, largest MCSE 0.0173
-                  worst     edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173
+        assertEquals(UNCONVERGED_HEAD + """
                   next      Run longer: raise the time budget (--max-time); the chains agree, only the Monte Carlo error is still above its target.
                             Or accept a larger Monte Carlo error with a larger MCSE target (--mcse-target): two runs then rarely differ on an edge by more than about 3.5 x that target.
                             Until then, treat every posterior of this result as unreliable.

@@ -43,9 +43,14 @@ class UnknownOrderPredictTest {
         CliRun.store(store, rows, AR, 2);
     }
 
-    private double exactLogEvidence(int[][] table) {
+    /** The local scores of {@code table} tallied afresh (the reference side of every check here). */
+    private static LocalScores recount(int[][] table) {
         ScoreStore s = InMemoryTally.tally(HeldOutData.variables(AR), table, 2, FamilyScore.withDefaults());
-        return ExactOrderSum.run(LocalScores.build(s, ScoringOptions.asStored()), OrderConstraints.none(AR.length)).logEvidence();
+        return LocalScores.build(s, ScoringOptions.asStored());
+    }
+
+    private double exactLogEvidence(int[][] table) {
+        return ExactOrderSum.run(recount(table), OrderConstraints.none(AR.length)).logEvidence();
     }
 
     @Test
@@ -74,8 +79,7 @@ class UnknownOrderPredictTest {
     }
 
     private double structureLogDagSum(int[][] table) {
-        ScoreStore s = InMemoryTally.tally(HeldOutData.variables(AR), table, 2, FamilyScore.withDefaults());
-        return StructureSum.run(LocalScores.build(s, ScoringOptions.asStored()), OrderConstraints.none(AR.length)).logDagSum();
+        return StructureSum.run(recount(table), OrderConstraints.none(AR.length)).logDagSum();
     }
 
     /**
