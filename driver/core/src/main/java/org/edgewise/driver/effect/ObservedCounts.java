@@ -37,7 +37,7 @@ public final class ObservedCounts {
      * The counts of {@code target} among the rows with {@code condition} (both state vectors over the
      * store's variables, {@link CaseParser#HIDDEN} where left out), or null when no stored family
      * contains their variables. Prefers the smallest such family (the fewest rows dropped for
-     * missing values elsewhere).
+     * missing values elsewhere), then one whose child is in the target (it reads as y &lt;- x).
      */
     public static Count of(ScoreStore store, int[] target, int[] condition) {
         int n = store.variableCount();
@@ -53,7 +53,10 @@ public final class ObservedCounts {
             for (int p : fc.parents()) {
                 has |= 1L << p;
             }
-            if ((has & need) == need && (best == null || fc.parents().length < best.parents().length)) {
+            boolean better = best == null || fc.parents().length < best.parents().length
+                    || fc.parents().length == best.parents().length && target[fc.child()] != CaseParser.HIDDEN
+                    && target[best.child()] == CaseParser.HIDDEN;
+            if ((has & need) == need && better) {
                 best = fc;
             }
         }
