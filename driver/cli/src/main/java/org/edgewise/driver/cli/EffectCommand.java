@@ -25,7 +25,8 @@ import picocli.CommandLine.Model.CommandSpec;
 /** {@code effect}: P(target | do(x = a), D) averaged over structures and parameters, with the cautions. */
 @Command(name = "effect", mixinStandardHelpOptions = true,
         description = {"P(target | do(x = a), D): what setting variables would do, averaged over structures (given order, or unknown orders with --method exact|mcmc) and parameters.",
-                "Prints the probability, the reference intervention (--versus) and the difference, the probability of no effect, a 95%% credible interval, the observational P(target | x = a) beside it, and the assumptions."})
+                "Prints the probability, the reference intervention (--versus) with the risk difference, risk ratio and odds ratio (each with a 95%% credible interval), the probability of no effect, the model's conditional P(target | x = a) and the raw frequencies from the counts beside it, and the assumptions.",
+                "A case-control sample (--design case-control --outcome y): only the odds ratio for effects on y, unless --prevalence gives y's population prevalence."})
 public final class EffectCommand implements Callable<Integer> {
     @Spec
     CommandSpec spec;
@@ -52,6 +53,17 @@ public final class EffectCommand implements Callable<Integer> {
     @Option(names = "--max-hidden-states", paramLabel = "N", defaultValue = "1000000",
             description = "refuse when the hidden ancestors of the target need more joint states than this (default ${DEFAULT-VALUE})") long maxHiddenStates;
 
+    @Option(names = "--measure", paramLabel = "risk-difference|risk-ratio|odds-ratio",
+            description = "the measure the text leads with when --versus is given (default risk-difference; odds-ratio under --design case-control without --prevalence)") String measure;
+
+    @Option(names = "--design", paramLabel = "case-control",
+            description = "the sample was drawn on the outcome (--outcome): effects on it are reported as odds ratios only, unless --prevalence") String design;
+
+    @Option(names = "--outcome", paramLabel = "y", description = "with --design case-control: the variable the cases and controls were sampled on") String outcome;
+
+    @Option(names = "--prevalence", paramLabel = "y=state:p",
+            description = "with --design case-control: the outcome's population prevalence (y=p for a binary outcome: of the target's state); re-weights cases by p/p^ and controls by (1-p)/(1-p^)") String prevalence;
+
     @Mixin
     OutputOptions output = new OutputOptions();
 
@@ -73,6 +85,20 @@ public final class EffectCommand implements Callable<Integer> {
             throw new UserError("--questions excludes --do, --target, --given and --versus: put them in the file's columns");
         }
         Checks.atMost(effectDraws, Checks.MAX_EFFECT_DRAWS, "--effect-draws", "each draw is kept in memory");
+        EffectAnalysis.CaseControl cc = caseControl();
+        String lead = measure == null ? null : measure.toLowerCase(Locale.ROOT);
+        if (lead != null) {
+            if (!EffectAnalysis.MEASURE_WORDS.contains(lead)) {
+                throw new UserError("--measure must be risk-difference, risk-ratio or odds-ratio, got '" + measure + "'");
+            }
+            if (questionsFile == null && versusText == null) {
+                throw new UserError("--measure picks among the measures that compare two interventions: give --versus x=a0");
+            }
+            if (cc != null && prevalence == null && !lead.equals("odds-ratio")) {
+                throw new UserError("--measure " + lead + " needs --prevalence under --design case-control: risks are not estimable "
+                        + "from a sample drawn on " + outcome + " (give --prevalence " + outcome + "=p, or --measure odds-ratio)");
+            }
+        }
         Scoring scoring = averaging.scoring();
         Averaging what = averaging.averaging("effect", false, true);
         // a fixed run's length is set; the target would only judge a verdict, and effect's verdict is R-hat's alone
@@ -81,7 +107,8 @@ public final class EffectCommand implements Callable<Integer> {
         List<EffectAnalysis.Question> qs = questionsFile == null
                 ? List.of(new EffectAnalysis.Question(doText, targetText, givenText, versusText, ""))
                 : EffectQuestions.read(questionsFile, "--questions");
-        List<EffectResult> rs = EffectAnalysis.run(scoring, what, qs, effectDraws, maxHiddenStates, ProgressBars.onTerminal());
+        List<EffectResult> rs = EffectAnalysis.run(scoring, what, qs, effectDraws, maxHiddenStates, cc, lead,
+                ProgressBars.onTerminal());
         for (EffectResult r : rs) {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
@@ -105,32 +132,137 @@ public final class EffectCommand implements Callable<Integer> {
             for (EffectResult r : rs) {
                 table(w, r);
             }
-            w.println("Assumptions: " + String.join("; ", EffectAnalysis.ASSUMPTIONS) + ".");
+            w.println("Assumptions: " + String.join("; ", rs.get(0).assumptions()) + ".");
             w.println(EffectAnalysis.NOTE);
         }
         w.flush();
         return 0;
     }
 
+    /** The design from --design, --outcome and --prevalence, or null; refuses a partial one. */
+    private EffectAnalysis.CaseControl caseControl() {
+        if (design == null) {
+            if (outcome != null) {
+                throw new UserError("--outcome names the variable a case-control sample was drawn on: give --design case-control");
+            }
+            if (prevalence != null) {
+                throw new UserError("--prevalence re-weights a case-control sample: give --design case-control --outcome y");
+            }
+            return null;
+        }
+        if (!design.equals("case-control")) {
+            throw new UserError("--design must be case-control (a sample drawn on the outcome), got '" + design + "'");
+        }
+        if (outcome == null) {
+            throw new UserError("--design case-control needs --outcome y: the variable the cases and controls were sampled on");
+        }
+        return new EffectAnalysis.CaseControl(outcome, prevalence, "--outcome", "--prevalence");
+    }
+
     private static void table(PrintWriter w, EffectResult r) {
         String y = text(r.target()) + (r.given() == null ? "" : " | " + text(r.given()));
         String sep = r.given() == null ? " | " : ", ";
-        w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (%s%s; method %s, %s)%n", y, sep, text(r.intervention()), r.probability(),
-                r.estimate(), r.estimate().equals("exact") ? "" : String.format(Locale.ROOT, ", MCSE %.2g", r.mcse()),
+        String how = String.format(Locale.ROOT, "%s%s; method %s, %s", r.estimate(),
+                r.estimate().equals("exact") || r.probability() == null ? "" : String.format(Locale.ROOT, ", MCSE %.2g", r.mcse()),
                 r.method(), r.dagPrior() == null ? "given order" : r.dagPrior() + " DAG prior");
-        if (r.versus() != null) {
-            w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f%n", y, sep, text(r.versus().intervention()), r.versus().probability());
-            w.printf(Locale.ROOT, "difference %.4f, ratio %.4f; %.0f%% credible interval of the difference [%.4f, %.4f]%n",
-                    r.difference(), r.ratio(), 100 * r.interval().level(), r.interval().lower(), r.interval().upper());
-            w.printf(Locale.ROOT, "observational (conditioning, not setting): P(%s | %s) - P(%s | %s) = %.4f%n", y,
-                    text(r.intervention()), y, text(r.versus().intervention()), r.observational().difference());
+        if (r.probability() != null) {
+            w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (model; %s)%n", y, sep, text(r.intervention()), r.probability(), how);
+            if (r.versus() != null) {
+                w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f%n", y, sep, text(r.versus().intervention()), r.versus().probability());
+            }
         } else {
-            w.printf(Locale.ROOT, "%.0f%% credible interval [%.4f, %.4f]; observational P(%s | %s) = %.4f%n",
-                    100 * r.interval().level(), r.interval().lower(), r.interval().upper(), y, text(r.intervention()),
-                    r.observational().probability());
+            w.printf(Locale.ROOT, "effect of do(%s) versus do(%s) on %s  (model; %s)%n", text(r.intervention()),
+                    text(r.versus().intervention()), y, how);
         }
+        if (r.design() != null) {
+            w.println(r.design().note());
+        }
+        if (r.versus() != null) {
+            List<String[]> ms = new ArrayList<>();
+            ms.add(new String[] {"riskDifference", "risk difference"});
+            ms.add(new String[] {"riskRatio", "risk ratio"});
+            ms.add(new String[] {"oddsRatio", "odds ratio"});
+            ms.sort((a, b) -> Boolean.compare(!a[0].equals(r.leadingMeasure()), !b[0].equals(r.leadingMeasure())));
+            List<String> rest = new ArrayList<>();
+            for (String[] m : ms) {
+                EffectResult.Measure x = switch (m[0]) {
+                    case "riskDifference" -> r.riskDifference();
+                    case "riskRatio" -> r.riskRatio();
+                    default -> r.oddsRatio();
+                };
+                if (x == null) {
+                    continue;
+                }
+                String t = measureText(m[1], x);
+                if (m[0].equals(r.leadingMeasure())) {
+                    w.println(t);
+                } else {
+                    rest.add(t);
+                }
+            }
+            if (!rest.isEmpty()) {
+                w.println("  also: " + String.join("; ", rest));
+            }
+            if (r.measures() != null) {
+                w.println("  (" + r.measures() + ")");
+            }
+            if (r.observational().probability() != null) {
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n", y,
+                        text(r.intervention()), r.observational().probability(), y, text(r.versus().intervention()),
+                        r.observational().versusProbability());
+            }
+        } else {
+            w.printf(Locale.ROOT, "%.0f%% credible interval [%.4f, %.4f]%n", 100 * r.interval().level(), r.interval().lower(),
+                    r.interval().upper());
+            if (r.observational().probability() != null) {
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f%n", y,
+                        text(r.intervention()), r.observational().probability());
+            }
+        }
+        w.println(observedText(r, y));
         w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
                 String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+    }
+
+    static String measureText(String name, EffectResult.Measure x) {
+        String iv = String.format(Locale.ROOT, "%.0f%% credible interval [%s, %s]", 100 * x.interval().level(),
+                num(x.interval().lower()), num(x.interval().upper()));
+        if (x.noEffectProbability() != null) {
+            return String.format(Locale.ROOT, "%s: probability of no effect %.4f; given an effect, median %s, %s (model's overall %s)",
+                    name, x.noEffectProbability(), num(x.estimate()), iv, num(x.overallEstimate()));
+        }
+        return name + " " + num(x.estimate()) + (x.estimateOf().equals("model") ? "" : " (" + x.estimateOf() + ")") + ", " + iv;
+    }
+
+    private static String observedText(EffectResult r, String y) {
+        EffectResult.Observed o = r.observed();
+        if (o.probability() == null && o.events() == null) {
+            return "raw frequencies: " + o.label();
+        }
+        StringBuilder s = new StringBuilder("raw frequencies from the counts (family " + o.family() + "): ");
+        s.append(String.format(Locale.ROOT, "P(%s | %s) = %d/%d = %s", y, text(r.intervention()), o.events(), o.rows(),
+                o.probability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.probability())));
+        if (o.versusRows() != null) {
+            s.append(String.format(Locale.ROOT, ", P(%s | %s) = %d/%d = %s", y, text(r.versus().intervention()), o.versusEvents(),
+                    o.versusRows(), o.versusProbability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.versusProbability())));
+        }
+        if (o.oddsRatio() != null) {
+            s.append(", crude odds ratio ").append(num(o.oddsRatio()));
+        }
+        if (o.reweighted() != null) {
+            s.append(String.format(Locale.ROOT, "; re-weighted to the prevalence: %.4f", o.reweighted()));
+            if (o.reweightedVersus() != null) {
+                s.append(String.format(Locale.ROOT, " and %.4f", o.reweightedVersus()));
+            }
+        }
+        if (r.design() != null && r.design().state() != null && o.reweighted() == null) {
+            s.append(" (shares in the case-control sample, not population risks)");
+        }
+        return s.toString();
+    }
+
+    private static String num(double x) {
+        return String.format(Locale.ROOT, Math.abs(x) >= 100 ? "%.1f" : "%.4f", x);
     }
 
     private static String text(Map<String, String> m) {

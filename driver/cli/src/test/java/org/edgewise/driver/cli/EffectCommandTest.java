@@ -100,6 +100,50 @@ class EffectCommandTest extends StoreFixture {
     }
 
     @Test
+    void caseControlRefusalsWordForWord() {
+        String[] q = {"--order", ORDER, "--do", "v0=s1", "--versus", "v0=s0", "--target", "v2=s0", "--effect-draws", "100"};
+        String[][] cases = {
+            {"effect: --measure risk-difference needs --prevalence under --design case-control: risks are not estimable from a "
+                + "sample drawn on v2 (give --prevalence v2=p, or --measure odds-ratio)",
+                "--design", "case-control", "--outcome", "v2", "--measure", "risk-difference"},
+            {"effect: --prevalence: the prevalence must lie strictly between 0 and 1, got 1.5",
+                "--design", "case-control", "--outcome", "v2", "--prevalence", "v2=s0:1.5"},
+            {"effect: --outcome: unknown variable 'status' (variables: v0, v1, v2, v3, v4)",
+                "--design", "case-control", "--outcome", "status"},
+            {"effect: --design case-control needs --outcome y: the variable the cases and controls were sampled on",
+                "--design", "case-control"},
+            {"effect: --outcome names the variable a case-control sample was drawn on: give --design case-control", "--outcome", "v2"},
+            {"effect: --measure must be risk-difference, risk-ratio or odds-ratio, got 'hazard'", "--measure", "hazard"},
+        };
+        for (String[] c : cases) {
+            String[] args = java.util.Arrays.copyOfRange(c, 1, c.length);
+            String[] all = new String[q.length + args.length];
+            System.arraycopy(q, 0, all, 0, q.length);
+            System.arraycopy(args, 0, all, q.length, args.length);
+            CliRun r = effect(all);
+            assertEquals(2, r.status(), String.join(" ", args) + ": " + r.err());
+            assertEquals(c[0], r.errLine());
+        }
+        CliRun ok = effect(with(q, "--design", "case-control", "--outcome", "v2"));
+        assertEquals(0, ok.status(), ok.err());
+        assertTrue(ok.out().contains("case-control sample drawn on v2: only the odds ratio is reported for effects on v2"), ok.out());
+        assertTrue(ok.out().contains("odds ratio "), ok.out());
+        assertFalse(ok.out().lines().anyMatch(l -> l.startsWith("risk difference") || l.contains("also: risk")), ok.out());
+        CliRun lead = effect(with(q, "--measure", "risk-ratio"));
+        assertEquals(0, lead.status(), lead.err());
+        assertTrue(lead.out().lines().anyMatch(l -> l.startsWith("risk ratio")), lead.out());
+        assertTrue(lead.out().contains("raw frequencies from the counts"), lead.out());
+        assertTrue(lead.out().contains("the model's conditional (conditioning, not setting)"), lead.out());
+    }
+
+    static String[] with(String[] a, String... b) {
+        String[] all = new String[a.length + b.length];
+        System.arraycopy(a, 0, all, 0, a.length);
+        System.arraycopy(b, 0, all, a.length, b.length);
+        return all;
+    }
+
+    @Test
     void refusalsWordForWord() {
         String[][] cases = {
             {"effect: --do is empty: name at least one variable to set, e.g. --do \"x=a\"", "--order", ORDER, "--do", "", "--target", "v2=s0"},

@@ -149,6 +149,11 @@ class OptionWalkTest extends StoreFixture {
         value("--versus", "v3=s0");
         value("--questions", "@QUESTIONS");
         value("--effect-draws", "50");
+        // refused on the baselines (no --versus; no --design): each is walked with its partners in EffectCommandTest
+        value("--measure", "odds-ratio");
+        value("--design", "case-control");
+        value("--outcome", "v2");
+        value("--prevalence", "v2=0.1");
         value("--result", "@RESULT2");
         value("--effect", "@EFFECT");
         value("report --truth", "@TRUTH");

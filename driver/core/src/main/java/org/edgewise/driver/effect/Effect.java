@@ -20,8 +20,10 @@ package org.edgewise.driver.effect;
  * @param observational       the observational conditional P(y | x = a, w, D) averaged the same way
  * @param observationalVersus P(y | x = a0, w, D) (NaN without a reference)
  * @param draws               the posterior distribution of the effect over (DAG, θ) draws
+ * @param pairs               the same draws' two probabilities, for the effect measures ({@link EffectMeasures})
  */
 public record Effect(double probability, double mcse, boolean exact, double versusProbability, double versusMcse,
                      double difference, double differenceMcse, double ratio, double noPath, double noPathMcse,
-                     boolean noPathExact, double observational, double observationalVersus, EffectDraws draws) {
+                     boolean noPathExact, double observational, double observationalVersus, EffectDraws draws,
+                     PairDraws pairs) {
 }

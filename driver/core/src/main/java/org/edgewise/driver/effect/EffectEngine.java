@@ -87,6 +87,7 @@ public final class EffectEngine {
         double[][][] terms = new double[qs.size()][k][];
         double[][] values = new double[qs.size()][s.draws()];
         boolean[][] none = new boolean[qs.size()][s.draws()];
+        PairDraws[] pairs = PairDraws.empty(qs.size(), s.draws());
         int[][] byUnit = group(drawUnit, k);
         for (int o = 0; o < k; o++) {
             if (logW[o] == Double.NEGATIVE_INFINITY) {
@@ -128,14 +129,14 @@ public final class EffectEngine {
                     for (int c = 0; c < n; c++) {
                         parents[c] = ls.parents(c, chosen[c]);
                     }
-                    drawValues(dag, theta, parents, qs, values, none, d);
+                    drawValues(dag, theta, parents, qs, values, none, pairs, d);
                 }
             }
         }
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
             out.add(EffectMix.combine(qs.get(qi), src.weighted() ? logW : null, terms[qi], src.weighted() || k == 1,
-                    src.chains(), values[qi], none[qi], ls.options().names().given()));
+                    src.chains(), values[qi], none[qi], pairs[qi], ls.options().names().given()));
         }
         return out;
     }
@@ -177,13 +178,14 @@ public final class EffectEngine {
         Parameters theta = Parameters.draws(ls, rng);
         double[][] values = new double[qs.size()][s.draws()];
         boolean[][] none = new boolean[qs.size()][s.draws()];
+        PairDraws[] pairs = PairDraws.empty(qs.size(), s.draws());
         for (int d = 0; d < drawUnit.length; d++) {
-            drawValues(dag, theta, dags.parents(drawUnit[d]), qs, values, none, d);
+            drawValues(dag, theta, dags.parents(drawUnit[d]), qs, values, none, pairs, d);
         }
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
             out.add(EffectMix.combine(qs.get(qi), logW, terms[qi], !dags.sampled(), dags.chains(),
-                    values[qi], none[qi], ls.options().names().given()));
+                    values[qi], none[qi], pairs[qi], ls.options().names().given()));
         }
         return out;
     }
@@ -196,7 +198,7 @@ public final class EffectEngine {
 
     /** One (DAG, θ) draw: the effect of every query under it, and whether it has no path. */
     private static void drawValues(DagEffects dag, Parameters theta, int[][] parents, List<EffectQuery> qs,
-                                   double[][] values, boolean[][] none, int d) {
+                                   double[][] values, boolean[][] none, PairDraws[] pairs, int d) {
         theta.fresh();
         int n = parents.length;
         for (int qi = 0; qi < qs.size(); qi++) {
@@ -204,13 +206,16 @@ public final class EffectEngine {
             boolean[] cut = flags(n, q.setVariables());
             double p = Math.exp(dag.logProbability(parents, cut, q.jointCase(q.set()), theta)
                     - (q.hasGiven() ? dag.logProbability(parents, cut, q.givenCase(q.set()), theta) : 0));
+            pairs[qi].probability()[d] = p;
             if (q.versus() != null) {
                 double pv = Math.exp(dag.logProbability(parents, cut, q.jointCase(q.versus()), theta)
                         - (q.hasGiven() ? dag.logProbability(parents, cut, q.givenCase(q.versus()), theta) : 0));
+                pairs[qi].versus()[d] = pv;
                 p -= pv;
             }
             values[qi][d] = p;
             none[qi][d] = !DagEffects.hasPath(parents, q.setVariables(), outcomeVariables(q));
+            pairs[qi].noPath()[d] = none[qi][d];
         }
     }
 

@@ -30,10 +30,11 @@ final class EffectMix {
      * @param chains  for MCMC orders, the number of chains (else 0)
      * @param values  the (DAG, θ) draws' effect values
      * @param noPath  the draws' no-path indicators
+     * @param pairs   the draws' P(y | do(a)) and P(y | do(a0)), for the effect measures
      * @param givenName how the caller names the evidence in messages
      */
     static Effect combine(EffectQuery q, double[] logW, double[][] terms, boolean exact, int chains,
-                          double[] values, boolean[] noPath, String givenName) {
+                          double[] values, boolean[] noPath, PairDraws pairs, String givenName) {
         int k = terms.length;
         double[] lw = new double[k];
         for (int u = 0; u < k; u++) {
@@ -99,7 +100,7 @@ final class EffectMix {
             diffMcse = exact ? 0 : se(w, zd, chains);
         }
         return new Effect(p, mcse, exact, pv, vMcse, p - pv, diffMcse, p / pv, noPathMix, noPathMcse,
-                noPathExact && (exact || k == 1), obs, obsV, draws);
+                noPathExact && (exact || k == 1), obs, obsV, draws, pairs);
     }
 
     /** log Σ_u w_u exp(terms[u][col]) with w_u = exp(lw_u − z). */

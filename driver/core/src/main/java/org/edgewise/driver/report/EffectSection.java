@@ -53,30 +53,72 @@ public final class EffectSection {
 
     private static void one(StringBuilder h, EffectResult r) {
         String y = text(r.target()) + (r.given() == null ? "" : ", given " + text(r.given()));
+        EffectResult.Observed o = r.observed();
+        boolean raw = o != null && o.probability() != null;
         h.append("<h3>").append(esc(text(r.intervention()))).append(" \u2192 ").append(esc(y)).append("</h3>\n");
-        h.append("<table>\n<tr><th></th><th>setting (do)</th><th>conditioning (observed)</th></tr>\n");
-        h.append("<tr><td>").append(esc(text(r.intervention()))).append("</td><td class=\"num\">").append(f(r.probability(), 4))
-                .append(mcse(r.estimate(), r.mcse())).append("</td><td class=\"num\">").append(f(r.observational().probability(), 4))
-                .append("</td></tr>\n");
+        if (r.design() != null) {
+            h.append("<p class=\"caution\">").append(esc(r.design().note())).append(".</p>\n");
+        }
+        h.append("<table>\n<tr><th></th><th>setting (do), the model's</th><th>conditioning, the model's</th>")
+                .append(raw ? "<th>raw frequency in the data</th>" : "").append("</tr>\n");
+        h.append("<tr><td>").append(esc(text(r.intervention()))).append("</td><td class=\"num\">").append(num(r.probability()))
+                .append(r.probability() == null ? "" : mcse(r.estimate(), r.mcse())).append("</td><td class=\"num\">")
+                .append(num(r.observational().probability())).append("</td>")
+                .append(raw ? "<td class=\"num\">" + o.events() + "/" + o.rows() + " = " + f(o.probability(), 4) + "</td>" : "")
+                .append("</tr>\n");
         if (r.versus() != null) {
             h.append("<tr><td>").append(esc(text(r.versus().intervention()))).append("</td><td class=\"num\">")
-                    .append(f(r.versus().probability(), 4)).append("</td><td class=\"num\">")
-                    .append(f(r.observational().versusProbability(), 4)).append("</td></tr>\n");
-            h.append("<tr><th>difference</th><td class=\"num\">").append(f(r.difference(), 4)).append("</td><td class=\"num\">")
-                    .append(f(r.observational().difference(), 4)).append("</td></tr>\n");
+                    .append(num(r.versus().probability())).append("</td><td class=\"num\">")
+                    .append(num(r.observational().versusProbability())).append("</td>")
+                    .append(raw && o.versusRows() != null ? "<td class=\"num\">" + o.versusEvents() + "/" + o.versusRows() + " = "
+                            + num(o.versusProbability()) + "</td>" : raw ? "<td></td>" : "").append("</tr>\n");
+            h.append("<tr><th>difference</th><td class=\"num\">").append(num(r.difference())).append("</td><td class=\"num\">")
+                    .append(num(r.observational().difference())).append("</td>").append(raw ? "<td></td>" : "").append("</tr>\n");
         }
         h.append("</table>\n");
+        if (o != null) {
+            h.append("<p class=\"cap\">Raw frequencies: ").append(esc(o.label()))
+                    .append(o.oddsRatio() == null ? "" : "; crude odds ratio " + f(o.oddsRatio(), 4)).append(".</p>\n");
+        }
+        if (r.oddsRatio() != null) {
+            h.append("<table>\n<tr><th>measure</th><th>estimate</th><th>").append(Math.round(100 * r.interval().level()))
+                    .append("% credible interval</th><th>over</th></tr>\n");
+            measureRow(h, "risk difference", r.riskDifference());
+            measureRow(h, "risk ratio", r.riskRatio());
+            measureRow(h, "odds ratio", r.oddsRatio());
+            h.append("</table>\n<p class=\"cap\">").append(esc(r.measures())).append(".</p>\n");
+        }
         h.append("<p>Probability of no effect (no directed path from the set variables to the outcome): <b>")
                 .append(f(r.noPathProbability(), 4)).append("</b>").append(mcse(r.noPathEstimate(), r.noPathMcse()))
                 .append(". ").append(Math.round(100 * r.interval().level())).append("% credible interval of the ")
                 .append(esc(r.interval().of())).append(": [").append(f(r.interval().lower(), 4)).append(", ")
                 .append(f(r.interval().upper(), 4)).append("].</p>\n");
-        h.append("<div class=\"fig\">").append(histogram(r.posterior())).append("</div>\n");
-        h.append("<p class=\"cap\">Posterior distribution of the ").append(esc(r.posterior().of())).append(" over ")
-                .append(r.posterior().draws()).append(" draws of a network and its parameters. Averaged over: ")
-                .append(esc(r.averagedOver())).append(r.dagPrior() == null ? "" : "; DAG prior " + esc(r.dagPrior()))
-                .append(". The observational column conditions on the variable instead of setting it; where the two differ, "
-                        + "the data's association includes confounding or reverse influence.</p>\n");
+        if (r.posterior() != null) {
+            h.append("<div class=\"fig\">").append(histogram(r.posterior())).append("</div>\n");
+            h.append("<p class=\"cap\">Posterior distribution of the ").append(esc(r.posterior().of())).append(" over ")
+                    .append(r.posterior().draws()).append(" draws of a network and its parameters. Averaged over: ")
+                    .append(esc(r.averagedOver())).append(r.dagPrior() == null ? "" : "; DAG prior " + esc(r.dagPrior()))
+                    .append(". The conditioning column conditions on the variable instead of setting it (the model's, not the raw "
+                            + "frequency); where the two differ, the data's association includes confounding, reverse influence, "
+                            + "or a direction the data do not fix.</p>\n");
+        }
+    }
+
+    private static void measureRow(StringBuilder h, String name, EffectResult.Measure m) {
+        if (m == null) {
+            h.append("<tr><td>").append(name).append("</td><td colspan=\"3\">not estimable from this design</td></tr>\n");
+            return;
+        }
+        h.append("<tr><td>").append(name).append("</td><td class=\"num\">").append(f(m.estimate(), 4))
+                .append(m.estimateOf().equals("model") ? "" : " (" + esc(m.estimateOf()) + ")").append("</td><td class=\"num\">[")
+                .append(f(m.interval().lower(), 4)).append(", ").append(f(m.interval().upper(), 4)).append("]</td><td>")
+                .append(esc(m.interval().of()))
+                .append(m.noEffectProbability() == null ? "" : "; probability of no effect " + f(m.noEffectProbability(), 4))
+                .append("</td></tr>\n");
+    }
+
+    private static String num(Double x) {
+        return x == null ? "not estimable" : f(x, 4);
     }
 
     private static String mcse(String estimate, double mcse) {

@@ -18,7 +18,9 @@ import org.edgewise.driver.UserError;
  * @param intervention      {@code "do"}: the intervention x = a, variable → state
  * @param target            the outcome y = b
  * @param given             evidence w = e observed after the intervention, or null
- * @param probability       P(y | do(x = a)[, w], D) averaged over structures and parameters
+ * @param probability       P(y | do(x = a)[, w], D) averaged over structures and parameters; under a
+ *                          case-control design on y, re-weighted to the given prevalence, and null
+ *                          (not estimable) without one
  * @param mcse              its Monte Carlo standard error (0 when {@code estimate} is exact)
  * @param estimate          {@code exact} or {@code sampled}
  * @param versus            the reference intervention and its probability, or null
@@ -31,7 +33,14 @@ import org.edgewise.driver.UserError;
  * @param noPathEstimate    {@code exact} (forward pass per order) or {@code sampled} (DAG draws)
  * @param interval          central credible interval of the effect from (DAG, θ) draws
  * @param posterior         the draws: their mean, count, histogram and share without a path
- * @param observational     the observational conditional P(y | x = a[, w], D) beside it
+ * @param observational     the model's observational conditional P(y | x = a[, w], D) beside it
+ * @param riskDifference    P(y | do(a)) − P(y | do(a0)) with its interval, or null (no reference; case-control without prevalence)
+ * @param riskRatio         P(y | do(a)) / P(y | do(a0)) with its interval, or null (likewise)
+ * @param oddsRatio         the odds ratio of the two with its interval, or null without a reference
+ * @param leadingMeasure    the measure the text leads with ({@code riskDifference}, {@code riskRatio} or {@code oddsRatio}), or null
+ * @param measures          what the measures are, in words (model-based, interval level, draws), or null
+ * @param observed          the raw conditional frequencies from the store's counts (no model), or what they lack
+ * @param design            the sampling design when it is case-control, else null
  * @param method            {@code order}, {@code exact} or {@code mcmc}
  * @param dagPrior          the DAG prior over unknown orders; null given an order (both coincide)
  * @param averagedOver      what was averaged over, in words
@@ -45,12 +54,14 @@ import org.edgewise.driver.UserError;
 @JsonInclude(JsonInclude.Include.NON_NULL)
 @JsonPropertyOrder({"do", "target", "given", "probability", "mcse", "estimate", "versus",
     "difference", "differenceMcse", "ratio", "noPathProbability", "noPathMcse", "noPathEstimate", "interval",
-    "posterior", "observational"})
+    "posterior", "observational", "riskDifference", "riskRatio", "oddsRatio", "leadingMeasure", "measures", "observed",
+    "design"})
 public record EffectResult(@JsonProperty("do") Map<String, String> intervention, Map<String, String> target,
-                           Map<String, String> given, double probability, double mcse, String estimate, Versus versus,
+                           Map<String, String> given, Double probability, double mcse, String estimate, Versus versus,
                            Double difference, Double differenceMcse, Double ratio, double noPathProbability,
                            double noPathMcse, String noPathEstimate, Interval interval, Posterior posterior,
-                           Observational observational, String method, String dagPrior, String averagedOver,
+                           Observational observational, Measure riskDifference, Measure riskRatio, Measure oddsRatio,
+                           String leadingMeasure, String measures, Observed observed, Design design, String method, String dagPrior, String averagedOver,
                            List<String> order, EdgeResult.Settings settings, Boolean converged, Double maxRhat,
                            List<String> assumptions, String note) implements JsonResult {
     /** The format version written and read. */
@@ -67,7 +78,7 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
     }
 
     /** The reference intervention x = a0: its probability P(y | do(x = a0)[, w], D) and MCSE. */
-    public record Versus(@JsonProperty("do") Map<String, String> intervention, double probability, double mcse) {
+    public record Versus(@JsonProperty("do") Map<String, String> intervention, Double probability, double mcse) {
     }
 
     /** A central credible interval of {@code of} ({@code difference} or {@code probability}). */
@@ -82,8 +93,63 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
                             double noPathShare) {
     }
 
-    /** The observational conditionals P(y | x = a[, w], D) and, with a reference, P(y | x = a0[, w], D). */
-    public record Observational(double probability, Double versusProbability, Double difference) {
+    /**
+     * The model's observational conditionals P(y | x = a[, w], D) and, with a reference, P(y | x = a0[, w], D)
+     * (null under a case-control design on y without a prevalence); {@code label} says what they are.
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Observational(Double probability, Double versusProbability, Double difference, String label) {
+    }
+
+    /**
+     * One effect measure: its estimate and central credible interval from the (DAG, θ) draws.
+     *
+     * @param estimate            the estimate (always inside the interval)
+     * @param interval            the interval; {@code of} says over which draws ("all draws" or "draws with an effect")
+     * @param estimateOf          {@code model}, {@code median of the draws} or {@code median of the draws with an effect}
+     * @param noEffectProbability when the interval is of the draws with an effect: the share of draws without a
+     *                            directed path (no effect at all); else null
+     * @param overallEstimate     the model's estimate over all structures when {@code estimate} is not it; else null
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Measure(double estimate, Interval interval, String estimateOf, Double noEffectProbability,
+                          Double overallEstimate) {
+    }
+
+    /**
+     * Raw conditional frequencies from the store's counts (no model, no averaging).
+     *
+     * @param probability         n(y, x = a[, w]) / n(x = a[, w]), or null when not available
+     * @param versusProbability   the same for x = a0, or null
+     * @param events              n(y, x = a[, w]); null when not available
+     * @param rows                n(x = a[, w])
+     * @param versusEvents        n(y, x = a0[, w]), or null
+     * @param versusRows          n(x = a0[, w]), or null
+     * @param oddsRatio           the crude odds ratio (ad)/(bc) of the two rows, or null
+     * @param reweighted          under a case-control design with a prevalence: the two frequencies re-weighted to
+     *                            the population (cases by π/π̂, controls by (1 − π)/(1 − π̂)), else null
+     * @param reweightedVersus    likewise for x = a0
+     * @param family              the stored family whose counts served, or null
+     * @param label               what these figures are, or why they are not available
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Observed(Double probability, Double versusProbability, Long events, Long rows, Long versusEvents,
+                           Long versusRows, Double oddsRatio, Double reweighted, Double reweightedVersus, String family,
+                           String label) {
+    }
+
+    /**
+     * A case-control design: the sample was drawn on {@code outcome}.
+     *
+     * @param type           {@code case-control}
+     * @param outcome        the variable the sample was drawn on
+     * @param state          the outcome's state the target asks about (the cases), or null when the target is not the outcome
+     * @param sampleShare    π̂, the share of that state in the sample's counts, or null
+     * @param prevalence     π, its population prevalence as given, or null
+     * @param note           what the design changes in this result, in words
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Design(String type, String outcome, String state, Double sampleShare, Double prevalence, String note) {
     }
 
     /** Several results ({@code effect --cases}). */
