@@ -10,6 +10,7 @@ import org.edgewise.driver.effect.Effect;
 import org.edgewise.driver.effect.EffectEngine;
 import org.edgewise.driver.effect.EffectQuery;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.store.Manifest;
@@ -44,7 +45,11 @@ public final class EffectAnalysis {
      * @param settings unknown orders: the method and its settings, else null
      */
     public record Request(LocalScores scores, int[] order, UnknownOrderSettings settings,
-                          List<Question> questions, EffectEngine.Settings engine) {
+                          List<Question> questions, EffectEngine.Settings engine, SampleFile.Loaded saved) {
+        public Request(LocalScores scores, int[] order, UnknownOrderSettings settings, List<Question> questions,
+                       EffectEngine.Settings engine) {
+            this(scores, order, settings, questions, engine, null);
+        }
     }
 
     private EffectAnalysis() {
@@ -62,9 +67,10 @@ public final class EffectAnalysis {
         ScoreStore store = scoring.read();
         int[] order = averaging.order() == null ? null
                 : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
-        LocalScores ls = LocalScores.build(store, scoring.first());
+        SampleFile.Loaded saved = averaging.saved(store, scoring.store());
+        LocalScores ls = LocalScores.build(store, saved == null ? scoring.first() : saved.info().scoring().options(scoring.names()));
         return run(new Request(ls, order, averaging.settings(0), questions,
-                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates)), progress);
+                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), saved), progress);
     }
 
     public static List<EffectResult> run(Request r, ProgressListener progress) {
@@ -74,7 +80,7 @@ public final class EffectAnalysis {
         for (Question q : r.questions()) {
             qs.add(EffectQuery.parse(m, q.doText(), q.targetText(), q.givenText(), q.versusText(), q.where(), ls.options().names()));
         }
-        StructurePosterior p = StructurePosterior.of(ls, r.order(), r.settings(), progress);
+        StructurePosterior p = StructurePosterior.of(ls, r.saved(), r.order(), r.settings(), progress);
         StructurePosterior.EffectSource src = p.effectSource();
         List<Effect> effects = src instanceof StructurePosterior.OverDags d
                 ? EffectEngine.overDags(ls, d.dags(), qs, r.engine())
