@@ -3,7 +3,9 @@ package org.edgewise.driver.cli;
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.Scoring;
+import java.nio.file.Path;
 import picocli.CommandLine.Mixin;
+import picocli.CommandLine.Option;
 
 /**
  * The options of every command that averages over structures ({@code edges}, {@code predict}):
@@ -20,6 +22,10 @@ public final class AveragingOptions {
     @Mixin
     public UnknownOrderOptions unknown = new UnknownOrderOptions();
 
+    @Option(names = "--sample", paramLabel = "DIR", description = "answer from a posterior sample saved by the sample command "
+            + "(nothing is sampled again; --store must be the store it was drawn from)")
+    public Path sample;
+
     /**
      * What to average over ({@link MethodMixin#resolve} names the job as {@code what}), refusing
      * unknown-order options given with an order and, where the command does not estimate them
@@ -28,6 +34,15 @@ public final class AveragingOptions {
      * acts even on exact sums).
      */
     public Averaging averaging(String what, boolean features, boolean draws) {
+        if (sample != null) {
+            String why = "the saved DAGs were drawn once, with the method and scoring the sample records; draw another sample to change them";
+            Checks.notApplicable(method.order != null, "--order", "with --sample", why);
+            Checks.notApplicable(method.method != null, "--method", "with --sample", why);
+            scoring.refuseWithSample(why);
+            Checks.notApplicable(!features && !unknown.features.isEmpty(), "--features", "in " + what,
+                    "features are posteriors of the structure: ask edges --features for them");
+            return unknown.fromSample(sample, draws);
+        }
         String m = method.resolve(what);
         if (m.equals("order")) {
             Checks.notApplicable(!unknown.tiers.isEmpty(), "--tiers", "with --order",

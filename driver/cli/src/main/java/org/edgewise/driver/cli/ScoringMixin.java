@@ -36,6 +36,15 @@ public final class ScoringMixin {
                 rules(forbid, "--forbid"), rules(require, "--require"), CliNames.NAMES);
     }
 
+    /** Refuses the scoring options with {@code --sample} (the sample records the scoring its DAGs were drawn under). */
+    void refuseWithSample(String why) {
+        Checks.notApplicable(score != null, "--score", "with --sample", why);
+        Checks.notApplicable(!ess.isEmpty(), "--ess", "with --sample", why);
+        Checks.notApplicable(!"uniform".equalsIgnoreCase(prior), "--prior", "with --sample", why);
+        Checks.notApplicable(!forbid.isEmpty(), "--forbid", "with --sample", why);
+        Checks.notApplicable(!require.isEmpty(), "--require", "with --sample", why);
+    }
+
     static List<EdgeRule> rules(List<String> texts, String option) {
         List<EdgeRule> out = new ArrayList<>();
         for (String t : texts) {

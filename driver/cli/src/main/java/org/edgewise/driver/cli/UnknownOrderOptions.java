@@ -156,7 +156,33 @@ public final class UnknownOrderOptions {
         }
         return new Averaging(m, order, prior(), tierLists(), seed == null ? DEFAULT_SEED : seed, nChains, steps, burnIn,
                 this.draws == null ? DEFAULT_DRAWS : this.draws, rhatTarget, mcseTarget, maxSteps, maxTime, anc, mb, eg,
-                nDagSamples);
+                nDagSamples, null);
+    }
+
+    /**
+     * A request answered from the saved sample {@code sample}: every option that would set how the
+     * structures are drawn is refused (the sample's DAGs were drawn once, under its own method, DAG
+     * prior, tiers and settings); {@code --features} still act over the saved DAGs, and {@code --seed}
+     * where the command itself draws ({@code draws}).
+     */
+    public Averaging fromSample(java.nio.file.Path sample, boolean draws) {
+        String situation = "with --sample";
+        String why = "the saved DAGs were drawn once, with the settings the sample records; draw another sample to change them";
+        Checks.notApplicable(!tiers.isEmpty(), "--tiers", situation, why);
+        Checks.notApplicable(dagPrior != null, "--dag-prior", situation, why);
+        Checks.notApplicable(chains != null, "--chains", situation, why);
+        Checks.notApplicable(steps != null, "--steps", situation, why);
+        Checks.notApplicable(burnIn != null, "--burn-in", situation, why);
+        Checks.notApplicable(this.draws != null, "--draws", situation, why);
+        Checks.notApplicable(rhatTarget != null, "--rhat-target", situation, why);
+        Checks.notApplicable(mcseTarget != null, CliNames.MCSE_TARGET, situation, why);
+        Checks.notApplicable(maxSteps != null, "--max-steps", situation, why);
+        Checks.notApplicable(maxTime != null, "--max-time", situation, why);
+        Checks.notApplicable(dagSamples != null, "--dag-samples", situation, "the features are estimated over the saved DAGs");
+        Checks.notApplicable(seed != null && !draws, "--seed", situation, "nothing is drawn at random: the saved DAGs are read as they are");
+        return new Averaging(Averaging.Method.EXACT, null, null, List.of(), seed == null ? DEFAULT_SEED : seed, DEFAULT_CHAINS,
+                null, null, DEFAULT_DRAWS, null, null, null, null, ancestors(), markovBlanket(), essentialGraph(),
+                DEFAULT_DAG_SAMPLES, sample);
     }
 
     /** The tiers as lists of names. */

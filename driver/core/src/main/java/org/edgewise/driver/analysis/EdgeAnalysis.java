@@ -11,6 +11,7 @@ import org.edgewise.driver.average.convergence.McseBound;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.ScoreStore;
@@ -36,12 +37,20 @@ public final class EdgeAnalysis {
      */
     public static EdgeResult run(Scoring scoring, Averaging averaging, int topParents, ProgressListener progress,
                                  Consumer<EdgeResult> eachRun) {
-        List<ScoringOptions> options = scoring.options();
         ScoreStore store = scoring.read();
+        SampleFile.Loaded saved = averaging.saved(store, scoring.store());
+        List<ScoringOptions> options = saved == null ? scoring.options() : List.of(saved.info().scoring().options(scoring.names()));
         int[] order = averaging.order() == null ? null
                 : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
         UnknownOrderSettings settings = averaging.settings(topParents);
-        return run(store, scoring.store(), options, order, settings, topParents, progress, eachRun);
+        return run(store, scoring.store(), saved, options, order, settings, topParents, progress, eachRun);
+    }
+
+    /** As {@link #run(ScoreStore, Path, SampleFile.Loaded, List, int[], UnknownOrderSettings, int, ProgressListener, Consumer)} without a saved sample. */
+    public static EdgeResult run(ScoreStore store, Path storePath, List<ScoringOptions> options, int[] order,
+                                 UnknownOrderSettings settings, int topParents, ProgressListener progress,
+                                 Consumer<EdgeResult> eachRun) {
+        return run(store, storePath, null, options, order, settings, topParents, progress, eachRun);
     }
 
     /**
@@ -49,14 +58,14 @@ public final class EdgeAnalysis {
      * sensitivity list): given {@code order} when it is not null, else as {@code settings} say;
      * {@code eachRun} sees every run's result (e.g. to warn about chains that disagree).
      */
-    public static EdgeResult run(ScoreStore store, Path storePath, List<ScoringOptions> options, int[] order,
-                                 UnknownOrderSettings settings, int topParents, ProgressListener progress,
+    public static EdgeResult run(ScoreStore store, Path storePath, SampleFile.Loaded saved, List<ScoringOptions> options,
+                                 int[] order, UnknownOrderSettings settings, int topParents, ProgressListener progress,
                                  Consumer<EdgeResult> eachRun) {
         EdgeResult primary = null;
         List<EdgeResult.Sensitivity> sens = new ArrayList<>();
         for (ScoringOptions so : options) {
             LocalScores ls = LocalScores.build(store, so);
-            StructurePosterior p = StructurePosterior.of(ls, order, settings, progress);
+            StructurePosterior p = StructurePosterior.of(ls, saved, order, settings, progress);
             if (primary == null && p.cost() != null) {
                 progress.note(p.cost() + (options.size() > 1 ? " (for each of the " + options.size() + " ESS values)" : ""));
             }

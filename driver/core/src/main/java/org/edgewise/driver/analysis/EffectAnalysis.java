@@ -16,6 +16,7 @@ import org.edgewise.driver.effect.EffectQuery;
 import org.edgewise.driver.effect.ObservedCounts;
 import org.edgewise.driver.effect.SamplingDesign;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.store.Manifest;
@@ -69,10 +70,11 @@ public final class EffectAnalysis {
      * @param measure  the measure the text leads with ({@link #MEASURE_WORDS}), or null for the default
      */
     public record Request(LocalScores scores, int[] order, UnknownOrderSettings settings,
-                          List<Question> questions, EffectEngine.Settings engine, CaseControl design, String measure) {
+                          List<Question> questions, EffectEngine.Settings engine, CaseControl design, String measure,
+                          SampleFile.Loaded saved) {
         public Request(LocalScores scores, int[] order, UnknownOrderSettings settings, List<Question> questions,
                        EffectEngine.Settings engine) {
-            this(scores, order, settings, questions, engine, null, null);
+            this(scores, order, settings, questions, engine, null, null, null);
         }
     }
 
@@ -97,9 +99,10 @@ public final class EffectAnalysis {
         ScoreStore store = scoring.read();
         int[] order = averaging.order() == null ? null
                 : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
-        LocalScores ls = LocalScores.build(store, scoring.first());
+        SampleFile.Loaded saved = averaging.saved(store, scoring.store());
+        LocalScores ls = LocalScores.build(store, saved == null ? scoring.first() : saved.info().scoring().options(scoring.names()));
         return run(new Request(ls, order, averaging.settings(0), questions,
-                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), design, measure), progress);
+                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), design, measure, saved), progress);
     }
 
     public static List<EffectResult> run(Request r, ProgressListener progress) {
@@ -115,7 +118,7 @@ public final class EffectAnalysis {
         for (int i = 0; i < qs.size(); i++) {
             oddsFactor[i] = sd == null ? 1 : oddsFactor(ls, sd, qs.get(i), r.questions().get(i).where(), cc.prevalenceWhat());
         }
-        StructurePosterior p = StructurePosterior.of(ls, r.order(), r.settings(), progress);
+        StructurePosterior p = StructurePosterior.of(ls, r.saved(), r.order(), r.settings(), progress);
         StructurePosterior.EffectSource src = p.effectSource();
         List<Effect> effects = src instanceof StructurePosterior.OverDags d
                 ? EffectEngine.overDags(ls, d.dags(), qs, r.engine())

@@ -14,6 +14,7 @@ import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.ExactOrders;
+import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.query.BatchPrediction;
 import org.edgewise.driver.query.CaseParser;
@@ -83,8 +84,9 @@ public final class PredictionAnalysis {
                 }
             }
         }
-        LocalScores ls = LocalScores.build(store, r.scoring().first());
-        StructurePosterior p = StructurePosterior.of(ls, ord, settings, progress);
+        SampleFile.Loaded saved = r.averaging().saved(store, r.scoring().store());
+        LocalScores ls = LocalScores.build(store, saved == null ? r.scoring().first() : saved.info().scoring().options(in));
+        StructurePosterior p = StructurePosterior.of(ls, saved, ord, settings, progress);
         StructurePosterior.Cases cases = p.cases(r.tailMass(), r.maxHiddenStates());
         ExactCasePrediction exact = null;
         if (r.exactCases()) {

@@ -114,4 +114,32 @@ public final class ExactDags extends ExactSum {
         StructureDraws d = StructureDraws.exact(ls, oc, EFFECT_DAG_DRAWS, s.seed() + 2);
         return new OverDags(d, d.description(), null, null);
     }
+
+    /**
+     * DAGs drawn as an effect draws them ({@link #draw}: with the effect's {@code seed + 2} they are
+     * the very DAGs {@code effectSource} averages over): {@code count} exact draws from the
+     * structure-modular posterior, or 4× as many weighted by 1/ext(G).
+     */
+    @Override
+    public Sampled sampleDags(int count, long seed) {
+        DagLists.checkDrawable(ls);
+        Drawn d = draw(ls, oc, count, seed, logDagSum());
+        DagDraws dd = d.dags();
+        List<int[]> masks = new java.util.ArrayList<>();
+        double[] w = d.weighted() ? new double[dd.chainLength(0)] : null;
+        int n = ls.variableCount();
+        for (int k = 0; k < dd.chainLength(0); k++) {
+            int[] m = new int[n];
+            for (int v = 0; v < n; v++) {
+                m[v] = dd.parentsOf(0, k, v);
+            }
+            masks.add(m);
+            if (w != null) {
+                w[k] = dd.weight(0, k);
+            }
+        }
+        return new Sampled(DagSample.fromMasks(n, masks, w), d.weighted()
+                ? masks.size() + " DAGs drawn exactly under the order-modular prior and weighted by 1/ext(G) to the structure-modular posterior"
+                : count + " DAGs drawn exactly from the structure-modular posterior");
+    }
 }

@@ -145,4 +145,13 @@ public final class ExactOrders extends ExactSum {
             used[v] = false;
         }
     }
+
+    /** {@code count} DAGs drawn exactly from the order-modular posterior (an order drawn exactly, then a DAG given it). */
+    @Override
+    public Sampled sampleDags(int count, long seed) {
+        DagLists.checkDrawable(ls);
+        List<int[]> dags = ExactDagSampler.of(ls, oc).draw(DagPrior.ORDER_MODULAR, count, seed, Double.NaN);
+        return new Sampled(DagSample.fromMasks(ls.variableCount(), dags, null), count
+                + " DAGs drawn exactly from the order-modular posterior (an order drawn exactly, then a DAG given it)");
+    }
 }

@@ -74,4 +74,31 @@ public final class OrderChains extends UnknownOrders {
         return new OverOrders(EffectOrders.chains(kept, s.chains()), kept.size() + " orders kept by " + s.chains()
                 + " order-MCMC chains, and every DAG consistent with each (sampled; see mcse)", r.converged(), r.maxRhat());
     }
+
+    /** One DAG per stored order, drawn given it, chain by chain in draw order (no bound on the number of variables). */
+    @Override
+    public Sampled sampleDags(int count, long seed) {
+        McmcResult r = chains();
+        int n = ls.variableCount();
+        int chains = s.chains();
+        int per = r.orders().size() / chains;
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(seed);
+        List<List<int[]>> out = new java.util.ArrayList<>();
+        long[] mask = new long[n];
+        double[] z = new double[n];
+        for (int c = 0; c < chains; c++) {
+            List<int[]> chain = new java.util.ArrayList<>(per);
+            for (int t = 0; t < per; t++) {
+                int[] pos = org.edgewise.driver.average.givenorder.OrderSum.positions(r.orders().get(c * per + t), n);
+                for (int i = 0; i < n; i++) {
+                    mask[i] = ls.predecessorMask(i, pos);
+                    z[i] = org.edgewise.driver.average.givenorder.OrderSum.childLogSum(ls, i, mask[i]);
+                }
+                chain.add(org.edgewise.driver.average.dag.DagFeatures.sampleDag(ls, mask, z, rng));
+            }
+            out.add(chain);
+        }
+        return new Sampled(DagSample.fromSets(ls, out), (long) chains * per + " DAGs from " + chains
+                + " order-MCMC chains, one drawn given each stored order (order-modular posterior)");
+    }
 }

@@ -79,4 +79,12 @@ public final class PartitionChains extends UnknownOrders {
                 run().chains().converged(), run().chains().maxRhat());
         return new OverDags(d, d.description(), d.converged(), d.maxRhat());
     }
+
+    /** The DAGs partition MCMC drew, one per stored partition, chain by chain in draw order. */
+    @Override
+    public Sampled sampleDags(int count, long seed) {
+        DagSample d = DagSample.fromSets(ls, run().dags());
+        return new Sampled(d, d.total() + " DAGs from " + d.chains()
+                + " partition-MCMC chains, drawn from the structure-modular posterior");
+    }
 }

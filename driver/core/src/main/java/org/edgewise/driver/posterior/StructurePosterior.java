@@ -29,13 +29,27 @@ import org.edgewise.driver.average.mcmc.McmcResult;
  * </ul>
  * Sampled sources run their chains once, when first asked; exact ones compute each sum once.
  */
-public sealed interface StructurePosterior permits GivenOrder, UnknownOrders {
+public sealed interface StructurePosterior permits GivenOrder, UnknownOrders, SavedSample {
 
     /**
      * The posterior for a request: given {@code order} (variable indices, first to last) when it is
      * not null, else over unknown orders as {@code settings} say — the one switch over method × DAG prior.
      */
     static StructurePosterior of(LocalScores ls, int[] order, UnknownOrderSettings settings, ProgressListener progress) {
+        return of(ls, null, order, settings, progress);
+    }
+
+    /**
+     * The posterior for a request that may name a saved sample: {@code saved} (read and checked
+     * against the store, {@link SampleFile#read}) when it is not null — its DAGs, nothing sampled
+     * again; {@code settings} then only say which features to estimate — else as {@link #of(LocalScores,
+     * int[], UnknownOrderSettings, ProgressListener)}.
+     */
+    static StructurePosterior of(LocalScores ls, SampleFile.Loaded saved, int[] order, UnknownOrderSettings settings,
+                                 ProgressListener progress) {
+        if (saved != null) {
+            return new SavedSample(ls, saved, settings);
+        }
         if (order != null) {
             return new GivenOrder(ls, order);
         }
@@ -99,6 +113,20 @@ public sealed interface StructurePosterior permits GivenOrder, UnknownOrders {
 
     /** What effects of interventions are averaged over: weighted orders, or weighted DAGs. */
     EffectSource effectSource();
+
+    /**
+     * DAGs drawn from this posterior to be saved (issue 19), with what drew them: chains keep their
+     * draws in order (one DAG per stored draw); exact sources and a given order draw {@code count}
+     * independent DAGs with {@code seed} (or as many weighted ones as the source weighs).
+     */
+    Sampled sampleDags(int count, long seed);
+
+    /**
+     * @param dags    the DAGs, chain by chain
+     * @param sampler what drew them, for people
+     */
+    record Sampled(DagSample dags, String sampler) {
+    }
 
     /**
      * @param method  {@code order} (given), {@code exact} or {@code mcmc}

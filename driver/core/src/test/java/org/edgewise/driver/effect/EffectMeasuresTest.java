@@ -63,7 +63,7 @@ class EffectMeasuresTest {
 
     static EffectResult run(LocalScores ls, String versus, EffectAnalysis.CaseControl cc, String measure) {
         return EffectAnalysis.run(new EffectAnalysis.Request(ls, new int[] {0, 1}, null,
-                List.of(new EffectAnalysis.Question("alcohol=heavy", "status=case", null, versus, "")), ENGINE, cc, measure),
+                List.of(new EffectAnalysis.Question("alcohol=heavy", "status=case", null, versus, "")), ENGINE, cc, measure, null),
                 ProgressListener.NONE).get(0);
     }
 

@@ -59,9 +59,17 @@ public final class DagDraws {
 
     /** Mean, MCSE, R̂ (NaN for independent draws) and ESS of {@code f}. */
     public Estimate estimate(Feature f) {
-        int chains = dags.length;
+        return estimate(f, dags.length, dags[0].length, group, weights);
+    }
+
+    /**
+     * Mean, MCSE, R̂ and ESS of {@code f} over {@code chains} chains of {@code perChain} draws each
+     * ({@code group} consecutive DAGs per stored draw; {@code weights[c][k]} or null), as the class
+     * comment says — for any representation of the DAGs (parent bitmasks here, parent lists in a saved sample).
+     */
+    public static Estimate estimate(Feature f, int chains, int perChain, int group, double[][] weights) {
         if (chains == 1 && group == 1 && weights == null) {
-            int k = dags[0].length;
+            int k = perChain;
             int hits = 0;
             for (int i = 0; i < k; i++) {
                 hits += f.test(0, i) ? 1 : 0;
@@ -70,7 +78,7 @@ public final class DagDraws {
             return new Estimate(p, McseBound.reported(p, Math.sqrt(p * (1 - p) / k), k), Double.NaN, k, k,
                     hits == 0 || hits == k ? ChainDiagnostics.State.CONSTANT : ChainDiagnostics.State.VARIES);
         }
-        int t = dags[0].length / group;
+        int t = perChain / group;
         double[][] num = new double[chains][t];
         double[][] den = new double[chains][t];
         double sn = 0;

@@ -1,0 +1,131 @@
+package org.edgewise.driver.cli;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.HashMap;
+import java.util.Map;
+import org.junit.jupiter.api.Test;
+
+/** {@code sample} and {@code --sample} (issue 19, points 1 and 2), end to end through the CLI. */
+class SavedSampleTest extends StoreFixture {
+    static final ObjectMapper JSON = new ObjectMapper();
+
+    @Override
+    long seed() {
+        return 19_001L;
+    }
+
+    Path sample(String name, String... more) {
+        Path out = dir.resolve(name);
+        String[] base = {"sample", "--store", store.toString(), "--out", out.toString()};
+        String[] all = new String[base.length + more.length];
+        System.arraycopy(base, 0, all, 0, base.length);
+        System.arraycopy(more, 0, all, base.length, more.length);
+        CliRun r = CliRun.of(all);
+        assertEquals(0, r.status(), r.err());
+        return out;
+    }
+
+    /** Source: the format's own definition — reading and writing again gives the same bytes; the manifest says what it holds. */
+    @Test
+    void aSavedSampleRoundTripsBitExactly() throws Exception {
+        Path p = sample("s1", "--method", "exact", "--dags", "300", "--seed", "5");
+        Path q = sample("s2", "--method", "exact", "--dags", "300", "--seed", "5");
+        assertArrayEquals(Files.readAllBytes(p.resolve("dags.bin")), Files.readAllBytes(q.resolve("dags.bin")));
+        JsonNode m = JSON.readTree(p.resolve("sample.json").toFile());
+        assertEquals("sample", m.get("kind").asText());
+        assertEquals(1, m.get("formatVersion").asInt());
+        assertEquals("exact", m.get("method").asText());
+        assertEquals("structure-modular", m.get("dagPrior").asText());
+        assertEquals(1, m.get("chains").asInt());
+        assertEquals(mem.manifest().input().fingerprint(), m.get("store").get("fingerprint").asText());
+        // re-read and re-written by the library: identical bytes (SampleFileRoundTrip in the core package)
+        assertArrayEquals(Files.readAllBytes(p.resolve("dags.bin")),
+                org.edgewise.driver.posterior.SampleFileAccess.rewrite(p));
+        // mcmc: chains in order, diagnostics and verdict saved
+        Path c = sample("s3", "--method", "mcmc", "--steps", "400", "--draws", "100", "--chains", "2");
+        JsonNode mc = JSON.readTree(c.resolve("sample.json").toFile());
+        assertEquals(2, mc.get("chains").asInt());
+        assertEquals(100, mc.get("dagsPerChain").asInt());
+        assertTrue(mc.get("diagnostics").has("converged"), mc.toString());
+        assertArrayEquals(Files.readAllBytes(c.resolve("dags.bin")), org.edgewise.driver.posterior.SampleFileAccess.rewrite(c));
+        // an existing sample is replaced only with --overwrite
+        assertEquals("sample: output " + p + " already exists; pass --overwrite to replace it",
+                CliRun.of("sample", "--store", store.toString(), "--out", p.toString(), "--method", "exact").errLine());
+    }
+
+    /** Source: an independent method — the exact sum over DAGs (Tian & He 2009) against frequencies over exact draws, within 4 MCSE. */
+    @Test
+    void edgesFromASavedExactSampleAgreeWithTheExactSum() throws Exception {
+        Path p = sample("exact", "--method", "exact", "--dags", "4000", "--seed", "3");
+        JsonNode exact = JSON.readTree(CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--format", "json").out());
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--sample", p.toString(), "--format", "json");
+        assertEquals(0, r.status(), r.err());
+        JsonNode saved = JSON.readTree(r.out());
+        assertEquals("sample", saved.get("method").asText());
+        Map<String, Double> ex = new HashMap<>();
+        for (JsonNode e : exact.get("edges")) {
+            ex.put(e.get("from").asText() + ">" + e.get("to").asText(), e.get("posterior").asDouble());
+        }
+        int checked = 0;
+        for (JsonNode e : saved.get("edges")) {
+            double want = ex.get(e.get("from").asText() + ">" + e.get("to").asText());
+            double got = e.get("posterior").asDouble();
+            double mcse = e.get("mcse").asDouble();
+            assertTrue(Math.abs(got - want) <= 4 * mcse + 1e-12, e + " vs exact " + want);
+            checked++;
+        }
+        assertEquals(20, checked);
+    }
+
+    /** Source: the same DAGs — exact draws with the effect's own seed and count are the DAGs effect --method exact averages over. */
+    @Test
+    void effectFromASavedSampleEqualsEffectOverTheSameDags() throws Exception {
+        Path p = sample("eff", "--method", "exact", "--dags", "20000", "--seed", "1");
+        String[] q = {"--do", "v3=s1", "--target", "v2=s0", "--effect-draws", "200", "--format", "json"};
+        CliRun direct = CliRun.of(concat(new String[] {"effect", "--store", store.toString(), "--method", "exact"}, q));
+        CliRun saved = CliRun.of(concat(new String[] {"effect", "--store", store.toString(), "--sample", p.toString()}, q));
+        assertEquals(0, direct.status(), direct.err());
+        assertEquals(0, saved.status(), saved.err());
+        JsonNode a = JSON.readTree(direct.out());
+        JsonNode b = JSON.readTree(saved.out());
+        a = a.isArray() ? a.get(0) : a;
+        b = b.isArray() ? b.get(0) : b;
+        assertEquals(a.get("probability").asDouble(), b.get("probability").asDouble(), 0.0);
+        assertEquals(a.get("mcse").asDouble(), b.get("mcse").asDouble(), 0.0);
+        assertEquals("sample", b.get("method").asText());
+        assertTrue(b.get("averagedOver").asText().contains(p.toString()), b.get("averagedOver").asText());
+    }
+
+    /** The refusal users read, word for word: a sample drawn from another store's data. */
+    @Test
+    void aSampleFromAnotherStoreIsRefused() throws Exception {
+        Path p = sample("fp", "--method", "exact", "--dags", "100");
+        // the same DAGs, said to come from another table (the fixture's stores all carry fingerprint 0)
+        Path moved = dir.resolve("fp2");
+        Files.createDirectories(moved);
+        Files.copy(p.resolve("dags.bin"), moved.resolve("dags.bin"));
+        String fp = mem.manifest().input().fingerprint();
+        Files.writeString(moved.resolve("sample.json"), Files.readString(p.resolve("sample.json"))
+                .replace("\"fingerprint\" : \"" + fp + "\"", "\"fingerprint\" : \"feedbeef\""));
+        assertEquals("edges: sample " + moved + " was drawn from the store " + store + " (data fingerprint feedbeef), not from "
+                + store + " (data fingerprint " + fp + "); draw a sample from this store",
+                CliRun.of("edges", "--store", store.toString(), "--sample", moved.toString()).errLine());
+        assertEquals("edges: --method does not apply with --sample: the saved DAGs were drawn once, with the method and scoring "
+                + "the sample records; draw another sample to change them",
+                CliRun.of("edges", "--store", store.toString(), "--sample", p.toString(), "--method", "exact").errLine());
+    }
+
+    static String[] concat(String[] a, String[] b) {
+        String[] all = new String[a.length + b.length];
+        System.arraycopy(a, 0, all, 0, a.length);
+        System.arraycopy(b, 0, all, a.length, b.length);
+        return all;
+    }
+}

@@ -1,0 +1,86 @@
+package org.edgewise.driver.posterior;
+
+import java.util.List;
+import org.edgewise.driver.average.LocalScores;
+
+/**
+ * DAGs drawn from a structure posterior, chain by chain in draw order, each DAG the sorted parent
+ * list of every variable (no bound on the number of variables), with self-normalisable weights when
+ * the draws are weighted (e.g. 1/ext(G) of Ellis &amp; Wong 2008). Independent exact draws are one
+ * chain. Every chain holds the same number of DAGs. Memory: per DAG n arrays of |U_i| ints (≈ 16 + 4|U_i|
+ * bytes each on the heap).
+ *
+ * @param variables n
+ * @param dags      {@code dags[c][k][v]}: the parents of variable v in DAG k of chain c, ascending
+ * @param weights   {@code weights[c][k]}, or null when every DAG weighs alike
+ */
+public record DagSample(int variables, int[][][][] dags, double[][] weights) {
+    public int chains() {
+        return dags.length;
+    }
+
+    public int perChain() {
+        return dags.length == 0 ? 0 : dags[0].length;
+    }
+
+    public long total() {
+        return (long) chains() * perChain();
+    }
+
+    public boolean weighted() {
+        return weights != null;
+    }
+
+    /** The DAGs given as parent-set indices of {@code ls} per child, chain by chain. */
+    static DagSample fromSets(LocalScores ls, List<List<int[]>> chains) {
+        int n = ls.variableCount();
+        int[][][][] out = new int[chains.size()][][][];
+        for (int c = 0; c < out.length; c++) {
+            List<int[]> chain = chains.get(c);
+            out[c] = new int[chain.size()][][];
+            for (int k = 0; k < chain.size(); k++) {
+                int[] sets = chain.get(k);
+                int[][] pa = new int[n][];
+                for (int v = 0; v < n; v++) {
+                    pa[v] = ls.parents(v, sets[v]).clone();
+                    java.util.Arrays.sort(pa[v]);
+                }
+                out[c][k] = pa;
+            }
+        }
+        return new DagSample(n, out, null);
+    }
+
+    /** The DAGs given as parent bitmasks (n ≤ 31), one chain, with optional weights. */
+    static DagSample fromMasks(int n, List<int[]> masks, double[] weights) {
+        int[][][] chain = new int[masks.size()][][];
+        for (int k = 0; k < chain.length; k++) {
+            chain[k] = parentLists(masks.get(k));
+        }
+        return new DagSample(n, new int[][][][] {chain}, weights == null ? null : new double[][] {weights});
+    }
+
+    /** The parents of every variable of a DAG given as parent bitmasks, ascending. */
+    static int[][] parentLists(int[] masks) {
+        int[][] pa = new int[masks.length][];
+        for (int v = 0; v < masks.length; v++) {
+            int mask = masks[v];
+            pa[v] = new int[Integer.bitCount(mask)];
+            for (int m = mask, i = 0; m != 0; m &= m - 1) {
+                pa[v][i++] = Integer.numberOfTrailingZeros(m);
+            }
+        }
+        return pa;
+    }
+
+    /** A DAG as parent bitmasks (n ≤ 31). */
+    static int[] masks(int[][] parents) {
+        int[] m = new int[parents.length];
+        for (int v = 0; v < parents.length; v++) {
+            for (int p : parents[v]) {
+                m[v] |= 1 << p;
+            }
+        }
+        return m;
+    }
+}

@@ -1,0 +1,216 @@
+package org.edgewise.driver.posterior;
+
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.effect.WeightedDags;
+import org.edgewise.driver.score.DagPrior;
+import org.edgewise.driver.store.Manifest;
+
+/**
+ * A posterior sample saved on disk ({@link SampleFile}): the DAGs an earlier request drew, asked
+ * again without sampling. No Rao-Blackwellisation is possible (the orders or partitions behind the
+ * DAGs are not kept), so every figure is a (weighted) frequency over the saved DAGs:
+ * P(a → b) the share of DAGs holding the edge, a child's parent-set posterior the share holding
+ * the set; Monte Carlo errors, split-R̂ and effective sample size are those of the per-DAG
+ * indicator over the chains in draw order ({@link DagDraws#estimate}: independent draws
+ * p(1−p)/K; chains or weights the ratio estimator's, Vehtari et al. 2021). Features and the essential
+ * graph over the DAGs (n ≤ 31 for now); effects over the DAGs with their weights and chains.
+ * Memory: the saved DAGs ({@link DagSample}), and their bitmasks when features are asked.
+ */
+public final class SavedSample implements StructurePosterior {
+    private final LocalScores ls;
+    private final SampleFile.Loaded saved;
+    private final UnknownOrderSettings s;
+    private final DagSample d;
+    private DagDraws masks;
+
+    /**
+     * @param s which features to estimate (null: none); its sampling fields are not used
+     * @throws UserError when a saved DAG holds a parent set the scoring does not allow
+     */
+    SavedSample(LocalScores ls, SampleFile.Loaded saved, UnknownOrderSettings s) {
+        this.ls = ls;
+        this.saved = saved;
+        this.s = s;
+        this.d = saved.dags();
+        if (d.variables() != ls.variableCount()) {
+            throw new UserError("sample " + saved.path() + " holds DAGs over " + d.variables() + " variables, the store has "
+                    + ls.variableCount());
+        }
+    }
+
+    /** The sample as read. */
+    public SampleFile.Loaded saved() {
+        return saved;
+    }
+
+    @Override
+    public LocalScores scores() {
+        return ls;
+    }
+
+    @Override
+    public Labels labels() {
+        String p = saved.info().dagPrior();
+        return new Labels("sample", p == null ? null : DagPrior.parse(p, SampleFile.MANIFEST), saved.info().sampler());
+    }
+
+    @Override
+    public List<List<String>> tiers() {
+        List<List<String>> t = saved.info().tiers();
+        return t == null || t.isEmpty() ? null : t;
+    }
+
+    @Override
+    public int[] order() {
+        List<String> o = saved.info().order();
+        if (o == null) {
+            return null;
+        }
+        Manifest m = ls.store().manifest();
+        int[] out = new int[o.size()];
+        for (int i = 0; i < out.length; i++) {
+            out[i] = m.variableIndex(o.get(i));
+        }
+        return out;
+    }
+
+    /** Whether the saved method was exact sampling of independent DAGs (one chain, no R̂). */
+    private boolean independent() {
+        return d.chains() == 1;
+    }
+
+    @Override
+    public EdgeEstimates edges() {
+        int n = d.variables();
+        double[][] mean = new double[n][n];
+        Estimate[][] est = new Estimate[n][n];
+        for (int b = 0; b < n; b++) {
+            for (int a : ls.candidates(b)) {
+                final int from = a;
+                final int to = b;
+                Estimate e = DagDraws.estimate((c, k) -> Arrays.binarySearch(d.dags()[c][k][to], from) >= 0,
+                        d.chains(), d.perChain(), 1, d.weights());
+                est[a][b] = e;
+                mean[a][b] = e.mean();
+            }
+        }
+        return new EdgeEstimates(mean, est, d.total(), null, null);
+    }
+
+    @Override
+    public double[][] setPosterior() {
+        int n = d.variables();
+        double[][] post = new double[n][];
+        for (int v = 0; v < n; v++) {
+            Map<String, Integer> index = new HashMap<>();
+            for (int set = 0; set < ls.setCount(v); set++) {
+                int[] pa = ls.parents(v, set).clone();
+                Arrays.sort(pa);
+                index.put(Arrays.toString(pa), set);
+            }
+            post[v] = new double[ls.setCount(v)];
+            double total = 0;
+            for (int c = 0; c < d.chains(); c++) {
+                for (int k = 0; k < d.perChain(); k++) {
+                    Integer set = index.get(Arrays.toString(d.dags()[c][k][v]));
+                    if (set == null) {
+                        throw new UserError("sample " + saved.path() + ": chain " + (c + 1) + ", DAG " + (k + 1) + " gives "
+                                + ls.store().variables().get(v).name() + " a parent set the store's scoring does not allow");
+                    }
+                    double w = d.weighted() ? d.weights()[c][k] : 1.0;
+                    post[v][set] += w;
+                    total += w;
+                }
+            }
+            for (int set = 0; set < post[v].length; set++) {
+                post[v][set] /= total;
+            }
+        }
+        return post;
+    }
+
+    /** The DAGs as parent bitmasks for the features of {@link DagDraws} (n ≤ 31). */
+    private DagDraws masks() {
+        if (masks == null) {
+            DagLists.checkDrawable(ls);
+            List<List<int[]>> chains = new ArrayList<>();
+            for (int c = 0; c < d.chains(); c++) {
+                List<int[]> chain = new ArrayList<>(d.perChain());
+                for (int k = 0; k < d.perChain(); k++) {
+                    chain.add(DagSample.masks(d.dags()[c][k]));
+                }
+                chains.add(chain);
+            }
+            masks = new DagDraws(d.variables(), chains, 1, d.weights());
+        }
+        return masks;
+    }
+
+    @Override
+    public Features features() {
+        return s != null && s.features() ? DagLists.features(s, masks()) : null;
+    }
+
+    @Override
+    public DagDraws essentialDraws() {
+        return s != null && s.essentialGraph() ? masks() : null;
+    }
+
+    @Override
+    public Cases cases(double tailMass, long maxHiddenStates) {
+        throw new UserError("predictions from a saved sample are not available yet (per-DAG inference is issue 19, point 3): "
+                + "predict over the store with the method the sample was drawn with");
+    }
+
+    @Override
+    public EffectSource effectSource() {
+        SampleFile.Info i = saved.info();
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse)", d.total(),
+                saved.path(), i.sampler());
+        return new OverDags(new Saved(), over, i.diagnostics() == null ? null : i.diagnostics().converged(),
+                i.diagnostics() == null ? null : i.diagnostics().maxRhat());
+    }
+
+    @Override
+    public Sampled sampleDags(int count, long seed) {
+        return new Sampled(d, saved.info().sampler());
+    }
+
+    /** The saved DAGs as the effect engine averages over them: weights as saved, chains kept apart. */
+    private final class Saved implements WeightedDags {
+        @Override
+        public int size() {
+            return (int) d.total();
+        }
+
+        @Override
+        public int[][] parents(int g) {
+            return d.dags()[g / d.perChain()][g % d.perChain()];
+        }
+
+        @Override
+        public double weight(int g) {
+            return d.weighted() ? d.weights()[g / d.perChain()][g % d.perChain()] : 1.0;
+        }
+
+        @Override
+        public boolean sampled() {
+            return true;
+        }
+
+        @Override
+        public int chains() {
+            return independent() ? 0 : d.chains();
+        }
+    }
+}
