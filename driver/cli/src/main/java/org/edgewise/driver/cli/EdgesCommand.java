@@ -12,6 +12,7 @@ import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EdgeAnalysis;
 import org.edgewise.driver.analysis.Scoring;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.Fragility;
 import org.edgewise.driver.result.ResultJson;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
@@ -104,7 +105,16 @@ public final class EdgesCommand implements Callable<Integer> {
         for (String v : r.variables()) {
             width = Math.max(width, v.length());
         }
-        sb.append('\n').append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s", "from", "to", "posterior"));
+        if (r.order() == null) {
+            sb.append(UnknownOrderEdges.adjacencies(r, width));
+            sb.append(UnknownOrderEdges.compelled(r, width));
+            sb.append(String.format(Locale.ROOT, "%nDirected edges P(a -> b): their directions depend on the DAG prior (%s) "
+                    + "and are identifiable from the data only where compelled%n", r.dagPrior()));
+        } else {
+            sb.append(String.format(Locale.ROOT, "%nDirected edges P(a -> b) given the order: the order fixes every direction "
+                    + "(an assumption you made, not learned from the data)%n"));
+        }
+        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s", "from", "to", "posterior"));
         if (sweep) {
             for (EdgeResult.Sensitivity x : r.sensitivity()) {
                 sb.append(String.format(Locale.ROOT, "  %9s", "ESS " + num(x.ess())));
@@ -127,6 +137,7 @@ public final class EdgesCommand implements Callable<Integer> {
         }
         sb.append(String.format(Locale.ROOT, "  (%d of %d ordered pairs shown: posterior >= 0.001, at most %d; the JSON lists every pair)%n",
                 shown, sorted.size(), TABLE_EDGES));
+        sb.append(fragility(r));
         if (r.parentSets() != null) {
             sb.append("\nMost probable parent sets\n");
             for (EdgeResult.VariableParents vp : r.parentSets()) {
@@ -144,9 +155,44 @@ public final class EdgesCommand implements Callable<Integer> {
                 sb.append(String.format(Locale.ROOT, "  %-" + width + "s  <- {%s}%n", e.getKey(), String.join(", ", e.getValue())));
             }
         }
-        sb.append("\nAn edge posterior is evidence of statistical dependence under the stated assumptions (this order,\n"
-                + "d, score and prior), not proof of causation. Interpret it with domain experts.\n");
+        sb.append(r.order() != null
+                ? "\nAn edge posterior is evidence of statistical dependence under the stated assumptions (this order,\n"
+                        + "d, score and prior), not proof of causation. Interpret it with domain experts.\n"
+                : "\nAn edge posterior is evidence of statistical dependence under the stated assumptions (d, score,\n"
+                        + "prior and DAG prior), not proof of causation; even a compelled direction is causal only under\n"
+                        + "further assumptions (no hidden common causes, no selection). Interpret it with domain experts.\n");
         return sb.toString();
+    }
+
+    /**
+     * The fragility lines of a swept result: one line per headline edge or compelled direction whose
+     * posterior crosses 0.5 within the ESS sweep, or a line saying none does; nothing without a sweep.
+     */
+    static String fragility(EdgeResult r) {
+        List<EdgeResult.Fragile> fragile = r.fragile() != null ? r.fragile() : Fragility.of(r);
+        if (fragile == null) {
+            return "";
+        }
+        StringBuilder sb = new StringBuilder("\n");
+        if (fragile.isEmpty()) {
+            List<Double> ess = new ArrayList<>();
+            ess.add(r.settings().ess());
+            for (EdgeResult.Sensitivity x : r.sensitivity()) {
+                ess.add(x.ess());
+            }
+            ess.sort(null);
+            List<String> words = new ArrayList<>();
+            for (double e : ess) {
+                words.add(num(e));
+            }
+            return sb.append(String.format(Locale.ROOT, "no headline edge%s crosses 0.5 under the ESS sweep (ESS %s)%n",
+                    r.essentialGraph() != null ? " or compelled direction" : "", String.join(", ", words))).toString();
+        }
+        for (EdgeResult.Fragile f : fragile) {
+            sb.append("fragile under the ESS sweep: ").append(Fragility.words(f, "->")).append('\n');
+        }
+        return sb.append("  (a headline posterior >= 0.5 that falls below 0.5 at another ESS: the choice of ESS, not the data, settles it)\n")
+                .toString();
     }
 
     private static double find(List<EdgeResult.Edge> edges, String from, String to) {

@@ -1,8 +1,10 @@
 package org.edgewise.driver.cli;
 
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EdgeResult;
 
@@ -22,6 +24,85 @@ final class UnknownOrderEdges {
     /** {@code x} without trailing zeros: 1.01, 0.01, 400. */
     static String trim(double x) {
         return java.math.BigDecimal.valueOf(x).stripTrailingZeros().toPlainString();
+    }
+
+    /**
+     * The adjacency (skeleton) posteriors P(a -- b) = P(a -> b) + P(b -> a) of every unordered pair,
+     * most probable first: what the data fix best, whatever the directions.
+     */
+    static String adjacencies(EdgeResult r, int width) {
+        Map<String, Double> p = new HashMap<>();
+        for (EdgeResult.Edge e : r.edges()) {
+            p.put(e.from() + "\u0000" + e.to(), e.posterior());
+        }
+        List<String[]> pairs = new ArrayList<>();
+        List<Double> adj = new ArrayList<>();
+        List<String> v = r.variables();
+        for (int a = 0; a < v.size(); a++) {
+            for (int b = a + 1; b < v.size(); b++) {
+                double x = p.getOrDefault(v.get(a) + "\u0000" + v.get(b), 0.0) + p.getOrDefault(v.get(b) + "\u0000" + v.get(a), 0.0);
+                pairs.add(new String[] {v.get(a), v.get(b)});
+                adj.add(Math.min(1.0, x));
+            }
+        }
+        Integer[] idx = new Integer[pairs.size()];
+        for (int i = 0; i < idx.length; i++) {
+            idx[i] = i;
+        }
+        java.util.Arrays.sort(idx, (x, y) -> Double.compare(adj.get(y), adj.get(x)));
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%nAdjacencies P(a -- b) = P(a -> b) + P(b -> a), most probable first "
+                + "(the skeleton: the same whichever way the edges point)%n"));
+        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s%n", "a", "b", "adjacent"));
+        int shown = 0;
+        for (int i : idx) {
+            if (shown == TABLE_PAIRS || adj.get(i) < 0.001) {
+                break;
+            }
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -- %-" + width + "s  %9.4f%n", pairs.get(i)[0], pairs.get(i)[1], adj.get(i)));
+            shown++;
+        }
+        sb.append(String.format(Locale.ROOT, "  (%d of %d unordered pairs shown: adjacent >= 0.001, at most %d)%n", shown, pairs.size(), TABLE_PAIRS));
+        return sb.toString();
+    }
+
+    /**
+     * The compelled directions P(a -> b compelled), most probable first, when the essential graph
+     * was computed; else one line naming how to compute it.
+     */
+    static String compelled(EdgeResult r, int width) {
+        if (r.essentialGraph() == null) {
+            return String.format(Locale.ROOT, "%nCompelled directions: not computed (add --features essential-graph to see "
+                    + "which directions the data fix)%n");
+        }
+        List<String[]> dirs = new ArrayList<>();
+        List<Double> p = new ArrayList<>();
+        for (EdgeResult.EssentialPair x : r.essentialGraph()) {
+            dirs.add(new String[] {x.a(), x.b()});
+            p.add(x.aToB());
+            dirs.add(new String[] {x.b(), x.a()});
+            p.add(x.bToA());
+        }
+        Integer[] idx = new Integer[dirs.size()];
+        for (int i = 0; i < idx.length; i++) {
+            idx[i] = i;
+        }
+        java.util.Arrays.sort(idx, (x, y) -> Double.compare(p.get(y), p.get(x)));
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%nCompelled directions P(a -> b compelled): the same in every DAG of the "
+                + "equivalence class (DAGs drawn from the posterior: Monte Carlo estimates)%n"));
+        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s%n", "from", "to", "compelled"));
+        int shown = 0;
+        for (int i : idx) {
+            if (shown == TABLE_PAIRS || p.get(i) < 0.01) {
+                break;
+            }
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -> %-" + width + "s  %9.4f%n", dirs.get(i)[0], dirs.get(i)[1], p.get(i)));
+            shown++;
+        }
+        sb.append(shown == 0 ? String.format(Locale.ROOT, "  (none with P(compelled) >= 0.01: the data fix no direction here)%n")
+                : String.format(Locale.ROOT, "  (%d shown: P(compelled) >= 0.01, at most %d)%n", shown, TABLE_PAIRS));
+        return sb.toString();
     }
 
     /** Pairs shown in the essential-graph table. */

@@ -8,10 +8,12 @@ import com.fasterxml.jackson.databind.JsonNode;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.HashSet;
+import java.util.List;
 import java.util.Set;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.ScoreStore;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
@@ -91,6 +93,140 @@ class EdgesCommandTest extends StoreFixture {
         assertTrue(r.out().contains("Best single network under the order"));
         assertTrue(r.out().contains("ESS 4"));
         assertTrue(r.out().contains("not proof of causation"));
+    }
+
+    /** The lines that lead the table over unknown orders (exact: the adjacencies are sums, not samples). */
+    private static final String HEAD = """
+            Edge posteriors (exact; DAG prior structure-modular; score bdeu, ESS 1, prior uniform, d = 2)
+            log evidence -289.042739 (structure-modular: prior over the admitted DAGs, each counted once)
+
+            Adjacencies P(a -- b) = P(a -> b) + P(b -> a), most probable first (the skeleton: the same whichever way the edges point)
+              a       b      adjacent
+              v2   -- v3       0.9999
+              v2   -- v4       0.9999
+              v1   -- v2       0.9866
+              v0   -- v1       0.9635
+              v3   -- v4       0.9553
+              v0   -- v3       0.9236
+              v0   -- v2       0.0412
+              v1   -- v3       0.0019
+              v0   -- v4       0.0014
+              (9 of 10 unordered pairs shown: adjacent >= 0.001, at most 40)
+            """;
+
+    private static final String DIRECTED = """
+
+            Directed edges P(a -> b): their directions depend on the DAG prior (structure-modular) and are identifiable from the data only where compelled
+              from    to    posterior    ESS 0.1     ESS 10
+            """;
+
+    @Test
+    void unknownOrdersLeadWithAdjacenciesAndCompelledDirectionsAndFlagWhatTheEssSweepFlips() throws Exception {
+        // a store whose data show a v-structure v1 -> v2 <- v3, so that directions are compelled
+        Path s2 = dir.resolve("v-structure");
+        CliRun.store(s2, 2L, 2);
+        String[] args = {"edges", "--store", s2.toString(), "--method", "exact", "--ess", "1,0.1,10",
+                "--features", "essential-graph", "--dag-samples", "2000", "--seed", "3"};
+        CliRun r = CliRun.of(args);
+        assertEquals(0, r.status(), r.err());
+        String out = r.out();
+        assertTrue(out.startsWith(HEAD + """
+
+                Compelled directions P(a -> b compelled): the same in every DAG of the equivalence class (DAGs drawn from the posterior: Monte Carlo estimates)
+                  from    to    compelled
+                  v1   -> v2       0.9055
+                  v3   -> v2       0.9055
+                  v2   -> v4       0.9055
+                  v3   -> v4       0.8615
+                  (4 shown: P(compelled) >= 0.01, at most 40)
+                """ + DIRECTED), out);
+        assertTrue(out.contains("""
+
+                fragile under the ESS sweep: v1 -> v2 0.93 (0.93 at ESS 1, 0.46 at ESS 10)
+                fragile under the ESS sweep: v3 -> v4 0.91 (0.91 at ESS 1, 0.17 at ESS 0.1)
+                fragile under the ESS sweep: v0 -> v1 0.62 (0.62 at ESS 1, 0.30 at ESS 10)
+                fragile under the ESS sweep: v0 -> v3 0.61 (0.61 at ESS 1, 0.24 at ESS 10)
+                fragile under the ESS sweep: v1 -> v2 compelled 0.91 (0.91 at ESS 1, 0.24 at ESS 10)
+                fragile under the ESS sweep: v2 -> v4 compelled 0.91 (0.91 at ESS 1, 0.25 at ESS 10)
+                fragile under the ESS sweep: v3 -> v2 compelled 0.91 (0.91 at ESS 1, 0.24 at ESS 10)
+                fragile under the ESS sweep: v3 -> v4 compelled 0.86 (0.86 at ESS 1, 0.12 at ESS 0.1)
+                  (a headline posterior >= 0.5 that falls below 0.5 at another ESS: the choice of ESS, not the data, settles it)
+                """), out);
+        assertFalse(out.contains("fragile under the ESS sweep: v2 -> v4 0.97"), "v2 -> v4 stays above 0.5 at every ESS");
+        assertTrue(out.endsWith("""
+                An edge posterior is evidence of statistical dependence under the stated assumptions (d, score,
+                prior and DAG prior), not proof of causation; even a compelled direction is causal only under
+                further assumptions (no hidden common causes, no selection). Interpret it with domain experts.
+                """), out);
+
+        // the same run as JSON: the fragile list the text printed, each sweep entry with its essential graph
+        Path json = dir.resolve("v.json");
+        String[] withOut = java.util.Arrays.copyOf(args, args.length + 2);
+        withOut[args.length] = "--out";
+        withOut[args.length + 1] = json.toString();
+        CliRun j = CliRun.of(withOut);
+        assertEquals(0, j.status(), j.err());
+        JsonNode root = JSON.readTree(Files.readString(json));
+        JsonNode fragile = root.get("fragile");
+        assertEquals(8, fragile.size());
+        assertEquals("{\"kind\":\"edge\",\"from\":\"v1\",\"to\":\"v2\",\"posterior\":" + find(root, "v1", "v2")
+                + ",\"ess\":1.0,\"min\":" + find(root.get("sensitivity").get(1), "v1", "v2") + ",\"minEss\":10.0,\"max\":"
+                + find(root, "v1", "v2") + ",\"maxEss\":1.0}", fragile.get(0).toString());
+        assertEquals("compelled", fragile.get(4).get("kind").asText());
+        assertEquals(10, root.get("sensitivity").get(0).get("essentialGraph").size());
+
+        // the report of that result flags them in its cautions and its summary
+        Path html = dir.resolve("v.html");
+        CliRun rep = CliRun.of("report", "--result", json.toString(), "--out", html.toString());
+        assertEquals(0, rep.status(), rep.err());
+        String page = Files.readString(html);
+        assertTrue(page.contains("<li><b>Fragile under the ESS sweep:</b> v1 \u2192 v2 0.93 (0.93 at ESS 1, 0.46 at ESS 10); "), page);
+        assertTrue(page.contains("<tr><th>fragile under the ESS sweep</th><td><b>v1 \u2192 v2 0.93"), page);
+
+        // without the essential graph: compelled directions not computed, and said so
+        CliRun plain = CliRun.of("edges", "--store", s2.toString(), "--method", "exact", "--ess", "1,0.1,10");
+        assertEquals(0, plain.status(), plain.err());
+        assertTrue(plain.out().startsWith(HEAD + """
+
+                Compelled directions: not computed (add --features essential-graph to see which directions the data fix)
+                """ + DIRECTED), plain.out());
+    }
+
+    @Test
+    void givenAnOrderTheOrderFixesTheDirectionsAndSaysSo() {
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--order", ORDER);
+        assertEquals(0, r.status(), r.err());
+        assertFalse(r.out().contains("Adjacencies"));
+        assertTrue(r.out().contains("""
+
+                Directed edges P(a -> b) given the order: the order fixes every direction (an assumption you made, not learned from the data)
+                  from    to    posterior
+                """), r.out());
+        assertTrue(r.out().contains("(this order,\nd, score and prior), not proof of causation."), r.out());
+    }
+
+    @Test
+    void fragilityOfAConstructedResultWordForWord() {
+        // a -> b (0.9) falls to 0.3 at ESS 10 and the compelled a -> c (0.8) to 0.4 at ESS 0.1: flagged;
+        // b -> c (0.6) stays above 0.5 at every ESS and the compelled b -> c (0.55) too: not flagged
+        EdgeResult swept = org.edgewise.driver.result.FragilityTest.swept();
+        assertEquals("""
+
+                fragile under the ESS sweep: a -> b 0.90 (0.95 at ESS 0.1, 0.30 at ESS 10)
+                fragile under the ESS sweep: a -> c compelled 0.80 (0.85 at ESS 10, 0.40 at ESS 0.1)
+                  (a headline posterior >= 0.5 that falls below 0.5 at another ESS: the choice of ESS, not the data, settles it)
+                """, EdgesCommand.fragility(swept));
+        assertTrue(EdgesCommand.table(swept, true).contains(EdgesCommand.fragility(swept)));
+        // a sweep in which nothing crosses
+        EdgeResult calm = new EdgeResult(swept.method(), swept.variables(), swept.logEvidence(), null, swept.evidenceConvention(),
+                null, swept.settings(), null, swept.edges(), null, null, null, null,
+                List.of(new EdgeResult.Sensitivity(4, null, swept.edges(), swept.essentialGraph())), swept.dagPrior(),
+                swept.essentialGraph());
+        assertEquals("\nno headline edge or compelled direction crosses 0.5 under the ESS sweep (ESS 1, 4)\n",
+                EdgesCommand.fragility(calm));
+        // no sweep: nothing
+        assertEquals("", EdgesCommand.fragility(new EdgeResult(swept.method(), swept.variables(), null, null, null, null,
+                swept.settings(), null, swept.edges(), null, null, null, null, null, swept.dagPrior(), null)));
     }
 
     @Test

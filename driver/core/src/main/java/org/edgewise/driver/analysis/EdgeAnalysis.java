@@ -14,6 +14,7 @@ import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.Fragility;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.mcmc.McmcResult;
@@ -23,7 +24,8 @@ import org.edgewise.driver.average.mcmc.McmcResult;
  * posteriors, features and diagnostics and assembles the {@link EdgeResult} — the same assembly
  * whatever the source of structures. With several scoring options (in practice several ESS values,
  * to which BDeu results are known to be sensitive — Silander, Kontkanen &amp; Myllymäki 2007) the
- * first gives the result and every further one a {@link EdgeResult.Sensitivity} entry beside it.
+ * first gives the result and every further one a {@link EdgeResult.Sensitivity} entry beside it,
+ * and the headline posteriors that cross 0.5 within the sweep are listed as fragile ({@link Fragility}).
  * A Monte Carlo estimate of exactly 0 or 1 reports the rule-of-three bound 3/K as its error
  * ({@link McseBound}), not 0; pairs that cannot be edges at all (no candidate) are exactly 0 with error 0.
  */
@@ -74,16 +76,17 @@ public final class EdgeAnalysis {
             if (primary == null) {
                 primary = r;
             } else {
-                sens.add(new EdgeResult.Sensitivity(ls.familyScore().ess(), r.logEvidence(), r.edges()));
+                sens.add(new EdgeResult.Sensitivity(ls.familyScore().ess(), r.logEvidence(), r.edges(), r.essentialGraph()));
             }
         }
         if (sens.isEmpty()) {
             return primary;
         }
-        return new EdgeResult(primary.method(), primary.variables(), primary.logEvidence(), primary.logEvidenceNormalized(),
+        EdgeResult swept = new EdgeResult(primary.method(), primary.variables(), primary.logEvidence(), primary.logEvidenceNormalized(),
                 primary.evidenceConvention(), primary.order(), primary.settings(), primary.store(), primary.edges(),
                 primary.parentSets(), primary.bestNetwork(), primary.diagnostics(), primary.features(), sens,
                 primary.dagPrior(), primary.essentialGraph());
+        return swept.withFragile(Fragility.of(swept));
     }
 
     /** The edges of {@code ls} over unknown orders as {@code s} says (the Java API's one-call form). */

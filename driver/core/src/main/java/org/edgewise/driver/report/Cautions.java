@@ -3,14 +3,16 @@ package org.edgewise.driver.report;
 import static org.edgewise.driver.report.Html.esc;
 import static org.edgewise.driver.report.Html.f;
 
+import java.util.List;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.Fragility;
 
 /**
  * The report's "Read this first" box and the consensus graph's caption: what an edge posterior
  * means (evidence of statistical dependence under stated assumptions, not causation), which DAG
  * prior the result was computed under (DESIGN.md, "DAG priors over unknown orders"), and how
  * far its directions can be read (essential graph: Chickering 1995; Andersson, Madigan &amp;
- * Perlman 1997).
+ * Perlman 1997), and which headline posteriors are fragile under the ESS sweep.
  */
 final class Cautions {
     private Cautions() {
@@ -29,8 +31,33 @@ final class Cautions {
                 .append("<li>").append(dagPrior(r)).append("</li>\n")
                 .append("<li>").append(directions(ce, hint)).append("</li>\n")
                 .append("<li>The posteriors can change with the ESS and the prior; see the sensitivity section when present.</li>\n")
+                .append(fragile(r))
                 .append("<li><b>Results can inform decisions about health or safety only together with domain experts and "
                         + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</div>\n");
+    }
+
+    /**
+     * The fragility bullet (HTML) when a headline edge or compelled direction crosses 0.5 within the
+     * ESS sweep ({@link Fragility}); empty otherwise.
+     */
+    static String fragile(EdgeResult r) {
+        List<EdgeResult.Fragile> fr = fragileOf(r);
+        if (fr == null || fr.isEmpty()) {
+            return "";
+        }
+        StringBuilder sb = new StringBuilder("<li><b>Fragile under the ESS sweep:</b> ");
+        for (int i = 0; i < fr.size(); i++) {
+            sb.append(i == 0 ? "" : "; ").append(esc(Fragility.words(fr.get(i), "\u2192")));
+        }
+        return sb.append(". ").append(fr.size() == 1 ? "This posterior is" : "These posteriors are")
+                .append(" above 0.5 in the result but below 0.5 at another equivalent sample size: the choice of ESS, not the data, "
+                        + "decides whether ").append(fr.size() == 1 ? "it" : "they").append(" would be drawn. Treat ")
+                .append(fr.size() == 1 ? "it" : "them").append(" as unsettled.</li>\n").toString();
+    }
+
+    /** The result's fragility list, computed from its sweep for a result written without one. */
+    static List<EdgeResult.Fragile> fragileOf(EdgeResult r) {
+        return r.fragile() != null ? r.fragile() : Fragility.of(r);
     }
 
     /** The DAG-prior sentence (HTML). */

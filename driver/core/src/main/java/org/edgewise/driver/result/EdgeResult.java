@@ -26,6 +26,10 @@ import java.util.Map;
  *                               {@code average.DagPrior}); {@code "either (order given)"} given an
  *                               order, where both coincide
  * @param essentialGraph         essential-graph features per unordered pair, when asked
+ * @param fragile                with an ESS sweep: the headline edges (posterior ≥ 0.5) and compelled
+ *                               directions (P(compelled) ≥ 0.5) whose posterior falls below 0.5 at
+ *                               another ESS of the sweep ({@link Fragility}); empty when none does,
+ *                               null without a sweep. Older readers ignore it (no format-version change).
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -34,7 +38,24 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          List<VariableParents> parentSets, Network bestNetwork,
                          Diagnostics diagnostics, List<Feature> features,
                          List<Sensitivity> sensitivity, String dagPrior,
-                         List<EssentialPair> essentialGraph) implements JsonResult {
+                         List<EssentialPair> essentialGraph, List<Fragile> fragile) implements JsonResult {
+    /** A result without the {@code fragile} list (computed by {@link Fragility} once the sweep is in). */
+    public EdgeResult(String method, List<String> variables, Double logEvidence,
+                      Double logEvidenceNormalized, String evidenceConvention, List<String> order,
+                      Settings settings, Provenance store, List<Edge> edges,
+                      List<VariableParents> parentSets, Network bestNetwork,
+                      Diagnostics diagnostics, List<Feature> features,
+                      List<Sensitivity> sensitivity, String dagPrior,
+                      List<EssentialPair> essentialGraph) {
+        this(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings, store, edges,
+                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, null);
+    }
+
+    /** The same result with {@code fragile} as its fragility list. */
+    public EdgeResult withFragile(List<Fragile> fragile) {
+        return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
+                store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile);
+    }
     @Override
     public String kind() {
         return "edges";
@@ -154,6 +175,24 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     public record Feature(String kind, String from, String to, double posterior, Double mcse) {
     }
 
-    public record Sensitivity(double ess, Double logEvidence, List<Edge> edges) {
+    /**
+     * The result at another ESS of a sweep: its log evidence, edges and, when the essential graph
+     * was computed, its essential-graph features (null otherwise, and in results written before).
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record Sensitivity(double ess, Double logEvidence, List<Edge> edges, List<EssentialPair> essentialGraph) {
+        public Sensitivity(double ess, Double logEvidence, List<Edge> edges) {
+            this(ess, logEvidence, edges, null);
+        }
+    }
+
+    /**
+     * A headline posterior that crosses 0.5 within the ESS sweep: {@code kind} {@code edge}
+     * (P(from → to)) or {@code compelled} (P(from → to compelled in the essential graph));
+     * {@code posterior} at the result's own ESS ({@code ess}); {@code min} and {@code max} over
+     * every ESS of the sweep (the result's own included), reached at {@code minEss} and {@code maxEss}.
+     */
+    public record Fragile(String kind, String from, String to, double posterior, Double ess,
+                          double min, double minEss, double max, double maxEss) {
     }
 }

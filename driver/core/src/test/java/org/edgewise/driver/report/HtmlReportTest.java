@@ -156,4 +156,21 @@ class HtmlReportTest {
         assertTrue(html.contains("<tr><td>a \u2192 b</td>"));
         assertFalse(html.contains("<tr><td>b \u2192 c</td>"));
     }
+
+    @Test
+    void fragileHeadlinePosteriorsInTheCautionsAndTheSummary() {
+        String html = HtmlReport.render(org.edgewise.driver.result.FragilityTest.swept(), "r.json", null, null, 0.5);
+        assertTrue(html.contains("<li><b>Fragile under the ESS sweep:</b> a \u2192 b 0.90 (0.95 at ESS 0.1, 0.30 at ESS 10); "
+                + "a \u2192 c compelled 0.80 (0.85 at ESS 10, 0.40 at ESS 0.1). These posteriors are above 0.5 in the result but "
+                + "below 0.5 at another equivalent sample size: the choice of ESS, not the data, decides whether they would be "
+                + "drawn. Treat them as unsettled.</li>"), html);
+        assertTrue(html.contains("<tr><th>fragile under the ESS sweep</th><td><b>a \u2192 b 0.90 (0.95 at ESS 0.1, 0.30 at ESS 10)"
+                + "<br>a \u2192 c compelled 0.80 (0.85 at ESS 10, 0.40 at ESS 0.1)</b> (above 0.5 here, below 0.5 at another ESS)"
+                + "</td></tr>"), html);
+        assertFalse(html.contains("b \u2192 c 0.60"), "b -> c stays above 0.5 across the sweep");
+        assertTrue(html.contains("not proof of causation"));
+        // without a sweep: no row, no bullet
+        String plain = HtmlReport.render(ReportFixtures.tiny(List.of("a", "b", "c")), "r.json", null, null, 0.5);
+        assertFalse(plain.contains("fragile under the ESS sweep") || plain.contains("Fragile under the ESS sweep"));
+    }
 }
