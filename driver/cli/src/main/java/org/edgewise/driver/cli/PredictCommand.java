@@ -95,6 +95,8 @@ public final class PredictCommand implements Callable<Integer> {
                 "every case is already exact there, Z(D + case) / Z(D) over all DAGs");
         Checks.notApplicable(tailMass != null && what.method() == Averaging.Method.EXACT && what.dagPrior() == DagPrior.STRUCTURE_MODULAR,
                 "--tail-mass", "with --method exact --dag-prior structure-modular", "no parent set is skipped in the exact sum over every DAG");
+        Checks.notApplicable(tailMass != null && what.sample() != null, "--tail-mass", "with --sample",
+                "each saved DAG is used with its own parents; no parent set is skipped");
         PredictionAnalysis.Answer a = PredictionAnalysis.run(new PredictionAnalysis.Request(scoring, what, caseText, casesFile,
                 givenText, tail, maxHiddenStates, exactCases), ProgressBars.onTerminal());
         PrintWriter err = spec.commandLine().getErr();

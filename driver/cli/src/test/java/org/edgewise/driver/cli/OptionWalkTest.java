@@ -89,9 +89,7 @@ class OptionWalkTest extends StoreFixture {
             if (cmd.equals("edges")) {
                 bs.add(base("mcmc until converged", with(q, MCMC_UNTIL)));
             }
-            if (!cmd.equals("predict")) { // predictions from a saved sample are refused for now (issue 19, point 3)
-                bs.add(base("saved sample", with(q, "--sample", "@SAMPLE")));
-            }
+            bs.add(base("saved sample", with(q, "--sample", "@SAMPLE")));
             BASELINES.put(cmd, bs);
         }
         BASELINES.put("scores", List.of(base("stored", st)));

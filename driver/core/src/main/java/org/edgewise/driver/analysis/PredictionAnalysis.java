@@ -22,7 +22,6 @@ import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CaseTable;
 import org.edgewise.driver.query.ExactCasePrediction;
-import org.edgewise.driver.query.OrderMixture;
 import org.edgewise.driver.result.Prediction;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.Manifest;
@@ -98,13 +97,14 @@ public final class PredictionAnalysis {
                     "averaged over orders (" + EXACT_CASES_OVER + "; order-modular DAG prior) and their networks:", cases.bestLabel(), true);
         }
         CaseProbability avg = cases.averaged();
-        CasePredictor best = CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
+        CaseProbability best = cases.best() != null ? cases.best()
+                : CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
         EdgeResult.Diagnostics diagnostics = p.chains() == null ? null : ChainReport.diagnostics(p.chains(), settings);
         if (given != null) {
             checkEvidence(avg, given, r.givenText(), in);
             checkEvidence(best, given, r.givenText(), in);
         }
-        OrderMixture sampled = exact == null && avg instanceof OrderMixture mix && mix.sampled() ? mix : null;
+        CaseProbability sampled = exact == null && avg.sampled() ? avg : null;
         Scope scope = new Scope(m, ls, p, cases, best, exact, sampled, diagnostics);
         return single != null ? scope.one(single, given) : scope.batch(table, given, r.casesFile(), progress);
     }
@@ -116,8 +116,8 @@ public final class PredictionAnalysis {
     }
 
     /** Everything one request's answers are computed from. */
-    private record Scope(Manifest m, LocalScores ls, StructurePosterior p, StructurePosterior.Cases cases, CasePredictor best,
-                         ExactCasePrediction exact, OrderMixture sampled, EdgeResult.Diagnostics diagnostics) {
+    private record Scope(Manifest m, LocalScores ls, StructurePosterior p, StructurePosterior.Cases cases, CaseProbability best,
+                         ExactCasePrediction exact, CaseProbability sampled, EdgeResult.Diagnostics diagnostics) {
 
         Answer one(int[] target, int[] given) {
             CaseProbability avg = cases.averaged();

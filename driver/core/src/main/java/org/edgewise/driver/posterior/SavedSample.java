@@ -12,6 +12,7 @@ import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.effect.WeightedDags;
+import org.edgewise.driver.query.DagMixture;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.store.Manifest;
 
@@ -168,8 +169,55 @@ public final class SavedSample implements StructurePosterior {
 
     @Override
     public Cases cases(double tailMass, long maxHiddenStates) {
-        throw new UserError("predictions from a saved sample are not available yet (per-DAG inference is issue 19, point 3): "
-                + "predict over the store with the method the sample was drawn with");
+        int k = (int) d.total();
+        int[][][] dags = new int[k][][];
+        double[] w = d.weighted() ? new double[k] : null;
+        for (int g = 0; g < k; g++) {
+            dags[g] = d.dags()[g / d.perChain()][g % d.perChain()];
+            if (w != null) {
+                w[g] = d.weights()[g / d.perChain()][g % d.perChain()];
+            }
+        }
+        long limit = Math.min(maxHiddenStates, MAX_TABLE);
+        String where = "sample " + saved.path();
+        DagMixture mix = new DagMixture(ls.store(), ls.familyScore(), dags, w, independent() ? 0 : d.chains(), limit,
+                ls.options().names(), where);
+        int[][] mode = mix.mode();
+        DagMixture best = new DagMixture(ls.store(), ls.familyScore(), new int[][][] {mode}, null, 0, limit,
+                ls.options().names(), where);
+        String prior = labels().dagPriorLabel("order-given");
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s), %d distinct; sampled", k, saved.path(),
+                saved.info().sampler(), mix.size());
+        return new Cases(mix, topological(mode), over, "sampled DAGs", k,
+                "averaged over the sample's DAGs (" + over + "; " + prior + " DAG prior), each by exact inference with "
+                        + "posterior-mean parameters:",
+                "under the most frequent DAG of the sample:", false, best);
+    }
+
+    /** The largest elimination table a saved-sample prediction builds (entries; 8 bytes each). */
+    static final long MAX_TABLE = 1L << 25;
+
+    /** An order of the variables in which every parent comes before its children. */
+    private static int[] topological(int[][] parents) {
+        int n = parents.length;
+        int[] out = new int[n];
+        boolean[] placed = new boolean[n];
+        int m = 0;
+        while (m < n) {
+            for (int v = 0; v < n; v++) {
+                if (!placed[v]) {
+                    boolean ready = true;
+                    for (int p : parents[v]) {
+                        ready &= placed[p];
+                    }
+                    if (ready) {
+                        placed[v] = true;
+                        out[m++] = v;
+                    }
+                }
+            }
+        }
+        return out;
     }
 
     @Override

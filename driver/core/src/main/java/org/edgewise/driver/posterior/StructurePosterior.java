@@ -169,9 +169,16 @@ public sealed interface StructurePosterior permits GivenOrder, UnknownOrders, Sa
      * @param averagedLabel how a line for people introduces the averaged probability ("averaged over …:")
      * @param bestLabel     how it introduces the single best network's probability ("under the single best network:")
      * @param exactRatio    whether a case's probability is computed as the exact ratio Z(D + case) / Z(D)
+     * @param best          the single network to compare with, when the source names one itself (a saved
+     *                      sample: its most frequent DAG); null: the best network under {@code bestOrder}
      */
     record Cases(CaseProbability averaged, int[] bestOrder, String over, String averagedOver, Integer samples,
-                 String averagedLabel, String bestLabel, boolean exactRatio) {
+                 String averagedLabel, String bestLabel, boolean exactRatio, CaseProbability best) {
+        public Cases(CaseProbability averaged, int[] bestOrder, String over, String averagedOver, Integer samples,
+                     String averagedLabel, String bestLabel, boolean exactRatio) {
+            this(averaged, bestOrder, over, averagedOver, samples, averagedLabel, bestLabel, exactRatio, null);
+        }
+
         /** A mixture over sampled or enumerated orders (or partitions, {@code unit}), under {@code prior}. */
         static Cases mixture(OrderMixture mix, String over, DagPrior prior, String unit) {
             return new Cases(mix, mix.bestOrder(), over, (mix.sampled() ? "sampled " : "all ") + unit,

@@ -19,4 +19,14 @@ public interface CaseProbability {
 
     /** Parent-set posterior mass skipped (0 = exact). */
     double skippedMass();
+
+    /** Whether the probability is a Monte Carlo estimate (then {@link #mcse} gives its error). */
+    default boolean sampled() {
+        return false;
+    }
+
+    /** The Monte Carlo standard error of P(target | D) or P(target | given, D); NaN when not sampled. */
+    default double mcse(int[] target, int[] given) {
+        return Double.NaN;
+    }
 }

@@ -113,6 +113,7 @@ public final class OrderMixture implements CaseProbability {
     }
 
     /** Whether the orders were sampled (then every probability has a Monte Carlo error, {@link #mcse}). */
+    @Override
     public boolean sampled() {
         return draws > 0;
     }
@@ -133,6 +134,7 @@ public final class OrderMixture implements CaseProbability {
      * computed on values scaled by their means, so tiny probabilities do not underflow. For orders
      * from MCMC the draws are correlated and this understates the error.
      */
+    @Override
     public double mcse(int[] target, int[] given) {
         if (draws < 2) {
             return draws == 0 ? Double.NaN : Double.POSITIVE_INFINITY;
