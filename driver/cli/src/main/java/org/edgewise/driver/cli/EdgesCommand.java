@@ -7,6 +7,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
+import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EdgeAnalysis;
@@ -59,16 +60,18 @@ public final class EdgesCommand implements Callable<Integer> {
         Scoring scoring = averaging.scoring();
         Averaging what = averaging.averaging("averaging", true, false);
         PrintWriter err = spec.commandLine().getErr();
+        boolean allow = averaging.unknown.allowUnconverged;
         EdgeResult result = EdgeAnalysis.run(scoring, what, topParents, ProgressBars.onTerminal(), r -> {
             if (r.diagnostics() != null && !r.diagnostics().converged()) {
-                err.println(UnknownOrderEdges.notConverged("edges", r.diagnostics()));
+                err.println(UnknownOrderEdges.notConverged("edges", r.diagnostics(), allow));
             }
         });
+        int status = ErrorReport.finished(result.diagnostics() == null ? null : result.diagnostics().converged(), allow);
         if (output.out != null) {
             output.writeJson(result);
             if (format == null) {
                 spec.commandLine().getErr().println("edges: wrote " + output.out);
-                return 0;
+                return status;
             }
         }
         PrintWriter w = spec.commandLine().getOut();
@@ -78,7 +81,7 @@ public final class EdgesCommand implements Callable<Integer> {
             w.print(table(result, scoring.ess().size() > 1));
         }
         w.flush();
-        return 0;
+        return status;
     }
 
     /** The result for people: edges by posterior, top parent sets, best network, the caution. */

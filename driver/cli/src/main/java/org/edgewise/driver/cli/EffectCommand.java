@@ -8,6 +8,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.EffectAnalysis;
@@ -109,13 +110,16 @@ public final class EffectCommand implements Callable<Integer> {
                 : EffectQuestions.read(questionsFile, "--questions");
         List<EffectResult> rs = EffectAnalysis.run(scoring, what, qs, effectDraws, maxHiddenStates, cc, lead,
                 ProgressBars.onTerminal());
+        boolean allow = averaging.unknown.allowUnconverged;
+        Boolean converged = null;
         for (EffectResult r : rs) {
             if (Boolean.FALSE.equals(r.converged())) {
                 spec.commandLine().getErr().println(String.format(Locale.ROOT,
                         "effect: WARNING: the chains have not converged (largest split-R-hat %.3f, target < 1.01; and every edge "
                                 + "posterior needs MCSE <= its target): the effect is not reliable; "
                                 + ConvergenceAdvice.runLonger(what.steps() != null && what.rhatTarget() == null ? "steps" : null,
-                                CliNames.RUN), r.maxRhat()));
+                                CliNames.RUN) + ". " + UnknownOrderEdges.exitSentence(allow), r.maxRhat()));
+                converged = false;
                 break;
             }
         }
@@ -136,7 +140,7 @@ public final class EffectCommand implements Callable<Integer> {
             w.println(EffectAnalysis.NOTE);
         }
         w.flush();
-        return 0;
+        return ErrorReport.finished(converged, allow);
     }
 
     /** The design from --design, --outcome and --prevalence, or null; refuses a partial one. */

@@ -5,6 +5,7 @@ import java.nio.file.Path;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.PredictionAnalysis;
@@ -100,21 +101,23 @@ public final class PredictCommand implements Callable<Integer> {
         PredictionAnalysis.Answer a = PredictionAnalysis.run(new PredictionAnalysis.Request(scoring, what, caseText, casesFile,
                 givenText, tail, maxHiddenStates, exactCases), ProgressBars.onTerminal());
         PrintWriter err = spec.commandLine().getErr();
+        boolean allow = averaging.unknown.allowUnconverged;
         if (a.diagnostics() != null && !a.diagnostics().converged()) {
-            err.println(UnknownOrderEdges.notConverged("predict", a.diagnostics()));
+            err.println(UnknownOrderEdges.notConverged("predict", a.diagnostics(), allow));
         }
+        int status = ErrorReport.finished(a.diagnostics() == null ? null : a.diagnostics().converged(), allow);
         if (a.csv() != null) {
             for (String line : a.lines()) {
                 err.println("predict: " + line + (what.method() == Averaging.Method.EXACT
                         ? "; --exact-cases computes complete cases exactly" : ""));
             }
             output.write(spec, a.csv());
-            return 0;
+            return status;
         }
         if (output.out != null) {
             output.writeJson(a.prediction());
             if (format == null) {
-                return 0;
+                return status;
             }
         }
         PrintWriter w = spec.commandLine().getOut();
@@ -126,6 +129,6 @@ public final class PredictCommand implements Callable<Integer> {
             }
         }
         w.flush();
-        return 0;
+        return status;
     }
 }

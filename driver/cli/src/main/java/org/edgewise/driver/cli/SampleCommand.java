@@ -5,6 +5,8 @@ import java.nio.file.Path;
 import java.util.Locale;
 import java.util.concurrent.Callable;
 import org.edgewise.driver.Checks;
+import org.edgewise.driver.ErrorReport;
+import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.analysis.Averaging;
 import org.edgewise.driver.analysis.SampleAnalysis;
 import org.edgewise.driver.analysis.Scoring;
@@ -54,6 +56,15 @@ public final class SampleCommand implements Callable<Integer> {
                         : String.format(Locale.ROOT, "; %s (largest R-hat %.3f, smallest effective sample size %.0f)",
                         s.converged() ? "converged" : "NOT converged", s.maxRhat(), s.minEss())));
         w.flush();
-        return 0;
+        boolean allow = averaging.unknown.allowUnconverged;
+        if (Boolean.FALSE.equals(s.converged())) {
+            PrintWriter err = spec.commandLine().getErr();
+            err.println(String.format(Locale.ROOT, "sample: WARNING: not converged (largest R-hat %.3f, smallest effective sample "
+                    + "size %.0f): the saved DAGs do not yet represent the posterior; %s. %s", s.maxRhat(), s.minEss(),
+                    ConvergenceAdvice.runLonger(what.steps() != null && what.rhatTarget() == null ? "steps" : null, CliNames.RUN),
+                    UnknownOrderEdges.exitSentence(allow)));
+            err.flush();
+        }
+        return ErrorReport.finished(s.converged(), allow);
     }
 }

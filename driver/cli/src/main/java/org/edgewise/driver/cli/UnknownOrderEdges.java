@@ -5,6 +5,7 @@ import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.report.ConvergenceAdvice;
 import org.edgewise.driver.result.EdgeResult;
 
@@ -16,9 +17,23 @@ final class UnknownOrderEdges {
     private UnknownOrderEdges() {
     }
 
-    /** Why a run is not converged, in one line: the stop reason, the targets, the worst quantities and what to do. */
-    static String notConverged(String command, EdgeResult.Diagnostics d) {
-        return command + ": " + ConvergenceAdvice.warning(d, CliNames.RUN);
+    /** The option that accepts a run that ends unconverged (exit status 0 instead of 3). */
+    static final String ALLOW_UNCONVERGED = "--allow-unconverged";
+
+    /**
+     * Why a run is not converged, in one line: the stop reason, the targets, the worst quantities,
+     * what to do and, last, the exit status ({@link #exitSentence}).
+     */
+    static String notConverged(String command, EdgeResult.Diagnostics d, boolean allowUnconverged) {
+        return command + ": " + ConvergenceAdvice.warning(d, CliNames.RUN) + " " + exitSentence(allowUnconverged);
+    }
+
+    /** The last sentence of every not-converged warning: the exit status and how to change it. */
+    static String exitSentence(boolean allowUnconverged) {
+        return allowUnconverged
+                ? "Exit status " + ErrorReport.OK + ": " + ALLOW_UNCONVERGED + " accepts an unconverged run."
+                : "Exit status " + ErrorReport.NOT_CONVERGED + " (not converged; the result is written): give "
+                + ALLOW_UNCONVERGED + " to accept an unconverged run with exit status " + ErrorReport.OK + ".";
     }
 
     /** {@code x} without trailing zeros: 1.01, 0.01, 400. */

@@ -58,6 +58,10 @@ public final class UnknownOrderOptions {
             + "(default 300); a run stopped by it says so and is not reproducible step for step")
     public Double maxTime;
 
+    @Option(names = UnknownOrderEdges.ALLOW_UNCONVERGED, description = "mcmc: exit 0 when the run ends unconverged (default: "
+            + "the result is written, the warning printed and the exit status is 3)")
+    public boolean allowUnconverged;
+
     @Option(names = "--features", paramLabel = "ancestors,markov-blanket,essential-graph", split = ",", description = "also estimate ancestor relations a ~> b, Markov-blanket membership and essential-graph features (adjacent, compelled a -> b, reversible) from DAGs drawn from the posterior") public List<String> features = new ArrayList<>();
 
     @Option(names = "--dag-samples", paramLabel = "K", description = "DAGs drawn from the posterior for --features: "
@@ -99,6 +103,8 @@ public final class UnknownOrderOptions {
             Checks.notApplicable(mcseTarget != null, CliNames.MCSE_TARGET, situation, why);
             Checks.notApplicable(maxSteps != null, "--max-steps", situation, why);
             Checks.notApplicable(maxTime != null, "--max-time", situation, why);
+            Checks.notApplicable(allowUnconverged, UnknownOrderEdges.ALLOW_UNCONVERGED, situation,
+                    "only a run sampled by --method mcmc can end unconverged");
         }
         Checks.notApplicable(m == Averaging.Method.ORDER && dagPrior != null, "--dag-prior", situation,
                 "given an order both DAG priors coincide");

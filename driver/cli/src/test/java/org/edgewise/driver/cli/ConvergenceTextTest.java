@@ -46,8 +46,10 @@ class ConvergenceTextTest {
         assertEquals("edges: WARNING: not converged (the time budget ran out before every target was met; needs R-hat < 1.01, "
                 + "bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior): the posteriors are not "
                 + "reliable. Worst: edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173; edge v3 -> v4: R-hat inf, bulk "
-                + "eff. n -, MCSE 0.2500 (stuck: each chain keeps its own value). Run longer: raise the time budget (--max-time).",
-                UnknownOrderEdges.notConverged("edges", d));
+                + "eff. n -, MCSE 0.2500 (stuck: each chain keeps its own value). Run longer: raise the time budget (--max-time). "
+                + "Exit status 3 (not converged; the result is written): give --allow-unconverged to accept an unconverged run "
+                + "with exit status 0.",
+                UnknownOrderEdges.notConverged("edges", d, false));
     }
 
     @Test
@@ -63,8 +65,9 @@ class ConvergenceTextTest {
                 + "sample size >= 400, MCSE <= 0.01 for every edge and feature posterior): the posteriors are not reliable. Worst: "
                 + "edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173. The chains met the targets but a posterior as "
                 + "reported did not (a posterior of exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target "
-                + "(--mcse-target, e.g. 0.005) so that the chains run longer and keep more draws.",
-                UnknownOrderEdges.notConverged("edges", diagnostics(false, "converged", noisy)));
+                + "(--mcse-target, e.g. 0.005) so that the chains run longer and keep more draws. "
+                + "Exit status 0: --allow-unconverged accepts an unconverged run.",
+                UnknownOrderEdges.notConverged("edges", diagnostics(false, "converged", noisy), true));
     }
 
     @Test
