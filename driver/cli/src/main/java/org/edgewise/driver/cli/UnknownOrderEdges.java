@@ -179,6 +179,11 @@ final class UnknownOrderEdges {
     /** Lines for the terminal table: the convergence block (sampled) or the word exact, and features, most probable first. */
     static String summary(EdgeResult r) {
         StringBuilder sb = new StringBuilder();
+        if (r.candidateBoundary() != null && !r.candidateBoundary().isEmpty()) {
+            sb.append(String.format(Locale.ROOT, "%nCandidate parents pruned at tally time bound the posterior of: %s. Their parent "
+                    + "sets may lack a true parent (a proxy then takes its edge): tally again with a larger --candidates, or none.%n",
+                    String.join(", ", r.candidateBoundary())));
+        }
         EdgeResult.Diagnostics d = r.diagnostics();
         if (d != null) {
             sb.append(convergence(d));

@@ -98,7 +98,7 @@ class HonestLabelsTest {
         assertFalse(j.has("samples"));
         Path cases = dir.resolve("cases.csv");
         Files.writeString(cases, "v0,v1\ns1,s2\ns0,\n");
-        CliRun b = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "mcmc", "--steps", "2000", "--cases", cases.toString());
+        CliRun b = CliRun.of("predict", "--dag-prior", "order-modular", "--store", store5.toString(), "--method", "mcmc", "--steps", "2000", "--allow-unconverged", "--cases", cases.toString());
         assertEquals(0, b.status(), b.err());
         String[] lines = b.out().split("\n");
         assertEquals("v0,v1,probability,logProbability,bestNetworkProbability,bestNetworkLogProbability,mcse", lines[0]);
@@ -162,7 +162,7 @@ class HonestLabelsTest {
             }
         }
         assertEquals(4, checked);
-        CliRun m = CliRun.of("edges", "--store", store5.toString(), "--method", "mcmc", "--dag-prior", "order-modular", "--steps", "2000", "--draws", "100",
+        CliRun m = CliRun.of("edges", "--store", store5.toString(), "--method", "mcmc", "--dag-prior", "order-modular", "--steps", "2000", "--allow-unconverged", "--draws", "100",
                 "--features", "ancestors", "--forbid", "v0->v1,v0->v2,v0->v3,v0->v4", "--format", "json");
         assertEquals(0, m.status(), m.err());
         for (JsonNode f : JSON.readTree(m.out()).get("features")) {

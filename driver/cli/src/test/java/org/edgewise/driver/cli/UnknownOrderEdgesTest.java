@@ -108,7 +108,7 @@ class UnknownOrderEdgesTest extends StoreFixture {
 
     @Test
     void tableShowsDiagnosticsAndTheCaution() {
-        CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "2000", "--draws", "100");
+        CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "mcmc", "--steps", "2000", "--allow-unconverged", "--draws", "100");
         assertEquals(0, r.status(), r.err());
         assertTrue(r.out().contains("\nConvergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)\n"
                 + "  verdict   "), r.out());

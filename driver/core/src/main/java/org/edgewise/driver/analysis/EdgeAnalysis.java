@@ -6,6 +6,7 @@ import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.CandidateBoundary;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
 import org.edgewise.driver.average.ScoringOptions;
@@ -86,7 +87,7 @@ public final class EdgeAnalysis {
                 primary.evidenceConvention(), primary.order(), primary.settings(), primary.store(), primary.edges(),
                 primary.parentSets(), primary.bestNetwork(), primary.diagnostics(), primary.features(), sens,
                 primary.dagPrior(), primary.essentialGraph());
-        return swept.withFragile(Fragility.of(swept));
+        return swept.withFragile(Fragility.of(swept)).withCandidateBoundary(primary.candidateBoundary());
     }
 
     /** The edges of {@code ls} over unknown orders as {@code s} says (the Java API's one-call form). */
@@ -114,7 +115,23 @@ public final class EdgeAnalysis {
                 p.bestSets() == null ? null : ResultBuilder.network(ls, p.bestSets()),
                 chains == null ? null : ChainReport.diagnostics(chains, s), features(names, s, p.features()), null,
                 l.dagPriorLabel(ResultBuilder.EITHER_GIVEN_ORDER), essential == null ? null : essential(names, essential));
-        return ReportedMcse.check(r);
+        return ReportedMcse.check(r).withCandidateBoundary(candidateBoundary(ls, p.setPosterior()));
+    }
+
+    /**
+     * The children whose pruned candidate sets bound the posterior ({@link CandidateBoundary}):
+     * names, empty when none does; null when the store was tallied without pruning.
+     */
+    static List<String> candidateBoundary(LocalScores ls, double[][] setPosterior) {
+        List<CandidateBoundary.Finding> found = CandidateBoundary.find(ls, setPosterior);
+        if (found == null) {
+            return null;
+        }
+        List<String> out = new ArrayList<>();
+        for (CandidateBoundary.Finding f : found) {
+            out.add(ls.store().variables().get(f.child()).name());
+        }
+        return out;
     }
 
     private static List<EdgeResult.Edge> sampledEdges(List<String> names, StructurePosterior.EdgeEstimates est) {

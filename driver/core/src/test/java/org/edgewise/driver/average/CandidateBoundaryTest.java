@@ -117,6 +117,24 @@ class CandidateBoundaryTest {
         assertTrue(!children.contains(E), f.toString());
     }
 
+    /**
+     * The edges result of such a store names the bound children in {@code candidateBoundary} (JSON) —
+     * exact over DAGs here, where b's {c} competes with orientations through a (a's candidates {b}):
+     * the children whose single candidate the posterior uses (a and c) are named, the independent e is not.
+     */
+    @Test
+    void theEdgesResultNamesTheBoundChild() {
+        int[][] cand = {{B}, {C}, {A}, {A}};
+        LocalScores ls = LocalScores.build(store(cand, new int[4][0], 1), ScoringOptions.asStored());
+        UnknownOrderSettings exact = new UnknownOrderSettings(UnknownOrderSettings.Method.EXACT, null, 1L, 4, null, null, 100,
+                null, null, null, false, false, 1, 0, null, false);
+        org.edgewise.driver.result.EdgeResult r = org.edgewise.driver.analysis.EdgeAnalysis.edges(ls, null, exact,
+                org.edgewise.driver.ProgressListener.NONE);
+        assertEquals(List.of("v0", "v2"), r.candidateBoundary());
+        assertTrue(!r.candidateBoundary().contains("v3"), String.valueOf(r.candidateBoundary()));
+        assertTrue(org.edgewise.driver.result.ResultJson.toJson(r).contains("\"candidateBoundary\""));
+    }
+
     @Test
     void anExcludedVariableScoringAboveTheWeakestCandidateIsNamed() {
         // b's candidates {c, e} cannot be filled with d = 1; a's single-parent family is stored beside them
