@@ -1,0 +1,123 @@
+package org.edgewise.job;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+import java.util.stream.Stream;
+import org.apache.spark.sql.SparkSession;
+import org.edgewise.job.plan.FamilyPlan;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * Refusals decided from the header and the options, before the rows are read: one line, exit
+ * status 2, in seconds, the inputs byte for byte as they were and nothing left in the output's
+ * folder.
+ */
+class BoundsTest {
+    static SparkSession spark;
+    @TempDir
+    static Path dir;
+    static Path good;
+    static int cases;
+
+    @BeforeAll
+    static void start() {
+        spark = SharedSpark.session();
+        good = TestTables.write(dir.resolve("good.csv"), "u,v\n1,a\n2,b\n1,b\n");
+    }
+
+    /** Runs tally with {@code args} (after --out) and checks the refusal, the time, the inputs and the output folder. */
+    static void refused(String expected, double seconds, List<Path> inputs, String... args) {
+        Path outDir = dir.resolve("out" + (cases++));
+        List<String> all = new ArrayList<>(List.of("--out", outDir.resolve("store").toString()));
+        all.addAll(List.of(args));
+        List<byte[]> before = inputs.stream().map(BoundsTest::bytes).toList();
+        long t0 = System.nanoTime();
+        TestTables.Run r = TestTables.tally(spark, all.toArray(String[]::new));
+        double took = (System.nanoTime() - t0) / 1e9;
+        assertEquals(2, r.status(), r.err());
+        assertEquals(expected, r.err());
+        assertFalse(r.err().contains("\n"), "one line");
+        assertTrue(took < seconds, "refused in " + took + " s, bound " + seconds + " s");
+        for (int i = 0; i < inputs.size(); i++) {
+            assertArrayEquals(before.get(i), bytes(inputs.get(i)), "input unchanged: " + inputs.get(i));
+        }
+        if (Files.exists(outDir)) {
+            try (Stream<Path> s = Files.list(outDir)) {
+                assertEquals(List.of(), s.toList(), "nothing written, no temporary or probe left");
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+        }
+    }
+
+    static byte[] bytes(Path p) {
+        try {
+            return Files.isRegularFile(p) ? Files.readAllBytes(p) : new byte[0];
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+    }
+
+    /** Item 11: the family count is refused from the header alone: a bad row further down is never reached. */
+    @Test
+    void tooManyFamiliesAreRefusedFromTheHeaderBeforeTheScan() {
+        int n = 400;
+        StringBuilder sb = new StringBuilder();
+        for (int c = 0; c < n; c++) {
+            sb.append(c == 0 ? "" : ",").append("c").append(c);
+        }
+        sb.append('\n');
+        for (int t = 0; t < 2000; t++) {
+            for (int c = 0; c < n; c++) {
+                sb.append(c == 0 ? "" : ",").append((t * 7 + c) % 3);
+            }
+            sb.append('\n');
+        }
+        sb.append("1,2\n"); // a short row: the scan would refuse it; the plan refusal comes first
+        Path wide = TestTables.write(dir.resolve("wide.csv"), sb.toString());
+        int[][] all = new int[n][];
+        for (int i = 0; i < n; i++) {
+            int me = i;
+            all[i] = java.util.stream.IntStream.range(0, n).filter(v -> v != me).toArray();
+        }
+        double families = FamilyPlan.familyCount(all, new int[n][0], 5);
+        long heap = Runtime.getRuntime().maxMemory();
+        refused("tally: cannot plan the tally: 400 variables with --max-parents 5 give "
+                + String.format(Locale.ROOT, "%,.0f", families) + " families, at least "
+                + FamilyPlan.bytes(families * 160) + " on the driver, more than half its memory ("
+                + FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K",
+                30, List.of(wide), "--input", wide.toString(), "--max-parents", "5");
+    }
+
+    /** Item 11: with --candidates K the count is that of K parents per child, also decided before the scan. */
+    @Test
+    void tooManyFamiliesWithCandidatesAreRefusedBeforeTheScan() {
+        int n = 400;
+        StringBuilder sb = new StringBuilder();
+        for (int c = 0; c < n; c++) {
+            sb.append(c == 0 ? "" : ",").append("c").append(c);
+        }
+        sb.append("\n1,2\n");
+        Path wide = TestTables.write(dir.resolve("wide-k.csv"), sb.toString());
+        int[][] kept = new int[n][200];
+        double families = FamilyPlan.familyCount(kept, new int[n][0], 8);
+        long heap = Runtime.getRuntime().maxMemory();
+        refused("tally: cannot plan the tally: 400 variables with --max-parents 8 give "
+                + String.format(Locale.ROOT, "%,.0f", families) + " families, at least "
+                + FamilyPlan.bytes(families * 160) + " on the driver, more than half its memory ("
+                + FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K",
+                30, List.of(wide), "--input", wide.toString(), "--max-parents", "8", "--candidates", "200");
+    }
+}
