@@ -120,4 +120,18 @@ class BoundsTest {
                 + FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K",
                 30, List.of(wide), "--input", wide.toString(), "--max-parents", "8", "--candidates", "200");
     }
+
+    /** Item 9: a header line longer than 1 MiB is refused without reading it whole. */
+    @Test
+    void aHeaderLineBeyondOneMebibyteIsRefused() {
+        StringBuilder sb = new StringBuilder();
+        for (int c = 0; sb.length() < (3 << 19); c++) {
+            sb.append(c == 0 ? "" : ",").append("column").append(c);
+        }
+        sb.append("\n");
+        Path longHeader = TestTables.write(dir.resolve("long-header.csv"), sb.toString());
+        refused("tally: input " + longHeader + " line 1: the header line is longer than 1,048,576 bytes (1 MiB) without a"
+                + " line break; a CSV file starts with one line naming its columns",
+                30, List.of(longHeader), "--input", longHeader.toString());
+    }
 }

@@ -122,6 +122,10 @@ public final class InputFiles {
                     line = nextLine(in, encoding);
                 }
             }
+        } catch (LongLine e) {
+            throw new UserError("input " + display(file) + " line 1: the header line is longer than "
+                    + String.format(Locale.ROOT, "%,d", MAX_HEADER_BYTES) + " bytes (1 MiB) without a line break;"
+                    + " a CSV file starts with one line naming its columns");
         } catch (java.nio.charset.CharacterCodingException e) {
             throw new UserError("input " + display(file) + " line 1: bytes that are not valid " + encoding.name()
                     + "; pass --encoding with the file's encoding, e.g. --encoding ISO-8859-1");
@@ -164,7 +168,20 @@ public final class InputFiles {
         return names;
     }
 
-    /** The next line's bytes up to '\n' (a trailing '\r' dropped) decoded strictly, or null at the end. */
+    /** The longest header line read: a header names the columns, and a file without line breaks is not read whole. */
+    public static final int MAX_HEADER_BYTES = 1 << 20;
+
+    /** A header line longer than {@link #MAX_HEADER_BYTES}. */
+    private static final class LongLine extends IOException {
+        LongLine() {
+            super("header line too long");
+        }
+    }
+
+    /**
+     * The next line's bytes up to '\n' (a trailing '\r' dropped) decoded strictly, or null at the end;
+     * at most {@link #MAX_HEADER_BYTES} bytes are read ({@link LongLine} beyond).
+     */
     private static String nextLine(InputStream in, java.nio.charset.Charset encoding) throws IOException {
         java.io.ByteArrayOutputStream buf = new java.io.ByteArrayOutputStream();
         int b = in.read();
@@ -172,6 +189,9 @@ public final class InputFiles {
             return null;
         }
         while (b >= 0 && b != '\n') {
+            if (buf.size() >= MAX_HEADER_BYTES) {
+                throw new LongLine();
+            }
             buf.write(b);
             b = in.read();
         }
