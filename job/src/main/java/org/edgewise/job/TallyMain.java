@@ -84,6 +84,9 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)") List<String> conf = new ArrayList<>();
 
+    /** The most partitions {@code --partitions} may ask for: each is a task, and more only add scheduling. */
+    static final int MAX_PARTITIONS = 10_000;
+
     /** A session to use instead of starting one (tests). */
     private final SparkSession given;
 
@@ -179,8 +182,9 @@ public final class TallyMain implements Callable<Integer> {
         if (candidates != null && candidates < 0) {
             throw new UserError("--candidates must be 0 or more, got " + candidates);
         }
-        if (partitions != null && partitions < 1) {
-            throw new UserError("--partitions must be 1 or more, got " + partitions);
+        if (partitions != null && (partitions < 1 || partitions > MAX_PARTITIONS)) {
+            throw new UserError("--partitions must be between 1 and " + MAX_PARTITIONS + ", got " + partitions
+                    + " (a few partitions per core is enough)");
         }
         Checks.ess(ess, "--ess");
         ScoreKind kind;

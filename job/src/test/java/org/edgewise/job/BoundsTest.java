@@ -134,4 +134,39 @@ class BoundsTest {
                 + " line break; a CSV file starts with one line naming its columns",
                 30, List.of(longHeader), "--input", longHeader.toString());
     }
+
+    /** Item 10: --partitions is bounded, with the figure and the limit. */
+    @Test
+    void tooManyPartitionsAreRefused() {
+        refused("tally: --partitions must be between 1 and 10000, got 100000 (a few partitions per core is enough)",
+                30, List.of(good), "--input", good.toString(), "--partitions", "100000");
+    }
+
+    /** Items 10 and 15: a FIFO would block the read; it is named for what it is, at once. */
+    @Test
+    void aFifoIsRefusedWithoutBlocking() throws Exception {
+        Path fifo = dir.resolve("fifo.csv");
+        Process mk = new ProcessBuilder("mkfifo", fifo.toString()).inheritIO().start();
+        assertEquals(0, mk.waitFor());
+        refused("tally: input " + fifo + " is a FIFO, not a file", 30, List.of(), "--input", fifo.toString());
+        assertTrue(Files.exists(fifo, java.nio.file.LinkOption.NOFOLLOW_LINKS) && !Files.isRegularFile(fifo), "FIFO kept");
+    }
+
+    /** Items 9 and 15: /dev/zero (endless, no line break) is a device, named so, not read. */
+    @Test
+    void aDeviceIsRefused() {
+        refused("tally: input /dev/zero is a character device, not a file", 30, List.of(), "--input", "/dev/zero",
+                "--format", "csv");
+    }
+
+    /** Item 15: a loop of symbolic links is named as such, not "no such file". */
+    @Test
+    void aSymbolicLinkLoopIsNamed() throws IOException {
+        Path a = dir.resolve("loop-a.csv");
+        Path b = dir.resolve("loop-b.csv");
+        Files.createSymbolicLink(a, b);
+        Files.createSymbolicLink(b, a);
+        refused("tally: input " + a + " is a loop of symbolic links, not a file", 30, List.of(), "--input", a.toString());
+        assertTrue(Files.isSymbolicLink(a) && Files.isSymbolicLink(b), "links kept");
+    }
 }

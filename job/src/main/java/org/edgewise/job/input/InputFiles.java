@@ -40,6 +40,7 @@ public final class InputFiles {
         List<DataFile> out = new ArrayList<>();
         for (String arg : inputs) {
             Path p = new Path(arg);
+            localKind(arg, p);
             try {
                 FileSystem fs = p.getFileSystem(conf);
                 if (!fs.exists(p)) {
@@ -76,6 +77,53 @@ public final class InputFiles {
             }
         }
         return out;
+    }
+
+    /**
+     * A local input that is not a file or a directory is named for what it is: a FIFO or a device
+     * would block or never end, and a loop of symbolic links leads nowhere.
+     */
+    static void localKind(String arg, Path p) {
+        String scheme = p.toUri().getScheme();
+        if (scheme != null && !scheme.equals("file")) {
+            return;
+        }
+        java.nio.file.Path local;
+        try {
+            local = java.nio.file.Paths.get(p.toUri().getPath());
+        } catch (RuntimeException e) {
+            return; // the filesystem's own check names it
+        }
+        java.nio.file.attribute.BasicFileAttributes a;
+        try {
+            a = java.nio.file.Files.readAttributes(local, java.nio.file.attribute.BasicFileAttributes.class);
+        } catch (java.nio.file.NoSuchFileException e) {
+            return; // "no such file or directory", below
+        } catch (java.nio.file.FileSystemException e) {
+            if (String.valueOf(e.getReason()).contains("symbolic links")) {
+                throw new UserError("input " + arg + " is a loop of symbolic links, not a file");
+            }
+            return;
+        } catch (IOException e) {
+            return;
+        }
+        if (a.isRegularFile() || a.isDirectory()) {
+            return;
+        }
+        String kind = "not a regular file";
+        try {
+            int mode = (Integer) java.nio.file.Files.getAttribute(local, "unix:mode");
+            kind = switch (mode & 0170000) {
+                case 0010000 -> "a FIFO";
+                case 0020000 -> "a character device";
+                case 0060000 -> "a block device";
+                case 0140000 -> "a socket";
+                default -> kind;
+            };
+        } catch (IOException | UnsupportedOperationException | IllegalArgumentException | ClassCastException e) {
+            // keep the general word
+        }
+        throw new UserError("input " + arg + " is " + kind + ", not a file");
     }
 
     static String formatOf(String arg, String fileName, String format) {
