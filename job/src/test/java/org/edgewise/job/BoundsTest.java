@@ -169,4 +169,32 @@ class BoundsTest {
         refused("tally: input " + a + " is a loop of symbolic links, not a file", 30, List.of(), "--input", a.toString());
         assertTrue(Files.isSymbolicLink(a) && Files.isSymbolicLink(b), "links kept");
     }
+
+    /** Item 14: required edges forming a cycle are refused, naming the cycle. */
+    @Test
+    void aCycleOfRequiredEdgesIsRefused() {
+        refused("tally: --require: the required edges form a cycle (u->v->u); a DAG can hold at most all but one of them",
+                30, List.of(good), "--input", good.toString(), "--require", "u->v,v->u");
+        Path three = TestTables.write(dir.resolve("three.csv"), "a,b,c\n1,2,3\n2,1,3\n");
+        refused("tally: --require: the required edges form a cycle (a->b->c->a); a DAG can hold at most all but one of them",
+                30, List.of(three), "--input", three.toString(), "--require", "a->b", "--require", "b->c,c->a");
+    }
+
+    /** Item 14: K2 has no equivalent sample size; one given is refused rather than stored. */
+    @Test
+    void anEssWithK2IsRefused() {
+        refused("tally: --ess does not apply to score k2: K2 has no equivalent sample size (every Dirichlet parameter is 1)",
+                30, List.of(good), "--input", good.toString(), "--score", "k2", "--ess", "5");
+    }
+
+    /** Item 14: the same input twice (by text or by real path) would be counted twice. */
+    @Test
+    void theSameInputTwiceIsRefused() throws IOException {
+        refused("tally: --input " + good + " is given twice; its rows would be counted twice",
+                30, List.of(good), "--input", good.toString(), "--input", good.toString());
+        Path link = dir.resolve("link-to-good.csv");
+        Files.createSymbolicLink(link, good);
+        refused("tally: --input " + link + " is the same as --input " + good + "; its rows would be counted twice",
+                30, List.of(good), "--input", good.toString(), "--input", link.toString());
+    }
 }

@@ -166,6 +166,26 @@ class PredictCommandTest {
         assertFalse(Files.exists(out), "nothing half-written");
     }
 
+    /** An all-blank row of --cases would be answered P = 1 (issue 23): refused with its line, the file unchanged. */
+    @Test
+    void anAllBlankCaseRowIsRefused() throws Exception {
+        Path f = dir.resolve("blank.csv");
+        String text = "v1,v0\ns0,s1\n , \n";
+        Files.writeString(f, text);
+        Path out = dir.resolve("blank-out.csv");
+        refused("predict: " + f + ": line 3 sets no variable (every field is blank); a case needs at least one"
+                + " name=state, and an empty one has probability 1 by definition",
+                "predict", "--store", store.toString(), "--order", ORDER, "--cases", f.toString(), "--out", out.toString());
+        assertEquals(text, Files.readString(f));
+        assertFalse(Files.exists(out), "nothing written");
+    }
+
+    /** {@code edgewise} without a command is a mistake: exit 2 and the usage line, nothing on standard output. */
+    @Test
+    void noCommandExitsTwoWithTheUsage() {
+        refused("edgewise: no command given; usage: edgewise [-hV] [COMMAND] (see edgewise --help)");
+    }
+
     static void refused(String message, String... args) {
         CliRun r = CliRun.of(args);
         assertEquals(2, r.status(), "exit status for: " + String.join(" ", args) + "\n" + r.err());
