@@ -197,4 +197,40 @@ class BoundsTest {
         refused("tally: --input " + link + " is the same as --input " + good + "; its rows would be counted twice",
                 30, List.of(good), "--input", good.toString(), "--input", link.toString());
     }
+
+    /** Item 15: CR-only line endings are named as such, not "text after a closing quote". */
+    @Test
+    void carriageReturnLineEndingsAreNamed() {
+        String expected = " lines end in a carriage return alone (CR, old Mac line endings); convert them to LF or CRLF,"
+                + " e.g. tr '\\r' '\\n' < in.csv > out.csv";
+        Path quoted = TestTables.write(dir.resolve("cr-quoted.csv"), "\"a\",\"b\"\r\"1\",\"2\"\r\"2\",\"1\"\r");
+        refused("tally: input " + quoted + ":" + expected, 30, List.of(quoted), "--input", quoted.toString());
+        Path plain = TestTables.write(dir.resolve("cr-plain.csv"), "a,b\r1,2\r2,1\r");
+        refused("tally: input " + plain + ":" + expected, 30, List.of(plain), "--input", plain.toString());
+        StringBuilder big = new StringBuilder("a,b\r");
+        while (big.length() < (3 << 19)) {
+            big.append("1,2\r");
+        }
+        Path large = TestTables.write(dir.resolve("cr-large.csv"), big.toString());
+        refused("tally: input " + large + ":" + expected, 30, List.of(large), "--input", large.toString());
+    }
+
+    /** Item 15: a quoted header name holding a line break is named as that. */
+    @Test
+    void aLineBreakInAQuotedHeaderIsNamed() {
+        Path f = TestTables.write(dir.resolve("nl-header.csv"), "\"a\nb\",c\n1,2\n");
+        refused("tally: input " + f + " line 1: column 1: unterminated quote (opened at character 1); a column name"
+                + " cannot hold a line break", 30, List.of(f), "--input", f.toString());
+    }
+
+    /** Item 15: a directory of CSV and Parquet files is named with one file of each format. */
+    @Test
+    void aDirectoryOfMixedFormatsIsNamed() throws IOException {
+        Path mixed = Files.createDirectories(dir.resolve("mixed"));
+        TestTables.write(mixed.resolve("a.csv"), "u,v\n1,2\n");
+        TestTables.write(mixed.resolve("b.parquet"), "not really parquet");
+        refused("tally: input " + mixed + " holds csv and parquet files (" + mixed + "/a.csv, " + mixed
+                + "/b.parquet); give inputs of one format", 30, List.of(mixed.resolve("a.csv"), mixed.resolve("b.parquet")),
+                "--input", mixed.toString());
+    }
 }

@@ -71,6 +71,10 @@ public final class InputFiles {
         }
         String first = out.get(0).format();
         for (DataFile f : out) {
+            if (!f.format().equals(first) && f.argument().equals(out.get(0).argument())) {
+                throw new UserError("input " + f.argument() + " holds " + first + " and " + f.format() + " files ("
+                        + display(out.get(0)) + ", " + display(f) + "); give inputs of one format");
+            }
             if (!f.format().equals(first)) {
                 throw new UserError("input " + f.argument() + " is " + f.format() + " but " + out.get(0).argument()
                         + " is " + first + "; give inputs of one format");
@@ -171,6 +175,9 @@ public final class InputFiles {
                 }
             }
         } catch (LongLine e) {
+            if (e.carriageReturns) {
+                throw crOnly(file);
+            }
             throw new UserError("input " + display(file) + " line 1: the header line is longer than "
                     + String.format(Locale.ROOT, "%,d", MAX_HEADER_BYTES) + " bytes (1 MiB) without a line break;"
                     + " a CSV file starts with one line naming its columns");
@@ -188,13 +195,16 @@ public final class InputFiles {
         if (!line.isEmpty() && line.charAt(0) == '\uFEFF') {
             line = line.substring(1);
         }
+        if (line.indexOf('\r') >= 0) { // a CR inside the first line (a trailing one was dropped): CR-only endings
+            throw crOnly(file);
+        }
         List<String> names;
         try {
             names = CsvFields.split(line, delimiter);
         } catch (CsvFields.Malformed e) {
             throw new UserError("input " + display(file) + " line 1: column " + e.column() + ": "
-                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
-                    : "text after a closing quote"));
+                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + "); a column"
+                    + " name cannot hold a line break" : "text after a closing quote"));
         }
         names.replaceAll(String::trim); // the one whitespace rule, as for values
         for (int i = 0; i < names.size(); i++) {
@@ -221,9 +231,18 @@ public final class InputFiles {
 
     /** A header line longer than {@link #MAX_HEADER_BYTES}. */
     private static final class LongLine extends IOException {
-        LongLine() {
+        final boolean carriageReturns;
+
+        LongLine(boolean carriageReturns) {
             super("header line too long");
+            this.carriageReturns = carriageReturns;
         }
+    }
+
+    /** The refusal of a file whose lines end in a carriage return alone. */
+    static UserError crOnly(DataFile file) {
+        return new UserError("input " + display(file) + ": lines end in a carriage return alone (CR, old Mac line"
+                + " endings); convert them to LF or CRLF, e.g. tr '\\r' '\\n' < in.csv > out.csv");
     }
 
     /**
@@ -238,7 +257,12 @@ public final class InputFiles {
         }
         while (b >= 0 && b != '\n') {
             if (buf.size() >= MAX_HEADER_BYTES) {
-                throw new LongLine();
+                byte[] seen = buf.toByteArray();
+                boolean cr = false;
+                for (byte x : seen) {
+                    cr |= x == '\r';
+                }
+                throw new LongLine(cr);
             }
             buf.write(b);
             b = in.read();
