@@ -67,6 +67,8 @@ public final class TallyJob {
         // every name the user gave is checked against the header before any pass over the data
         List<String> names = TableScan.selected(table, o);
         Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
+        // the family count depends only on the header and d: refused before the rows are read
+        FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(), o.candidates());
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
         List<Variable> variables = enc.variables();

@@ -76,13 +76,16 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--score", defaultValue = "bdeu", paramLabel = "bdeu|k2", description = "family score to store (default ${DEFAULT-VALUE})") String score;
 
-    @Option(names = "--ess", defaultValue = "1", paramLabel = "A", description = "BDeu equivalent sample size (default ${DEFAULT-VALUE})") double ess;
+    @Option(names = "--ess", paramLabel = "A", description = "BDeu equivalent sample size (default 1; K2 has none)") Double ess;
 
     @Option(names = "--partitions", paramLabel = "N", description = "repartition the input into N partitions") Integer partitions;
 
     @Option(names = "--memory-budget", defaultValue = "256m", paramLabel = "SIZE", description = "count-array memory per task, e.g. 512m, 2g (default ${DEFAULT-VALUE})") String memoryBudget;
 
     @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)") List<String> conf = new ArrayList<>();
+
+    /** The most partitions {@code --partitions} may ask for: each is a task, and more only add scheduling. */
+    static final int MAX_PARTITIONS = 10_000;
 
     /** A session to use instead of starting one (tests). */
     private final SparkSession given;
@@ -179,16 +182,19 @@ public final class TallyMain implements Callable<Integer> {
         if (candidates != null && candidates < 0) {
             throw new UserError("--candidates must be 0 or more, got " + candidates);
         }
-        if (partitions != null && partitions < 1) {
-            throw new UserError("--partitions must be 1 or more, got " + partitions);
+        if (partitions != null && (partitions < 1 || partitions > MAX_PARTITIONS)) {
+            throw new UserError("--partitions must be between 1 and " + MAX_PARTITIONS + ", got " + partitions
+                    + " (a few partitions per core is enough)");
         }
-        Checks.ess(ess, "--ess");
+        double essValue = ess == null ? 1 : ess;
+        Checks.ess(essValue, "--ess");
         ScoreKind kind;
         try {
             kind = ScoreKind.parse(score);
         } catch (UserError e) {
             throw new UserError("--score: " + e.getMessage());
         }
+        kind.checkEss(ess != null, "--ess");
         MissingPolicy policy;
         try {
             policy = MissingPolicy.valueOf(missing.trim().toUpperCase(Locale.ROOT));
@@ -225,6 +231,7 @@ public final class TallyMain implements Callable<Integer> {
                 Checks.path(in, "--input");
             }
         }
+        sameInputTwice(inputs);
         // before Spark starts: nothing but a store is ever replaced, and the directory is writable
         StoreTarget.check(out, overwrite, inputs, "--out", "--overwrite");
         java.nio.charset.Charset charset;
@@ -237,8 +244,29 @@ public final class TallyMain implements Callable<Integer> {
                 : inputs.stream().allMatch(i -> i.toLowerCase(Locale.ROOT).matches(".*\\.tsv(\\.gz|\\.bz2)?")) ? '\t' : ',';
         return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
-                tierList, policy, maxStates, bins, kind, ess, partitions, budget, charset,
+                tierList, policy, maxStates, bins, kind, essValue, partitions, budget, charset,
                 weight == null ? null : weight.trim());
+    }
+
+    /** The same input given twice would be counted twice: refused (the same text, or the same local file by its real path). */
+    static void sameInputTwice(List<String> inputs) {
+        Map<String, String> seen = new LinkedHashMap<>();
+        for (String in : inputs) {
+            String key = in;
+            if (!in.matches("^[A-Za-z][A-Za-z0-9+.-]+:.*") || in.startsWith("file:")) {
+                try {
+                    Path p = Path.of(in.startsWith("file:") ? in.substring(5) : in);
+                    key = "file:" + (java.nio.file.Files.exists(p) ? p.toRealPath() : p.toAbsolutePath().normalize());
+                } catch (java.io.IOException | RuntimeException e) {
+                    key = in;
+                }
+            }
+            String before = seen.putIfAbsent(key, in);
+            if (before != null) {
+                throw new UserError("--input " + in + (before.equals(in) ? " is given twice" : " is the same as --input "
+                        + before) + "; its rows would be counted twice");
+            }
+        }
     }
 
     static char delimiterChar(String d) {

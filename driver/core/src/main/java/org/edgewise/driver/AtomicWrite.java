@@ -83,13 +83,42 @@ public final class AtomicWrite {
             throw new UserError("cannot write " + option + " " + target + ": " + (dir == null ? "no parent directory"
                     : dir + " is not a directory"));
         }
-        Path probe = dir.resolve("." + abs.getFileName() + ".probe-" + UUID.randomUUID());
+        removeDeadProbes(dir);
+        // named with the pid like a temporary: removed by the shutdown hook, and after a kill -9 by the next check
+        Path probe = dir.resolve(leftoverName(abs, "probe"));
+        IN_PROGRESS.add(probe);
         try {
             Files.createFile(probe);
             Files.delete(probe);
         } catch (IOException e) {
             throw new UserError("cannot write " + option + " " + target + ": directory " + dir + " is not writable ("
                     + reason(e) + ")");
+        } finally {
+            IN_PROGRESS.remove(probe);
+        }
+    }
+
+    /** {@code .<name>.probe-<pid>-<uuid>}: group 1 the pid. */
+    private static final Pattern PROBE = Pattern.compile("\\..+\\.probe-(\\d+)-[0-9a-f-]{36}");
+
+    /**
+     * Removes the empty writability probes in {@code dir} left by checks that were killed ({@code kill
+     * -9}: no hook runs) — those whose process is no longer alive; anything else is left alone.
+     */
+    static void removeDeadProbes(Path dir) {
+        try (DirectoryStream<Path> ds = Files.newDirectoryStream(dir, ".*.probe-*")) {
+            for (Path c : ds) {
+                Matcher m = PROBE.matcher(c.getFileName().toString());
+                if (!m.matches() || ProcessHandle.of(Long.parseLong(m.group(1))).map(ProcessHandle::isAlive).orElse(false)) {
+                    continue;
+                }
+                BasicFileAttributes a = Files.readAttributes(c, BasicFileAttributes.class, LinkOption.NOFOLLOW_LINKS);
+                if (a.isRegularFile() && a.size() == 0) {
+                    Files.deleteIfExists(c);
+                }
+            }
+        } catch (IOException | NumberFormatException | SecurityException ignored) {
+            // best effort: a hidden empty probe never looks like an output
         }
     }
 

@@ -148,4 +148,26 @@ class AtomicWriteTest {
             return n.stream().sorted().toList();
         }
     }
+
+    /** Issue 23: a writability probe left by a killed check is removed by the next check; a live writer's is kept. */
+    @Test
+    void aProbeLeftByAKilledCheckIsRemovedByTheNext() throws Exception {
+        Process gone = new ProcessBuilder("true").start();
+        gone.waitFor();
+        long deadPid = gone.pid();
+        Path left = Files.createFile(dir.resolve(".out.json.probe-" + deadPid + "-" + java.util.UUID.randomUUID()));
+        Path live = Files.createFile(dir.resolve(".out.json.probe-" + ProcessHandle.current().pid() + "-"
+                + java.util.UUID.randomUUID()));
+        Path notEmpty = Files.writeString(dir.resolve(".mine.probe-" + deadPid + "-" + java.util.UUID.randomUUID()), "x");
+        Path other = Files.writeString(dir.resolve("notes.txt"), "keep\n");
+        AtomicWrite.checkWritable(dir.resolve("out.json"), "--out");
+        org.junit.jupiter.api.Assertions.assertFalse(Files.exists(left), "dead check's probe removed");
+        org.junit.jupiter.api.Assertions.assertTrue(Files.exists(live), "a live writer's probe kept");
+        org.junit.jupiter.api.Assertions.assertEquals("x", Files.readString(notEmpty), "a non-empty file is never removed");
+        org.junit.jupiter.api.Assertions.assertEquals("keep\n", Files.readString(other));
+        try (var ls = Files.list(dir)) {
+            org.junit.jupiter.api.Assertions.assertEquals(java.util.Set.of(live, notEmpty, other),
+                    java.util.Set.copyOf(ls.toList()), "the check itself leaves nothing");
+        }
+    }
 }

@@ -40,6 +40,7 @@ public final class InputFiles {
         List<DataFile> out = new ArrayList<>();
         for (String arg : inputs) {
             Path p = new Path(arg);
+            localKind(arg, p);
             try {
                 FileSystem fs = p.getFileSystem(conf);
                 if (!fs.exists(p)) {
@@ -70,12 +71,63 @@ public final class InputFiles {
         }
         String first = out.get(0).format();
         for (DataFile f : out) {
+            if (!f.format().equals(first) && f.argument().equals(out.get(0).argument())) {
+                throw new UserError("input " + f.argument() + " holds " + first + " and " + f.format() + " files ("
+                        + display(out.get(0)) + ", " + display(f) + "); give inputs of one format");
+            }
             if (!f.format().equals(first)) {
                 throw new UserError("input " + f.argument() + " is " + f.format() + " but " + out.get(0).argument()
                         + " is " + first + "; give inputs of one format");
             }
         }
         return out;
+    }
+
+    /**
+     * A local input that is not a file or a directory is named for what it is: a FIFO or a device
+     * would block or never end, and a loop of symbolic links leads nowhere.
+     */
+    static void localKind(String arg, Path p) {
+        String scheme = p.toUri().getScheme();
+        if (scheme != null && !scheme.equals("file")) {
+            return;
+        }
+        java.nio.file.Path local;
+        try {
+            local = java.nio.file.Paths.get(p.toUri().getPath());
+        } catch (RuntimeException e) {
+            return; // the filesystem's own check names it
+        }
+        java.nio.file.attribute.BasicFileAttributes a;
+        try {
+            a = java.nio.file.Files.readAttributes(local, java.nio.file.attribute.BasicFileAttributes.class);
+        } catch (java.nio.file.NoSuchFileException e) {
+            return; // "no such file or directory", below
+        } catch (java.nio.file.FileSystemException e) {
+            if (String.valueOf(e.getReason()).contains("symbolic links")) {
+                throw new UserError("input " + arg + " is a loop of symbolic links, not a file");
+            }
+            return;
+        } catch (IOException e) {
+            return;
+        }
+        if (a.isRegularFile() || a.isDirectory()) {
+            return;
+        }
+        String kind = "not a regular file";
+        try {
+            int mode = (Integer) java.nio.file.Files.getAttribute(local, "unix:mode");
+            kind = switch (mode & 0170000) {
+                case 0010000 -> "a FIFO";
+                case 0020000 -> "a character device";
+                case 0060000 -> "a block device";
+                case 0140000 -> "a socket";
+                default -> kind;
+            };
+        } catch (IOException | UnsupportedOperationException | IllegalArgumentException | ClassCastException e) {
+            // keep the general word
+        }
+        throw new UserError("input " + arg + " is " + kind + ", not a file");
     }
 
     static String formatOf(String arg, String fileName, String format) {
@@ -122,6 +174,13 @@ public final class InputFiles {
                     line = nextLine(in, encoding);
                 }
             }
+        } catch (LongLine e) {
+            if (e.carriageReturns) {
+                throw crOnly(file);
+            }
+            throw new UserError("input " + display(file) + " line 1: the header line is longer than "
+                    + String.format(Locale.ROOT, "%,d", MAX_HEADER_BYTES) + " bytes (1 MiB) without a line break;"
+                    + " a CSV file starts with one line naming its columns");
         } catch (java.nio.charset.CharacterCodingException e) {
             throw new UserError("input " + display(file) + " line 1: bytes that are not valid " + encoding.name()
                     + "; pass --encoding with the file's encoding, e.g. --encoding ISO-8859-1");
@@ -136,13 +195,16 @@ public final class InputFiles {
         if (!line.isEmpty() && line.charAt(0) == '\uFEFF') {
             line = line.substring(1);
         }
+        if (line.indexOf('\r') >= 0) { // a CR inside the first line (a trailing one was dropped): CR-only endings
+            throw crOnly(file);
+        }
         List<String> names;
         try {
             names = CsvFields.split(line, delimiter);
         } catch (CsvFields.Malformed e) {
             throw new UserError("input " + display(file) + " line 1: column " + e.column() + ": "
-                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + ")"
-                    : "text after a closing quote"));
+                    + (e.unterminated() ? "unterminated quote (opened at character " + e.quoteAt() + "); a column"
+                    + " name cannot hold a line break" : "text after a closing quote"));
         }
         names.replaceAll(String::trim); // the one whitespace rule, as for values
         for (int i = 0; i < names.size(); i++) {
@@ -164,7 +226,29 @@ public final class InputFiles {
         return names;
     }
 
-    /** The next line's bytes up to '\n' (a trailing '\r' dropped) decoded strictly, or null at the end. */
+    /** The longest header line read: a header names the columns, and a file without line breaks is not read whole. */
+    public static final int MAX_HEADER_BYTES = 1 << 20;
+
+    /** A header line longer than {@link #MAX_HEADER_BYTES}. */
+    private static final class LongLine extends IOException {
+        final boolean carriageReturns;
+
+        LongLine(boolean carriageReturns) {
+            super("header line too long");
+            this.carriageReturns = carriageReturns;
+        }
+    }
+
+    /** The refusal of a file whose lines end in a carriage return alone. */
+    static UserError crOnly(DataFile file) {
+        return new UserError("input " + display(file) + ": lines end in a carriage return alone (CR, old Mac line"
+                + " endings); convert them to LF or CRLF, e.g. tr '\\r' '\\n' < in.csv > out.csv");
+    }
+
+    /**
+     * The next line's bytes up to '\n' (a trailing '\r' dropped) decoded strictly, or null at the end;
+     * at most {@link #MAX_HEADER_BYTES} bytes are read ({@link LongLine} beyond).
+     */
     private static String nextLine(InputStream in, java.nio.charset.Charset encoding) throws IOException {
         java.io.ByteArrayOutputStream buf = new java.io.ByteArrayOutputStream();
         int b = in.read();
@@ -172,6 +256,14 @@ public final class InputFiles {
             return null;
         }
         while (b >= 0 && b != '\n') {
+            if (buf.size() >= MAX_HEADER_BYTES) {
+                byte[] seen = buf.toByteArray();
+                boolean cr = false;
+                for (byte x : seen) {
+                    cr |= x == '\r';
+                }
+                throw new LongLine(cr);
+            }
             buf.write(b);
             b = in.read();
         }

@@ -85,8 +85,64 @@ public final class Constraints {
                         + " parents but --max-parents is " + maxParents);
             }
         }
+        List<Integer> cycle = cycle(required);
+        if (!cycle.isEmpty()) {
+            StringBuilder path = new StringBuilder();
+            for (int v : cycle) {
+                path.append(path.length() == 0 ? "" : "->").append(names.get(v));
+            }
+            throw new UserError("--require: the required edges form a cycle (" + path
+                    + "); a DAG can hold at most all but one of them");
+        }
         return new Constraints(List.copyOf(names), allowed, required, List.copyOf(forbid), List.copyOf(require),
                 tiers.stream().map(List::copyOf).toList());
+    }
+
+    /**
+     * A directed cycle among the required edges (parent → child), as its variables with the first
+     * repeated at the end, or empty when there is none.
+     */
+    static List<Integer> cycle(int[][] required) {
+        int n = required.length;
+        int[] state = new int[n]; // 0 unseen, 1 on the path, 2 done
+        int[] next = new int[n]; // the parent followed from each variable on the path
+        for (int start = 0; start < n; start++) {
+            if (state[start] != 0) {
+                continue;
+            }
+            // depth-first along child → parent (a cycle read backwards), iteratively
+            java.util.ArrayDeque<int[]> stack = new java.util.ArrayDeque<>();
+            stack.push(new int[] {start, 0});
+            state[start] = 1;
+            while (!stack.isEmpty()) {
+                int[] top = stack.peek();
+                int v = top[0];
+                if (top[1] < required[v].length) {
+                    int p = required[v][top[1]++];
+                    next[v] = p;
+                    if (state[p] == 1) {
+                        // p → … → v → p, read forwards: walk from p along next (child → parent) and reverse
+                        List<Integer> back = new ArrayList<>();
+                        int u = p;
+                        back.add(u);
+                        do {
+                            u = next[u];
+                            back.add(u);
+                        } while (u != p);
+                        java.util.Collections.reverse(back);
+                        return back;
+                    }
+                    if (state[p] == 0) {
+                        state[p] = 1;
+                        stack.push(new int[] {p, 0});
+                    }
+                } else {
+                    state[v] = 2;
+                    stack.pop();
+                }
+            }
+        }
+        return List.of();
     }
 
     private static int index(List<String> names, String name, String option) {

@@ -106,6 +106,26 @@ public final class FamilyPlan {
     }
 
     /**
+     * Refuses a plan that could not fit from the header alone, before any pass over the data: the
+     * family count depends only on the candidate and required parents of every child and d (with
+     * {@code --candidates K}, every child keeps its required parents and at most K in all).
+     *
+     * @param k the candidates kept per child, or null for all
+     */
+    public static void checkBeforeScan(int[][] candidates, int[][] required, int maxParents, Integer k) {
+        int[][] kept = candidates;
+        if (k != null) {
+            kept = new int[candidates.length][];
+            for (int i = 0; i < candidates.length; i++) {
+                // only the sizes count: required ones first, then the others up to k
+                kept[i] = new int[Math.max(required[i].length, Math.min(k, candidates[i].length))];
+            }
+        }
+        checkFamilyCount(familyCount(kept, required, maxParents), candidates.length, maxParents,
+                Runtime.getRuntime().maxMemory());
+    }
+
+    /**
      * Refuses, in seconds, a plan whose families alone would not fit: at least
      * {@link #BYTES_PER_FAMILY} bytes each on the driver (the plan's arrays and the stored family),
      * against half the heap; and at most {@code Integer.MAX_VALUE} families (the store indexes them

@@ -30,16 +30,20 @@ import picocli.CommandLine.Command;
         subcommands = {CommandLine.HelpCommand.class, ScoresCommand.class,
                 EdgesCommand.class, PredictCommand.class, EffectCommand.class, SimulateCommand.class, ReportCommand.class,
                 CompareCommand.class, SampleCommand.class})
-public final class EdgewiseCli implements Runnable {
+public final class EdgewiseCli implements java.util.concurrent.Callable<Integer> {
     /** Exit status for a user mistake (bad option, bad file, damaged store). */
     public static final int USER_ERROR = ErrorReport.USER_MISTAKE;
 
     @CommandLine.Spec
     CommandLine.Model.CommandSpec spec;
 
+    /** No command: a user's mistake, one line with the usage (exit status 2); {@code --help} prints the full text. */
     @Override
-    public void run() {
-        spec.commandLine().usage(spec.commandLine().getOut());
+    public Integer call() {
+        String usage = spec.commandLine().getHelp().synopsis(0).strip();
+        spec.commandLine().getErr().println("edgewise: no command given; usage: " + usage + " (see edgewise --help)");
+        spec.commandLine().getErr().flush();
+        return USER_ERROR;
     }
 
     public static void main(String[] args) {

@@ -58,6 +58,9 @@ final class ReportCommand implements Callable<Integer> {
             output.write(spec, EffectSection.page(EffectResult.read(effect), effect.getFileName().toString()));
             return 0;
         }
+        // planned before the whole result is read: reading and rendering grow as n × n
+        org.edgewise.driver.report.TooLargeToReport.check(Math.max(0, ResultJson.variableCount(result)),
+                Runtime.getRuntime().maxMemory());
         EdgeResult r = ResultJson.readEdges(result);
         Network net = truth == null ? null : NetworkReader.read(truth);
         String name = result.getFileName().toString();

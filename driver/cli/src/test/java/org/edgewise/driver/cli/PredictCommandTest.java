@@ -166,6 +166,51 @@ class PredictCommandTest {
         assertFalse(Files.exists(out), "nothing half-written");
     }
 
+    /** An all-blank row of --cases would be answered P = 1 (issue 23): refused with its line, the file unchanged. */
+    @Test
+    void anAllBlankCaseRowIsRefused() throws Exception {
+        Path f = dir.resolve("blank.csv");
+        String text = "v1,v0\ns0,s1\n , \n";
+        Files.writeString(f, text);
+        Path out = dir.resolve("blank-out.csv");
+        refused("predict: " + f + ": line 3 sets no variable (every field is blank); a case needs at least one"
+                + " name=state, and an empty one has probability 1 by definition",
+                "predict", "--store", store.toString(), "--order", ORDER, "--cases", f.toString(), "--out", out.toString());
+        assertEquals(text, Files.readString(f));
+        assertFalse(Files.exists(out), "nothing written");
+    }
+
+    /**
+     * An exact structure-modular prediction is planned before it runs (issue 23): joint hidden states ×
+     * 3^n terms above the budget is refused at once, with the figures and the sampled method; with
+     * enough observed it answers.
+     */
+    @Test
+    void anExactPredictionAboveTheBudgetIsRefusedBeforeWork() throws Exception {
+        int[] arities = new int[13];
+        java.util.Arrays.fill(arities, 2);
+        var vars = HeldOutData.variables(arities);
+        ScoreStore s = InMemoryTally.tally(vars, HeldOutData.table(23_010L, 60, arities), 1, FamilyScore.withDefaults());
+        Path p = dir.resolve("thirteen");
+        StoreWriter.write(p, s.manifest(), s.families(), s.logScores(), false);
+        long t0 = System.nanoTime();
+        refused("predict: an exact prediction over all DAGs would sum 9.8e+09 terms (6,144 hidden joint states × one sum"
+                        + " of 3^13 = 1,594,323 terms each), more than the budget of 1e+09 terms; observe more of the hidden"
+                        + " variables, or use --method mcmc, which answers it by sampling",
+                "predict", "--store", p.toString(), "--method", "exact", "--case", "v0=s0", "--given", "v1=s0");
+        double took = (System.nanoTime() - t0) / 1e9;
+        assertTrue(took < 60, "refused in " + took + " s");
+        CliRun ok = CliRun.of("predict", "--store", p.toString(), "--method", "exact", "--case", "v0=s0",
+                "--given", "v1=s0,v2=s0,v3=s1,v4=s0,v5=s1,v6=s0,v7=s1,v8=s0,v9=s0");
+        assertEquals(0, ok.status(), ok.err());
+    }
+
+    /** {@code edgewise} without a command is a mistake: exit 2 and the usage line, nothing on standard output. */
+    @Test
+    void noCommandExitsTwoWithTheUsage() {
+        refused("edgewise: no command given; usage: edgewise [-hV] [COMMAND] (see edgewise --help)");
+    }
+
     static void refused(String message, String... args) {
         CliRun r = CliRun.of(args);
         assertEquals(2, r.status(), "exit status for: " + String.join(" ", args) + "\n" + r.err());

@@ -1,5 +1,6 @@
 package org.edgewise.driver.cli;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -136,6 +137,50 @@ class ReportCommandsTest {
             assertEquals(command + ": result file " + r + " has format version 1; this Edgewise reads edges results of"
                     + " format version 2; re-run the analysis that wrote it with this Edgewise\n", run.err());
             assertFalse(Files.exists(out));
+        }
+    }
+
+    /**
+     * Issue 23: the report of an 800-variable result at a small heap is refused with the figures before
+     * anything is built (it ran out of memory), in a JVM of its own with -Xmx256m; nothing is written.
+     */
+    @Test
+    void aReportTooLargeForTheHeapIsRefusedBeforeBuilding(@org.junit.jupiter.api.io.TempDir Path tmp) throws Exception {
+        int n = 800;
+        java.util.List<String> vars = new java.util.ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            vars.add("v" + i);
+        }
+        java.util.List<org.edgewise.driver.result.EdgeResult.Edge> edges = new java.util.ArrayList<>();
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a != b) {
+                    edges.add(new org.edgewise.driver.result.EdgeResult.Edge(vars.get(a), vars.get(b), (a + b) % 7 / 10.0,
+                            null, null));
+                }
+            }
+        }
+        Path result = tmp.resolve("wide.json");
+        org.edgewise.driver.result.ResultJson.write(result, new org.edgewise.driver.result.EdgeResult("order", vars, null, null,
+                null, vars, null, null, edges, null, null, null, null, null, null, null));
+        byte[] before = Files.readAllBytes(result);
+        Path out = tmp.resolve("wide.html");
+        String javaBin = Path.of(System.getProperty("java.home"), "bin", "java").toString();
+        Process p = new ProcessBuilder(javaBin, "-Xmx256m", "-cp", System.getProperty("java.class.path"),
+                "org.edgewise.driver.cli.EdgewiseCli", "report", "--result", result.toString(), "--out", out.toString())
+                .redirectErrorStream(false).start();
+        String err = new String(p.getErrorStream().readAllBytes(), java.nio.charset.StandardCharsets.UTF_8).strip();
+        String stdout = new String(p.getInputStream().readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
+        assertTrue(p.waitFor(120, java.util.concurrent.TimeUnit.SECONDS), "finished");
+        long heap = Long.parseLong(err.replaceAll(".*heap \\((\\d+) MiB\\).*", "$1"));
+        assertEquals("report: a report of 800 variables (a 800 × 800 heatmap) needs about 549 MiB to read and build, more than half"
+                + " the heap (" + heap + " MiB); raise it with EDGEWISE_JAVA_OPTS=-Xmx…", err);
+        assertEquals(2, p.exitValue());
+        assertEquals("", stdout);
+        assertTrue(Files.notExists(out), "nothing written");
+        assertArrayEquals(before, Files.readAllBytes(result), "result unchanged");
+        try (var ls = Files.list(tmp)) {
+            assertEquals(java.util.List.of(result), ls.toList(), "no temporary left");
         }
     }
 }

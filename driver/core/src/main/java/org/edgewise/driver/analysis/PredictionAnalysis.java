@@ -21,6 +21,7 @@ import org.edgewise.driver.query.CaseParser;
 import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CaseTable;
+import org.edgewise.driver.query.StructureCasePrediction;
 import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.result.Prediction;
 import org.edgewise.driver.result.EdgeResult;
@@ -100,6 +101,9 @@ public final class PredictionAnalysis {
         CaseProbability best = cases.best() != null ? cases.best()
                 : CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
         EdgeResult.Diagnostics diagnostics = p.chains() == null ? null : ChainReport.diagnostics(p.chains(), settings);
+        if (avg instanceof StructureCasePrediction sp && single != null) {
+            sp.plan(single, given); // the exact sums over all DAGs are planned before the evidence is checked
+        }
         if (given != null) {
             checkEvidence(avg, given, r.givenText(), in);
             checkEvidence(best, given, r.givenText(), in);

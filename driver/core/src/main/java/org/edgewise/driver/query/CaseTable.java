@@ -67,12 +67,18 @@ public record CaseTable(List<String> header, List<String> lines, int[][] cases) 
             }
             int[] states = new int[m.variableCount()];
             Arrays.fill(states, CaseParser.HIDDEN);
+            boolean any = false;
             for (int c = 0; c < f.size(); c++) {
                 String cell = f.get(c).trim();
                 if (!cell.isEmpty()) {
                     states[column[c]] = CaseParser.state(m.variables().get(column[c]), cell,
                             file + ": line " + (i + 1) + ", column " + (c + 1));
+                    any = true;
                 }
+            }
+            if (!any) { // every variable hidden: P = 1 whatever the data, an answer to no question
+                throw new UserError(file + ": line " + (i + 1) + " sets no variable (every field is blank); a case"
+                        + " needs at least one name=state, and an empty one has probability 1 by definition");
             }
             lines.add(line);
             cases.add(states);

@@ -1,6 +1,7 @@
 package org.edgewise.driver.query;
 
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
 import org.edgewise.driver.UserError;
@@ -54,6 +55,27 @@ public final class StructureCasePrediction implements CaseProbability {
         return StructureSum.logDagSum(ls.withWeights(ExactCasePrediction.weightsWith(ls, x)), oc) - logZ;
     }
 
+    /**
+     * The most terms one prediction (both sums of a conditional together) may plan: joint hidden
+     * states × 3^n. A pass of 3^n terms runs at some 10^7–10^8 terms a second, so this bound keeps an
+     * answer within tens of seconds; above it the work is refused before any pass runs.
+     */
+    public static final double TERM_BUDGET = 1e9;
+
+    /** Refuses, before any pass, a plan of {@code passes} forward passes above {@link #TERM_BUDGET}. */
+    private void plan(double passes) {
+        int n = ls.variableCount();
+        if (passes * Math.pow(3, n) > TERM_BUDGET) {
+            throw new TooSlowForExact(passes, n, TERM_BUDGET);
+        }
+    }
+
+    /** One pass per joint hidden state, at least one for a case with nothing hidden. */
+    private double passes(int[] states) {
+        int[] hidden = hiddenToSumOut(states);
+        return hidden.length == states.length ? 0 : Math.max(1, hiddenJointStates(states));
+    }
+
     @Override
     public double logProbability(int[] states) {
         int[] hidden = hiddenToSumOut(states);
@@ -61,11 +83,30 @@ public final class StructureCasePrediction implements CaseProbability {
             return 0;
         }
         double joint = hiddenJointStates(states);
+        if (joint <= maxHiddenStates) {
+            plan(passes(states));
+        }
         if (joint > maxHiddenStates) {
             throw new UserError("summing out hidden variables " + names(hidden) + " would enumerate "
                     + String.format(Locale.ROOT, "%.0f", joint) + " joint states (limit "
                     + maxHiddenStates + "); observe some of them or raise " + ls.options().names().maxHiddenStates());
         }
+        Memo m = last;
+        if (m != null && Arrays.equals(m.states(), states)) {
+            return m.value(); // the evidence is checked, then asked again for the conditional: one sum, not two
+        }
+        double value = sumOut(states, hidden);
+        last = new Memo(states.clone(), value);
+        return value;
+    }
+
+    /** The last sum (immutable, so safe to share between threads). */
+    private record Memo(int[] states, double value) {
+    }
+
+    private volatile Memo last;
+
+    private double sumOut(int[] states, int[] hidden) {
         int[] x = states.clone();
         for (int h : hidden) {
             x[h] = 0;
@@ -84,8 +125,22 @@ public final class StructureCasePrediction implements CaseProbability {
         }
     }
 
+    /**
+     * Plans P(target | given) (or P(target) when {@code given} is null) before any sum runs: the passes
+     * of both sums together against {@link #TERM_BUDGET}; a {@link TooSlowForExact} above it.
+     */
+    public void plan(int[] target, int[] given) {
+        int[] joint = given == null ? target : CaseConditional.joint(target, given);
+        if (joint == null || hiddenJointStates(joint) > maxHiddenStates
+                || (given != null && hiddenJointStates(given) > maxHiddenStates)) {
+            return; // a contradiction, or the limit on joint states refuses it with its own words
+        }
+        plan(passes(joint) + (given == null ? 0 : passes(given)));
+    }
+
     @Override
     public double logConditional(int[] target, int[] given) {
+        plan(target, given);
         return CaseConditional.of(this, target, given, ls.options().names().given() + " has probability zero under the store; a conditional on it is undefined");
     }
 

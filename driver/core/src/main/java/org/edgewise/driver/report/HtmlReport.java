@@ -62,6 +62,8 @@ public final class HtmlReport {
     /** As {@link #render(EdgeResult, String, Network, String, double, AssessHint)}, naming how to run longer as {@code run}. */
     public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
                                 AssessHint hint, RunHint run) {
+        // the n × n parts are planned before any is built: a refusal with the figure, not an OutOfMemoryError
+        TooLargeToReport.check(r.variables() == null ? 0 : r.variables().size(), Runtime.getRuntime().maxMemory());
         EdgeMatrix m = EdgeMatrix.of(r);
         ConsensusEdges ce = ConsensusEdges.of(r, m);
         List<ConsensusEdges.Drawn> shown = ce.drawn(threshold);

@@ -111,6 +111,38 @@ public final class ResultJson {
         return node;
     }
 
+    /**
+     * The number of variables an edges result names, read by streaming (nothing but that array is
+     * kept), so its size can be planned before the whole file is read; -1 when there is no such array
+     * at the top level (the full read then says what is wrong).
+     */
+    public static int variableCount(Path file) {
+        if (!Files.isRegularFile(file)) {
+            return -1;
+        }
+        try (com.fasterxml.jackson.core.JsonParser p = MAPPER.getFactory().createParser(file.toFile())) {
+            if (p.nextToken() != com.fasterxml.jackson.core.JsonToken.START_OBJECT) {
+                return -1;
+            }
+            while (p.nextToken() == com.fasterxml.jackson.core.JsonToken.FIELD_NAME) {
+                String name = p.currentName();
+                com.fasterxml.jackson.core.JsonToken t = p.nextToken();
+                if ("variables".equals(name) && t == com.fasterxml.jackson.core.JsonToken.START_ARRAY) {
+                    int n = 0;
+                    while (p.nextToken() != com.fasterxml.jackson.core.JsonToken.END_ARRAY) {
+                        p.skipChildren();
+                        n++;
+                    }
+                    return n;
+                }
+                p.skipChildren();
+            }
+            return -1;
+        } catch (IOException | RuntimeException e) {
+            return -1; // the full read names the problem
+        }
+    }
+
     public static EdgeResult readEdges(Path file) {
         if (!Files.isRegularFile(file)) {
             throw new UserError("result file " + file + " does not exist");
