@@ -55,10 +55,21 @@ public final class TallyJob {
     }
 
     public static Summary run(SparkSession spark, TallyOptions o) {
+        return run(spark, o, table -> { });
+    }
+
+    /**
+     * As {@link #run(SparkSession, TallyOptions)}; {@code opened} sees the table once its files and
+     * their format are known, before any row is read (the command line refuses there what does not
+     * apply to that format).
+     */
+    static Summary run(SparkSession spark, TallyOptions o, java.util.function.Consumer<Table> opened) {
         if (Files.exists(o.out()) && !o.overwrite()) {
             throw new UserError("output " + o.out() + " already exists; pass --overwrite to replace it");
         }
-        return run(Table.open(spark, o.inputs(), o.format(), o.delimiter(), o.encoding()), o);
+        Table table = Table.open(spark, o.inputs(), o.format(), o.delimiter(), o.encoding());
+        opened.accept(table);
+        return run(table, o);
     }
 
     /** The tally of an opened table (files, or a caller's Dataset through {@link Tally}); {@code o.inputs()} only labels it. */

@@ -42,7 +42,8 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--delimiter", paramLabel = "C", description = "CSV field delimiter, one character or 'tab' (default: tab for .tsv files, else ',')") String delimiter;
 
-    @Option(names = "--encoding", defaultValue = "UTF-8", paramLabel = "NAME", description = "character encoding of CSV input, e.g. ISO-8859-1 (default ${DEFAULT-VALUE}; bytes not valid in it are refused)") String encoding;
+    // no picocli default: given or not is what decides whether it is refused for Parquet input
+    @Option(names = "--encoding", paramLabel = "NAME", description = "character encoding of CSV input, e.g. ISO-8859-1 (default UTF-8; bytes not valid in it are refused)") String encoding;
 
     @Option(names = "--out", required = true, paramLabel = "STORE", description = "score store directory to write (local path)") Path out;
 
@@ -154,7 +155,7 @@ public final class TallyMain implements Callable<Integer> {
             throw e;
         }
         try {
-            TallyJob.Summary s = TallyJob.run(spark, o);
+            TallyJob.Summary s = TallyJob.run(spark, o, this::csvOnly);
             PrintWriter w = spec.commandLine().getOut();
             w.printf(Locale.ROOT, "tally: wrote %s — %d families over %d variables from %d rows (%d dropped), "
                             + "%d variable sets in %d %s, %.1f s%n", o.out(), s.families(), s.variables(), s.rows(),
@@ -236,7 +237,7 @@ public final class TallyMain implements Callable<Integer> {
         StoreTarget.check(out, overwrite, inputs, "--out", "--overwrite");
         java.nio.charset.Charset charset;
         try {
-            charset = java.nio.charset.Charset.forName(encoding.trim());
+            charset = java.nio.charset.Charset.forName(encoding == null ? "UTF-8" : encoding.trim());
         } catch (IllegalArgumentException e) {
             throw new UserError("--encoding: unknown encoding '" + encoding + "' (e.g. UTF-8, ISO-8859-1, windows-1252)");
         }
@@ -246,6 +247,16 @@ public final class TallyMain implements Callable<Integer> {
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
                 tierList, policy, maxStates, bins, kind, essValue, partitions, budget, charset,
                 weight == null ? null : weight.trim());
+    }
+
+    /** Refuses the options that only read CSV text when the inputs turn out to be Parquet (known once their files are listed). */
+    void csvOnly(org.edgewise.job.input.Table table) {
+        if (!table.isCsv()) {
+            Checks.notApplicable(delimiter != null, "--delimiter", "to Parquet input",
+                    "it splits the fields of CSV text; Parquet stores its columns apart");
+            Checks.notApplicable(encoding != null, "--encoding", "to Parquet input",
+                    "it decodes the bytes of CSV text; Parquet stores its strings as UTF-8");
+        }
     }
 
     /** The same input given twice would be counted twice: refused (the same text, or the same local file by its real path). */
