@@ -2,6 +2,7 @@ package org.edgewise.driver.cli;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
@@ -175,6 +176,77 @@ class SavedSampleTest extends StoreFixture {
         assertEquals("predict: sample " + p + ": DAG 1 (chain 1): summing out the hidden ancestors of the case by elimination "
                 + "would build a table of 2 entries (limit 1); observe more of them, or raise --max-hidden-states", r.errLine());
     }
+
+    /**
+     * Issue 19 point 1: a result answered from a sample drawn by MCMC names the sample and carries its verdict — a
+     * deliberately short run (8 steps, 4 draws per chain) ends unconverged, and {@code edges --sample} and
+     * {@code predict --sample} then print the same not-converged line (after the command's name), word for word, and
+     * exit 3 unless {@code --allow-unconverged}, as {@code effect --sample} does. The line's figures are the split-R̂,
+     * bulk effective sample size and MCSE of the saved DAGs' edge indicators in draw order (seed 2: reproducible).
+     */
+    @Test
+    void edgesAndPredictFromAnUnconvergedMcmcSampleCarryItsVerdict() throws Exception {
+        Path p = dir.resolve("short");
+        CliRun drawn = CliRun.of("sample", "--store", store.toString(), "--out", p.toString(), "--method", "mcmc", "--steps", "8",
+                "--draws", "4", "--seed", "2", "--allow-unconverged");
+        assertEquals(0, drawn.status(), drawn.err());
+        JsonNode manifest = JSON.readTree(p.resolve("sample.json").toFile());
+        assertEquals("steps", manifest.get("diagnostics").get("stopReason").asText(), manifest.toString());
+        assertTrue(!manifest.get("diagnostics").get("converged").asBoolean(), manifest.toString());
+
+        Path out = dir.resolve("short-edges.json");
+        CliRun e = CliRun.of("edges", "--store", store.toString(), "--sample", p.toString(), "--out", out.toString());
+        CliRun q = CliRun.of("predict", "--store", store.toString(), "--sample", p.toString(), "--case", "v2=s1,v0=s0");
+        assertEquals(3, e.status(), e.err());
+        assertEquals(3, q.status(), q.err());
+        String ew = UnconvergedExitTest.warning(e, "edges");
+        String qw = UnconvergedExitTest.warning(q, "predict");
+        assertEquals(ew.substring("edges: ".length()), qw.substring("predict: ".length()));
+        assertEquals(SHORT_SAMPLE_LINE, ew.substring("edges: ".length()));
+        assertFalse(q.out().isEmpty(), "the prediction is printed before the status");
+
+        JsonNode r = JSON.readTree(out.toFile());
+        JsonNode s = r.get("store").get("sample");
+        assertEquals(p.toString(), s.get("path").asText());
+        assertEquals("mcmc", s.get("method").asText());
+        assertTrue(s.get("sampler").asText().startsWith("sampled by chains: "), s.toString());
+        assertFalse(s.get("converged").asBoolean(), s.toString());
+        JsonNode d = r.get("diagnostics");
+        assertFalse(d.get("converged").asBoolean(), d.toString());
+        assertEquals("steps", d.get("stopReason").asText());
+        assertTrue(d.has("rhat") && d.has("bulkEffectiveSampleSize"), d.toString());
+        assertEquals(manifest.get("chains").asInt(), d.get("chains").asInt());
+        assertEquals(4, d.get("drawsPerChain").asInt());
+
+        CliRun eo = CliRun.of("edges", "--store", store.toString(), "--sample", p.toString(), "--allow-unconverged");
+        CliRun qo = CliRun.of("predict", "--store", store.toString(), "--sample", p.toString(), "--case", "v2=s1,v0=s0",
+                "--allow-unconverged");
+        assertEquals(0, eo.status(), eo.err());
+        assertEquals(0, qo.status(), qo.err());
+        assertTrue(UnconvergedExitTest.warning(eo, "edges").endsWith(". " + UnconvergedExitTest.EXIT_0), eo.err());
+        assertTrue(UnconvergedExitTest.warning(qo, "predict").endsWith(". " + UnconvergedExitTest.EXIT_0), qo.err());
+        // effect over the same sample: exit 3 as well
+        assertEquals(3, CliRun.of("effect", "--store", store.toString(), "--sample", p.toString(), "--do", "v3=s1", "--target",
+                "v2=s0", "--effect-draws", "50", "--format", "json").status());
+
+        // a sample drawn exactly carries no verdict: no diagnostics, no line, exit 0; the sample is still named
+        Path x = sample("exact-named", "--method", "exact", "--dags", "100", "--seed", "2");
+        CliRun ex = CliRun.of("edges", "--store", store.toString(), "--sample", x.toString(), "--format", "json");
+        assertEquals(0, ex.status(), ex.err());
+        JsonNode xr = JSON.readTree(ex.out());
+        assertTrue(xr.get("diagnostics") == null || xr.get("diagnostics").isNull(), xr.get("diagnostics") + "");
+        assertEquals("exact", xr.get("store").get("sample").get("method").asText());
+        assertTrue(xr.get("store").get("sample").get("converged") == null);
+    }
+
+    /** The not-converged line of {@code edges --sample} / {@code predict --sample} over the short MCMC sample (seed 2). */
+    static final String SHORT_SAMPLE_LINE = "WARNING: not converged (a fixed number of steps was run, with no check until "
+            + "converged; needs R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature "
+            + "posterior): the posteriors are not reliable. Worst: edge v0 -> v2: R-hat inf, bulk eff. n -, MCSE 0.2500 (stuck: "
+            + "each chain keeps its own value); edge v1 -> v2: R-hat inf, bulk eff. n -, MCSE -; edge v2 -> v1: R-hat inf, "
+            + "bulk eff. n -, MCSE -; edge v0 -> v1: R-hat 1.439, bulk eff. n 9, MCSE 0.1703; edge v1 -> v0: R-hat 1.439, "
+            + "bulk eff. n 9, MCSE 0.1703. Run longer: raise the steps per chain (--steps) or run until converged instead "
+            + "(no --steps, or --rhat-target). " + UnconvergedExitTest.EXIT_3;
 
     static String[] concat(String[] a, String[] b) {
         String[] all = new String[a.length + b.length];
