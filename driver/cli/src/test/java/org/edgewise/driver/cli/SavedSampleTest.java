@@ -248,6 +248,133 @@ class SavedSampleTest extends StoreFixture {
             + "bulk eff. n 9, MCSE 0.1703. Run longer: raise the steps per chain (--steps) or run until converged instead "
             + "(no --steps, or --rhat-target). " + UnconvergedExitTest.EXIT_3;
 
+    /**
+     * Issue 19 point 2: features from a saved sample beyond 31 variables. A 35-variable chain-shaped random table (each
+     * binary variable copies its predecessor with probability 0.85), a sample drawn given the chain order; ancestor and
+     * Markov-blanket posteriors, and the essential graph's adjacency, must equal the (weighted) frequencies over the saved
+     * DAGs computed here independently — the DAGs read from dags.bin by this test, reachability by depth-first search.
+     */
+    @Test
+    void featuresOfASavedSampleBeyondThirtyOneVariables() throws Exception {
+        int n = 35;
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(1935);
+        int[][] rows = new int[300][n];
+        for (int[] row : rows) {
+            row[0] = rng.nextInt(2);
+            for (int v = 1; v < n; v++) {
+                row[v] = rng.nextDouble() < 0.85 ? row[v - 1] : 1 - row[v - 1];
+            }
+        }
+        int[] arities = new int[n];
+        java.util.Arrays.fill(arities, 2);
+        Path wide = dir.resolve("wide-store");
+        CliRun.store(wide, rows, arities, 2);
+        String order = String.join(",", java.util.stream.IntStream.range(0, n).mapToObj(v -> "v" + v).toList());
+        Path p = dir.resolve("wide-sample");
+        CliRun drawn = CliRun.of("sample", "--store", wide.toString(), "--out", p.toString(), "--order", order, "--dags", "400",
+                "--seed", "4");
+        assertEquals(0, drawn.status(), drawn.err());
+        CliRun r = CliRun.of("edges", "--store", wide.toString(), "--sample", p.toString(), "--features",
+                "ancestors,markov-blanket,essential-graph", "--format", "json");
+        assertEquals(0, r.status(), r.err());
+        JsonNode res = JSON.readTree(r.out());
+
+        // the saved DAGs, read independently of the library (the format of SampleFile's class comment)
+        java.util.List<int[][]> dags = new java.util.ArrayList<>();
+        java.util.List<Double> weights = new java.util.ArrayList<>();
+        try (java.io.DataInputStream in = new java.io.DataInputStream(new java.io.BufferedInputStream(
+                Files.newInputStream(p.resolve("dags.bin"))))) {
+            in.readFully(new byte[8]);
+            assertEquals(n, in.readInt());
+            int chains = in.readInt();
+            int per = in.readInt();
+            boolean weighted = in.readByte() == 1;
+            for (int g = 0; g < chains * per; g++) {
+                int[][] pa = new int[n][];
+                for (int v = 0; v < n; v++) {
+                    pa[v] = new int[in.readInt()];
+                    for (int i = 0; i < pa[v].length; i++) {
+                        pa[v][i] = in.readInt();
+                    }
+                }
+                dags.add(pa);
+                weights.add(weighted ? in.readDouble() : 1.0);
+            }
+        }
+        assertEquals(400, dags.size());
+        double total = weights.stream().mapToDouble(Double::doubleValue).sum();
+        double[][] anc = new double[n][n];
+        double[][] mb = new double[n][n];
+        double[][] adj = new double[n][n];
+        for (int g = 0; g < dags.size(); g++) {
+            int[][] pa = dags.get(g);
+            double w = weights.get(g) / total;
+            boolean[][] reach = new boolean[n][n]; // reach[a][b]: a directed path a ~> b
+            for (int a = 0; a < n; a++) {
+                java.util.ArrayDeque<Integer> todo = new java.util.ArrayDeque<>(java.util.List.of(a));
+                while (!todo.isEmpty()) {
+                    int x = todo.pop();
+                    for (int ch = 0; ch < n; ch++) {
+                        if (!reach[a][ch] && contains(pa[ch], x)) {
+                            reach[a][ch] = true;
+                            todo.push(ch);
+                        }
+                    }
+                }
+            }
+            for (int a = 0; a < n; a++) {
+                for (int b = 0; b < n; b++) {
+                    if (a == b) {
+                        continue;
+                    }
+                    boolean adjacent = contains(pa[b], a) || contains(pa[a], b);
+                    boolean coParent = false;
+                    for (int v = 0; v < n; v++) {
+                        coParent |= contains(pa[v], a) && contains(pa[v], b);
+                    }
+                    anc[a][b] += reach[a][b] ? w : 0;
+                    mb[a][b] += adjacent || coParent ? w : 0;
+                    adj[a][b] += adjacent ? w : 0;
+                }
+            }
+        }
+        int ancestors = 0;
+        int blankets = 0;
+        boolean deep = false;
+        for (JsonNode f : res.get("features")) {
+            int a = Integer.parseInt(f.get("from").asText().substring(1));
+            int b = Integer.parseInt(f.get("to").asText().substring(1));
+            double want = f.get("kind").asText().equals("ancestor") ? anc[a][b] : mb[a][b];
+            assertEquals(want, f.get("posterior").asDouble(), 1e-12, f.toString());
+            if (f.get("kind").asText().equals("ancestor")) {
+                ancestors++;
+                deep |= Math.abs(b - a) > 31 && want > 0; // a path across more than 31 variables
+            } else {
+                blankets++;
+            }
+        }
+        assertEquals(n * (n - 1), ancestors);
+        assertEquals(n * (n - 1) / 2, blankets);
+        assertTrue(deep, "some saved DAG has a directed path from v0..v2 to v33..v34");
+        int pairs = 0;
+        for (JsonNode e : res.get("essentialGraph")) {
+            int a = Integer.parseInt(e.get("a").asText().substring(1));
+            int b = Integer.parseInt(e.get("b").asText().substring(1));
+            assertEquals(adj[a][b], e.get("adjacent").asDouble(), 1e-12, e.toString());
+            assertEquals(e.get("adjacent").asDouble(), e.get("aToB").asDouble() + e.get("bToA").asDouble()
+                    + e.get("undirected").asDouble(), 1e-12, e.toString());
+            pairs++;
+        }
+        assertEquals(n * (n - 1) / 2, pairs);
+        // a sampled figure is labelled as such: the result says it came from the saved sample
+        assertEquals("sample", res.get("method").asText());
+        assertEquals(p.toString(), res.get("store").get("sample").get("path").asText());
+    }
+
+    static boolean contains(int[] sorted, int x) {
+        return java.util.Arrays.binarySearch(sorted, x) >= 0;
+    }
+
     static String[] concat(String[] a, String[] b) {
         String[] all = new String[a.length + b.length];
         System.arraycopy(a, 0, all, 0, a.length);

@@ -5,7 +5,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.CandidateBoundary;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
@@ -107,7 +107,7 @@ public final class EdgeAnalysis {
                 base.forbid(), base.require(), p.tiers());
         int[] order = p.order();
         McmcResult chains = p.chains();
-        DagDraws essential = p.essentialDraws();
+        DrawnDags essential = p.essentialDraws();
         EdgeResult r = new EdgeResult(l.method(), names, e.logEvidence(), e.logEvidenceNormalized(),
                 l.dagPriorLabel(ResultBuilder.ORDER_MODULAR), order == null ? null : VariableOrder.names(ls.store().manifest(), order),
                 settings, provenance(p, storePath),
@@ -198,7 +198,7 @@ public final class EdgeAnalysis {
     }
 
     /** Essential-graph features of every unordered pair: adjacent, compelled either way, reversible. */
-    static List<EdgeResult.EssentialPair> essential(List<String> names, DagDraws d) {
+    static List<EdgeResult.EssentialPair> essential(List<String> names, DrawnDags d) {
         int n = names.size();
         List<EdgeResult.EssentialPair> out = new ArrayList<>();
         for (int a = 0; a < n; a++) {
