@@ -166,8 +166,9 @@ final class UnknownOrderEdges {
         for (int k = 0; k < next.size(); k++) {
             line(sb, k == 0 ? "next" : "", next.get(k));
         }
-        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %.3f, smallest tail eff. n %s",
-                d.chains(), d.steps(), d.burnIn(), d.seed(), d.acceptance(), d.tailEffectiveSampleSize() == null ? "-"
+        line(sb, "run", String.format(Locale.ROOT, "%d chains x %d steps (+ %d warm-up), seed %d, acceptance %s, smallest tail eff. n %s",
+                d.chains(), d.steps(), d.burnIn(), d.seed(), Double.isNaN(d.acceptance()) ? "- (not saved in the sample)"
+                        : String.format(Locale.ROOT, "%.3f", d.acceptance()), d.tailEffectiveSampleSize() == null ? "-"
                         : String.format(Locale.ROOT, "%.0f", d.tailEffectiveSampleSize())));
         return sb.toString();
     }

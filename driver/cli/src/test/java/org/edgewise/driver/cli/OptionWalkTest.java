@@ -187,7 +187,7 @@ class OptionWalkTest extends StoreFixture {
         for (String c : List.of("edges", "effect", "predict")) {
             UNCHANGED.put(c + " --allow-unconverged saved sample", "the walk's sample was drawn exactly, with no verdict; over a "
                     + "sample drawn by MCMC that ended unconverged it turns exit status 3 into 0 (UnconvergedExitTest: effect; "
-                    + "edges and predict from a sample do not carry its verdict yet)");
+                    + "SavedSampleTest: edges and predict)");
         }
         UNCHANGED.put("edges --max-time mcmc until converged", "the run stops at --max-steps within a second; a budget that "
                 + "binds would make the output depend on the machine's speed (it acts through ChainRunner's deadline)");

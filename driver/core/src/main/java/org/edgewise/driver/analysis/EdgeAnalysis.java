@@ -5,7 +5,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
-import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.CandidateBoundary;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
@@ -13,6 +13,7 @@ import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.SampleFile;
+import org.edgewise.driver.posterior.SavedSample;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.Fragility;
@@ -106,16 +107,30 @@ public final class EdgeAnalysis {
                 base.forbid(), base.require(), p.tiers());
         int[] order = p.order();
         McmcResult chains = p.chains();
-        DagDraws essential = p.essentialDraws();
+        DrawnDags essential = p.essentialDraws();
         EdgeResult r = new EdgeResult(l.method(), names, e.logEvidence(), e.logEvidenceNormalized(),
                 l.dagPriorLabel(ResultBuilder.ORDER_MODULAR), order == null ? null : VariableOrder.names(ls.store().manifest(), order),
-                settings, ResultBuilder.provenance(ls.store(), storePath),
+                settings, provenance(p, storePath),
                 e.sampled() == null ? ResultBuilder.edges(names, e.posterior()) : sampledEdges(names, e),
                 ResultBuilder.topParents(ls, p.setPosterior(), topParents),
                 p.bestSets() == null ? null : ResultBuilder.network(ls, p.bestSets()),
-                chains == null ? null : ChainReport.diagnostics(chains, s), features(names, s, p.features()), null,
+                chains != null ? ChainReport.diagnostics(chains, s)
+                        : p instanceof SavedSample ss ? ChainReport.fromSample(ss, e) : null, features(names, s, p.features()), null,
                 l.dagPriorLabel(ResultBuilder.EITHER_GIVEN_ORDER), essential == null ? null : essential(names, essential));
         return ReportedMcse.check(r).withCandidateBoundary(candidateBoundary(ls, p.setPosterior()));
+    }
+
+    /** The store's provenance, naming the saved sample when the result was answered from one. */
+    static EdgeResult.Provenance provenance(StructurePosterior p, Path storePath) {
+        EdgeResult.Provenance base = ResultBuilder.provenance(p.scores().store(), storePath);
+        return p instanceof SavedSample ss ? base.withSample(sampleRef(ss)) : base;
+    }
+
+    /** How a result names the saved sample it was answered from. */
+    static EdgeResult.SampleRef sampleRef(SavedSample ss) {
+        SampleFile.Info i = ss.saved().info();
+        return new EdgeResult.SampleRef(ss.saved().path().toString(), i.method(), i.sampler(), i.chains(), i.dagsPerChain(),
+                i.seed(), i.diagnostics() == null ? null : i.diagnostics().converged());
     }
 
     /**
@@ -183,7 +198,7 @@ public final class EdgeAnalysis {
     }
 
     /** Essential-graph features of every unordered pair: adjacent, compelled either way, reversible. */
-    static List<EdgeResult.EssentialPair> essential(List<String> names, DagDraws d) {
+    static List<EdgeResult.EssentialPair> essential(List<String> names, DrawnDags d) {
         int n = names.size();
         List<EdgeResult.EssentialPair> out = new ArrayList<>();
         for (int a = 0; a < n; a++) {

@@ -15,6 +15,7 @@ import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.ExactOrders;
 import org.edgewise.driver.posterior.SampleFile;
+import org.edgewise.driver.posterior.SavedSample;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.query.BatchPrediction;
 import org.edgewise.driver.query.CaseParser;
@@ -100,7 +101,8 @@ public final class PredictionAnalysis {
         CaseProbability avg = cases.averaged();
         CaseProbability best = cases.best() != null ? cases.best()
                 : CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
-        EdgeResult.Diagnostics diagnostics = p.chains() == null ? null : ChainReport.diagnostics(p.chains(), settings);
+        EdgeResult.Diagnostics diagnostics = p.chains() != null ? ChainReport.diagnostics(p.chains(), settings)
+                : p instanceof SavedSample ss ? ChainReport.fromSample(ss, ss.edges()) : null;
         if (avg instanceof StructureCasePrediction sp && single != null) {
             sp.plan(single, given); // the exact sums over all DAGs are planned before the evidence is checked
         }

@@ -12,6 +12,7 @@ import org.edgewise.driver.UserError;
 import org.edgewise.driver.Version;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.VariableOrder;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.mcmc.McmcResult;
 import org.edgewise.driver.posterior.DagSample;
 import org.edgewise.driver.posterior.SampleFile;
@@ -59,7 +60,9 @@ public final class SampleAnalysis {
         DagSample d = drawn.dags();
         McmcResult chains = p.chains();
         SampleFile.Diagnostics diag = chains == null ? null : new SampleFile.Diagnostics(chains.maxRhat(), chains.minEss(),
-                chains.converged(), chains.stepsPerChain(), chains.burnIn(), chains.thin(), chains.samplingSeconds());
+                chains.converged(), chains.stepsPerChain(), chains.burnIn(), chains.thin(), chains.samplingSeconds(),
+                chains.outcome().stop().label(), a.settings(0).rhatTarget(), (double) ChainDiagnostics.ESS_TARGET,
+                a.settings(0).targets().mcse());
         StructurePosterior.Labels l = p.labels();
         Map<String, Object> settings = new LinkedHashMap<>();
         if (chains != null) {

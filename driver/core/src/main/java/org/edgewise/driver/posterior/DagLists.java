@@ -5,6 +5,7 @@ import java.util.List;
 import java.util.SplittableRandom;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.convergence.McseBound;
@@ -88,7 +89,7 @@ final class DagLists {
     }
 
     /** The features {@code s} asks for, estimated over the DAGs of {@code d} (their errors as {@link DagDraws} reports them). */
-    static StructurePosterior.Features features(UnknownOrderSettings s, DagDraws d) {
+    static StructurePosterior.Features features(UnknownOrderSettings s, DrawnDags d) {
         int n = d.variableCount();
         double[][][] f = new double[4][n][n];
         for (int a = 0; a < n; a++) {

@@ -90,9 +90,15 @@ public final class SampleFile {
         }
     }
 
-    /** The chains' diagnostics and verdict (sampled by chains only). */
+    /**
+     * The chains' diagnostics and verdict (sampled by chains only). {@code stopReason} and the
+     * targets are optional (null in samples written before they were recorded): why the run stopped
+     * ({@code steps}, {@code converged}, {@code max-steps}, {@code max-time}) and the R̂, bulk effective
+     * sample size and MCSE targets the verdict was judged against.
+     */
     public record Diagnostics(double maxRhat, double minEss, boolean converged, long stepsPerChain, long burnIn,
-                              long thin, double samplingSeconds) {
+                              long thin, double samplingSeconds, String stopReason, Double rhatTarget,
+                              Double effectiveSampleSizeTarget, Double mcseTarget) {
     }
 
     /**

@@ -11,6 +11,8 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DrawnDags;
+import org.edgewise.driver.average.dag.ParentListDraws;
 import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.query.DagMixture;
 import org.edgewise.driver.score.DagPrior;
@@ -24,7 +26,7 @@ import org.edgewise.driver.store.Manifest;
  * the set; Monte Carlo errors, split-R̂ and effective sample size are those of the per-DAG
  * indicator over the chains in draw order ({@link DagDraws#estimate}: independent draws
  * p(1−p)/K; chains or weights the ratio estimator's, Vehtari et al. 2021). Features and the essential
- * graph over the DAGs (n ≤ 31 for now); effects over the DAGs with their weights and chains.
+ * graph over the DAGs, for any number of variables (parent bitmasks up to 31, parent lists beyond); effects over the DAGs with their weights and chains.
  * Memory: the saved DAGs ({@link DagSample}), and their bitmasks when features are asked.
  */
 public final class SavedSample implements StructurePosterior {
@@ -32,7 +34,7 @@ public final class SavedSample implements StructurePosterior {
     private final SampleFile.Loaded saved;
     private final UnknownOrderSettings s;
     private final DagSample d;
-    private DagDraws masks;
+    private DrawnDags masks;
 
     /**
      * @param s which features to estimate (null: none); its sampling fields are not used
@@ -140,10 +142,16 @@ public final class SavedSample implements StructurePosterior {
         return post;
     }
 
-    /** The DAGs as parent bitmasks for the features of {@link DagDraws} (n ≤ 31). */
-    private DagDraws masks() {
+    /**
+     * The saved DAGs for features: as parent bitmasks ({@link DagDraws}) up to 31 variables, as the
+     * parent lists they are saved as ({@link ParentListDraws}) beyond — the same estimates either way.
+     */
+    private DrawnDags masks() {
         if (masks == null) {
-            DagLists.checkDrawable(ls);
+            if (d.variables() > DagLists.MAX_DRAW_VARIABLES) {
+                masks = new ParentListDraws(d.variables(), d.dags(), d.weights());
+                return masks;
+            }
             List<List<int[]>> chains = new ArrayList<>();
             for (int c = 0; c < d.chains(); c++) {
                 List<int[]> chain = new ArrayList<>(d.perChain());
@@ -163,7 +171,7 @@ public final class SavedSample implements StructurePosterior {
     }
 
     @Override
-    public DagDraws essentialDraws() {
+    public DrawnDags essentialDraws() {
         return s != null && s.essentialGraph() ? masks() : null;
     }
 

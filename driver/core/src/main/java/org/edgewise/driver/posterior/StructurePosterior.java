@@ -3,6 +3,7 @@ package org.edgewise.driver.posterior;
 import java.util.List;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.UnknownOrderSettings;
@@ -104,7 +105,7 @@ public sealed interface StructurePosterior permits GivenOrder, UnknownOrders, Sa
     }
 
     /** DAGs drawn from the posterior for essential-graph features, or null when not asked. */
-    default DagDraws essentialDraws() {
+    default DrawnDags essentialDraws() {
         return null;
     }
 

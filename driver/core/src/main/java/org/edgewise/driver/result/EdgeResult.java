@@ -114,10 +114,33 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                            List<String> forbid, List<String> require, List<List<String>> tiers) {
     }
 
+    /**
+     * Where the counts came from; {@code sample} (optional, absent unless the result was answered
+     * from a saved posterior sample) names that sample.
+     */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Provenance(String path, List<String> input, long rows, String fingerprint,
                              String createdAt, String storedScore, double storedEss,
-                             Map<String, List<String>> candidates) {
+                             Map<String, List<String>> candidates, SampleRef sample) {
+        public Provenance(String path, List<String> input, long rows, String fingerprint, String createdAt,
+                          String storedScore, double storedEss, Map<String, List<String>> candidates) {
+            this(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, null);
+        }
+
+        /** The same provenance naming the saved sample the result was answered from. */
+        public Provenance withSample(SampleRef s) {
+            return new Provenance(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, s);
+        }
+    }
+
+    /**
+     * The saved posterior sample a result was answered from: its directory, how it was drawn
+     * ({@code method} order, exact or mcmc; {@code sampler} for people), its chains and DAGs per
+     * chain, its seed, and — drawn by MCMC — the sampler's verdict ({@code converged}; null otherwise).
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record SampleRef(String path, String method, String sampler, int chains, int dagsPerChain, long seed,
+                            Boolean converged) {
     }
 
     public record ParentSet(List<String> parents, double posterior) {

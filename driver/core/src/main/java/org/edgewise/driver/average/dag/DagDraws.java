@@ -20,7 +20,7 @@ import org.edgewise.driver.average.convergence.McseBound;
  * An estimate of exactly 0 or 1 reports the rule-of-three bound 3/K ({@link McseBound}), not 0.
  * Memory: the DAGs (n ints each), their essential graphs and reach sets (n ints each), weights.
  */
-public final class DagDraws {
+public final class DagDraws implements DrawnDags {
     /** A feature of one DAG (by its index in the chain). */
     public interface Feature {
         boolean test(int chain, int k);
@@ -53,11 +53,13 @@ public final class DagDraws {
         this.weights = weights;
     }
 
+    @Override
     public int variableCount() {
         return n;
     }
 
     /** Mean, MCSE, R̂ (NaN for independent draws) and ESS of {@code f}. */
+    @Override
     public Estimate estimate(Feature f) {
         return estimate(f, dags.length, dags[0].length, group, weights);
     }
@@ -131,27 +133,32 @@ public final class DagDraws {
     }
 
     /** The edge a → b. */
+    @Override
     public Feature edge(int a, int b) {
         return (c, k) -> (dags[c][k][b] >> a & 1) != 0;
     }
 
     /** a and b adjacent. */
+    @Override
     public Feature adjacent(int a, int b) {
         return (c, k) -> ((dags[c][k][b] >> a | dags[c][k][a] >> b) & 1) != 0;
     }
 
     /** a → b compelled (directed in the essential graph). */
+    @Override
     public Feature compelled(int a, int b) {
         return (c, k) -> (compelled[c][k][b] >> a & 1) != 0;
     }
 
     /** a and b adjacent and the edge reversible (undirected in the essential graph). */
+    @Override
     public Feature reversible(int a, int b) {
         return (c, k) -> ((dags[c][k][b] >> a | dags[c][k][a] >> b) & 1) != 0
                 && (compelled[c][k][b] >> a & 1) == 0 && (compelled[c][k][a] >> b & 1) == 0;
     }
 
     /** a ⇝ b: a directed path from a to b. */
+    @Override
     public Feature ancestor(int a, int b) {
         if (reach == null) {
             reach = new int[dags.length][][];
@@ -166,6 +173,7 @@ public final class DagDraws {
     }
 
     /** a in the Markov blanket of b: parent, child or co-parent. */
+    @Override
     public Feature blanket(int a, int b) {
         return (c, k) -> {
             int[] g = dags[c][k];
