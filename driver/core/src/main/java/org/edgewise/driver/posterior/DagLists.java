@@ -8,6 +8,9 @@ import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.dag.DagFeatures;
 import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderConstraints;
+import org.edgewise.driver.store.EdgeRule;
+import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.average.convergence.McseBound;
 import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.average.partition.PartitionMcmc;
@@ -66,6 +69,36 @@ final class DagLists {
             dags.add(out);
         }
         return new DagDraws(ls.variableCount(), dags, 1, null);
+    }
+
+    /**
+     * The background knowledge the draws obey, as {@link DagDraws#knowing(int[])} takes it: per
+     * node v, the nodes u whose edge with v, when present, must be u → v — u must precede v
+     * ({@code oc}: tiers, required edges and their transitive closure), or v → u is forbidden (by
+     * the query or at tally time).
+     */
+    static int[] fixedDirections(LocalScores ls, OrderConstraints oc) {
+        int n = ls.variableCount();
+        checkDrawable(ls);
+        int[] fixed = oc.predecessorMasks();
+        Manifest m = ls.store().manifest();
+        List<EdgeRule> forbidden = new ArrayList<>(ls.options().forbid());
+        if (m.forbidden() != null) {
+            forbidden.addAll(m.forbidden());
+        }
+        for (EdgeRule e : forbidden) {
+            int from = m.variableIndex(e.from());
+            int to = m.variableIndex(e.to());
+            if (from >= 0 && to >= 0 && from < n && to < n) {
+                fixed[from] |= 1 << to; // from -> to forbidden: an edge between them is to -> from
+            }
+        }
+        return fixed;
+    }
+
+    /** The draws' essential graphs under the knowledge of {@link #fixedDirections}. */
+    static DagDraws knowing(DagDraws d, LocalScores ls, OrderConstraints oc) {
+        return d == null ? null : d.knowing(fixedDirections(ls, oc));
     }
 
     /** Refuses DAG draws beyond {@value #MAX_DRAW_VARIABLES} variables, in the caller's words. */

@@ -92,7 +92,7 @@ public final class ExactDags extends ExactSum {
 
     @Override
     public DagDraws essentialDraws() {
-        return s.essentialGraph() ? draws() : null;
+        return s.essentialGraph() ? DagLists.knowing(draws(), ls, oc) : null;
     }
 
     @Override

@@ -79,7 +79,7 @@ public final class ExactOrders extends ExactSum {
             return null;
         }
         List<int[]> dags = ExactDagSampler.of(ls, oc).draw(DagPrior.ORDER_MODULAR, s.orderSamples(), s.seed() + 2, Double.NaN);
-        return new DagDraws(ls.variableCount(), List.of(dags), 1, null);
+        return DagLists.knowing(new DagDraws(ls.variableCount(), List.of(dags), 1, null), ls, oc);
     }
 
     @Override

@@ -57,7 +57,8 @@ public final class OrderChains extends UnknownOrders {
 
     @Override
     public DagDraws essentialDraws() {
-        return s.essentialGraph() ? DagLists.fromChains(ls, chains(), s.chains(), s.orderSamples(), s.seed() + 3) : null;
+        return s.essentialGraph()
+                ? DagLists.knowing(DagLists.fromChains(ls, chains(), s.chains(), s.orderSamples(), s.seed() + 3), ls, oc) : null;
     }
 
     @Override

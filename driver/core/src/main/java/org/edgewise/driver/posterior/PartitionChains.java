@@ -61,7 +61,7 @@ public final class PartitionChains extends UnknownOrders {
 
     @Override
     public DagDraws essentialDraws() {
-        return s.essentialGraph() ? DagLists.fromPartitions(ls, run()) : null;
+        return s.essentialGraph() ? DagLists.knowing(DagLists.fromPartitions(ls, run()), ls, oc) : null;
     }
 
     @Override

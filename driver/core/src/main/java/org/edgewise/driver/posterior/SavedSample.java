@@ -8,6 +8,7 @@ import java.util.Locale;
 import java.util.Map;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.dag.DagDraws;
@@ -172,7 +173,21 @@ public final class SavedSample implements StructurePosterior {
 
     @Override
     public DrawnDags essentialDraws() {
-        return s != null && s.essentialGraph() ? masks() : null;
+        if (s == null || !s.essentialGraph()) {
+            return null;
+        }
+        DrawnDags m = masks();
+        // beyond 31 variables the parent-list draws apply Meek's rules without the constraints (docs/unknown-order.md)
+        return m instanceof DagDraws bits ? DagLists.knowing(bits, ls, constraints()) : m;
+    }
+
+    /** The order constraints the sample was drawn under: its recorded tiers (else the store's) and the required edges. */
+    private OrderConstraints constraints() {
+        List<List<String>> t = tiers();
+        if (t == null) {
+            t = ls.store().manifest().tiers() == null ? List.of() : ls.store().manifest().tiers();
+        }
+        return OrderConstraints.of(ls, t);
     }
 
     @Override

@@ -76,9 +76,17 @@ class DagPriorAveragingTest {
 
     /** Exact essential-graph features by enumeration: per DAG, the edges every member of its class orients alike. */
     static double[][][] enumeratedEssential(LocalScores ls, DagPrior prior) {
+        return enumeratedEssential(ls, prior, g -> true);
+    }
+
+    /**
+     * The same over the DAGs {@code admitted} keeps (the posterior restricted to them), each class
+     * being its admitted members only (structure-modular prior, or order-modular without constraints).
+     */
+    static double[][][] enumeratedEssential(LocalScores ls, DagPrior prior, java.util.function.Predicate<int[]> admitted) {
         int n = ls.variableCount();
         double[][] logBeta = DagEnumeration.logWeights(ls);
-        List<int[]> dags = DagEnumeration.allDags(n);
+        List<int[]> dags = DagEnumeration.allDags(n).stream().filter(admitted).toList();
         Map<String, int[]> alike = new HashMap<>();
         for (int[] g : dags) {
             int[] a = alike.computeIfAbsent(DagEnumeration.classKey(g, n), k -> {
@@ -140,6 +148,71 @@ class DagPriorAveragingTest {
                 assertTrue(p.mcse() <= 0.005, "20,000 independent draws give MCSE <= 0.0036: " + p);
             }
         }
+    }
+
+    @Test
+    void tiersCompelEveryEdgeBetweenThemAndTheRestrictedClassesMatchTheEnumeration() {
+        // issue 21: with tiers every adjacency between tiers is compelled forward (P(a -> b compelled) =
+        // P(adjacent), never "undirected"); the rest against the enumeration of the admitted DAGs (every
+        // edge between tiers forward) grouped by skeleton and v-structures, the admitted members only
+        ScoreStore s = random(5, 4, 60, 91);
+        LocalScores ls = LocalScores.build(s, ScoringOptions.asStored());
+        List<String> names = EdgeAnalysis.names(ls);
+        List<List<String>> tiers = List.of(List.of(names.get(3), names.get(0)), List.of(names.get(4)),
+                List.of(names.get(1), names.get(2)));
+        int[] tier = new int[5];
+        for (int t = 0; t < tiers.size(); t++) {
+            for (String v : tiers.get(t)) {
+                tier[names.indexOf(v)] = t;
+            }
+        }
+        double[][][] exact = enumeratedEssential(ls, DagPrior.STRUCTURE_MODULAR, g -> {
+            for (int b = 0; b < 5; b++) {
+                for (int a = 0; a < 5; a++) {
+                    if ((g[b] >> a & 1) != 0 && tier[a] > tier[b]) {
+                        return false;
+                    }
+                }
+            }
+            return true;
+        });
+        int between = 0;
+        // exact and MCMC under both DAG priors: the exact DP over DAGs, the DP over orders, order MCMC and
+        // partition MCMC (StructurePosterior.of)
+        for (UnknownOrderSettings.Method m : UnknownOrderSettings.Method.values()) {
+            for (DagPrior prior : DagPrior.values()) {
+                UnknownOrderSettings base = settings(m, prior, true, 20_000, 20_000, 2000);
+                UnknownOrderSettings st = new UnknownOrderSettings(m, tiers, base.seed(), base.chains(), base.steps(),
+                        base.burnIn(), base.draws(), base.untilRhat(), base.maxSteps(), base.maxSeconds(), false, false,
+                        base.orderSamples(), base.topParents(), prior, true);
+                EdgeResult r = EdgeAnalysis.edges(ls, null, st, ProgressListener.NONE);
+                for (EdgeResult.EssentialPair p : r.essentialGraph()) {
+                    int a = s.manifest().variableIndex(p.a());
+                    int b = s.manifest().variableIndex(p.b());
+                    String what = m + " " + prior + " " + p;
+                    if (tier[a] != tier[b]) {
+                        between++;
+                        double forward = tier[a] < tier[b] ? p.aToB() : p.bToA();
+                        double backward = tier[a] < tier[b] ? p.bToA() : p.aToB();
+                        assertEquals(p.adjacent(), forward, 1e-12, "compelled forward " + what);
+                        assertEquals(0.0, backward, 1e-12, what);
+                        assertEquals(0.0, p.undirected(), 1e-12, what);
+                    }
+                    if (m == UnknownOrderSettings.Method.EXACT && prior == DagPrior.STRUCTURE_MODULAR) {
+                        int lo = Math.min(a, b);
+                        int hi = Math.max(a, b);
+                        double ab = a < b ? p.aToB() : p.bToA();
+                        double ba = a < b ? p.bToA() : p.aToB();
+                        double tol = 5 * p.mcse() + 2e-3;
+                        assertEquals(exact[0][lo][hi], p.adjacent(), tol, "adjacent " + what);
+                        assertEquals(exact[1][lo][hi], ab, tol, "lo->hi " + what);
+                        assertEquals(exact[2][lo][hi], ba, tol, "hi->lo " + what);
+                        assertEquals(exact[3][lo][hi], p.undirected(), tol, "reversible " + what);
+                    }
+                }
+            }
+        }
+        assertTrue(between > 0);
     }
 
     @Test

@@ -42,15 +42,46 @@ public final class DagDraws implements DrawnDags {
         this.n = n;
         this.group = group;
         this.dags = new int[dags.size()][][];
-        this.compelled = new int[dags.size()][][];
         for (int c = 0; c < dags.size(); c++) {
             this.dags[c] = dags.get(c).toArray(new int[0][]);
-            this.compelled[c] = new int[this.dags[c].length][];
-            for (int k = 0; k < this.dags[c].length; k++) {
-                compelled[c][k] = EssentialGraph.compelled(this.dags[c][k]);
+        }
+        this.compelled = essentialGraphs(this.dags, null);
+        this.weights = weights;
+    }
+
+    private DagDraws(DagDraws d, int[] fixed) {
+        this.n = d.n;
+        this.group = d.group;
+        this.dags = d.dags;
+        this.weights = d.weights;
+        this.reach = d.reach;
+        this.compelled = essentialGraphs(d.dags, fixed);
+    }
+
+    /**
+     * The same draws with each DAG's essential graph taken under background knowledge
+     * ({@link EssentialGraph#compelled(int[], int[])}): {@code fixed[v]} = the nodes u whose edge
+     * with v, when present, must be u → v. Null or all zero: this object.
+     */
+    public DagDraws knowing(int[] fixed) {
+        if (fixed == null || Arrays.stream(fixed).allMatch(m -> m == 0)) {
+            return this;
+        }
+        if (fixed.length != n) {
+            throw new IllegalArgumentException("knowledge for " + fixed.length + " variables, draws of " + n);
+        }
+        return new DagDraws(this, fixed);
+    }
+
+    private static int[][][] essentialGraphs(int[][][] dags, int[] fixed) {
+        int[][][] out = new int[dags.length][][];
+        for (int c = 0; c < dags.length; c++) {
+            out[c] = new int[dags[c].length][];
+            for (int k = 0; k < dags[c].length; k++) {
+                out[c][k] = EssentialGraph.compelled(dags[c][k], fixed);
             }
         }
-        this.weights = weights;
+        return out;
     }
 
     @Override
