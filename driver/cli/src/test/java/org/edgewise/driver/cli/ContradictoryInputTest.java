@@ -50,4 +50,25 @@ class ContradictoryInputTest extends StoreFixture {
         assertEquals("the step cap 0 is below the first convergence check, after 20000 steps per chain: give at least 20000",
                 e.getMessage());
     }
+
+    @Test
+    void aNetworkWithTextAfterItsObjectIsRefused() throws Exception {
+        for (String tail : List.of("\ngarbage\n", "{}", "\n{\"edgewiseNetwork\":1}\n")) {
+            Path net = dir.resolve("net.json");
+            byte[] bytes = (OptionWalkTest.TRUTH + tail).getBytes(java.nio.charset.StandardCharsets.UTF_8);
+            Files.write(net, bytes);
+            Path out = dir.resolve("data.csv");
+            CliRun r = CliRun.of("simulate", "--network", net.toString(), "--rows", "5", "--out", out.toString());
+            assertEquals(2, r.status(), tail);
+            assertEquals("simulate: network file " + net + " has text after its JSON object, which ends at line 1, column "
+                    + OptionWalkTest.TRUTH.length() + ": a network file holds one object and nothing else", r.errLine());
+            assertEquals("", r.out());
+            assertFalse(Files.exists(out));
+            org.junit.jupiter.api.Assertions.assertArrayEquals(bytes, Files.readAllBytes(net));
+        }
+        // white space after the object is fine
+        Path net = dir.resolve("spaced.json");
+        Files.writeString(net, OptionWalkTest.TRUTH + "\n\n  \n");
+        assertEquals(0, CliRun.of("simulate", "--network", net.toString(), "--rows", "5").status());
+    }
 }
