@@ -187,4 +187,17 @@ class BadInputTest {
         assertEquals(2, bad.status());
         assertTrue(bad.err().startsWith("tally: Invalid value for option '--max-parents'"), bad.err());
     }
+
+    /** Issue 23 item 14: --discretize that would leave a column in one bin is refused, naming the bin. */
+    @Test
+    void discretizeToOneBin() throws IOException {
+        Path constant = file("constant.csv", "x,v\n5,a\n5,b\n5,a\n5,b\n");
+        byte[] before = Files.readAllBytes(constant);
+        refused("tally: --discretize x=2 leaves column 'x' in one bin [5,5]: every value is 5; a constant column tells nothing "
+                + "about the others, leave it out (--exclude x)", constant, "--discretize", "x=2");
+        Path skewed = file("skewed.csv", "x,v\n0,a\n0,b\n0,a\n0,b\n0,a\n0,b\n0,a\n3,b\n7,a\n");
+        refused("tally: --discretize x=2 leaves column 'x' in one bin [0,7]: at least 1/2 of its values are 0, its smallest, "
+                + "so no cut point lies above it; leave --discretize x out to keep its values as states", skewed, "--discretize", "x=2");
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(constant));
+    }
 }
