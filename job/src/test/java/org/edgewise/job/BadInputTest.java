@@ -200,4 +200,27 @@ class BadInputTest {
                 + "so no cut point lies above it; leave --discretize x out to keep its values as states", skewed, "--discretize", "x=2");
         org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(constant));
     }
+
+    /**
+     * Issue 23 item 14: one number written several ways in a numeric column stays several states
+     * (the text is the state) and is said in one line on standard error; the tally still succeeds.
+     */
+    @Test
+    void oneNumberWrittenSeveralWaysIsNamed() throws IOException {
+        Path input = file("zeros.csv", "x,y,v\n0,7,a\n0.0,07,b\n-0,7,a\n1,8,b\n1.0,8,a\n2,8,b\n");
+        byte[] before = Files.readAllBytes(input);
+        Path out = dir.resolve("zeros-out").resolve("store");
+        TestTables.Run r = TestTables.tally(spark, "--input", input.toString(), "--out", out.toString());
+        assertEquals(0, r.status(), r.err());
+        assertEquals("tally: warning: column 'x' writes one number 3 ways (-0, 0, 0.0; 1 more number likewise), kept as 3 states "
+                + "since the text is the state; a query must name each as written (also in column 'y'); write each number one "
+                + "way for one state", r.err().strip());
+        assertTrue(Files.exists(out.resolve("manifest.json")));
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(input));
+        // one spelling per number: nothing to say
+        Path clean = file("clean.csv", "x,v\n0,a\n1,b\n2,a\n");
+        TestTables.Run c = TestTables.tally(spark, "--input", clean.toString(), "--out", dir.resolve("clean-out").toString());
+        assertEquals(0, c.status(), c.err());
+        assertEquals("", c.err().strip());
+    }
 }
