@@ -223,4 +223,26 @@ class BadInputTest {
         assertEquals(0, c.status(), c.err());
         assertEquals("", c.err().strip());
     }
+
+    /** Issue 23 item 14: a column no query could name is refused before the rows are read, naming it. */
+    @Test
+    void columnNamesNoQueryCanName() throws IOException {
+        Path comma = file("comma.csv", "\"a,b\",v\n1,x\n2,y\n");
+        Path equals = file("equals.csv", "a=b,v\n1,x\n2,y\n");
+        Path arrow = file("arrow.csv", "a->b,v\n1,x\n2,y\n");
+        byte[] before = Files.readAllBytes(equals);
+        refused("tally: input " + comma + ": column 'a,b' holds a comma, which splits every list of variables (--columns, --tiers, "
+                + "--order, --case); rename it, or leave it out by listing the other columns in --columns", comma);
+        refused("tally: input " + equals + ": column 'a=b' holds '=', which ends the variable's name in NAME=STATE (--case, "
+                + "--given, --do); rename it, or leave it out with --exclude a=b", equals);
+        refused("tally: input " + arrow + ": column 'a->b' holds '->', which splits FROM->TO (--forbid, --require); rename it, "
+                + "or leave it out with --exclude a->b", arrow);
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(equals));
+        // left out, the other columns are tallied
+        for (String[] way : List.of(new String[] {"--exclude", "a=b"}, new String[] {"--columns", "v"})) {
+            TestTables.Run r = TestTables.tally(spark, "--input", (way[0].equals("--columns") ? comma : equals).toString(), "--out",
+                    dir.resolve("named-" + cases++).toString(), way[0], way[1]);
+            assertEquals(0, r.status(), r.err());
+        }
+    }
 }
