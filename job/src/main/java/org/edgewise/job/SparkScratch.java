@@ -14,7 +14,7 @@ import org.edgewise.driver.UserError;
  * Spark's scratch space ({@code spark.local.dir}: shuffle files, cached blocks, {@code spark-*} and
  * {@code blockmgr-*} folders) for an embedded ({@code local…}) run: a folder
  * {@code edgewise-spark-<pid>-<random>} the run owns under the scratch parent (the first
- * {@code spark.local.dir} given with {@code --conf}, else {@code java.io.tmpdir}). It is removed
+ * {@code spark.local.dir} given with {@code --conf}, which must exist, else {@code java.io.tmpdir}). It is removed
  * when the run ends, by a shutdown hook on any exit the JVM sees, and — after a {@code kill -9} —
  * by the next run, which removes every such folder whose process is no longer alive. Spark itself
  * removes its folders only on a clean stop, so without this a failed or killed run left them in
@@ -38,6 +38,11 @@ final class SparkScratch implements AutoCloseable {
         String given = extra.get("spark.local.dir");
         Path parent = Path.of(given != null && !given.isBlank() ? given.split(",")[0].trim()
                 : System.getProperty("java.io.tmpdir"));
+        if (given != null && !given.isBlank() && !Files.isDirectory(parent)) {
+            // never created: a folder made for one run would be left behind after it
+            throw new UserError("--conf spark.local.dir=" + given.trim() + ": " + parent
+                    + (Files.exists(parent) ? " is not a directory" : " does not exist") + "; give an existing directory");
+        }
         removeDeadRuns(parent);
         try {
             Files.createDirectories(parent);

@@ -47,7 +47,10 @@ public final class TallyJob {
 
     /** What a finished tally did. */
     public record Summary(long rows, long droppedRows, int variables, int families, int coverSets,
-                          int batches, long cells, double seconds, String fingerprint) {
+                          int batches, long cells, double seconds, String fingerprint, List<String> warnings) {
+        public Summary {
+            warnings = warnings == null ? List.of() : List.copyOf(warnings);
+        }
     }
 
     /** Families counted and scored, in plan order. */
@@ -82,6 +85,12 @@ public final class TallyJob {
         FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(), o.candidates());
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
+        List<String> warnings = new ArrayList<>();
+        String sameNumber = org.edgewise.job.input.SameNumber.warning(names, scan.stats(), o.discretize().keySet());
+        if (sameNumber != null) {
+            LOG.info(sameNumber);
+            warnings.add(sameNumber);
+        }
         List<Variable> variables = enc.variables();
         int[] arity = enc.arities();
         LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
@@ -140,7 +149,7 @@ public final class TallyJob {
             LOG.info("wrote {}: {} families from {} rows in {} s", o.out(), plan.familyCount(), rows,
                     String.format(Locale.ROOT, "%.1f", secs));
             return new Summary(rows, scan.stats().dropped(), names.size(), plan.familyCount(), plan.coverCount(),
-                    counted.batches(), plan.totalCells(), secs, fingerprint);
+                    counted.batches(), plan.totalCells(), secs, fingerprint, warnings);
         } finally {
             blocks.unpersist(false);
             scan.rawBlocks().unpersist(false);

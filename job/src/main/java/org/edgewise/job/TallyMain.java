@@ -156,6 +156,11 @@ public final class TallyMain implements Callable<Integer> {
         }
         try {
             TallyJob.Summary s = TallyJob.run(spark, o, this::csvOnly);
+            PrintWriter e = spec.commandLine().getErr();
+            for (String warning : s.warnings()) {
+                e.println("tally: " + warning);
+            }
+            e.flush();
             PrintWriter w = spec.commandLine().getOut();
             w.printf(Locale.ROOT, "tally: wrote %s — %d families over %d variables from %d rows (%d dropped), "
                             + "%d variable sets in %d %s, %.1f s%n", o.out(), s.families(), s.variables(), s.rows(),

@@ -187,4 +187,62 @@ class BadInputTest {
         assertEquals(2, bad.status());
         assertTrue(bad.err().startsWith("tally: Invalid value for option '--max-parents'"), bad.err());
     }
+
+    /** Issue 23 item 14: --discretize that would leave a column in one bin is refused, naming the bin. */
+    @Test
+    void discretizeToOneBin() throws IOException {
+        Path constant = file("constant.csv", "x,v\n5,a\n5,b\n5,a\n5,b\n");
+        byte[] before = Files.readAllBytes(constant);
+        refused("tally: --discretize x=2 leaves column 'x' in one bin [5,5]: every value is 5; a constant column tells nothing "
+                + "about the others, leave it out (--exclude x)", constant, "--discretize", "x=2");
+        Path skewed = file("skewed.csv", "x,v\n0,a\n0,b\n0,a\n0,b\n0,a\n0,b\n0,a\n3,b\n7,a\n");
+        refused("tally: --discretize x=2 leaves column 'x' in one bin [0,7]: at least 1/2 of its values are 0, its smallest, "
+                + "so no cut point lies above it; leave --discretize x out to keep its values as states", skewed, "--discretize", "x=2");
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(constant));
+    }
+
+    /**
+     * Issue 23 item 14: one number written several ways in a numeric column stays several states
+     * (the text is the state) and is said in one line on standard error; the tally still succeeds.
+     */
+    @Test
+    void oneNumberWrittenSeveralWaysIsNamed() throws IOException {
+        Path input = file("zeros.csv", "x,y,v\n0,7,a\n0.0,07,b\n-0,7,a\n1,8,b\n1.0,8,a\n2,8,b\n");
+        byte[] before = Files.readAllBytes(input);
+        Path out = dir.resolve("zeros-out").resolve("store");
+        TestTables.Run r = TestTables.tally(spark, "--input", input.toString(), "--out", out.toString());
+        assertEquals(0, r.status(), r.err());
+        assertEquals("tally: warning: column 'x' writes one number 3 ways (-0, 0, 0.0; 1 more number likewise), kept as 3 states "
+                + "since the text is the state; a query must name each as written (also in column 'y'); write each number one "
+                + "way for one state", r.err().strip());
+        assertTrue(Files.exists(out.resolve("manifest.json")));
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(input));
+        // one spelling per number: nothing to say
+        Path clean = file("clean.csv", "x,v\n0,a\n1,b\n2,a\n");
+        TestTables.Run c = TestTables.tally(spark, "--input", clean.toString(), "--out", dir.resolve("clean-out").toString());
+        assertEquals(0, c.status(), c.err());
+        assertEquals("", c.err().strip());
+    }
+
+    /** Issue 23 item 14: a column no query could name is refused before the rows are read, naming it. */
+    @Test
+    void columnNamesNoQueryCanName() throws IOException {
+        Path comma = file("comma.csv", "\"a,b\",v\n1,x\n2,y\n");
+        Path equals = file("equals.csv", "a=b,v\n1,x\n2,y\n");
+        Path arrow = file("arrow.csv", "a->b,v\n1,x\n2,y\n");
+        byte[] before = Files.readAllBytes(equals);
+        refused("tally: input " + comma + ": column 'a,b' holds a comma, which splits every list of variables (--columns, --tiers, "
+                + "--order, --case); rename it, or leave it out by listing the other columns in --columns", comma);
+        refused("tally: input " + equals + ": column 'a=b' holds '=', which ends the variable's name in NAME=STATE (--case, "
+                + "--given, --do); rename it, or leave it out with --exclude a=b", equals);
+        refused("tally: input " + arrow + ": column 'a->b' holds '->', which splits FROM->TO (--forbid, --require); rename it, "
+                + "or leave it out with --exclude a->b", arrow);
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(equals));
+        // left out, the other columns are tallied
+        for (String[] way : List.of(new String[] {"--exclude", "a=b"}, new String[] {"--columns", "v"})) {
+            TestTables.Run r = TestTables.tally(spark, "--input", (way[0].equals("--columns") ? comma : equals).toString(), "--out",
+                    dir.resolve("named-" + cases++).toString(), way[0], way[1]);
+            assertEquals(0, r.status(), r.err());
+        }
+    }
 }

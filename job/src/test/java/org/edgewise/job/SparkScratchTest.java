@@ -80,4 +80,22 @@ class SparkScratchTest {
         assertFalse(Files.exists(dir.resolve("store2")));
         assertTrue(new File(tmp.toString()).isDirectory());
     }
+
+    /** Issue 23 item 13: a scratch parent that does not exist is refused, not created and left behind. */
+    @Test
+    void aMissingScratchParentIsRefusedAndNotCreated() throws Exception {
+        Path tmp = Files.createDirectories(dir.resolve("tmp"));
+        Path good = TestTables.write(dir.resolve("good.csv"), "a,b\nx,1\ny,2\nx,2\ny,1\n");
+        byte[] before = Files.readAllBytes(good);
+        Path missing = dir.resolve("nonexistent").resolve("x");
+        String[] r = tally(tmp, "--input", good.toString(), "--out", dir.resolve("store").toString(), "--conf",
+                "spark.local.dir=" + missing);
+        assertEquals("2", r[0], r[1]);
+        assertEquals("tally: --conf spark.local.dir=" + missing + ": " + missing + " does not exist; give an existing directory",
+                r[1].strip());
+        assertFalse(Files.exists(dir.resolve("nonexistent")), "nothing created");
+        assertFalse(Files.exists(dir.resolve("store")));
+        assertEquals(List.of(), left(tmp));
+        org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(good));
+    }
 }

@@ -100,6 +100,12 @@ public final class TableScan {
         if (names.isEmpty()) {
             throw new UserError("no variables left after --columns/--exclude" + (w == null ? "" : "/--weight"));
         }
+        for (String c : names) {
+            String why = unnameable(c);
+            if (why != null) {
+                throw new UserError("input " + inputs(table) + ": column '" + c + "' holds " + why);
+            }
+        }
         for (String c : o.discretize().keySet()) {
             if (!names.contains(c)) {
                 throw new UserError("--discretize: no variable '" + c + "' among the selected columns ("
@@ -107,6 +113,27 @@ public final class TableScan {
             }
         }
         return names;
+    }
+
+    /**
+     * Why no query could name variable {@code c}, or null: a comma splits every list of variables
+     * (--columns, --tiers, --order, --case a=x,b=y), {@code =} ends a name in NAME=STATE (--case,
+     * --given, --do), and {@code ->} splits FROM->TO (--forbid, --require). Such a variable would be
+     * stored and then be out of reach of every command, so it is refused before the rows are read.
+     */
+    static String unnameable(String c) {
+        if (c.contains(",")) {
+            return "a comma, which splits every list of variables (--columns, --tiers, --order, --case); rename it, "
+                    + "or leave it out by listing the other columns in --columns";
+        }
+        if (c.contains("=")) {
+            return "'=', which ends the variable's name in NAME=STATE (--case, --given, --do); rename it, or leave it out "
+                    + "with --exclude " + c;
+        }
+        if (c.contains("->")) {
+            return "'->', which splits FROM->TO (--forbid, --require); rename it, or leave it out with --exclude " + c;
+        }
+        return null;
     }
 
     public static Result scan(Table table, TallyOptions o) {

@@ -31,7 +31,11 @@ final class VariableStates {
             List<String> states = new ArrayList<>();
             List<Double> edges = null;
             if (binned[v]) {
-                edges = binEdges(table, rawBlocks, v, o.discretize().get(names.get(v)), stats.min(v));
+                int k = o.discretize().get(names.get(v));
+                edges = binEdges(table, rawBlocks, v, k, stats.min(v));
+                if (edges.isEmpty()) {
+                    throw oneBin(names.get(v), k, stats.min(v), stats.max(v));
+                }
                 states.addAll(binLabels(edges, stats.min(v), stats.max(v)));
             } else {
                 states.addAll(orderStates(stats.distinct(v), stats.numeric(v)));
@@ -47,6 +51,20 @@ final class VariableStates {
             variables.add(new Variable(names.get(v), states, edges));
         }
         return new Encoding(fields, variables, missingState);
+    }
+
+    /**
+     * A column that {@code --discretize} would leave in one bin: constant, or with at least every
+     * cut point's share of its values equal to its smallest (then no cut point lies above it). One
+     * state tells nothing about any other variable, so the request is refused rather than obeyed.
+     */
+    static UserError oneBin(String name, int k, double min, double max) {
+        String head = "--discretize " + name + "=" + k + " leaves column '" + name + "' in one bin [" + num(min) + "," + num(max) + "]: ";
+        if (min == max) {
+            return new UserError(head + "every value is " + num(min) + "; a constant column tells nothing about the others, leave it out (--exclude " + name + ")");
+        }
+        return new UserError(head + "at least " + (k - 1) + "/" + k + " of its values are " + num(min)
+                + ", its smallest, so no cut point lies above it; leave --discretize " + name + " out to keep its values as states");
     }
 
     /** States in numeric order when every value is a number (ties by text), otherwise lexicographic. */

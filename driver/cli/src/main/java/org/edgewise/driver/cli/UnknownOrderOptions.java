@@ -132,7 +132,7 @@ public final class UnknownOrderOptions {
             if (until && maxSteps != null && maxSteps < first) {
                 // the cap never cuts a run before its first check: a smaller one would be raised silently
                 throw new UserError("--max-steps " + maxSteps + " is below the first convergence check, after " + first
-                        + " steps per chain" + (steps == null ? ": give at least " + first + ", or --steps " + maxSteps + " for a fixed run"
+                        + " steps per chain" + (steps == null ? ": give at least " + first + (maxSteps < 1 ? "" : ", or --steps " + maxSteps + " for a fixed run")
                         : " (--steps): give at least " + first + ", or fewer --steps"));
             }
             if (!until && maxTime != null) {

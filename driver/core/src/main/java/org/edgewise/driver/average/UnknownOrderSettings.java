@@ -76,6 +76,12 @@ public record UnknownOrderSettings(Method method, List<List<String>> tiers, long
             if (mcseTarget != null) {
                 ConvergenceTargets.mcse(mcseTarget, "the Monte Carlo standard error target");
             }
+            long first = steps == null ? FIRST_CHECK : steps;
+            if ((steps == null || untilRhat != null) && maxSteps != null && maxSteps < first) {
+                // a cap below the first check would be raised to it silently (the run never stops earlier)
+                throw new UserError("the step cap " + maxSteps + " is below the first convergence check, after " + first
+                        + " steps per chain: give at least " + first);
+            }
         }
         if (method == Method.EXACT && (ancestors || markovBlanket || essentialGraph)) {
             Checks.atLeast(orderSamples, 1, "the number of order samples");

@@ -1,6 +1,8 @@
 package org.edgewise.driver.network;
 
+import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.core.JsonToken;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.IOException;
@@ -47,7 +49,9 @@ public final class NetworkReader {
         org.edgewise.driver.JsonInput.checkSize(file, "network file " + file);
         JsonNode root;
         try {
-            root = MAPPER.readTree(file.toFile());
+            try (JsonParser p = MAPPER.createParser(file.toFile())) {
+                root = whole(p, "network file " + file);
+            }
         } catch (JsonProcessingException e) {
             throw new UserError("network file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
         } catch (IOException e) {
@@ -59,10 +63,38 @@ public final class NetworkReader {
     /** Parses a network from JSON text ({@code source} names it in messages). */
     public static Network parse(String source, String json) {
         try {
-            return parse(source, MAPPER.readTree(json));
+            try (JsonParser p = MAPPER.createParser(json)) {
+                return parse(source, whole(p, "network " + source));
+            }
         } catch (JsonProcessingException e) {
             throw new UserError("network " + source + " " + org.edgewise.driver.JsonInput.problem(e));
+        } catch (IOException e) {
+            throw new java.io.UncheckedIOException(e); // a String source has no I/O to fail
         }
+    }
+
+    /**
+     * The one JSON value of {@code p}, refusing text after it ({@code {…} garbage}, a second object):
+     * such a file was cut, pasted twice or edited by hand, and reading only its first value would
+     * simulate from something other than what the user sees.
+     */
+    private static JsonNode whole(JsonParser p, String where) throws IOException {
+        JsonNode root = MAPPER.readTree(p);
+        if (root == null || !root.isObject()) {
+            return root; // refused by parse: the top level must be an object
+        }
+        com.fasterxml.jackson.core.JsonLocation end = p.currentTokenLocation(); // the closing }
+        JsonToken next;
+        try {
+            next = p.nextToken();
+        } catch (JsonProcessingException e) {
+            next = JsonToken.NOT_AVAILABLE; // unparseable text after the value: refused the same way
+        }
+        if (next != null) {
+            throw new UserError(where + " has text after its JSON object, which ends" + org.edgewise.driver.JsonInput.at(end).replace(" (", " at ").replace(")", "")
+                    + ": a network file holds one object and nothing else");
+        }
+        return root;
     }
 
     static Network parse(String source, JsonNode root) {
