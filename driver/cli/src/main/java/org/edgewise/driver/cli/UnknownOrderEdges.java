@@ -60,23 +60,10 @@ final class UnknownOrderEdges {
                 adj.add(Math.min(1.0, x));
             }
         }
-        Integer[] idx = new Integer[pairs.size()];
-        for (int i = 0; i < idx.length; i++) {
-            idx[i] = i;
-        }
-        java.util.Arrays.sort(idx, (x, y) -> Double.compare(adj.get(y), adj.get(x)));
         StringBuilder sb = new StringBuilder();
         sb.append(String.format(Locale.ROOT, "%nAdjacencies P(a -- b) = P(a -> b) + P(b -> a), most probable first "
                 + "(the skeleton: the same whichever way the edges point)%n"));
-        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s%n", "a", "b", "adjacent"));
-        int shown = 0;
-        for (int i : idx) {
-            if (shown == TABLE_PAIRS || adj.get(i) < 0.001) {
-                break;
-            }
-            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -- %-" + width + "s  %9.4f%n", pairs.get(i)[0], pairs.get(i)[1], adj.get(i)));
-            shown++;
-        }
+        int shown = pairTable(sb, pairs, adj, width, "a", "b", "adjacent", "--", 0.001);
         sb.append(String.format(Locale.ROOT, "  (%d of %d unordered pairs shown: adjacent >= 0.001, at most %d)%n", shown, pairs.size(), TABLE_PAIRS));
         return sb.toString();
     }
@@ -98,26 +85,37 @@ final class UnknownOrderEdges {
             dirs.add(new String[] {x.b(), x.a()});
             p.add(x.bToA());
         }
-        Integer[] idx = new Integer[dirs.size()];
+        StringBuilder sb = new StringBuilder();
+        sb.append(String.format(Locale.ROOT, "%nCompelled directions P(a -> b compelled): the same in every DAG of the "
+                + "equivalence class (DAGs drawn from the posterior: Monte Carlo estimates)%n"));
+        int shown = pairTable(sb, dirs, p, width, "from", "to", "compelled", "->", 0.01);
+        sb.append(shown == 0 ? String.format(Locale.ROOT, "  (none with P(compelled) >= 0.01: the data fix no direction here)%n")
+                : String.format(Locale.ROOT, "  (%d shown: P(compelled) >= 0.01, at most %d)%n", shown, TABLE_PAIRS));
+        return sb.toString();
+    }
+
+    /**
+     * Appends the column line and the rows of a two-name table, most probable first, up to
+     * {@link #TABLE_PAIRS} rows and none below {@code min}; returns how many rows it shows.
+     */
+    private static int pairTable(StringBuilder sb, List<String[]> pairs, List<Double> p, int width,
+            String colA, String colB, String colP, String link, double min) {
+        Integer[] idx = new Integer[pairs.size()];
         for (int i = 0; i < idx.length; i++) {
             idx[i] = i;
         }
         java.util.Arrays.sort(idx, (x, y) -> Double.compare(p.get(y), p.get(x)));
-        StringBuilder sb = new StringBuilder();
-        sb.append(String.format(Locale.ROOT, "%nCompelled directions P(a -> b compelled): the same in every DAG of the "
-                + "equivalence class (DAGs drawn from the posterior: Monte Carlo estimates)%n"));
-        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s%n", "from", "to", "compelled"));
+        sb.append(String.format(Locale.ROOT, "  %-" + width + "s    %-" + width + "s  %9s%n", colA, colB, colP));
         int shown = 0;
         for (int i : idx) {
-            if (shown == TABLE_PAIRS || p.get(i) < 0.01) {
+            if (shown == TABLE_PAIRS || p.get(i) < min) {
                 break;
             }
-            sb.append(String.format(Locale.ROOT, "  %-" + width + "s -> %-" + width + "s  %9.4f%n", dirs.get(i)[0], dirs.get(i)[1], p.get(i)));
+            sb.append(String.format(Locale.ROOT, "  %-" + width + "s " + link + " %-" + width + "s  %9.4f%n",
+                    pairs.get(i)[0], pairs.get(i)[1], p.get(i)));
             shown++;
         }
-        sb.append(shown == 0 ? String.format(Locale.ROOT, "  (none with P(compelled) >= 0.01: the data fix no direction here)%n")
-                : String.format(Locale.ROOT, "  (%d shown: P(compelled) >= 0.01, at most %d)%n", shown, TABLE_PAIRS));
-        return sb.toString();
+        return shown;
     }
 
     /** Pairs shown in the essential-graph table. */
