@@ -95,14 +95,7 @@ public final class UnknownOrderOptions {
             String why = m == Averaging.Method.ORDER
                     ? "it sets the sampling of --method mcmc; given an order every DAG is summed exactly"
                     : "it sets the sampling of --method mcmc; the exact sum samples nothing";
-            Checks.notApplicable(chains != null, "--chains", situation, why);
-            Checks.notApplicable(steps != null, "--steps", situation, why);
-            Checks.notApplicable(burnIn != null, "--burn-in", situation, why);
-            Checks.notApplicable(this.draws != null, "--draws", situation, why);
-            Checks.notApplicable(rhatTarget != null, "--rhat-target", situation, why);
-            Checks.notApplicable(mcseTarget != null, CliNames.MCSE_TARGET, situation, why);
-            Checks.notApplicable(maxSteps != null, "--max-steps", situation, why);
-            Checks.notApplicable(maxTime != null, "--max-time", situation, why);
+            refuseSampling(situation, why);
             Checks.notApplicable(allowUnconverged, UnknownOrderEdges.ALLOW_UNCONVERGED, situation,
                     "only a run sampled by --method mcmc can end unconverged");
         }
@@ -176,6 +169,16 @@ public final class UnknownOrderOptions {
         String why = "the saved DAGs were drawn once, with the settings the sample records; draw another sample to change them";
         Checks.notApplicable(!tiers.isEmpty(), "--tiers", situation, why);
         Checks.notApplicable(dagPrior != null, "--dag-prior", situation, why);
+        refuseSampling(situation, why);
+        Checks.notApplicable(dagSamples != null, "--dag-samples", situation, "the features are estimated over the saved DAGs");
+        Checks.notApplicable(seed != null && !draws, "--seed", situation, "nothing is drawn at random: the saved DAGs are read as they are");
+        return new Averaging(Averaging.Method.EXACT, null, null, List.of(), seed == null ? DEFAULT_SEED : seed, DEFAULT_CHAINS,
+                null, null, DEFAULT_DRAWS, null, null, null, null, ancestors(), markovBlanket(), essentialGraph(),
+                DEFAULT_DAG_SAMPLES, sample);
+    }
+
+    /** Refuses, {@code situation}, every option that sets the sampling of --method mcmc, saying {@code why}. */
+    private void refuseSampling(String situation, String why) {
         Checks.notApplicable(chains != null, "--chains", situation, why);
         Checks.notApplicable(steps != null, "--steps", situation, why);
         Checks.notApplicable(burnIn != null, "--burn-in", situation, why);
@@ -184,11 +187,6 @@ public final class UnknownOrderOptions {
         Checks.notApplicable(mcseTarget != null, CliNames.MCSE_TARGET, situation, why);
         Checks.notApplicable(maxSteps != null, "--max-steps", situation, why);
         Checks.notApplicable(maxTime != null, "--max-time", situation, why);
-        Checks.notApplicable(dagSamples != null, "--dag-samples", situation, "the features are estimated over the saved DAGs");
-        Checks.notApplicable(seed != null && !draws, "--seed", situation, "nothing is drawn at random: the saved DAGs are read as they are");
-        return new Averaging(Averaging.Method.EXACT, null, null, List.of(), seed == null ? DEFAULT_SEED : seed, DEFAULT_CHAINS,
-                null, null, DEFAULT_DRAWS, null, null, null, null, ancestors(), markovBlanket(), essentialGraph(),
-                DEFAULT_DAG_SAMPLES, sample);
     }
 
     /** The tiers as lists of names. */
