@@ -40,18 +40,6 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          List<Sensitivity> sensitivity, String dagPrior,
                          List<EssentialPair> essentialGraph, List<Fragile> fragile, List<String> candidateBoundary)
         implements JsonResult {
-    /** A result without the candidate boundary (a store tallied without pruning, or set later). */
-    public EdgeResult(String method, List<String> variables, Double logEvidence,
-                      Double logEvidenceNormalized, String evidenceConvention, List<String> order,
-                      Settings settings, Provenance store, List<Edge> edges,
-                      List<VariableParents> parentSets, Network bestNetwork,
-                      Diagnostics diagnostics, List<Feature> features,
-                      List<Sensitivity> sensitivity, String dagPrior,
-                      List<EssentialPair> essentialGraph, List<Fragile> fragile) {
-        this(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings, store, edges,
-                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile, null);
-    }
-
     /** A result without the {@code fragile} list (computed by {@link Fragility} once the sweep is in). */
     public EdgeResult(String method, List<String> variables, Double logEvidence,
                       Double logEvidenceNormalized, String evidenceConvention, List<String> order,
@@ -66,9 +54,7 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
 
     /** The same result with {@code fragile} as its fragility list. */
     public EdgeResult withFragile(List<Fragile> fragile) {
-        return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
-                store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile,
-                candidateBoundary);
+        return copy(fragile, candidateBoundary);
     }
 
     /**
@@ -76,6 +62,11 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * posterior (empty when none does; null when the store was not pruned).
      */
     public EdgeResult withCandidateBoundary(List<String> boundary) {
+        return copy(fragile, boundary);
+    }
+
+    /** The same result with {@code fragile} and {@code boundary} in place of its own. */
+    private EdgeResult copy(List<Fragile> fragile, List<String> boundary) {
         return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
                 store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile,
                 boundary);
