@@ -10,32 +10,17 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.stream.Stream;
-import org.apache.spark.sql.SparkSession;
-import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 
 /**
  * Every bad input is refused with one line naming the file and line, column or variable, exit
  * status 2, and no store (nor a temporary sibling) is left behind. Messages are asserted word for
  * word: users read them.
  */
-class BadInputTest {
-    static SparkSession spark;
-    @TempDir
-    static Path dir;
-    static Path good;
-    static int cases;
-
-    @BeforeAll
-    static void start() {
-        spark = SharedSpark.session();
-        good = TestTables.write(dir.resolve("good.csv"), "u,v\n1,a\n2,b\n1,b\n");
-    }
-
+class BadInputTest extends TestTables.Refusals {
     /** Runs tally on {@code input} into a fresh folder and checks the refusal and that nothing was written. */
     static void refused(String expected, Path input, String... extra) {
-        Path outDir = dir.resolve("out" + (cases++));
+        Path outDir = nextOut();
         List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", outDir.resolve("store").toString()));
         args.addAll(List.of(extra));
         TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));

@@ -13,33 +13,18 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Locale;
 import java.util.stream.Stream;
-import org.apache.spark.sql.SparkSession;
 import org.edgewise.job.plan.FamilyPlan;
-import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
-import org.junit.jupiter.api.io.TempDir;
 
 /**
  * Refusals decided from the header and the options, before the rows are read: one line, exit
  * status 2, in seconds, the inputs byte for byte as they were and nothing left in the output's
  * folder.
  */
-class BoundsTest {
-    static SparkSession spark;
-    @TempDir
-    static Path dir;
-    static Path good;
-    static int cases;
-
-    @BeforeAll
-    static void start() {
-        spark = SharedSpark.session();
-        good = TestTables.write(dir.resolve("good.csv"), "u,v\n1,a\n2,b\n1,b\n");
-    }
-
+class BoundsTest extends TestTables.Refusals {
     /** Runs tally with {@code args} (after --out) and checks the refusal, the time, the inputs and the output folder. */
     static void refused(String expected, double seconds, List<Path> inputs, String... args) {
-        Path outDir = dir.resolve("out" + (cases++));
+        Path outDir = nextOut();
         List<String> all = new ArrayList<>(List.of("--out", outDir.resolve("store").toString()));
         all.addAll(List.of(args));
         List<byte[]> before = inputs.stream().map(BoundsTest::bytes).toList();

@@ -20,6 +20,8 @@ import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.store.StoreReader;
 import org.edgewise.driver.store.Variable;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.io.TempDir;
 
 /** Small tables for the tests, and a way to run the tally command line on the shared session. */
 final class TestTables {
@@ -144,5 +146,29 @@ final class TestTables {
         assertEquals(expected, r.err());
         assertEquals(false, Files.exists(out), "nothing written");
         assertArrayEquals(before, Files.readAllBytes(input));
+    }
+
+    /**
+     * The fixture of the refusal tests: the shared session, a temporary folder, a good two-column
+     * CSV in it and a fresh output folder per case. The test classes run one after another, each
+     * with its own folder.
+     */
+    abstract static class Refusals {
+        static SparkSession spark;
+        @TempDir
+        static Path dir;
+        static Path good;
+        static int cases;
+
+        @BeforeAll
+        static void start() {
+            spark = SharedSpark.session();
+            good = write(dir.resolve("good.csv"), "u,v\n1,a\n2,b\n1,b\n");
+        }
+
+        /** A folder for the output of the next case, not yet made. */
+        static Path nextOut() {
+            return dir.resolve("out" + (cases++));
+        }
     }
 }
