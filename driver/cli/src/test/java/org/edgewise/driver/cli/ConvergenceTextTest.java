@@ -31,43 +31,53 @@ class ConvergenceTextTest {
                   worst     edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173
                 """;
 
+    /** The last line of every block here: the same run. */
+    static final String RUN_LINE =
+            "  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail eff. n 512\n";
+
+    /**
+     * Checks the block of an unconverged run ({@link #UNCONVERGED_HEAD}, {@code rest}, {@link #RUN_LINE})
+     * computed from {@code d}, and the warning computed from {@code dWarning}.
+     */
+    static void assertUnconverged(String rest, EdgeResult.Diagnostics d, String warning, EdgeResult.Diagnostics dWarning,
+            boolean allowUnconverged) {
+        assertEquals(UNCONVERGED_HEAD + rest + RUN_LINE, UnknownOrderEdges.convergence(d));
+        assertEquals(warning, UnknownOrderEdges.notConverged("edges", dWarning, allowUnconverged));
+    }
+
     @Test
     void anUnconvergedRunSaysWhyAndWhatToDo() {
         EdgeResult.Diagnostics d = diagnostics(false, "max-time",
                 List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"),
                         new EdgeResult.Worst("edge v3 -> v4", null, null, 0.25, null, "stuck")));
-        assertEquals(UNCONVERGED_HEAD + """
+        assertUnconverged("""
                             edge v3 -> v4: R-hat inf, bulk eff. n -, MCSE 0.2500 (stuck: each chain keeps its own value)
                   next      Run longer: raise the time budget (--max-time).
                             A stuck quantity means the chains sit in different modes, which running longer may not cure: try more chains (--chains) or, where the number of variables allows, the exact method (--method exact).
                             Until then, treat every posterior of this result as unreliable.
-                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail eff. n 512
-                """, UnknownOrderEdges.convergence(d));
-        assertEquals("edges: WARNING: not converged (the time budget ran out before every target was met; needs R-hat < 1.01, "
+                """, d, "edges: WARNING: not converged (the time budget ran out before every target was met; needs R-hat < 1.01, "
                 + "bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior): the posteriors are not "
                 + "reliable. Worst: edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173; edge v3 -> v4: R-hat inf, bulk "
                 + "eff. n -, MCSE 0.2500 (stuck: each chain keeps its own value). Run longer: raise the time budget (--max-time). "
                 + "Exit status 3 (not converged; the result is written): give --allow-unconverged to accept an unconverged run "
-                + "with exit status 0.",
-                UnknownOrderEdges.notConverged("edges", d, false));
+                + "with exit status 0.", d, false);
     }
 
     @Test
     void onlyTheMcseMissingAndAReportedFigureMissing() {
         List<EdgeResult.Worst> noisy = List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"));
-        assertEquals(UNCONVERGED_HEAD + """
+        assertUnconverged("""
                   next      Run longer: raise the time budget (--max-time); the chains agree, only the Monte Carlo error is still above its target.
                             Or accept a larger Monte Carlo error with a larger MCSE target (--mcse-target): two runs then rarely differ on an edge by more than about 3.5 x that target.
                             Until then, treat every posterior of this result as unreliable.
-                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail eff. n 512
-                """, UnknownOrderEdges.convergence(diagnostics(false, "max-time", noisy)));
-        assertEquals("edges: WARNING: not converged (the chains met the targets, the reported posteriors did not; needs R-hat < 1.01, bulk effective "
+                """, diagnostics(false, "max-time", noisy),
+                "edges: WARNING: not converged (the chains met the targets, the reported posteriors did not; needs R-hat < 1.01, bulk effective "
                 + "sample size >= 400, MCSE <= 0.01 for every edge and feature posterior): the posteriors are not reliable. Worst: "
                 + "edge v20 -> v19: R-hat 1.007, bulk eff. n 812, MCSE 0.0173. The chains met the targets but a posterior as "
                 + "reported did not (a posterior of exactly 0 or 1 reports the rule-of-three bound): lower the MCSE target "
                 + "(--mcse-target, e.g. 0.005) so that the chains run longer and keep more draws. "
                 + "Exit status 0: --allow-unconverged accepts an unconverged run.",
-                UnknownOrderEdges.notConverged("edges", diagnostics(false, "converged", noisy), true));
+                diagnostics(false, "converged", noisy), true);
     }
 
     @Test
@@ -80,8 +90,7 @@ class ConvergenceTextTest {
                   targets   R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior
                   reached   largest R-hat 1.0071, smallest bulk effective sample size 644, largest MCSE 0.0081
                   next      Nothing more is needed. Each posterior carries its MCSE; two runs with other seeds differ on an edge by about 1.4 x its MCSE (the spread of a difference of two independent estimates).
-                  run       4 chains x 640000 steps (+ 640000 warm-up), seed 1, acceptance 0.312, smallest tail eff. n 512
-                """, UnknownOrderEdges.convergence(diagnostics(true, "converged", List.of())));
+                """ + RUN_LINE, UnknownOrderEdges.convergence(diagnostics(true, "converged", List.of())));
     }
 
     @Test
