@@ -60,18 +60,24 @@ public class EssentialGraphTest {
             }
             assertEquals(classCount[n - 1], classes.size(), "classes on n = " + n);
             for (List<int[]> members : classes.values()) {
-                int[] alike = new int[n];
-                java.util.Arrays.fill(alike, -1);
-                for (int[] g : members) {
-                    for (int v = 0; v < n; v++) {
-                        alike[v] &= g[v];
-                    }
-                }
+                int[] alike = alike(members, n);
                 for (int[] g : members) {
                     assertArrayEquals(alike, EssentialGraph.compelled(g), "n = " + n + " class " + classKey(g, n));
                 }
             }
         }
+    }
+
+    /** The edges every one of {@code members} (DAGs on {@code n} nodes) has, oriented alike: per node, the parents all share. */
+    static int[] alike(List<int[]> members, int n) {
+        int[] alike = new int[n];
+        java.util.Arrays.fill(alike, -1);
+        for (int[] g : members) {
+            for (int v = 0; v < n; v++) {
+                alike[v] &= g[v];
+            }
+        }
+        return alike;
     }
 
     /** True when g obeys the knowledge: no edge u → v with v fixed to precede u ({@code fixed[u]} holds v). */
@@ -111,13 +117,7 @@ public class EssentialGraphTest {
         }
         int strictlyMore = 0;
         for (List<int[]> members : classes.values()) {
-            int[] alike = new int[n];
-            java.util.Arrays.fill(alike, -1);
-            for (int[] g : members) {
-                for (int v = 0; v < n; v++) {
-                    alike[v] &= g[v];
-                }
-            }
+            int[] alike = alike(members, n);
             for (int[] g : members) {
                 int[] got = EssentialGraph.compelled(g, fixed);
                 if (exact) {
