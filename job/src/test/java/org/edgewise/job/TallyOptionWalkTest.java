@@ -1,8 +1,10 @@
 package org.edgewise.job;
 
+import static org.edgewise.driver.OptionWalk.failOn;
+import static org.edgewise.driver.OptionWalk.judge;
+import static org.edgewise.driver.OptionWalk.pick;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
 import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.node.ObjectNode;
@@ -17,6 +19,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.Random;
 import org.apache.spark.sql.SparkSession;
+import org.edgewise.driver.OptionWalk.Refused;
 import org.edgewise.driver.store.StoreFormat;
 import org.junit.jupiter.api.BeforeAll;
 import org.junit.jupiter.api.Test;
@@ -161,26 +164,10 @@ class TallyOptionWalkTest {
                 }
                 String value = pick(b.args(), name, values);
                 String what = name + (value == null ? "" : " " + value) + " [" + b.label() + "]";
-                String after;
-                try {
-                    after = output(b.args(), name, value);
-                } catch (Refused r) {
-                    if (r.problem != null) {
-                        problems.add(what + ": " + r.problem);
-                    }
-                    continue;
-                }
-                String reason = UNCHANGED.get(name + " " + b.label());
-                if (after.equals(before) && reason == null) {
-                    problems.add(what + ": accepted and changes nothing");
-                } else if (!after.equals(before) && reason != null) {
-                    problems.add(what + ": changes the output although UNCHANGED says '" + reason + "' (stale entry)");
-                }
+                judge(problems, what, before, UNCHANGED.get(name + " " + b.label()), () -> output(b.args(), name, value));
             }
         }
-        if (!problems.isEmpty()) {
-            fail(problems.size() + " option(s) that neither act nor are refused:\n  " + String.join("\n  ", problems));
-        }
+        failOn(problems);
     }
 
     @Test
@@ -205,27 +192,6 @@ class TallyOptionWalkTest {
             assertEquals("", r.err(), ask + " writes to standard error");
             assertTrue(r.out().contains(ask.equals("--help") ? "Usage:" : "edgewise tally"), ask + ": " + r.out());
         }
-    }
-
-    /** A run refused: {@code problem} is null when the refusal is a proper one-line user error. */
-    static final class Refused extends Exception {
-        final String problem;
-
-        Refused(String problem) {
-            super(problem, null, false, false);
-            this.problem = problem;
-        }
-    }
-
-    /** The first candidate value that differs from the baseline's own value of {@code name}. */
-    static String pick(List<String> args, String name, List<String> values) {
-        int at = args.indexOf(name);
-        for (String v : values) {
-            if (v == null || at < 0 || !args.get(at + 1).equals(v)) {
-                return v;
-            }
-        }
-        throw new AssertionError(name + ": every value to try is the baseline's own");
     }
 
     /**

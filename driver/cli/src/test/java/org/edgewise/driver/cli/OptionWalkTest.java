@@ -1,8 +1,10 @@
 package org.edgewise.driver.cli;
 
+import static org.edgewise.driver.OptionWalk.failOn;
+import static org.edgewise.driver.OptionWalk.judge;
+import static org.edgewise.driver.OptionWalk.pick;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
 import java.io.PrintWriter;
 import java.io.StringWriter;
@@ -14,6 +16,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.TreeSet;
 import org.edgewise.driver.ErrorReport;
+import org.edgewise.driver.OptionWalk.Refused;
 import org.junit.jupiter.api.BeforeEach;
 import org.junit.jupiter.api.Test;
 import picocli.CommandLine;
@@ -266,27 +269,11 @@ class OptionWalkTest extends StoreFixture {
                     String value = pick(b.args(), name, values);
                     String key = cmd + " " + name + " " + b.label();
                     String what = cmd + " " + name + (value == null ? "" : " " + value) + " [" + b.label() + "]";
-                    String after;
-                    try {
-                        after = output(cmd, b.args(), name, value);
-                    } catch (Refused r) {
-                        if (r.problem != null) {
-                            problems.add(what + ": " + r.problem);
-                        }
-                        continue;
-                    }
-                    String reason = UNCHANGED.get(key);
-                    if (after.equals(before) && reason == null) {
-                        problems.add(what + ": accepted and changes nothing");
-                    } else if (!after.equals(before) && reason != null) {
-                        problems.add(what + ": changes the output although UNCHANGED says '" + reason + "' (stale entry)");
-                    }
+                    judge(problems, what, before, UNCHANGED.get(key), () -> output(cmd, b.args(), name, value));
                 }
             }
         }
-        if (!problems.isEmpty()) {
-            fail(problems.size() + " option(s) that neither act nor are refused:\n  " + String.join("\n  ", problems));
-        }
+        failOn(problems);
     }
 
     @Test
@@ -371,27 +358,6 @@ class OptionWalkTest extends StoreFixture {
             assertEquals("", r.err(), a + " writes to standard error");
             assertTrue(r.out().contains("Usage:"), a + ": " + r.out());
         }
-    }
-
-    /** A command refused: {@code problem} is null when the refusal is a proper one-line user error. */
-    static final class Refused extends Exception {
-        final String problem;
-
-        Refused(String problem) {
-            super(problem, null, false, false);
-            this.problem = problem;
-        }
-    }
-
-    /** The first candidate value that differs from the baseline's own value of {@code name}. */
-    static String pick(List<String> args, String name, List<String> values) {
-        int at = args.indexOf(name);
-        for (String v : values) {
-            if (v == null || at < 0 || !args.get(at + 1).equals(v)) {
-                return v;
-            }
-        }
-        throw new AssertionError(name + ": every value to try is the baseline's own");
     }
 
     /**
