@@ -19,6 +19,7 @@ import java.util.Map;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.types.DataTypes;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.store.ScoreStore;
@@ -53,6 +54,12 @@ class WeightTest {
         return Files.createDirectories(dir.resolve("refused"));
     }
 
+    /** Writes {@code text} to the file {@code name} and checks tally with {@code args} refuses it with "tally: input &lt;file&gt;" + {@code after}. */
+    static void refusedFile(String name, String text, String after, String... args) throws IOException {
+        Path input = TestTables.write(dir.resolve(name), text);
+        TestTables.assertRefused(refusals(), "tally: input " + input + after, input, args);
+    }
+
     static Path tally(Path input, String... extra) {
         Path out = dir.resolve("store" + (stores++));
         List<String> args = new ArrayList<>(List.of("--input", input.toString(), "--out", out.toString()));
@@ -72,9 +79,7 @@ class WeightTest {
 
     /** Byte-identical Parquet parts; manifests equal once createdAt, input.paths and input.weight are set aside. */
     static void sameStore(Path weighted, Path expanded, String weight) throws IOException {
-        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES)) {
-            assertArrayEquals(Files.readAllBytes(expanded.resolve(part)), Files.readAllBytes(weighted.resolve(part)), part);
-        }
+        sameParts(expanded, weighted);
         ObjectNode a = (ObjectNode) manifest(weighted);
         ObjectNode b = (ObjectNode) manifest(expanded);
         assertEquals(weight, a.path("input").path("weight").asText(null), "the manifest names the weight column");
@@ -87,6 +92,19 @@ class WeightTest {
         for (JsonNode v : a.get("variables")) {
             assertFalse(v.get("name").asText().equals(weight), "the weight column is no variable");
         }
+    }
+
+    /** Byte-identical Parquet parts: the counts and the scores of {@code got} are those of {@code expected}. */
+    static void sameParts(Path expected, Path got) throws IOException {
+        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES)) {
+            assertArrayEquals(Files.readAllBytes(expected.resolve(part)), Files.readAllBytes(got.resolve(part)), part);
+        }
+    }
+
+    /** The table of counts {@code t} (written as {@link #csv}) read back by Spark, its Freq column as {@code type}. */
+    static Dataset<Row> freqTable(String name, Counts t, DataType type) {
+        return spark.read().option("header", "true").csv(csv(name, t).toString())
+                .withColumn("Freq", org.apache.spark.sql.functions.col("Freq").cast(type));
     }
 
     static Path csv(String name, Counts t) {
@@ -212,9 +230,7 @@ class WeightTest {
         Path counts = weightSecond("part-counts.csv", randomCounts(false));
         Path one = tally(counts, "--weight", "n", "--max-parents", "2", "--partitions", "1");
         Path three = tally(counts, "--weight", "n", "--max-parents", "2", "--partitions", "3");
-        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES)) {
-            assertArrayEquals(Files.readAllBytes(one.resolve(part)), Files.readAllBytes(three.resolve(part)), part);
-        }
+        sameParts(one, three);
         ObjectNode a = (ObjectNode) manifest(one);
         ObjectNode b = (ObjectNode) manifest(three);
         a.remove("createdAt");
@@ -226,8 +242,7 @@ class WeightTest {
     @Test
     void parquetTableOfCounts() throws IOException {
         Counts t = CountTables.titanic();
-        Dataset<Row> lines = spark.read().option("header", "true").csv(csv("titanic-pq", t).toString())
-                .withColumn("Freq", org.apache.spark.sql.functions.col("Freq").cast(DataTypes.LongType));
+        Dataset<Row> lines = freqTable("titanic-pq", t, DataTypes.LongType);
         Path counts = dir.resolve("titanic-counts.parquet");
         lines.coalesce(1).write().parquet(counts.toString());
         Path rows = dir.resolve("titanic-rows.parquet");
@@ -253,14 +268,11 @@ class WeightTest {
     @Test
     void javaApi() throws IOException {
         Counts t = CountTables.ucbAdmissions();
-        Dataset<Row> d = spark.read().option("header", "true").csv(csv("ucb-api", t).toString())
-                .withColumn("Freq", org.apache.spark.sql.functions.col("Freq").cast(DataTypes.IntegerType));
+        Dataset<Row> d = freqTable("ucb-api", t, DataTypes.IntegerType);
         Path w = dir.resolve("api-store");
         Tally.of(d).weight("Freq").writeTo(w.toString());
         Path x = tally(expandedCsv("ucb-api", t));
-        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES)) {
-            assertArrayEquals(Files.readAllBytes(x.resolve(part)), Files.readAllBytes(w.resolve(part)), part);
-        }
+        sameParts(x, w);
         assertEquals(manifest(x).path("input").path("fingerprint"), manifest(w).path("input").path("fingerprint"));
         assertEquals("Freq", manifest(w).path("input").path("weight").asText());
         UserError e = assertThrows(UserError.class,
@@ -272,38 +284,34 @@ class WeightTest {
     /** Refusals, word for word, exit status 2, nothing written. */
     @Test
     void badWeightsAreRefusedWithTheirLine() throws IOException {
-        Path frac = TestTables.write(dir.resolve("frac.csv"), "a,n,b\nx,2,u\ny,2.5,v\ny,1.5,v\n");
-        TestTables.assertRefused(refusals(), "tally: input " + frac + " line 3, column 'n': '2.5' is not a whole number;"
-                + " --weight n needs a whole number of rows (0 or more) on every line (2 bad weights in all)", frac,
+        refusedFile("frac.csv", "a,n,b\nx,2,u\ny,2.5,v\ny,1.5,v\n", " line 3, column 'n': '2.5' is not a whole number;"
+                + " --weight n needs a whole number of rows (0 or more) on every line (2 bad weights in all)",
                 "--weight", "n");
-        Path neg = TestTables.write(dir.resolve("neg.csv"), "a,n,b\nx,2,u\ny,3,v\nx,-1,v\n");
-        TestTables.assertRefused(refusals(), "tally: input " + neg + " line 4, column 'n': '-1' is negative;"
-                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", neg,
+        refusedFile("neg.csv", "a,n,b\nx,2,u\ny,3,v\nx,-1,v\n", " line 4, column 'n': '-1' is negative;"
+                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)",
                 "--weight", "n");
-        Path blank = TestTables.write(dir.resolve("blank.csv"), "a,n,b\nx,2,u\ny, ,v\n");
-        TestTables.assertRefused(refusals(), "tally: input " + blank + " line 3, column 'n': missing weight;"
-                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", blank,
+        refusedFile("blank.csv", "a,n,b\nx,2,u\ny, ,v\n", " line 3, column 'n': missing weight;"
+                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)",
                 "--weight", "n", "--missing", "drop");
-        Path word = TestTables.write(dir.resolve("word.csv"), "a,n,b\nx,two,u\n");
-        TestTables.assertRefused(refusals(), "tally: input " + word + " line 2, column 'n': 'two' is not a whole number;"
-                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)", word,
+        refusedFile("word.csv", "a,n,b\nx,two,u\n", " line 2, column 'n': 'two' is not a whole number;"
+                + " --weight n needs a whole number of rows (0 or more) on every line (1 bad weight in all)",
                 "--weight", "n");
-        Path big = TestTables.write(dir.resolve("big.csv"), "a,n,b\nx,99999999999999999999,u\n");
-        TestTables.assertRefused(refusals(), "tally: input " + big + " line 2, column 'n': '99999999999999999999' is more"
+        refusedFile("big.csv", "a,n,b\nx,99999999999999999999,u\n", " line 2, column 'n': '99999999999999999999' is more"
                 + " than 9223372036854775807; --weight n needs a whole number of rows (0 or more) on every line"
-                + " (1 bad weight in all)", big, "--weight", "n");
-        Path sum = TestTables.write(dir.resolve("sum.csv"), "a,n,b\nx,9223372036854775807,u\ny,1,v\n");
-        TestTables.assertRefused(refusals(), "tally: input " + sum + ", column 'n': the weights add up to more than"
-                + " 9223372036854775807 rows", sum, "--weight", "n");
+                + " (1 bad weight in all)",
+                "--weight", "n");
+        refusedFile("sum.csv", "a,n,b\nx,9223372036854775807,u\ny,1,v\n", ", column 'n': the weights add up to more than"
+                + " 9223372036854775807 rows",
+                "--weight", "n");
         // a line of weight 0 stands for no row: its empty field is no missing value, and a refusal names a counted line
-        Path gap = TestTables.write(dir.resolve("gap.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,\n");
-        TestTables.assertRefused(refusals(), "tally: input " + gap + " line 4, column 'b': missing value"
-                + " (1 missing value in all); choose --missing drop or --missing state", gap, "--weight", "n");
+        refusedFile("gap.csv", "a,n,b\nx,0,\nx,2,u\ny,1,\n", " line 4, column 'b': missing value"
+                + " (1 missing value in all); choose --missing drop or --missing state",
+                "--weight", "n");
         Path gapOnly = TestTables.write(dir.resolve("gap-only.csv"), "a,n,b\nx,0,\nx,2,u\ny,1,v\n");
         assertEquals(3, TestTables.read(tally(gapOnly, "--weight", "n")).manifest().input().rows());
-        Path zero = TestTables.write(dir.resolve("zero.csv"), "a,n,b\nx,0,u\ny,0,v\n");
-        TestTables.assertRefused(refusals(), "tally: input " + zero + ", column 'n': every weight is 0; nothing is left"
-                + " to count", zero, "--weight", "n");
+        refusedFile("zero.csv", "a,n,b\nx,0,u\ny,0,v\n", ", column 'n': every weight is 0; nothing is left"
+                + " to count",
+                "--weight", "n");
     }
 
     @Test
