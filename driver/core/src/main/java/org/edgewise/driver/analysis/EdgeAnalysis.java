@@ -41,13 +41,9 @@ public final class EdgeAnalysis {
      */
     public static EdgeResult run(Scoring scoring, Averaging averaging, int topParents, ProgressListener progress,
                                  Consumer<EdgeResult> eachRun) {
-        ScoreStore store = scoring.read();
-        SampleFile.Loaded saved = averaging.saved(store, scoring.store());
-        List<ScoringOptions> options = saved == null ? scoring.options() : List.of(saved.info().scoring().options(scoring.names()));
-        int[] order = averaging.order() == null ? null
-                : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
-        UnknownOrderSettings settings = averaging.settings(topParents);
-        return run(store, scoring.store(), saved, options, order, settings, topParents, progress, eachRun);
+        Inputs in = Inputs.of(scoring, averaging);
+        return run(in.store(), scoring.store(), in.saved(), in.options(), in.order(), averaging.settings(topParents), topParents,
+                progress, eachRun);
     }
 
     /** As {@link #run(ScoreStore, Path, SampleFile.Loaded, List, int[], UnknownOrderSettings, int, ProgressListener, Consumer)} without a saved sample. */

@@ -20,7 +20,6 @@ import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.store.Manifest;
-import org.edgewise.driver.store.ScoreStore;
 
 /**
  * The {@code effect} service: parses the questions, asks the request's {@link StructurePosterior}
@@ -96,13 +95,9 @@ public final class EffectAnalysis {
     /** As above, under a case-control {@code design} (or null), leading with {@code measure} (or null). */
     public static List<EffectResult> run(Scoring scoring, Averaging averaging, List<Question> questions, int draws,
                                          long maxHiddenStates, CaseControl design, String measure, ProgressListener progress) {
-        ScoreStore store = scoring.read();
-        int[] order = averaging.order() == null ? null
-                : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
-        SampleFile.Loaded saved = averaging.saved(store, scoring.store());
-        LocalScores ls = LocalScores.build(store, saved == null ? scoring.first() : saved.info().scoring().options(scoring.names()));
-        return run(new Request(ls, order, averaging.settings(0), questions,
-                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), design, measure, saved), progress);
+        Inputs in = Inputs.of(scoring, averaging);
+        return run(new Request(in.scores(), in.order(), averaging.settings(0), questions,
+                new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), design, measure, in.saved()), progress);
     }
 
     public static List<EffectResult> run(Request r, ProgressListener progress) {

@@ -14,7 +14,6 @@ import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.ExactOrders;
-import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.posterior.SavedSample;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.query.BatchPrediction;
@@ -27,7 +26,6 @@ import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.result.Prediction;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.store.Manifest;
-import org.edgewise.driver.store.ScoreStore;
 
 /**
  * The {@code predict} service: P(case | D) and P(case | given, D) averaged over the request's
@@ -69,10 +67,10 @@ public final class PredictionAnalysis {
 
     public static Answer run(Request r, ProgressListener progress) {
         InputNames in = r.scoring().names();
-        ScoreStore store = r.scoring().read();
-        Manifest m = store.manifest();
+        Inputs inputs = Inputs.of(r.scoring(), r.averaging());
+        Manifest m = inputs.store().manifest();
         UnknownOrderSettings settings = r.averaging().settings(0);
-        int[] ord = r.averaging().order() == null ? null : VariableOrder.parse(m, r.averaging().order(), in.order());
+        int[] ord = inputs.order();
         int[] given = r.givenText() == null ? null : CaseParser.parse(m, r.givenText(), in.given());
         int[] single = r.caseText() == null ? null : CaseParser.parse(m, r.caseText(), in.oneCase());
         CaseTable table = r.casesFile() == null ? null : CaseTable.read(r.casesFile(), m, in.cases());
@@ -85,9 +83,8 @@ public final class PredictionAnalysis {
                 }
             }
         }
-        SampleFile.Loaded saved = r.averaging().saved(store, r.scoring().store());
-        LocalScores ls = LocalScores.build(store, saved == null ? r.scoring().first() : saved.info().scoring().options(in));
-        StructurePosterior p = StructurePosterior.of(ls, saved, ord, settings, progress);
+        LocalScores ls = inputs.scores();
+        StructurePosterior p = StructurePosterior.of(ls, inputs.saved(), ord, settings, progress);
         StructurePosterior.Cases cases = p.cases(r.tailMass(), r.maxHiddenStates());
         ExactCasePrediction exact = null;
         if (r.exactCases()) {

@@ -48,11 +48,12 @@ public final class SampleAnalysis {
     public static Summary run(Request r, ProgressListener progress) {
         SampleFile.checkTarget(r.out(), r.overwrite(), r.outName(), r.overwriteName());
         long t0 = System.nanoTime();
-        ScoreStore store = r.scoring().read();
         Averaging a = r.averaging();
-        int[] order = a.order() == null ? null : VariableOrder.parse(store.manifest(), a.order(), r.scoring().names().order());
-        LocalScores ls = LocalScores.build(store, r.scoring().first());
-        StructurePosterior p = StructurePosterior.of(ls, order, a.settings(0), progress);
+        Inputs in = Inputs.of(r.scoring(), a);
+        ScoreStore store = in.store();
+        int[] order = in.order();
+        LocalScores ls = in.scores();
+        StructurePosterior p = StructurePosterior.of(ls, in.saved(), in.order(), a.settings(0), progress);
         if (p.cost() != null) {
             progress.note(p.cost());
         }
