@@ -115,6 +115,12 @@ public final class EffectAnalysis {
         }
         StructurePosterior p = StructurePosterior.of(ls, r.saved(), r.order(), r.settings(), progress);
         StructurePosterior.EffectSource src = p.effectSource();
+        if (src instanceof StructurePosterior.OverOrders o) {
+            double states = EffectEngine.orderEnumeration(ls, o.orders(), qs);
+            if (states > r.engine().maxHiddenStates()) {
+                src = sampledDags(p, src, states, r.engine());
+            }
+        }
         List<Effect> effects = src instanceof StructurePosterior.OverDags d
                 ? EffectEngine.overDags(ls, d.dags(), qs, r.engine())
                 : EffectEngine.overOrders(ls, ((StructurePosterior.OverOrders) src).orders(), qs, r.engine());
@@ -125,6 +131,21 @@ public final class EffectAnalysis {
                     src.converged(), src.maxRhat(), sd, oddsFactor[i], r.measure(), r.engine().draws()));
         }
         return out;
+    }
+
+    /**
+     * Where the closed-form sum over the DAGs of an order would enumerate more hidden joint states than
+     * the limit: DAGs drawn from the same posterior ({@link StructurePosterior#sampleDags}: given an order,
+     * independently, its parent sets being independent; from chains, one per kept order, in chain order),
+     * each answered by exact inference on its mutilated graph, averaged with a Monte Carlo error.
+     */
+    private static StructurePosterior.OverDags sampledDags(StructurePosterior p, StructurePosterior.EffectSource exact,
+                                                           double states, EffectEngine.Settings s) {
+        StructurePosterior.Sampled d = p.sampleDags(s.draws(), s.seed());
+        String over = String.format(Locale.ROOT, "%s, each by exact inference on its mutilated graph (sampled; see mcse); "
+                + "the closed-form sum over the DAGs of an order would enumerate %.0f hidden joint states (limit %d)",
+                d.sampler(), states, s.maxHiddenStates());
+        return new StructurePosterior.OverDags(d.dags().forEffects(), over, exact.converged(), exact.maxRhat());
     }
 
     /**

@@ -1,7 +1,13 @@
 package org.edgewise.driver.effect;
 
+import java.util.Arrays;
+import java.util.BitSet;
+import java.util.HashMap;
+import java.util.Locale;
+import java.util.Map;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.DagInference;
 import org.edgewise.driver.store.ScoreStore;
 
 /**
@@ -10,31 +16,40 @@ import org.edgewise.driver.store.ScoreStore;
  * <pre>
  *   P(v | do(x = a), G, θ) = Π_{i ∉ X} θ_i(v_i | v_{U_i})   for v consistent with x = a, else 0,
  * </pre>
- * summed over the states of the hidden variables. Only the ancestors of the fixed cells in the
- * mutilated graph (the intervened variables' incoming edges cut) are relevant; the rest sum out
- * to 1. Relevant hidden variables are enumerated depth-first in a topological order, refused
- * above a limit on their joint states. Terms are products of at most n factors in linear space;
- * a term that underflows is negligible next to the sum it belongs to.
+ * summed over the states of the hidden variables. That is inference on the mutilated graph G_x̄ (the
+ * intervened variables' incoming edges cut, their factors the constant 1): only the ancestors of the
+ * fixed cells in G_x̄ are relevant, the rest sum out to 1. The sum is exact variable elimination in log
+ * space ({@link DagInference}), so its cost follows the width of G_x̄ on that ancestral set, not the
+ * number of hidden variables. Each DAG's plans (the ancestral set and elimination order per pattern of
+ * fixed cells) are made once ({@link OnDag#plan}) and refused above a limit on the largest table
+ * before any numeric work.
  *
  * <p>Also: whether G has a directed path from an intervened variable to the target.
+ *
+ * <p>Memory: per DAG one plan per pattern of fixed cells asked (a few ints per variable of the
+ * ancestral set) and the store family of each variable; per evaluation the tables of
+ * {@link DagInference} (at most the limit's entries × 8 bytes each).
  */
 final class DagEffects {
-    private final ScoreStore store;
     private final int n;
     private final int[] arity;
-    private final long maxHiddenStates;
-    /** How the caller names the hidden-state limit in messages. */
+    private final long maxTable;
+    /** How the caller names the table limit in messages. */
     private final String maxHiddenName;
 
-    DagEffects(ScoreStore store, long maxHiddenStates, String maxHiddenName) {
-        this.store = store;
+    DagEffects(ScoreStore store, long maxTable, String maxHiddenName) {
         this.n = store.variableCount();
         this.arity = new int[n];
         for (int v = 0; v < n; v++) {
             arity[v] = store.arity(v);
         }
-        this.maxHiddenStates = maxHiddenStates;
+        this.maxTable = maxTable;
         this.maxHiddenName = maxHiddenName;
+    }
+
+    /** One DAG, with its plans; {@code where} names it in a refusal (e.g. "DAG 3 of 2000"), or "". */
+    OnDag on(int[][] parents, String where) {
+        return new OnDag(parents, where);
     }
 
     /**
@@ -42,100 +57,76 @@ final class DagEffects {
      * intervened variables too; −∞ when it is 0.
      */
     double logProbability(int[][] parents, boolean[] intervened, int[] states, Parameters theta) {
-        boolean[] relevant = new boolean[n];
-        int[] stack = new int[n];
-        int top = 0;
-        for (int v = 0; v < n; v++) {
-            if (states[v] != CaseParser.HIDDEN) {
-                relevant[v] = true;
-                stack[top++] = v;
-            }
-        }
-        while (top > 0) {
-            int v = stack[--top];
-            if (intervened[v]) {
-                continue;
-            }
-            for (int p : parents[v]) {
-                if (!relevant[p]) {
-                    relevant[p] = true;
-                    stack[top++] = p;
-                }
-            }
-        }
-        int[] topo = topological(parents, relevant, intervened);
-        double joint = 1;
-        for (int v : topo) {
-            if (states[v] == CaseParser.HIDDEN) {
-                joint *= arity[v];
-            }
-        }
-        if (joint > maxHiddenStates) {
-            throw new UserError("summing out the hidden ancestors of the target in one sampled network would enumerate "
-                    + String.format(java.util.Locale.ROOT, "%.0f", joint) + " joint states (limit " + maxHiddenStates
-                    + "); raise " + maxHiddenName);
-        }
-        int[] family = new int[n];
-        for (int v : topo) {
-            family[v] = intervened[v] ? -1 : theta.family(v, parents[v]);
-        }
-        int[] x = states.clone();
-        double p = sum(topo, 0, x, parents, family, theta);
-        return Math.log(p);
+        return on(parents, "").logProbability(intervened, states, theta);
     }
 
-    private double sum(int[] topo, int at, int[] x, int[][] parents, int[] family, Parameters theta) {
-        if (at == topo.length) {
-            return 1;
-        }
-        int v = topo[at];
-        if (family[v] < 0) {
-            return sum(topo, at + 1, x, parents, family, theta);
-        }
-        long j = 0;
-        for (int p : parents[v]) {
-            j = j * arity[p] + x[p];
-        }
-        if (x[v] != CaseParser.HIDDEN) {
-            double f = theta.theta(family[v], j, x[v]);
-            return f == 0 ? 0 : f * sum(topo, at + 1, x, parents, family, theta);
-        }
-        double s = 0;
-        for (int k = 0; k < arity[v]; k++) {
-            x[v] = k;
-            s += theta.theta(family[v], j, k) * sum(topo, at + 1, x, parents, family, theta);
-        }
-        x[v] = CaseParser.HIDDEN;
-        return s;
-    }
+    /** A DAG and the plans made on it, keyed by the intervened variables and the pattern of fixed cells. */
+    final class OnDag {
+        private final int[][] parents;
+        private final String where;
+        private final Map<BitSet, DagInference.Plan> plans = new HashMap<>();
+        private final int[] family;
 
-    /** The relevant variables, parents before children (Kahn), intervened variables without parents. */
-    private int[] topological(int[][] parents, boolean[] relevant, boolean[] intervened) {
-        int[] out = new int[n];
-        int m = 0;
-        boolean[] placed = new boolean[n];
-        boolean progress = true;
-        while (progress) {
-            progress = false;
+        private OnDag(int[][] parents, String where) {
+            this.parents = parents;
+            this.where = where;
+            this.family = new int[n];
+            Arrays.fill(family, -1);
+        }
+
+        /**
+         * The elimination plan for a case of this pattern on the mutilated DAG; a {@link UserError}
+         * naming the largest table (the width) when it exceeds the limit.
+         */
+        DagInference.Plan plan(boolean[] intervened, int[] states) {
+            BitSet key = new BitSet(2 * n);
             for (int v = 0; v < n; v++) {
-                if (!relevant[v] || placed[v]) {
-                    continue;
+                if (intervened[v]) {
+                    key.set(v);
                 }
-                boolean ready = true;
-                if (!intervened[v]) {
-                    for (int p : parents[v]) {
-                        ready &= placed[p];
-                    }
-                }
-                if (ready) {
-                    placed[v] = true;
-                    out[m++] = v;
-                    progress = true;
+                if (states[v] != CaseParser.HIDDEN) {
+                    key.set(n + v);
                 }
             }
+            DagInference.Plan p = plans.get(key);
+            if (p == null) {
+                p = DagInference.plan(mutilated(intervened), arity, states);
+                if (p.largest() > maxTable) {
+                    throw new UserError(String.format(Locale.ROOT, "%ssumming out the hidden ancestors of the target in a "
+                            + "sampled network by elimination would build a table of %.0f entries (limit %d); observe more "
+                            + "of them (evidence on an ancestor), or raise %s", where.isEmpty() ? "" : where + ": ",
+                            p.largest(), maxTable, maxHiddenName));
+                }
+                plans.put(key, p);
+            }
+            return p;
         }
-        return java.util.Arrays.copyOf(out, m);
+
+        /** As {@link DagEffects#logProbability}, on this DAG. */
+        double logProbability(boolean[] intervened, int[] states, Parameters theta) {
+            DagInference.Plan p = plan(intervened, states);
+            for (int v : p.factors()) {
+                if (!intervened[v] && family[v] < 0) {
+                    family[v] = theta.family(v, parents[v]);
+                }
+            }
+            return DagInference.logProbability(p, mutilated(intervened), arity, states,
+                    (v, j, k) -> intervened[v] ? 0.0 : Math.log(theta.theta(family[v], j, k)));
+        }
+
+        /** The parents in G_x̄: none for an intervened variable. */
+        private int[][] mutilated(boolean[] intervened) {
+            int[][] m = parents.clone();
+            for (int v = 0; v < n; v++) {
+                if (intervened[v]) {
+                    m[v] = NONE;
+                }
+            }
+            return m;
+        }
     }
+
+    private static final int[] NONE = new int[0];
 
     /** Whether some directed path in G leads from a variable of {@code from} to a variable of {@code to}. */
     static boolean hasPath(int[][] parents, int[] from, int[] to) {

@@ -129,7 +129,7 @@ public final class EffectEngine {
                     for (int c = 0; c < n; c++) {
                         parents[c] = ls.parents(c, chosen[c]);
                     }
-                    drawValues(dag, theta, parents, qs, values, none, pairs, d);
+                    drawValues(dag.on(parents, ""), theta, parents, qs, values, none, pairs, d);
                 }
             }
         }
@@ -141,7 +141,12 @@ public final class EffectEngine {
         return out;
     }
 
-    /** The effect of every query over a weighted list of DAGs, with posterior-mean parameters per DAG. */
+    /**
+     * The effect of every query over a weighted list of DAGs, with posterior-mean parameters per DAG:
+     * each term exact inference on the DAG's mutilated graph ({@link DagEffects}). Every distinct DAG
+     * is planned for every query first, so a DAG whose elimination would build a table above the limit
+     * is refused before any numeric work.
+     */
     public static List<Effect> overDags(LocalScores ls, WeightedDags dags, List<EffectQuery> qs, Settings s) {
         checkSize(ls);
         int n = ls.variableCount();
@@ -151,26 +156,50 @@ public final class EffectEngine {
             logW[g] = Math.log(dags.weight(g));
         }
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
-        Parameters mean = Parameters.mean(ls);
-        double[][][] terms = new double[qs.size()][k][];
-        // draws repeat DAGs: each distinct DAG is evaluated once (its rows are only read)
+        // draws repeat DAGs: each distinct DAG is planned and evaluated once (its rows are only read)
         Map<String, Integer> seen = new HashMap<>();
+        int[] firstOf = new int[k];
+        List<DagEffects.OnDag> distinct = new ArrayList<>();
+        int[] unitOf = new int[k];
         for (int g = 0; g < k; g++) {
             int[][] parents = dags.parents(g);
-            Integer first = seen.putIfAbsent(Arrays.deepToString(parents), g);
-            if (first != null) {
-                for (int qi = 0; qi < qs.size(); qi++) {
-                    terms[qi][g] = terms[qi][first];
-                }
-                continue;
+            Integer u = seen.putIfAbsent(Arrays.deepToString(parents), distinct.size());
+            if (u == null) {
+                u = distinct.size();
+                String where = dags.sampled() ? (dags.chains() > 0 ? "DAG " + (g % (k / dags.chains()) + 1) + " of chain "
+                        + (g / (k / dags.chains()) + 1) : "sampled DAG " + (g + 1)) : "DAG " + (g + 1) + " of " + k;
+                distinct.add(dag.on(parents, where));
+                firstOf[u] = g;
             }
+            unitOf[g] = u;
+        }
+        boolean[] noneCut = new boolean[n];
+        for (DagEffects.OnDag d : distinct) {
+            for (EffectQuery q : qs) {
+                boolean[] cut = flags(n, q.setVariables());
+                d.plan(cut, q.jointCase(q.set()));
+                d.plan(cut, q.givenCase(q.set()));
+                d.plan(noneCut, q.jointCase(q.set()));
+                d.plan(noneCut, q.givenCase(q.set()));
+            }
+        }
+        Parameters mean = Parameters.mean(ls);
+        double[][][] rows = new double[qs.size()][distinct.size()][];
+        for (int u = 0; u < distinct.size(); u++) {
+            DagEffects.OnDag d = distinct.get(u);
+            int[][] parents = dags.parents(firstOf[u]);
             for (int qi = 0; qi < qs.size(); qi++) {
                 EffectQuery q = qs.get(qi);
                 boolean[] cut = flags(n, q.setVariables());
-                boolean[] noneCut = new boolean[n];
-                double[] row = Term.row(q, (intervened, states) -> dag.logProbability(parents, intervened ? cut : noneCut, states, mean));
+                double[] row = Term.row(q, (intervened, states) -> d.logProbability(intervened ? cut : noneCut, states, mean));
                 Term.NO_PATH.set(row, DagEffects.hasPath(parents, q.setVariables(), outcomeVariables(q)) ? 0 : 1);
-                terms[qi][g] = row;
+                rows[qi][u] = row;
+            }
+        }
+        double[][][] terms = new double[qs.size()][k][];
+        for (int qi = 0; qi < qs.size(); qi++) {
+            for (int g = 0; g < k; g++) {
+                terms[qi][g] = rows[qi][unitOf[g]];
             }
         }
         SplittableRandom rng = new SplittableRandom(s.seed());
@@ -180,7 +209,7 @@ public final class EffectEngine {
         boolean[][] none = new boolean[qs.size()][s.draws()];
         PairDraws[] pairs = PairDraws.empty(qs.size(), s.draws());
         for (int d = 0; d < drawUnit.length; d++) {
-            drawValues(dag, theta, dags.parents(drawUnit[d]), qs, values, none, pairs, d);
+            drawValues(distinct.get(unitOf[drawUnit[d]]), theta, dags.parents(drawUnit[d]), qs, values, none, pairs, d);
         }
         List<Effect> out = new ArrayList<>();
         for (int qi = 0; qi < qs.size(); qi++) {
@@ -190,6 +219,63 @@ public final class EffectEngine {
         return out;
     }
 
+    /**
+     * The largest number of joint states of hidden variables the closed-form sum over the DAGs of
+     * any order of {@code src} would enumerate for {@code qs} (the figure {@link CasePredictor} compares
+     * with its limit): per order, the variables a case needs are its fixed cells and, backwards through
+     * the order, every candidate parent an allowed parent set of a needed variable can hold; an
+     * intervened variable needs none. No sum is formed.
+     */
+    public static double orderEnumeration(LocalScores ls, EffectOrders src, List<EffectQuery> qs) {
+        int n = ls.variableCount();
+        double worst = 0;
+        long[] union = new long[n];
+        for (int[] order : src.orders()) {
+            int[] pos = OrderSum.positions(order, n);
+            for (int c = 0; c < n; c++) {
+                long pred = ls.predecessorMask(c, pos);
+                long u = 0;
+                for (long m : ls.masks(c)) {
+                    if ((m & ~pred) == 0) {
+                        u |= m;
+                    }
+                }
+                union[c] = u;
+            }
+            for (EffectQuery q : qs) {
+                boolean[] cut = flags(n, q.setVariables());
+                for (int[] states : new int[][] {q.jointCase(q.set()), q.givenCase(q.set())}) {
+                    worst = Math.max(worst, hiddenStates(ls, order, union, cut, states));
+                    worst = Math.max(worst, hiddenStates(ls, order, union, new boolean[n], states));
+                }
+            }
+        }
+        return worst;
+    }
+
+    private static double hiddenStates(LocalScores ls, int[] order, long[] union, boolean[] cut, int[] states) {
+        int n = order.length;
+        boolean[] needed = new boolean[n];
+        double joint = 1;
+        for (int p = n - 1; p >= 0; p--) {
+            int v = order[p];
+            boolean fixed = states[v] != CaseParser.HIDDEN;
+            if (!fixed && !needed[v]) {
+                continue;
+            }
+            if (!fixed) {
+                joint *= ls.store().arity(v);
+            }
+            if (!cut[v]) {
+                int[] cand = ls.candidates(v);
+                for (long m = union[v]; m != 0; m &= m - 1) {
+                    needed[cand[Long.numberOfTrailingZeros(m)]] = true;
+                }
+            }
+        }
+        return joint;
+    }
+
     private static void checkSize(LocalScores ls) {
         if (ls.variableCount() > 64) {
             throw new UserError("effect handles at most 64 variables, the store has " + ls.variableCount());
@@ -197,19 +283,19 @@ public final class EffectEngine {
     }
 
     /** One (DAG, θ) draw: the effect of every query under it, and whether it has no path. */
-    private static void drawValues(DagEffects dag, Parameters theta, int[][] parents, List<EffectQuery> qs,
+    private static void drawValues(DagEffects.OnDag dag, Parameters theta, int[][] parents, List<EffectQuery> qs,
                                    double[][] values, boolean[][] none, PairDraws[] pairs, int d) {
         theta.fresh();
         int n = parents.length;
         for (int qi = 0; qi < qs.size(); qi++) {
             EffectQuery q = qs.get(qi);
             boolean[] cut = flags(n, q.setVariables());
-            double p = Math.exp(dag.logProbability(parents, cut, q.jointCase(q.set()), theta)
-                    - (q.hasGiven() ? dag.logProbability(parents, cut, q.givenCase(q.set()), theta) : 0));
+            double p = Math.exp(dag.logProbability(cut, q.jointCase(q.set()), theta)
+                    - (q.hasGiven() ? dag.logProbability(cut, q.givenCase(q.set()), theta) : 0));
             pairs[qi].probability()[d] = p;
             if (q.versus() != null) {
-                double pv = Math.exp(dag.logProbability(parents, cut, q.jointCase(q.versus()), theta)
-                        - (q.hasGiven() ? dag.logProbability(parents, cut, q.givenCase(q.versus()), theta) : 0));
+                double pv = Math.exp(dag.logProbability(cut, q.jointCase(q.versus()), theta)
+                        - (q.hasGiven() ? dag.logProbability(cut, q.givenCase(q.versus()), theta) : 0));
                 pairs[qi].versus()[d] = pv;
                 p -= pv;
             }

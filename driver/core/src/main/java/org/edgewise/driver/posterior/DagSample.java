@@ -2,6 +2,7 @@ package org.edgewise.driver.posterior;
 
 import java.util.List;
 import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.effect.WeightedDags;
 
 /**
  * DAGs drawn from a structure posterior, chain by chain in draw order, each DAG the sorted parent
@@ -29,6 +30,39 @@ public record DagSample(int variables, int[][][][] dags, double[][] weights) {
 
     public boolean weighted() {
         return weights != null;
+    }
+
+    /**
+     * The DAGs as the effect engine averages over them: weights as drawn, chains kept apart (one chain
+     * of independent draws counts as independent: MCSE from their spread).
+     */
+    public WeightedDags forEffects() {
+        return new WeightedDags() {
+            @Override
+            public int size() {
+                return (int) total();
+            }
+
+            @Override
+            public int[][] parents(int g) {
+                return dags[g / perChain()][g % perChain()];
+            }
+
+            @Override
+            public double weight(int g) {
+                return weighted() ? weights[g / perChain()][g % perChain()] : 1.0;
+            }
+
+            @Override
+            public boolean sampled() {
+                return true;
+            }
+
+            @Override
+            public int chains() {
+                return DagSample.this.chains() == 1 ? 0 : DagSample.this.chains();
+            }
+        };
     }
 
     /** The DAGs given as parent-set indices of {@code ls} per child, chain by chain. */

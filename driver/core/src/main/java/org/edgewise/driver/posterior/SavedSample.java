@@ -14,7 +14,6 @@ import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.dag.ParentListDraws;
-import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.query.DagMixture;
 import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.store.Manifest;
@@ -248,40 +247,12 @@ public final class SavedSample implements StructurePosterior {
         SampleFile.Info i = saved.info();
         String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse)", d.total(),
                 saved.path(), i.sampler());
-        return new OverDags(new Saved(), over, i.diagnostics() == null ? null : i.diagnostics().converged(),
+        return new OverDags(d.forEffects(), over, i.diagnostics() == null ? null : i.diagnostics().converged(),
                 i.diagnostics() == null ? null : i.diagnostics().maxRhat());
     }
 
     @Override
     public Sampled sampleDags(int count, long seed) {
         return new Sampled(d, saved.info().sampler());
-    }
-
-    /** The saved DAGs as the effect engine averages over them: weights as saved, chains kept apart. */
-    private final class Saved implements WeightedDags {
-        @Override
-        public int size() {
-            return (int) d.total();
-        }
-
-        @Override
-        public int[][] parents(int g) {
-            return d.dags()[g / d.perChain()][g % d.perChain()];
-        }
-
-        @Override
-        public double weight(int g) {
-            return d.weighted() ? d.weights()[g / d.perChain()][g % d.perChain()] : 1.0;
-        }
-
-        @Override
-        public boolean sampled() {
-            return true;
-        }
-
-        @Override
-        public int chains() {
-            return independent() ? 0 : d.chains();
-        }
     }
 }
