@@ -22,9 +22,8 @@ public final class AveragingOptions {
     @Mixin
     public UnknownOrderOptions unknown = new UnknownOrderOptions();
 
-    @Option(names = "--sample", paramLabel = "DIR", description = "answer from a posterior sample saved by the sample command "
-            + "(nothing is sampled again; --store must be the store it was drawn from)")
-    public Path sample;
+    @Mixin
+    public SampleOption saved = new SampleOption();
 
     /**
      * What to average over ({@link MethodMixin#resolve} names the job as {@code what}), refusing
@@ -34,6 +33,7 @@ public final class AveragingOptions {
      * acts even on exact sums).
      */
     public Averaging averaging(String what, boolean features, boolean draws) {
+        Path sample = saved.sample;
         if (sample != null) {
             String why = "the saved DAGs were drawn once, with the method and scoring the sample records; draw another sample to change them";
             Checks.notApplicable(method.order != null, "--order", "with --sample", why);

@@ -29,7 +29,7 @@ import picocli.CommandLine.Command;
                 "  tally     Scan a table once and write a score store (see 'scripts/edgewise tally --help')."},
         subcommands = {CommandLine.HelpCommand.class, ScoresCommand.class,
                 EdgesCommand.class, PredictCommand.class, EffectCommand.class, SimulateCommand.class, ReportCommand.class,
-                CompareCommand.class, SampleCommand.class})
+                CompareCommand.class, SampleCommand.class, ExportCommand.class})
 public final class EdgewiseCli implements java.util.concurrent.Callable<Integer> {
     /** Exit status for a user mistake (bad option, bad file, damaged store). */
     public static final int USER_ERROR = ErrorReport.USER_MISTAKE;

@@ -40,7 +40,7 @@ public final class SampleCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        Checks.notApplicable(averaging.sample != null, "--sample", "in sample", "a sample is drawn from the store, not from another sample");
+        Checks.notApplicable(averaging.saved.sample != null, "--sample", "in sample", "a sample is drawn from the store, not from another sample");
         Scoring scoring = averaging.scoring();
         Averaging what = averaging.averaging("sampling", false, true);
         Checks.notApplicable(dags != null && what.method() == Averaging.Method.MCMC, "--dags", "with --method mcmc",

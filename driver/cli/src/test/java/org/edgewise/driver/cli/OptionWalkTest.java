@@ -102,6 +102,7 @@ class OptionWalkTest extends StoreFixture {
         BASELINES.put("report", List.of(base("edges result", "--result", "@RESULT")));
         BASELINES.put("compare", List.of(base("edges result", "--result", "@RESULT", "--truth", "@TRUTH")));
         BASELINES.put("simulate", List.of(base("truth", "--network", "@TRUTH", "--rows", "5")));
+        BASELINES.put("export", List.of(base("best of a sample", "--store", "@STORE", "--sample", "@SAMPLE")));
     }
 
     /**
@@ -172,6 +173,8 @@ class OptionWalkTest extends StoreFixture {
         value("--sample", "@SAMPLE", "@SAMPLE2");
         value("--dags", "300");
         value("sample --out", "@OUTDIR");
+        value("--structure", "consensus");
+        value("export --format", "json");
     }
 
     /**

@@ -23,6 +23,13 @@ record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<Scori
         return new Inputs(store, order, saved, options);
     }
 
+    /** The inputs of a request that answers from the saved sample {@code sample} alone (its scoring, no order). */
+    static Inputs ofSample(Scoring scoring, java.nio.file.Path sample) {
+        ScoreStore store = scoring.read();
+        SampleFile.Loaded saved = SampleFile.read(sample, store.manifest(), scoring.store());
+        return new Inputs(store, null, saved, List.of(saved.info().scoring().options(scoring.names())));
+    }
+
     /** The local scores under the first scoring options (the only ones where no sweep applies). */
     LocalScores scores() {
         return LocalScores.build(store, options.get(0));
