@@ -52,7 +52,9 @@ public final class EffectCommand implements Callable<Integer> {
             description = "(DAG, parameter) draws for the effect's credible interval and histogram (default ${DEFAULT-VALUE})") int effectDraws;
 
     @Option(names = "--max-hidden-states", paramLabel = "N", defaultValue = "1000000",
-            description = "refuse when the hidden ancestors of the target need more joint states than this (default ${DEFAULT-VALUE})") long maxHiddenStates;
+            description = "the closed-form sum over an order's DAGs enumerates at most this many joint states of hidden "
+                    + "ancestors (beyond it, DAGs are drawn from the same posterior and each answered exactly: sampled); one DAG's "
+                    + "elimination builds no table larger than this, else it is refused (default ${DEFAULT-VALUE})") long maxHiddenStates;
 
     @Option(names = "--measure", paramLabel = "risk-difference|risk-ratio|odds-ratio",
             description = "the measure the text leads with when --versus is given (default risk-difference; odds-ratio under --design case-control without --prevalence)") String measure;
