@@ -89,11 +89,25 @@ public final class DagInference {
         }
         int[] order = new int[hidden.size()];
         double largest = 1;
+        int[] stamp = new int[n];
+        int tag = 0;
         for (int step = 0; step < order.length; step++) {
             int best = -1;
             double bestSize = Double.POSITIVE_INFINITY;
             for (int x : hidden) {
-                double size = size(union(scopes, x), arity);
+                // Π r over the union of the scopes that hold x, each variable counted once (stamped)
+                tag++;
+                double size = 1;
+                for (int[] sc : scopes) {
+                    if (Arrays.binarySearch(sc, x) >= 0) {
+                        for (int v : sc) {
+                            if (stamp[v] != tag) {
+                                stamp[v] = tag;
+                                size *= arity[v];
+                            }
+                        }
+                    }
+                }
                 if (size < bestSize) {
                     bestSize = size;
                     best = x;
@@ -268,20 +282,28 @@ public final class DagInference {
 
     /** The union of the scopes that hold x, ascending. */
     private static int[] union(List<int[]> scopes, int x) {
-        java.util.TreeSet<Integer> u = new java.util.TreeSet<>();
+        int total = 0;
         for (int[] s : scopes) {
             if (Arrays.binarySearch(s, x) >= 0) {
-                for (int v : s) {
-                    u.add(v);
-                }
+                total += s.length;
             }
         }
-        int[] out = new int[u.size()];
-        int i = 0;
-        for (int v : u) {
-            out[i++] = v;
+        int[] all = new int[total];
+        int k = 0;
+        for (int[] s : scopes) {
+            if (Arrays.binarySearch(s, x) >= 0) {
+                System.arraycopy(s, 0, all, k, s.length);
+                k += s.length;
+            }
         }
-        return out;
+        Arrays.sort(all);
+        int m = 0;
+        for (int i = 0; i < all.length; i++) {
+            if (m == 0 || all[i] != all[m - 1]) {
+                all[m++] = all[i];
+            }
+        }
+        return Arrays.copyOf(all, m);
     }
 
     private static int[] without(int[] s, int x) {
