@@ -251,7 +251,7 @@ public final class ExportAnalysis {
     }
 
     /** The store's counts of (child, parents), or a refusal naming the family it does not hold. */
-    private static FamilyCounts family(ScoreStore store, int child, int[] parents) {
+    static FamilyCounts family(ScoreStore store, int child, int[] parents) {
         for (int f = store.firstFamilyOf(child); f < store.endFamilyOf(child); f++) {
             int[] pa = store.family(f).parents().clone();
             Arrays.sort(pa);
@@ -264,8 +264,8 @@ public final class ExportAnalysis {
             pn.add(store.variables().get(p).name());
         }
         throw new UserError("the table of " + store.variables().get(child).name() + " given {" + String.join(", ", pn)
-                + "} needs the counts of that family, which the store does not hold (it counts parent sets of at most "
-                + store.manifest().maxParents() + " parents among each variable's candidates); tally with a larger "
+                + "} needs the counts of that family, which the store does not hold (it counts parent sets of size at most "
+                + store.manifest().maxParents() + ", among each variable's candidates); tally with a larger "
                 + "maximum parent-set size, or export the highest-posterior DAG");
     }
 }
