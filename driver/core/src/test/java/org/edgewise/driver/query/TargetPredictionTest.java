@@ -159,7 +159,7 @@ class TargetPredictionTest {
         assertEquals(f + ": line 1: no column 'nope' (columns: v0, v1)",
                 assertThrows(UserError.class, () -> read("v0,v1\ns0,s1\n", null, "nope")).getMessage());
         assertEquals("the truth column v0 is the variable v0, not the target v1; name the column that holds the true states of v1",
-                assertThrows(UserError.class, () -> read("v0,truth\ns0,s1\n", null, "v0")).getMessage());
+                assertThrows(UserError.class, () -> read("v0,v1\ns0,s1\n", null, "v0")).getMessage());
         assertEquals(f + ": line 3, column 1: v0=s1 contradicts given v0=s0",
                 assertThrows(UserError.class, () -> read("v0,v1\ns0,s1\ns1,s0\n", new int[] {0, H, H, H}, null)).getMessage());
         assertEquals("given observes the target v1; a prediction of it cannot be conditioned on it",
