@@ -247,7 +247,8 @@ final class TargetAnalysis {
         } else {
             TargetPredictions.Scores sc = t.scores();
             out.add(String.format(Locale.ROOT, "held-out scores over %d rows with a truth (from column %s)%s:", t.scoredRows(),
-                    t.truthColumn(), t.unscoredRows() == 0 ? "" : "; " + t.unscoredRows() + " rows without one were predicted, not scored"));
+                    t.truthColumn(), t.unscoredRows() == 0 ? "" : "; " + t.unscoredRows() + (t.unscoredRows() == 1 ? " row without one was"
+                            : " rows without one were") + " predicted, not scored"));
             out.add(String.format(Locale.ROOT, "  log loss %.4f (mean -ln P(truth))   Brier score %.4f (sum over states, 0 to 2)   "
                     + "AUC %s (%s)", sc.logLoss(), sc.brier(), sc.auc() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", sc.auc()),
                     sc.aucOf()));
