@@ -187,6 +187,35 @@ class ScoringCasesTest extends StoreFixture {
         assertEquals(0.95, wide.get("interval").get("level").asDouble(), 0.0);
     }
 
+    /** The report draws one reliability diagram per calibration table, one dot per non-empty bin, at (mean predicted, observed). */
+    @Test
+    void reportDrawsTheCalibrationCurve() throws Exception {
+        Path result = dir.resolve("scored.json");
+        CliRun r = predict("--order", ORDER, "--format", "json", "--out", result.toString());
+        assertEquals(0, r.status(), r.err());
+        Path html = dir.resolve("scored.html");
+        CliRun rep = CliRun.of("report", "--result", result.toString(), "--out", html.toString());
+        assertEquals(0, rep.status(), rep.err());
+        String page = Files.readString(html);
+        JsonNode cal = JSON.readTree(result.toFile()).get("scores").get("calibration");
+        assertEquals(1, cal.size());
+        assertEquals(1, page.split("<svg ", -1).length - 1, "one diagram: two states, the second state's table");
+        int dots = 0;
+        for (JsonNode b : cal.get(0).get("bins")) {
+            if (b.get("count").asInt() > 0) {
+                dots++;
+                // the dot's centre: x0 + mean·SIDE, y0 − observed·SIDE (46 + p·300, 312 − o·300)
+                String cx = org.edgewise.driver.report.Html.c(46 + b.get("meanPredicted").asDouble() * 300);
+                String cy = org.edgewise.driver.report.Html.c(312 - b.get("observedFrequency").asDouble() * 300);
+                assertTrue(page.contains("<circle cx=\"" + cx + "\" cy=\"" + cy + "\""), cx + "," + cy);
+            }
+        }
+        assertEquals(dots, page.split("<circle ", -1).length - 1);
+        assertTrue(page.contains("Brier score") && page.contains("log loss") && page.contains("AUC"));
+        assertEquals("report: --threshold does not apply with a target-prediction result: a target-prediction result has no edges "
+                + "to draw a consensus graph from", CliRun.of("report", "--result", result.toString(), "--threshold", "0.3").errLine());
+    }
+
     @Test
     void refusals() throws Exception {
         String s = store.toString();
