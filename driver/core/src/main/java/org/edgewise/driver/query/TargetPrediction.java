@@ -40,8 +40,14 @@ public final class TargetPrediction {
         try {
             IntStream.range(0, rows).parallel().forEach(i -> {
                 try {
-                    p[i] = row(model, cases.target(), cases.evidence()[i], states, where[i]);
-                    if (e != null) {
+                    if (model instanceof DagMixture dm) { // one pass per state gives both
+                        double[][] pe = dm.conditionalOverStates(cases.target(), states, cases.evidence()[i]);
+                        p[i] = pe[0];
+                        e[i] = pe[1];
+                    } else {
+                        p[i] = row(model, cases.target(), cases.evidence()[i], states, where[i]);
+                    }
+                    if (e != null && e[i] == null) {
                         e[i] = new double[states];
                         for (int k = 0; k < states; k++) {
                             e[i][k] = model.mcse(single(cases.target(), k, cases.evidence()[i].length), cases.evidence()[i]);

@@ -133,6 +133,38 @@ class TargetPredictionTest {
         assertArrayEquals(p[0], p[2], 0.0);
     }
 
+    /**
+     * Over a list of DAGs (a saved sample's path): the one-pass conditional equals the brute-force
+     * mixture (1/K) Σ_g P(x | G_g) of the enumerated joint per DAG, and each state's value and MCSE
+     * equal the general conditional and MCSE of {@link DagMixture} (two computations of one formula).
+     */
+    @Test
+    void overAListOfDagsEqualsTheMixtureOfTheirJoints() throws Exception {
+        List<BruteForce.Dag> all = BruteForce.dags(vars, rows, ORDER, 2, false, 1.0, BruteForce.Prior.UNIFORM, null, null);
+        int[][][] dags = {all.get(0).parents(), all.get(all.size() / 2).parents(), all.get(all.size() - 1).parents(),
+                all.get(all.size() - 1).parents()};
+        DagMixture mix = new DagMixture(store, FamilyScore.of(ScoreKind.parse("bdeu"), 1.0), dags, null, 0, 1 << 20,
+                InputNames.API, "test");
+        double[] joint = new double[36];
+        for (int c = 0; c < joint.length; c++) {
+            for (int[][] g : dags) {
+                joint[c] += Math.exp(BruteForce.logPredictive(vars, rows, g, false, 1.0, decode(c))) / dags.length;
+            }
+        }
+        TargetCases tc = read("v3,v1,v0\ns2,s0,s1\n,s1,s0\n,,\n", null, null);
+        TargetPrediction.Result r = TargetPrediction.run(mix, tc, 3, where(3), ProgressListener.NONE);
+        int[][] evidence = {{1, H, H, 2}, {0, H, H, H}, {H, H, H, H}};
+        for (int i = 0; i < evidence.length; i++) {
+            assertArrayEquals(bruteConditional(joint, evidence[i]), r.probability()[i], 1e-9, "row " + (i + 1));
+            for (int k = 0; k < 3; k++) {
+                int[] t = TargetPrediction.single(TARGET, k, 4);
+                assertEquals(Math.exp(mix.logConditional(t, evidence[i])), r.probability()[i][k], 1e-12);
+                assertEquals(mix.mcse(t, evidence[i]), r.mcse()[i][k], 1e-12);
+            }
+        }
+        assertTrue(r.mcse()[0][0] > 0, "different DAGs disagree: a positive Monte Carlo error");
+    }
+
     @Test
     void givenIsAddedToEveryRow() throws Exception {
         int[] given = {H, H, 1, H};
