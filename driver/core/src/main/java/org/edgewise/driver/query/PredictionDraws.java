@@ -71,7 +71,8 @@ public final class PredictionDraws {
             arity[v] = store.arity(v);
         }
         Map<String, Integer>[] familyOf = familyIndex(store);
-        SplittableRandom rng = new SplittableRandom(seed);
+        // a stream of its own: the caller may have drawn the DAGs with the same seed
+        SplittableRandom rng = new SplittableRandom(seed * 0x9E3779B97F4A7C15L + 0x632BE59BD9B4E019L);
         int[] unit = assign(dags.length, weights, draws, rng);
         boolean[] seen = new boolean[n];
         for (int[] e : cases.evidence()) {
