@@ -55,7 +55,8 @@ public final class CalibrationSection {
                     .append("</td><td>mean \u2212ln P(true state); lower is better</td></tr>\n<tr><th>Brier score</th><td class=\"num\">")
                     .append(f(s.brier(), 4)).append("</td><td>mean over rows of \u03a3 over states of (p \u2212 o)\u00b2 (Brier 1950; 0 to 2)")
                     .append("</td></tr>\n<tr><th>AUC</th><td class=\"num\">").append(s.auc() == null ? "undefined" : f(s.auc(), 4))
-                    .append("</td><td>").append(esc(s.aucOf())).append("; 0.5 is chance, 1 a perfect ranking</td></tr>\n</table>\n");
+                    .append("</td><td>").append(esc(s.aucOf())).append("; 0.5 is chance, 1 a perfect ranking")
+                    .append(perState(r)).append("</td></tr>\n</table>\n");
             h.append("<h2>Calibration</h2>\n<p class=\"cap\">Rows are binned by their predicted probability of the state; a bin's dot sits ")
                     .append("at its mean prediction (across) and the share of its rows that had the state (up). Dots on the dashed diagonal ")
                     .append("are well calibrated; below it the model is over-confident in the state, above it under-confident. Dot areas ")
@@ -68,6 +69,19 @@ public final class CalibrationSection {
         }
         h.append("<p class=\"cap\">").append(esc(r.note())).append("</p>\n</body>\n</html>\n");
         return h.toString();
+    }
+
+    /** The one-vs-rest AUC of every state, when there are more than two. */
+    private static String perState(TargetPredictions r) {
+        List<Double> a = r.scores().aucPerState();
+        if (a == null || r.states().size() <= 2) {
+            return "";
+        }
+        List<String> parts = new java.util.ArrayList<>();
+        for (int k = 0; k < a.size(); k++) {
+            parts.add(esc(r.states().get(k)) + " " + (a.get(k) == null ? "undefined" : f(a.get(k), 3)));
+        }
+        return " (per state: " + String.join(", ", parts) + ")";
     }
 
     private static void table(StringBuilder h, TargetPredictions.Calibration cal) {
