@@ -38,5 +38,8 @@ class ResultKindsTest extends StoreFixture {
         check("prediction", 2, "predict", "--store", s, "--order", ORDER, "--case", "v0=s1", "--format", "json");
         check("effect", 1, "effect", "--store", s, "--order", ORDER, "--do", "v0=s1", "--target", "v2=s0", "--format", "json");
         check("scores", 1, "scores", "--store", s);
+        java.nio.file.Path cases = java.nio.file.Files.writeString(dir.resolve("cases.csv"), "v0,v2\ns0,s1\n");
+        check("target-prediction", 1, "predict", "--store", s, "--order", ORDER, "--cases", cases.toString(), "--target", "v2",
+                "--format", "json");
     }
 }

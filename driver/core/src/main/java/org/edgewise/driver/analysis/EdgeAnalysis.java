@@ -126,7 +126,8 @@ public final class EdgeAnalysis {
     static EdgeResult.SampleRef sampleRef(SavedSample ss) {
         SampleFile.Info i = ss.saved().info();
         return new EdgeResult.SampleRef(ss.saved().path().toString(), i.method(), i.sampler(), i.chains(), i.dagsPerChain(),
-                i.seed(), i.diagnostics() == null ? null : i.diagnostics().converged());
+                i.seed(), i.diagnostics() == null ? null : i.diagnostics().converged(), SampleFile.fingerprint(ss.saved().path()),
+                i.store().fingerprint());
     }
 
     /**

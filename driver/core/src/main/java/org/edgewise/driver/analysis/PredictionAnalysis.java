@@ -22,6 +22,8 @@ import org.edgewise.driver.query.CasePredictor;
 import org.edgewise.driver.query.CaseProbability;
 import org.edgewise.driver.query.CaseTable;
 import org.edgewise.driver.query.StructureCasePrediction;
+import org.edgewise.driver.query.TargetCases;
+import org.edgewise.driver.result.TargetPredictions;
 import org.edgewise.driver.query.ExactCasePrediction;
 import org.edgewise.driver.result.Prediction;
 import org.edgewise.driver.result.EdgeResult;
@@ -48,7 +50,22 @@ public final class PredictionAnalysis {
      * @param exactCases      complete cases exactly as Z(D + case) / Z(D) (exact sum over orders only)
      */
     public record Request(Scoring scoring, Averaging averaging, String caseText, Path casesFile, String givenText,
-                          double tailMass, long maxHiddenStates, boolean exactCases) {
+                          double tailMass, long maxHiddenStates, boolean exactCases, Target target) {
+        public Request(Scoring scoring, Averaging averaging, String caseText, Path casesFile, String givenText,
+                       double tailMass, long maxHiddenStates, boolean exactCases) {
+            this(scoring, averaging, caseText, casesFile, givenText, tailMass, maxHiddenStates, exactCases, null);
+        }
+    }
+
+    /**
+     * Scoring a table of cases for one target ({@link TargetAnalysis}).
+     *
+     * @param variable      the target variable's name
+     * @param truthColumn   the column holding the true states, or null: the target's own column when present
+     * @param intervalLevel the probability of a central interval over (network, parameters) draws, or null for none
+     * @param intervalDraws the number of those draws
+     */
+    public record Target(String variable, String truthColumn, Double intervalLevel, int intervalDraws) {
     }
 
     /**
@@ -58,8 +75,11 @@ public final class PredictionAnalysis {
      * @param lines       one case: the lines for people; a table: a note on what the mcse column means, or empty
      * @param csv         a table: the input's lines with the probabilities appended; null for one case
      * @param diagnostics the chains' diagnostics when sampled by chains, else null
+     * @param scored      a table scored for a target: its JSON result (then {@code csv} is its per-row CSV and
+     *                    {@code lines} its readable table); else null
      */
-    public record Answer(Prediction prediction, List<String> lines, String csv, EdgeResult.Diagnostics diagnostics) {
+    public record Answer(Prediction prediction, List<String> lines, String csv, EdgeResult.Diagnostics diagnostics,
+                         TargetPredictions scored) {
     }
 
     private PredictionAnalysis() {
@@ -73,7 +93,19 @@ public final class PredictionAnalysis {
         int[] ord = inputs.order();
         int[] given = r.givenText() == null ? null : CaseParser.parse(m, r.givenText(), in.given());
         int[] single = r.caseText() == null ? null : CaseParser.parse(m, r.caseText(), in.oneCase());
-        CaseTable table = r.casesFile() == null ? null : CaseTable.read(r.casesFile(), m, in.cases());
+        PredictionAnalysis.Target target = r.target();
+        if (target != null && r.casesFile() == null) {
+            throw new IllegalArgumentException("a target needs a table of cases");
+        }
+        if (target != null && r.exactCases()) {
+            throw new UserError(in.exactCases() + " computes the joint probability of complete cases; a prediction of "
+                    + in.target() + " conditions on the rest of each row");
+        }
+        int y = target == null ? -1 : CaseParser.variable(m, target.variable(), in.target());
+        CaseTable table = r.casesFile() == null ? null : CaseTable.read(r.casesFile(), m, in.cases(),
+                target == null ? null : target.truthColumn(), target != null);
+        TargetCases scoredCases = target == null ? null
+                : TargetCases.of(table, m, y, given, r.casesFile(), target.truthColumn(), in);
         if (single != null && given != null) {
             for (int v = 0; v < single.length; v++) {
                 if (single[v] != CaseParser.HIDDEN && given[v] != CaseParser.HIDDEN && single[v] != given[v]) {
@@ -96,10 +128,15 @@ public final class PredictionAnalysis {
                     "averaged over orders (" + EXACT_CASES_OVER + "; order-modular DAG prior) and their networks:", cases.bestLabel(), true);
         }
         CaseProbability avg = cases.averaged();
+        EdgeResult.Diagnostics diagnostics0 = p.chains() != null ? ChainReport.diagnostics(p.chains(), settings)
+                : p instanceof SavedSample ss ? ChainReport.fromSample(ss, ss.edges()) : null;
+        if (scoredCases != null) {
+            return TargetAnalysis.run(new TargetAnalysis.Scope(m, ls, p, cases, scoredCases, given, r.casesFile(), target,
+                    r.averaging().seed(), r.maxHiddenStates(), diagnostics0), table, progress);
+        }
         CaseProbability best = cases.best() != null ? cases.best()
                 : CasePredictor.bestNetwork(OrderPosterior.of(ls, cases.bestOrder())).withMaxHiddenStates(r.maxHiddenStates());
-        EdgeResult.Diagnostics diagnostics = p.chains() != null ? ChainReport.diagnostics(p.chains(), settings)
-                : p instanceof SavedSample ss ? ChainReport.fromSample(ss, ss.edges()) : null;
+        EdgeResult.Diagnostics diagnostics = diagnostics0;
         if (avg instanceof StructureCasePrediction sp && single != null) {
             sp.plan(single, given); // the exact sums over all DAGs are planned before the evidence is checked
         }
@@ -145,7 +182,8 @@ public final class PredictionAnalysis {
                     Math.exp(b), b, hidden, states, p.order() == null ? null : VariableOrder.names(m, p.order()),
                     ls.familyScore().kind().label(), ResultBuilder.settings(ls).ess(), ls.options().prior().label(),
                     m.maxParents(), exact != null ? 0.0 : avg.skippedMass(), NOTE, l.method(), cases.averagedOver(),
-                    cases.samples(), mcse, l.dagPriorLabel(null), cases.exactRatio() ? Boolean.TRUE : null);
+                    cases.samples(), mcse, l.dagPriorLabel(null), cases.exactRatio() ? Boolean.TRUE : null,
+                    p instanceof SavedSample ss ? EdgeAnalysis.sampleRef(ss) : null);
             String what = "P(" + CaseParser.format(m, target) + (given == null ? "" : " | " + CaseParser.format(m, given)) + ")";
             List<String> lines = new ArrayList<>();
             lines.add(String.format(Locale.ROOT, "%s %s %.6g (log %.6f)%s", what, cases.averagedLabel(), pr.probability(), a,
@@ -155,7 +193,7 @@ public final class PredictionAnalysis {
                 lines.add(String.format(Locale.ROOT, "hidden variables summed out: %s (%.0f joint states)", String.join(", ", hidden), states));
             }
             lines.add(NOTE);
-            return new Answer(pr, lines, null, diagnostics);
+            return new Answer(pr, lines, null, diagnostics, null);
         }
 
         Answer batch(CaseTable table, int[] given, Path file, ProgressListener progress) {
@@ -197,7 +235,7 @@ public final class PredictionAnalysis {
             }
             List<String> lines = sampled == null ? List.of() : List.of(cases.over() + " (" + p.labels().dagPriorLabel(null)
                     + " DAG prior); the mcse column is the Monte Carlo standard error of each probability");
-            return new Answer(null, lines, sb.toString(), diagnostics);
+            return new Answer(null, lines, sb.toString(), diagnostics, null);
         }
     }
 

@@ -309,4 +309,27 @@ public final class SampleFile {
     static String manifestText(Info info) throws IOException {
         return new String(JSON.writeValueAsBytes(info), StandardCharsets.UTF_8);
     }
+
+    /**
+     * The SHA-256 (hex) of the sample's manifest followed by its DAG part: what a result quotes to name
+     * exactly the sample it was answered from.
+     */
+    public static String fingerprint(Path dir) {
+        try {
+            java.security.MessageDigest md = java.security.MessageDigest.getInstance("SHA-256");
+            for (String part : List.of(MANIFEST, DAGS)) {
+                try (InputStream is = Files.newInputStream(dir.resolve(part))) {
+                    byte[] buf = new byte[1 << 16];
+                    for (int r; (r = is.read(buf)) > 0; ) {
+                        md.update(buf, 0, r);
+                    }
+                }
+            }
+            return java.util.HexFormat.of().formatHex(md.digest());
+        } catch (IOException e) {
+            throw new UserError("sample " + dir + ": cannot read it again: " + AtomicWrite.reason(e));
+        } catch (java.security.NoSuchAlgorithmException e) {
+            throw new IllegalStateException(e);
+        }
+    }
 }

@@ -127,11 +127,13 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     /**
      * The saved posterior sample a result was answered from: its directory, how it was drawn
      * ({@code method} order, exact or mcmc; {@code sampler} for people), its chains and DAGs per
-     * chain, its seed, and — drawn by MCMC — the sampler's verdict ({@code converged}; null otherwise).
+     * chain, its seed, and — drawn by MCMC — the sampler's verdict ({@code converged}; null otherwise);
+     * {@code fingerprint}: the SHA-256 of its files (manifest, then DAGs), which changes with any byte of them;
+     * {@code storeFingerprint}: the data fingerprint of the store it was drawn from.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record SampleRef(String path, String method, String sampler, int chains, int dagsPerChain, long seed,
-                            Boolean converged) {
+                            Boolean converged, String fingerprint, String storeFingerprint) {
     }
 
     public record ParentSet(List<String> parents, double posterior) {

@@ -31,6 +31,7 @@ import java.util.Map;
  * @param dagPrior                    over unknown orders, the DAG prior the structures are weighted under;
  *                                    null given an order (both priors coincide)
  * @param exactCase                   true when computed as Z(D ∪ x) / Z(D) ({@code --exact-cases}), else null
+ * @param sample                      the saved posterior sample it was answered from (path, fingerprint), else null
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") Map<String, String> caseStates,
@@ -39,7 +40,7 @@ public record Prediction(@com.fasterxml.jackson.annotation.JsonProperty("case") 
                          List<String> hiddenSummedOut, double hiddenJointStates, List<String> order,
                          String score, Double ess, String prior, int maxParents, double skippedPosteriorMass,
                          String note, String method, String averagedOver, Integer samples, Double mcse, String dagPrior,
-                         Boolean exactCase) implements JsonResult {
+                         Boolean exactCase, EdgeResult.SampleRef sample) implements JsonResult {
     /** The format version written: 2 since {@code averagedOver} and {@code samples} replaced {@code orders} and {@code orderSamples}. */
     public static final int FORMAT_VERSION = 2;
 

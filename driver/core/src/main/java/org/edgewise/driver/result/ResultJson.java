@@ -178,6 +178,62 @@ public final class ResultJson {
         }
     }
 
+    /** The {@code kind} a result file declares, or null when it declares none or is not a JSON object (the full read names the problem). */
+    public static String kind(Path file) {
+        if (!Files.isRegularFile(file)) {
+            return null;
+        }
+        try (com.fasterxml.jackson.core.JsonParser p = MAPPER.getFactory().createParser(file.toFile())) {
+            if (p.nextToken() != com.fasterxml.jackson.core.JsonToken.START_OBJECT) {
+                return null;
+            }
+            while (p.nextToken() == com.fasterxml.jackson.core.JsonToken.FIELD_NAME) {
+                String name = p.currentName();
+                com.fasterxml.jackson.core.JsonToken t = p.nextToken();
+                if ("kind".equals(name)) {
+                    return t == com.fasterxml.jackson.core.JsonToken.VALUE_STRING ? p.getText() : null;
+                }
+                p.skipChildren();
+            }
+            return null;
+        } catch (IOException | RuntimeException e) {
+            return null;
+        }
+    }
+
+    /** Reads a {@link TargetPredictions} result, refusing another kind or format version, naming the file. */
+    public static TargetPredictions readTargetPredictions(Path file) {
+        if (!Files.isRegularFile(file)) {
+            throw new UserError("result file " + file + " does not exist");
+        }
+        org.edgewise.driver.JsonInput.checkSize(file, "result file " + file);
+        try {
+            JsonNode tree = MAPPER.readTree(file.toFile());
+            JsonNode kind = tree == null ? null : tree.get("kind");
+            if (kind == null || !kind.asText().equals(TargetPredictions.KIND)) {
+                throw new UserError("result file " + file + " is not a " + TargetPredictions.KIND + " result");
+            }
+            JsonNode version = tree.get("formatVersion");
+            if (version == null || !version.canConvertToInt() || version.asInt() != TargetPredictions.FORMAT_VERSION) {
+                throw new UserError("result file " + file + " has " + (version == null ? "no format version"
+                        : "format version " + version) + "; this Edgewise reads " + TargetPredictions.KIND + " results of format version "
+                        + TargetPredictions.FORMAT_VERSION + "; re-run the prediction that wrote it with this Edgewise");
+            }
+            TargetPredictions r = MAPPER.treeToValue(tree, TargetPredictions.class);
+            if (r.target() == null || r.states() == null) {
+                throw new UserError("result file " + file + " is not a " + TargetPredictions.KIND + " result (no target or states)");
+            }
+            return r;
+        } catch (com.fasterxml.jackson.databind.exc.MismatchedInputException e) {
+            throw new UserError("result file " + file + " is JSON but not a " + TargetPredictions.KIND + " result: " + fieldPath(e)
+                    + " has the wrong type" + org.edgewise.driver.JsonInput.at(e.getLocation()));
+        } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+            throw new UserError("result file " + file + " " + org.edgewise.driver.JsonInput.problem(e));
+        } catch (IOException e) {
+            throw new UserError("cannot read result file " + file + ": " + e.getMessage());
+        }
+    }
+
     /** The JSON path of the field a mapping failed at, e.g. {@code edges[0].posterior}. */
     static String fieldPath(com.fasterxml.jackson.databind.JsonMappingException e) {
         StringBuilder sb = new StringBuilder();
