@@ -117,12 +117,64 @@ public final class EffectSection {
                 .append("</td></tr>\n");
     }
 
+    /**
+     * One sentence (HTML) for the report's summary: what setting the variable does to the outcome, in
+     * the measure the result leads with, its interval, and the probability of no effect.
+     */
+    static String headline(EffectResult r) {
+        String x = esc(text(r.intervention()));
+        String y = "P(" + esc(text(r.target())) + (r.given() == null ? "" : " | " + esc(text(r.given()))) + ")";
+        int level = (int) Math.round(100 * r.interval().level());
+        StringBuilder sb = new StringBuilder();
+        if (r.versus() == null) {
+            sb.append("setting ").append(x).append(" makes ").append(y).append(' ').append(num(r.probability()));
+            return sb.append(" (").append(level).append("% credible interval [").append(f(r.interval().lower(), 3)).append(", ")
+                    .append(f(r.interval().upper(), 3)).append("]); probability that it has no effect at all ")
+                    .append(f(r.noPathProbability(), 2)).append('.').toString();
+        }
+        String lead = r.leadingMeasure() == null ? "riskDifference" : r.leadingMeasure();
+        EffectResult.Measure m = switch (lead) {
+            case "riskRatio" -> r.riskRatio();
+            case "oddsRatio" -> r.oddsRatio();
+            default -> r.riskDifference();
+        };
+        if (m == null) {
+            m = r.oddsRatio();
+            lead = "oddsRatio";
+        }
+        sb.append("setting ").append(x).append(" rather than ").append(esc(text(r.versus().intervention()))).append(' ');
+        if (m == null) {
+            sb.append("changes ").append(y).append(" by ").append(num(r.difference()));
+        } else {
+            String word = switch (lead) {
+                case "riskRatio" -> "multiplies " + y + " by ";
+                case "oddsRatio" -> "multiplies the odds of " + y.substring(2, y.length() - 1) + " by ";
+                default -> "changes " + y + " by ";
+            };
+            sb.append(word).append("<b>").append(lead.equals("riskDifference") ? signed(m.estimate()) : f(m.estimate(), 3)).append("</b> (")
+                    .append(level).append("% credible interval [").append(f(m.interval().lower(), 3)).append(", ")
+                    .append(f(m.interval().upper(), 3)).append("]").append(m.interval().of().contains("with an effect") ? " over the " + esc(m.interval().of()) : "")
+                    .append(')');
+        }
+        sb.append("; probability that it has no effect at all ").append(f(r.noPathProbability(), 2)).append('.');
+        if (r.observed() != null && r.observed().probability() != null && r.observed().versusProbability() != null) {
+            sb.append(" In the raw data: ").append(f(r.observed().probability(), 3)).append(" vs ")
+                    .append(f(r.observed().versusProbability(), 3)).append('.');
+        }
+        return sb.toString();
+    }
+
+    private static String signed(double v) {
+        return (v > 0 ? "+" : "") + f(v, 3);
+    }
+
     private static String num(Double x) {
         return x == null ? "not estimable" : f(x, 4);
     }
 
     private static String mcse(String estimate, double mcse) {
-        return "exact".equals(estimate) ? " (exact)" : " (sampled, MCSE " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + ")";
+        return "exact".equals(estimate) ? " (exact)"
+                : " (\u00b1 " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + " from sampling)";
     }
 
     /** Bars of equal-width bins from binLow to binHigh, a zero line when zero is inside, and the axis ends. */
