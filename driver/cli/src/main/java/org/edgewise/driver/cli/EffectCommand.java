@@ -211,21 +211,29 @@ public final class EffectCommand implements Callable<Integer> {
                 w.println("  (" + r.measures() + ")");
             }
             if (r.observational().probability() != null) {
-                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n", y,
-                        text(r.intervention()), r.observational().probability(), y, text(r.versus().intervention()),
-                        r.observational().versusProbability());
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n",
+                        text(r.target()), condition(r, r.intervention()), r.observational().probability(), text(r.target()),
+                        condition(r, r.versus().intervention()), r.observational().versusProbability());
             }
         } else {
             w.printf(Locale.ROOT, "%.0f%% credible interval [%.4f, %.4f]%n", 100 * r.interval().level(), r.interval().lower(),
                     r.interval().upper());
             if (r.observational().probability() != null) {
-                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f%n", y,
-                        text(r.intervention()), r.observational().probability());
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f%n", text(r.target()),
+                        condition(r, r.intervention()), r.observational().probability());
             }
         }
-        w.println(observedText(r, y));
+        w.println(observedText(r));
         w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
                 String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+        if (r.split() != null) {
+            w.println("why conditioning and setting differ: " + r.split().words());
+        }
+    }
+
+    /** The condition of a conditional: the variable's value, then the evidence given (one bar in P(y | …)). */
+    private static String condition(EffectResult r, Map<String, String> x) {
+        return text(x) + (r.given() == null ? "" : "," + text(r.given()));
     }
 
     static String measureText(String name, EffectResult.Measure x) {
@@ -238,16 +246,17 @@ public final class EffectCommand implements Callable<Integer> {
         return name + " " + num(x.estimate()) + (x.estimateOf().equals("model") ? "" : " (" + x.estimateOf() + ")") + ", " + iv;
     }
 
-    private static String observedText(EffectResult r, String y) {
+    private static String observedText(EffectResult r) {
+        String y = text(r.target());
         EffectResult.Observed o = r.observed();
         if (o.probability() == null && o.events() == null) {
             return "raw frequencies: " + o.label();
         }
         StringBuilder s = new StringBuilder("raw frequencies from the counts (family " + o.family() + "): ");
-        s.append(String.format(Locale.ROOT, "P(%s | %s) = %d/%d = %s", y, text(r.intervention()), o.events(), o.rows(),
+        s.append(String.format(Locale.ROOT, "P(%s | %s) = %d/%d = %s", y, condition(r, r.intervention()), o.events(), o.rows(),
                 o.probability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.probability())));
         if (o.versusRows() != null) {
-            s.append(String.format(Locale.ROOT, ", P(%s | %s) = %d/%d = %s", y, text(r.versus().intervention()), o.versusEvents(),
+            s.append(String.format(Locale.ROOT, ", P(%s | %s) = %d/%d = %s", y, condition(r, r.versus().intervention()), o.versusEvents(),
                     o.versusRows(), o.versusProbability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.versusProbability())));
         }
         if (o.oddsRatio() != null) {
@@ -266,7 +275,9 @@ public final class EffectCommand implements Callable<Integer> {
     }
 
     private static String num(double x) {
-        return String.format(Locale.ROOT, Math.abs(x) >= 100 ? "%.1f" : "%.4f", x);
+        // a value that rounds to zero prints as 0.0000, never "-0.0000"
+        double v = Math.abs(x) < 5e-5 ? 0.0 : x;
+        return String.format(Locale.ROOT, Math.abs(v) >= 100 ? "%.1f" : "%.4f", v);
     }
 
     private static String text(Map<String, String> m) {

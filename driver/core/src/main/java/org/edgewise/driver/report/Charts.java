@@ -128,7 +128,6 @@ public final class Charts {
     public static String graph(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> drawn, ConsensusLayout lay,
                                boolean[][] truth) {
         int n = m.size();
-        double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
         StringBuilder s = Frame.of(lay.width(), lay.height()).open("graph", 12);
         // the figure shrinks to the page's width rather than run off it
@@ -194,8 +193,8 @@ public final class Charts {
             double y = lay.y(v);
             s.append("<g><title>").append(esc(name)).append(lay.free() ? "" : " (position " + (pos[v] + 1) + " in the order)")
                     .append("</title>")
-                    .append("<rect x=\"").append(c(x - boxW / 2)).append("\" y=\"").append(c(y - boxH / 2))
-                    .append("\" width=\"").append(c(boxW)).append("\" height=\"").append(c(boxH))
+                    .append("<rect x=\"").append(c(x - lay.boxW(v) / 2)).append("\" y=\"").append(c(y - boxH / 2))
+                    .append("\" width=\"").append(c(lay.boxW(v))).append("\" height=\"").append(c(boxH))
                     .append("\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
                     .append("<text x=\"").append(c(x)).append("\" y=\"").append(c(y + 4))
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
@@ -219,10 +218,10 @@ public final class Charts {
     }
 
     /** Where the segment from the centre of a box at (x, y) towards (tx, ty) leaves the box (plus a gap of 2). */
-    private static double[] border(double x, double y, double tx, double ty) {
+    private static double[] border(double x, double y, double w, double tx, double ty) {
         double dx = tx - x;
         double dy = ty - y;
-        double hw = ConsensusLayout.BOX_W / 2 + 2;
+        double hw = w / 2 + 2;
         double hh = ConsensusLayout.BOX_H / 2 + 2;
         double t = Math.min(dx == 0 ? Double.POSITIVE_INFINITY : hw / Math.abs(dx), dy == 0 ? Double.POSITIVE_INFINITY : hh / Math.abs(dy));
         return new double[] {x + dx * Math.min(1, t), y + dy * Math.min(1, t)};
@@ -242,8 +241,8 @@ public final class Charts {
         String anchor = "start";
         double[][] pts = lay.free() ? null : lay.route(a, b);
         if (lay.free()) { // straight, from box border to box border, the label off its middle
-            double[] p = border(lay.x(a), lay.y(a), lay.x(b), lay.y(b));
-            double[] q = border(lay.x(b), lay.y(b), lay.x(a), lay.y(a));
+            double[] p = border(lay.x(a), lay.y(a), lay.boxW(a), lay.x(b), lay.y(b));
+            double[] q = border(lay.x(b), lay.y(b), lay.boxW(b), lay.x(a), lay.y(a));
             d.append('M').append(c(p[0])).append(',').append(c(p[1])).append(" L").append(c(q[0])).append(',').append(c(q[1]));
             double dx = q[0] - p[0];
             double dy = q[1] - p[1];

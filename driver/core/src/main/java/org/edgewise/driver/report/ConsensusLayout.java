@@ -45,6 +45,8 @@ public final class ConsensusLayout {
     private final int n;
     /** Free layout (components placed by forces): edges are straight, nothing is layered. */
     private boolean free;
+    /** Each variable's box width. */
+    private double[] boxW;
     /** Free layout: where the row of variables joined to no other starts (NaN: none). */
     private double aloneY = Double.NaN;
     /** Layered by tiers: each layer's name (null otherwise). */
@@ -237,14 +239,19 @@ public final class ConsensusLayout {
     /**
      * Every connected component of {@code drawn} (either direction) laid out on its own by the
      * force-directed placement of Fruchterman &amp; Reingold (1991, Software — Practice and Experience
-     * 21(11)): pairs repel with k²/d, joined pairs attract with d²/k, the moves cooled linearly over
-     * {@value #FORCE_STEPS} steps from a circle in the component's order; computed with x halved, so
-     * that the wide boxes space out like square ones, then overlapping boxes pushed apart.
+     * 21(11)): pairs repel with k²/d, joined pairs attract with d²/k, every variable is pulled towards
+     * the centre in proportion to its distance (so long chains fold), the moves cooled linearly over
+     * {@value #FORCE_STEPS} steps from a circle in the component's order; computed with x divided by the
+     * boxes' aspect, so that wide boxes space out like square ones, then overlapping boxes pushed apart.
      * Components are packed into rows, the largest first; variables joined to no other go in a last
      * row. Deterministic (no random start). Time O(k² · steps) per component of k variables.
      */
     static ConsensusLayout free(EdgeMatrix m, boolean[][] drawn) {
         int n = m.size();
+        double[] bw = new double[n];
+        for (int v = 0; v < n; v++) {
+            bw[v] = fitted(m.variables().get(v).length());
+        }
         int[] comp = new int[n];
         Arrays.fill(comp, -1);
         List<List<Integer>> comps = new ArrayList<>();
@@ -283,18 +290,19 @@ public final class ConsensusLayout {
         double rowH = 0;
         double right = 0;
         for (List<Integer> c : comps) {
-            double[][] p = forces(c, drawn);
+            double[][] p = forces(c, drawn, bw);
             double minX = Double.POSITIVE_INFINITY;
             double minY = Double.POSITIVE_INFINITY;
             double maxX = Double.NEGATIVE_INFINITY;
             double maxY = Double.NEGATIVE_INFINITY;
-            for (double[] q : p) {
-                minX = Math.min(minX, q[0]);
-                maxX = Math.max(maxX, q[0]);
+            for (int i = 0; i < c.size(); i++) {
+                double[] q = p[i];
+                minX = Math.min(minX, q[0] - bw[c.get(i)] / 2);
+                maxX = Math.max(maxX, q[0] + bw[c.get(i)] / 2);
                 minY = Math.min(minY, q[1]);
                 maxY = Math.max(maxY, q[1]);
             }
-            double w = maxX - minX + BOX_W + 40;
+            double w = maxX - minX + 40;
             double h = maxY - minY + BOX_H + 40;
             if (rowX > MARGIN && rowX + w > ROW_WIDTH) {
                 rowX = MARGIN;
@@ -303,7 +311,7 @@ public final class ConsensusLayout {
             }
             for (int i = 0; i < c.size(); i++) {
                 int v = c.get(i);
-                x[v] = rowX + 20 + BOX_W / 2 + p[i][0] - minX;
+                x[v] = rowX + 20 + p[i][0] - minX;
                 y[v] = rowY + 20 + BOX_H / 2 + p[i][1] - minY;
                 order.add(v);
             }
@@ -329,18 +337,27 @@ public final class ConsensusLayout {
                 Math.max(420, right + MARGIN), bottom + MARGIN);
         lay.free = true;
         lay.aloneY = aloneY;
+        lay.boxW = bw;
         return lay;
     }
 
     static final int FORCE_STEPS = 400;
     /** The ideal distance between joined variables, in the halved-x space. */
-    static final double FORCE_K = 100;
+    static final double FORCE_K = 95;
+    /** Pull towards the component's centre per unit of distance (added to Fruchterman &amp; Reingold's forces). */
+    static final double GRAVITY = 0.6;
 
     /** Positions (real coordinates, any origin) of the variables of one component; see {@link #free}. */
-    private static double[][] forces(List<Integer> c, boolean[][] drawn) {
+    private static double[][] forces(List<Integer> c, boolean[][] drawn, double[] bw) {
         int k = c.size();
+        double meanW = 0;
+        for (int v : c) {
+            meanW += bw[v] / k;
+        }
+        // forces act where the boxes look square: x divided by how much wider than tall a box is
+        double xScale = Math.max(1, meanW / 75);
         double[][] p = new double[k][2];
-        double radius = Math.max(FORCE_K, k * FORCE_K / (2 * Math.PI));
+        double radius = FORCE_K * Math.sqrt(k) / 2;
         for (int i = 0; i < k; i++) {
             p[i][0] = radius * Math.cos(2 * Math.PI * i / k);
             p[i][1] = radius * Math.sin(2 * Math.PI * i / k);
@@ -371,7 +388,16 @@ public final class ConsensusLayout {
                     move[j][1] -= dy / d * f;
                 }
             }
+            double cx = 0;
+            double cy = 0;
+            for (double[] q : p) {
+                cx += q[0] / k;
+                cy += q[1] / k;
+            }
             for (int i = 0; i < k; i++) {
+                // gravity towards the centre keeps a long chain folded into a compact block
+                move[i][0] -= GRAVITY * (p[i][0] - cx);
+                move[i][1] -= GRAVITY * (p[i][1] - cy);
                 double d = Math.hypot(move[i][0], move[i][1]);
                 if (d > 0) {
                     double s = Math.min(d, temp) / d;
@@ -381,15 +407,15 @@ public final class ConsensusLayout {
             }
         }
         for (double[] q : p) {
-            q[0] *= 2;
+            q[0] *= xScale;
         }
         // overlapping boxes pushed apart along the axis of the smaller overlap
-        double gapX = BOX_W + 20;
         double gapY = BOX_H + 26;
         for (int pass = 0; pass < 200; pass++) {
             boolean moved = false;
             for (int i = 0; i < k; i++) {
                 for (int j = i + 1; j < k; j++) {
+                    double gapX = (bw[c.get(i)] + bw[c.get(j)]) / 2 + 24;
                     double dx = p[j][0] - p[i][0];
                     double dy = p[j][1] - p[i][1];
                     double ox = gapX - Math.abs(dx);
@@ -500,6 +526,16 @@ public final class ConsensusLayout {
     /** The points a downward edge a → b passes (box bottom, virtual slots, box top), or null if it is not downward. */
     public double[][] route(int a, int b) {
         return routes.get((long) a * n + b);
+    }
+
+    /** The width of variable v's box: fitted to its name in a free layout, {@link #BOX_W} in a layered one. */
+    public double boxW(int v) {
+        return boxW == null ? BOX_W : boxW[v];
+    }
+
+    /** A box that fits a name of {@code len} characters (drawn at most 20) at 12 px sans-serif: about 7 px a character. */
+    static double fitted(int len) {
+        return Math.max(60, 7.2 * Math.min(len, 20) + 22);
     }
 
     /** Whether the layout is free (components placed by forces, straight edges) rather than layered. */
