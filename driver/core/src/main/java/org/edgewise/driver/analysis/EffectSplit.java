@@ -81,6 +81,10 @@ final class EffectSplit {
                         List<String> backDoor) {
         String through = backDoor.isEmpty() ? "back-door paths (no single parent of the set variable stands out)"
                 : "the back-door variable" + (backDoor.size() == 1 ? " " : "s ") + String.join(", ", backDoor);
+        association = tidy(association);
+        setting = tidy(setting);
+        direction = tidy(direction);
+        confounding = tidy(confounding);
         String head = String.format(Locale.ROOT, "conditioning shows a difference of %+.4f, setting %+.4f", association, setting);
         String parts = String.format(Locale.ROOT, " (of the gap, %+.4f from the networks in which the set variable cannot affect "
                 + "the outcome, probability %.4f; %+.4f from confounding in the networks in which it can, probability %.4f)",
@@ -92,6 +96,11 @@ final class EffectSplit {
             case "confounding" -> head + ": the gap comes mostly from confounding through " + through + parts;
             default -> head + ": the gap comes from both an unknown direction and confounding through " + through + parts;
         };
+    }
+
+    /** A figure that prints as zero at four decimals made exactly zero (no "-0.0000"). */
+    private static double tidy(double v) {
+        return Math.abs(v) < 5e-5 ? 0 : v;
     }
 
     /**

@@ -343,9 +343,9 @@ public final class ConsensusLayout {
 
     static final int FORCE_STEPS = 400;
     /** The ideal distance between joined variables, in the halved-x space. */
-    static final double FORCE_K = 95;
+    static final double FORCE_K = 110;
     /** Pull towards the component's centre per unit of distance (added to Fruchterman &amp; Reingold's forces). */
-    static final double GRAVITY = 0.6;
+    static final double GRAVITY = 0.35;
 
     /** Positions (real coordinates, any origin) of the variables of one component; see {@link #free}. */
     private static double[][] forces(List<Integer> c, boolean[][] drawn, double[] bw) {
@@ -415,7 +415,8 @@ public final class ConsensusLayout {
             boolean moved = false;
             for (int i = 0; i < k; i++) {
                 for (int j = i + 1; j < k; j++) {
-                    double gapX = (bw[c.get(i)] + bw[c.get(j)]) / 2 + 24;
+                    // joined boxes keep room between them for the edge's label
+                    double gapX = (bw[c.get(i)] + bw[c.get(j)]) / 2 + (joined[i][j] ? 64 : 24);
                     double dx = p[j][0] - p[i][0];
                     double dy = p[j][1] - p[i][1];
                     double ox = gapX - Math.abs(dx);

@@ -91,7 +91,7 @@ public final class EffectSection {
         h.append("<p>Probability of no effect (no directed path from the set variables to the outcome): <b>")
                 .append(f(r.noPathProbability(), 4)).append("</b>").append(mcse(r.noPathEstimate(), r.noPathMcse()))
                 .append(". ").append(Math.round(100 * r.interval().level())).append("% credible interval ")
-                .append(r.interval().of().endsWith("draws") || r.interval().of().endsWith("effect") ? "over the " : "of the ")
+                .append(r.interval().of().equals("all draws") ? "over " : r.interval().of().endsWith("effect") ? "over the " : "of the ")
                 .append(esc(r.interval().of())).append(": [").append(f(r.interval().lower(), 4)).append(", ")
                 .append(f(r.interval().upper(), 4)).append("].</p>\n");
         if (r.split() != null) {
