@@ -166,8 +166,8 @@ public final class EffectCommand implements Callable<Integer> {
     private static void table(PrintWriter w, EffectResult r) {
         String y = text(r.target()) + (r.given() == null ? "" : " | " + text(r.given()));
         String sep = r.given() == null ? " | " : ", ";
-        String how = String.format(Locale.ROOT, "%s%s; method %s, %s", r.estimate(),
-                r.estimate().equals("exact") || r.probability() == null ? "" : String.format(Locale.ROOT, ", MCSE %.2g", r.mcse()),
+        String how = String.format(Locale.ROOT, "%s; method %s, %s", r.estimate().equals("exact") ? "exact"
+                        : "from networks drawn from the posterior" + (r.probability() == null ? "" : ", Monte Carlo error " + error(r.mcse())),
                 r.method(), r.dagPrior() == null ? "given order" : r.dagPrior() + " DAG prior");
         if (r.probability() != null) {
             w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (model; %s)%n", y, sep, text(r.intervention()), r.probability(), how);
@@ -224,11 +224,24 @@ public final class EffectCommand implements Callable<Integer> {
             }
         }
         w.println(observedText(r));
-        w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
-                String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+        if (r.given() == null) {
+            w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
+                    String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+        } else {
+            // a path into the evidence counts too, so "no effect" would overstate what a path means here
+            w.printf(Locale.ROOT, "probability of no directed path from %s to the outcome or to the evidence %s (then the effect "
+                    + "is exactly zero): %.4f (%s); with a path, the effect within the evidence can still be near zero%n",
+                    String.join(",", r.intervention().keySet()), text(r.given()), r.noPathProbability(),
+                    r.noPathEstimate().equals("exact") ? "exact" : "from drawn networks, Monte Carlo error " + error(r.noPathMcse()));
+        }
         if (r.split() != null) {
             w.println("why conditioning and setting differ: " + r.split().words());
         }
+    }
+
+    /** A Monte Carlo standard error in words: below 0.0001 when it is, else two significant digits. */
+    private static String error(double mcse) {
+        return mcse < 1e-4 ? "below 0.0001" : String.format(Locale.ROOT, "%.2g", mcse);
     }
 
     /** The condition of a conditional: the variable's value, then the evidence given (one bar in P(y | …)). */

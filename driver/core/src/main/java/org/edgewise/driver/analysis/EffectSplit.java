@@ -90,7 +90,7 @@ final class EffectSplit {
                 + "the outcome, probability %.4f; %+.4f from confounding in the networks in which it can, probability %.4f)",
                 direction, noPath, confounding, 1 - noPath);
         return switch (cause) {
-            case "none" -> head + ": they agree, so the association is the effect" + parts;
+            case "none" -> head + ": they agree, so the association is the effect";
             case "unknown direction" -> head + ": the gap comes mostly from an unknown direction \u2014 in most networks that "
                     + "fit, the set variable cannot affect the outcome, so their association is not an effect" + parts;
             case "confounding" -> head + ": the gap comes mostly from confounding through " + through + parts;

@@ -28,7 +28,7 @@ import org.junit.jupiter.api.Test;
  * parameters, so it meets the hand figure within its credible interval, not to the digit. Also: the
  * split over "no directed path" / "a path" sums to 1 and its parts add up to the association.
  */
-class PublicTablesTest {
+public class PublicTablesTest {
     static final EffectEngine.Settings ENGINE = new EffectEngine.Settings(1000, 17L, 1_000_000L);
 
     /**
@@ -41,6 +41,11 @@ class PublicTablesTest {
         {{138, 279}, {131, 244}}, {{53, 138}, {94, 299}}, {{22, 351}, {24, 317}}};
 
     static LocalScores ucb() {
+        return LocalScores.build(ucbStore(), ScoringOptions.asStored());
+    }
+
+    /** The UCBAdmissions table as a store (d = 2, BDeu ESS 1): Gender, Dept, Admit, one row per applicant. */
+    public static ScoreStore ucbStore() {
         List<Variable> vars = List.of(new Variable("Gender", List.of("Male", "Female")),
                 new Variable("Dept", List.of("A", "B", "C", "D", "E", "F")),
                 new Variable("Admit", List.of("Admitted", "Rejected")));
@@ -52,8 +57,7 @@ class PublicTablesTest {
                 }
             }
         }
-        ScoreStore s = InMemoryTally.tally(vars, rows.toArray(int[][]::new), 2, FamilyScore.withDefaults());
-        return LocalScores.build(s, ScoringOptions.asStored());
+        return InMemoryTally.tally(vars, rows.toArray(int[][]::new), 2, FamilyScore.withDefaults());
     }
 
     /**
