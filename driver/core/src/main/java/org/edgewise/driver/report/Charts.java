@@ -148,6 +148,11 @@ public final class Charts {
         StringBuilder body = new StringBuilder();
         StringBuilder labels = new StringBuilder();
         int markers = 0;
+        // what a label must not cover: every box, then every label placed before it
+        List<double[]> taken = new java.util.ArrayList<>();
+        for (int v = 0; v < n; v++) {
+            taken.add(new double[] {lay.x(v) - lay.boxW(v) / 2, lay.y(v) - boxH / 2, lay.x(v) + lay.boxW(v) / 2, lay.y(v) + boxH / 2});
+        }
         for (ConsensusEdges.Drawn d : drawn) {
             int a = d.from();
             int b = d.to();
@@ -161,14 +166,14 @@ public final class Charts {
             String marker = arrow ? marker(defs, markers++, width, INK) : null;
             String label = Html.prob(d.p()) + (d.byTiers() ? " fixed by the tiers" : "")
                     + (mark.glyph.isEmpty() ? "" : " " + mark.glyph);
-            path(body, labels, lay, a, b, INK, width, mark.dash, marker, title, label);
+            path(body, labels, taken, lay, a, b, INK, width, mark.dash, marker, title, label);
         }
         if (truth != null) {
             for (int a = 0; a < n; a++) {
                 for (int b = 0; b < n; b++) {
                     if (truth[a][b] && !pairDrawn[a][b]) {
                         String marker = marker(defs, markers++, 1.2, MISSED_INK);
-                        path(body, labels, lay, a, b, MISSED_INK, 1.2, EdgeMark.MISSED.dash, marker, m.variables().get(a) + " \u2192 "
+                        path(body, labels, taken, lay, a, b, MISSED_INK, 1.2, EdgeMark.MISSED.dash, marker, m.variables().get(a) + " \u2192 "
                                 + m.variables().get(b) + ": edge of the known network, not drawn (P(adjacent) "
                                 + Html.f(ce.pair(a, b).adjacent(), 3) + ")", EdgeMark.MISSED.glyph);
                     }
@@ -231,8 +236,8 @@ public final class Charts {
      * One edge's path (with the arrowhead {@code marker} when it is non-null) and its label, set beside
      * the path rather than on it: perpendicular to a straight edge, to the right of a vertical one.
      */
-    private static void path(StringBuilder s, StringBuilder labels, ConsensusLayout lay, int a, int b, String col, double width,
-                             String dash, String marker, String title, String label) {
+    private static void path(StringBuilder s, StringBuilder labels, List<double[]> taken, ConsensusLayout lay, int a, int b,
+                             String col, double width, String dash, String marker, String title, String label) {
         double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
         StringBuilder d = new StringBuilder();
@@ -254,9 +259,28 @@ public final class Charts {
                 ny = -ny;
             }
             double off = width / 2 + 5;
-            lx = (p[0] + q[0]) / 2 + nx * off;
-            ly = (p[1] + q[1]) / 2 + ny * off - 2;
-            anchor = Math.abs(nx) < 0.35 ? "middle" : nx > 0 ? "start" : "end";
+            // the side above the line first, then below; no room on either side (a crowded knot): no
+            // label, the edge's tooltip still gives every posterior
+            lx = Double.NaN;
+            ly = Double.NaN;
+            double tw = label == null ? 0 : 6.3 * label.length();
+            for (int side = 1; side >= -1 && label != null; side -= 2) {
+                double cx = (p[0] + q[0]) / 2 + side * nx * off;
+                double cy = (p[1] + q[1]) / 2 + side * ny * off - 2;
+                String an = Math.abs(nx) < 0.35 ? "middle" : side * nx > 0 ? "start" : "end";
+                double x0 = an.equals("start") ? cx : an.equals("end") ? cx - tw : cx - tw / 2;
+                double[] box = {x0, cy - 7, x0 + tw, cy + 7};
+                if (taken.stream().noneMatch(t -> t[0] < box[2] && box[0] < t[2] && t[1] < box[3] && box[1] < t[3])) {
+                    taken.add(box);
+                    lx = cx;
+                    ly = cy;
+                    anchor = an;
+                    break;
+                }
+            }
+            if (Double.isNaN(lx)) {
+                label = null;
+            }
         } else if (pts != null) { // downward: vertical S-curves through the virtual slots
             d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
             for (int i = 0; i + 1 < pts.length; i++) {

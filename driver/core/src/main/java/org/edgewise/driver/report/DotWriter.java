@@ -52,7 +52,9 @@ public final class DotWriter {
                         + "(run " + hint.text() + ").")
                 .append("\n// DAG prior: ").append(ce.givenOrder() ? "given order (both DAG priors coincide)"
                         : r.dagPrior() == null ? "not recorded" : r.dagPrior())
-                .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n");
+                .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n")
+                .append(truth == null ? "" : "// Against the known network (glyph after the posterior, line style): \u2713 solid in it, "
+                        + "\u21c4 solid the other way round, \u2717 dotted not in it.\n");
         sb.append("digraph consensus {\n  node [shape=box, style=rounded];\n");
         for (String v : m.variables()) {
             sb.append("  ").append(id(v)).append(";\n");
