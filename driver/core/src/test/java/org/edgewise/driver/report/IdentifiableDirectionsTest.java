@@ -149,6 +149,39 @@ class IdentifiableDirectionsTest {
         assertEquals(4, p.size());
     }
 
+    /**
+     * Tiers carried into the report (issue 21): with season in a tier before the rest, the pair
+     * season – ambient_heat, reversible as far as the data tell (a line without tiers), can only run
+     * season → ambient_heat: an arrow labelled as fixed by the tiers, counted in the summary, and the
+     * tiers named in the summary and the provenance. Pairs inside one tier stay as the data leave them.
+     */
+    @Test
+    void directionsFixedByTheTiersAreArrowsSaidToBe() throws Exception {
+        EdgeResult base = ReportFixtures.demoChain("structure-modular");
+        List<List<String>> tiers = List.of(List.of("season"),
+                List.of("ambient_heat", "compressor_wear", "compressor_age", "sensor_fault"));
+        EdgeResult.Settings s = base.settings();
+        EdgeResult r = new EdgeResult(base.method(), base.variables(), base.logEvidence(), base.logEvidenceNormalized(),
+                base.evidenceConvention(), base.order(), new EdgeResult.Settings(s.score(), s.ess(), s.prior(), s.maxParents(),
+                s.forbid(), s.require(), tiers), base.store(), base.edges(), base.parentSets(), base.bestNetwork(), base.diagnostics(),
+                base.features(), base.sensitivity(), base.dagPrior(), base.essentialGraph());
+        String html = HtmlReport.render(r, "demo.json", null, null, 0.5);
+        List<String> p = paths(html);
+        assertEquals(3, count(p, "arrow:"), p.toString());
+        assertEquals(1, count(p, "line:"), p.toString());
+        assertTrue(p.stream().anyMatch(x -> x.startsWith("arrow:season \u2013 ambient_heat:") && x.endsWith("(direction fixed by the tiers)")),
+                p.toString());
+        assertTrue(html.contains(">0.99 fixed by the tiers</text>"), html);
+        assertTrue(html.contains("<th>consensus graph (threshold 0.50)</th><td>3 arrows (1 fixed by the tiers), 1 line</td>"), html);
+        assertTrue(html.contains("<p><b>Tiers you gave</b> (no arrow may point to an earlier tier): season \u2192 ambient_heat, "
+                + "compressor_wear, compressor_age, sensor_fault</p>"), html);
+        assertTrue(html.contains("<th>tiers</th><td>season ; ambient_heat, compressor_wear, compressor_age, sensor_fault</td>"), html);
+        assertTrue(html.contains("the tiers you gave fix 1 more"), html);
+        assertTrue(html.contains("One row per tier, the first tier at the top."), html);
+        String dot = DotWriter.write(r, 0.5, null);
+        assertTrue(dot.contains("\"season\" -> \"ambient_heat\" [label=\"0.99 fixed by the tiers\", penwidth=5.97, tooltip="), dot);
+    }
+
     static String line(String dot, String start) {
         return dot.lines().filter(l -> l.startsWith("  " + start + " [")).findFirst().orElseThrow(() -> new AssertionError(start + " in " + dot));
     }
