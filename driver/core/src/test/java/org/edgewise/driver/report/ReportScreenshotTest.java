@@ -60,7 +60,7 @@ class ReportScreenshotTest {
     }
 
     static UnknownOrderSettings settings(UnknownOrderSettings.Method m, List<List<String>> tiers, Long steps, boolean essential) {
-        return new UnknownOrderSettings(m, tiers, 5L, 4, steps, null, 200, null, null, 600.0, false, false, 300, 3,
+        return new UnknownOrderSettings(m, tiers, 5L, 2, steps, null, 200, null, null, 600.0, false, false, 300, 3,
                 DagPrior.STRUCTURE_MODULAR, essential);
     }
 
@@ -100,7 +100,7 @@ class ReportScreenshotTest {
             return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "random-42.json", 0.5);
         }
         ScoreStore store = tally(net, 2000, 12);
-        UnknownOrderSettings s = settings(UnknownOrderSettings.Method.MCMC, null, 4000L, false);
+        UnknownOrderSettings s = settings(UnknownOrderSettings.Method.MCMC, null, 2000L, false);
         EdgeResult r = EdgeAnalysis.run(store, Path.of("store"), List.of(ScoringOptions.asStored()), null, s, 3,
                 ProgressListener.NONE, x -> { });
         ResultJson.write(edges, true, r);
