@@ -168,8 +168,8 @@ public final class EffectCommand implements Callable<Integer> {
     private static void table(PrintWriter w, EffectResult r) {
         String y = text(r.target()) + (r.given() == null ? "" : " | " + text(r.given()));
         String sep = r.given() == null ? " | " : ", ";
-        String how = String.format(Locale.ROOT, "%s%s; method %s, %s", r.estimate(),
-                r.estimate().equals("exact") || r.probability() == null ? "" : String.format(Locale.ROOT, ", MCSE %.2g", r.mcse()),
+        String how = String.format(Locale.ROOT, "%s; method %s, %s", r.estimate().equals("exact") ? "exact"
+                        : "from networks drawn from the posterior" + (r.probability() == null ? "" : ", Monte Carlo error " + error(r.mcse())),
                 r.method(), r.dagPrior() == null ? "given order" : r.dagPrior() + " DAG prior");
         if (r.probability() != null) {
             w.printf(Locale.ROOT, "P(%s%sdo(%s)) = %.4f  (model; %s)%n", y, sep, text(r.intervention()), r.probability(), how);
@@ -213,21 +213,42 @@ public final class EffectCommand implements Callable<Integer> {
                 w.println("  (" + r.measures() + ")");
             }
             if (r.observational().probability() != null) {
-                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n", y,
-                        text(r.intervention()), r.observational().probability(), y, text(r.versus().intervention()),
-                        r.observational().versusProbability());
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n",
+                        text(r.target()), condition(r, r.intervention()), r.observational().probability(), text(r.target()),
+                        condition(r, r.versus().intervention()), r.observational().versusProbability());
             }
         } else {
             w.printf(Locale.ROOT, "%.0f%% credible interval [%.4f, %.4f]%n", 100 * r.interval().level(), r.interval().lower(),
                     r.interval().upper());
             if (r.observational().probability() != null) {
-                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f%n", y,
-                        text(r.intervention()), r.observational().probability());
+                w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f%n", text(r.target()),
+                        condition(r, r.intervention()), r.observational().probability());
             }
         }
-        w.println(observedText(r, y));
-        w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
-                String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+        w.println(observedText(r));
+        if (r.given() == null) {
+            w.printf(Locale.ROOT, "probability of no effect (no directed path from %s to the outcome): %.4f (%s)%n",
+                    String.join(",", r.intervention().keySet()), r.noPathProbability(), r.noPathEstimate());
+        } else {
+            // a path into the evidence counts too, so "no effect" would overstate what a path means here
+            w.printf(Locale.ROOT, "probability of no directed path from %s to the outcome or to the evidence %s (then the effect "
+                    + "is exactly zero): %.4f (%s); with a path, the effect within the evidence can still be near zero%n",
+                    String.join(",", r.intervention().keySet()), text(r.given()), r.noPathProbability(),
+                    r.noPathEstimate().equals("exact") ? "exact" : "from drawn networks, Monte Carlo error " + error(r.noPathMcse()));
+        }
+        if (r.split() != null) {
+            w.println("why conditioning and setting differ: " + r.split().words());
+        }
+    }
+
+    /** A Monte Carlo standard error in words: below 0.0001 when it is, else two significant digits. */
+    private static String error(double mcse) {
+        return mcse < 1e-4 ? "below 0.0001" : String.format(Locale.ROOT, "%.2g", mcse);
+    }
+
+    /** The condition of a conditional: the variable's value, then the evidence given (one bar in P(y | …)). */
+    private static String condition(EffectResult r, Map<String, String> x) {
+        return text(x) + (r.given() == null ? "" : "," + text(r.given()));
     }
 
     static String measureText(String name, EffectResult.Measure x) {
@@ -240,16 +261,17 @@ public final class EffectCommand implements Callable<Integer> {
         return name + " " + num(x.estimate()) + (x.estimateOf().equals("model") ? "" : " (" + x.estimateOf() + ")") + ", " + iv;
     }
 
-    private static String observedText(EffectResult r, String y) {
+    private static String observedText(EffectResult r) {
+        String y = text(r.target());
         EffectResult.Observed o = r.observed();
         if (o.probability() == null && o.events() == null) {
             return "raw frequencies: " + o.label();
         }
         StringBuilder s = new StringBuilder("raw frequencies from the counts (family " + o.family() + "): ");
-        s.append(String.format(Locale.ROOT, "P(%s | %s) = %d/%d = %s", y, text(r.intervention()), o.events(), o.rows(),
+        s.append(String.format(Locale.ROOT, "P(%s | %s) = %d/%d = %s", y, condition(r, r.intervention()), o.events(), o.rows(),
                 o.probability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.probability())));
         if (o.versusRows() != null) {
-            s.append(String.format(Locale.ROOT, ", P(%s | %s) = %d/%d = %s", y, text(r.versus().intervention()), o.versusEvents(),
+            s.append(String.format(Locale.ROOT, ", P(%s | %s) = %d/%d = %s", y, condition(r, r.versus().intervention()), o.versusEvents(),
                     o.versusRows(), o.versusProbability() == null ? "undefined" : String.format(Locale.ROOT, "%.4f", o.versusProbability())));
         }
         if (o.oddsRatio() != null) {
@@ -268,7 +290,9 @@ public final class EffectCommand implements Callable<Integer> {
     }
 
     private static String num(double x) {
-        return String.format(Locale.ROOT, Math.abs(x) >= 100 ? "%.1f" : "%.4f", x);
+        // a value that rounds to zero prints as 0.0000, never "-0.0000"
+        double v = Math.abs(x) < 5e-5 ? 0.0 : x;
+        return String.format(Locale.ROOT, Math.abs(v) >= 100 ? "%.1f" : "%.4f", v);
     }
 
     private static String text(Map<String, String> m) {

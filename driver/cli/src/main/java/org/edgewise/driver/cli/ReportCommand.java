@@ -87,10 +87,8 @@ final class ReportCommand implements Callable<Integer> {
             EdgeMatrix m = EdgeMatrix.of(r);
             text = DotWriter.write(r, threshold, net == null ? null : EdgeRecovery.truthMatrix(m, net, truth.toString()), CliNames.ASSESS);
         } else {
-            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold, CliNames.ASSESS, CliNames.RUN);
-            if (effect != null) {
-                text = EffectSection.insertInto(text, EffectResult.read(effect));
-            }
+            text = HtmlReport.render(r, name, net, truth == null ? null : truth.getFileName().toString(), threshold, CliNames.ASSESS, CliNames.RUN,
+                    effect == null ? null : EffectResult.read(effect));
         }
         output.write(spec, text);
         if (output.out != null) {

@@ -127,8 +127,12 @@ public final class EffectAnalysis {
         StructurePosterior.Labels l = p.labels();
         List<EffectResult> out = new ArrayList<>();
         for (int i = 0; i < qs.size(); i++) {
-            out.add(result(m, ls, qs.get(i), effects.get(i), l.method(), l.dagPriorLabel(null), src.over(), r.order(),
-                    src.converged(), src.maxRhat(), sd, oddsFactor[i], r.measure(), r.engine().draws()));
+            EffectResult one = result(m, ls, qs.get(i), effects.get(i), l.method(), l.dagPriorLabel(null), src.over(), r.order(),
+                    src.converged(), src.maxRhat(), sd, oddsFactor[i], r.measure(), r.engine().draws());
+            EffectResult.Split split = EffectSplit.of(m, qs.get(i).set(), qs.get(i).target(), one.noPathProbability(),
+                    one.observational().difference(), one.difference(),
+                    one.observational().difference() == null ? null : EffectSplit.parents(ls, src, qs.get(i).set()));
+            out.add(one.withSplit(split));
         }
         return out;
     }
@@ -244,7 +248,7 @@ public final class EffectAnalysis {
                 interval, posterior, model, rd, rr, or, lead, measures, observed(ls, q, sd, k),
                 sd == null ? null : design(ls, sd, q, k),
                 method, dagPrior, over, order == null ? null : VariableOrder.names(m, order), ResultBuilder.settings(ls),
-                converged, maxRhat, assumptions, NOTE);
+                converged, maxRhat, assumptions, NOTE, null);
     }
 
     private static EffectResult.Measure measure(EffectMeasures.Measure x) {

@@ -20,7 +20,7 @@ final class Cautions {
 
     static void write(StringBuilder h, EdgeResult r, ConsensusEdges ce, AssessHint hint) {
         EdgeResult.Settings s = r.settings();
-        h.append("<div class=\"caution\">\n<h2>Read this first</h2>\n<ul>\n")
+        h.append("<details>\n<summary>Assumptions behind every figure, and what the technical terms mean</summary>\n<ul>\n")
                 .append("<li><b>An edge posterior is evidence of statistical dependence, not proof of causation.</b> "
                         + "It holds only under the stated assumptions: the discretisation of the variables, the structure prior")
                 .append(s != null ? " (" + esc(s.prior()) + ")" : "")
@@ -31,9 +31,8 @@ final class Cautions {
                 .append("<li>").append(dagPrior(r)).append("</li>\n")
                 .append("<li>").append(directions(ce, hint)).append("</li>\n")
                 .append("<li>The posteriors can change with the ESS and the prior; see the sensitivity section when present.</li>\n")
-                .append(fragile(r))
                 .append("<li><b>Results can inform decisions about health or safety only together with domain experts and "
-                        + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</div>\n");
+                        + "local practice.</b> Do not act on them alone.</li>\n</ul>\n</details>\n");
     }
 
     /**
@@ -108,11 +107,12 @@ final class Cautions {
                     + "label give the posterior.";
         }
         if (ce.assessed()) {
-            return "Arrows: pairs whose compelled direction has posterior above " + t + " (label: P(compelled)). Lines: pairs "
-                    + "adjacent with posterior above " + t + " whose direction is mostly reversible (label: P(adjacent)). Line "
-                    + "width grows with the label.";
+            return "Arrows: pairs whose direction the data fix (compelled) with posterior above " + t + " (label: that posterior), "
+                    + "and pairs joined across two tiers (labelled as fixed by the tiers). Lines: pairs joined with posterior above "
+                    + t + " whose direction could go either way (label: P(joined)). Line width grows with the label.";
         }
-        return "Lines: pairs adjacent with posterior P(a \u2192 b) + P(b \u2192 a) above " + t + " (label; line width grows with "
-                + "it). Directions <b>not assessed</b>: run " + hint.html() + " to see which are identifiable.";
+        return "Lines: pairs joined with posterior P(a \u2192 b) + P(b \u2192 a) above " + t + " (label; line width grows with "
+                + "it); arrows only where the tiers fix the direction. Directions <b>not assessed</b>: run " + hint.html()
+                + " to see which are identifiable.";
     }
 }

@@ -85,7 +85,7 @@ public final class Charts {
                 if (truth != null && truth[a][b]) {
                     s.append("<rect x=\"").append(c(x + 2)).append("\" y=\"").append(c(y + 2)).append("\" width=\"")
                             .append(c(cell - 4)).append("\" height=\"").append(c(cell - 4))
-                            .append("\" fill=\"none\" stroke=\"").append(EdgeColour.TRUE.hex).append("\" stroke-width=\"2.5\"/>\n");
+                            .append("\" fill=\"none\" stroke=\"#000000\" stroke-width=\"2\" stroke-dasharray=\"3,2\"/>\n");
                 }
                 if (values && p >= 0.005) {
                     s.append("<text x=\"").append(c(x + cell / 2)).append("\" y=\"").append(c(y + cell / 2 + 4))
@@ -108,32 +108,33 @@ public final class Charts {
         s.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(top - 16)).append("\">posterior</text>\n");
         s.append("<text x=\"").append(c(left)).append("\" y=\"").append(c(top + n * cell + 24))
                 .append("\" fill=\"#444444\">row = from (parent), column = to (child)")
-                .append(truth != null ? "; green outline = edge of the known network" : "").append("</text>\n");
+                .append(truth != null ? "; dashed black outline = edge of the known network" : "").append("</text>\n");
         return s.append("</svg>").toString();
     }
 
+    /** The ink of every edge and label of the consensus graph (the known network is told by patterns and glyphs). */
+    static final String INK = "#2c3e50";
+    /** The ink of a known edge the figure does not support. */
+    static final String MISSED_INK = "#7a7a7a";
+
     /**
      * The consensus graph: the pairs {@link ConsensusEdges#drawn} gives — arrows (compelled
-     * directions, or the given order's) and undirected lines (adjacent, direction reversible or
-     * not assessed) — stroke width 1 + 5p and a label p, laid out by {@link ConsensusLayout}.
-     * With {@code truth}: arrows green when correct, orange when reversed, red when extra; lines
-     * green when the known network joins the pair either way, red otherwise; known edges of pairs
-     * not drawn dashed grey.
+     * directions, directions fixed by the tiers, or the given order's) and undirected lines
+     * (adjacent, direction reversible or not assessed) — stroke width 1 + 5p, an arrowhead that
+     * grows with the stroke, and a label p set beside the line, laid out by {@link ConsensusLayout}.
+     * With {@code truth}, each drawn edge carries an {@link EdgeMark} (line pattern and glyph) and the
+     * known edges of pairs not drawn are thin long dashes.
      */
     public static String graph(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> drawn, ConsensusLayout lay,
                                boolean[][] truth) {
         int n = m.size();
-        double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
         StringBuilder s = Frame.of(lay.width(), lay.height()).open("graph", 12);
+        // the figure shrinks to the page's width rather than run off it
+        int at = s.indexOf("role=\"img\"");
+        s.insert(at, "style=\"max-width:100%;height:auto\" ");
         s.append("<title>Consensus graph</title>\n<defs>");
-        for (EdgeColour ec : EdgeColour.values()) {
-            String col = ec.hex;
-            s.append("<marker id=\"arrow-").append(col.substring(1)).append("\" viewBox=\"0 0 10 10\" refX=\"10\" refY=\"5\" ")
-                    .append("markerUnits=\"userSpaceOnUse\" markerWidth=\"11\" markerHeight=\"11\" orient=\"auto\">")
-                    .append("<path d=\"M0,0 L10,5 L0,10 z\" fill=\"").append(col).append("\"/></marker>");
-        }
-        s.append("</defs>\n");
+        StringBuilder defs = s;
         int[] order = lay.order();
         int[] pos = new int[n];
         for (int i = 0; i < n; i++) {
@@ -144,37 +145,61 @@ public final class Charts {
             pairDrawn[d.from()][d.to()] = true;
             pairDrawn[d.to()][d.from()] = true;
         }
+        StringBuilder body = new StringBuilder();
         StringBuilder labels = new StringBuilder();
+        int markers = 0;
+        // what a label must not cover: every box, then every label placed before it
+        List<double[]> taken = new java.util.ArrayList<>();
+        for (int v = 0; v < n; v++) {
+            taken.add(new double[] {lay.x(v) - lay.boxW(v) / 2, lay.y(v) - boxH / 2, lay.x(v) + lay.boxW(v) / 2, lay.y(v) + boxH / 2});
+        }
         for (ConsensusEdges.Drawn d : drawn) {
             int a = d.from();
             int b = d.to();
             boolean arrow = d.shape() == ConsensusEdges.Shape.ARROW;
-            String col = EdgeColour.of(truth, a, b, arrow).hex;
+            EdgeMark mark = EdgeMark.of(truth, a, b, arrow);
             String title = arrow && ce.givenOrder()
                     ? m.variables().get(a) + " \u2192 " + m.variables().get(b) + ": posterior " + Html.f(d.p(), 3)
                             + " (direction from the given order)"
-                    : ce.describe(d.pair());
-            path(s, labels, lay, a, b, col, 1 + 5 * d.p(), false, arrow, title, Html.prob(d.p()));
+                    : ce.describe(d.pair()) + (d.byTiers() ? " (direction fixed by the tiers)" : "");
+            double width = 1 + 5 * d.p();
+            String marker = arrow ? marker(defs, markers++, width, INK) : null;
+            String label = Html.prob(d.p()) + (d.byTiers() ? " fixed by the tiers" : "")
+                    + (mark.glyph.isEmpty() ? "" : " " + mark.glyph);
+            path(body, labels, taken, lay, a, b, INK, width, mark.dash, marker, title, label);
         }
         if (truth != null) {
             for (int a = 0; a < n; a++) {
                 for (int b = 0; b < n; b++) {
                     if (truth[a][b] && !pairDrawn[a][b]) {
-                        path(s, null, lay, a, b, EdgeColour.MISSED.hex, 1.2, true, true, m.variables().get(a) + " \u2192 "
+                        String marker = marker(defs, markers++, 1.2, MISSED_INK);
+                        path(body, labels, taken, lay, a, b, MISSED_INK, 1.2, EdgeMark.MISSED.dash, marker, m.variables().get(a) + " \u2192 "
                                 + m.variables().get(b) + ": edge of the known network, not drawn (P(adjacent) "
-                                + Html.f(ce.pair(a, b).adjacent(), 3) + ")", null);
+                                + Html.f(ce.pair(a, b).adjacent(), 3) + ")", EdgeMark.MISSED.glyph);
                     }
                 }
             }
         }
-        s.append(labels);
+        s.append("</defs>\n").append(body).append(labels);
+        if (lay.layerNames() != null) {
+            for (int l = 0; l < lay.layerNames().size(); l++) {
+                double y = ConsensusLayout.MARGIN + l * ConsensusLayout.LAYER + boxH / 2 + 14;
+                s.append("<text x=\"6\" y=\"").append(c(y)).append("\" fill=\"#5a6b7d\" font-style=\"italic\">")
+                        .append(esc(lay.layerNames().get(l))).append("</text>\n");
+            }
+        }
+        if (!Double.isNaN(lay.aloneY())) {
+            s.append("<text x=\"").append(c(ConsensusLayout.MARGIN)).append("\" y=\"").append(c(lay.aloneY() + 12))
+                    .append("\" fill=\"#5a6b7d\" font-style=\"italic\">Joined to no other variable above the threshold:</text>\n");
+        }
         for (int v = 0; v < n; v++) {
             String name = m.variables().get(v);
             double x = lay.x(v);
             double y = lay.y(v);
-            s.append("<g><title>").append(esc(name)).append(" (position ").append(pos[v] + 1).append(" in the order)</title>")
-                    .append("<rect x=\"").append(c(x - boxW / 2)).append("\" y=\"").append(c(y - boxH / 2))
-                    .append("\" width=\"").append(c(boxW)).append("\" height=\"").append(c(boxH))
+            s.append("<g><title>").append(esc(name)).append(lay.free() ? "" : " (position " + (pos[v] + 1) + " in the order)")
+                    .append("</title>")
+                    .append("<rect x=\"").append(c(x - lay.boxW(v) / 2)).append("\" y=\"").append(c(y - boxH / 2))
+                    .append("\" width=\"").append(c(lay.boxW(v))).append("\" height=\"").append(c(boxH))
                     .append("\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
                     .append("<text x=\"").append(c(x)).append("\" y=\"").append(c(y + 4))
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
@@ -182,16 +207,81 @@ public final class Charts {
         return s.append("</svg>").toString();
     }
 
-    /** One edge's path (with an arrowhead when {@code arrow}) and, when {@code label} is non-null, its label. */
-    private static void path(StringBuilder s, StringBuilder labels, ConsensusLayout lay, int a, int b, String col, double width,
-                             boolean dashed, boolean arrow, String title, String label) {
+    /**
+     * An arrowhead for a stroke of {@code width}, defined in {@code defs} as marker {@code k}: in user
+     * space, 9 + 2.6 × width long, so it stays larger than the line it ends (a marker scaled by the
+     * stroke alone is too small on thin lines and huge on thick ones). Returns its id.
+     */
+    private static String marker(StringBuilder defs, int k, double width, String ink) {
+        double size = 9 + 2.6 * width;
+        String id = "head-" + k;
+        defs.append("<marker id=\"").append(id).append("\" viewBox=\"0 0 10 10\" refX=\"9\" refY=\"5\" ")
+                .append("markerUnits=\"userSpaceOnUse\" markerWidth=\"").append(c(size)).append("\" markerHeight=\"")
+                .append(c(size)).append("\" orient=\"auto\"><path d=\"M0,0 L10,5 L0,10 z\" fill=\"").append(ink)
+                .append("\"/></marker>");
+        return id;
+    }
+
+    /** Where the segment from the centre of a box at (x, y) towards (tx, ty) leaves the box (plus a gap of 2). */
+    private static double[] border(double x, double y, double w, double tx, double ty) {
+        double dx = tx - x;
+        double dy = ty - y;
+        double hw = w / 2 + 2;
+        double hh = ConsensusLayout.BOX_H / 2 + 2;
+        double t = Math.min(dx == 0 ? Double.POSITIVE_INFINITY : hw / Math.abs(dx), dy == 0 ? Double.POSITIVE_INFINITY : hh / Math.abs(dy));
+        return new double[] {x + dx * Math.min(1, t), y + dy * Math.min(1, t)};
+    }
+
+    /**
+     * One edge's path (with the arrowhead {@code marker} when it is non-null) and its label, set beside
+     * the path rather than on it: perpendicular to a straight edge, to the right of a vertical one.
+     */
+    private static void path(StringBuilder s, StringBuilder labels, List<double[]> taken, ConsensusLayout lay, int a, int b,
+                             String col, double width, String dash, String marker, String title, String label) {
         double boxW = ConsensusLayout.BOX_W;
         double boxH = ConsensusLayout.BOX_H;
         StringBuilder d = new StringBuilder();
         double lx;
         double ly;
-        double[][] pts = lay.route(a, b);
-        if (pts != null) { // downward: vertical S-curves through the virtual slots
+        String anchor = "start";
+        double[][] pts = lay.free() ? null : lay.route(a, b);
+        if (lay.free()) { // straight, from box border to box border, the label off its middle
+            double[] p = border(lay.x(a), lay.y(a), lay.boxW(a), lay.x(b), lay.y(b));
+            double[] q = border(lay.x(b), lay.y(b), lay.boxW(b), lay.x(a), lay.y(a));
+            d.append('M').append(c(p[0])).append(',').append(c(p[1])).append(" L").append(c(q[0])).append(',').append(c(q[1]));
+            double dx = q[0] - p[0];
+            double dy = q[1] - p[1];
+            double len = Math.max(1e-9, Math.hypot(dx, dy));
+            double nx = -dy / len;
+            double ny = dx / len;
+            if (ny > 0 || ny == 0 && nx < 0) { // the normal that points up (or right)
+                nx = -nx;
+                ny = -ny;
+            }
+            double off = width / 2 + 5;
+            // the side above the line first, then below; no room on either side (a crowded knot): no
+            // label, the edge's tooltip still gives every posterior
+            lx = Double.NaN;
+            ly = Double.NaN;
+            double tw = label == null ? 0 : 6.3 * label.length();
+            for (int side = 1; side >= -1 && label != null; side -= 2) {
+                double cx = (p[0] + q[0]) / 2 + side * nx * off;
+                double cy = (p[1] + q[1]) / 2 + side * ny * off - 2;
+                String an = Math.abs(nx) < 0.35 ? "middle" : side * nx > 0 ? "start" : "end";
+                double x0 = an.equals("start") ? cx : an.equals("end") ? cx - tw : cx - tw / 2;
+                double[] box = {x0, cy - 7, x0 + tw, cy + 7};
+                if (taken.stream().noneMatch(t -> t[0] < box[2] && box[0] < t[2] && t[1] < box[3] && box[1] < t[3])) {
+                    taken.add(box);
+                    lx = cx;
+                    ly = cy;
+                    anchor = an;
+                    break;
+                }
+            }
+            if (Double.isNaN(lx)) {
+                label = null;
+            }
+        } else if (pts != null) { // downward: vertical S-curves through the virtual slots
             d.append('M').append(c(pts[0][0])).append(',').append(c(pts[0][1]));
             for (int i = 0; i + 1 < pts.length; i++) {
                 double k = (pts[i + 1][1] - pts[i][1]) / 2;
@@ -200,7 +290,7 @@ public final class Charts {
                         .append(c(pts[i + 1][0])).append(',').append(c(pts[i + 1][1]));
             }
             int mid = (pts.length - 1) / 2;
-            lx = pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2;
+            lx = (pts.length % 2 == 1 ? pts[mid][0] : (pts[mid][0] + pts[mid + 1][0]) / 2) + width / 2 + 5;
             ly = pts.length % 2 == 1 ? pts[mid][1] : (pts[mid][1] + pts[mid + 1][1]) / 2;
         } else if (lay.layer(a) == lay.layer(b)) { // same layer (kept out of the layering): arc below
             double x1 = lay.x(a);
@@ -209,7 +299,8 @@ public final class Charts {
             d.append('M').append(c(x1)).append(',').append(c(y1)).append(" Q").append(c((x1 + x2) / 2)).append(',')
                     .append(c(y1 + 48)).append(' ').append(c(x2)).append(',').append(c(y1));
             lx = (x1 + x2) / 2;
-            ly = y1 + 24;
+            ly = y1 + 24 + width / 2 + 12;
+            anchor = "middle";
         } else { // against the layering (a cycle): arc out to the right
             double x1 = lay.x(a) + boxW / 2;
             double x2 = lay.x(b) + boxW / 2 + 1;
@@ -217,19 +308,20 @@ public final class Charts {
             double cy = (lay.y(a) + lay.y(b)) / 2;
             d.append('M').append(c(x1)).append(',').append(c(lay.y(a))).append(" Q").append(c(cx)).append(',')
                     .append(c(cy)).append(' ').append(c(x2)).append(',').append(c(lay.y(b)));
-            lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2;
+            lx = 0.25 * x1 + 0.5 * cx + 0.25 * x2 + width / 2 + 5;
             ly = cy;
         }
-        s.append("<path class=\"").append(arrow ? "arrow" : "line").append("\" d=\"").append(d)
+        s.append("<path class=\"").append(marker != null && !col.equals(MISSED_INK) ? "arrow" : marker != null ? "known" : "line")
+                .append("\" d=\"").append(d)
                 .append("\" fill=\"none\" stroke=\"").append(col).append("\" stroke-width=\"").append(c(width)).append('"')
-                .append(dashed ? " stroke-dasharray=\"5,4\"" : "");
-        if (arrow) {
-            s.append(" marker-end=\"url(#arrow-").append(col.substring(1)).append(")\"");
+                .append(dash.isEmpty() ? "" : " stroke-dasharray=\"" + dash + "\"");
+        if (marker != null) {
+            s.append(" marker-end=\"url(#").append(marker).append(")\"");
         }
         s.append("><title>").append(esc(title)).append("</title></path>\n");
-        if (label != null) {
+        if (label != null && !label.isEmpty()) {
             labels.append("<text x=\"").append(c(lx)).append("\" y=\"").append(c(ly + 4))
-                    .append("\" text-anchor=\"middle\" font-size=\"11\" fill=\"").append(col)
+                    .append("\" text-anchor=\"").append(anchor).append("\" font-size=\"11\" fill=\"").append(col)
                     .append("\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\">")
                     .append(esc(label)).append("</text>\n");
         }

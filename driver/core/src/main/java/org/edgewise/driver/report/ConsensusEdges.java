@@ -21,6 +21,9 @@ import org.edgewise.driver.result.EdgeResult;
  *     events are disjoint for a DAG, so the sum is the adjacency posterior); directions are
  *     <i>not assessed</i>. The DAG-edge posteriors P(a → b) of an unknown-order result mix
  *     compelled and reversible directions and depend on the DAG prior (DESIGN.md).</li>
+ * <li>With tiers, a pair in two different tiers: an <b>arrow</b> from the earlier tier when
+ *     P(adjacent) &gt; t — the tiers forbid the other direction, so every network that joins the
+ *     pair orients it alike (labelled as fixed by the tiers, not by the data).</li>
  * <li>Given an order ({@code method} {@code order}): an arrow a → b when P(a → b | order) &gt; t,
  *     its direction taken from the order — an assumption the user stated, not learned.</li>
  * </ul>
@@ -30,8 +33,9 @@ import org.edgewise.driver.result.EdgeResult;
  * @param grid       the pair {a, b} at {@code grid[a][b]}, a &lt; b ({@link #pair} in either order)
  * @param assessed   whether directions were assessed by essential-graph posteriors
  * @param givenOrder whether the result was computed for a given order (directions then come from the order)
+ * @param tier       each variable's tier (0 first) when the result has tiers, -1 for a variable in none; null without tiers
  */
-public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed, boolean givenOrder) {
+public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed, boolean givenOrder, int[] tier) {
     /** How a pair is drawn. */
     public enum Shape { ARROW, LINE }
 
@@ -45,8 +49,16 @@ public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed,
         }
     }
 
-    /** One drawn pair: from → to for an arrow (for a line, the orientation used only for layout); {@code p} labels it. */
-    public record Drawn(int from, int to, Shape shape, double p, Pair pair) {
+    /**
+     * One drawn pair: from → to for an arrow (for a line, the orientation used only for layout); {@code p}
+     * labels it; {@code byTiers}: an arrow whose direction the tiers fix (the two are in different tiers).
+     */
+    public record Drawn(int from, int to, Shape shape, double p, Pair pair, boolean byTiers) {
+    }
+
+    /** Whether the tiers fix the direction of a → b (a in an earlier tier than b). */
+    public boolean tierFixes(int a, int b) {
+        return tier != null && tier[a] >= 0 && tier[b] >= 0 && tier[a] < tier[b];
     }
 
     /** The pairs of {@code r}; a malformed {@code essentialGraph} entry is the user's (the result file's) mistake. */
@@ -86,7 +98,20 @@ public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed,
                 }
             }
         }
-        return new ConsensusEdges(m, pairs, assessed, "order".equals(r.method()));
+        int[] tier = null;
+        if (r.settings() != null && r.settings().tiers() != null && !r.settings().tiers().isEmpty()) {
+            tier = new int[n];
+            java.util.Arrays.fill(tier, -1);
+            for (int t = 0; t < r.settings().tiers().size(); t++) {
+                for (String v : r.settings().tiers().get(t)) {
+                    int i = m.variables().indexOf(v);
+                    if (i >= 0) {
+                        tier[i] = t;
+                    }
+                }
+            }
+        }
+        return new ConsensusEdges(m, pairs, assessed, "order".equals(r.method()), tier);
     }
 
     private static double cap(double p) {
@@ -117,19 +142,23 @@ public record ConsensusEdges(EdgeMatrix matrix, Pair[][] grid, boolean assessed,
             int b = x.b();
             if (givenOrder) {
                 if (p[a][b] > t) {
-                    out.add(new Drawn(a, b, Shape.ARROW, p[a][b], x));
+                    out.add(new Drawn(a, b, Shape.ARROW, p[a][b], x, false));
                 }
                 if (p[b][a] > t) {
-                    out.add(new Drawn(b, a, Shape.ARROW, p[b][a], x));
+                    out.add(new Drawn(b, a, Shape.ARROW, p[b][a], x, false));
                 }
+            } else if ((tierFixes(a, b) || tierFixes(b, a)) && x.adjacent() > t) {
+                // the tiers forbid the other direction: every network joining the pair orients it alike
+                boolean ab = tierFixes(a, b);
+                out.add(new Drawn(ab ? a : b, ab ? b : a, Shape.ARROW, x.adjacent(), x, true));
             } else if (assessed && x.aToB() > t) {
-                out.add(new Drawn(a, b, Shape.ARROW, x.aToB(), x));
+                out.add(new Drawn(a, b, Shape.ARROW, x.aToB(), x, false));
             } else if (assessed && x.bToA() > t) {
-                out.add(new Drawn(b, a, Shape.ARROW, x.bToA(), x));
+                out.add(new Drawn(b, a, Shape.ARROW, x.bToA(), x, false));
             } else if (x.adjacent() > t) {
                 // laid out along the more probable DAG direction; drawn without an arrowhead
                 boolean ab = p[a][b] >= p[b][a];
-                out.add(new Drawn(ab ? a : b, ab ? b : a, Shape.LINE, x.adjacent(), x));
+                out.add(new Drawn(ab ? a : b, ab ? b : a, Shape.LINE, x.adjacent(), x, false));
             }
         }
         return out;

@@ -30,6 +30,10 @@ public final class ConsensusLayout {
     static final double BOX_W = 150;
     static final double BOX_H = 34;
     static final double MARGIN = 20;
+    /** Room on the left of a layered drawing for the tiers' names. */
+    static final double TIER_LABEL = 60;
+    /** Free layout: the widest a row of components grows before the next row starts. */
+    static final double ROW_WIDTH = 1100;
 
     private final int[] order;
     private final int[] layer;
@@ -39,6 +43,14 @@ public final class ConsensusLayout {
     private final double height;
     private final Map<Long, double[][]> routes = new HashMap<>();
     private final int n;
+    /** Free layout (components placed by forces): edges are straight, nothing is layered. */
+    private boolean free;
+    /** Each variable's box width. */
+    private double[] boxW;
+    /** Free layout: where the row of variables joined to no other starts (NaN: none). */
+    private double aloneY = Double.NaN;
+    /** Layered by tiers: each layer's name (null otherwise). */
+    private List<String> layerNames;
 
     private ConsensusLayout(int n, int[] order, int[] layer, double[] x, double[] y, double width, double height) {
         this.n = n;
@@ -66,7 +78,6 @@ public final class ConsensusLayout {
             pos[order[i]] = i;
         }
         int[] layer = new int[n];
-        int layers = 1;
         for (int v : order) {
             int l = 0;
             for (int u = 0; u < n; u++) {
@@ -75,7 +86,63 @@ public final class ConsensusLayout {
                 }
             }
             layer[v] = l;
-            layers = Math.max(layers, l + 1);
+        }
+        return layered(n, order, layer, drawn);
+    }
+
+    /**
+     * The layout the report draws: layered down the given order when there is one (its arrows follow
+     * it); one row per tier when the result has tiers (earlier tiers above; variables in no tier in a
+     * last row), so a line between two tiers runs the way the tiers allow; otherwise every connected
+     * component of the drawn graph placed on its own by forces ({@link #free}), because a layered
+     * top-down drawing would make undirected lines look causal.
+     */
+    public static ConsensusLayout of(EdgeMatrix m, boolean[][] g, boolean[][] drawn, List<String> givenOrder,
+                                     List<List<String>> tiers) {
+        int n = m.size();
+        if (givenOrder != null && !givenOrder.isEmpty()) {
+            return of(m, g, drawn, givenOrder);
+        }
+        if (tiers == null || tiers.isEmpty()) {
+            return free(m, drawn);
+        }
+        int[] layer = new int[n];
+        Arrays.fill(layer, tiers.size());
+        for (int t = 0; t < tiers.size(); t++) {
+            for (String v : tiers.get(t)) {
+                int i = m.variables().indexOf(v);
+                if (i >= 0) {
+                    layer[i] = t;
+                }
+            }
+        }
+        int[] greedy = greedyOrder(m, g);
+        Integer[] ord = new Integer[n];
+        int[] rank = new int[n];
+        for (int i = 0; i < n; i++) {
+            ord[i] = greedy[i];
+            rank[greedy[i]] = i;
+        }
+        Arrays.sort(ord, (p, q) -> layer[p] != layer[q] ? Integer.compare(layer[p], layer[q]) : Integer.compare(rank[p], rank[q]));
+        int[] order = Arrays.stream(ord).mapToInt(Integer::intValue).toArray();
+        ConsensusLayout lay = layered(n, order, layer, drawn);
+        List<String> names = new ArrayList<>();
+        boolean rest = false;
+        for (int v = 0; v < n; v++) {
+            rest |= layer[v] == tiers.size();
+        }
+        for (int t = 0; t < tiers.size() + (rest ? 1 : 0); t++) {
+            names.add(t < tiers.size() ? "tier " + (t + 1) : "no tier");
+        }
+        lay.layerNames = names;
+        return lay;
+    }
+
+    /** Layered drawing of {@code order} with the layers given (Sugiyama et al.; the class comment). */
+    private static ConsensusLayout layered(int n, int[] order, int[] layer, boolean[][] drawn) {
+        int layers = 1;
+        for (int v = 0; v < n; v++) {
+            layers = Math.max(layers, layer[v] + 1);
         }
         // items: 0..n-1 the variables, then virtual slots of long edges
         List<Integer> itemLayer = new ArrayList<>();
@@ -140,11 +207,11 @@ public final class ConsensusLayout {
             }
             widest = Math.max(widest, rowWidth[l]);
         }
-        double width = Math.max(widest + 2 * MARGIN + 60, 420);
+        double width = Math.max(widest + 2 * MARGIN + 60 + TIER_LABEL, 420);
         double[] ix = new double[items];
         double[] iy = new double[items];
         for (int l = 0; l < layers; l++) {
-            double cursor = (width - rowWidth[l]) / 2;
+            double cursor = TIER_LABEL + (width - TIER_LABEL - rowWidth[l]) / 2;
             for (int it : rows.get(l)) {
                 double w = it < n ? SLOT : VIRTUAL;
                 ix[it] = cursor + w / 2;
@@ -167,6 +234,212 @@ public final class ConsensusLayout {
             lay.routes.put(e.getKey(), pts);
         }
         return lay;
+    }
+
+    /**
+     * Every connected component of {@code drawn} (either direction) laid out on its own by the
+     * force-directed placement of Fruchterman &amp; Reingold (1991, Software — Practice and Experience
+     * 21(11)): pairs repel with k²/d, joined pairs attract with d²/k, every variable is pulled towards
+     * the centre in proportion to its distance (so long chains fold), the moves cooled linearly over
+     * {@value #FORCE_STEPS} steps from a circle in the component's order; computed with x divided by the
+     * boxes' aspect, so that wide boxes space out like square ones, then overlapping boxes pushed apart.
+     * Components are packed into rows, the largest first; variables joined to no other go in a last
+     * row. Deterministic (no random start). Time O(k² · steps) per component of k variables.
+     */
+    static ConsensusLayout free(EdgeMatrix m, boolean[][] drawn) {
+        int n = m.size();
+        double[] bw = new double[n];
+        for (int v = 0; v < n; v++) {
+            bw[v] = fitted(m.variables().get(v).length());
+        }
+        int[] comp = new int[n];
+        Arrays.fill(comp, -1);
+        List<List<Integer>> comps = new ArrayList<>();
+        List<Integer> alone = new ArrayList<>();
+        for (int s = 0; s < n; s++) {
+            if (comp[s] >= 0) {
+                continue;
+            }
+            List<Integer> c = new ArrayList<>();
+            java.util.ArrayDeque<Integer> queue = new java.util.ArrayDeque<>();
+            queue.add(s);
+            comp[s] = comps.size();
+            while (!queue.isEmpty()) {
+                int v = queue.poll();
+                c.add(v);
+                for (int u = 0; u < n; u++) {
+                    if (comp[u] < 0 && (drawn[v][u] || drawn[u][v])) {
+                        comp[u] = comp[s];
+                        queue.add(u);
+                    }
+                }
+            }
+            if (c.size() == 1) {
+                alone.add(s);
+                comp[s] = Integer.MAX_VALUE;
+            } else {
+                comps.add(c);
+            }
+        }
+        comps.sort((p, q) -> q.size() - p.size());
+        double[] x = new double[n];
+        double[] y = new double[n];
+        List<Integer> order = new ArrayList<>();
+        double rowX = MARGIN;
+        double rowY = MARGIN;
+        double rowH = 0;
+        double right = 0;
+        for (List<Integer> c : comps) {
+            double[][] p = forces(c, drawn, bw);
+            double minX = Double.POSITIVE_INFINITY;
+            double minY = Double.POSITIVE_INFINITY;
+            double maxX = Double.NEGATIVE_INFINITY;
+            double maxY = Double.NEGATIVE_INFINITY;
+            for (int i = 0; i < c.size(); i++) {
+                double[] q = p[i];
+                minX = Math.min(minX, q[0] - bw[c.get(i)] / 2);
+                maxX = Math.max(maxX, q[0] + bw[c.get(i)] / 2);
+                minY = Math.min(minY, q[1]);
+                maxY = Math.max(maxY, q[1]);
+            }
+            double w = maxX - minX + 40;
+            double h = maxY - minY + BOX_H + 40;
+            if (rowX > MARGIN && rowX + w > ROW_WIDTH) {
+                rowX = MARGIN;
+                rowY += rowH;
+                rowH = 0;
+            }
+            for (int i = 0; i < c.size(); i++) {
+                int v = c.get(i);
+                x[v] = rowX + 20 + p[i][0] - minX;
+                y[v] = rowY + 20 + BOX_H / 2 + p[i][1] - minY;
+                order.add(v);
+            }
+            rowX += w;
+            rowH = Math.max(rowH, h);
+            right = Math.max(right, rowX);
+        }
+        double aloneY = Double.NaN;
+        double bottom = rowY + rowH;
+        if (!alone.isEmpty()) {
+            aloneY = bottom + 16;
+            int perRow = (int) Math.max(1, Math.floor((ROW_WIDTH - MARGIN) / SLOT));
+            for (int i = 0; i < alone.size(); i++) {
+                int v = alone.get(i);
+                x[v] = MARGIN + SLOT / 2 + (i % perRow) * SLOT;
+                y[v] = aloneY + 24 + BOX_H / 2 + (i / perRow) * (BOX_H + 16);
+                order.add(v);
+                right = Math.max(right, x[v] + SLOT / 2);
+            }
+            bottom = aloneY + 24 + ((alone.size() - 1) / perRow + 1) * (BOX_H + 16);
+        }
+        ConsensusLayout lay = new ConsensusLayout(n, order.stream().mapToInt(Integer::intValue).toArray(), new int[n], x, y,
+                Math.max(420, right + MARGIN), bottom + MARGIN);
+        lay.free = true;
+        lay.aloneY = aloneY;
+        lay.boxW = bw;
+        return lay;
+    }
+
+    static final int FORCE_STEPS = 400;
+    /** The ideal distance between joined variables, in the halved-x space. */
+    static final double FORCE_K = 110;
+    /** Pull towards the component's centre per unit of distance (added to Fruchterman &amp; Reingold's forces). */
+    static final double GRAVITY = 0.35;
+
+    /** Positions (real coordinates, any origin) of the variables of one component; see {@link #free}. */
+    private static double[][] forces(List<Integer> c, boolean[][] drawn, double[] bw) {
+        int k = c.size();
+        double meanW = 0;
+        for (int v : c) {
+            meanW += bw[v] / k;
+        }
+        // forces act where the boxes look square: x divided by how much wider than tall a box is
+        double xScale = Math.max(1, meanW / 75);
+        double[][] p = new double[k][2];
+        double radius = FORCE_K * Math.sqrt(k) / 2;
+        for (int i = 0; i < k; i++) {
+            p[i][0] = radius * Math.cos(2 * Math.PI * i / k);
+            p[i][1] = radius * Math.sin(2 * Math.PI * i / k);
+        }
+        boolean[][] joined = new boolean[k][k];
+        for (int i = 0; i < k; i++) {
+            for (int j = 0; j < k; j++) {
+                joined[i][j] = drawn[c.get(i)][c.get(j)] || drawn[c.get(j)][c.get(i)];
+            }
+        }
+        double kk = FORCE_K * FORCE_K;
+        double[][] move = new double[k][2];
+        for (int step = 0; step < FORCE_STEPS; step++) {
+            double temp = radius * (1 - step / (double) FORCE_STEPS) / 4 + 1;
+            for (double[] mv : move) {
+                mv[0] = 0;
+                mv[1] = 0;
+            }
+            for (int i = 0; i < k; i++) {
+                for (int j = i + 1; j < k; j++) {
+                    double dx = p[i][0] - p[j][0];
+                    double dy = p[i][1] - p[j][1];
+                    double d = Math.max(1e-3, Math.hypot(dx, dy));
+                    double f = kk / d - (joined[i][j] ? d * d / FORCE_K : 0);
+                    move[i][0] += dx / d * f;
+                    move[i][1] += dy / d * f;
+                    move[j][0] -= dx / d * f;
+                    move[j][1] -= dy / d * f;
+                }
+            }
+            double cx = 0;
+            double cy = 0;
+            for (double[] q : p) {
+                cx += q[0] / k;
+                cy += q[1] / k;
+            }
+            for (int i = 0; i < k; i++) {
+                // gravity towards the centre keeps a long chain folded into a compact block
+                move[i][0] -= GRAVITY * (p[i][0] - cx);
+                move[i][1] -= GRAVITY * (p[i][1] - cy);
+                double d = Math.hypot(move[i][0], move[i][1]);
+                if (d > 0) {
+                    double s = Math.min(d, temp) / d;
+                    p[i][0] += move[i][0] * s;
+                    p[i][1] += move[i][1] * s;
+                }
+            }
+        }
+        for (double[] q : p) {
+            q[0] *= xScale;
+        }
+        // overlapping boxes pushed apart along the axis of the smaller overlap
+        double gapY = BOX_H + 26;
+        for (int pass = 0; pass < 200; pass++) {
+            boolean moved = false;
+            for (int i = 0; i < k; i++) {
+                for (int j = i + 1; j < k; j++) {
+                    // joined boxes keep room between them for the edge's label
+                    double gapX = (bw[c.get(i)] + bw[c.get(j)]) / 2 + (joined[i][j] ? 64 : 24);
+                    double dx = p[j][0] - p[i][0];
+                    double dy = p[j][1] - p[i][1];
+                    double ox = gapX - Math.abs(dx);
+                    double oy = gapY - Math.abs(dy);
+                    if (ox > 0 && oy > 0) {
+                        moved = true;
+                        if (ox / gapX < oy / gapY) {
+                            double s = (dx >= 0 ? 1 : -1) * ox / 2;
+                            p[i][0] -= s;
+                            p[j][0] += s;
+                        } else {
+                            double s = (dy >= 0 ? 1 : -1) * oy / 2;
+                            p[i][1] -= s;
+                            p[j][1] += s;
+                        }
+                    }
+                }
+            }
+            if (!moved) {
+                break;
+            }
+        }
+        return p;
     }
 
     private static void renumber(List<List<Integer>> rows, double[] rank) {
@@ -254,6 +527,31 @@ public final class ConsensusLayout {
     /** The points a downward edge a → b passes (box bottom, virtual slots, box top), or null if it is not downward. */
     public double[][] route(int a, int b) {
         return routes.get((long) a * n + b);
+    }
+
+    /** The width of variable v's box: fitted to its name in a free layout, {@link #BOX_W} in a layered one. */
+    public double boxW(int v) {
+        return boxW == null ? BOX_W : boxW[v];
+    }
+
+    /** A box that fits a name of {@code len} characters (drawn at most 20) at 12 px sans-serif: about 7 px a character. */
+    static double fitted(int len) {
+        return Math.max(60, 7.2 * Math.min(len, 20) + 22);
+    }
+
+    /** Whether the layout is free (components placed by forces, straight edges) rather than layered. */
+    public boolean free() {
+        return free;
+    }
+
+    /** Free layout: the top of the row of variables joined to no other, or NaN when there are none. */
+    public double aloneY() {
+        return aloneY;
+    }
+
+    /** Layered by tiers: the name of each layer, top first; null otherwise. */
+    public List<String> layerNames() {
+        return layerNames;
     }
 
     /** Variables of the order as a readable list (for captions). */

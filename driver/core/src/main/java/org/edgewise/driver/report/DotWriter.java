@@ -31,8 +31,9 @@ public final class DotWriter {
     /**
      * The consensus graph of {@code r} at {@code threshold} by the rules of {@link ConsensusEdges}:
      * arrows for compelled directions (or the given order's), {@code dir=none} lines for adjacent
-     * pairs whose direction is reversible or not assessed. With {@code truth}: green correct,
-     * orange reversed, red not in the known network.
+     * pairs whose direction is reversible or not assessed; arrows for pairs whose direction the tiers
+     * fix. With {@code truth}: a glyph after the posterior and a line style ({@link EdgeMark}): solid
+     * ✓ in the known network, solid ⇄ reversed, dotted ✗ not in it.
      */
     public static String write(EdgeResult r, double threshold, boolean[][] truth) {
         return write(r, threshold, truth, AssessHint.API);
@@ -51,7 +52,9 @@ public final class DotWriter {
                         + "(run " + hint.text() + ").")
                 .append("\n// DAG prior: ").append(ce.givenOrder() ? "given order (both DAG priors coincide)"
                         : r.dagPrior() == null ? "not recorded" : r.dagPrior())
-                .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n");
+                .append(". An edge posterior is evidence of statistical dependence under stated assumptions, not proof of causation.\n")
+                .append(truth == null ? "" : "// Against the known network (glyph after the posterior, line style): \u2713 solid in it, "
+                        + "\u21c4 solid the other way round, \u2717 dotted not in it.\n");
         sb.append("digraph consensus {\n  node [shape=box, style=rounded];\n");
         for (String v : m.variables()) {
             sb.append("  ").append(id(v)).append(";\n");
@@ -61,7 +64,9 @@ public final class DotWriter {
             int b = d.to();
             boolean arrow = d.shape() == ConsensusEdges.Shape.ARROW;
             sb.append("  ").append(id(m.variables().get(a))).append(" -> ").append(id(m.variables().get(b)))
-                    .append(String.format(Locale.ROOT, " [label=\"%.2f\", penwidth=%.2f", d.p(), 1 + 5 * d.p()));
+                    .append(String.format(Locale.ROOT, " [label=\"%.2f%s%s\", penwidth=%.2f", d.p(),
+                            d.byTiers() ? " fixed by the tiers" : "",
+                            truth == null ? "" : " " + EdgeMark.of(truth, a, b, arrow).glyph, 1 + 5 * d.p()));
             if (!arrow) {
                 sb.append(", dir=none");
             }
@@ -69,7 +74,7 @@ public final class DotWriter {
                 sb.append(", tooltip=").append(id(ce.describe(d.pair())));
             }
             if (truth != null) {
-                sb.append(", color=\"").append(EdgeColour.of(truth, a, b, arrow).hex).append('"');
+                sb.append(", style=").append(EdgeMark.of(truth, a, b, arrow).dotStyle());
             }
             sb.append("];\n");
         }

@@ -90,18 +90,52 @@ public final class EffectSection {
         }
         h.append("<p>Probability of no effect (no directed path from the set variables to the outcome): <b>")
                 .append(f(r.noPathProbability(), 4)).append("</b>").append(mcse(r.noPathEstimate(), r.noPathMcse()))
-                .append(". ").append(Math.round(100 * r.interval().level())).append("% credible interval of the ")
+                .append(". ").append(Math.round(100 * r.interval().level())).append("% credible interval ")
+                .append(r.interval().of().equals("all draws") ? "over " : r.interval().of().endsWith("effect") ? "over the " : "of the ")
                 .append(esc(r.interval().of())).append(": [").append(f(r.interval().lower(), 4)).append(", ")
                 .append(f(r.interval().upper(), 4)).append("].</p>\n");
+        if (r.split() != null) {
+            split(h, r.split());
+        }
         if (r.posterior() != null) {
             h.append("<div class=\"fig\">").append(histogram(r.posterior())).append("</div>\n");
             h.append("<p class=\"cap\">Posterior distribution of the ").append(esc(r.posterior().of())).append(" over ")
-                    .append(r.posterior().draws()).append(" draws of a network and its parameters. Averaged over: ")
-                    .append(esc(r.averagedOver())).append(r.dagPrior() == null ? "" : "; DAG prior " + esc(r.dagPrior()))
-                    .append(". The conditioning column conditions on the variable instead of setting it (the model's, not the raw "
-                            + "frequency); where the two differ, the data's association includes confounding, reverse influence, "
-                            + "or a direction the data do not fix.</p>\n");
+                    .append(r.posterior().draws()).append(" draws of a network and its parameters. The conditioning column "
+                            + "conditions on the variable instead of setting it (the model's, not the raw frequency)")
+                    .append(r.split() == null ? "." : "; why the two differ is said above.").append("</p>\n");
         }
+        h.append("<details><summary>How this was computed</summary><p class=\"cap\">Averaged over: ").append(esc(r.averagedOver()))
+                .append(r.dagPrior() == null ? "" : "; DAG prior " + esc(r.dagPrior())).append(". ")
+                .append("exact".equals(r.estimate()) ? "The probabilities are exact averages."
+                        : "The probabilities are estimated from sampled networks; the \u00b1 figure is the Monte Carlo standard error.")
+                .append("</p></details>\n");
+    }
+
+    /** The split of the posterior over "no path" and "a path", and what each explains of the association (HTML). */
+    private static void split(StringBuilder h, EffectResult.Split s) {
+        String cause = switch (s.cause()) {
+            case "none" -> "none: setting and conditioning agree";
+            case "unknown direction" -> "mostly an unknown direction";
+            case "confounding" -> "mostly confounding" + (s.backDoor().isEmpty() ? "" : " through " + String.join(", ", s.backDoor()));
+            default -> "both an unknown direction and confounding"
+                    + (s.backDoor().isEmpty() ? "" : " through " + String.join(", ", s.backDoor()));
+        };
+        h.append("<p><b>Why conditioning and setting differ: ").append(esc(cause)).append(".</b></p>\n")
+                .append("<table>\n<tr><th>networks in which the set variable</th><th>posterior</th><th>part of the association "
+                        + "they explain</th></tr>\n")
+                .append("<tr><td>cannot affect the outcome (no directed path)</td><td class=\"num\">").append(f(s.noEffect(), 4))
+                .append("</td><td class=\"num\">").append(signed4(s.directionPart())).append(" (not an effect)</td></tr>\n")
+                .append("<tr><td>can affect it</td><td class=\"num\">").append(f(s.effect(), 4)).append("</td><td class=\"num\">")
+                .append(signed4(s.setting())).append(" effect, ").append(signed4(s.confoundingPart()))
+                .append(" confounding</td></tr>\n<tr><th>together</th><td class=\"num\">1</td><td class=\"num\">")
+                .append(signed4(s.association())).append(" (the model's conditioning difference)</td></tr>\n</table>\n")
+                .append("<p class=\"cap\">").append(esc(s.words())).append(". The split reads the association as alike in both "
+                        + "groups of networks (a first-order split).</p>\n");
+    }
+
+    private static String signed4(double v) {
+        double x = Math.abs(v) < 5e-5 ? 0 : v;
+        return (x > 0 ? "+" : "") + f(x, 4);
     }
 
     private static void measureRow(StringBuilder h, String name, EffectResult.Measure m) {
@@ -117,12 +151,64 @@ public final class EffectSection {
                 .append("</td></tr>\n");
     }
 
+    /**
+     * One sentence (HTML) for the report's summary: what setting the variable does to the outcome, in
+     * the measure the result leads with, its interval, and the probability of no effect.
+     */
+    static String headline(EffectResult r) {
+        String x = esc(text(r.intervention()));
+        String y = "P(" + esc(text(r.target())) + (r.given() == null ? "" : " | " + esc(text(r.given()))) + ")";
+        int level = (int) Math.round(100 * r.interval().level());
+        StringBuilder sb = new StringBuilder();
+        if (r.versus() == null) {
+            sb.append("setting ").append(x).append(" makes ").append(y).append(' ').append(num(r.probability()));
+            return sb.append(" (").append(level).append("% credible interval [").append(f(r.interval().lower(), 3)).append(", ")
+                    .append(f(r.interval().upper(), 3)).append("]); probability that it has no effect at all ")
+                    .append(f(r.noPathProbability(), 2)).append('.').toString();
+        }
+        String lead = r.leadingMeasure() == null ? "riskDifference" : r.leadingMeasure();
+        EffectResult.Measure m = switch (lead) {
+            case "riskRatio" -> r.riskRatio();
+            case "oddsRatio" -> r.oddsRatio();
+            default -> r.riskDifference();
+        };
+        if (m == null) {
+            m = r.oddsRatio();
+            lead = "oddsRatio";
+        }
+        sb.append("setting ").append(x).append(" rather than ").append(esc(text(r.versus().intervention()))).append(' ');
+        if (m == null) {
+            sb.append("changes ").append(y).append(" by ").append(num(r.difference()));
+        } else {
+            String word = switch (lead) {
+                case "riskRatio" -> "multiplies " + y + " by ";
+                case "oddsRatio" -> "multiplies the odds of " + y.substring(2, y.length() - 1) + " by ";
+                default -> "changes " + y + " by ";
+            };
+            sb.append(word).append("<b>").append(lead.equals("riskDifference") ? signed(m.estimate()) : f(m.estimate(), 3)).append("</b> (")
+                    .append(level).append("% credible interval [").append(f(m.interval().lower(), 3)).append(", ")
+                    .append(f(m.interval().upper(), 3)).append("]").append(m.interval().of().contains("with an effect") ? " over the " + esc(m.interval().of()) : "")
+                    .append(')');
+        }
+        sb.append("; probability that it has no effect at all ").append(f(r.noPathProbability(), 2)).append('.');
+        if (r.observed() != null && r.observed().probability() != null && r.observed().versusProbability() != null) {
+            sb.append(" In the raw data: ").append(f(r.observed().probability(), 3)).append(" vs ")
+                    .append(f(r.observed().versusProbability(), 3)).append('.');
+        }
+        return sb.toString();
+    }
+
+    private static String signed(double v) {
+        return (v > 0 ? "+" : "") + f(v, 3);
+    }
+
     private static String num(Double x) {
         return x == null ? "not estimable" : f(x, 4);
     }
 
     private static String mcse(String estimate, double mcse) {
-        return "exact".equals(estimate) ? " (exact)" : " (sampled, MCSE " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + ")";
+        return "exact".equals(estimate) ? " (exact)"
+                : " (\u00b1 " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + " from sampling)";
     }
 
     /** Bars of equal-width bins from binLow to binHigh, a zero line when zero is inside, and the axis ends. */

@@ -5,6 +5,7 @@ import static org.edgewise.driver.report.Html.esc;
 import java.util.List;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.EffectResult;
 
 /**
  * The HTML report of an {@code edges} result: one self-contained file (inline CSS and SVG, no
@@ -35,6 +36,10 @@ public final class HtmlReport {
             .fig{overflow-x:auto;margin:8px 0}.cap{color:#5a6b7d;font-size:14px;max-width:900px}
             .key span{display:inline-block;margin-right:16px}.sw{display:inline-block;width:22px;height:4px;vertical-align:middle;margin-right:5px}
             code{background:#f0f4f8;padding:0 3px;border-radius:3px}
+            .answer{border:2px solid #2c5d8a;background:#f5f9fd;padding:8px 18px;border-radius:8px;margin:14px 0}
+            .answer ul.cols{columns:2 330px;margin:4px 0}.caution h3{margin:4px 0;color:#8a4f00}
+            details{margin:10px 0}details>summary{cursor:pointer;color:#2c5d8a;font-weight:600}
+            .legend svg{vertical-align:middle;margin-right:6px}.legend span{display:inline-block;margin:2px 18px 2px 0}
             """;
 
     private HtmlReport() {
@@ -62,6 +67,15 @@ public final class HtmlReport {
     /** As {@link #render(EdgeResult, String, Network, String, double, AssessHint)}, naming how to run longer as {@code run}. */
     public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
                                 AssessHint hint, RunHint run) {
+        return render(r, resultName, truth, truthName, threshold, hint, run, null);
+    }
+
+    /**
+     * As {@link #render(EdgeResult, String, Network, String, double, AssessHint, RunHint)}, with the
+     * interventions of {@code effects} (null: none) in the summary and in a section right after it.
+     */
+    public static String render(EdgeResult r, String resultName, Network truth, String truthName, double threshold,
+                                AssessHint hint, RunHint run, List<EffectResult> effects) {
         // the n × n parts are planned before any is built: a refusal with the figure, not an OutOfMemoryError
         TooLargeToReport.check(r.variables() == null ? 0 : r.variables().size(), Runtime.getRuntime().maxMemory());
         EdgeMatrix m = EdgeMatrix.of(r);
@@ -76,7 +90,8 @@ public final class HtmlReport {
                 drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[a][b] && !g[b][a];
             }
         }
-        ConsensusLayout lay = ConsensusLayout.of(m, g, drawn, "order".equals(r.method()) ? r.order() : null);
+        ConsensusLayout lay = ConsensusLayout.of(m, g, drawn, "order".equals(r.method()) ? r.order() : null,
+                r.settings() == null ? null : r.settings().tiers());
         StringBuilder h = new StringBuilder(64 * 1024);
         h.append("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n")
                 .append("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n")
@@ -86,22 +101,18 @@ public final class HtmlReport {
         h.append("<h1>Edge posteriors</h1>\n<p class=\"sub\">Edgewise report of <code>").append(esc(resultName))
                 .append("</code> \u2014 ").append(esc(methodName(r))).append(", ").append(m.size()).append(" variables")
                 .append(r.store() != null ? ", " + r.store().rows() + " rows" : "").append("</p>\n");
-        Cautions.write(h, r, ce, hint);
-        SummarySection.write(h, r, m, shown, rec, threshold);
-        ConvergenceSection.write(h, r, run);
-
-        h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
-        h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold, hint)).append(" Variables are layered by ")
-                .append("order".equals(r.method()) ? "the given order" : "a most probable order derived from the posteriors")
-                .append(" (").append(esc(lay.describe(m.variables()))).append("); hover over an edge for all its posteriors.</p>\n");
-        if (t != null) {
-            h.append("<p class=\"key cap\"><span><i class=\"sw\" style=\"background:").append(EdgeColour.TRUE.hex)
-                    .append("\"></i>in the known network (a line: joined either way)</span><span><i class=\"sw\" style=\"background:")
-                    .append(EdgeColour.REVERSED.hex)
-                    .append("\"></i>reverse of a known edge</span><span><i class=\"sw\" style=\"background:").append(EdgeColour.EXTRA.hex)
-                    .append("\"></i>not in the known network</span><span><i class=\"sw\" style=\"background:").append(EdgeColour.MISSED.hex)
-                    .append("\"></i>known edge not drawn (dashed)</span></p>\n");
+        SummarySection.write(h, r, m, ce, shown, rec, threshold, effects);
+        if (effects != null && !effects.isEmpty()) {
+            h.append(EffectSection.section(effects));
         }
+        h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
+        h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold, hint)).append(' ').append(layoutWords(r, lay, m))
+                .append(" Hover over an edge for all its posteriors.</p>\n");
+        if (t != null) {
+            legend(h);
+        }
+        Cautions.write(h, r, ce, hint);
+        ConvergenceSection.write(h, r, run);
 
         h.append("<h2>Edge posterior heatmap</h2>\n<div class=\"fig\">").append(Charts.heatmap(m, t)).append("</div>\n");
         h.append("<p class=\"cap\">Each cell is P(row \u2192 column | data), averaged over structures. "
@@ -120,6 +131,33 @@ public final class HtmlReport {
         ProvenanceSection.write(h, r, resultName);
         h.append("<p class=\"cap\">Written by Edgewise. This file is self-contained and loads nothing from the network.</p>\n");
         return h.append("</body>\n</html>\n").toString();
+    }
+
+    /** How the graph is laid out, in words (HTML). */
+    private static String layoutWords(EdgeResult r, ConsensusLayout lay, EdgeMatrix m) {
+        if (lay.layerNames() != null) {
+            return "One row per tier, the first tier at the top.";
+        }
+        if (!lay.free()) {
+            return "Variables are layered by " + ("order".equals(r.method()) ? "the given order" : "a most probable order")
+                    + " (" + esc(lay.describe(m.variables())) + ").";
+        }
+        return "Each group of joined variables is drawn on its own, placed so that joined variables sit close; "
+                + "position says nothing about direction (only arrowheads do).";
+    }
+
+    /** The key to the comparison with a known network: each line pattern drawn, with its glyph and its meaning in words. */
+    private static void legend(StringBuilder h) {
+        h.append("<p class=\"legend cap\">Compared with the known network (the label after each posterior):<br>");
+        for (EdgeMark k : new EdgeMark[] {EdgeMark.TRUE, EdgeMark.REVERSED, EdgeMark.EXTRA, EdgeMark.MISSED}) {
+            boolean missed = k == EdgeMark.MISSED;
+            h.append("<span><svg xmlns=\"http://www.w3.org/2000/svg\" width=\"46\" height=\"12\" aria-hidden=\"true\">")
+                    .append("<line x1=\"2\" y1=\"6\" x2=\"44\" y2=\"6\" stroke=\"").append(missed ? Charts.MISSED_INK : Charts.INK)
+                    .append("\" stroke-width=\"").append(missed ? "1.5" : "3.5").append('"')
+                    .append(k.dash.isEmpty() ? "" : " stroke-dasharray=\"" + k.dash + "\"").append("/></svg><b>")
+                    .append(k.glyph).append("</b> ").append(esc(k.words)).append("</span>");
+        }
+        h.append("</p>\n");
     }
 
     private static String methodName(EdgeResult r) {

@@ -19,8 +19,8 @@ import org.edgewise.driver.result.EdgeResult;
  * Cauchy–Schwarz inequality).
  */
 final class PairTable {
-    /** Pairs listed at most. */
-    static final int MAX_ROWS = 60;
+    /** Pairs listed at most (the rest are in the table's CSV). */
+    static final int MAX_ROWS = 25;
     /** Pairs with P(adjacent) below this are left out. */
     static final double MIN_ADJACENT = 0.1;
 
@@ -80,7 +80,8 @@ final class PairTable {
             h.append("</tr>\n");
         }
         h.append("</table>\n<p class=\"cap\">Pairs with P(adjacent) of at least ").append(f(MIN_ADJACENT, 1))
-                .append(rows.size() > MAX_ROWS ? " (the first " + MAX_ROWS + ")" : "").append(". ");
+                .append(rows.size() > MAX_ROWS ? " (the strongest " + MAX_ROWS + " of " + rows.size() + ")" : "").append("; ")
+                .append(CsvLink.link("pairs.csv", csv(m, ce, truth), "every pair as CSV")).append(". ");
         if (ce.assessed()) {
             h.append("P(adjacent) = P(a \u2192 b compelled) + P(b \u2192 a compelled) + P(reversible), from the essential graph "
                     + "(completed partially directed DAG) of every sampled network: a direction is <i>compelled</i> when every "
@@ -93,6 +94,23 @@ final class PairTable {
                     + "posteriors.").append(anyMcse ? " MCSE: at most the sum of the two edges' Monte Carlo standard errors." : "")
                     .append("</p>\n");
         }
+    }
+
+    /** Every pair with P(adjacent) above 0 as CSV: a, b, adjacent, the three direction posteriors (empty: not assessed), known. */
+    static String csv(EdgeMatrix m, ConsensusEdges ce, boolean[][] truth) {
+        StringBuilder sb = new StringBuilder(CsvLink.record(List.of("a", "b", "adjacent", "aToBCompelled", "bToACompelled",
+                "reversible", "knownNetwork")));
+        for (ConsensusEdges.Pair p : ce.pairs()) {
+            if (p.adjacent() <= 0) {
+                continue;
+            }
+            String a = m.variables().get(p.a());
+            String b = m.variables().get(p.b());
+            sb.append(CsvLink.record(List.of(a, b, f(p.adjacent(), 4), p.assessed() ? f(p.aToB(), 4) : "",
+                    p.assessed() ? f(p.bToA(), 4) : "", p.assessed() ? f(p.undirected(), 4) : "",
+                    truth == null ? "" : truth[p.a()][p.b()] ? a + " -> " + b : truth[p.b()][p.a()] ? b + " -> " + a : "no")));
+        }
+        return sb.toString();
     }
 
     private static Double sumOrNull(Double x, Double y) {

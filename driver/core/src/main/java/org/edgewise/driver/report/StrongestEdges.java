@@ -15,6 +15,9 @@ import org.edgewise.driver.result.EdgeResult;
  * first 60), both directions and the adjacency, MCSE and R̂ when sampled, and the known network.
  */
 final class StrongestEdges {
+    /** Edges listed at most (the rest are in the table's CSV). */
+    static final int MAX_ROWS = 25;
+
     private StrongestEdges() {
     }
 
@@ -49,7 +52,7 @@ final class StrongestEdges {
                 .append(mc ? "<th>MCSE</th><th>R\u0302</th>" : "").append(t != null ? "<th>known network</th>" : "").append("</tr>\n");
         int shown = 0;
         for (int[] e : pairs) {
-            if (shown++ == 60) {
+            if (shown++ == MAX_ROWS) {
                 break;
             }
             int a = e[0];
@@ -67,7 +70,17 @@ final class StrongestEdges {
             }
             h.append("</tr>\n");
         }
-        h.append("</table>\n<p class=\"cap\">Edges with a posterior of at least 0.1").append(pairs.size() > 60 ? " (the first 60)" : "")
+        StringBuilder csv = new StringBuilder(CsvLink.record(List.of("from", "to", "posterior")));
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a != b && m.p()[a][b] >= 0.001) {
+                    csv.append(CsvLink.record(List.of(m.variables().get(a), m.variables().get(b), f(m.p()[a][b], 4))));
+                }
+            }
+        }
+        h.append("</table>\n<p class=\"cap\">Edges with a posterior of at least 0.1")
+                .append(pairs.size() > MAX_ROWS ? " (the strongest " + MAX_ROWS + " of " + pairs.size() + ")" : "").append("; ")
+                .append(CsvLink.link("edges.csv", csv.toString(), "every edge with a posterior of 0.001 or more as CSV"))
                 .append(". P(adjacent) = P(from \u2192 to) + P(to \u2192 from), the posterior that the two are directly dependent "
                         + "in either direction.")
                 .append("order".equals(r.method()) ? "" : " Over unknown orders P(from \u2192 to) counts every network with that "

@@ -7,25 +7,94 @@ import static org.edgewise.driver.report.Html.row;
 
 import java.util.List;
 import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.result.Fragility;
 
 /**
- * The report's "Summary" table: method, variables, how the figures were obtained, log evidence,
- * order, DAG prior, the consensus graph's arrows and lines, the posteriors fragile under an ESS sweep
- * and, with a known network, the headline
- * recovery figures.
+ * The report's "Summary", which leads with the answer: the strongest dependencies, the directions
+ * the data (or the tiers, or the given order) fix, the effects asked, and the cautions that apply
+ * to this result (directions left open, posteriors fragile under the ESS sweep, candidates pruned
+ * at tally time that bound the posterior, chains that did not converge). The technical table
+ * (method, how the figures were obtained, log evidence, order, tiers, DAG prior, the consensus
+ * graph's arrows and lines, recovery of a known network) follows, folded.
  */
 final class SummarySection {
+    /** Dependencies named in the summary at most. */
+    static final int TOP = 8;
+
     private SummarySection() {
     }
 
-    static void write(StringBuilder h, EdgeResult r, EdgeMatrix m, List<ConsensusEdges.Drawn> shown,
-                                EdgeRecovery rec, double threshold) {
+    static void write(StringBuilder h, EdgeResult r, EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> shown,
+                      EdgeRecovery rec, double threshold, List<EffectResult> effects) {
         int arrows = 0;
+        int byTiers = 0;
         for (ConsensusEdges.Drawn d : shown) {
             arrows += d.shape() == ConsensusEdges.Shape.ARROW ? 1 : 0;
+            byTiers += d.byTiers() ? 1 : 0;
         }
-        h.append("<h2>Summary</h2>\n<table>\n");
+        List<ConsensusEdges.Drawn> strongest = new java.util.ArrayList<>(shown);
+        strongest.sort(java.util.Comparator.comparingDouble((ConsensusEdges.Drawn d) -> -d.p()));
+        h.append("<h2 id=\"summary\">Summary</h2>\n<div class=\"answer\">\n");
+        h.append("<p><b>Strongest dependencies</b> (posterior that the two are directly joined")
+                .append(ce.givenOrder() ? ", given the order" : "").append("):</p>\n<ul class=\"cols\">\n");
+        if (strongest.isEmpty()) {
+            h.append("<li>none above ").append(f(threshold, 2)).append("</li>\n");
+        }
+        for (int i = 0; i < Math.min(TOP, strongest.size()); i++) {
+            ConsensusEdges.Drawn d = strongest.get(i);
+            double adj = ce.givenOrder() ? d.p() : d.pair().adjacent();
+            h.append("<li>").append(esc(m.variables().get(d.from()))).append(d.shape() == ConsensusEdges.Shape.ARROW ? " \u2192 " : " \u2014 ")
+                    .append(esc(m.variables().get(d.to()))).append(" <b>").append(Html.prob(adj)).append("</b></li>\n");
+        }
+        h.append("</ul>\n");
+        if (strongest.size() > TOP) {
+            h.append("<p class=\"cap\">and ").append(strongest.size() - TOP).append(" more in the graph below.</p>\n");
+        }
+        h.append("<p><b>Directions:</b> ").append(directions(m, ce, shown, arrows, byTiers)).append("</p>\n");
+        List<List<String>> tiers = r.settings() == null ? null : r.settings().tiers();
+        if (tiers != null && !tiers.isEmpty()) {
+            h.append("<p><b>Tiers you gave</b> (no arrow may point to an earlier tier): ").append(esc(tierText(tiers))).append("</p>\n");
+        }
+        if (effects != null) {
+            for (EffectResult e : effects) {
+                h.append("<p><b>Effect asked:</b> ").append(EffectSection.headline(e)).append(" <a href=\"#interventions\">Details</a>.</p>\n");
+            }
+        }
+        h.append("</div>\n");
+        h.append("<div class=\"caution\">\n<h3>Cautions for this result</h3>\n<ul>\n");
+        int open = shown.size() - arrows;
+        if (!ce.givenOrder() && !ce.assessed()) {
+            h.append("<li><b>Directions unknown.</b> Which way each dependency runs was not worked out for this result, so the "
+                    + "graph draws lines only; see the assumptions below for how to ask for it.</li>\n");
+        } else if (open > 0) {
+            h.append("<li><b>").append(open).append(" of ").append(shown.size()).append(" dependencies have no direction the data fix</b> "
+                    + "(drawn as lines): networks pointing them either way fit the data equally well.</li>\n");
+        }
+        if (ce.givenOrder()) {
+            h.append("<li><b>Every arrow follows the order you gave</b>: an assumption, not something learned from the data.</li>\n");
+        }
+        h.append(Cautions.fragile(r));
+        if (r.candidateBoundary() != null && !r.candidateBoundary().isEmpty()) {
+            h.append("<li><b>Pruned candidates bound the result:</b> the candidate parents kept at tally time for ")
+                    .append(esc(String.join(", ", r.candidateBoundary())))
+                    .append(" carry posterior weight up to their limit, so edges into them from variables left out may be missed.</li>\n");
+        }
+        if (r.diagnostics() != null && !r.diagnostics().converged()) {
+            h.append("<li><b>The sampler did not converge:</b> do not use these posteriors yet (see Convergence).</li>\n");
+        }
+        if (effects != null) {
+            for (EffectResult e : effects) {
+                if (Boolean.FALSE.equals(e.converged())) {
+                    h.append("<li><b>The effect's sampler did not converge</b>: treat its figures as unsettled.</li>\n");
+                }
+            }
+        }
+        h.append("<li><b>A dependency is evidence of association under stated assumptions, not proof of causation.</b> "
+                + "Results can inform decisions about health or safety only together with domain experts and local practice.</li>\n");
+        h.append("</ul>\n</div>\n");
+
+        h.append("<details><summary>How these figures were computed</summary>\n<table>\n");
         row(h, "method", esc(r.method()));
         row(h, "variables", String.valueOf(m.size()));
         row(h, "estimates", ConvergenceSection.estimates(r));
@@ -35,8 +104,12 @@ final class SummarySection {
         if (r.order() != null && !r.order().isEmpty()) {
             row(h, "order", esc(String.join(", ", r.order())));
         }
+        if (tiers != null && !tiers.isEmpty()) {
+            row(h, "tiers", esc(tierText(tiers)));
+        }
         row(h, "DAG prior", dagPriorLabel(r));
-        row(h, "consensus graph (threshold " + f(threshold, 2) + ")", arrows + " arrow" + (arrows == 1 ? "" : "s") + ", "
+        row(h, "consensus graph (threshold " + f(threshold, 2) + ")", arrows + " arrow" + (arrows == 1 ? "" : "s")
+                + (byTiers > 0 ? " (" + byTiers + " fixed by the tiers)" : "") + ", "
                 + (shown.size() - arrows) + " line" + (shown.size() - arrows == 1 ? "" : "s"));
         List<EdgeResult.Fragile> fragile = Cautions.fragileOf(r);
         if (fragile != null) {
@@ -46,7 +119,45 @@ final class SummarySection {
             row(h, "recovery of the known network", "directed AUROC " + fig(rec.directed().auroc()) + ", skeleton AUROC "
                     + fig(rec.skeleton().auroc()) + ", SHD " + rec.consensus().shd());
         }
-        h.append("</table>\n");
+        h.append("</table>\n</details>\n");
+    }
+
+    /** The directions sentence (HTML): what fixes the arrows drawn, and how many pairs stay open. */
+    static String directions(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> shown, int arrows, int byTiers) {
+        if (ce.givenOrder()) {
+            return "every arrow is directed by the order you gave.";
+        }
+        List<String> data = new java.util.ArrayList<>();
+        for (ConsensusEdges.Drawn d : shown) {
+            if (d.shape() == ConsensusEdges.Shape.ARROW && !d.byTiers()) {
+                data.add(esc(m.variables().get(d.from()) + " \u2192 " + m.variables().get(d.to())) + " " + Html.prob(d.p()));
+            }
+        }
+        StringBuilder sb = new StringBuilder();
+        if (!ce.assessed()) {
+            sb.append("not assessed for this result (the dependencies are drawn as lines)");
+        } else if (data.isEmpty()) {
+            sb.append("the data fix no direction");
+        } else {
+            sb.append("the data fix ").append(data.size() == 1 ? "this one" : "these ").append(data.size() == 1 ? "" : data.size())
+                    .append(": <b>").append(String.join("; ", data)).append("</b> (the same in every network that fits equally well)");
+        }
+        if (byTiers > 0) {
+            sb.append("; the tiers you gave fix ").append(byTiers).append(byTiers == 1 ? " more" : " more");
+        }
+        int open = shown.size() - arrows;
+        if (ce.assessed() && open > 0) {
+            sb.append("; ").append(open).append(open == 1 ? " dependency runs" : " dependencies run").append(" either way as far as these data tell");
+        }
+        return sb.append('.').toString();
+    }
+
+    static String tierText(List<List<String>> tiers) {
+        List<String> parts = new java.util.ArrayList<>();
+        for (List<String> t : tiers) {
+            parts.add(String.join(", ", t));
+        }
+        return String.join(" \u2192 ", parts);
     }
 
     /** The fragility cell (HTML): each fragile headline posterior in words, or none across the ESS values tried. */

@@ -50,12 +50,15 @@ import org.edgewise.driver.UserError;
  * @param maxRhat           MCMC: the largest split-R̂, else null
  * @param assumptions       the assumptions the causal reading rests on
  * @param note              how to read it
+ * @param split             where the gap between conditioning and setting comes from (networks
+ *                          without a directed path vs with one), or null without a reference
+ *                          intervention or where risks are not estimable
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 @JsonPropertyOrder({"do", "target", "given", "probability", "mcse", "estimate", "versus",
     "difference", "differenceMcse", "ratio", "noPathProbability", "noPathMcse", "noPathEstimate", "interval",
     "posterior", "observational", "riskDifference", "riskRatio", "oddsRatio", "leadingMeasure", "measures", "observed",
-    "design"})
+    "design", "split"})
 public record EffectResult(@JsonProperty("do") Map<String, String> intervention, Map<String, String> target,
                            Map<String, String> given, Double probability, double mcse, String estimate, Versus versus,
                            Double difference, Double differenceMcse, Double ratio, double noPathProbability,
@@ -63,7 +66,7 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
                            Observational observational, Measure riskDifference, Measure riskRatio, Measure oddsRatio,
                            String leadingMeasure, String measures, Observed observed, Design design, String method, String dagPrior, String averagedOver,
                            List<String> order, EdgeResult.Settings settings, Boolean converged, Double maxRhat,
-                           List<String> assumptions, String note) implements JsonResult {
+                           List<String> assumptions, String note, Split split) implements JsonResult {
     /** The format version written and read. */
     public static final int FORMAT_VERSION = 1;
 
@@ -75,6 +78,14 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
     @Override
     public String kind() {
         return "effect";
+    }
+
+    /** This result with {@code split} beside it. */
+    public EffectResult withSplit(Split split) {
+        return new EffectResult(intervention, target, given, probability, mcse, estimate, versus, difference, differenceMcse, ratio,
+                noPathProbability, noPathMcse, noPathEstimate, interval, posterior, observational, riskDifference, riskRatio,
+                oddsRatio, leadingMeasure, measures, observed, design, method, dagPrior, averagedOver, order, settings, converged,
+                maxRhat, assumptions, note, split);
     }
 
     /** The reference intervention x = a0: its probability P(y | do(x = a0)[, w], D) and MCSE. */
@@ -150,6 +161,24 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Design(String type, String outcome, String state, Double sampleShare, Double prevalence, String note) {
+    }
+
+    /**
+     * The posterior split over "x cannot affect y" (no directed path) and "x affects y", and how
+     * much of the observational association each explains (analysis/EffectSplit has the formula).
+     *
+     * @param noEffect        P(no directed path from the set variables to the outcome)
+     * @param effect          1 − noEffect
+     * @param association     the model's observational difference P(y | x = a) − P(y | x = a0)
+     * @param setting         the effect's difference P(y | do(a)) − P(y | do(a0))
+     * @param directionPart   the gap's part from networks without a path: noEffect × association
+     * @param confoundingPart the gap's part from networks with one: effect × association − setting
+     * @param backDoor        the set variable's most probable parents (P ≥ 0.1, at most three)
+     * @param cause           {@code none}, {@code unknown direction}, {@code confounding} or {@code both}
+     * @param words           the sentence the CLI and the report print
+     */
+    public record Split(double noEffect, double effect, double association, double setting, double directionPart,
+                        double confoundingPart, List<String> backDoor, String cause, String words) {
     }
 
     /** Several results ({@code effect --cases}). */

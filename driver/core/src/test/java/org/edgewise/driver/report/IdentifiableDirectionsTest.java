@@ -35,8 +35,8 @@ class IdentifiableDirectionsTest {
                 continue;
             }
             String cls = p.getAttribute("class");
-            // an arrowhead exactly on arrows
-            assertEquals(cls.equals("arrow"), !p.getAttribute("marker-end").isEmpty(), cls);
+            // an arrowhead exactly on arrows (and on the known edges the figure does not support)
+            assertEquals(!cls.equals("line"), !p.getAttribute("marker-end").isEmpty(), cls);
             out.add(cls + ":" + p.getElementsByTagName("title").item(0).getTextContent());
         }
         return out;
@@ -128,7 +128,7 @@ class IdentifiableDirectionsTest {
         assertFalse(DotWriter.write(r, 0.5, null).contains("dir=none"));
     }
 
-    /** With a known network: a line is green when the truth joins the pair either way, an arrow orange when reversed. */
+    /** With a known network: a line is marked right when the truth joins the pair either way, an arrow marked reversed when it is. */
     @Test
     void truthColoursLinesBySkeleton() throws Exception {
         EdgeResult r = ReportFixtures.demoChain("structure-modular");
@@ -136,12 +136,50 @@ class IdentifiableDirectionsTest {
         t[0][1] = true; // season → ambient_heat: the line is right
         t[4][2] = true; // sensor_fault → compressor_wear: the compelled arrow is reversed
         String dot = DotWriter.write(r, 0.5, t);
-        assertTrue(line(dot, "\"ambient_heat\" -> \"season\"").endsWith(", color=\"" + EdgeColour.TRUE.hex + "\"];"), dot);
-        assertTrue(line(dot, "\"compressor_wear\" -> \"sensor_fault\"").endsWith(", color=\"" + EdgeColour.REVERSED.hex + "\"];"), dot);
-        assertTrue(line(dot, "\"compressor_age\" -> \"sensor_fault\"").endsWith(", color=\"" + EdgeColour.EXTRA.hex + "\"];"), dot);
+        // told by a glyph after the posterior and a line style, not by colour (readable in greyscale)
+        String heat = line(dot, "\"ambient_heat\" -> \"season\"");
+        assertTrue(heat.contains("[label=\"0.99 \u2713\"") && heat.endsWith(", style=solid];"), dot);
+        String wear = line(dot, "\"compressor_wear\" -> \"sensor_fault\"");
+        assertTrue(wear.contains("[label=\"0.93 \u21c4\"") && wear.endsWith(", style=solid];"), dot);
+        String age = line(dot, "\"compressor_age\" -> \"sensor_fault\"");
+        assertTrue(age.contains("[label=\"0.92 \u2717\"") && age.endsWith(", style=dotted];"), dot);
+        assertFalse(dot.contains("color="), dot);
         // the HTML draws the known edge of an undrawn pair? none here: both known pairs are drawn
         List<String> p = paths(HtmlReport.render(r, "demo.json", null, null, 0.5));
         assertEquals(4, p.size());
+    }
+
+    /**
+     * Tiers carried into the report (issue 21): with season in a tier before the rest, the pair
+     * season – ambient_heat, reversible as far as the data tell (a line without tiers), can only run
+     * season → ambient_heat: an arrow labelled as fixed by the tiers, counted in the summary, and the
+     * tiers named in the summary and the provenance. Pairs inside one tier stay as the data leave them.
+     */
+    @Test
+    void directionsFixedByTheTiersAreArrowsSaidToBe() throws Exception {
+        EdgeResult base = ReportFixtures.demoChain("structure-modular");
+        List<List<String>> tiers = List.of(List.of("season"),
+                List.of("ambient_heat", "compressor_wear", "compressor_age", "sensor_fault"));
+        EdgeResult.Settings s = base.settings();
+        EdgeResult r = new EdgeResult(base.method(), base.variables(), base.logEvidence(), base.logEvidenceNormalized(),
+                base.evidenceConvention(), base.order(), new EdgeResult.Settings(s.score(), s.ess(), s.prior(), s.maxParents(),
+                s.forbid(), s.require(), tiers), base.store(), base.edges(), base.parentSets(), base.bestNetwork(), base.diagnostics(),
+                base.features(), base.sensitivity(), base.dagPrior(), base.essentialGraph());
+        String html = HtmlReport.render(r, "demo.json", null, null, 0.5);
+        List<String> p = paths(html);
+        assertEquals(3, count(p, "arrow:"), p.toString());
+        assertEquals(1, count(p, "line:"), p.toString());
+        assertTrue(p.stream().anyMatch(x -> x.startsWith("arrow:season \u2013 ambient_heat:") && x.endsWith("(direction fixed by the tiers)")),
+                p.toString());
+        assertTrue(html.contains(">0.99 fixed by the tiers</text>"), html);
+        assertTrue(html.contains("<th>consensus graph (threshold 0.50)</th><td>3 arrows (1 fixed by the tiers), 1 line</td>"), html);
+        assertTrue(html.contains("<p><b>Tiers you gave</b> (no arrow may point to an earlier tier): season \u2192 ambient_heat, "
+                + "compressor_wear, compressor_age, sensor_fault</p>"), html);
+        assertTrue(html.contains("<th>tiers</th><td>season ; ambient_heat, compressor_wear, compressor_age, sensor_fault</td>"), html);
+        assertTrue(html.contains("the tiers you gave fix 1 more"), html);
+        assertTrue(html.contains("One row per tier, the first tier at the top."), html);
+        String dot = DotWriter.write(r, 0.5, null);
+        assertTrue(dot.contains("\"season\" -> \"ambient_heat\" [label=\"0.99 fixed by the tiers\", penwidth=5.97, tooltip="), dot);
     }
 
     static String line(String dot, String start) {

@@ -1,0 +1,144 @@
+package org.edgewise.driver.report;
+
+import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.junit.jupiter.api.Assertions.fail;
+
+import java.awt.image.BufferedImage;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import java.util.concurrent.TimeUnit;
+import javax.imageio.ImageIO;
+import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.analysis.EdgeAnalysis;
+import org.edgewise.driver.analysis.EffectAnalysis;
+import org.edgewise.driver.average.LocalScores;
+import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.UnknownOrderSettings;
+import org.edgewise.driver.effect.EffectEngine;
+import org.edgewise.driver.network.ForwardSampler;
+import org.edgewise.driver.network.Network;
+import org.edgewise.driver.network.RandomNetwork;
+import org.edgewise.driver.result.EdgeResult;
+import org.edgewise.driver.result.EffectResult;
+import org.edgewise.driver.result.ResultJson;
+import org.edgewise.driver.score.DagPrior;
+import org.edgewise.driver.score.FamilyScore;
+import org.edgewise.driver.score.ScoreKind;
+import org.edgewise.driver.store.InMemoryTally;
+import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.store.Variable;
+import org.junit.jupiter.api.Assumptions;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Screenshots of whole reports in headless Chromium, kept in {@code target/report-shots/} for a
+ * person to look at: the demo network (13 variables, exact over all DAGs, essential graph, an ESS
+ * sweep, an intervention, the known network) and a random network of 42 variables (partition MCMC
+ * with essential-graph features, the known network). Checked here: each page renders to a real
+ * picture, the graph fits the page width, and the summary comes before the figures. Skipped where
+ * Chromium is not installed (as {@link ReportBrowserTest}).
+ */
+class ReportScreenshotTest {
+    static final Path SHOTS = Path.of("target", "report-shots");
+
+    static ScoreStore tally(Network net, int rows, long seed) {
+        int n = net.size();
+        int[][] data = new int[rows][n];
+        SplittableRandom rng = new SplittableRandom(seed);
+        ForwardSampler sampler = new ForwardSampler(net);
+        for (int[] row : data) {
+            sampler.draw(rng, row);
+        }
+        List<Variable> vars = new ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            vars.add(new Variable(net.names().get(i), net.states().get(i)));
+        }
+        return InMemoryTally.tally(vars, data, 2, FamilyScore.of(ScoreKind.BDEU, 1.0));
+    }
+
+    static UnknownOrderSettings settings(UnknownOrderSettings.Method m, List<List<String>> tiers, Long steps, boolean essential) {
+        return new UnknownOrderSettings(m, tiers, 5L, 2, steps, null, 200, null, null, 600.0, false, false, 300, 3,
+                DagPrior.STRUCTURE_MODULAR, essential);
+    }
+
+    /**
+     * Results are written beside the screenshots; with {@code -Dedgewise.shots.reuse=true} a later run
+     * reads them back instead of averaging again (for quick looks while changing the report only).
+     */
+    static final boolean REUSE = Boolean.getBoolean("edgewise.shots.reuse");
+
+    /** The demo: 13 variables, exact over every DAG with an ESS sweep, and one intervention. */
+    static String demo() {
+        Network net = ReportFixtures.fleet();
+        Path edges = SHOTS.resolve("demo-13-edges.json");
+        Path effect = SHOTS.resolve("demo-13-effect.json");
+        if (REUSE && Files.isRegularFile(edges) && Files.isRegularFile(effect)) {
+            return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "fleet-network.json", 0.5, AssessHint.API,
+                    RunHint.API, EffectResult.read(effect));
+        }
+        ScoreStore store = tally(net, 3000, 11);
+        ScoringOptions so = ScoringOptions.asStored();
+        UnknownOrderSettings s = settings(UnknownOrderSettings.Method.EXACT, null, null, true);
+        EdgeResult r = EdgeAnalysis.run(store, Path.of("out/demo/store"), List.of(so, so.withEss(0.1), so.withEss(10)), null, s, 3,
+                ProgressListener.NONE, x -> { });
+        List<EffectResult> effects = EffectAnalysis.run(new EffectAnalysis.Request(LocalScores.build(store, so), null, s,
+                List.of(new EffectAnalysis.Question("door_openings=many", "spoilage=rejected", null, "door_openings=few", "")),
+                new EffectEngine.Settings(400, 5L, 1_000_000L)), ProgressListener.NONE);
+        ResultJson.write(edges, true, r);
+        ResultJson.write(effect, true, effects.get(0));
+        return HtmlReport.render(r, "edges.json", net, "fleet-network.json", 0.5, AssessHint.API, RunHint.API, effects);
+    }
+
+    /** 42 variables of a random network, partition MCMC with essential-graph features. */
+    static String wide() {
+        Network net = RandomNetwork.generate("x", 42, 3, 2, 6, 3.0, 0.02, 42L);
+        Path edges = SHOTS.resolve("random-42-edges.json");
+        if (REUSE && Files.isRegularFile(edges)) {
+            return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "random-42.json", 0.5);
+        }
+        ScoreStore store = tally(net, 2000, 12);
+        UnknownOrderSettings s = settings(UnknownOrderSettings.Method.MCMC, null, 2000L, false);
+        EdgeResult r = EdgeAnalysis.run(store, Path.of("store"), List.of(ScoringOptions.asStored()), null, s, 3,
+                ProgressListener.NONE, x -> { });
+        ResultJson.write(edges, true, r);
+        return HtmlReport.render(r, "edges.json", net, "random-42.json", 0.5);
+    }
+
+    @Test
+    void demoAndFortyTwoVariablesRenderReadably() throws Exception {
+        String browser = ReportBrowserTest.chromium();
+        Assumptions.assumeTrue(browser != null, "chromium is not installed; screenshots skipped");
+        Files.createDirectories(SHOTS);
+        shoot(browser, "demo-13", demo());
+        shoot(browser, "random-42", wide());
+    }
+
+    static void shoot(String browser, String name, String html) throws Exception {
+        Path page = SHOTS.resolve(name + ".html");
+        Files.writeString(page, html);
+        Path png = SHOTS.resolve(name + ".png");
+        Files.deleteIfExists(png);
+        Path profile = Files.createTempDirectory("chromium-profile");
+        Process p = new ProcessBuilder(browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic",
+                "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync",
+                "--hide-scrollbars", "--user-data-dir=" + profile, "--screenshot=" + png.toAbsolutePath(),
+                "--window-size=1200,7000", page.toAbsolutePath().toUri().toString())
+                .redirectErrorStream(true).redirectOutput(SHOTS.resolve(name + ".log").toFile()).start();
+        if (!p.waitFor(180, TimeUnit.SECONDS)) {
+            p.destroyForcibly();
+            fail("chromium did not finish within 180 s");
+        }
+        assertTrue(Files.isRegularFile(png), "no screenshot of " + name);
+        BufferedImage img = ImageIO.read(png.toFile());
+        assertTrue(img.getWidth() == 1200, name + ": width " + img.getWidth());
+        // slices a person can view one at a time
+        int slice = 1400;
+        for (int k = 0; k * slice < img.getHeight(); k++) {
+            int h = Math.min(slice, img.getHeight() - k * slice);
+            ImageIO.write(img.getSubimage(0, k * slice, img.getWidth(), h), "png", SHOTS.resolve(name + "-" + (k + 1) + ".png").toFile());
+        }
+    }
+}
