@@ -43,7 +43,7 @@ import org.apache.commons.math3.transform.TransformType;
  * rules, and the state says which applied:
  * <ul>
  *   <li>{@link State#SETTLED}: chains that started on both sides of the estimate (some at or below
- *       it, some at or above it, not all at one value) came to agree — over-dispersed starts that
+ *       it, some at or above it, within {@code settleSpan}; not all at one value) came to agree — over-dispersed starts that
  *       meet (Gelman &amp; Rubin 1992, sec. 2); it does not block convergence;</li>
  *   <li>{@link State#NEGLIGIBLE}: no chain started on the other side, but the quantity is a
  *       Rao-Blackwellised probability whose estimate in every chain is within
@@ -163,7 +163,8 @@ public final class ChainDiagnostics {
             hi = Math.max(hi, v);
         }
         State rule;
-        if (lo <= s.mean() && s.mean() <= hi && lo < hi) {
+        // sides at the resolution the draws agree to: a start within the span of the estimate is on both
+        if (lo <= s.mean() + settleSpan && s.mean() - settleSpan <= hi && lo < hi) {
             rule = State.SETTLED;
         } else if (raoBlackwellised && negligible(x)) {
             rule = State.NEGLIGIBLE;

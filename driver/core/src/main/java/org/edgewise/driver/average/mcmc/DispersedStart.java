@@ -4,8 +4,9 @@ import java.util.SplittableRandom;
 import org.edgewise.driver.average.OrderConstraints;
 
 /**
- * Where chain {@code chain} of a run starts: chains come in pairs, the first of a pair from a random
- * allowed order, the second from the order as far from it as the constraints allow — its reverse
+ * Where chain {@code chain} of a run starts: chains come in pairs, the first of a pair from an allowed
+ * order — hill-climbed for the first pair, random for the others — the second from the order as far
+ * from it as the constraints allow — its reverse
  * when nothing constrains the order. So for every pair of variables (a, b) one chain of each pair
  * starts with a before b and the other with b before a: every edge's posterior given the start order
  * is possible in one chain of the pair and impossible in the other, and the chains start on both
@@ -36,10 +37,29 @@ public record DispersedStart(int chain, long pairSeed) {
         return chain % 2 == 1;
     }
 
-    /** This chain's starting order under {@code oc}. */
-    public int[] order(OrderConstraints oc) {
+    /** Whether this chain's pair starts from a hill-climbed order (the first pair) rather than a random one. */
+    public boolean climbed() {
+        return chain < 2;
+    }
+
+    /**
+     * This chain's starting order under {@code oc}: the pair's random order — for the first pair
+     * improved by {@code climb} (a hill-climb to a local mode of the order posterior, given the
+     * random order and a seed both chains of the pair share, so both climb to the same order) — or
+     * its mirror ({@link #farthest}). The climbed chain starts where the strong edges are present;
+     * its mirror where they are impossible.
+     */
+    public int[] order(OrderConstraints oc, Climb climb) {
         int[] base = oc.randomOrder(new SplittableRandom(pairSeed));
+        if (climbed() && climb != null) {
+            base = climb.from(base, pairSeed ^ 0x632BE59BD9B4E019L);
+        }
         return mirrored() ? farthest(base, oc) : base;
+    }
+
+    /** A hill-climb of the order posterior from an order (deterministic given the seed). */
+    public interface Climb {
+        int[] from(int[] order, long seed);
     }
 
     /**

@@ -206,6 +206,36 @@ public final class OrderChain extends SteppedChain {
         return order.clone();
     }
 
+    /**
+     * A hill-climb: {@code sweeps}·n relocations, each of a variable drawn at random to its best
+     * position (the relocation move in the limit β → ∞, where the draw ∝ π^β puts all weight on the
+     * argmax; ties go to the leftmost). The score never falls; the chain's counts are left as they were.
+     */
+    void climb(int sweeps) {
+        double b = beta;
+        long acc = accepted;
+        beta = 1e12;
+        for (long k = 0; k < (long) sweeps * n; k++) {
+            relocateOne();
+        }
+        beta = b;
+        accepted = acc;
+    }
+
+    /**
+     * The order a hill-climb ({@link #climb}, {@value #CLIMB_SWEEPS} sweeps) reaches from {@code start}
+     * with random stream {@code seed}: the climbed start of {@link org.edgewise.driver.average.mcmc.DispersedStart}.
+     */
+    public static int[] climbed(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
+                                int[] start, long seed) {
+        OrderChain c = new OrderChain(ls, tables, oc, cpos, edgeOffset, false, new SplittableRandom(seed), null, 1, start);
+        c.climb(CLIMB_SWEEPS);
+        return c.order();
+    }
+
+    /** Relocations per variable of the hill-climbed start (enough for the climb to stall on the tables measured). */
+    static final int CLIMB_SWEEPS = 20;
+
     /** The Gibbs move of one variable's position (see the class comment). */
     private void relocateOne() {
         if (n < 2) {

@@ -16,7 +16,7 @@ import org.edgewise.driver.average.mcmc.McmcSettings;
 /**
  * Order MCMC (Friedman &amp; Koller 2003, "Being Bayesian about network structure", Machine
  * Learning 50): several chains over variable orders ({@link OrderChain}), each on its own thread
- * ({@link ChainRunner}) from dispersed starts — pairs of chains from a random order and its mirror
+ * ({@link ChainRunner}) from dispersed starts — pairs of chains from an order — hill-climbed for the first pair, random for the others — and its mirror
  * ({@link DispersedStart}), so that each edge has a chain of a pair starting on either side of it — with Rao-Blackwellised edge estimates —
  * the exact P(j → i | D, ≺) of each stored order, averaged over the draws of all chains — and,
  * per edge, feature and for the log score trace, rank-normalised split-R̂, bulk- and tail-ESS and
@@ -46,6 +46,12 @@ public final class OrderMcmc {
     private OrderMcmc() {
     }
 
+    /** The hill-climb of {@link DispersedStart}'s first pair ({@link OrderChain#climbed}). */
+    public static DispersedStart.Climb climb(LocalScores ls, org.edgewise.driver.average.ChildTables tables,
+                                             OrderConstraints oc, int[][] cpos, int[] offset) {
+        return (order, seed) -> OrderChain.climbed(ls, tables, oc, cpos, offset, order, seed);
+    }
+
     /** Runs the chains. {@code listener} may be null. */
     public static McmcResult run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
         int[][] cpos = ChainSet.candidatePositions(ls);
@@ -54,12 +60,12 @@ public final class OrderMcmc {
         if (rungs == 1) {
             return ChainSet.runChains(ls, offset, s, 1, 0, listener, (tables, rng, store, start) ->
                     new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate(),
-                            start.order(oc))).result();
+                            start.order(oc, climb(ls, tables, oc, cpos, offset)))).result();
         }
         double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMinFor(ls.variableCount()));
         return ChainSet.runChains(ls, offset, s, rungs, 0, listener, (tables, rng, store, start) -> {
             OrderChain[] ladder = new OrderChain[beta.length];
-            int[] first = start.order(oc);
+            int[] first = start.order(oc, climb(ls, tables, oc, cpos, offset));
             for (int r = 0; r < ladder.length; r++) {
                 ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate(),
                         first);
