@@ -43,7 +43,8 @@ import org.apache.commons.math3.transform.TransformType;
  * rules, and the state says which applied:
  * <ul>
  *   <li>{@link State#SETTLED}: chains that started on both sides of the estimate (some at or below
- *       it, some at or above it, within {@code settleSpan}; not all at one value) came to agree — over-dispersed starts that
+ *       it, some at or above it, to within {@code settleSpan}) came to agree — unless every draw of
+ *       every chain is the one value every chain started from (then no chain moved) — over-dispersed starts that
  *       meet (Gelman &amp; Rubin 1992, sec. 2); it does not block convergence;</li>
  *   <li>{@link State#NEGLIGIBLE}: no chain started on the other side, but the quantity is a
  *       Rao-Blackwellised probability whose estimate in every chain is within
@@ -163,8 +164,11 @@ public final class ChainDiagnostics {
             hi = Math.max(hi, v);
         }
         State rule;
-        // sides at the resolution the draws agree to: a start within the span of the estimate is on both
-        if (lo <= s.mean() + settleSpan && s.mean() - settleSpan <= hi && lo < hi) {
+        // sides at the resolution the draws agree to: a start within the span of the estimate is on both;
+        // chains whose every draw is the value they all started from never moved, and show nothing
+        boolean bracketed = lo <= s.mean() + settleSpan && s.mean() - settleSpan <= hi;
+        boolean moved = !(s.equalDraws() && lo == hi && lo == x[0][0]);
+        if (bracketed && moved) {
             rule = State.SETTLED;
         } else if (raoBlackwellised && negligible(x)) {
             rule = State.NEGLIGIBLE;

@@ -16,8 +16,9 @@ import org.junit.jupiter.api.Test;
  * draws (which meet R̂ and ESS, so that only quantity 1 decides), quantity 1 as each case sets it.
  * The reference is the rules themselves: chains that started on both sides of a value and agree
  * settle it (over-dispersed starts, Gelman &amp; Rubin 1992, "Inference from iterative simulation using
- * multiple sequences", Statistical Science 7, sec. 2); a value every chain started at and never left
- * is a shared trap unless its Rao-Blackwellised probability is below 1e-6 in every chain.
+ * multiple sequences", Statistical Science 7, sec. 2; a start within the settle span of the value
+ * counts on both sides); a value every chain started on one side of, or at and never left, is a
+ * shared trap unless its Rao-Blackwellised probability is below 1e-6 in every chain.
  */
 class AgreementRulesTest {
     private static final int CHAINS = 4;
@@ -72,10 +73,14 @@ class AgreementRulesTest {
         assertEquals(1, trap.traps());
         assertEquals("edge q1", trap.worst().get(0).quantity());
         assertEquals(ChainDiagnostics.State.TRAP, trap.worst().get(0).state());
-        // every chain started at 0 and stayed, but the estimate is 1e-3 — above the negligible bound: a trap
-        MultiChainDiagnostics.Report small = evaluate(all(1e-3), all(0), true);
-        assertEquals(ChainDiagnostics.State.TRAP, small.quantities()[1].state());
-        assertFalse(small.converged());
+        // every chain started far below (0) and all came to 0.3: none started above, a trap
+        MultiChainDiagnostics.Report below = evaluate(all(0.3), all(0), true);
+        assertEquals(ChainDiagnostics.State.TRAP, below.quantities()[1].state());
+        assertFalse(below.converged());
+        // started at 0, now 1e-3: within the settle span of every start, so on both sides — settled
+        MultiChainDiagnostics.Report near = evaluate(all(1e-3), all(0), true);
+        assertEquals(ChainDiagnostics.State.SETTLED, near.quantities()[1].state());
+        assertTrue(near.converged());
         // an indicator (not Rao-Blackwellised) equal to 0 in every draw of chains that all started at 0: a trap,
         // its draws say nothing about how probable the other value is
         MultiChainDiagnostics.Report indicator = evaluate(all(0), all(0), false);
@@ -85,7 +90,8 @@ class AgreementRulesTest {
 
     @Test
     void aRaoBlackwellisedValueBelowOneInAMillionInEveryChainIsNegligible() {
-        MultiChainDiagnostics.Report low = evaluate(new double[] {3e-9, 2e-7, 0, 5e-10}, all(0), true);
+        // every chain started where the edge had weight 0.6 and left it for values below 1e-6
+        MultiChainDiagnostics.Report low = evaluate(new double[] {3e-9, 2e-7, 0, 5e-10}, all(0.6), true);
         assertEquals(ChainDiagnostics.State.NEGLIGIBLE, low.quantities()[1].state());
         assertTrue(low.converged(), "a negligible quantity does not keep a sharp-data run from converging");
         assertEquals(1, low.negligible());
@@ -94,7 +100,7 @@ class AgreementRulesTest {
         assertEquals(ChainDiagnostics.State.NEGLIGIBLE, high.quantities()[1].state());
         assertTrue(high.converged());
         // one chain at 2e-6: not below the bound in every chain
-        MultiChainDiagnostics.Report one = evaluate(new double[] {3e-9, 2e-6, 0, 5e-10}, all(0), true);
+        MultiChainDiagnostics.Report one = evaluate(new double[] {3e-9, 2e-6, 0, 5e-10}, all(0.6), true);
         assertEquals(ChainDiagnostics.State.TRAP, one.quantities()[1].state());
         assertFalse(one.converged());
     }
