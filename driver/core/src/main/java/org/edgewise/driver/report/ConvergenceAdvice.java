@@ -78,7 +78,7 @@ public final class ConvergenceAdvice {
         return (d.settled() == null ? 0 : d.settled()) + " settled (chains that started on both sides agree), "
                 + d.negligible() + " negligible (the other value below 1e-6 in every chain), "
                 + d.traps() + (d.traps() == 1 ? " trap" : " traps") + " (every chain started on one side and stayed: "
-                + (d.traps() == 0 ? "none to block" : "they block") + ")";
+                + (d.traps() == 0 ? "none to block" : d.traps() == 1 ? "it blocks" : "they block") + ")";
     }
 
     /**
