@@ -155,6 +155,10 @@ final class UnknownOrderEdges {
         line(sb, "stopped", ConvergenceAdvice.stopped(d) + (d.stopReason() == null ? "" : " (" + d.stopReason() + ")"));
         line(sb, "targets", ConvergenceAdvice.targets(d));
         line(sb, "reached", ConvergenceAdvice.reached(d));
+        String agreed = ConvergenceAdvice.agreement(d);
+        if (agreed != null) {
+            line(sb, "agreeing", agreed);
+        }
         if (d.worst() != null) {
             for (int k = 0; k < d.worst().size(); k++) {
                 line(sb, k == 0 ? "worst" : "", ConvergenceAdvice.worst(d.worst().get(k)));

@@ -46,6 +46,31 @@ class ConvergenceTextTest {
     }
 
     @Test
+    void aSharedTrapIsNamedWithTheRuleThatJudgedEveryAgreeingQuantity() {
+        EdgeResult.Diagnostics base = diagnostics(false, "max-time",
+                List.of(new EdgeResult.Worst("edge v20 -> v19", null, null, 1.0e-4, null, "trap")));
+        EdgeResult.Diagnostics d = new EdgeResult.Diagnostics(base.chains(), base.steps(), base.burnIn(), base.seed(),
+                base.acceptance(), base.rhat(), base.bulkEffectiveSampleSize(), false, null, base.traceThin(), base.rhatTarget(),
+                base.effectiveSampleSizeTarget(), base.mcseTarget(), base.mcse(), base.tailEffectiveSampleSize(),
+                base.stopReason(), base.constant(), base.settled(), base.stuck(), base.settleSpan(), base.worst(),
+                base.drawsPerChain(), base.relocateShare(), base.checks(), base.checkSeconds(), base.samplingSeconds(), null, null,
+                40, 1);
+        assertEquals("""
+
+                Convergence (sampled by MCMC: every posterior carries its Monte Carlo standard error)
+                  verdict   NOT converged: do not use these posteriors yet
+                  stopped   the time budget ran out before every target was met (max-time)
+                  targets   R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature posterior
+                  reached   largest R-hat 1.0071, smallest bulk effective sample size 644, largest MCSE 0.0173
+                  agreeing  120 settled (chains that started on both sides agree), 40 negligible (the other value below 1e-6 in every chain), 1 trap (every chain started on one side and stayed: it blocks)
+                  worst     edge v20 -> v19: R-hat inf, bulk eff. n -, MCSE 0.0001 (trap: the same value in every draw, and every chain started on one side of it)
+                  next      Run longer: raise the time budget (--max-time).
+                            A trap means every chain started on the same side of a quantity and none came to the other side, so the chains may share one wrong mode: run longer, try more chains (--chains) or, where the number of variables allows, the exact method (--method exact).
+                            Until then, treat every posterior of this result as unreliable.
+                """ + RUN_LINE, UnknownOrderEdges.convergence(d));
+    }
+
+    @Test
     void anUnconvergedRunSaysWhyAndWhatToDo() {
         EdgeResult.Diagnostics d = diagnostics(false, "max-time",
                 List.of(new EdgeResult.Worst("edge v20 -> v19", 1.0071, 812.0, 0.0173, 640.0, "varies"),

@@ -242,11 +242,11 @@ class SavedSampleTest extends StoreFixture {
     /** The not-converged line of {@code edges --sample} / {@code predict --sample} over the short MCMC sample (seed 2). */
     static final String SHORT_SAMPLE_LINE = "WARNING: not converged (a fixed number of steps was run, with no check until "
             + "converged; needs R-hat < 1.01, bulk effective sample size >= 400, MCSE <= 0.01 for every edge and feature "
-            + "posterior): the posteriors are not reliable. Worst: edge v0 -> v2: R-hat inf, bulk eff. n -, MCSE 0.2500 (stuck: "
-            + "each chain keeps its own value); edge v1 -> v2: R-hat inf, bulk eff. n -, MCSE -; edge v2 -> v1: R-hat inf, "
-            + "bulk eff. n -, MCSE -; edge v0 -> v1: R-hat 1.439, bulk eff. n 9, MCSE 0.1703; edge v1 -> v0: R-hat 1.439, "
-            + "bulk eff. n 9, MCSE 0.1703. Run longer: raise the steps per chain (--steps) or run until converged instead "
-            + "(no --steps, or --rhat-target). " + UnconvergedExitTest.EXIT_3;
+            + "posterior): the posteriors are not reliable. Worst: edge v1 -> v2: R-hat 2.104, bulk eff. n 7, MCSE 0.2053; "
+            + "edge v2 -> v3: R-hat 2.104, bulk eff. n 7, MCSE 0.2053; edge v3 -> v2: R-hat 2.104, bulk eff. n 7, MCSE 0.2053; "
+            + "edge v2 -> v1: R-hat 1.488, bulk eff. n 9, MCSE 0.1799; edge v2 -> v4: R-hat 1.282, bulk eff. n 11, "
+            + "MCSE 0.1377. Run longer: raise the steps per chain (--steps) or run until converged instead "
+            + "(no --steps, or --rhat-target). "+ UnconvergedExitTest.EXIT_3;
 
     /**
      * Issue 19 point 2: features from a saved sample beyond 31 variables. A 35-variable chain-shaped random table (each

@@ -47,7 +47,8 @@ final class ChainReport {
                 s.targets().mcse(), finite(rep.maxMcse()), finite(rep.minEssTail()), r.outcome().stop().label(), rep.constant(),
                 rep.settled(), rep.stuck(), ChainDiagnostics.SETTLE_SPAN, worst, rep.drawsPerChain(),
                 McmcSettings.DEFAULT_RELOCATE, r.outcome().checks(), r.outcome().checkSeconds(),
-                r.outcome().samplingSeconds(), tempering(r), r.memory() == null ? null : r.memory().totalBytes());
+                r.outcome().samplingSeconds(), tempering(r), r.memory() == null ? null : r.memory().totalBytes(),
+                rep.negligible(), rep.traps());
     }
 
     /**

@@ -193,6 +193,11 @@ public final class OrderConstraints {
         return order;
     }
 
+    /** Whether {@code v} may come next once the variables marked {@code placed} are placed (its required predecessors are). */
+    public boolean readyAfter(int v, boolean[] placed) {
+        return readyToPlace(v, placed);
+    }
+
     private boolean readyToPlace(int v, boolean[] placed) {
         for (int u = 0; u < n; u++) {
             if (mustPrecede[u][v] && !placed[u]) {

@@ -62,7 +62,23 @@ public final class ConvergenceAdvice {
     public static String worst(EdgeResult.Worst w) {
         return w.quantity() + ": R-hat " + (w.rhat() == null ? "inf" : String.format(Locale.ROOT, "%.3f", w.rhat()))
                 + ", bulk eff. n " + orDash(w.bulkEffectiveSampleSize(), "%.0f") + ", MCSE " + orDash(w.mcse(), "%.4f")
-                + ("stuck".equals(w.state()) ? " (stuck: each chain keeps its own value)" : "");
+                + ("stuck".equals(w.state()) ? " (stuck: each chain keeps its own value)"
+                : "trap".equals(w.state()) ? " (trap: the same value in every draw, and every chain started on one side of it)"
+                : "");
+    }
+
+    /**
+     * Which rule judged the quantities whose draws agree, e.g. {@code 40 settled (chains that started
+     * on both sides agree), 50 negligible (...), 2 traps (...)}; null when the result predates the rules.
+     */
+    public static String agreement(EdgeResult.Diagnostics d) {
+        if (d.negligible() == null || d.traps() == null) {
+            return null;
+        }
+        return (d.settled() == null ? 0 : d.settled()) + " settled (chains that started on both sides agree), "
+                + d.negligible() + " negligible (the other value below 1e-6 in every chain), "
+                + d.traps() + (d.traps() == 1 ? " trap" : " traps") + " (every chain started on one side and stayed: "
+                + (d.traps() == 0 ? "none to block" : d.traps() == 1 ? "it blocks" : "they block") + ")";
     }
 
     /**
@@ -105,18 +121,20 @@ public final class ConvergenceAdvice {
             return out;
         }
         boolean stuck = false;
+        boolean trap = false;
         boolean onlyMcse = d.worst() != null && !d.worst().isEmpty() && d.mcseTarget() != null;
         double rt = rhatTarget(d);
         double et = effectiveSampleSizeTarget(d);
         if (d.worst() != null) {
             for (EdgeResult.Worst w : d.worst()) {
                 stuck |= "stuck".equals(w.state());
+                trap |= "trap".equals(w.state());
                 onlyMcse &= w.rhat() != null && w.rhat() < rt
                         && (w.bulkEffectiveSampleSize() == null || w.bulkEffectiveSampleSize() >= et)
                         && w.mcse() != null && w.mcse() > d.mcseTarget();
             }
         }
-        onlyMcse &= !stuck;
+        onlyMcse &= !stuck && !trap;
         String r = d.stopReason() == null ? "" : d.stopReason();
         if ("converged".equals(r)) {
             out.add("The chains met the targets but a posterior as reported did not (a posterior of "
@@ -129,6 +147,11 @@ public final class ConvergenceAdvice {
         if (stuck) {
             out.add("A stuck quantity means the chains sit in different modes, which running longer may not cure: try more "
                     + "chains (" + h.chains() + ") or, where the number of variables allows, the exact method (" + h.exact() + ").");
+        }
+        if (trap) {
+            out.add("A trap means every chain started on the same side of a quantity and none came to the other side, so "
+                    + "the chains may share one wrong mode: run longer, try more chains (" + h.chains()
+                    + ") or, where the number of variables allows, the exact method (" + h.exact() + ").");
         }
         if (onlyMcse && !"converged".equals(r)) {
             out.add("Or accept a larger Monte Carlo error with a larger MCSE target (" + h.mcseTarget()

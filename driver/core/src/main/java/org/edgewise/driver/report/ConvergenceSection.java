@@ -64,7 +64,12 @@ final class ConvergenceSection {
             }
             h.append("</table>\n<p class=\"cap\">").append(d.converged() ? "The quantities closest to a target"
                     : "The quantities furthest from the targets").append(", worst first. <i>stuck</i>: constant within each "
-                    + "chain but different between chains (R\u0302 \u221e).</p>\n");
+                    + "chain but different between chains (R\u0302 \u221e); <i>trap</i>: the same value in every draw of "
+                    + "every chain, all of which started on one side of it.</p>\n");
+        }
+        String agreed = ConvergenceAdvice.agreement(d);
+        if (agreed != null) {
+            h.append("<p>Quantities whose draws agree: ").append(esc(agreed)).append(".</p>\n");
         }
         h.append("<p><b>What to do next:</b></p>\n<ul>\n");
         for (String s : ConvergenceAdvice.next(d, hint)) {

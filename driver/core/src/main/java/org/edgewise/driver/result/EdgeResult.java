@@ -155,8 +155,13 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * is BDeu's equivalent sample size, {@link Settings#ess});
      * {@code converged}: every quantity has R̂ &lt; {@code rhatTarget} and bulk effective sample size ≥
      * {@code effectiveSampleSizeTarget}, and every reported edge and feature posterior a Monte Carlo
-     * standard error ≤ {@code mcseTarget}, except {@code constant} ones (equal in every draw) and
-     * {@code settled} ones (probabilities whose draws all lie within {@code settleSpan});
+     * standard error ≤ {@code mcseTarget}. Quantities whose draws agree ({@code constant}: equal in every
+     * draw; or within {@code settleSpan}) are judged by the rule the chains' dispersed starts allow, and
+     * counted by it: {@code settled} (chains that started on both sides of it agree: does not block),
+     * {@code negligible} (no chain started on the other side, but its Rao-Blackwellised probability is
+     * within 1e-6 of 0 or 1 in every chain: does not block) and {@code traps} (every chain started on one
+     * side and the other side is not negligible: blocks; such a quantity's {@code worst} state is
+     * {@code trap}); {@code negligible} and {@code traps} are null in results that predate the rule;
      * {@code mcse}: the largest MCSE of a deciding probability; {@code worst}: the quantities furthest
      * from the targets;
      * {@code stopReason}: {@code steps} (a fixed run), {@code converged}, {@code max-steps} or
@@ -173,12 +178,27 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                               Double mcse, Double tailEffectiveSampleSize, String stopReason,
                               Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
                               Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
-                              Double samplingSeconds, Tempering tempering, Long plannedMemoryBytes) {
+                              Double samplingSeconds, Tempering tempering, Long plannedMemoryBytes, Integer negligible,
+                              Integer traps) {
+        /** Diagnostics without the agreement rules' counts ({@code negligible}, {@code traps}: null). */
+        public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance,
+                           double rhat, double bulkEffectiveSampleSize, boolean converged, List<List<Double>> traces,
+                           int traceThin, Double rhatTarget, Double effectiveSampleSizeTarget, Double mcseTarget,
+                           Double mcse, Double tailEffectiveSampleSize, String stopReason,
+                           Integer constant, Integer settled, Integer stuck, Double settleSpan, List<Worst> worst,
+                           Integer drawsPerChain, Double relocateShare, Integer checks, Double checkSeconds,
+                           Double samplingSeconds, Tempering tempering, Long plannedMemoryBytes) {
+            this(chains, steps, burnIn, seed, acceptance, rhat, bulkEffectiveSampleSize, converged, traces, traceThin,
+                    rhatTarget, effectiveSampleSizeTarget, mcseTarget, mcse, tailEffectiveSampleSize, stopReason, constant,
+                    settled, stuck, settleSpan, worst, drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds,
+                    tempering, plannedMemoryBytes, null, null);
+        }
+
         /** Diagnostics with the original fields only. */
         public Diagnostics(int chains, long steps, long burnIn, long seed, double acceptance, double rhat,
                            double bulkEffectiveSampleSize, boolean converged, List<List<Double>> traces, int traceThin) {
             this(chains, steps, burnIn, seed, acceptance, rhat, bulkEffectiveSampleSize, converged, traces, traceThin, null, null, null, null,
-                    null, null, null, null, null, null, null, null, null, null, null, null, null, null);
+                    null, null, null, null, null, null, null, null, null, null, null, null, null, null, null, null);
         }
 
         /** The same diagnostics with another verdict, largest MCSE and worst list (e.g. after checking the reported estimates). */
@@ -186,7 +206,8 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
             return new Diagnostics(chains, steps, burnIn, seed, acceptance, rhat, bulkEffectiveSampleSize, converged,
                     traces, traceThin, rhatTarget, effectiveSampleSizeTarget, mcseTarget, mcse, tailEffectiveSampleSize,
                     stopReason, constant, settled, stuck, settleSpan, worst,
-                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes);
+                    drawsPerChain, relocateShare, checks, checkSeconds, samplingSeconds, tempering, plannedMemoryBytes,
+                    negligible, traps);
         }
     }
 

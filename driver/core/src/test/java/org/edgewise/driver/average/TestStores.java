@@ -22,6 +22,22 @@ public final class TestStores {
     }
 
     /**
+     * {@link #random}'s network sampled {@code rows} times, every row then repeated {@code times}
+     * times: a table whose posterior is as sharp as {@code rows · times} rows give while its
+     * structure is only as certain as {@code rows} distinct draws allow — the shape that trapped
+     * every chain in one wrong mode (issue 20).
+     */
+    public static ScoreStore repeated(int n, int arity, int d, int rows, int times, long seed) {
+        Network net = RandomNetwork.generate("v", n, arity, 2, n, 1.5, 0, seed);
+        int[][] once = new ForwardSampler(net).sample(rows, seed + 1);
+        int[][] all = new int[rows * times][];
+        for (int r = 0; r < all.length; r++) {
+            all[r] = once[r % rows];
+        }
+        return InMemoryTally.tally(RandomNetwork.variables(net), all, d, FamilyScore.withDefaults());
+    }
+
+    /**
      * A wide store: {@link RandomNetwork} (ternary, at most 2 parents drawn among the 6 preceding
      * variables), each child's candidate parents its {@code k} nearest neighbours on each side in
      * the generating order (standing in for a store tallied with {@code --candidates 2k}).

@@ -35,6 +35,28 @@ import org.apache.commons.math3.transform.TransformType;
  * {@link State#SETTLED}: however the chains move between the orders they visit, no estimate
  * formed from them can differ by more than that span, so its R̂ (which is scale-free, and
  * would flag chains that differ by 10⁻⁶) is reported but does not decide convergence.
+ *
+ * <p>Agreement is not convergence when every chain may sit in the same wrong mode (issue 20: an
+ * order-modular run said converged with an edge at 0 against an exact 0.20, all chains in one
+ * mode). So when the chains' starting values are known ({@link #summary(double[][], double, double[], boolean)}),
+ * a quantity whose draws agree (constant, or within {@code settleSpan}) is judged by one of three
+ * rules, and the state says which applied:
+ * <ul>
+ *   <li>{@link State#SETTLED}: chains that started on both sides of the estimate (some at or below
+ *       it, some at or above it, to within {@code settleSpan}) came to agree — unless every draw of
+ *       every chain is the one value every chain started from (then no chain moved) — over-dispersed starts that
+ *       meet (Gelman &amp; Rubin 1992, sec. 2); it does not block convergence;</li>
+ *   <li>{@link State#NEGLIGIBLE}: no chain started on the other side, but the quantity is a
+ *       Rao-Blackwellised probability whose estimate in every chain is within
+ *       {@value #NEGLIGIBLE} of 0 or of 1 — the other value is out of the chains' reach by the
+ *       chains' own exact conditional probabilities, so it does not block either;</li>
+ *   <li>{@link State#TRAP}: otherwise — every chain started on one side and stayed there, a trap the
+ *       chains may share; it blocks convergence.</li>
+ * </ul>
+ *
+ * <p>The MCSE of a Rao-Blackwellised probability ({@link #honestMcse}) is the largest of the ESS-based
+ * one above, a batch-means one (which sees the rare long excursions a Rao-Blackwellised estimate of
+ * a rare edge rests on) and a floor of 1/S for S pooled draws.
  */
 public final class ChainDiagnostics {
     /** R̂ below this counts as converged (Vehtari et al. 2021, sec. 4: 1.01). */
@@ -43,6 +65,12 @@ public final class ChainDiagnostics {
     public static final double ESS_TARGET = 400;
     /** Probabilities whose draws span less than this are {@link State#SETTLED}. */
     public static final double SETTLE_SPAN = 0.005;
+    /**
+     * A Rao-Blackwellised probability whose every chain's estimate is within this of 0 or 1 is
+     * {@link State#NEGLIGIBLE} when its draws agree (issue 20's figure: beyond any value a chain
+     * can reach in the draws a run keeps).
+     */
+    public static final double NEGLIGIBLE = 1e-6;
     /** Φ for the rank normalisation; no random generator (its draws are never asked for). */
     private static final NormalDistribution STANDARD_NORMAL = new NormalDistribution(null, 0, 1);
 
@@ -57,8 +85,15 @@ public final class ChainDiagnostics {
         CONSTANT,
         /** Constant within each chain, different between chains. */
         STUCK,
-        /** A probability whose draws all lie within {@link #SETTLE_SPAN}. */
-        SETTLED;
+        /**
+         * A probability whose draws all lie within {@link #SETTLE_SPAN} — when the starts are known,
+         * only if chains that started on both sides of it agree.
+         */
+        SETTLED,
+        /** Draws agree, no chain started on the other side, every chain's estimate within {@link #NEGLIGIBLE} of 0 or 1. */
+        NEGLIGIBLE,
+        /** Draws agree, every chain started on one side, and the other side is not negligible: a shared trap. */
+        TRAP;
 
         public String label() {
             return name().toLowerCase(java.util.Locale.ROOT);
@@ -71,9 +106,11 @@ public final class ChainDiagnostics {
      * @param rhat    max(bulk, folded) rank-normalised split-R̂; 1 when constant, +∞ when stuck
      * @param essBulk bulk-ESS; NaN when constant or stuck
      * @param essTail tail-ESS; NaN when neither tail indicator varies
-     * @param mcse    Monte Carlo standard error of the mean; 0 when constant
+     * @param mcse    Monte Carlo standard error of the mean ({@link #honestMcse}); 0 when constant and the starts are unknown
+     * @param equalDraws whether the quantity was equal in every draw of every chain
      */
-    public record Summary(double mean, double rhat, double essBulk, double essTail, double mcse, State state) {
+    public record Summary(double mean, double rhat, double essBulk, double essTail, double mcse, State state,
+                          boolean equalDraws) {
         /** Whether this quantity meets R̂ &lt; {@code rhatTarget} and bulk-ESS ≥ {@link #ESS_TARGET} (or does not vary enough to matter). */
         public boolean converged(double rhatTarget) {
             return converged(ConvergenceTargets.withRhat(rhatTarget), false);
@@ -86,8 +123,8 @@ public final class ChainDiagnostics {
          */
         public boolean converged(ConvergenceTargets t, boolean probability) {
             return switch (state) {
-                case CONSTANT, SETTLED -> true;
-                case STUCK -> false;
+                case CONSTANT, SETTLED, NEGLIGIBLE -> true;
+                case STUCK, TRAP -> false;
                 case VARIES -> rhat < t.rhat() && essBulk >= t.ess() && (!probability || mcse <= t.mcse());
             };
         }
@@ -98,8 +135,128 @@ public final class ChainDiagnostics {
         return summary(x, 0);
     }
 
-    /** The diagnostics of {@code x[c][t]} (chain c, draw t; chains of equal length ≥ 4). */
+    /** The diagnostics of {@code x[c][t]} (chain c, draw t; chains of equal length ≥ 4), starts unknown. */
     public static Summary summary(double[][] x, double settleSpan) {
+        return summary(x, settleSpan, null, false);
+    }
+
+    /**
+     * The diagnostics of {@code x[c][t]} with {@code starts[c]} the value of the quantity at chain c's
+     * starting state (null or any NaN: unknown, then agreeing draws are {@link State#CONSTANT} or
+     * {@link State#SETTLED} as before); {@code raoBlackwellised}: the draws are exact conditional
+     * probabilities (the {@link State#NEGLIGIBLE} rule and the MCSE floor apply to those only).
+     */
+    public static Summary summary(double[][] x, double settleSpan, double[] starts, boolean raoBlackwellised) {
+        Summary s = plain(x, settleSpan, raoBlackwellised);
+        // agreeing: equal draws, or all within the span — also when each chain is constant at its own value
+        boolean agreeing = s.state() == State.CONSTANT || s.state() == State.SETTLED
+                || (s.state() == State.STUCK && span(x) < settleSpan);
+        if (starts == null || !agreeing) {
+            return s;
+        }
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (double v : starts) {
+            if (Double.isNaN(v)) {
+                return s;
+            }
+            lo = Math.min(lo, v);
+            hi = Math.max(hi, v);
+        }
+        State rule;
+        // sides at the resolution the draws agree to: a start within the span of the estimate is on both;
+        // chains whose every draw is the value they all started from never moved, and show nothing
+        boolean bracketed = lo <= s.mean() + settleSpan && s.mean() - settleSpan <= hi;
+        boolean moved = !(s.equalDraws() && lo == hi && lo == x[0][0]);
+        if (bracketed && moved) {
+            rule = State.SETTLED;
+        } else if (raoBlackwellised && negligible(x)) {
+            rule = State.NEGLIGIBLE;
+        } else {
+            rule = State.TRAP;
+        }
+        return new Summary(s.mean(), s.rhat(), s.essBulk(), s.essTail(), s.mcse(), rule, s.equalDraws());
+    }
+
+    private static double span(double[][] x) {
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (double[] c : x) {
+            for (double v : c) {
+                lo = Math.min(lo, v);
+                hi = Math.max(hi, v);
+            }
+        }
+        return hi - lo;
+    }
+
+    /** Whether every chain's mean of {@code x} is within {@link #NEGLIGIBLE} of 0, or every one within it of 1. */
+    static boolean negligible(double[][] x) {
+        boolean low = true;
+        boolean high = true;
+        for (double[] c : x) {
+            double m = mean(c);
+            low &= m < NEGLIGIBLE;
+            high &= m > 1 - NEGLIGIBLE;
+        }
+        return low || high;
+    }
+
+    /**
+     * The MCSE of the pooled mean of {@code x} that its error can be trusted to: for Rao-Blackwellised
+     * probabilities the largest of {@code essMcse} (sqrt(var⁺/ESS)), the batch-means standard error over
+     * all chains and the floor; for other quantities {@code essMcse} (indicator draws are bounded, and
+     * an estimate of 0 or 1 from them reports the rule of three downstream, {@link McseBound}).
+     * Batch means (Flegal, Haran &amp; Jones 2008, "Markov chain Monte Carlo: can we trust the third
+     * significant figure?", Statistical Science 23): each chain cut into B = ⌊√T⌋ batches of
+     * b = ⌊T/B⌋ draws, σ̂² = b·Σ (batch mean − grand mean)² / (M·B − 1), MCSE = sqrt(σ̂²/(M·B·b)); the
+     * deviations are taken from the grand mean, so chains that disagree raise it. It sees what the
+     * ESS of the raw draws misses for a rare edge: a mean resting on a few long excursions (Geyer's
+     * truncation stops at the first negative pair). The floor, for Rao-Blackwellised probabilities,
+     * is 1/S for S pooled draws: no estimate from S draws resolves mass finer than one draw's share —
+     * a region of the state space the chains visit once in S draws shifts the mean by up to 1/S — so
+     * an estimate of 10⁻¹⁹ is not reported ± 10⁻²⁰.
+     */
+    static double honestMcse(double[][] x, double essMcse, boolean raoBlackwellised) {
+        double floor = raoBlackwellised ? 1.0 / ((double) x.length * x[0].length) : 0;
+        if (!raoBlackwellised) {
+            return Double.isNaN(essMcse) ? floor : essMcse;
+        }
+        int m = x.length;
+        int t = x[0].length;
+        int batches = Math.max(1, (int) Math.sqrt(t));
+        int b = t / batches;
+        double grand = 0;
+        for (double[] c : x) {
+            for (int k = 0; k < batches * b; k++) {
+                grand += c[k];
+            }
+        }
+        grand /= (double) m * batches * b;
+        double ss = 0;
+        for (double[] c : x) {
+            for (int j = 0; j < batches; j++) {
+                double bm = 0;
+                for (int k = j * b; k < (j + 1) * b; k++) {
+                    bm += c[k];
+                }
+                bm /= b;
+                ss += (bm - grand) * (bm - grand);
+            }
+        }
+        int nb = m * batches;
+        double bmMcse = nb > 1 ? Math.sqrt(b * ss / (nb - 1) / ((double) nb * b)) : Double.NaN;
+        double out = floor;
+        if (!Double.isNaN(essMcse)) {
+            out = Math.max(out, essMcse);
+        }
+        if (!Double.isNaN(bmMcse)) {
+            out = Math.max(out, bmMcse);
+        }
+        return out;
+    }
+
+    private static Summary plain(double[][] x, double settleSpan, boolean raoBlackwellised) {
         double[][] s = split(x);
         double lo = Double.POSITIVE_INFINITY;
         double hi = Double.NEGATIVE_INFINITY;
@@ -115,10 +272,11 @@ public final class ChainDiagnostics {
         }
         double mean = sum / total;
         if (x[0].length < 4) {
-            return new Summary(mean, Double.NaN, Double.NaN, Double.NaN, Double.NaN, State.VARIES);
+            return new Summary(mean, Double.NaN, Double.NaN, Double.NaN, Double.NaN, State.VARIES, lo == hi);
         }
         if (lo == hi) {
-            return new Summary(mean, 1.0, Double.NaN, Double.NaN, 0.0, State.CONSTANT);
+            return new Summary(mean, 1.0, Double.NaN, Double.NaN, raoBlackwellised ? honestMcse(x, 0, true) : 0.0,
+                    State.CONSTANT, true);
         }
         boolean within = false;
         for (double[] c : x) {
@@ -131,12 +289,12 @@ public final class ChainDiagnostics {
         }
         if (!within) {
             return new Summary(mean, Double.POSITIVE_INFINITY, Double.NaN, Double.NaN,
-                    Math.sqrt(variance(chainMeans(x)) / x.length), State.STUCK);
+                    honestMcse(x, Math.sqrt(variance(chainMeans(x)) / x.length), raoBlackwellised), State.STUCK, false);
         }
         if (hi - lo < settleSpan) {
             // settled: the classic split-R̂ for the record (cheap), no ESS — it decides nothing
-            return new Summary(mean, splitRhat(s), Double.NaN, Double.NaN, Math.sqrt(varPlus(s) / s.length / s[0].length),
-                    State.SETTLED);
+            return new Summary(mean, splitRhat(s), Double.NaN, Double.NaN,
+                    honestMcse(x, Math.sqrt(varPlus(s) / s.length / s[0].length), raoBlackwellised), State.SETTLED, false);
         }
         double rBulk = splitRhat(rankNormal(s));
         double[][] folded = new double[s.length][];
@@ -153,8 +311,9 @@ public final class ChainDiagnostics {
         double essTail = Math.min(orNaN(ess(indicator(s, quantile(s, 0.05)))),
                 orNaN(ess(indicator(s, quantile(s, 0.95)))));
         double essRaw = ess(s);
-        double mcse = Math.sqrt(varPlus(s) / essRaw);
-        return new Summary(mean, rhat, essBulk, essTail == Double.POSITIVE_INFINITY ? Double.NaN : essTail, mcse, State.VARIES);
+        double mcse = honestMcse(x, Math.sqrt(varPlus(s) / essRaw), raoBlackwellised);
+        return new Summary(mean, rhat, essBulk, essTail == Double.POSITIVE_INFINITY ? Double.NaN : essTail, mcse, State.VARIES,
+                false);
     }
 
     private static double orNaN(double e) {

@@ -13,7 +13,9 @@ import org.edgewise.driver.average.mcmc.DrawStore;
  * R̂ below the target ({@value ChainDiagnostics#RHAT_TARGET} by default) and bulk-ESS ≥ {@value ChainDiagnostics#ESS_TARGET},
  * and every probability a Monte Carlo standard error ≤ the MCSE target
  * ({@value ConvergenceTargets#DEFAULT_MCSE} by default; argued in {@link ConvergenceTargets}) —
- * constant and settled ones excepted, see {@link ChainDiagnostics.State} — and otherwise the
+ * quantities whose draws agree excepted when chains that started on both sides of them agree or
+ * their other value is negligible, and counted against it when every chain started on one side
+ * (a shared trap; the rules in {@link ChainDiagnostics}) — and otherwise the
  * quantities furthest from it. Any sampler whose chains fill {@link DrawStore}s (order MCMC
  * today) is diagnosed here the same way.
  *
@@ -39,11 +41,31 @@ public final class MultiChainDiagnostics {
 
         /** Fills {@code x[c][t]} with quantity {@code q} of draw {@code from[c] + t} of chain c. */
         void fill(int q, List<DrawStore> chains, int[] from, double[][] x);
+
+        /** Quantity {@code q} at {@code chain}'s starting state; NaN when unknown (then the starts decide nothing). */
+        default double start(int q, DrawStore chain) {
+            return chain.startQuantity(q);
+        }
+
+        /** Whether quantity {@code q}'s draws are exact conditional probabilities (Rao-Blackwellised), not indicators. */
+        default boolean raoBlackwellised(int q) {
+            return false;
+        }
     }
 
-    /** The per-draw quantities of the stores themselves, named by {@code labels}. */
+    /** The per-draw quantities of the stores themselves, named by {@code labels}: indicators, not Rao-Blackwellised. */
     public static Quantities rows(java.util.function.IntFunction<String> labels, int width) {
+        return rows(labels, width, false);
+    }
+
+    /** The per-draw quantities of the stores themselves, named by {@code labels}; {@code rb}: Rao-Blackwellised. */
+    public static Quantities rows(java.util.function.IntFunction<String> labels, int width, boolean rb) {
         return new Quantities() {
+            @Override
+            public boolean raoBlackwellised(int q) {
+                return rb;
+            }
+
             @Override
             public int count() {
                 return width;
@@ -88,16 +110,22 @@ public final class MultiChainDiagnostics {
      * @param minEssBulk   smallest bulk-ESS over the same
      * @param minEssTail   smallest tail-ESS over the same
      * @param maxMcse      largest MCSE over the deciding probabilities (NaN when none varies)
-     * @param constant     quantities equal in every draw
+     * @param constant     quantities equal in every draw (whichever rule then judged them)
      * @param settled      probabilities whose draws span less than {@value ChainDiagnostics#SETTLE_SPAN}
+     *                     (and, when the starts are known, chains that started on both sides agree)
      * @param stuck        quantities constant within each chain but different between chains
+     * @param negligible   agreeing probabilities whose other value is out of every chain's reach
+     *                     ({@link ChainDiagnostics.State#NEGLIGIBLE}: they do not block)
+     * @param traps        agreeing quantities every chain started on one side of, the other side not
+     *                     negligible ({@link ChainDiagnostics.State#TRAP}: they block)
      * @param worst        at most {@value #WORST} quantities, furthest from the targets first
      * @param drawsPerChain draws per chain used
      * @param targets      the targets the verdict used
      */
     public record Report(ChainDiagnostics.Summary[] quantities, ChainDiagnostics.Summary logScore, double maxRhat,
                          double minEssBulk, double minEssTail, double maxMcse, int constant, int settled, int stuck,
-                         List<Worst> worst, boolean converged, int drawsPerChain, ConvergenceTargets targets) {
+                         int negligible, int traps, List<Worst> worst, boolean converged, int drawsPerChain,
+                         ConvergenceTargets targets) {
     }
 
     /**
@@ -106,8 +134,8 @@ public final class MultiChainDiagnostics {
      */
     static double badness(ChainDiagnostics.Summary s, ConvergenceTargets t, boolean probability) {
         return switch (s.state()) {
-            case CONSTANT, SETTLED -> 0;
-            case STUCK -> Double.POSITIVE_INFINITY;
+            case CONSTANT, SETTLED, NEGLIGIBLE -> 0;
+            case STUCK, TRAP -> Double.POSITIVE_INFINITY;
             case VARIES -> Math.max(Math.max((s.rhat() - 1) / (t.rhat() - 1),
                     Double.isNaN(s.essBulk()) ? 0 : t.ess() / s.essBulk()),
                     probability && !Double.isNaN(s.mcse()) ? s.mcse() / t.mcse() : 0);
@@ -163,7 +191,12 @@ public final class MultiChainDiagnostics {
         ChainDiagnostics.Summary[] out = IntStream.range(0, q.count()).parallel().mapToObj(k -> {
             double[][] x = new double[m][draws];
             q.fill(k, chains, from, x);
-            return ChainDiagnostics.summary(x, q.probability(k) ? ChainDiagnostics.SETTLE_SPAN : 0);
+            double[] starts = new double[m];
+            for (int c = 0; c < m; c++) {
+                starts[c] = q.start(k, chains.get(c));
+            }
+            return ChainDiagnostics.summary(x, q.probability(k) ? ChainDiagnostics.SETTLE_SPAN : 0,
+                    q.probability(k) ? starts : null, q.raoBlackwellised(k));
         }).toArray(ChainDiagnostics.Summary[]::new);
         double[][] tr = new double[m][draws];
         for (int c = 0; c < m; c++) {
@@ -179,14 +212,20 @@ public final class MultiChainDiagnostics {
         int constant = 0;
         int settled = 0;
         int stuck = 0;
+        int negligible = 0;
+        int traps = 0;
         boolean converged = ls.converged(targets, false);
         List<Integer> order = new ArrayList<>();
         for (int k = 0; k <= out.length; k++) {
             ChainDiagnostics.Summary s = k < out.length ? out[k] : ls;
+            if (s.equalDraws()) {
+                constant++;
+            }
             switch (s.state()) {
-                case CONSTANT -> constant++;
                 case SETTLED -> settled++;
                 case STUCK -> stuck++;
+                case NEGLIGIBLE -> negligible++;
+                case TRAP -> traps++;
                 default -> { }
             }
             if (s.state() == ChainDiagnostics.State.VARIES || s.state() == ChainDiagnostics.State.STUCK) {
@@ -218,7 +257,7 @@ public final class MultiChainDiagnostics {
                     prob ? s.mcse() : Double.NaN, s.state()));
         }
         return new Report(out, ls, maxRhat, minBulk == Double.POSITIVE_INFINITY ? Double.NaN : minBulk,
-                minTail == Double.POSITIVE_INFINITY ? Double.NaN : minTail, maxMcse, constant, settled, stuck, worst,
+                minTail == Double.POSITIVE_INFINITY ? Double.NaN : minTail, maxMcse, constant, settled, stuck, negligible, traps, worst,
                 converged, draws, targets);
     }
 }

@@ -43,7 +43,7 @@ public final class ChainSet {
 
     /** Makes one chain over the shared zeta tables, with its own random stream and draw store. */
     public interface ChainFactory<C extends ChainRunner.Chain> {
-        C make(ChildTables tables, SplittableRandom rng, DrawStore store);
+        C make(ChildTables tables, SplittableRandom rng, DrawStore store, DispersedStart start);
     }
 
     /** The chains as they ended, the runner's outcome and the summary of their draws. */
@@ -82,11 +82,13 @@ public final class ChainSet {
         memory.checkHere();
         ChildTables tables = new ChildTables(ls, s.tableBudget());
         SplittableRandom root = new SplittableRandom(s.seed());
+        // a stream of its own (the seed with its bits mixed), so the chains' streams are the seed's whatever the starts
+        DispersedStart[] starts = DispersedStart.plan(s.chains(), new SplittableRandom(~s.seed() * 0x9E3779B97F4A7C15L));
         List<C> chains = new ArrayList<>();
         for (int c = 0; c < s.chains(); c++) {
             DrawStore store = s.untilConverged() ? new DrawStore(offset[n], s.targets().drawsPerChain(s.draws(), s.chains()), 1, 0)
                     : new DrawStore(offset[n], s.draws(), Math.max(1, s.steps() / s.draws()), s.burnIn());
-            chains.add(factory.make(tables, root.split(), store));
+            chains.add(factory.make(tables, root.split(), store, starts[c]));
         }
         double setup = (System.nanoTime() - t0) / 1e9;
         List<String> names = new ArrayList<>();

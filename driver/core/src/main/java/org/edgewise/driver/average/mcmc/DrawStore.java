@@ -15,6 +15,10 @@ import java.util.List;
  * posteriors given the order, as floats: 4 bytes per quantity per draw), its log score, and an
  * opaque state (the order, feature bits) the sampler uses for its own estimates. Memory:
  * 2·cap·(4·width + 8 + state) bytes per chain. Confined to its chain's thread while it runs.
+ *
+ * <p>It also keeps the chain's starting point ({@link #start}): the per-draw quantities and state of
+ * the state the chain began from, before any move — what tells the verdict on which side of each
+ * quantity the chain started ({@code MultiChainDiagnostics}).
  */
 public final class DrawStore {
     /** What a sampler stores per draw besides its quantities: a linear extension of the state and, with features, the feature bits. */
@@ -25,6 +29,8 @@ public final class DrawStore {
     }
 
     private final int width;
+    private float[] startRow;
+    private Drawn startState;
     private final int cap;
     private final long recordFrom;
     private long thin;
@@ -45,6 +51,25 @@ public final class DrawStore {
         this.cap = Math.max(2, cap);
         this.thin = Math.max(1, thin);
         this.recordFrom = recordFrom;
+    }
+
+    /** Keeps the chain's starting point: its per-draw quantities and state before any move. */
+    public void start(float[] quantities, Drawn st) {
+        if (quantities.length != width) {
+            throw new IllegalArgumentException("start of width " + quantities.length + ", store of " + width);
+        }
+        startRow = quantities;
+        startState = st;
+    }
+
+    /** Quantity {@code q} at the chain's start; NaN when the sampler recorded no start. */
+    public double startQuantity(int q) {
+        return startRow == null ? Double.NaN : startRow[q];
+    }
+
+    /** The chain's starting state, or null when the sampler recorded none. */
+    public Drawn startState() {
+        return startState;
     }
 
     /** Whether the draw after step {@code s} is to be stored. */

@@ -60,6 +60,24 @@ final class OrderQuantities implements MultiChainDiagnostics.Quantities {
         return true;
     }
 
+    /** The edges are Rao-Blackwellised (exact given the state); the features are indicators of one drawn DAG. */
+    @Override
+    public boolean raoBlackwellised(int q) {
+        return q < edgeFrom.length;
+    }
+
+    @Override
+    public double start(int q, DrawStore chain) {
+        if (q < edgeFrom.length) {
+            return chain.startQuantity(q);
+        }
+        DrawStore.Drawn st = chain.startState();
+        if (st == null || st.features() == null) {
+            return Double.NaN;
+        }
+        return DagFeatures.get(st.features(), q - edgeFrom.length) ? 1.0 : 0.0;
+    }
+
     @Override
     public void fill(int q, List<DrawStore> chains, int[] from, double[][] x) {
         if (q < edgeFrom.length) {

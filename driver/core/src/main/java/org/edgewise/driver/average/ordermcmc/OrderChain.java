@@ -86,6 +86,16 @@ public final class OrderChain extends SteppedChain {
 
     OrderChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
                boolean features, SplittableRandom rng, DrawStore draws, double relocate) {
+        this(ls, tables, oc, cpos, edgeOffset, features, rng, draws, relocate, null);
+    }
+
+    /**
+     * A chain from {@code startOrder} ({@link org.edgewise.driver.average.mcmc.DispersedStart}), or
+     * from a random allowed order when it is null or has no positive posterior; the start's
+     * quantities go to {@code draws} ({@link DrawStore#start}) when there is one.
+     */
+    OrderChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
+               boolean features, SplittableRandom rng, DrawStore draws, double relocate, int[] startOrder) {
         super(draws);
         this.ls = ls;
         this.tables = tables;
@@ -122,7 +132,7 @@ public final class OrderChain extends SteppedChain {
         chMask = new long[n];
         chLog = new double[n];
         for (int attempt = 0; ; attempt++) {
-            int[] start = oc.randomOrder(rng);
+            int[] start = attempt == 0 && startOrder != null ? startOrder : oc.randomOrder(rng);
             System.arraycopy(start, 0, order, 0, n);
             for (int p = 0; p < n; p++) {
                 pos[order[p]] = p;
@@ -140,6 +150,9 @@ public final class OrderChain extends SteppedChain {
                 throw new UserError("no starting order with positive posterior found in 1000 random orders "
                         + "(the required edges and the in-degree bound leave almost no order possible)");
             }
+        }
+        if (draws != null) {
+            recordStart(draws);
         }
     }
 
@@ -192,6 +205,36 @@ public final class OrderChain extends SteppedChain {
     int[] order() {
         return order.clone();
     }
+
+    /**
+     * A hill-climb: {@code sweeps}·n relocations, each of a variable drawn at random to its best
+     * position (the relocation move in the limit β → ∞, where the draw ∝ π^β puts all weight on the
+     * argmax; ties go to the leftmost). The score never falls; the chain's counts are left as they were.
+     */
+    void climb(int sweeps) {
+        double b = beta;
+        long acc = accepted;
+        beta = 1e12;
+        for (long k = 0; k < (long) sweeps * n; k++) {
+            relocateOne();
+        }
+        beta = b;
+        accepted = acc;
+    }
+
+    /**
+     * The order a hill-climb ({@link #climb}, {@value #CLIMB_SWEEPS} sweeps) reaches from {@code start}
+     * with random stream {@code seed}: the climbed start of {@link org.edgewise.driver.average.mcmc.DispersedStart}.
+     */
+    public static int[] climbed(LocalScores ls, ChildTables tables, OrderConstraints oc, int[][] cpos, int[] edgeOffset,
+                                int[] start, long seed) {
+        OrderChain c = new OrderChain(ls, tables, oc, cpos, edgeOffset, false, new SplittableRandom(seed), null, 1, start);
+        c.climb(CLIMB_SWEEPS);
+        return c.order();
+    }
+
+    /** Relocations per variable of the hill-climbed start (enough for the climb to stall on the tables measured). */
+    static final int CLIMB_SWEEPS = 20;
 
     /** The Gibbs move of one variable's position (see the class comment). */
     private void relocateOne() {
@@ -410,8 +453,21 @@ public final class OrderChain extends SteppedChain {
         recordInto(draws, stepsDone);
     }
 
+    /** Keeps the current state in {@code store} as the chain's start ({@link DrawStore#start}). */
+    void recordStart(DrawStore store) {
+        long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
+        store.start(edgeRow(), new State(order.clone(), feats));
+    }
+
     /** Stores the current state into {@code store} as the draw after step {@code step}. */
     void recordInto(DrawStore store, long step) {
+        float[] row = edgeRow();
+        long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
+        store.add(step, row, score, new State(order.clone(), feats));
+    }
+
+    /** The Rao-Blackwellised P(j → i | D, ≺) of every candidate edge given the current order (a float each). */
+    private float[] edgeRow() {
         float[] row = new float[edgeCount];
         for (int i = 0; i < n; i++) {
             long m = mask[i];
@@ -443,7 +499,6 @@ public final class OrderChain extends SteppedChain {
                 }
             }
         }
-        long[] feats = features ? DagFeatures.indicators(ls, DagFeatures.sampleDag(ls, mask, logSum, featureRng), order) : null;
-        store.add(step, row, score, new State(order.clone(), feats));
+        return row;
     }
 }

@@ -8,14 +8,16 @@ import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
 import org.edgewise.driver.average.exact.ExactOrderSum;
 import org.edgewise.driver.average.mcmc.ChainRunner;
 import org.edgewise.driver.average.mcmc.ChainSet;
+import org.edgewise.driver.average.mcmc.DispersedStart;
 import org.edgewise.driver.average.mcmc.McmcMemory;
 import org.edgewise.driver.average.mcmc.McmcResult;
 import org.edgewise.driver.average.mcmc.McmcSettings;
 
 /**
  * Order MCMC (Friedman &amp; Koller 2003, "Being Bayesian about network structure", Machine
- * Learning 50): several chains over variable orders ({@link OrderChain}), each from its own
- * random start on its own thread ({@link ChainRunner}), with Rao-Blackwellised edge estimates —
+ * Learning 50): several chains over variable orders ({@link OrderChain}), each on its own thread
+ * ({@link ChainRunner}) from dispersed starts — pairs of chains from an order — hill-climbed for the first pair, random for the others — and its mirror
+ * ({@link DispersedStart}), so that each edge has a chain of a pair starting on either side of it — with Rao-Blackwellised edge estimates —
  * the exact P(j → i | D, ≺) of each stored order, averaged over the draws of all chains — and,
  * per edge, feature and for the log score trace, rank-normalised split-R̂, bulk- and tail-ESS and
  * Monte Carlo standard error across chains ({@link MultiChainDiagnostics}).
@@ -44,20 +46,29 @@ public final class OrderMcmc {
     private OrderMcmc() {
     }
 
+    /** The hill-climb of {@link DispersedStart}'s first pair ({@link OrderChain#climbed}). */
+    public static DispersedStart.Climb climb(LocalScores ls, org.edgewise.driver.average.ChildTables tables,
+                                             OrderConstraints oc, int[][] cpos, int[] offset) {
+        return (order, seed) -> OrderChain.climbed(ls, tables, oc, cpos, offset, order, seed);
+    }
+
     /** Runs the chains. {@code listener} may be null. */
     public static McmcResult run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
         int[][] cpos = ChainSet.candidatePositions(ls);
         int[] offset = ChainSet.edgeOffsets(ls);
         int rungs = s.rungsFor(ls.variableCount());
         if (rungs == 1) {
-            return ChainSet.runChains(ls, offset, s, 1, 0, listener, (tables, rng, store) ->
-                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate())).result();
+            return ChainSet.runChains(ls, offset, s, 1, 0, listener, (tables, rng, store, start) ->
+                    new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng, store, s.relocate(),
+                            start.order(oc, climb(ls, tables, oc, cpos, offset)))).result();
         }
         double[] beta = TemperedOrderChain.geometricLadder(rungs, s.betaMinFor(ls.variableCount()));
-        return ChainSet.runChains(ls, offset, s, rungs, 0, listener, (tables, rng, store) -> {
+        return ChainSet.runChains(ls, offset, s, rungs, 0, listener, (tables, rng, store, start) -> {
             OrderChain[] ladder = new OrderChain[beta.length];
+            int[] first = start.order(oc, climb(ls, tables, oc, cpos, offset));
             for (int r = 0; r < ladder.length; r++) {
-                ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate());
+                ladder[r] = new OrderChain(ls, tables, oc, cpos, offset, s.features(), rng.split(), null, s.relocate(),
+                        first);
             }
             return new TemperedOrderChain(ladder, beta, rng.split(), store);
         }).result();

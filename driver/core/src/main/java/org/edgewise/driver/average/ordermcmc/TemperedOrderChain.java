@@ -61,6 +61,7 @@ public final class TemperedOrderChain extends SteppedChain {
         }
         swapTried = new long[Math.max(0, beta.length - 1)];
         swapAccepted = new long[swapTried.length];
+        rung[0].recordStart(draws);
     }
 
     /** R inverse temperatures β_r = β_min^{r/(R−1)}, from 1 down to {@code betaMin} (R = 1: just 1). */

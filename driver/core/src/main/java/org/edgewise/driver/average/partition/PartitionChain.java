@@ -131,6 +131,16 @@ public final class PartitionChain extends SteppedChain {
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
                    SplittableRandom rng, DrawStore draws, Mix mix) {
+        this(ls, tables, oc, edgeOffset, features, rng, draws, mix, null);
+    }
+
+    /**
+     * A chain from a DAG drawn given {@code startOrder} ({@link org.edgewise.driver.average.mcmc.DispersedStart};
+     * a random allowed order when null or of no posterior weight); the start's quantities go to
+     * {@code draws} ({@link DrawStore#start}).
+     */
+    PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
+                   SplittableRandom rng, DrawStore draws, Mix mix, int[] startOrder) {
         super(draws);
         this.mix = mix;
         this.ls = ls;
@@ -145,16 +155,23 @@ public final class PartitionChain extends SteppedChain {
         this.drawRng = rng.split();
         scores = new PartitionScores(ls, tables, oc);
         part = new PartitionState(ls, scores);
-        start(oc);
+        start(oc, startOrder);
+        float[] row = new float[edgeOffset[n]];
+        int[] sets = new int[n];
+        for (int i = 0; i < n; i++) {
+            sets[i] = part.tallyAndDraw(i, drawRng.nextDouble(), row, edgeOffset[i]);
+        }
+        draws.start(row, new State(part.linearExtension(), sets, part.elements().clone(),
+                features ? DagFeatures.indicators(ls, sets, part.linearExtension()) : null));
     }
 
-    /** A random start: a DAG drawn given a random allowed order, and its partition. */
-    private void start(OrderConstraints oc) {
+    /** The start: a DAG drawn given {@code first} (or a random allowed order), and its partition. */
+    private void start(OrderConstraints oc, int[] first) {
         long[] mask = new long[n];
         double[] z = new double[n];
         int[] element = new int[n];
         for (int attempt = 0; ; attempt++) {
-            int[] order = oc.randomOrder(rng);
+            int[] order = attempt == 0 && first != null ? first : oc.randomOrder(rng);
             int[] pos = OrderSum.positions(order, n);
             boolean ok = true;
             for (int i = 0; i < n; i++) {

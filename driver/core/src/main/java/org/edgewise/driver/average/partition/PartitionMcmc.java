@@ -16,7 +16,8 @@ import org.edgewise.driver.average.ordermcmc.OrderMcmc;
 
 /**
  * Partition MCMC (Kuipers &amp; Moffa 2017) for the structure-modular DAG prior: several
- * {@link PartitionChain}s, each from its own random start on its own thread, run and diagnosed
+ * {@link PartitionChain}s, each on its own thread from dispersed starts (DAGs drawn given an order —
+ * hill-climbed under the order posterior for the first pair, random for the others — and its mirror, {@link org.edgewise.driver.average.mcmc.DispersedStart}), run and diagnosed
  * exactly as order MCMC is ({@link ChainRunner}, {@link MultiChainDiagnostics}: rank-normalised
  * split-R̂, bulk- and tail-ESS and MCSE of every edge, feature and of the log score trace), with
  * Rao-Blackwellised edge estimates — P(j → i | Λ, D) of each stored partition Λ averaged over the
@@ -56,8 +57,10 @@ public final class PartitionMcmc {
     public static Result run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
         checkTiers(ls, oc);
         int[] offset = ChainSet.edgeOffsets(ls);
-        ChainSet.Run<PartitionChain> run = ChainSet.runChains(ls, offset, s, 1, PartitionChain.extraBytes(ls), listener, (tables, rng, store) ->
-                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT));
+        int[][] cpos = ChainSet.candidatePositions(ls);
+        ChainSet.Run<PartitionChain> run = ChainSet.runChains(ls, offset, s, 1, PartitionChain.extraBytes(ls), listener, (tables, rng, store, start) ->
+                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT,
+                        start.order(oc, OrderMcmc.climb(ls, tables, oc, cpos, offset))));
         List<PartitionChain> chains = run.chains();
         ChainRunner.Outcome out = run.outcome();
         McmcResult r = run.result();
