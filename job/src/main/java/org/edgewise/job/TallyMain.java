@@ -264,6 +264,9 @@ public final class TallyMain implements Callable<Integer> {
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
         }
         for (String in : inputs) {
+            if (in.isBlank()) { // Path.of("") is the working directory: never read it, nor refuse --out as inside it
+                throw new UserError("--input '" + in + "' names no file; give a file or directory");
+            }
             if (!in.matches("^[A-Za-z][A-Za-z0-9+.-]+:.*") || in.startsWith("file:")) { // a local file name
                 Checks.path(in.startsWith("file:") ? in.substring(5) : in, "--input");
             } else if (in.indexOf('\0') >= 0) {
@@ -325,7 +328,12 @@ public final class TallyMain implements Callable<Integer> {
         if (d.length() != 1) {
             throw new UserError("--delimiter must be one character or 'tab', got '" + d + "'");
         }
-        return d.charAt(0);
+        char c = d.charAt(0);
+        if (c == '"' || c == '\n' || c == '\r') {
+            throw new UserError("--delimiter cannot be " + (c == '"' ? "'\"', which quotes CSV fields" : "a line break, which ends "
+                    + "CSV rows") + "; give another character, e.g. ',' ';' or tab");
+        }
+        return c;
     }
 
     private static List<String> trimmed(List<String> xs) {
