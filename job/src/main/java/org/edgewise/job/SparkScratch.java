@@ -33,9 +33,13 @@ final class SparkScratch implements AutoCloseable {
         Runtime.getRuntime().addShutdownHook(hook);
     }
 
-    /** Creates the run's folder (and removes those of dead runs) under the scratch parent {@code extra} implies. */
-    static SparkScratch create(Map<String, String> extra) {
-        String given = extra.get("spark.local.dir");
+    /**
+     * Creates the run's folder (and removes those of dead runs) under the scratch parent {@code extra}
+     * implies for an {@code embedded} Spark; for a cluster's master (whose {@code spark.local.dir} is a
+     * folder on the workers) under {@code java.io.tmpdir}, where it holds the run's log only.
+     */
+    static SparkScratch create(Map<String, String> extra, boolean embedded) {
+        String given = embedded ? extra.get("spark.local.dir") : null;
         Path parent = Path.of(given != null && !given.isBlank() ? given.split(",")[0].trim()
                 : System.getProperty("java.io.tmpdir"));
         if (given != null && !given.isBlank() && !Files.isDirectory(parent)) {

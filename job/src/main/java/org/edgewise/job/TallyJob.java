@@ -92,6 +92,10 @@ public final class TallyJob {
             warnings.add(sameNumber);
         }
         List<Variable> variables = enc.variables();
+        for (String fewer : org.edgewise.job.input.BinCount.warnings(variables, o.discretize())) {
+            LOG.info(fewer);
+            warnings.add(fewer);
+        }
         int[] arity = enc.arities();
         LOG.info("input: {} rows read, {} counted, {} variables ({})", scan.stats().rows(), scan.countedRows(),
                 names.size(), describeArities(names, arity));

@@ -85,6 +85,9 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--conf", paramLabel = "k=v", description = "extra Spark configuration (repeatable)") List<String> conf = new ArrayList<>();
 
+    @Option(names = "--verbose", description = "show Spark's log and each step on standard error (default: into a log file, "
+            + "named in the message when the run fails)") boolean verbose;
+
     /** The most partitions {@code --partitions} may ask for: each is a task, and more only add scheduling. */
     static final int MAX_PARTITIONS = 10_000;
 
@@ -140,20 +143,31 @@ public final class TallyMain implements Callable<Integer> {
     public Integer call() {
         TallyOptions o = options();
         Map<String, String> extra = confPairs();
-        // an embedded Spark's scratch goes under a folder this run owns and removes, whatever the exit
-        SparkScratch scratch = given == null && master.startsWith("local") ? SparkScratch.create(extra) : null;
-        if (scratch != null) {
+        boolean embedded = master.startsWith("local");
+        // a run this command starts owns a scratch folder, removed whatever the exit: Spark's scratch
+        // (spark.local.dir) for an embedded Spark, and the log unless --verbose shows it
+        SparkScratch scratch = given == null ? SparkScratch.create(extra, embedded) : null;
+        if (scratch != null && embedded) {
             extra.put("spark.local.dir", scratch.dir().toString());
         }
-        SparkSession spark;
+        SparkLog log = scratch != null && !verbose ? SparkLog.quiet(scratch.dir().resolve("tally.log")) : null;
         try {
-            spark = given != null ? given : session(master, extra);
-        } catch (RuntimeException e) {
+            return tally(o, extra);
+        } catch (Throwable t) {
+            throw failed(t, o, scratch, log);
+        } finally {
+            if (log != null) {
+                log.close();
+            }
             if (scratch != null) {
                 scratch.close();
             }
-            throw e;
         }
+    }
+
+    /** Starts Spark (unless given), runs the tally, prints the warnings and the summary, stops Spark. */
+    private int tally(TallyOptions o, Map<String, String> extra) {
+        SparkSession spark = given != null ? given : session(master, extra);
         try {
             TallyJob.Summary s = TallyJob.run(spark, o, this::csvOnly);
             PrintWriter e = spec.commandLine().getErr();
@@ -171,10 +185,29 @@ public final class TallyMain implements Callable<Integer> {
             if (given == null) {
                 spark.stop();
             }
-            if (scratch != null) {
-                scratch.close();
-            }
         }
+    }
+
+    /**
+     * What a failed run reports: a user's mistake as it is (its one line says all; the log goes with
+     * the scratch folder); a fault of the machine ({@link EnvironmentFault}) as one line naming it, what
+     * to do and the kept log; anything else as the bug it is, naming the kept log.
+     */
+    private RuntimeException failed(Throwable t, TallyOptions o, SparkScratch scratch, SparkLog log) {
+        if (ErrorReport.userError(t) != null) {
+            return t instanceof RuntimeException r ? r : new IllegalStateException(t);
+        }
+        UserError env = EnvironmentFault.of(t, new EnvironmentFault.Run(master, o.inputs(), o.out(),
+                scratch == null ? null : scratch.dir().getParent()));
+        Path kept = log == null ? null : log.keep(scratch.dir().getParent());
+        String where = kept == null ? "" : "; Spark's log: " + kept;
+        if (env != null) {
+            return new UserError(env.getMessage() + where, t);
+        }
+        if (kept == null && t instanceof RuntimeException r) {
+            return r;
+        }
+        return new IllegalStateException("tally failed" + where, t);
     }
 
     /** Checks and collects the options (no Spark needed). */
@@ -231,6 +264,9 @@ public final class TallyMain implements Callable<Integer> {
             FamilyPlan.checkBudget(budget, Runtime.getRuntime().maxMemory(), "this JVM");
         }
         for (String in : inputs) {
+            if (in.isBlank()) { // Path.of("") is the working directory: never read it, nor refuse --out as inside it
+                throw new UserError("--input '" + in + "' names no file; give a file or directory");
+            }
             if (!in.matches("^[A-Za-z][A-Za-z0-9+.-]+:.*") || in.startsWith("file:")) { // a local file name
                 Checks.path(in.startsWith("file:") ? in.substring(5) : in, "--input");
             } else if (in.indexOf('\0') >= 0) {
@@ -292,7 +328,12 @@ public final class TallyMain implements Callable<Integer> {
         if (d.length() != 1) {
             throw new UserError("--delimiter must be one character or 'tab', got '" + d + "'");
         }
-        return d.charAt(0);
+        char c = d.charAt(0);
+        if (c == '"' || c == '\n' || c == '\r') {
+            throw new UserError("--delimiter cannot be " + (c == '"' ? "'\"', which quotes CSV fields" : "a line break, which ends "
+                    + "CSV rows") + "; give another character, e.g. ',' ';' or tab");
+        }
+        return c;
     }
 
     private static List<String> trimmed(List<String> xs) {

@@ -38,9 +38,9 @@ public final class TallyProgress {
         this.startNanos = startNanos;
     }
 
-    /** Redraws in place on stderr when the JVM has a console, else logs. */
+    /** Redraws in place on stderr (as the run found it: {@link SparkLog}) when the JVM has a console, else logs. */
     static TallyProgress start(String what, int families, int passes, long rows, Logger log) {
-        PrintStream t = System.console() != null ? System.err : null;
+        PrintStream t = System.console() != null ? SparkLog.terminal() : null;
         return new TallyProgress(what, families, passes, rows, t, log, System.nanoTime());
     }
 

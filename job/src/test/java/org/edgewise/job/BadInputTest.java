@@ -173,6 +173,20 @@ class BadInputTest extends TestTables.Refusals {
         assertTrue(bad.err().startsWith("tally: Invalid value for option '--max-parents'"), bad.err());
     }
 
+    /** Issue 23 item 8: an empty --input and a delimiter CSV cannot use are refused before Spark starts, not as a bug. */
+    @Test
+    void emptyInputNameAndUnusableDelimiters() {
+        for (String name : List.of("", " ")) {
+            TestTables.Run r = TestTables.tally(spark, "--input", name, "--out", nextOut().toString());
+            assertEquals(2, r.status(), r.err());
+            assertEquals("tally: --input '" + name + "' names no file; give a file or directory", r.err());
+        }
+        refused("tally: --delimiter cannot be '\"', which quotes CSV fields; give another character, e.g. ',' ';' or tab",
+                good, "--delimiter", "\"");
+        refused("tally: --delimiter cannot be a line break, which ends CSV rows; give another character, e.g. ',' ';' or tab",
+                good, "--delimiter", "\n");
+    }
+
     /** Issue 23 item 14: --discretize that would leave a column in one bin is refused, naming the bin. */
     @Test
     void discretizeToOneBin() throws IOException {
@@ -184,6 +198,30 @@ class BadInputTest extends TestTables.Refusals {
         refused("tally: --discretize x=2 leaves column 'x' in one bin [0,7]: at least 1/2 of its values are 0, its smallest, "
                 + "so no cut point lies above it; leave --discretize x out to keep its values as states", skewed, "--discretize", "x=2");
         org.junit.jupiter.api.Assertions.assertArrayEquals(before, Files.readAllBytes(constant));
+    }
+
+    /**
+     * Issue 23 item 14: --discretize that obtains two or more bins but fewer than asked says so in one
+     * warning line naming the column and the bins, and the store holds those bins. The cut points are
+     * the 1/4, 2/4 and 3/4 quantiles of 0,0,0,0,0,0,1,2,3,4 — the smallest value with at least q·n values
+     * at or below it (common practice; Spark's approxQuantile is exact on so few rows): 0, 0 and 2; a
+     * cut point at the minimum splits nothing, so one cut point (2) and two bins remain.
+     */
+    @Test
+    void discretizeToFewerBinsThanAskedIsSaid() throws IOException {
+        Path skewed = file("fewer.csv", "x,v\n0,a\n0,b\n0,a\n0,b\n0,a\n0,b\n1,a\n2,b\n3,a\n4,b\n");
+        Path out = dir.resolve("fewer-out").resolve("store");
+        TestTables.Run r = TestTables.tally(spark, "--input", skewed.toString(), "--out", out.toString(), "--discretize", "x=4");
+        assertEquals(0, r.status(), r.err());
+        assertEquals("tally: warning: --discretize x=4 cut column 'x' into 2 bins, not 4: [0,2), [2,4]; equal values share a "
+                + "bin, so values repeated across a cut point leave fewer bins", r.err().strip());
+        assertEquals(List.of("[0,2)", "[2,4]"), TestTables.read(out).variables().get(0).states());
+        // as many bins as asked: nothing to say
+        Path even = file("even.csv", "x,v\n1,a\n2,b\n3,a\n4,b\n");
+        TestTables.Run e = TestTables.tally(spark, "--input", even.toString(), "--out", dir.resolve("even-out").toString(),
+                "--discretize", "x=2");
+        assertEquals(0, e.status(), e.err());
+        assertEquals("", e.err().strip());
     }
 
     /**

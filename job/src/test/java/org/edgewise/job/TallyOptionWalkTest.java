@@ -88,6 +88,7 @@ class TallyOptionWalkTest {
         value("--partitions", "3");
         value("--memory-budget", "1k");
         value("--conf", "spark.sql.shuffle.partitions=3");
+        value("--verbose");
     }
 
     /**
@@ -106,6 +107,8 @@ class TallyOptionWalkTest {
                     + "replace; a command-line run starts its session on it (ClusterIT)");
             UNCHANGED.put("--conf" + l, "a performance setting of the session; the walk runs on the shared session, which a "
                     + "run's --conf does not reconfigure");
+            UNCHANGED.put("--verbose" + l, "where the log of a session the command starts goes; the walk runs on the shared "
+                    + "session, whose log is the tests' (SparkScratchTest runs tally in a child JVM with and without it)");
             UNCHANGED.put("--partitions" + l, "the store does not depend on how the rows are split, by design "
                     + "(QuotedLinesTest and WeightTest compare 1 and 3 partitions)");
         }

@@ -244,8 +244,9 @@ class ClusterIT {
 
     /** Starts {@code scripts/edgewise tally} on {@code master}; output goes to {@code <name>.log}. */
     private static Process tally(Path out, String master, String name, String... extra) throws IOException {
+        // --verbose: the tests read Spark's driver log (a lost executor) from the run's output
         List<String> cmd = new ArrayList<>(List.of("bash", root.resolve("scripts/edgewise").toString(), "tally",
-                "--master", master));
+                "--master", master, "--verbose"));
         cmd.addAll(tallyArgs(out, extra));
         return start(cmd, name);
     }

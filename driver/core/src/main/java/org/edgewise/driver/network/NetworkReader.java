@@ -25,7 +25,8 @@ import org.edgewise.driver.UserError;
  *  "variables": [{"name": "a", "states": ["lo","hi"], "parents": [], "cpt": [[0.3, 0.7]]}, …]}
  * </pre>
  * Checks, each a one-line {@link UserError} naming the file and variable (and row): unique
- * non-empty names, at least two distinct states, parents known, not the variable itself, not
+ * non-empty names, at least two distinct states, names and states that a table reads back as written
+ * (neither empty nor with blank space at either end), parents known, not the variable itself, not
  * repeated; one row per parent configuration (Π r_parents), each of r entries in [0, 1] summing
  * to 1 within {@value #TOLERANCE}; the graph acyclic.
  */
@@ -169,6 +170,30 @@ public final class NetworkReader {
         return out;
     }
 
+    /**
+     * A name or state that a table could not give back as written is refused: a table's reader (the
+     * tally's, the cases' reader) trims blank space (characters up to U+0020, {@link String#trim}) off
+     * every field and takes an empty field for a missing value, so data simulated from such a network
+     * would not read back as the network's states.
+     */
+    private static void readsBack(String where, String v, int i, List<String> states) {
+        if (!v.equals(v.trim())) {
+            throw new UserError(where + ": variable #" + (i + 1) + " '" + v + "' begins or ends with blank space, which a "
+                    + "table's reader trims off a column name (it would read back as '" + v.trim() + "'); write it without");
+        }
+        for (int k = 0; k < states.size(); k++) {
+            String s = states.get(k);
+            if (s.trim().isEmpty()) {
+                throw new UserError(where + ": variable '" + v + "' state #" + (k + 1) + " is " + (s.isEmpty() ? "empty" : "blank")
+                        + ", which a table's reader takes for a missing value, not a state; give it a name");
+            }
+            if (!s.equals(s.trim())) {
+                throw new UserError(where + ": variable '" + v + "' state '" + s + "' begins or ends with blank space, which a "
+                        + "table's reader trims off every field (it would read back as '" + s.trim() + "'); write it without");
+            }
+        }
+    }
+
     static Network build(String source, String name, String description, List<String> names,
                          List<List<String>> states, List<List<String>> parentNames, List<double[][]> rows) {
         String where = "network " + source;
@@ -189,6 +214,7 @@ public final class NetworkReader {
             if (new HashSet<>(st).size() != st.size()) {
                 throw new UserError(where + ": variable '" + v + "' lists a state twice");
             }
+            readsBack(where, v, i, st);
         }
         int[][] parents = new int[n][];
         double[][] cpt = new double[n][];
