@@ -121,7 +121,7 @@ public final class Tally {
         try {
             missing = MissingPolicy.valueOf(policy.trim().toUpperCase(Locale.ROOT));
         } catch (IllegalArgumentException e) {
-            throw new UserError("missing must be error, drop or state, got '" + policy + "'");
+            throw new UserError("missing must be error, drop, state or average, got '" + policy + "'");
         }
         return this;
     }
