@@ -162,7 +162,9 @@ public final class TallyJob {
                 double secs = (System.nanoTime() - start) / 1e9;
                 LOG.info("wrote {}: {} families from {} rows, averaged over missing values in {} rounds, {} s", o.out(),
                         plan.familyCount(), rows, rep.rounds(), String.format(Locale.ROOT, "%.1f", secs));
-                return new Summary(rows, 0, names.size(), plan.familyCount(), plan.coverCount(), 0, plan.totalCells(),
+                // a pass over the complete rows, then one per chain and round over the incomplete ones
+                int passes = plan.batches(o.memoryBudget(), names).size() * (1 + rep.rounds() * rep.chains());
+                return new Summary(rows, 0, names.size(), plan.familyCount(), plan.coverCount(), passes, plan.totalCells(),
                         secs, fingerprint, warnings, rep);
             }
             Counted counted = count(blocks, plan, score, o.memoryBudget(), names, rows, "families");

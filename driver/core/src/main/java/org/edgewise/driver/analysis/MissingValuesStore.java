@@ -68,6 +68,23 @@ public final class MissingValuesStore {
         return conv;
     }
 
+    /**
+     * The sample directory of a store averaged over missing values, or null for any other store (or
+     * a path that is no store: the request that reads it says why).
+     */
+    public static Path sampleOf(Path store) {
+        if (!java.nio.file.Files.isRegularFile(store.resolve(org.edgewise.driver.store.StoreFormat.MANIFEST))) {
+            return null;
+        }
+        MissingValues mv;
+        try {
+            mv = org.edgewise.driver.store.StoreReader.readManifest(store).missingValues();
+        } catch (org.edgewise.driver.UserError e) {
+            return null;
+        }
+        return mv == null ? null : store.resolve(mv.sample());
+    }
+
     /** Split-R̂ and bulk ESS of every edge indicator over the chains' kept DAGs (parent bitmasks). */
     static Convergence convergence(List<List<int[]>> kept, int n) {
         int chains = kept.size();
