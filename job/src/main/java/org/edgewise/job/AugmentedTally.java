@@ -30,7 +30,8 @@ import org.slf4j.LoggerFactory;
  * {@code --missing average}: the tally of a table whose missing cells are averaged over by data
  * augmentation ({@link Augmentation}; missing at random assumed). The complete rows are counted once;
  * each round redraws the missing cells of the incomplete rows in one Spark pass per chain (every
- * task with its own seed, so a round is reproducible whatever the partitioning) and counts those
+ * task's random stream derived from the round's seed and its partition index: the same seed and
+ * partitioning give the same store; another partitioning gives other, equally valid draws) and counts those
  * rows again, and the DAGs and parameters of the next round are drawn on the Spark driver. The store
  * holds the last completed table and the kept DAGs ({@link MissingValuesStore}).
  */
