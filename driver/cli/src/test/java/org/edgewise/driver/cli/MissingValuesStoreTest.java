@@ -36,6 +36,9 @@ class MissingValuesStoreTest {
     @TempDir
     static Path dir;
     static Path store;
+    static ScoreStore shape;
+    static MissingValues mv;
+    static Augmentation.Recount recount;
 
     @BeforeAll
     static void write() {
@@ -59,8 +62,8 @@ class MissingValuesStoreTest {
                 start[t][v] = Math.max(0, start[t][v]);
             }
         }
-        ScoreStore shape = InMemoryTally.tally(vars, start, 2, BDEU);
-        Augmentation.Recount recount = (chain, round, net, seed) -> {
+        shape = InMemoryTally.tally(vars, start, 2, BDEU);
+        recount = (chain, round, net, seed) -> {
             SplittableRandom rng = new SplittableRandom(seed);
             int[][] filled = new int[rows.length][];
             for (int t = 0; t < rows.length; t++) {
@@ -78,7 +81,7 @@ class MissingValuesStoreTest {
         Augmentation.Outcome o = Augmentation.run(shape.manifest(), BDEU,
                 DrawnNetwork.marginals(new int[] {2, 2, 2}, new long[][] {{30, 30}, {30, 29}, {30, 29}}, 1), settings,
                 recount, (r, s) -> { });
-        MissingValues mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, 40, 10, 2, 40, 3, "order-modular",
+        mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, 40, 10, 2, 40, 3, "order-modular",
                 MissingValues.SAMPLE, "the completed table of chain 1's last round", 2, 2 / 60.0,
                 new java.util.LinkedHashMap<>(Map.of("x0", 0.0)));
         mv = new MissingValues(mv.method(), mv.assumption(), mv.rounds(), mv.burnIn(), mv.chains(), mv.drawsPerRound(),
@@ -118,6 +121,20 @@ class MissingValuesStoreTest {
             CliRun r = CliRun.of(q);
             assertEquals(0, r.status(), q[0] + ": " + r.err());
         }
+    }
+
+    @Test
+    void anUnconvergedStoreSaysToTallyWithMoreRounds() {
+        // 4 rounds (2 kept) cannot reach a bulk effective sample size of 400 over 2 × 2 × 5 DAGs
+        Path few = dir.resolve("few");
+        MissingValuesStore.write(few, shape.manifest().withMissingValues(mv), Augmentation.run(shape.manifest(), BDEU,
+                DrawnNetwork.marginals(new int[] {2, 2, 2}, new long[][] {{30, 30}, {30, 29}, {30, 29}}, 1),
+                new Augmentation.Settings(4, 2, 2, 5, 3), recount, (r, s) -> { }), 1.0, false, "overwrite");
+        CliRun r = CliRun.of("edges", "--store", few.toString());
+        assertEquals(3, r.status(), r.err());
+        assertTrue(r.err().contains("WARNING: not converged (a fixed number of rounds of data augmentation was run over the"
+                + " missing values;"), r.err());
+        assertTrue(r.err().contains("Run longer: tally the table again with more rounds of data augmentation."), r.err());
     }
 
     @Test

@@ -57,7 +57,7 @@ public final class MissingValuesStore {
         settings.put("chains", s.chains());
         settings.put("drawsPerRound", s.drawsPerRound());
         SampleFile.Diagnostics diag = new SampleFile.Diagnostics(conv.maxRhat(), conv.minEss(), conv.converged(),
-                s.rounds(), s.burnIn(), 1, seconds, "steps", ChainDiagnostics.RHAT_TARGET, ChainDiagnostics.ESS_TARGET, null);
+                s.rounds(), s.burnIn(), 1, seconds, "rounds", ChainDiagnostics.RHAT_TARGET, ChainDiagnostics.ESS_TARGET, null);
         MissingValues mv = manifest.missingValues();
         ScoreStore last = o.last();
         SampleFile.Info info = SampleFile.info(manifest, target, "mcmc", mv.describe(), mv.dagPrior(), null,
