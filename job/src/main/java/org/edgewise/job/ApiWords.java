@@ -11,7 +11,7 @@ import java.util.regex.Pattern;
  * refusal as it leaves {@link Tally#writeTo}; the command line's words stay as they are.
  */
 final class ApiWords {
-    private static final Pattern MISSING = Pattern.compile("--missing (error|drop|state)\\b");
+    private static final Pattern MISSING = Pattern.compile("--missing (error|drop|state|average)\\b");
     private static final Pattern DISCRETIZE = Pattern.compile("--discretize (\\S+?)=(\\d+)");
     private static final Pattern EDGE = Pattern.compile("--(forbid|require) (\\S+?->\\S+?)(?=[:,;]?(\\s|$))");
     private static final Pattern NAMED = Pattern.compile("--(exclude|discretize|weight) ([^\\s:,;]+)(?=[:,;]?(\\s|$))");

@@ -54,6 +54,8 @@ public final class Tally {
     private long memoryBudget = 256L << 20;
     private boolean overwrite;
     private String weight;
+    private Long seed;
+    private Integer rounds;
 
     private Tally(Dataset<Row> data) {
         this.data = data;
@@ -116,12 +118,15 @@ public final class Tally {
         return this;
     }
 
-    /** Empty values: {@code error} (default), {@code drop} the row, or count as a {@code state} '(missing)'. */
+    /**
+     * Empty values: {@code error} (default), {@code drop} the row, count as a {@code state} '(missing)',
+     * or {@code average} over them by data augmentation (missing at random assumed).
+     */
     public Tally missing(String policy) {
         try {
             missing = MissingPolicy.valueOf(policy.trim().toUpperCase(Locale.ROOT));
         } catch (IllegalArgumentException e) {
-            throw new UserError("missing must be error, drop or state, got '" + policy + "'");
+            throw new UserError("missing must be error, drop, state or average, got '" + policy + "'");
         }
         return this;
     }
@@ -179,6 +184,21 @@ public final class Tally {
         return this;
     }
 
+    /** {@code missing("average")}: the seed of every draw of data augmentation (default 1). */
+    public Tally seed(long n) {
+        seed = n;
+        return this;
+    }
+
+    /** {@code missing("average")}: rounds of data augmentation per chain, 2 to 100,000, the first half burn-in (default 20). */
+    public Tally rounds(int r) {
+        if (r < 2 || r > 100_000) {
+            throw new UserError("rounds must be between 2 and 100000, got " + r);
+        }
+        rounds = r;
+        return this;
+    }
+
     /** Replace an existing store at the output path (default: refuse). */
     public Tally overwrite(boolean yes) {
         overwrite = yes;
@@ -202,7 +222,10 @@ public final class Tally {
         }
         TallyOptions o = new TallyOptions(List.of(Table.DATASET), "dataset", ',', out, overwrite, maxParents,
                 columns, exclude, candidates, forbid, require, tiers, missing, maxStates, discretize, score, ess,
-                partitions, memoryBudget, java.nio.charset.StandardCharsets.UTF_8, weight);
+                partitions, memoryBudget, java.nio.charset.StandardCharsets.UTF_8, weight, seed, rounds);
+        if ((seed != null || rounds != null) && missing != MissingPolicy.AVERAGE) {
+            throw new UserError((seed != null ? "seed" : "rounds") + " applies only with missing(\"average\")");
+        }
         try {
             return TallyJob.run(Table.of(data), o);
         } catch (UserError e) { // the job words its refusals for the command line: name the builder methods

@@ -47,9 +47,15 @@ public final class TallyJob {
 
     /** What a finished tally did. */
     public record Summary(long rows, long droppedRows, int variables, int families, int coverSets,
-                          int batches, long cells, double seconds, String fingerprint, List<String> warnings) {
+                          int batches, long cells, double seconds, String fingerprint, List<String> warnings,
+                          AugmentedTally.Report missingValues) {
         public Summary {
             warnings = warnings == null ? List.of() : List.copyOf(warnings);
+        }
+
+        public Summary(long rows, long droppedRows, int variables, int families, int coverSets,
+                       int batches, long cells, double seconds, String fingerprint, List<String> warnings) {
+            this(rows, droppedRows, variables, families, coverSets, batches, cells, seconds, fingerprint, warnings, null);
         }
     }
 
@@ -83,6 +89,12 @@ public final class TallyJob {
         Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         // the family count depends only on the header and d: refused before the rows are read
         FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(), o.candidates());
+        if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && (o.candidates() != null || o.weight() != null)) {
+            throw new UserError("--missing average does not take " + (o.candidates() != null ? "--candidates" : "--weight")
+                    + ": " + (o.candidates() != null ? "candidates chosen on one completion would bound every round"
+                    : "a line standing for many rows would get one completion for all of them")
+                    + "; choose --missing drop or state with it");
+        }
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
         List<String> warnings = new ArrayList<>();
@@ -139,6 +151,25 @@ public final class TallyJob {
                         + FamilyPlan.bytes(bound) + " of counts, more than half the driver's memory ("
                         + FamilyPlan.bytes(heap) + "); lower --max-parents or use --candidates K"
                         + " (or give the driver more memory)");
+            }
+            if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && anyMissing(scan.stats(), names.size())) {
+                long[] missingCells = new long[names.size()];
+                for (int v = 0; v < missingCells.length; v++) {
+                    missingCells[v] = scan.stats().missing(v);
+                }
+                Manifest m = Manifest.of("edgewise", Version.PROGRAM, Instant.now().toString(),
+                        new InputInfo(o.inputs(), table.format(), rows, 0, o.missing().label(), fingerprint, null),
+                        variables, o.maxParents(), null, cons.forbid(), cons.require(), cons.tiers(), o.score().label(),
+                        o.ess());
+                AugmentedTally.Report rep = AugmentedTally.run(blocks, o, names, arity, cand, req, m, rows, missingCells,
+                        start);
+                double secs = (System.nanoTime() - start) / 1e9;
+                LOG.info("wrote {}: {} families from {} rows, averaged over missing values in {} rounds, {} s", o.out(),
+                        plan.familyCount(), rows, rep.rounds(), String.format(Locale.ROOT, "%.1f", secs));
+                // a pass over the complete rows, then one per chain and round over the incomplete ones
+                int passes = plan.batches(o.memoryBudget(), names).size() * (1 + rep.rounds() * rep.chains());
+                return new Summary(rows, 0, names.size(), plan.familyCount(), plan.coverCount(), passes, plan.totalCells(),
+                        secs, fingerprint, warnings, rep);
             }
             Counted counted = count(blocks, plan, score, o.memoryBudget(), names, rows, "families");
             List<FamilyCounts> families = Arrays.asList(counted.families());
@@ -207,6 +238,15 @@ public final class TallyJob {
             progress.update(b + 1, done, System.nanoTime());
         }
         return new Counted(out, scores, batches.size());
+    }
+
+    private static boolean anyMissing(org.edgewise.job.input.ColumnStats stats, int n) {
+        for (int v = 0; v < n; v++) {
+            if (stats.missing(v) > 0) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** gain[i][j] = s(i,{j}) − s(i,∅) from the pairwise pass. */

@@ -66,7 +66,15 @@ public final class TallyMain implements Callable<Integer> {
     @Option(names = "--tiers", paramLabel = "\"a,b;c\"", description = "tiers of variables, earliest first, separated by ';' "
             + "(a repeated option appends tiers): no parent from a later tier") List<String> tiers = new ArrayList<>();
 
-    @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state", description = "empty fields: refuse (default), drop the row, or count as a state '(missing)'") String missing;
+    @Option(names = "--missing", defaultValue = "error", paramLabel = "error|drop|state|average", description = "empty fields: refuse (default), drop the row "
+            + "(biased unless values are missing completely at random), count as a state '(missing)' (its dependence on other "
+            + "variables reads as structure), or average over them by data augmentation (missing at random assumed)") String missing;
+
+    @Option(names = "--seed", paramLabel = "N", description = "--missing average: the seed of every draw (default "
+            + TallyOptions.DEFAULT_SEED + ")") Long seed;
+
+    @Option(names = "--rounds", paramLabel = "R", description = "--missing average: rounds of data augmentation per chain, "
+            + "the first half burn-in (default " + TallyOptions.DEFAULT_ROUNDS + ")") Integer rounds;
 
     @Option(names = "--weight", paramLabel = "COL", description = "a table of counts: column COL holds the number of rows each line stands for "
             + "(a whole number, 0 or more); counts, scores and fingerprint are those of the table expanded to one row per unit. COL is never a variable") String weight;
@@ -179,6 +187,20 @@ public final class TallyMain implements Callable<Integer> {
             w.printf(Locale.ROOT, "tally: wrote %s — %d families over %d variables from %d rows (%d dropped), "
                             + "%d variable sets in %d %s, %.1f s%n", o.out(), s.families(), s.variables(), s.rows(),
                     s.droppedRows(), s.coverSets(), s.batches(), s.batches() == 1 ? "pass" : "passes", s.seconds());
+            if (s.missingValues() != null) {
+                AugmentedTally.Report r = s.missingValues();
+                w.printf(Locale.ROOT, "tally: averaged over missing values by data augmentation (missing at random assumed): "
+                                + "%d rounds, burn-in %d, %d chains; largest R̂ over rounds %.3f (%s)%n", r.rounds(), r.burnIn(),
+                        r.chains(), r.maxRhat(), r.converged() ? "converged" : "not converged: more --rounds");
+                w.printf(Locale.ROOT, "tally: incomplete rows %d (%.1f%%); missing cells per variable: %s%n", r.incompleteRows(),
+                        100 * r.incompleteRowShare(), shares(r.missingCellShare()));
+                double sum = 0;
+                for (double x : r.roundSeconds()) {
+                    sum += x;
+                }
+                w.printf(Locale.ROOT, "tally: complete rows counted once in %.1f s; %.1f s per round on average%n",
+                        r.completeRowsSeconds(), sum / r.roundSeconds().length);
+            }
             w.flush();
             return 0;
         } finally {
@@ -238,7 +260,14 @@ public final class TallyMain implements Callable<Integer> {
         try {
             policy = MissingPolicy.valueOf(missing.trim().toUpperCase(Locale.ROOT));
         } catch (IllegalArgumentException e) {
-            throw new UserError("--missing must be error, drop or state, got '" + missing + "'");
+            throw new UserError("--missing must be error, drop, state or average, got '" + missing + "'");
+        }
+        Checks.notApplicable(seed != null && policy != MissingPolicy.AVERAGE, "--seed", "without --missing average",
+                "it seeds the draws of missing values; a tally that draws nothing has no seed");
+        Checks.notApplicable(rounds != null && policy != MissingPolicy.AVERAGE, "--rounds", "without --missing average",
+                "it counts rounds of data augmentation");
+        if (rounds != null && (rounds < 2 || rounds > 100_000)) {
+            throw new UserError("--rounds must be between 2 and 100000, got " + rounds);
         }
         String fmt = format.toLowerCase(Locale.ROOT);
         if (!List.of("csv", "parquet", "auto").contains(fmt)) {
@@ -287,7 +316,18 @@ public final class TallyMain implements Callable<Integer> {
         return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
                 tierList, policy, maxStates, bins, kind, essValue, partitions, budget, charset,
-                weight == null ? null : weight.trim());
+                weight == null ? null : weight.trim(), seed, rounds);
+    }
+
+    private static String shares(Map<String, Double> share) {
+        StringBuilder sb = new StringBuilder();
+        for (Map.Entry<String, Double> e : share.entrySet()) {
+            if (e.getValue() > 0) {
+                sb.append(sb.length() == 0 ? "" : ", ").append(e.getKey()).append(' ')
+                        .append(String.format(Locale.ROOT, "%.1f%%", 100 * e.getValue()));
+            }
+        }
+        return sb.toString();
     }
 
     /** Refuses the options that only read CSV text when the inputs turn out to be Parquet (known once their files are listed). */

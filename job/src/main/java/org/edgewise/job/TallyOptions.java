@@ -26,13 +26,19 @@ import org.edgewise.driver.store.EdgeRule;
  * @param encoding     character encoding of CSV input (invalid bytes are refused, never replaced)
  * @param weight       the column holding the number of rows each line stands for (a table of
  *                     counts), never a variable; null when every line is one row
+ * @param seed         the seed of data augmentation ({@link MissingPolicy#AVERAGE}); null when not given
+ * @param rounds       rounds of data augmentation per chain; null when not given
  */
 public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                            int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                            List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
                            MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
                            ScoreKind score, double ess, Integer partitions, long memoryBudget,
-                           java.nio.charset.Charset encoding, String weight) {
+                           java.nio.charset.Charset encoding, String weight, Long seed, Integer rounds) {
+    /** Rounds of data augmentation per chain when {@code rounds} is not given. */
+    public static final int DEFAULT_ROUNDS = 20;
+    /** The seed of data augmentation when {@code seed} is not given. */
+    public static final long DEFAULT_SEED = 1;
 
     /** What to do with an empty field. */
     public enum MissingPolicy {
@@ -41,7 +47,9 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
         /** drop every row with a missing value in a selected column. */
         DROP,
         /** treat a missing value as one more state of that variable. */
-        STATE;
+        STATE,
+        /** average over the missing values by data augmentation (missing at random assumed). */
+        AVERAGE;
 
         public String label() {
             return name().toLowerCase(java.util.Locale.ROOT);
@@ -68,6 +76,27 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                         java.nio.charset.Charset encoding) {
         this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
                 missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, null);
+    }
+
+    /** No data-augmentation settings (the defaults). */
+    public TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
+                        int maxParents, List<String> columns, List<String> exclude, Integer candidates,
+                        List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
+                        MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
+                        ScoreKind score, double ess, Integer partitions, long memoryBudget,
+                        java.nio.charset.Charset encoding, String weight) {
+        this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, weight, null, null);
+    }
+
+    /** The seed of data augmentation (the default when not given). */
+    public long seedOrDefault() {
+        return seed == null ? DEFAULT_SEED : seed;
+    }
+
+    /** Rounds of data augmentation per chain (the default when not given). */
+    public int roundsOrDefault() {
+        return rounds == null ? DEFAULT_ROUNDS : rounds;
     }
 
     public TallyOptions {

@@ -110,7 +110,7 @@ class TallyApiTest {
         e = assertThrows(UserError.class, () -> Tally.of(data).maxParents(-1));
         assertEquals("maxParents must be 0 or more, got -1", e.getMessage());
         e = assertThrows(UserError.class, () -> Tally.of(data).missing("skip"));
-        assertEquals("missing must be error, drop or state, got 'skip'", e.getMessage());
+        assertEquals("missing must be error, drop, state or average, got 'skip'", e.getMessage());
         e = assertThrows(UserError.class, () -> Tally.of(data).columns("a", "zz").writeTo(dir.resolve("zz").toString()));
         // issue 11/14: the job's refusals name the builder methods, not the command line's options
         assertEquals("columns: no column 'zz' in dataset (columns: a, b, c, d)", e.getMessage());

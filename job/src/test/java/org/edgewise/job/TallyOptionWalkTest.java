@@ -79,7 +79,9 @@ class TallyOptionWalkTest {
         value("--forbid", "a->b");
         value("--require", "a->c");
         value("--tiers", "a,b;c");
-        value("--missing", "drop", "state");
+        value("--missing", "drop", "state", "average");
+        value("--seed", "2"); // refused under the baselines' --missing drop; walked under average below
+        value("--rounds", "3");
         value("--weight", "n");
         value("--max-states", "4"); // below x's 8 states
         value("--discretize", "x=3");
@@ -171,6 +173,27 @@ class TallyOptionWalkTest {
             }
         }
         failOn(problems);
+    }
+
+    /**
+     * The options of data augmentation, walked from a baseline that averages over the missing cells of
+     * b: each changes the store (its manifest records it, and the draws differ), and without
+     * {@code --missing average} each is refused (the walk above).
+     */
+    @Test
+    void augmentationOptionsChangeTheStore() throws Exception {
+        List<String> base = List.of("--input", "@IN", "--out", "@OUT", "--missing", "average", "--rounds", "4",
+                "--max-parents", "2");
+        String before = output(base, null, null);
+        assertEquals(before, output(base, null, null), "the same seed gives the same store");
+        List<String> problems = new ArrayList<>();
+        for (String[] nv : new String[][] {{"--seed", "2"}, {"--rounds", "6"}, {"--missing", "state"}}) {
+            judge(problems, nv[0] + " " + nv[1] + " [average]", before, null, () -> output(base, nv[0], nv[1]));
+        }
+        failOn(problems);
+        Refused r = org.junit.jupiter.api.Assertions.assertThrows(Refused.class, () -> output(List.of("--input", "@IN", "--out", "@OUT",
+                "--missing", "drop"), "--seed", "2"));
+        assertTrue(r.problem == null, "refused in one line: " + r.problem);
     }
 
     @Test

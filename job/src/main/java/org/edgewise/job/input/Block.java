@@ -17,6 +17,11 @@ public final class Block implements Serializable {
     private static final long serialVersionUID = 1L;
     /** Rows per block: a block's columns stay in L2 cache while a kernel loops over them. */
     public static final int ROWS = 8192;
+    /**
+     * The cell value of a missing cell under {@code --missing average} (255: states are 0…254, as
+     * at most 255 are allowed); such blocks are completed before any kernel counts them.
+     */
+    public static final int MISSING = 255;
 
     private final int rows;
     private final byte[][] cols;

@@ -40,7 +40,7 @@ final class VariableStates {
             } else {
                 states.addAll(orderStates(stats.distinct(v), stats.numeric(v)));
             }
-            missingState[v] = -1;
+            missingState[v] = o.missing() == MissingPolicy.AVERAGE ? Block.MISSING : -1;
             if (o.missing() == MissingPolicy.STATE && stats.missing(v) > 0) {
                 missingState[v] = states.size();
                 states.add(TableScan.MISSING_STATE);

@@ -2,6 +2,7 @@ package org.edgewise.driver.cli;
 
 import org.edgewise.driver.Checks;
 import org.edgewise.driver.analysis.Averaging;
+import org.edgewise.driver.analysis.MissingValuesStore;
 import org.edgewise.driver.analysis.Scoring;
 import java.nio.file.Path;
 import picocli.CommandLine.Mixin;
@@ -42,6 +43,18 @@ public final class AveragingOptions {
             Checks.notApplicable(!features && !unknown.features.isEmpty(), "--features", "in " + what,
                     "features are posteriors of the structure: ask edges --features for them");
             return unknown.fromSample(sample, draws);
+        }
+        Path own = sample == null && scoring.store != null ? MissingValuesStore.sampleOf(scoring.store) : null;
+        if (own != null) {
+            String on = "on a store averaged over missing values";
+            String why = "its structure posterior is the DAGs its tally drew while averaging over the missing values"
+                    + " (tally --missing average)";
+            Checks.notApplicable(method.order != null, "--order", on, why);
+            Checks.notApplicable(method.method != null, "--method", on, why);
+            scoring.refuseWithSample(on, why);
+            Checks.notApplicable(!features && !unknown.features.isEmpty(), "--features", "in " + what,
+                    "features are posteriors of the structure: ask edges --features for them");
+            return unknown.fromSample(own, draws);
         }
         String m = method.resolve(what);
         if (m.equals("order")) {

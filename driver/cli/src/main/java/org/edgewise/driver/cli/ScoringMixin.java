@@ -38,11 +38,16 @@ public final class ScoringMixin {
 
     /** Refuses the scoring options with {@code --sample} (the sample records the scoring its DAGs were drawn under). */
     void refuseWithSample(String why) {
-        Checks.notApplicable(score != null, "--score", "with --sample", why);
-        Checks.notApplicable(!ess.isEmpty(), "--ess", "with --sample", why);
-        Checks.notApplicable(!"uniform".equalsIgnoreCase(prior), "--prior", "with --sample", why);
-        Checks.notApplicable(!forbid.isEmpty(), "--forbid", "with --sample", why);
-        Checks.notApplicable(!require.isEmpty(), "--require", "with --sample", why);
+        refuseWithSample("with --sample", why);
+    }
+
+    /** As {@link #refuseWithSample(String)}, the situation worded by the caller ("on a store averaged over missing values"). */
+    void refuseWithSample(String situation, String why) {
+        Checks.notApplicable(score != null, "--score", situation, why);
+        Checks.notApplicable(!ess.isEmpty(), "--ess", situation, why);
+        Checks.notApplicable(!"uniform".equalsIgnoreCase(prior), "--prior", situation, why);
+        Checks.notApplicable(!forbid.isEmpty(), "--forbid", situation, why);
+        Checks.notApplicable(!require.isEmpty(), "--require", situation, why);
     }
 
     static List<EdgeRule> rules(List<String> texts, String option) {

@@ -63,6 +63,12 @@ public record Averaging(Method method, String order, DagPrior dagPrior, List<Lis
         return sample == null ? null : SampleFile.read(sample, store.manifest(), storePath);
     }
 
+    /** The same request answered from the saved sample at {@code dir}. */
+    Averaging withSample(Path dir) {
+        return new Averaging(method, order, dagPrior, tiers, seed, chains, steps, burnIn, draws, rhatTarget, mcseTarget,
+                maxSteps, maxSeconds, ancestors, markovBlanket, essentialGraph, dagSamples, dir);
+    }
+
     /** Whether DAG-drawn features are asked for. */
     public boolean anyFeature() {
         return ancestors || markovBlanket || essentialGraph;

@@ -96,7 +96,7 @@ public final class EffectAnalysis {
     public static List<EffectResult> run(Scoring scoring, Averaging averaging, List<Question> questions, int draws,
                                          long maxHiddenStates, CaseControl design, String measure, ProgressListener progress) {
         Inputs in = Inputs.of(scoring, averaging);
-        return run(new Request(in.scores(), in.order(), averaging.settings(0), questions,
+        return run(new Request(in.scores(), in.order(), in.settings(0), questions,
                 new EffectEngine.Settings(draws, averaging.seed(), maxHiddenStates), design, measure, in.saved()), progress);
     }
 

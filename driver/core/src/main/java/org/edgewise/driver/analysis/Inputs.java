@@ -1,26 +1,44 @@
 package org.edgewise.driver.analysis;
 
 import java.util.List;
+import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.ScoringOptions;
+import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.SampleFile;
+import org.edgewise.driver.store.MissingValues;
 import org.edgewise.driver.store.ScoreStore;
 
 /**
  * A request's inputs, read and checked once for every service: the store, the given order (null
  * over unknown orders), a saved sample (null when none), and the scoring options each run uses —
  * the sample's own when one is given, else the request's (several ESS values: a sweep).
+ *
+ * <p>A store whose missing values were averaged over ({@link MissingValues}) answers from the sample
+ * of DAGs it holds whenever the request names no sample itself: its one completed table alone would
+ * be a single imputation. A given order does not apply to it (its DAGs were drawn over all orders).
+ *
+ * @param averaging the request's averaging, naming the store's own sample when it answers from it
  */
-record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<ScoringOptions> options) {
+record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<ScoringOptions> options, Averaging averaging) {
     static Inputs of(Scoring scoring, Averaging averaging) {
         ScoreStore store = scoring.read();
+        MissingValues mv = store.manifest().missingValues();
+        if (mv != null && averaging.sample() == null) {
+            if (averaging.order() != null) {
+                throw new UserError("store " + scoring.store() + " is " + mv.describe() + "; its structure posterior is"
+                        + " the sample of DAGs it holds, drawn over all orders, so a given order (" + scoring.names().order()
+                        + ") does not apply");
+            }
+            averaging = averaging.withSample(scoring.store().resolve(mv.sample()));
+        }
         int[] order = averaging.order() == null ? null
                 : VariableOrder.parse(store.manifest(), averaging.order(), scoring.names().order());
         SampleFile.Loaded saved = averaging.saved(store, scoring.store());
         List<ScoringOptions> options = saved == null ? scoring.options()
                 : List.of(saved.info().scoring().options(scoring.names()));
-        return new Inputs(store, order, saved, options);
+        return new Inputs(store, order, saved, options, averaging);
     }
 
     /** The inputs of a request that answers from the saved sample {@code sample} alone (its scoring, no order). */
@@ -33,5 +51,10 @@ record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<Scori
     /** The local scores under the first scoring options (the only ones where no sweep applies). */
     LocalScores scores() {
         return LocalScores.build(store, options.get(0));
+    }
+
+    /** The settings over unknown orders of this request ({@link Averaging#settings}). */
+    UnknownOrderSettings settings(int topParents) {
+        return averaging.settings(topParents);
     }
 }

@@ -89,7 +89,7 @@ public final class PredictionAnalysis {
         InputNames in = r.scoring().names();
         Inputs inputs = Inputs.of(r.scoring(), r.averaging());
         Manifest m = inputs.store().manifest();
-        UnknownOrderSettings settings = r.averaging().settings(0);
+        UnknownOrderSettings settings = inputs.settings(0);
         int[] ord = inputs.order();
         int[] given = r.givenText() == null ? null : CaseParser.parse(m, r.givenText(), in.given());
         int[] single = r.caseText() == null ? null : CaseParser.parse(m, r.caseText(), in.oneCase());

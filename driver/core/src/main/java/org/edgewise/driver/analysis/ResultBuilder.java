@@ -114,10 +114,24 @@ public final class ResultBuilder {
     /** Where the counts came from: the store path and its manifest's input description. */
     public static EdgeResult.Provenance provenance(ScoreStore store, Path path) {
         Manifest m = store.manifest();
-        return new EdgeResult.Provenance(path == null ? null : path.toString(),
+        EdgeResult.Provenance p = new EdgeResult.Provenance(path == null ? null : path.toString(),
                 m.input() == null ? null : m.input().paths(), m.input() == null ? 0 : m.input().rows(),
                 m.input() == null ? null : m.input().fingerprint(), m.createdAt(), m.score(), m.ess(),
                 m.candidates());
+        return m.missingValues() == null ? p : p.withMissingValues(missingValuesWords(m.missingValues()));
+    }
+
+    /** How a store averaged over its missing values, with the shares missing and the assumption's caution. */
+    static String missingValuesWords(org.edgewise.driver.store.MissingValues mv) {
+        StringBuilder sb = new StringBuilder(mv.describe()).append(String.format(java.util.Locale.ROOT,
+                "; %.1f%% of the rows incomplete", 100 * mv.incompleteRowShare()));
+        for (var e : mv.missingCellShare().entrySet()) {
+            if (e.getValue() > 0) {
+                sb.append(String.format(java.util.Locale.ROOT, ", %s %.1f%% missing", e.getKey(), 100 * e.getValue()));
+            }
+        }
+        return sb.append(". Valid if whether a value is missing depends only on values that were observed"
+                + " (missing at random); not if it depends on the missing value itself").toString();
     }
 
     static List<String> rules(List<EdgeRule> rules) {

@@ -48,8 +48,9 @@ public final class SampleAnalysis {
     public static Summary run(Request r, ProgressListener progress) {
         SampleFile.checkTarget(r.out(), r.overwrite(), r.outName(), r.overwriteName());
         long t0 = System.nanoTime();
-        Averaging a = r.averaging();
-        Inputs in = Inputs.of(r.scoring(), a);
+        Averaging a;
+        Inputs in = Inputs.of(r.scoring(), r.averaging());
+        a = in.averaging();
         ScoreStore store = in.store();
         int[] order = in.order();
         LocalScores ls = in.scores();

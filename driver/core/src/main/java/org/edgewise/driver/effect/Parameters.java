@@ -6,6 +6,7 @@ import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
+import org.edgewise.driver.average.augment.DirichletDraw;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
@@ -102,26 +103,9 @@ final class Parameters {
         return theta[k];
     }
 
-    /** The log of a Gamma(shape, 1) draw: Marsaglia &amp; Tsang for shape ≥ 1, boosted below 1. */
+    /** The log of a Gamma(shape, 1) draw ({@link DirichletDraw#logGamma}, the one Gamma sampler). */
     static double logGamma(double shape, SplittableRandom rng) {
-        if (shape < 1) {
-            double u = 1 - rng.nextDouble(); // in (0, 1]
-            return logGamma(shape + 1, rng) + Math.log(u) / shape;
-        }
-        double d = shape - 1.0 / 3;
-        double c = 1 / Math.sqrt(9 * d);
-        while (true) {
-            double x = rng.nextGaussian();
-            double v = 1 + c * x;
-            if (v <= 0) {
-                continue;
-            }
-            v = v * v * v;
-            double u = rng.nextDouble();
-            if (u < 1 - 0.0331 * x * x * x * x || Math.log(u) < 0.5 * x * x + d * (1 - v + Math.log(v))) {
-                return Math.log(d) + Math.log(v);
-            }
-        }
+        return DirichletDraw.logGamma(shape, rng);
     }
 
     static long mask(int[] vars) {

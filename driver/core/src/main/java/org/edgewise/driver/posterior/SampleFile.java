@@ -171,6 +171,15 @@ public final class SampleFile {
         }
     }
 
+    /** Writes the sample's two parts into {@code dir} (created; inside a directory being written atomically). */
+    public static void writeInto(Path dir, Info info, DagSample d) throws IOException {
+        Files.createDirectory(dir);
+        JSON.writeValue(dir.resolve(MANIFEST).toFile(), info);
+        try (OutputStream os = new BufferedOutputStream(Files.newOutputStream(dir.resolve(DAGS)), 1 << 16)) {
+            writeDags(os, d);
+        }
+    }
+
     /** The binary DAG part (see the class comment). */
     static void writeDags(OutputStream os, DagSample d) throws IOException {
         DataOutputStream out = new DataOutputStream(os);

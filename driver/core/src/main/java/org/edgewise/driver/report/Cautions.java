@@ -26,7 +26,11 @@ final class Cautions {
                 .append(s != null ? " (" + esc(s.prior()) + ")" : "")
                 .append(" and the DAG prior (below), the score and, for BDeu, its equivalent sample size")
                 .append(s != null ? " (" + esc(s.score()) + (s.ess() != null ? ", ESS " + esc(Html.num(s.ess())) : ", which has no ESS") + ")" : "")
-                .append(", complete data with no missing values, no hidden confounders, and the bound on the number of parents")
+                .append(r.store() != null && r.store().missingValues() != null
+                        ? ", missing values averaged over under the assumption that they are missing at random (whether a value is"
+                        + " missing depends only on values that were observed, not on the missing value itself)"
+                        : ", complete data with no missing values")
+                .append(", no hidden confounders, and the bound on the number of parents")
                 .append(s != null ? " (at most " + s.maxParents() + ")" : "").append(".</li>\n")
                 .append("<li>").append(dagPrior(r)).append("</li>\n")
                 .append("<li>").append(directions(ce, hint)).append("</li>\n")

@@ -40,6 +40,7 @@ public final class ConvergenceAdvice {
             case "max-time" -> "the time budget ran out before every target was met";
             case "max-steps" -> "the step cap was reached before every target was met";
             case "steps" -> "a fixed number of steps was run, with no check until converged";
+            case "rounds" -> "a fixed number of rounds of data augmentation was run over the missing values";
             default -> r;
         };
     }
@@ -108,6 +109,7 @@ public final class ConvergenceAdvice {
             case "steps" -> "run longer: raise the steps per chain (" + h.steps() + ") or run until converged instead ("
                     + h.untilConverged() + ")";
             case "max-steps" -> "run longer: raise or drop the step cap (" + h.maxSteps() + ")";
+            case "rounds" -> "run longer: tally the table again with more rounds of data augmentation";
             default -> "run longer: raise the time budget (" + h.maxTime() + ")";
         };
     }
@@ -129,7 +131,8 @@ public final class ConvergenceAdvice {
             for (EdgeResult.Worst w : d.worst()) {
                 stuck |= "stuck".equals(w.state());
                 trap |= "trap".equals(w.state());
-                onlyMcse &= w.rhat() != null && w.rhat() < rt
+                // && (not &=): without an MCSE target the comparison below must not run
+                onlyMcse = onlyMcse && w.rhat() != null && w.rhat() < rt
                         && (w.bulkEffectiveSampleSize() == null || w.bulkEffectiveSampleSize() >= et)
                         && w.mcse() != null && w.mcse() > d.mcseTarget();
             }

@@ -27,6 +27,9 @@ final class ProvenanceSection {
             row(h, "data fingerprint", esc(p.fingerprint()));
             row(h, "store written", esc(p.createdAt()));
             row(h, "stored score", esc(p.storedScore()) + ", ESS " + esc(num(p.storedEss())));
+            if (p.missingValues() != null) {
+                row(h, "missing values", esc(p.missingValues()));
+            }
         }
         EdgeResult.Settings s = r.settings();
         if (s != null) {

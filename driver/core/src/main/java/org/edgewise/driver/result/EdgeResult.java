@@ -107,20 +107,28 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
 
     /**
      * Where the counts came from; {@code sample} (optional, absent unless the result was answered
-     * from a saved posterior sample) names that sample.
+     * from a saved posterior sample) names that sample; {@code missingValues} (optional, absent unless
+     * the store's missing cells were averaged over) says how, and that missing at random is assumed.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Provenance(String path, List<String> input, long rows, String fingerprint,
                              String createdAt, String storedScore, double storedEss,
-                             Map<String, List<String>> candidates, SampleRef sample) {
+                             Map<String, List<String>> candidates, SampleRef sample, String missingValues) {
         public Provenance(String path, List<String> input, long rows, String fingerprint, String createdAt,
                           String storedScore, double storedEss, Map<String, List<String>> candidates) {
-            this(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, null);
+            this(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, null, null);
         }
 
         /** The same provenance naming the saved sample the result was answered from. */
         public Provenance withSample(SampleRef s) {
-            return new Provenance(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, s);
+            return new Provenance(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, s,
+                    missingValues);
+        }
+
+        /** The same provenance saying how the store averaged over its missing values. */
+        public Provenance withMissingValues(String words) {
+            return new Provenance(path, input, rows, fingerprint, createdAt, storedScore, storedEss, candidates, sample,
+                    words);
         }
     }
 

@@ -20,13 +20,15 @@ import java.util.Map;
  * @param score           score kind of the stored log scores ({@code bdeu} or {@code k2})
  * @param ess             equivalent sample size of the stored scores (BDeu)
  * @param parts           the Parquet parts; filled in by the writer (null until written)
+ * @param missingValues   how missing cells were averaged over (data augmentation; format version 2),
+ *                        or null when the table had none or they were dropped or made a state
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record Manifest(int formatVersion, String program, String programVersion, String createdAt,
                        InputInfo input, List<Variable> variables, int maxParents,
                        Map<String, List<String>> candidates, List<EdgeRule> forbidden,
                        List<EdgeRule> required, List<List<String>> tiers, String score, double ess,
-                       StoreParts parts) {
+                       StoreParts parts, MissingValues missingValues) {
 
     /**
      * A manifest for a store about to be written or held in memory: the writer fills in the
@@ -37,7 +39,13 @@ public record Manifest(int formatVersion, String program, String programVersion,
                               List<EdgeRule> forbidden, List<EdgeRule> required, List<List<String>> tiers,
                               String score, double ess) {
         return new Manifest(0, program, programVersion, createdAt, input, variables, maxParents, candidates,
-                forbidden, required, tiers, score, ess, null);
+                forbidden, required, tiers, score, ess, null, null);
+    }
+
+    /** This manifest with {@code mv} recorded (a store averaged over missing values). */
+    public Manifest withMissingValues(MissingValues mv) {
+        return new Manifest(formatVersion, program, programVersion, createdAt, input, variables, maxParents, candidates,
+                forbidden, required, tiers, score, ess, parts, mv);
     }
 
     /** Index of a variable by name, or −1. */

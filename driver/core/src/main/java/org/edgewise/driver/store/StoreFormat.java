@@ -24,8 +24,15 @@ import org.edgewise.driver.UserError;
  * results can be traced to the same data.
  */
 public final class StoreFormat {
-    /** Bumped whenever a reader of the previous version could misread a store. */
-    public static final int VERSION = 1;
+    /**
+     * Bumped whenever a reader of the previous version could misread a store. Version 2 adds
+     * {@code missingValues} (a table whose missing cells were averaged over, {@link MissingValues}): a
+     * version-1 reader would take its one completed table for the data. A store without it is still
+     * written as version 1, and both are read.
+     */
+    public static final int VERSION = 2;
+    /** The version of a store that does not record {@code missingValues}. */
+    public static final int VERSION_PLAIN = 1;
     public static final String MANIFEST = "manifest.json";
     public static final String SCORES = "scores.parquet";
     public static final String COUNTS = "counts.parquet";
@@ -52,8 +59,9 @@ public final class StoreFormat {
 
     /** The manifest as the writer stores it: this format's version and the parts just written. */
     static Manifest stamp(Manifest m, StoreParts parts) {
-        return new Manifest(VERSION, m.program(), m.programVersion(), m.createdAt(), m.input(), m.variables(),
-                m.maxParents(), m.candidates(), m.forbidden(), m.required(), m.tiers(), m.score(), m.ess(), parts);
+        return new Manifest(m.missingValues() == null ? VERSION_PLAIN : VERSION, m.program(), m.programVersion(),
+                m.createdAt(), m.input(), m.variables(), m.maxParents(), m.candidates(), m.forbidden(), m.required(),
+                m.tiers(), m.score(), m.ess(), parts, m.missingValues());
     }
 
     /** Refuses a manifest (as parsed JSON) without a format version or of another one. */
@@ -62,9 +70,13 @@ public final class StoreFormat {
             throw new UserError("store " + dir + ": " + MANIFEST + " has no formatVersion; it is not an Edgewise manifest");
         }
         int version = tree.get("formatVersion").asInt(-1);
-        if (version != VERSION) {
+        if (version != VERSION && version != VERSION_PLAIN) {
             throw new UserError("store " + dir + " has format version " + tree.get("formatVersion").asText()
-                    + "; this Edgewise reads format version " + VERSION);
+                    + "; this Edgewise reads format versions " + VERSION_PLAIN + " and " + VERSION);
+        }
+        if (version == VERSION_PLAIN && tree.has("missingValues")) {
+            throw new UserError("store " + dir + ": " + MANIFEST + " records missingValues but has format version "
+                    + VERSION_PLAIN + "; it is damaged");
         }
     }
 

@@ -78,7 +78,9 @@ public final class StoreTarget {
         try (DirectoryStream<Path> ds = Files.newDirectoryStream(out)) {
             for (Path c : ds) {
                 String name = c.getFileName().toString();
-                if (!PARTS.contains(name) || !Files.isRegularFile(c)) {
+                boolean sample = name.equals(MissingValues.SAMPLE) && Files.isDirectory(c)
+                        && Files.isRegularFile(c.resolve("sample.json"));
+                if (!sample && (!PARTS.contains(name) || !Files.isRegularFile(c))) {
                     throw new UserError(only + out + " also holds " + name + ", which is not part of a store;"
                             + " choose another " + outName);
                 }

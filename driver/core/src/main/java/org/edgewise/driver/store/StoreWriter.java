@@ -42,9 +42,23 @@ public final class StoreWriter {
         write(target, manifest, families, logScores, overwrite, "overwrite");
     }
 
+    /** More parts written into the store's temporary directory before it is renamed into place. */
+    public interface ExtraParts {
+        void write(Path dir) throws IOException;
+    }
+
     /** As {@link #write(Path, Manifest, List, double[], boolean)}; {@code overwriteOption} names the permission to replace. */
     public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
                              double[] logScores, boolean overwrite, String overwriteOption) {
+        write(target, manifest, families, logScores, overwrite, overwriteOption, dir -> { });
+    }
+
+    /**
+     * As {@link #write(Path, Manifest, List, double[], boolean, String)}, with {@code extra} written
+     * into the store too (a store averaged over missing values: its sample, {@link MissingValues}).
+     */
+    public static void write(Path target, Manifest manifest, List<FamilyCounts> families,
+                             double[] logScores, boolean overwrite, String overwriteOption, ExtraParts extra) {
         try {
             AtomicWrite.directory(target, overwrite, overwriteOption, tmp -> {
                 long countRows = writeCounts(tmp.resolve(StoreFormat.COUNTS), families);
@@ -55,6 +69,7 @@ public final class StoreWriter {
                 StoreParts parts = new StoreParts(StoreFormat.SCORES, families.size(),
                         sha256(tmp.resolve(StoreFormat.SCORES)), StoreFormat.COUNTS, countRows,
                         sha256(tmp.resolve(StoreFormat.COUNTS)));
+                extra.write(tmp);
                 JSON.writeValue(tmp.resolve(StoreFormat.MANIFEST).toFile(), StoreFormat.stamp(manifest, parts));
             });
         } catch (IOException e) {
