@@ -7,7 +7,8 @@ import java.util.SplittableRandom;
  * standard construction; Devroye 1986, §XI.4), each drawn by Marsaglia &amp; Tsang (2000, "A simple
  * method for generating gamma variables", ACM TOMS 26(3)) for a ≥ 1 and boosted below 1 by
  * Gamma(a) = Gamma(a + 1)·U^{1/a} — in log space, because BDeu's α_ijk can be 10⁻³ and U^{1/a}
- * then underflows. Pure; the caller owns the random source.
+ * then underflows. Pure; the caller owns the random source. The one Gamma sampler of the project:
+ * the parameter draws of effects, of predictions' intervals and of data augmentation all use it.
  */
 public final class DirichletDraw {
     private DirichletDraw() {
@@ -46,6 +47,21 @@ public final class DirichletDraw {
             if (u < 1 - 0.0331 * x * x * x * x || Math.log(u) < 0.5 * x * x + d * (1 - v + Math.log(v))) {
                 return Math.log(d) + Math.log(v);
             }
+        }
+    }
+
+    /**
+     * One draw of log θ from Dirichlet(a + counts[from..from+r)) (counts null: the prior alone), written
+     * into {@code out[at..at+r)}.
+     */
+    public static void logDraw(double a, long[] counts, int from, int r, SplittableRandom rng, double[] out, int at) {
+        double[] g = new double[r];
+        for (int k = 0; k < r; k++) {
+            g[k] = logGamma(a + (counts == null ? 0 : counts[from + k]), rng);
+        }
+        double z = LogSum.of(g);
+        for (int k = 0; k < r; k++) {
+            out[at + k] = g[k] - z;
         }
     }
 }

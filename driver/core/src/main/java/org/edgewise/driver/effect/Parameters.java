@@ -6,7 +6,7 @@ import java.util.Map;
 import java.util.SplittableRandom;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.LogSum;
-import org.edgewise.driver.average.augment.DirichletDraw;
+import org.edgewise.driver.average.DirichletDraw;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;

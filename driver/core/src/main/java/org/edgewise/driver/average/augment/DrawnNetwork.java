@@ -3,6 +3,7 @@ package org.edgewise.driver.average.augment;
 import java.io.Serializable;
 import java.util.Arrays;
 import java.util.SplittableRandom;
+import org.edgewise.driver.average.DirichletDraw;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
