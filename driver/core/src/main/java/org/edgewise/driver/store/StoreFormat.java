@@ -53,7 +53,8 @@ public final class StoreFormat {
     /** The manifest as the writer stores it: this format's version and the parts just written. */
     static Manifest stamp(Manifest m, StoreParts parts) {
         return new Manifest(VERSION, m.program(), m.programVersion(), m.createdAt(), m.input(), m.variables(),
-                m.maxParents(), m.candidates(), m.forbidden(), m.required(), m.tiers(), m.score(), m.ess(), parts);
+                m.maxParents(), m.candidates(), m.forbidden(), m.required(), m.tiers(), m.score(), m.ess(), parts,
+                m.reserve());
     }
 
     /** Refuses a manifest (as parsed JSON) without a format version or of another one. */

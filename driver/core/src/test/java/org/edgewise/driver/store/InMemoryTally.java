@@ -2,7 +2,9 @@ package org.edgewise.driver.store;
 
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.stream.IntStream;
 import org.edgewise.driver.score.FamilyScore;
 
@@ -30,20 +32,70 @@ public final class InMemoryTally {
      */
     public static ScoreStore tally(List<Variable> variables, int[][] rows, int maxParents, FamilyScore score) {
         int n = variables.size();
+        int[][] all = new int[n][];
+        for (int child = 0; child < n; child++) {
+            final int c = child;
+            all[child] = IntStream.range(0, n).filter(v -> v != c).toArray();
+        }
+        return tally(variables, rows, maxParents, score, all, null, null);
+    }
+
+    /**
+     * A store as {@code tally --candidates k --reserve reserve} writes it, by the job's rule restated
+     * (job/plan/Candidates): per child the variables ranked by single-parent gain s(i,{j}) − s(i,∅),
+     * highest first, ties to the lower index; the first {@code k} are its candidates, the next
+     * {@code reserve} its reserve (best first); families are every subset of both, of size ≤ d.
+     * {@code reserve} 0 gives a plain pruned store (the manifest has no {@code reserve}).
+     */
+    public static ScoreStore pruned(List<Variable> variables, int[][] rows, int maxParents, FamilyScore score, int k,
+                                    int reserve) {
+        int n = variables.size();
+        int[][] kept = new int[n][];
+        Map<String, List<String>> cand = new LinkedHashMap<>();
+        Map<String, List<String>> res = new LinkedHashMap<>();
+        for (int child = 0; child < n; child++) {
+            double empty = score(variables, rows, child, new int[0], score);
+            double[] gain = new double[n];
+            List<Integer> others = new ArrayList<>();
+            for (int v = 0; v < n; v++) {
+                if (v != child) {
+                    others.add(v);
+                    gain[v] = score(variables, rows, child, new int[] {v}, score) - empty;
+                }
+            }
+            others.sort((a, b) -> {
+                int cmp = Double.compare(gain[b], gain[a]);
+                return cmp != 0 ? cmp : Integer.compare(a, b);
+            });
+            List<Integer> top = others.subList(0, Math.min(k, others.size()));
+            List<Integer> more = others.subList(top.size(), Math.min(k + reserve, others.size()));
+            kept[child] = others.subList(0, top.size() + more.size()).stream().mapToInt(Integer::intValue).sorted().toArray();
+            cand.put(variables.get(child).name(), top.stream().sorted().map(v -> variables.get(v).name()).toList());
+            res.put(variables.get(child).name(), more.stream().map(v -> variables.get(v).name()).toList());
+        }
+        return tally(variables, rows, maxParents, score, kept, cand, reserve > 0 ? res : null);
+    }
+
+    private static double score(List<Variable> variables, int[][] rows, int child, int[] parents, FamilyScore score) {
+        double q = 1;
+        for (int p : parents) {
+            q *= variables.get(p).arity();
+        }
+        return score.logScore(count(variables, rows, child, parents).counts(), variables.get(child).arity(), q);
+    }
+
+    private static ScoreStore tally(List<Variable> variables, int[][] rows, int maxParents, FamilyScore score,
+                                    int[][] allowed, Map<String, List<String>> candidates, Map<String, List<String>> reserve) {
+        int n = variables.size();
         // One child per task; the families are concatenated in child order, so the store is the
         // same whatever the number of threads.
         @SuppressWarnings("unchecked")
         List<FamilyCounts>[] byChild = new List[n];
         double[][] scoresByChild = new double[n][];
         IntStream.range(0, n).parallel().forEach(child -> {
-            int[] others = new int[n - 1];
-            for (int v = 0, k = 0; v < n; v++) {
-                if (v != child) {
-                    others[k++] = v;
-                }
-            }
+            int[] others = allowed[child];
             List<FamilyCounts> fams = new ArrayList<>();
-            for (int size = 0; size <= Math.min(maxParents, n - 1); size++) {
+            for (int size = 0; size <= Math.min(maxParents, others.length); size++) {
                 for (int[] parents : ParentSets.subsets(others, size)) {
                     fams.add(count(variables, rows, child, parents));
                 }
@@ -71,7 +123,8 @@ public final class InMemoryTally {
         }
         Manifest m = Manifest.of("edgewise", "in-memory", Instant.EPOCH.toString(),
                 new InputInfo(List.of("(in memory)"), "memory", rows.length, 0, "error", "0"),
-                variables, maxParents, null, List.of(), List.of(), List.of(), score.kind().label(), score.ess());
+                variables, maxParents, candidates, List.of(), List.of(), List.of(), score.kind().label(), score.ess())
+                .withReserve(reserve);
         return new ScoreStore(m, families, scores);
     }
 
