@@ -26,13 +26,16 @@ import org.edgewise.driver.store.EdgeRule;
  * @param encoding     character encoding of CSV input (invalid bytes are refused, never replaced)
  * @param weight       the column holding the number of rows each line stands for (a table of
  *                     counts), never a variable; null when every line is one row
+ * @param reserve      with {@code candidates}: per child, how many further candidates (the next by the
+ *                     same gain) to count families over and list as the manifest's {@code reserve}, for
+ *                     the driver to widen a child into; null for none
  */
 public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                            int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                            List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
                            MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
                            ScoreKind score, double ess, Integer partitions, long memoryBudget,
-                           java.nio.charset.Charset encoding, String weight) {
+                           java.nio.charset.Charset encoding, String weight, Integer reserve) {
 
     /** What to do with an empty field. */
     public enum MissingPolicy {
@@ -56,7 +59,7 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                         ScoreKind score, double ess, Integer partitions, long memoryBudget) {
         this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
                 missing, maxStates, discretize, score, ess, partitions, memoryBudget,
-                java.nio.charset.StandardCharsets.UTF_8, null);
+                java.nio.charset.StandardCharsets.UTF_8, null, null);
     }
 
     /** One row per line (no weight column). */
@@ -67,7 +70,18 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                         ScoreKind score, double ess, Integer partitions, long memoryBudget,
                         java.nio.charset.Charset encoding) {
         this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
-                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, null);
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, null, null);
+    }
+
+    /** No reserve of candidates. */
+    public TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
+                        int maxParents, List<String> columns, List<String> exclude, Integer candidates,
+                        List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
+                        MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
+                        ScoreKind score, double ess, Integer partitions, long memoryBudget,
+                        java.nio.charset.Charset encoding, String weight) {
+        this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, weight, null);
     }
 
     public TallyOptions {
