@@ -31,14 +31,15 @@ import org.junit.jupiter.api.Test;
  * over DAGs, Tian &amp; He 2009), computed here; the pruned store's candidates come from the job's
  * ranking restated in {@link InMemoryTally#pruned}.
  */
-class CandidateWideningTest {
+public class CandidateWideningTest {
     static final int A = 0;
     static final int E = 1;
     static final int B = 2;
     static final int X = 3;
     static final int C = 4;
 
-    static int[][] rows() {
+    /** The table described above (3,000 rows, seed 20), for the command-line tests too. */
+    public static int[][] rows() {
         Random r = new Random(20);
         int[][] rows = new int[3000][];
         for (int k = 0; k < rows.length; k++) {
