@@ -17,32 +17,42 @@ import org.edgewise.driver.store.Variable;
 
 /**
  * Candidate pruning against the unpruned posterior (issue 20, point 3), side by side in one run: a
- * random network of our own (ternary variables, up to 3 parents among the 8 before each), its rows
+ * random network of our own (ternary variables, up to 3 parents among the {@code window} before each, CPT
+ * rows skewed by {@code sharpness}: {@link RandomNetwork}), its rows
  * drawn by the one forward sampler, tallied three ways in memory — every parent set of at most d, the K
  * best single parents per child (as {@code tally --candidates K}), and the same with a reserve of M more
  * (as {@code tally --candidates K --reserve M}, widened where the posterior asks) — and averaged by
  * {@code edges --method mcmc} (structure-modular, partition MCMC, until converged or the time budget).
  * The target: no edge above 0.5 in a pruned result that the unpruned one puts below 0.1.
  *
- * <p>Arguments: [n 30] [rows 20000] [K 10] [M 10] [seconds per run 120] [d 3] [network seed 20].
+ * <p>Arguments: [n 20] [rows 50000] [K 10] [M 5] [seconds per run 120] [d 3] [network seed 1] [window 4]
+ * [sharpness 4]. The defaults are a table where the K best single parents leave two true parents out
+ * ({@code probe} finds such tables; at window 19 and sharpness 1.5 none of five seeds lost one).
  */
 public final class WidenBench {
     private WidenBench() {
     }
 
     public static void main(String[] args) {
-        int n = arg(args, 0, 30);
-        int rows = arg(args, 1, 20_000);
+        if (args.length > 0 && args[0].equals("probe")) {
+            probe(args);
+            return;
+        }
+        int n = arg(args, 0, 20);
+        int rows = arg(args, 1, 50_000);
         int k = arg(args, 2, 10);
-        int m = arg(args, 3, 10);
+        int m = arg(args, 3, 5);
         double seconds = arg(args, 4, 120);
         int d = arg(args, 5, 3);
-        long seed = arg(args, 6, 20);
-        Network net = RandomNetwork.generate("v", n, 3, 3, 8, 1.5, 0, seed);
+        long seed = arg(args, 6, 1);
+        int window = arg(args, 7, 4);
+        double sharpness = args.length > 8 ? Double.parseDouble(args[8]) : 4;
+        Network net = RandomNetwork.generate("v", n, 3, 3, window, sharpness, 0, seed);
         int[][] data = new ForwardSampler(net).sample(rows, seed + 1);
         List<Variable> vars = RandomNetwork.variables(net);
-        System.out.printf("# widen benchmark: n=%d rows=%d d=%d K=%d M=%d, %d true edges, %d cores, load %.1f%n", n, rows, d, k,
-                m, net.edges().size(), Runtime.getRuntime().availableProcessors(), UnknownOrderBench.load());
+        System.out.printf("# widen benchmark: n=%d rows=%d d=%d K=%d M=%d, network seed %d window %d sharpness %.1f, %d true edges, "
+                + "%d cores, load %.1f%n", n, rows, d, k, m, seed, window, sharpness, net.edges().size(),
+                Runtime.getRuntime().availableProcessors(), UnknownOrderBench.load());
         FamilyScore fs = FamilyScore.withDefaults();
         long t0 = System.nanoTime();
         ScoreStore full = InMemoryTally.tally(vars, data, d, fs);
@@ -66,6 +76,37 @@ public final class WidenBench {
         EdgeResult ref = run("unpruned", full, seconds, null);
         run("candidates " + k, pruned, seconds, ref);
         run("candidates " + k + " + reserve " + m, reserve, seconds, ref);
+    }
+
+    /**
+     * How many true parents the K best single parents leave out, per network seed (single-parent
+     * families only, so cheap): {@code probe n rows K window sharpness seed...}, to pick a table where
+     * pruning bites.
+     */
+    static void probe(String[] args) {
+        int n = Integer.parseInt(args[1]);
+        int rows = Integer.parseInt(args[2]);
+        int k = Integer.parseInt(args[3]);
+        int window = Integer.parseInt(args[4]);
+        double sharp = Double.parseDouble(args[5]);
+        for (int a = 6; a < args.length; a++) {
+            long seed = Long.parseLong(args[a]);
+            Network net = RandomNetwork.generate("v", n, 3, 3, window, sharp, 0, seed);
+            int[][] data = new ForwardSampler(net).sample(rows, seed + 1);
+            List<Variable> vars = RandomNetwork.variables(net);
+            ScoreStore pruned = InMemoryTally.pruned(vars, data, 0, FamilyScore.withDefaults(), k, 0);
+            List<String> lost = new ArrayList<>();
+            for (int c = 0; c < n; c++) {
+                List<String> cand = pruned.manifest().candidates().get(vars.get(c).name());
+                for (int p : net.parents()[c]) {
+                    if (!cand.contains(vars.get(p).name())) {
+                        lost.add(vars.get(p).name() + "->" + vars.get(c).name());
+                    }
+                }
+            }
+            System.out.printf("probe n=%d rows=%d K=%d window=%d sharpness=%.1f seed %d: %d true edges, %d parents pruned %s%n", n,
+                    rows, k, window, sharp, seed, net.edges().size(), lost.size(), lost);
+        }
     }
 
     static EdgeResult run(String label, ScoreStore store, double seconds, EdgeResult ref) {

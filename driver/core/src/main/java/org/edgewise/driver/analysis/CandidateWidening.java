@@ -45,12 +45,14 @@ final class CandidateWidening {
         if (m.reserve() == null || m.candidates() == null || saved != null) {
             LocalScores ls = LocalScores.build(store, so);
             StructurePosterior p = StructurePosterior.of(ls, saved, order, settings, progress);
-            List<CandidateBoundary.Finding> found = CandidateBoundary.find(ls, p.setPosterior());
+            // a saved sample from a store with a reserve was drawn over every stored family: judged there
+            LocalScores drawnOver = m.reserve() != null ? ls : null;
+            List<CandidateBoundary.Finding> found = CandidateBoundary.find(ls, p.setPosterior(), drawnOver);
             if (found == null) {
                 return new Outcome(p, null, null);
             }
-            return new Outcome(p, names(m, found),
-                    new EdgeResult.CandidateSearch(m.reserve() != null, List.of(), names(m, CandidateBoundary.unchecked(ls, null))));
+            return new Outcome(p, names(m, found), new EdgeResult.CandidateSearch(m.reserve() != null, List.of(),
+                    names(m, CandidateBoundary.unchecked(ls, drawnOver))));
         }
         LocalScores wider = LocalScores.build(store, so);
         int[][] allowed = start(m, so, wider.variableCount());
