@@ -123,7 +123,9 @@ public final class TallyJob {
                     Counted pc = count(blocks, pairs, score, o.memoryBudget(), names, rows, "pairs");
                     double[][] gain = gains(pairs, pc, names.size());
                     kept = Candidates.prune(cand, req, gain, o.candidates());
-                    reserve = Candidates.reserve(cand, kept, gain, wide);
+                    if (o.reserve() != null) {
+                        reserve = Candidates.reserve(cand, kept, gain, wide);
+                    }
                 }
                 candidateMap = new LinkedHashMap<>();
                 for (int i = 0; i < names.size(); i++) {

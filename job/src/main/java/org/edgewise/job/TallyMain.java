@@ -60,7 +60,7 @@ public final class TallyMain implements Callable<Integer> {
     @Option(names = "--candidates", paramLabel = "K", description = "keep the K best single parents per child (by score gain over no parent), plus required ones") Integer candidates;
 
     @Option(names = "--reserve", paramLabel = "M", description = "with --candidates: also count families over each child's next M candidates "
-            + "(same ranking), listed as its reserve; edges starts from the K and widens a child into its reserve where the "
+            + "(same ranking) and over the variables that keep it among their K, listed as its reserve; edges starts from the K and widens a child into its reserve where the "
             + "posterior reaches the edge of its candidates") Integer reserve;
 
     @Option(names = "--forbid", split = ",", paramLabel = "a->b", description = "edges no family may contain (repeatable)") List<String> forbid = new ArrayList<>();

@@ -148,7 +148,7 @@ class TallyJobTest {
 
     /**
      * {@code --candidates 2 --reserve 1}: the manifest lists each child's 2 best single parents and,
-     * as its reserve, the third; the families are every set of at most d of the three, with the counts
+     * as its reserve, the third and every variable that keeps the child among its own 2; the families are every set of at most d of the three, with the counts
      * and scores of an independent recount that ranks the parents itself (InMemoryTally.pruned, the
      * job's rule restated over a naive per-row count). Without --reserve the manifest has none.
      */
@@ -162,7 +162,8 @@ class TallyJobTest {
         assertEquals(ref.manifest().reserve(), s.manifest().reserve());
         for (String child : NAMES) {
             assertEquals(2, s.manifest().candidates().get(child).size(), child);
-            assertEquals(1, s.manifest().reserve().get(child).size(), child);
+            // the next one by gain, then any variable that keeps the child among its own 2
+            assertTrue(s.manifest().reserve().get(child).size() >= 1, child);
         }
         assertNull(TestTables.read(tallyOk("noreserve", "--max-parents", "2", "--candidates", "2")).manifest().reserve());
     }

@@ -50,7 +50,9 @@ public final class Candidates {
     /**
      * The reserve behind {@code --reserve}: per child the candidates after those {@code kept}, in the
      * same order (gain highest first, ties to the lower index), until {@code wide} are kept and held in
-     * reserve together. Best first (not sorted by index): the order is the ranking.
+     * reserve together; then, in the same order, every other candidate x whose own kept candidates hold
+     * the child (so that an edge the pruning allows one way, x ← child, can be widened into the other
+     * way, x → child, as an undirected search space would allow). Best first (not sorted by index).
      */
     public static int[][] reserve(int[][] candidates, int[][] kept, double[][] gain, int wide) {
         int n = candidates.length;
@@ -67,8 +69,14 @@ public final class Candidates {
                 int cmp = Double.compare(gain[child][b], gain[child][a]);
                 return cmp != 0 ? cmp : Integer.compare(a, b);
             });
-            int room = Math.max(0, wide - kept[i].length);
-            out[i] = others.subList(0, Math.min(room, others.size())).stream().mapToInt(Integer::intValue).toArray();
+            int room = Math.min(Math.max(0, wide - kept[i].length), others.size());
+            List<Integer> res = new ArrayList<>(others.subList(0, room));
+            for (int x : others.subList(room, others.size())) {
+                if (Arrays.binarySearch(kept[x], i) >= 0) {
+                    res.add(x);
+                }
+            }
+            out[i] = res.stream().mapToInt(Integer::intValue).toArray();
         }
         return out;
     }

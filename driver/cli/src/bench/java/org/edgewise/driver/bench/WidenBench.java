@@ -57,7 +57,7 @@ public final class WidenBench {
         long t0 = System.nanoTime();
         ScoreStore full = InMemoryTally.tally(vars, data, d, fs);
         System.out.printf("unpruned store: %d families (%.1f s)%n", full.families().size(), (System.nanoTime() - t0) / 1e9);
-        ScoreStore pruned = InMemoryTally.pruned(vars, data, d, fs, k, 0);
+        ScoreStore pruned = InMemoryTally.pruned(vars, data, d, fs, k, -1);
         ScoreStore reserve = InMemoryTally.pruned(vars, data, d, fs, k, m);
         System.out.printf("pruned store: %d families; with reserve: %d families%n", pruned.families().size(),
                 reserve.families().size());
@@ -94,7 +94,7 @@ public final class WidenBench {
             Network net = RandomNetwork.generate("v", n, 3, 3, window, sharp, 0, seed);
             int[][] data = new ForwardSampler(net).sample(rows, seed + 1);
             List<Variable> vars = RandomNetwork.variables(net);
-            ScoreStore pruned = InMemoryTally.pruned(vars, data, 0, FamilyScore.withDefaults(), k, 0);
+            ScoreStore pruned = InMemoryTally.pruned(vars, data, 0, FamilyScore.withDefaults(), k, -1);
             List<String> lost = new ArrayList<>();
             for (int c = 0; c < n; c++) {
                 List<String> cand = pruned.manifest().candidates().get(vars.get(c).name());

@@ -36,7 +36,7 @@ class CandidateCautionTest {
 
     @Test
     void aPlainPrunedStoreNamesTheChildrenItCouldNotCheck() throws Exception {
-        Path store = write("plain", 3, 0);
+        Path store = write("plain", 3, -1);
         Path json = dir.resolve("r.json");
         CliRun r = CliRun.of("edges", "--store", store.toString(), "--method", "exact");
         assertEquals(0, r.status(), r.err());

@@ -78,7 +78,7 @@ public class CandidateWideningTest {
 
     @Test
     void theProxyIsKeptAndTheTrueParentsPruned() {
-        ScoreStore s = store(1, 0);
+        ScoreStore s = store(1, -1);
         assertEquals(List.of("v3"), s.manifest().candidates().get("v2"), "b's one candidate is the proxy x");
         ScoreStore full = InMemoryTally.tally(HeldOutData.variables(2, 2, 2, 2, 2, 2), rows(), 2, FamilyScore.withDefaults());
         EdgeResult exact = edges(full);
@@ -95,7 +95,7 @@ public class CandidateWideningTest {
     /** Without a reserve the false edge stands, and the result names b as bound with nothing stored to widen into. */
     @Test
     void withoutAReserveTheFalseEdgeIsNamedNotFixed() {
-        EdgeResult pruned = edges(store(1, 0));
+        EdgeResult pruned = edges(store(1, -1));
         assertTrue(adjacent(pruned, B, X) > 0.99, "b - x pruned: " + adjacent(pruned, B, X));
         assertTrue(pruned.candidateBoundary().contains("v2"), String.valueOf(pruned.candidateBoundary()));
         assertFalse(pruned.candidateSearch().reserve());

@@ -44,8 +44,9 @@ public final class InMemoryTally {
      * A store as {@code tally --candidates k --reserve reserve} writes it, by the job's rule restated
      * (job/plan/Candidates): per child the variables ranked by single-parent gain s(i,{j}) − s(i,∅),
      * highest first, ties to the lower index; the first {@code k} are its candidates, the next
-     * {@code reserve} its reserve (best first); families are every subset of both, of size ≤ d.
-     * {@code reserve} 0 gives a plain pruned store (the manifest has no {@code reserve}).
+     * {@code reserve} and then every other variable that keeps the child among its own k best form its
+     * reserve (best first); families are every subset of candidates and reserve, of size ≤ d.
+     * {@code reserve} −1 gives a plain pruned store (no reserve at all; the manifest has none).
      */
     public static ScoreStore pruned(List<Variable> variables, int[][] rows, int maxParents, FamilyScore score, int k,
                                     int reserve) {
@@ -53,6 +54,7 @@ public final class InMemoryTally {
         int[][] kept = new int[n][];
         Map<String, List<String>> cand = new LinkedHashMap<>();
         Map<String, List<String>> res = new LinkedHashMap<>();
+        List<List<Integer>> ranked = new ArrayList<>();
         for (int child = 0; child < n; child++) {
             double empty = score(variables, rows, child, new int[0], score);
             double[] gain = new double[n];
@@ -67,13 +69,26 @@ public final class InMemoryTally {
                 int cmp = Double.compare(gain[b], gain[a]);
                 return cmp != 0 ? cmp : Integer.compare(a, b);
             });
+            ranked.add(others);
+        }
+        for (int child = 0; child < n; child++) {
+            List<Integer> others = ranked.get(child);
             List<Integer> top = others.subList(0, Math.min(k, others.size()));
-            List<Integer> more = others.subList(top.size(), Math.min(k + reserve, others.size()));
-            kept[child] = others.subList(0, top.size() + more.size()).stream().mapToInt(Integer::intValue).sorted().toArray();
+            List<Integer> more = new ArrayList<>();
+            if (reserve >= 0) {
+                more.addAll(others.subList(top.size(), Math.min(k + reserve, others.size())));
+                // then every other variable that keeps this child among its own k best (the job's symmetric closure)
+                for (int v : others.subList(top.size() + more.size(), others.size())) {
+                    if (ranked.get(v).subList(0, Math.min(k, ranked.get(v).size())).contains(child)) {
+                        more.add(v);
+                    }
+                }
+            }
+            kept[child] = java.util.stream.Stream.concat(top.stream(), more.stream()).mapToInt(Integer::intValue).sorted().toArray();
             cand.put(variables.get(child).name(), top.stream().sorted().map(v -> variables.get(v).name()).toList());
             res.put(variables.get(child).name(), more.stream().map(v -> variables.get(v).name()).toList());
         }
-        return tally(variables, rows, maxParents, score, kept, cand, reserve > 0 ? res : null);
+        return tally(variables, rows, maxParents, score, kept, cand, reserve >= 0 ? res : null);
     }
 
     private static double score(List<Variable> variables, int[][] rows, int child, int[] parents, FamilyScore score) {
