@@ -52,6 +52,13 @@ class CandidateCautionTest {
         assertEquals(caution + "edges: wrote " + json + "\n", f.err().replace("\r\n", "\n"));
         JsonNode j = new ObjectMapper().readTree(Files.readString(json));
         assertEquals(6, j.get("candidateSearch").get("unchecked").size());
+        // the report says it under "Read this first"
+        Path html = dir.resolve("r.html");
+        assertEquals(0, CliRun.of("report", "--result", json.toString(), "--out", html.toString()).status());
+        assertTrue(Files.readString(html).contains("<li><b>Candidate parents were pruned at tally time.</b> Whether the "
+                + "candidates bound the posterior could not be checked for 6 children (nothing beyond their candidates is "
+                + "stored): v0, v1, v2, v3, v4, v5. A tally with more candidates, or with a reserve of further ones, settles it."
+                + "</li>"), "report bullet");
         assertEquals(false, j.get("candidateSearch").get("reserve").asBoolean());
     }
 
