@@ -40,6 +40,7 @@ public final class Tally {
     private final Dataset<Row> data;
     private int maxParents = 3;
     private Integer candidates;
+    private Integer reserve;
     private final List<String> columns = new ArrayList<>();
     private final List<String> exclude = new ArrayList<>();
     private final List<EdgeRule> forbid = new ArrayList<>();
@@ -78,6 +79,16 @@ public final class Tally {
     /** Keep the K best single parents per child (score gain over no parent), plus required ones. */
     public Tally candidates(int k) {
         candidates = (int) Checks.zeroOrMore(k, "candidates");
+        return this;
+    }
+
+    /**
+     * With {@link #candidates}: also count families over each child's next {@code m} candidates (same
+     * ranking), listed in the manifest as its reserve, which the driver widens a child into where the
+     * posterior reaches the edge of its candidates.
+     */
+    public Tally reserve(int m) {
+        reserve = (int) Checks.zeroOrMore(m, "reserve");
         return this;
     }
 
@@ -220,9 +231,11 @@ public final class Tally {
                         + maxStates + ")");
             }
         }
+        Checks.notApplicable(reserve != null && candidates == null, "reserve", "without candidates(K)",
+                "a reserve is the candidates ranked after the K kept");
         TallyOptions o = new TallyOptions(List.of(Table.DATASET), "dataset", ',', out, overwrite, maxParents,
                 columns, exclude, candidates, forbid, require, tiers, missing, maxStates, discretize, score, ess,
-                partitions, memoryBudget, java.nio.charset.StandardCharsets.UTF_8, weight, seed, rounds);
+                partitions, memoryBudget, java.nio.charset.StandardCharsets.UTF_8, weight, seed, rounds, reserve);
         if ((seed != null || rounds != null) && missing != MissingPolicy.AVERAGE) {
             throw new UserError((seed != null ? "seed" : "rounds") + " applies only with missing(\"average\")");
         }

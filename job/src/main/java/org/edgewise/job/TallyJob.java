@@ -88,7 +88,8 @@ public final class TallyJob {
         List<String> names = TableScan.selected(table, o);
         Constraints cons = Constraints.resolve(names, o.forbid(), o.require(), o.tiers(), o.maxParents());
         // the family count depends only on the header and d: refused before the rows are read
-        FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(), o.candidates());
+        FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(),
+                o.candidates() == null ? null : o.candidates() + (o.reserve() == null ? 0 : o.reserve()));
         if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && (o.candidates() != null || o.weight() != null)) {
             throw new UserError("--missing average does not take " + (o.candidates() != null ? "--candidates" : "--weight")
                     + ": " + (o.candidates() != null ? "candidates chosen on one completion would bound every round"
@@ -126,22 +127,33 @@ public final class TallyJob {
             int[][] cand = cons.candidates();
             int[][] req = cons.required();
             Map<String, List<String>> candidateMap = null;
+            Map<String, List<String>> reserveMap = null;
             if (o.candidates() != null) {
+                int[][] kept = cand;
+                int[][] reserve = new int[names.size()][0];
+                int wide = o.candidates() + (o.reserve() == null ? 0 : o.reserve());
                 if (Candidates.needed(cand, o.candidates())) {
                     FamilyPlan pairs = FamilyPlan.pairs(arity, cand);
                     LOG.info("candidates: pairwise pass over {} variable pairs for --candidates {}", pairs.coverCount(),
                             o.candidates());
                     Counted pc = count(blocks, pairs, score, o.memoryBudget(), names, rows, "pairs");
-                    cand = Candidates.prune(cand, req, gains(pairs, pc, names.size()), o.candidates());
+                    double[][] gain = gains(pairs, pc, names.size());
+                    kept = Candidates.prune(cand, req, gain, o.candidates());
+                    if (o.reserve() != null) {
+                        reserve = Candidates.reserve(cand, kept, gain, wide);
+                    }
                 }
                 candidateMap = new LinkedHashMap<>();
                 for (int i = 0; i < names.size(); i++) {
-                    List<String> cs = new ArrayList<>();
-                    for (int c : cand[i]) {
-                        cs.add(names.get(c));
-                    }
-                    candidateMap.put(names.get(i), cs);
+                    candidateMap.put(names.get(i), named(names, kept[i]));
                 }
+                if (o.reserve() != null) {
+                    reserveMap = new LinkedHashMap<>();
+                    for (int i = 0; i < names.size(); i++) {
+                        reserveMap.put(names.get(i), named(names, reserve[i]));
+                    }
+                }
+                cand = Candidates.union(kept, reserve);
             }
             FamilyPlan plan = FamilyPlan.families(arity, cand, req, o.maxParents());
             double bound = plan.storedBytesBound(rows);
@@ -178,7 +190,7 @@ public final class TallyJob {
                     new InputInfo(o.inputs(), table.format(), rows, scan.stats().dropped(),
                             o.missing().label(), fingerprint, o.weight()),
                     variables, o.maxParents(), candidateMap, cons.forbid(), cons.require(), cons.tiers(),
-                    o.score().label(), o.ess());
+                    o.score().label(), o.ess()).withReserve(reserveMap);
             StoreWriter.write(o.out(), m, families, counted.scores(), o.overwrite(), "--overwrite");
             double secs = (System.nanoTime() - start) / 1e9;
             LOG.info("wrote {}: {} families from {} rows in {} s", o.out(), plan.familyCount(), rows,
@@ -189,6 +201,14 @@ public final class TallyJob {
             blocks.unpersist(false);
             scan.rawBlocks().unpersist(false);
         }
+    }
+
+    private static List<String> named(List<String> names, int[] vars) {
+        List<String> out = new ArrayList<>();
+        for (int v : vars) {
+            out.add(names.get(v));
+        }
+        return out;
     }
 
     /** Counts every family of a plan, batch by batch (one pass over the blocks per batch), and scores it. */

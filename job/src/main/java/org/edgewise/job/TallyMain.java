@@ -59,6 +59,10 @@ public final class TallyMain implements Callable<Integer> {
 
     @Option(names = "--candidates", paramLabel = "K", description = "keep the K best single parents per child (by score gain over no parent), plus required ones") Integer candidates;
 
+    @Option(names = "--reserve", paramLabel = "M", description = "with --candidates: also count families over each child's next M candidates "
+            + "(same ranking) and over the variables that keep it among their K, listed as its reserve; edges starts from the K and widens a child into its reserve where the "
+            + "posterior reaches the edge of its candidates") Integer reserve;
+
     @Option(names = "--forbid", split = ",", paramLabel = "a->b", description = "edges no family may contain (repeatable)") List<String> forbid = new ArrayList<>();
 
     @Option(names = "--require", split = ",", paramLabel = "a->b", description = "edges every family of the child must contain (repeatable)") List<String> require = new ArrayList<>();
@@ -243,6 +247,11 @@ public final class TallyMain implements Callable<Integer> {
         if (candidates != null && candidates < 0) {
             throw new UserError("--candidates must be 0 or more, got " + candidates);
         }
+        if (reserve != null && reserve < 0) {
+            throw new UserError("--reserve must be 0 or more, got " + reserve);
+        }
+        Checks.notApplicable(reserve != null && candidates == null, "--reserve", "without --candidates K",
+                "a reserve is the candidates ranked after the K kept");
         if (partitions != null && (partitions < 1 || partitions > MAX_PARTITIONS)) {
             throw new UserError("--partitions must be between 1 and " + MAX_PARTITIONS + ", got " + partitions
                     + " (a few partitions per core is enough)");
@@ -316,7 +325,7 @@ public final class TallyMain implements Callable<Integer> {
         return new TallyOptions(inputs, fmt, sep, out, overwrite, maxParents,
                 trimmed(columns), trimmed(exclude), candidates, edges(forbid, "--forbid"), edges(require, "--require"),
                 tierList, policy, maxStates, bins, kind, essValue, partitions, budget, charset,
-                weight == null ? null : weight.trim(), seed, rounds);
+                weight == null ? null : weight.trim(), seed, rounds, reserve);
     }
 
     private static String shares(Map<String, Double> share) {

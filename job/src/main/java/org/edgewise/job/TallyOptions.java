@@ -28,13 +28,17 @@ import org.edgewise.driver.store.EdgeRule;
  *                     counts), never a variable; null when every line is one row
  * @param seed         the seed of data augmentation ({@link MissingPolicy#AVERAGE}); null when not given
  * @param rounds       rounds of data augmentation per chain; null when not given
+ * @param reserve      with {@code candidates}: per child, how many further candidates (the next by the
+ *                     same gain) to count families over and list as the manifest's {@code reserve}, for
+ *                     the driver to widen a child into; null for none
  */
 public record TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                            int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                            List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
                            MissingPolicy missing, int maxStates, Map<String, Integer> discretize,
                            ScoreKind score, double ess, Integer partitions, long memoryBudget,
-                           java.nio.charset.Charset encoding, String weight, Long seed, Integer rounds) {
+                           java.nio.charset.Charset encoding, String weight, Long seed, Integer rounds,
+                           Integer reserve) {
     /** Rounds of data augmentation per chain when {@code rounds} is not given. */
     public static final int DEFAULT_ROUNDS = 20;
     /** The seed of data augmentation when {@code seed} is not given. */
@@ -78,7 +82,7 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                 missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, null);
     }
 
-    /** No data-augmentation settings (the defaults). */
+    /** No data-augmentation settings (the defaults) and no reserve of candidates. */
     public TallyOptions(List<String> inputs, String format, char delimiter, Path out, boolean overwrite,
                         int maxParents, List<String> columns, List<String> exclude, Integer candidates,
                         List<EdgeRule> forbid, List<EdgeRule> require, List<List<String>> tiers,
@@ -86,7 +90,7 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                         ScoreKind score, double ess, Integer partitions, long memoryBudget,
                         java.nio.charset.Charset encoding, String weight) {
         this(inputs, format, delimiter, out, overwrite, maxParents, columns, exclude, candidates, forbid, require, tiers,
-                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, weight, null, null);
+                missing, maxStates, discretize, score, ess, partitions, memoryBudget, encoding, weight, null, null, null);
     }
 
     /** The seed of data augmentation (the default when not given). */

@@ -146,6 +146,28 @@ class TallyJobTest {
         assertEquals(2, s.endFamilyOf(1) - s.firstFamilyOf(1));
     }
 
+    /**
+     * {@code --candidates 2 --reserve 1}: the manifest lists each child's 2 best single parents and,
+     * as its reserve, the third and every variable that keeps the child among its own 2; the families are every set of at most d of the three, with the counts
+     * and scores of an independent recount that ranks the parents itself (InMemoryTally.pruned, the
+     * job's rule restated over a naive per-row count). Without --reserve the manifest has none.
+     */
+    @Test
+    void aReserveIsCountedAndListedAfterTheCandidates() {
+        ScoreStore s = TestTables.read(tallyOk("reserve", "--max-parents", "2", "--candidates", "2", "--reserve", "1"));
+        int[][] encoded = TestTables.encodeWith(s.variables(), LABELS, rows);
+        ScoreStore ref = InMemoryTally.pruned(s.variables(), encoded, 2, FamilyScore.withDefaults(), 2, 1);
+        TestTables.assertSameFamilies(ref, s, rows.length);
+        assertEquals(ref.manifest().candidates(), s.manifest().candidates());
+        assertEquals(ref.manifest().reserve(), s.manifest().reserve());
+        for (String child : NAMES) {
+            assertEquals(2, s.manifest().candidates().get(child).size(), child);
+            // the next one by gain, then any variable that keeps the child among its own 2
+            assertTrue(s.manifest().reserve().get(child).size() >= 1, child);
+        }
+        assertNull(TestTables.read(tallyOk("noreserve", "--max-parents", "2", "--candidates", "2")).manifest().reserve());
+    }
+
     static double score(FamilyScore fs, List<Variable> vars, int[][] rows, int child, int... parents) {
         FamilyCounts fc = InMemoryTally.count(vars, rows, child, parents);
         double q = 1;

@@ -76,6 +76,7 @@ class TallyOptionWalkTest {
         value("--columns", "a,b,c");
         value("--exclude", "x");
         value("--candidates", "1");
+        value("--reserve", "1"); // refused on both baselines: no --candidates
         value("--forbid", "a->b");
         value("--require", "a->c");
         value("--tiers", "a,b;c");

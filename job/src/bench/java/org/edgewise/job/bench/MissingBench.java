@@ -109,7 +109,7 @@ public final class MissingBench {
     static TallyOptions options(Path csv, Path store, int d, TallyOptions.MissingPolicy policy, Integer rounds) {
         return new TallyOptions(List.of(csv.toString()), "csv", ',', store, true, d, List.of(), List.of(), null, List.of(),
                 List.of(), List.of(), policy, 32, Map.of(), ScoreKind.BDEU, 1.0, null, 256L << 20,
-                java.nio.charset.StandardCharsets.UTF_8, null, null, rounds);
+                java.nio.charset.StandardCharsets.UTF_8, null, null, rounds, null);
     }
 
     /**

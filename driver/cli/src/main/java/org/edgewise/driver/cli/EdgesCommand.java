@@ -70,6 +70,8 @@ public final class EdgesCommand implements Callable<Integer> {
         if (output.out != null) {
             output.writeJson(result);
             if (format == null) {
+                // nothing goes to standard output: what the pruned candidates leave unsettled is said beside the file
+                spec.commandLine().getErr().print(UnknownOrderEdges.candidates(result).stripLeading());
                 spec.commandLine().getErr().println("edges: wrote " + output.out);
                 return status;
             }

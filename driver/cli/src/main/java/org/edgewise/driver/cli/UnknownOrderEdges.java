@@ -179,14 +179,49 @@ final class UnknownOrderEdges {
         sb.append(String.format(Locale.ROOT, "  %-8s  %s%n", key, text));
     }
 
+    /**
+     * What a result from pruned candidates says about them: the children widened into the store's
+     * reserve, those still bound with nothing stored to widen into (a new tally is needed), and those
+     * no rule could check. Empty for a store tallied without pruning.
+     */
+    static String candidates(EdgeResult r) {
+        StringBuilder sb = new StringBuilder();
+        EdgeResult.CandidateSearch c = r.candidateSearch();
+        if (c != null && !c.widened().isEmpty()) {
+            List<String> parts = new ArrayList<>();
+            for (EdgeResult.Widening w : c.widened()) {
+                parts.add(String.format(Locale.ROOT, "%s (+%s; %s, round %d)", w.child(), String.join(", ", w.added()), w.rule(),
+                        w.round()));
+            }
+            sb.append(String.format(Locale.ROOT, "%nCandidates widened into the store's reserve where the posterior reached them, "
+                    + "and averaged again: %s.%n", String.join("; ", parts)));
+        }
+        if (r.candidateBoundary() != null && !r.candidateBoundary().isEmpty()) {
+            sb.append(String.format(Locale.ROOT, "%nCAUTION: candidate parents pruned at tally time bound the posterior of: %s%s. Their "
+                    + "parent sets may lack a true parent (a proxy then takes its edge): tally again with a larger --candidates "
+                    + "(or --reserve), or none.%n", String.join(", ", r.candidateBoundary()),
+                    c != null && c.reserve() ? ", with no reserve left to widen into" : ""));
+        }
+        if (c != null && !c.unchecked().isEmpty()) {
+            sb.append(String.format(Locale.ROOT, "%nCAUTION: candidate parents were pruned at tally time and nothing beyond them is "
+                    + "stored, so whether they bound the posterior could not be checked for %d %s (%s); an edge into %s may stand "
+                    + "for a pruned parent. Tally with --reserve M beside --candidates to check and widen them.%n",
+                    c.unchecked().size(), c.unchecked().size() == 1 ? "child" : "children", abbreviated(c.unchecked()),
+                    c.unchecked().size() == 1 ? "it" : "them"));
+        }
+        return sb.toString();
+    }
+
+    /** Up to ten names, then how many more. */
+    private static String abbreviated(List<String> names) {
+        return names.size() <= 10 ? String.join(", ", names)
+                : String.join(", ", names.subList(0, 10)) + " and " + (names.size() - 10) + " more";
+    }
+
     /** Lines for the terminal table: the convergence block (sampled) or the word exact, and features, most probable first. */
     static String summary(EdgeResult r) {
         StringBuilder sb = new StringBuilder();
-        if (r.candidateBoundary() != null && !r.candidateBoundary().isEmpty()) {
-            sb.append(String.format(Locale.ROOT, "%nCandidate parents pruned at tally time bound the posterior of: %s. Their parent "
-                    + "sets may lack a true parent (a proxy then takes its edge): tally again with a larger --candidates, or none.%n",
-                    String.join(", ", r.candidateBoundary())));
-        }
+        sb.append(candidates(r));
         EdgeResult.Diagnostics d = r.diagnostics();
         if (d != null) {
             sb.append(convergence(d));

@@ -64,12 +64,13 @@ public final class EdgeAnalysis {
         EdgeResult primary = null;
         List<EdgeResult.Sensitivity> sens = new ArrayList<>();
         for (ScoringOptions so : options) {
-            LocalScores ls = LocalScores.build(store, so);
-            StructurePosterior p = StructurePosterior.of(ls, saved, order, settings, progress);
+            CandidateWidening.Outcome o = CandidateWidening.run(store, so, saved, order, settings, progress);
+            StructurePosterior p = o.posterior();
+            LocalScores ls = p.scores();
             if (primary == null && p.cost() != null) {
                 progress.note(p.cost() + (options.size() > 1 ? " (for each of the " + options.size() + " ESS values)" : ""));
             }
-            EdgeResult r = result(p, settings, storePath, topParents);
+            EdgeResult r = result(p, settings, storePath, topParents).withCandidates(o.boundary(), o.search());
             eachRun.accept(r);
             if (primary == null) {
                 primary = r;
@@ -84,12 +85,13 @@ public final class EdgeAnalysis {
                 primary.evidenceConvention(), primary.order(), primary.settings(), primary.store(), primary.edges(),
                 primary.parentSets(), primary.bestNetwork(), primary.diagnostics(), primary.features(), sens,
                 primary.dagPrior(), primary.essentialGraph());
-        return swept.withFragile(Fragility.of(swept)).withCandidateBoundary(primary.candidateBoundary());
+        return swept.withFragile(Fragility.of(swept)).withCandidates(primary.candidateBoundary(), primary.candidateSearch());
     }
 
     /** The edges of {@code ls} over unknown orders as {@code s} says (the Java API's one-call form). */
     public static EdgeResult edges(LocalScores ls, Path storePath, UnknownOrderSettings s, ProgressListener progress) {
-        return result(StructurePosterior.of(ls, null, s, progress), s, storePath, s.topParents());
+        StructurePosterior p = StructurePosterior.of(ls, null, s, progress);
+        return result(p, s, storePath, s.topParents()).withCandidateBoundary(candidateBoundary(ls, p.setPosterior()));
     }
 
     /** The result of one posterior; {@code s} (null given an order) says which features were asked for. */
@@ -113,7 +115,7 @@ public final class EdgeAnalysis {
                 chains != null ? ChainReport.diagnostics(chains, s)
                         : p instanceof SavedSample ss ? ChainReport.fromSample(ss, e) : null, features(names, s, p.features()), null,
                 l.dagPriorLabel(ResultBuilder.EITHER_GIVEN_ORDER), essential == null ? null : essential(names, essential));
-        return ReportedMcse.check(r).withCandidateBoundary(candidateBoundary(ls, p.setPosterior()));
+        return ReportedMcse.check(r);
     }
 
     /** The store's provenance, naming the saved sample when the result was answered from one. */

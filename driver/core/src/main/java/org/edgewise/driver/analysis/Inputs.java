@@ -19,7 +19,8 @@ import org.edgewise.driver.store.ScoreStore;
  * of DAGs it holds whenever the request names no sample itself: its one completed table alone would
  * be a single imputation. A given order does not apply to it (its DAGs were drawn over all orders).
  *
- * @param averaging the request's averaging, naming the store's own sample when it answers from it
+ * @param averaging the request's averaging, naming the store's own sample when it answers from it; null
+ *                  for a request answered from a saved sample alone ({@link #ofSample})
  */
 record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<ScoringOptions> options, Averaging averaging) {
     static Inputs of(Scoring scoring, Averaging averaging) {
@@ -45,7 +46,7 @@ record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<Scori
     static Inputs ofSample(Scoring scoring, java.nio.file.Path sample) {
         ScoreStore store = scoring.read();
         SampleFile.Loaded saved = SampleFile.read(sample, store.manifest(), scoring.store());
-        return new Inputs(store, null, saved, List.of(saved.info().scoring().options(scoring.names())));
+        return new Inputs(store, null, saved, List.of(saved.info().scoring().options(scoring.names())), null);
     }
 
     /** The local scores under the first scoring options (the only ones where no sweep applies). */

@@ -108,8 +108,8 @@ public final class MissingValuesStore {
                 }
                 // R̂ < 1.01 and bulk ESS ≥ 400 (Vehtari et al. 2021), or too steady to matter
                 converged &= switch (e.state()) {
-                    case CONSTANT, SETTLED -> true;
-                    case STUCK -> false;
+                    case CONSTANT, SETTLED, NEGLIGIBLE -> true;
+                    case STUCK, TRAP -> false;
                     case VARIES -> e.rhat() < ChainDiagnostics.RHAT_TARGET && e.ess() >= ChainDiagnostics.ESS_TARGET;
                 };
             }

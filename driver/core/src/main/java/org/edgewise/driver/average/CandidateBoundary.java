@@ -2,9 +2,12 @@ package org.edgewise.driver.average;
 
 import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
+import org.edgewise.driver.store.EdgeRule;
 import org.edgewise.driver.store.ScoreStore;
 
 /**
@@ -21,7 +24,18 @@ import org.edgewise.driver.store.ScoreStore;
  *       comes within {@link #MARGIN_NATS} of the weakest included candidate's gain. Only excluded
  *       variables whose single-parent family the store holds can be checked (a pruned tally keeps
  *       only families inside the candidate sets, so there this rule usually cannot act).</li>
+ *   <li>{@link Rule#NEIGHBOUR}: with the tables of a wider stored set beside the sampled ones (a store
+ *       tallied with a reserve of further candidates), the posterior's parent sets have one-step
+ *       neighbours that bring in an excluded variable — one added while the set is below the in-degree
+ *       bound, or one swapped for a parent — holding at least {@link #NEIGHBOUR_MASS} of the local mass
+ *       Σ_U P(U) · Σ_{V ∈ N(U)} e^{w(V)} / (e^{w(U)} + Σ_{V ∈ N(U)} e^{w(V)}). This is the check behind
+ *       the iterative search-space expansion of Kuipers, Suter &amp; Moffa (2022, "Efficient sampling and
+ *       structure learning of Bayesian networks", JCGS), whose "plus one" neighbourhood lets a parent set
+ *       hold one variable beyond the search space: a pruned true parent that the data want shows up
+ *       as a neighbour far better than the proxy standing in for it.</li>
  * </ul>
+ * A child that none of the rules can check — more candidates than the in-degree bound and no stored
+ * family with a parent beyond them — is {@linkplain #unchecked unchecked}: its result must say so.
  */
 public final class CandidateBoundary {
     /**
@@ -38,9 +52,20 @@ public final class CandidateBoundary {
      */
     public static final double MARGIN_NATS = 2.0;
 
+    /**
+     * Local mass on one-step neighbours beyond the candidates that flags a child ({@link Rule#NEIGHBOUR}):
+     * a stated rule. One chance in twenty that a single move would leave the candidate set is far above
+     * what a set that does not bind gives (e^{−Δ} for a score deficit Δ of many nats on a table of any
+     * size), and far below what a pruned true parent gives (close to 1).
+     */
+    public static final double NEIGHBOUR_MASS = 0.05;
+
+    /** Parent sets whose posterior is below this are skipped by the neighbour rule (their share cannot reach the threshold). */
+    static final double NEGLIGIBLE = 1e-9;
+
     /** How a child was found on the boundary. */
     public enum Rule {
-        FILLED("filled"), NEAR_EXCLUDED("near-excluded");
+        FILLED("filled"), NEAR_EXCLUDED("near-excluded"), NEIGHBOUR("neighbour-beyond");
 
         private final String word;
 
@@ -61,8 +86,10 @@ public final class CandidateBoundary {
      * @param filledMass posterior mass on parent sets that use every candidate (NaN when the set cannot be filled)
      * @param excluded   the best excluded variable checked (−1 when none could be checked)
      * @param gap        weakest included gain minus the best excluded gain, nats (NaN when none checked)
+     * @param beyondMass the neighbour rule's local mass beyond the candidates (NaN when no wider table was given
+     *                   or none of the child's stored sets goes beyond its candidates)
      */
-    public record Finding(int child, Rule rule, double filledMass, int excluded, double gap) {
+    public record Finding(int child, Rule rule, double filledMass, int excluded, double gap, double beyondMass) {
     }
 
     private CandidateBoundary() {
@@ -75,6 +102,16 @@ public final class CandidateBoundary {
      * @param setPosterior per child, the posterior of each of {@code ls.masks(child)}'s parent sets
      */
     public static List<Finding> find(LocalScores ls, double[][] setPosterior) {
+        return find(ls, setPosterior, null);
+    }
+
+    /**
+     * As {@link #find(LocalScores, double[][])}; with {@code wider} (the tables of every stored family
+     * under the same scoring, of which {@code ls} keeps each child's sets inside its current
+     * candidates) a child's candidates are {@code ls.candidates(child)}, the excluded variables are
+     * the stored ones beyond them, and the neighbour rule acts too.
+     */
+    public static List<Finding> find(LocalScores ls, double[][] setPosterior, LocalScores wider) {
         ScoreStore store = ls.store();
         Manifest m = store.manifest();
         if (m.candidates() == null || m.candidates().isEmpty()) {
@@ -87,7 +124,7 @@ public final class CandidateBoundary {
             if (names == null) {
                 continue;
             }
-            int[] cand = names.stream().mapToInt(m::variableIndex).sorted().toArray();
+            int[] cand = wider == null ? names.stream().mapToInt(m::variableIndex).sorted().toArray() : ls.candidates(child);
             double filled = Double.NaN;
             if (cand.length > 0 && cand.length <= m.maxParents()) {
                 long full = 0;
@@ -127,13 +164,151 @@ public final class CandidateBoundary {
                 }
             }
             double gap = bestX < 0 || Double.isInfinite(weakest) ? Double.NaN : weakest - bestGain;
+            double beyond = wider == null ? Double.NaN : beyondMass(ls, setPosterior[child], wider, child, m.maxParents());
             if (filled >= FILLED_MASS) {
-                out.add(new Finding(child, Rule.FILLED, filled, bestX, gap));
+                out.add(new Finding(child, Rule.FILLED, filled, bestX, gap, beyond));
+            } else if (beyond >= NEIGHBOUR_MASS) { // NaN: nothing beyond stored, never flagged
+                out.add(new Finding(child, Rule.NEIGHBOUR, filled, bestX, gap, beyond));
             } else if (gap <= MARGIN_NATS) { // NaN: nothing to compare, never flagged
-                out.add(new Finding(child, Rule.NEAR_EXCLUDED, filled, bestX, gap));
+                out.add(new Finding(child, Rule.NEAR_EXCLUDED, filled, bestX, gap, beyond));
             }
         }
         return out;
+    }
+
+    /**
+     * The neighbour rule's mass for one child: Σ_U P(U) · Σ_{V ∈ N(U)} e^{w(V)} / (e^{w(U)} + Σ_{V ∈ N(U)} e^{w(V)}),
+     * N(U) the stored sets U ∪ {x} (|U| &lt; d) and U \ {y} ∪ {x} for x beyond the candidates, w the log weights
+     * (score plus log prior) of {@code wider}; NaN when {@code wider} holds nothing beyond them. In log space.
+     */
+    public static double beyondMass(LocalScores ls, double[] posterior, LocalScores wider, int child, int d) {
+        int[] all = wider.candidates(child);
+        int[] cand = ls.candidates(child);
+        long inside = 0;
+        for (int c : cand) {
+            int at = Arrays.binarySearch(all, c);
+            if (at >= 0) {
+                inside |= 1L << at;
+            }
+        }
+        long beyond = (all.length == 64 ? -1L : (1L << all.length) - 1) & ~inside;
+        if (beyond == 0) {
+            return Double.NaN;
+        }
+        long[] wm = wider.masks(child);
+        double[] ww = wider.weights(child);
+        Map<Long, Double> weight = new HashMap<>(wm.length * 2);
+        for (int s = 0; s < wm.length; s++) {
+            weight.put(wm[s], ww[s]);
+        }
+        long[] masks = ls.masks(child);
+        double mass = 0;
+        double[] terms = new double[Long.bitCount(beyond) * (d + 1)];
+        for (int s = 0; s < masks.length; s++) {
+            if (!(posterior[s] > NEGLIGIBLE)) {
+                continue;
+            }
+            long u = 0; // the set over the wider table's positions
+            for (long rest = masks[s]; rest != 0; rest &= rest - 1) {
+                u |= 1L << Arrays.binarySearch(all, cand[Long.numberOfTrailingZeros(rest)]);
+            }
+            Double wu = weight.get(u);
+            if (wu == null) {
+                continue;
+            }
+            int t = 0;
+            for (long xs = beyond; xs != 0; xs &= xs - 1) {
+                long x = Long.lowestOneBit(xs);
+                if (Long.bitCount(u) < d) {
+                    t = put(weight.get(u | x), terms, t);
+                }
+                for (long ys = u; ys != 0; ys &= ys - 1) {
+                    t = put(weight.get(u & ~Long.lowestOneBit(ys) | x), terms, t);
+                }
+            }
+            if (t == 0) {
+                continue;
+            }
+            double out = LogSum.of(terms, t);
+            mass += posterior[s] * Math.exp(out - LogSum.add(out, wu));
+        }
+        return mass;
+    }
+
+    private static int put(Double w, double[] terms, int t) {
+        if (w == null) {
+            return t;
+        }
+        terms[t] = w;
+        return t + 1;
+    }
+
+    /**
+     * The children none of the rules can check: pruned (fewer candidates than the variables the
+     * tally-time constraints allow as parents), more candidates than the in-degree bound, and no stored
+     * family with a parent beyond them ({@code wider} null: beyond the manifest's candidates). Empty
+     * when the store was not pruned.
+     */
+    public static List<Integer> unchecked(LocalScores ls, LocalScores wider) {
+        Manifest m = ls.store().manifest();
+        List<Integer> out = new ArrayList<>();
+        if (m.candidates() == null) {
+            return out;
+        }
+        int n = ls.variableCount();
+        for (int child = 0; child < n; child++) {
+            List<String> names = m.candidates().get(m.variables().get(child).name());
+            if (names == null) {
+                continue;
+            }
+            int[] cand = wider == null ? names.stream().mapToInt(m::variableIndex).sorted().toArray() : ls.candidates(child);
+            if (cand.length <= m.maxParents() || cand.length >= allowedParents(m, child)) {
+                continue;
+            }
+            boolean beyond = false;
+            if (wider != null) {
+                beyond = wider.candidates(child).length > cand.length;
+            } else {
+                for (int x = 0; x < n && !beyond; x++) {
+                    beyond = x != child && Arrays.binarySearch(cand, x) < 0 && !Double.isNaN(single(ls.store(), child, x));
+                }
+            }
+            if (!beyond) {
+                out.add(child);
+            }
+        }
+        return out;
+    }
+
+    /** How many variables the tally-time constraints (forbidden edges, tiers) allow as parents of {@code child}. */
+    static int allowedParents(Manifest m, int child) {
+        String name = m.variables().get(child).name();
+        int childTier = tier(m, name);
+        int count = 0;
+        for (int x = 0; x < m.variableCount(); x++) {
+            String xn = m.variables().get(x).name();
+            if (x == child || m.forbidden() != null && m.forbidden().contains(new EdgeRule(xn, name))) {
+                continue;
+            }
+            int t = tier(m, xn);
+            if (t >= 0 && childTier >= 0 && t > childTier) {
+                continue;
+            }
+            count++;
+        }
+        return count;
+    }
+
+    private static int tier(Manifest m, String name) {
+        if (m.tiers() == null) {
+            return -1;
+        }
+        for (int t = 0; t < m.tiers().size(); t++) {
+            if (m.tiers().get(t).contains(name)) {
+                return t;
+            }
+        }
+        return -1;
     }
 
     /** The stored log score of {@code child} with parent set {parent} (empty for −1), NaN when not stored. */

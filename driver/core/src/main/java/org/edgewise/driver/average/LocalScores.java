@@ -56,6 +56,16 @@ public final class LocalScores {
      * forbidden / required edges removing parent sets.
      */
     public static LocalScores build(ScoreStore store, ScoringOptions options) {
+        return build(store, options, null);
+    }
+
+    /**
+     * As {@link #build(ScoreStore, ScoringOptions)}, keeping of each child only the stored parent sets
+     * inside {@code allowed[child]} (sorted variable indices; a null array or a null row keeps every
+     * stored set): the tables of a candidate set narrower than the store's, e.g. a store's starting
+     * candidates before its reserve is used ({@link CandidateBoundary}).
+     */
+    public static LocalScores build(ScoreStore store, ScoringOptions options, int[][] allowed) {
         Manifest m = store.manifest();
         ScoreKind storedKind = ScoreKind.parse(m.score());
         ScoreKind kind = options.score() == null ? storedKind : options.score();
@@ -86,8 +96,12 @@ public final class LocalScores {
         for (int child = 0; child < n; child++) {
             int from = store.firstFamilyOf(child);
             int to = store.endFamilyOf(child);
+            int[] within = allowed == null ? null : allowed[child];
             TreeSet<Integer> cs = new TreeSet<>();
             for (int f = from; f < to; f++) {
+                if (!inside(store.family(f).parents(), within)) {
+                    continue;
+                }
                 for (int p : store.family(f).parents()) {
                     cs.add(p);
                 }
@@ -126,6 +140,9 @@ public final class LocalScores {
             List<Integer> kept = new ArrayList<>();
             List<Long> keptMasks = new ArrayList<>();
             for (int f = from; f < to; f++) {
+                if (!inside(store.family(f).parents(), within)) {
+                    continue;
+                }
                 long mask = 0;
                 boolean ok = true;
                 for (int p : store.family(f).parents()) {
@@ -162,6 +179,19 @@ public final class LocalScores {
             });
         }
         return new LocalScores(store, fs, options, cands, masks, weights, priors, fams);
+    }
+
+    /** True when every parent is in {@code within} (sorted), or {@code within} is null. */
+    private static boolean inside(int[] parents, int[] within) {
+        if (within == null) {
+            return true;
+        }
+        for (int p : parents) {
+            if (Arrays.binarySearch(within, p) < 0) {
+                return false;
+            }
+        }
+        return true;
     }
 
     private static int index(Manifest m, String name, String option) {

@@ -58,6 +58,40 @@ final class Cautions {
                 .append(fr.size() == 1 ? "it" : "them").append(" as unsettled.</li>\n").toString();
     }
 
+    /**
+     * The pruned-candidates bullet (HTML): the children whose candidate sets still bound the posterior,
+     * and those no rule could check; the widenings made; empty for a store tallied without pruning.
+     */
+    static String candidates(EdgeResult r) {
+        EdgeResult.CandidateSearch c = r.candidateSearch();
+        List<String> bound = r.candidateBoundary();
+        boolean any = bound != null && !bound.isEmpty() || c != null && (!c.unchecked().isEmpty() || !c.widened().isEmpty());
+        if (!any) {
+            return "";
+        }
+        StringBuilder sb = new StringBuilder("<li><b>Candidate parents were pruned at tally time.</b> ");
+        if (c != null && !c.widened().isEmpty()) {
+            List<String> names = c.widened().stream().map(EdgeResult.Widening::child).distinct().toList();
+            sb.append("The candidate sets of ").append(esc(String.join(", ", names)))
+                    .append(" were widened into the store's reserve where the posterior reached them, and the result was "
+                            + "averaged again. ");
+        }
+        if (bound != null && !bound.isEmpty()) {
+            sb.append("The candidate sets still bound the posterior of ").append(esc(String.join(", ", bound)))
+                    .append(": their parent sets may lack a true parent, whose edge a proxy then takes. ");
+        }
+        if (c != null && !c.unchecked().isEmpty()) {
+            sb.append("Whether the candidates bound the posterior could not be checked for ").append(c.unchecked().size())
+                    .append(c.unchecked().size() == 1 ? " child" : " children")
+                    .append(" (nothing beyond their candidates is stored): ").append(esc(String.join(", ", c.unchecked())))
+                    .append(". ");
+        }
+        if (bound != null && !bound.isEmpty() || c != null && !c.unchecked().isEmpty()) {
+            sb.append("A tally with more candidates, or with a reserve of further ones, settles it.");
+        }
+        return sb.append("</li>\n").toString();
+    }
+
     /** The result's fragility list, computed from its sweep for a result written without one. */
     static List<EdgeResult.Fragile> fragileOf(EdgeResult r) {
         return r.fragile() != null ? r.fragile() : Fragility.of(r);

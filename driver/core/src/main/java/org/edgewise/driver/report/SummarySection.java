@@ -75,11 +75,7 @@ final class SummarySection {
             h.append("<li><b>Every arrow follows the order you gave</b>: an assumption, not something learned from the data.</li>\n");
         }
         h.append(Cautions.fragile(r));
-        if (r.candidateBoundary() != null && !r.candidateBoundary().isEmpty()) {
-            h.append("<li><b>Pruned candidates bound the result:</b> the candidate parents kept at tally time for ")
-                    .append(esc(String.join(", ", r.candidateBoundary())))
-                    .append(" carry posterior weight up to their limit, so edges into them from variables left out may be missed.</li>\n");
-        }
+        h.append(Cautions.candidates(r));
         if (r.diagnostics() != null && !r.diagnostics().converged()) {
             h.append("<li><b>The sampler did not converge:</b> do not use these posteriors yet (see Convergence).</li>\n");
         }

@@ -30,6 +30,12 @@ import java.util.Map;
  *                               directions (P(compelled) ≥ 0.5) whose posterior falls below 0.5 at
  *                               another ESS of the sweep ({@link Fragility}); empty when none does,
  *                               null without a sweep. Older readers ignore it (no format-version change).
+ * @param candidateBoundary      from a store tallied with pruned candidates: the children whose candidate
+ *                               sets still bound the posterior (after any widening); empty when none does,
+ *                               null when the store was not pruned
+ * @param candidateSearch        from a pruned store: which children were widened into the store's reserve,
+ *                               and which could not be checked at all ({@link CandidateSearch}); null when
+ *                               the store was not pruned. Older readers ignore it.
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -38,7 +44,8 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          List<VariableParents> parentSets, Network bestNetwork,
                          Diagnostics diagnostics, List<Feature> features,
                          List<Sensitivity> sensitivity, String dagPrior,
-                         List<EssentialPair> essentialGraph, List<Fragile> fragile, List<String> candidateBoundary)
+                         List<EssentialPair> essentialGraph, List<Fragile> fragile, List<String> candidateBoundary,
+                         CandidateSearch candidateSearch)
         implements JsonResult {
     /** A result without the {@code fragile} list (computed by {@link Fragility} once the sweep is in). */
     public EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -49,12 +56,12 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                       List<Sensitivity> sensitivity, String dagPrior,
                       List<EssentialPair> essentialGraph) {
         this(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings, store, edges,
-                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, null, null);
+                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, null, null, null);
     }
 
     /** The same result with {@code fragile} as its fragility list. */
     public EdgeResult withFragile(List<Fragile> fragile) {
-        return copy(fragile, candidateBoundary);
+        return copy(fragile, candidateBoundary, candidateSearch);
     }
 
     /**
@@ -62,14 +69,37 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
      * posterior (empty when none does; null when the store was not pruned).
      */
     public EdgeResult withCandidateBoundary(List<String> boundary) {
-        return copy(fragile, boundary);
+        return copy(fragile, boundary, candidateSearch);
     }
 
-    /** The same result with {@code fragile} and {@code boundary} in place of its own. */
-    private EdgeResult copy(List<Fragile> fragile, List<String> boundary) {
+    /** The same result with {@code boundary} and {@code search} (see the record's description) in place of its own. */
+    public EdgeResult withCandidates(List<String> boundary, CandidateSearch search) {
+        return copy(fragile, boundary, search);
+    }
+
+    /** The same result with {@code fragile}, {@code boundary} and {@code search} in place of its own. */
+    private EdgeResult copy(List<Fragile> fragile, List<String> boundary, CandidateSearch search) {
         return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
                 store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile,
-                boundary);
+                boundary, search);
+    }
+
+    /**
+     * How a result from pruned candidates searched beyond them (the iterative search-space expansion of
+     * Kuipers, Suter &amp; Moffa 2022, over what the store holds).
+     *
+     * @param reserve   true when the store kept a reserve of further candidates to widen into
+     * @param widened   each widening, in the order made: the round after which it was made, the child,
+     *                  the candidates added (from its reserve) and the rule that asked for it
+     * @param unchecked children whose candidate sets were pruned and that no rule could check: more
+     *                  candidates than the in-degree bound (so the set cannot be filled) and no stored
+     *                  family with a parent beyond them; their edges may rest on a proxy of a pruned parent
+     */
+    public record CandidateSearch(boolean reserve, List<Widening> widened, List<String> unchecked) {
+    }
+
+    /** One child widened into its reserve after sampling round {@code round} (1 = the first). */
+    public record Widening(int round, String child, List<String> added, String rule) {
     }
     @Override
     public String kind() {

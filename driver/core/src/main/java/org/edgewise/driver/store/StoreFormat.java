@@ -61,7 +61,8 @@ public final class StoreFormat {
     static Manifest stamp(Manifest m, StoreParts parts) {
         return new Manifest(m.missingValues() == null ? VERSION_PLAIN : VERSION, m.program(), m.programVersion(),
                 m.createdAt(), m.input(), m.variables(), m.maxParents(), m.candidates(), m.forbidden(), m.required(),
-                m.tiers(), m.score(), m.ess(), parts, m.missingValues());
+                m.tiers(), m.score(), m.ess(), parts, m.missingValues(),
+                m.reserve());
     }
 
     /** Refuses a manifest (as parsed JSON) without a format version or of another one. */
