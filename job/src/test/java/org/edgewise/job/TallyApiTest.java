@@ -106,6 +106,10 @@ class TallyApiTest {
         assertEquals("dataset: column 'bc' has type struct<b:int,c:string>, not a discrete value; leave it out with "
                 + "exclude(\"bc\")", e.getMessage());
         assertFalse(Files.exists(dir.resolve("nested")), "nothing written");
+        // following the advice works: the column left out is never read (issue 23, a refusal that ignored its own advice)
+        Tally.of(nested).exclude("bc").writeTo(dir.resolve("nested-excluded").toString());
+        assertEquals(List.of("a"), TestTables.read(dir.resolve("nested-excluded")).manifest().variables().stream()
+                .map(org.edgewise.driver.store.Variable::name).toList());
 
         e = assertThrows(UserError.class, () -> Tally.of(data).maxParents(-1));
         assertEquals("maxParents must be 0 or more, got -1", e.getMessage());

@@ -38,9 +38,16 @@ public final class Table {
     private final java.nio.charset.Charset encoding;
     /** URIs of the CSV files read whole ({@code multiLine}) because a quoted field spans lines. */
     private final java.util.Set<String> multiLine;
+    /**
+     * Columns whose type holds no discrete value (struct, array, map, binary), each with its refusal:
+     * refused only when selected as a variable ({@link #refuseUnusable}), read as null otherwise.
+     */
+    private final java.util.Map<String, String> unusable;
 
     private Table(SparkSession spark, List<DataFile> files, List<String> columns, boolean csv, char delimiter,
-                  Dataset<Row> given, java.nio.charset.Charset encoding, java.util.Set<String> multiLine) {
+                  Dataset<Row> given, java.nio.charset.Charset encoding, java.util.Set<String> multiLine,
+                  java.util.Map<String, String> unusable) {
+        this.unusable = java.util.Map.copyOf(unusable);
         this.encoding = encoding;
         this.multiLine = java.util.Set.copyOf(multiLine);
         this.spark = spark;
@@ -61,11 +68,11 @@ public final class Table {
      */
     public static Table of(Dataset<Row> data) {
         List<String> names = new ArrayList<>();
+        java.util.Map<String, String> unusable = new java.util.HashMap<>();
         for (StructField field : data.schema().fields()) {
             DataType t = field.dataType();
-            if (t instanceof StructType || t instanceof org.apache.spark.sql.types.ArrayType
-                    || t instanceof org.apache.spark.sql.types.MapType || t instanceof org.apache.spark.sql.types.BinaryType) {
-                throw new UserError(DATASET + ": column '" + field.name() + "' has type " + t.simpleString()
+            if (notDiscrete(t)) {
+                unusable.put(field.name(), DATASET + ": column '" + field.name() + "' has type " + t.simpleString()
                         + ", not a discrete value; leave it out with exclude(\"" + field.name() + "\")");
             }
             if (names.contains(field.name())) {
@@ -77,7 +84,7 @@ public final class Table {
             throw new UserError(DATASET + ": the Dataset has no columns");
         }
         return new Table(data.sparkSession(), List.of(new DataFile(DATASET, DATASET, DATASET)), names, false, ',', data,
-                java.nio.charset.StandardCharsets.UTF_8, java.util.Set.of());
+                java.nio.charset.StandardCharsets.UTF_8, java.util.Set.of(), unusable);
     }
 
     /** Resolves the inputs and reads their headers (no Spark job runs yet). */
@@ -92,6 +99,7 @@ public final class Table {
         List<DataFile> files = InputFiles.resolve(inputs, format, conf);
         boolean csv = files.get(0).format().equals("csv");
         List<String> columns;
+        java.util.Map<String, String> unusable = new java.util.HashMap<>();
         if (csv) {
             List<List<String>> headers = new ArrayList<>();
             for (DataFile f : files) {
@@ -105,20 +113,20 @@ public final class Table {
             for (DataFile f : files) {
                 StructType schema = parquetSchema(spark, f);
                 schemas.add(schema);
-                headers.add(parquetColumns(f, schema));
+                headers.add(parquetColumns(f, schema, unusable));
             }
             InputFiles.sameColumns(files, headers);
             sameTypes(files, schemas);
             columns = headers.get(0);
         }
-        return new Table(spark, files, columns, csv, delimiter, null, encoding, java.util.Set.of());
+        return new Table(spark, files, columns, csv, delimiter, null, encoding, java.util.Set.of(), unusable);
     }
 
     /** This table with {@code whole} (CSV files of it) read whole, as records that may span lines. */
     public Table withMultiLine(java.util.Collection<DataFile> whole) {
         java.util.Set<String> uris = new java.util.HashSet<>(multiLine);
         whole.forEach(f -> uris.add(f.uri()));
-        return new Table(spark, files, columns, csv, delimiter, given, encoding, uris);
+        return new Table(spark, files, columns, csv, delimiter, given, encoding, uris, unusable);
     }
 
     /** True when {@code f} is read whole because a quoted field of it spans lines. */
@@ -162,14 +170,13 @@ public final class Table {
         }
     }
 
-    private static List<String> parquetColumns(DataFile f, StructType schema) {
+    private static List<String> parquetColumns(DataFile f, StructType schema, java.util.Map<String, String> unusable) {
         List<String> names = new ArrayList<>();
         for (StructField field : schema.fields()) {
             DataType t = field.dataType();
-            if (t instanceof StructType || t instanceof org.apache.spark.sql.types.ArrayType
-                    || t instanceof org.apache.spark.sql.types.MapType || t instanceof org.apache.spark.sql.types.BinaryType) {
-                throw new UserError("input " + InputFiles.display(f) + ": column '" + field.name() + "' has type "
-                        + t.simpleString() + ", not a discrete value; drop it with --exclude " + field.name());
+            if (notDiscrete(t)) {
+                unusable.putIfAbsent(field.name(), "input " + InputFiles.display(f) + ": column '" + field.name()
+                        + "' has type " + t.simpleString() + ", not a discrete value; drop it with --exclude " + field.name());
             }
             if (names.contains(field.name())) {
                 throw new UserError("input " + InputFiles.display(f) + ": duplicate column name '" + field.name() + "'");
@@ -190,6 +197,22 @@ public final class Table {
             throw new UserError("input " + InputFiles.display(f) + ": the file has no columns");
         }
         return names;
+    }
+
+    /** A type that holds no discrete value: a struct, array, map or binary column. */
+    private static boolean notDiscrete(DataType t) {
+        return t instanceof StructType || t instanceof org.apache.spark.sql.types.ArrayType
+                || t instanceof org.apache.spark.sql.types.MapType || t instanceof org.apache.spark.sql.types.BinaryType;
+    }
+
+    /** Refuses the first of {@code selected} whose type holds no discrete value (the rest are never read). */
+    public void refuseUnusable(List<String> selected) {
+        for (String c : selected) {
+            String why = unusable.get(c);
+            if (why != null) {
+                throw new UserError(why);
+            }
+        }
     }
 
     public SparkSession spark() {
@@ -280,7 +303,8 @@ public final class Table {
     private Dataset<Row> asText(Dataset<Row> d) {
         List<Column> cs = new ArrayList<>();
         for (String c : columns) {
-            cs.add(col("`" + c.replace("`", "``") + "`").cast(DataTypes.StringType).as(c));
+            cs.add(unusable.containsKey(c) ? org.apache.spark.sql.functions.lit(null).cast(DataTypes.StringType).as(c)
+                    : col("`" + c.replace("`", "``") + "`").cast(DataTypes.StringType).as(c));
         }
         return d.select(cs.toArray(Column[]::new));
     }

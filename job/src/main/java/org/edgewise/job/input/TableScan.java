@@ -100,6 +100,7 @@ public final class TableScan {
         if (names.isEmpty()) {
             throw new UserError("no variables left after --columns/--exclude" + (w == null ? "" : "/--weight"));
         }
+        table.refuseUnusable(names);
         for (String c : names) {
             String why = unnameable(c);
             if (why != null) {
