@@ -10,6 +10,7 @@ import org.edgewise.driver.average.augment.Augmentation;
 import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.dag.DagDraws;
+import org.edgewise.driver.average.dag.ParentListDraws;
 import org.edgewise.driver.posterior.DagSample;
 import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.store.Manifest;
@@ -45,7 +46,7 @@ public final class MissingValuesStore {
         int[][][][] dags = new int[chains][per][][];
         for (int c = 0; c < chains; c++) {
             for (int k = 0; k < per; k++) {
-                dags[c][k] = Augmentation.parentLists(o.kept().get(c).get(k));
+                dags[c][k] = ParentListDraws.parentLists(o.kept().get(c).get(k));
             }
         }
         DagSample d = new DagSample(n, dags, null);

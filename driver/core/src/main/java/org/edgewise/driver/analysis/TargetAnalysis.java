@@ -65,15 +65,8 @@ final class TargetAnalysis {
         if (s.target().intervalLevel() != null) {
             int draws = s.target().intervalDraws();
             DagSample d = s.p().sampleDags(draws, s.seed()).dags();
-            int k = (int) d.total();
-            int[][][] dags = new int[k][][];
-            double[] w = d.weighted() ? new double[k] : null;
-            for (int g = 0; g < k; g++) {
-                dags[g] = d.dags()[g / d.perChain()][g % d.perChain()];
-                if (w != null) {
-                    w[g] = d.weights()[g / d.perChain()][g % d.perChain()];
-                }
-            }
+            int[][][] dags = d.flatDags();
+            double[] w = d.flatWeights();
             iv = PredictionDraws.run(s.ls().store(), s.ls().familyScore(), dags, w, draws, s.seed(), s.target().intervalLevel(),
                     tc, r, Math.min(s.maxHiddenStates(), MAX_TABLE), where, "the structure posterior's DAGs",
                     s.ls().options().names().maxHiddenStates());

@@ -1,6 +1,7 @@
 package org.edgewise.driver.effect;
 
 import java.util.Arrays;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 
 /**
  * The posterior distribution of an effect from draws of (DAG, θ): a DAG from the structure
@@ -46,18 +47,8 @@ public record EffectDraws(String of, int count, double mean, double level, doubl
             int b = (int) Math.floor((x - lo) / (hi - lo) * BINS);
             counts[Math.max(0, Math.min(BINS - 1, b))]++;
         }
-        return new EffectDraws(of, k, mean, level, quantile(v, (1 - level) / 2), quantile(v, (1 + level) / 2),
+        return new EffectDraws(of, k, mean, level, ChainDiagnostics.sortedQuantile(v, (1 - level) / 2), ChainDiagnostics.sortedQuantile(v, (1 + level) / 2),
                 lo, hi, counts, none / (double) k);
-    }
-
-    /** Hyndman &amp; Fan (1996) type 7 quantile of sorted values (linear interpolation; R's default). */
-    static double quantile(double[] sorted, double p) {
-        double h = (sorted.length - 1) * p;
-        int i = (int) Math.floor(h);
-        if (i + 1 >= sorted.length) {
-            return sorted[sorted.length - 1];
-        }
-        return sorted[i] + (h - i) * (sorted[i + 1] - sorted[i]);
     }
 
     @Override

@@ -1,6 +1,7 @@
 package org.edgewise.driver.effect;
 
 import java.util.Arrays;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 
 /**
  * The measures epidemiologists compare two interventions by, each with a central credible interval
@@ -13,7 +14,7 @@ import java.util.Arrays;
  * Ratios are computed in log space (log p − log p0; log p − log1p(−p) − …) so that small risks keep
  * their digits. The point estimate is the measure of the model's probabilities (the posterior means
  * P(y | do(·), D)); the interval is the (1 ± level)/2 quantiles of the measure over the draws
- * (type 7, {@link EffectDraws#quantile}).
+ * (type 7, {@link ChainDiagnostics#sortedQuantile}).
  *
  * <p><b>An interval that contains its estimate.</b> A draw whose DAG has no directed path from x to
  * the outcome has exactly no effect (difference 0, ratios 1). When such draws make up at least
@@ -137,17 +138,17 @@ public final class EffectMeasures {
             }
             double[] v = Arrays.copyOf(withPath, w);
             Arrays.sort(v);
-            return new Measure(kind, EffectDraws.quantile(v, 0.5), "median of the draws with an effect", level,
-                    EffectDraws.quantile(v, (1 - level) / 2), EffectDraws.quantile(v, (1 + level) / 2),
+            return new Measure(kind, ChainDiagnostics.sortedQuantile(v, 0.5), "median of the draws with an effect", level,
+                    ChainDiagnostics.sortedQuantile(v, (1 - level) / 2), ChainDiagnostics.sortedQuantile(v, (1 + level) / 2),
                     "draws with an effect", noneShare, est);
         }
         double[] v = Arrays.copyOf(all, m);
         Arrays.sort(v);
-        double lo = EffectDraws.quantile(v, (1 - level) / 2);
-        double hi = EffectDraws.quantile(v, (1 + level) / 2);
+        double lo = ChainDiagnostics.sortedQuantile(v, (1 - level) / 2);
+        double hi = ChainDiagnostics.sortedQuantile(v, (1 + level) / 2);
         if (est >= lo && est <= hi) {
             return new Measure(kind, est, "model", level, lo, hi, "all draws", null, null);
         }
-        return new Measure(kind, EffectDraws.quantile(v, 0.5), "median of the draws", level, lo, hi, "all draws", null, est);
+        return new Measure(kind, ChainDiagnostics.sortedQuantile(v, 0.5), "median of the draws", level, lo, hi, "all draws", null, est);
     }
 }

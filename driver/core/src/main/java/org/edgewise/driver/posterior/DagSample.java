@@ -3,6 +3,7 @@ package org.edgewise.driver.posterior;
 import java.util.List;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.effect.WeightedDags;
+import org.edgewise.driver.average.dag.ParentListDraws;
 
 /**
  * DAGs drawn from a structure posterior, chain by chain in draw order, each DAG the sorted parent
@@ -30,6 +31,29 @@ public record DagSample(int variables, int[][][][] dags, double[][] weights) {
 
     public boolean weighted() {
         return weights != null;
+    }
+
+    /** Every DAG in one list, chain after chain in draw order (shared, not copied). */
+    public int[][][] flatDags() {
+        int k = (int) total();
+        int[][][] out = new int[k][][];
+        for (int g = 0; g < k; g++) {
+            out[g] = dags[g / perChain()][g % perChain()];
+        }
+        return out;
+    }
+
+    /** The weights in {@link #flatDags()}'s order, or null when every DAG weighs the same. */
+    public double[] flatWeights() {
+        if (weights == null) {
+            return null;
+        }
+        int k = (int) total();
+        double[] out = new double[k];
+        for (int g = 0; g < k; g++) {
+            out[g] = weights[g / perChain()][g % perChain()];
+        }
+        return out;
     }
 
     /**
@@ -89,22 +113,9 @@ public record DagSample(int variables, int[][][][] dags, double[][] weights) {
     static DagSample fromMasks(int n, List<int[]> masks, double[] weights) {
         int[][][] chain = new int[masks.size()][][];
         for (int k = 0; k < chain.length; k++) {
-            chain[k] = parentLists(masks.get(k));
+            chain[k] = ParentListDraws.parentLists(masks.get(k));
         }
         return new DagSample(n, new int[][][][] {chain}, weights == null ? null : new double[][] {weights});
-    }
-
-    /** The parents of every variable of a DAG given as parent bitmasks, ascending. */
-    static int[][] parentLists(int[] masks) {
-        int[][] pa = new int[masks.length][];
-        for (int v = 0; v < masks.length; v++) {
-            int mask = masks[v];
-            pa[v] = new int[Integer.bitCount(mask)];
-            for (int m = mask, i = 0; m != 0; m &= m - 1) {
-                pa[v][i++] = Integer.numberOfTrailingZeros(m);
-            }
-        }
-        return pa;
     }
 
     /** A DAG as parent bitmasks (n ≤ 31). */

@@ -191,15 +191,9 @@ public final class SavedSample implements StructurePosterior {
 
     @Override
     public Cases cases(double tailMass, long maxHiddenStates) {
-        int k = (int) d.total();
-        int[][][] dags = new int[k][][];
-        double[] w = d.weighted() ? new double[k] : null;
-        for (int g = 0; g < k; g++) {
-            dags[g] = d.dags()[g / d.perChain()][g % d.perChain()];
-            if (w != null) {
-                w[g] = d.weights()[g / d.perChain()][g % d.perChain()];
-            }
-        }
+        int[][][] dags = d.flatDags();
+        double[] w = d.flatWeights();
+        int k = dags.length;
         long limit = Math.min(maxHiddenStates, MAX_TABLE);
         String where = "sample " + saved.path();
         DagMixture mix = new DagMixture(ls.store(), ls.familyScore(), dags, w, independent() ? 0 : d.chains(), limit,

@@ -6,6 +6,7 @@ import org.edgewise.driver.effect.WeightedDags;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.exact.StructureSum;
+import org.edgewise.driver.average.dag.ParentListDraws;
 
 /**
  * DAGs from the structure-modular posterior P(G | D) ∝ Π_i ρ_i(U_i) exp(s(i, U_i)), as the list
@@ -41,11 +42,7 @@ final class StructureDraws implements WeightedDags {
             for (int k = 0; k < d.chainLength(c); k++, g++) {
                 int[][] pa = new int[n][];
                 for (int v = 0; v < n; v++) {
-                    int mask = d.parentsOf(c, k, v);
-                    pa[v] = new int[Integer.bitCount(mask)];
-                    for (int m = mask, i = 0; m != 0; m &= m - 1) {
-                        pa[v][i++] = Integer.numberOfTrailingZeros(m);
-                    }
+                    pa[v] = ParentListDraws.parents(d.parentsOf(c, k, v));
                 }
                 parents[g] = pa;
                 weights[g] = d.weight(c, k);

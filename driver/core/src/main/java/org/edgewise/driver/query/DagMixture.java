@@ -78,15 +78,7 @@ public final class DagMixture implements CaseProbability {
         this.maxTable = maxTable;
         this.names = names;
         this.where = where;
-        familyOf = new Map[n];
-        for (int c = 0; c < n; c++) {
-            familyOf[c] = new HashMap<>();
-            for (int f = store.firstFamilyOf(c); f < store.endFamilyOf(c); f++) {
-                int[] pa = store.family(f).parents().clone();
-                Arrays.sort(pa);
-                familyOf[c].put(Arrays.toString(pa), f);
-            }
-        }
+        familyOf = PredictionDraws.familyIndex(store);
     }
 
     /** Number of draws (K, repeats counted). */

@@ -13,6 +13,7 @@ import org.edgewise.driver.average.DirichletDraw;
 import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
 
 /**
  * The posterior spread of a prediction: M draws of a network and its parameters, (G_m, θ_m) — G_m
@@ -126,22 +127,12 @@ public final class PredictionDraws {
             for (int k = 0; k < states; k++) {
                 System.arraycopy(all, (i * states + k) * draws, v, 0, draws);
                 Arrays.sort(v);
-                lo[i][k] = quantile(v, pl);
-                hi[i][k] = quantile(v, ph);
+                lo[i][k] = ChainDiagnostics.sortedQuantile(v, pl);
+                hi[i][k] = ChainDiagnostics.sortedQuantile(v, ph);
                 worst = Math.max(worst, Math.max(endMcse(v, pl), endMcse(v, ph)));
             }
         }
         return new Interval(level, draws, lo, hi, worst);
-    }
-
-    /** Hyndman &amp; Fan (1996) type 7 quantile of sorted values (linear interpolation; R's default). */
-    static double quantile(double[] sorted, double p) {
-        double h = (sorted.length - 1) * p;
-        int i = (int) Math.floor(h);
-        if (i + 1 >= sorted.length) {
-            return sorted[sorted.length - 1];
-        }
-        return sorted[i] + (h - i) * (sorted[i + 1] - sorted[i]);
     }
 
     /** Half the spread of the order statistics at M p ± sqrt(M p (1 − p)): one standard error of the p-quantile. */
@@ -212,8 +203,13 @@ public final class PredictionDraws {
         return theta;
     }
 
+    /**
+     * Per child, its stored families by parent list (ascending, as text): the one index that the DAG
+     * mixture ({@link DagMixture}) and these draws look a DAG's families up in. Memory: one map entry
+     * per stored family.
+     */
     @SuppressWarnings("unchecked")
-    private static Map<String, Integer>[] familyIndex(ScoreStore store) {
+    static Map<String, Integer>[] familyIndex(ScoreStore store) {
         int n = store.variableCount();
         Map<String, Integer>[] familyOf = new Map[n];
         for (int c = 0; c < n; c++) {

@@ -12,6 +12,7 @@ import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.average.dag.ParentListDraws;
 
 /**
  * Data augmentation over missing values (Tanner &amp; Wong 1987), missing at random assumed: each
@@ -114,7 +115,7 @@ public final class Augmentation {
                 if (t >= s.burnIn()) {
                     kept.get(c).addAll(dags);
                 }
-                net[c] = DrawnNetwork.draw(store, score, parentLists(dags.get(0)), rng[c]);
+                net[c] = DrawnNetwork.draw(store, score, ParentListDraws.parentLists(dags.get(0)), rng[c]);
                 if (c == 0) {
                     last = store;
                 }
@@ -130,18 +131,5 @@ public final class Augmentation {
         LocalScores ls = LocalScores.build(store, ScoringOptions.asStored());
         OrderConstraints oc = OrderConstraints.of(ls, manifest.tiers());
         return ExactDagSampler.of(ls, oc).draw(DagPrior.ORDER_MODULAR, count, seed, Double.NaN);
-    }
-
-    /** The parents of every variable of a DAG given as parent bitmasks, ascending. */
-    public static int[][] parentLists(int[] masks) {
-        int[][] pa = new int[masks.length][];
-        for (int v = 0; v < masks.length; v++) {
-            int mask = masks[v];
-            pa[v] = new int[Integer.bitCount(mask)];
-            for (int m = mask, i = 0; m != 0; m &= m - 1) {
-                pa[v][i++] = Integer.numberOfTrailingZeros(m);
-            }
-        }
-        return pa;
     }
 }

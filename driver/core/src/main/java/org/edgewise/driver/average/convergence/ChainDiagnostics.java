@@ -456,11 +456,20 @@ public final class ChainDiagnostics {
 
     /** Sample quantile of the pooled draws (type 7: linear interpolation between order statistics). */
     static double quantile(double[][] s, double p) {
-        double[] all = Arrays.stream(s).flatMapToDouble(Arrays::stream).sorted().toArray();
-        double h = (all.length - 1) * p;
-        int lo = (int) Math.floor(h);
-        int hi = Math.min(all.length - 1, lo + 1);
-        return all[lo] + (h - lo) * (all[hi] - all[lo]);
+        return sortedQuantile(Arrays.stream(s).flatMapToDouble(Arrays::stream).sorted().toArray(), p);
+    }
+
+    /**
+     * Hyndman &amp; Fan (1996) type 7 quantile of sorted values (linear interpolation; R's default): the
+     * one quantile of the project (intervals of effects and predictions, tail ESS).
+     */
+    public static double sortedQuantile(double[] sorted, double p) {
+        double h = (sorted.length - 1) * p;
+        int i = (int) Math.floor(h);
+        if (i + 1 >= sorted.length) {
+            return sorted[sorted.length - 1];
+        }
+        return sorted[i] + (h - i) * (sorted[i + 1] - sorted[i]);
     }
 
     private static double median(double[][] s) {

@@ -30,6 +30,24 @@ public final class ParentListDraws implements DrawnDags {
         this.weights = weights;
     }
 
+    /** The parents in {@code mask} (a parent bitmask, n ≤ 31), ascending. */
+    public static int[] parents(int mask) {
+        int[] pa = new int[Integer.bitCount(mask)];
+        for (int m = mask, i = 0; m != 0; m &= m - 1) {
+            pa[i++] = Integer.numberOfTrailingZeros(m);
+        }
+        return pa;
+    }
+
+    /** The parents of every variable of a DAG given as parent bitmasks, ascending. */
+    public static int[][] parentLists(int[] masks) {
+        int[][] pa = new int[masks.length][];
+        for (int v = 0; v < masks.length; v++) {
+            pa[v] = parents(masks[v]);
+        }
+        return pa;
+    }
+
     @Override
     public int variableCount() {
         return n;
