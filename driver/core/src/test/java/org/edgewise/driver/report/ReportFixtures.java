@@ -42,11 +42,11 @@ final class ReportFixtures {
 
     private static final Map<Integer, EdgeResult> CACHE = new java.util.HashMap<>();
 
-    private static EdgeResult computeFleetGivenOrder(int rows) {
-        Network net = fleet();
+    /** A store of {@code rows} rows forward-sampled from {@code net} (seed {@code seed}), d = 2, BDeu ESS 1. */
+    static ScoreStore tally(Network net, int rows, long seed) {
         int n = net.size();
         int[][] data = new int[rows][n];
-        SplittableRandom rng = new SplittableRandom(7);
+        SplittableRandom rng = new SplittableRandom(seed);
         ForwardSampler sampler = new ForwardSampler(net);
         for (int[] row : data) {
             sampler.draw(rng, row);
@@ -55,7 +55,12 @@ final class ReportFixtures {
         for (int i = 0; i < n; i++) {
             vars.add(new Variable(net.names().get(i), net.states().get(i)));
         }
-        ScoreStore store = InMemoryTally.tally(vars, data, 2, FamilyScore.of(ScoreKind.BDEU, 1.0));
+        return InMemoryTally.tally(vars, data, 2, FamilyScore.of(ScoreKind.BDEU, 1.0));
+    }
+
+    private static EdgeResult computeFleetGivenOrder(int rows) {
+        Network net = fleet();
+        ScoreStore store = tally(net, rows, 7);
         int[] order = net.topoOrder();
         List<String> orderNames = new ArrayList<>();
         for (int v : order) {

@@ -6,9 +6,7 @@ import static org.junit.jupiter.api.Assertions.fail;
 import java.awt.image.BufferedImage;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.List;
-import java.util.SplittableRandom;
 import java.util.concurrent.TimeUnit;
 import javax.imageio.ImageIO;
 import org.edgewise.driver.ProgressListener;
@@ -18,18 +16,13 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.effect.EffectEngine;
-import org.edgewise.driver.network.ForwardSampler;
 import org.edgewise.driver.network.Network;
 import org.edgewise.driver.network.RandomNetwork;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.EffectResult;
 import org.edgewise.driver.result.ResultJson;
 import org.edgewise.driver.score.DagPrior;
-import org.edgewise.driver.score.FamilyScore;
-import org.edgewise.driver.score.ScoreKind;
-import org.edgewise.driver.store.InMemoryTally;
 import org.edgewise.driver.store.ScoreStore;
-import org.edgewise.driver.store.Variable;
 import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
 
@@ -43,21 +36,6 @@ import org.junit.jupiter.api.Test;
  */
 class ReportScreenshotTest {
     static final Path SHOTS = Path.of("target", "report-shots");
-
-    static ScoreStore tally(Network net, int rows, long seed) {
-        int n = net.size();
-        int[][] data = new int[rows][n];
-        SplittableRandom rng = new SplittableRandom(seed);
-        ForwardSampler sampler = new ForwardSampler(net);
-        for (int[] row : data) {
-            sampler.draw(rng, row);
-        }
-        List<Variable> vars = new ArrayList<>();
-        for (int i = 0; i < n; i++) {
-            vars.add(new Variable(net.names().get(i), net.states().get(i)));
-        }
-        return InMemoryTally.tally(vars, data, 2, FamilyScore.of(ScoreKind.BDEU, 1.0));
-    }
 
     static UnknownOrderSettings settings(UnknownOrderSettings.Method m, List<List<String>> tiers, Long steps, boolean essential) {
         return new UnknownOrderSettings(m, tiers, 5L, 2, steps, null, 200, null, null, 600.0, false, false, 300, 3,
@@ -79,7 +57,7 @@ class ReportScreenshotTest {
             return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "fleet-network.json", 0.5, AssessHint.API,
                     RunHint.API, EffectResult.read(effect));
         }
-        ScoreStore store = tally(net, 3000, 11);
+        ScoreStore store = ReportFixtures.tally(net, 3000, 11);
         ScoringOptions so = ScoringOptions.asStored();
         UnknownOrderSettings s = settings(UnknownOrderSettings.Method.EXACT, null, null, true);
         EdgeResult r = EdgeAnalysis.run(store, Path.of("out/demo/store"), List.of(so, so.withEss(0.1), so.withEss(10)), null, s, 3,
@@ -99,7 +77,7 @@ class ReportScreenshotTest {
         if (REUSE && Files.isRegularFile(edges)) {
             return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "random-42.json", 0.5);
         }
-        ScoreStore store = tally(net, 2000, 12);
+        ScoreStore store = ReportFixtures.tally(net, 2000, 12);
         UnknownOrderSettings s = settings(UnknownOrderSettings.Method.MCMC, null, 2000L, false);
         EdgeResult r = EdgeAnalysis.run(store, Path.of("store"), List.of(ScoringOptions.asStored()), null, s, 3,
                 ProgressListener.NONE, x -> { });
