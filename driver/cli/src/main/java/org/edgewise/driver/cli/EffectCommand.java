@@ -216,6 +216,9 @@ public final class EffectCommand implements Callable<Integer> {
                 w.printf(Locale.ROOT, "the model's conditional (conditioning, not setting): P(%s | %s) = %.4f, P(%s | %s) = %.4f%n",
                         text(r.target()), condition(r, r.intervention()), r.observational().probability(), text(r.target()),
                         condition(r, r.versus().intervention()), r.observational().versusProbability());
+            } else if (r.observational().oddsRatio() != null) {
+                w.printf(Locale.ROOT, "the model's conditional odds ratio (conditioning, not setting): %s%n",
+                        num(r.observational().oddsRatio()));
             }
         } else {
             w.printf(Locale.ROOT, "%.0f%% credible interval [%.4f, %.4f]%n", 100 * r.interval().level(), r.interval().lower(),

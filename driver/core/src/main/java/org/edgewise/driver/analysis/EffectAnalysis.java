@@ -129,12 +129,34 @@ public final class EffectAnalysis {
         for (int i = 0; i < qs.size(); i++) {
             EffectResult one = result(m, ls, qs.get(i), effects.get(i), l.method(), l.dagPriorLabel(null), src.over(), r.order(),
                     src.converged(), src.maxRhat(), sd, oddsFactor[i], r.measure(), r.engine().draws());
-            EffectResult.Split split = EffectSplit.of(m, qs.get(i).set(), qs.get(i).target(), one.noPathProbability(),
-                    one.observational().difference(), one.difference(),
-                    one.observational().difference() == null ? null : EffectSplit.parents(ls, src, qs.get(i).set()));
-            out.add(one.withSplit(split));
+            out.add(one.withSplit(split(m, ls, src, qs.get(i), one, effects.get(i))));
         }
         return out;
+    }
+
+    /**
+     * Where the gap between conditioning and setting comes from ({@link EffectSplit}): on the risk
+     * difference where risks are estimable, else (a case-control sample drawn on the outcome) on the log
+     * odds ratio, which sampling on the outcome leaves unchanged; null without a reference intervention.
+     */
+    private static EffectResult.Split split(Manifest m, LocalScores ls, StructurePosterior.EffectSource src, EffectQuery q,
+                                            EffectResult one, Effect e) {
+        if (q.versus() == null) {
+            return null;
+        }
+        Double association = one.observational().difference();
+        Double setting = one.difference();
+        String scale = EffectSplit.RISK_DIFFERENCE;
+        if (association == null || setting == null) {
+            association = finite(EffectMeasures.logOddsRatio(e.observational(), e.observationalVersus()));
+            setting = finite(EffectMeasures.logOddsRatio(e.probability(), e.versusProbability()));
+            scale = EffectSplit.LOG_ODDS_RATIO;
+        }
+        if (association == null || setting == null) {
+            return null;
+        }
+        return EffectSplit.of(m, q.set(), q.target(), one.noPathProbability(), association, setting,
+                EffectSplit.parents(ls, src, q.set()), scale);
     }
 
     /**
@@ -232,7 +254,9 @@ public final class EffectAnalysis {
                 risks ? "the model's conditional P(target | x = a" + (q.hasGiven() ? ", given" : "") + "): conditioning, not setting; "
                         + "averaged over structures and parameters like the effect, not the raw frequency"
                         + (k != 1 ? "; re-weighted to the prevalence" : "")
-                        : "not estimable: the sample was drawn on the outcome");
+                        : "the model's conditional odds ratio only (conditioning, not setting): the probabilities are not "
+                        + "estimable, the sample was drawn on the outcome",
+                vs ? finite(EffectMeasures.Kind.ODDS_RATIO.of(e.observational(), e.observationalVersus())) : null);
         String lead = leading(measure, rd != null, vs);
         String measures = !vs ? null
                 : "the model's estimates: each measure of P(target | do(x = a), D) and P(target | do(x = a0), D), averaged over "
@@ -305,7 +329,7 @@ public final class EffectAnalysis {
     }
 
     private static Double finite(double x) {
-        return Double.isNaN(x) ? null : x;
+        return Double.isFinite(x) ? x : null;
     }
 
     private static int[] condition(int[] set, int[] given) {

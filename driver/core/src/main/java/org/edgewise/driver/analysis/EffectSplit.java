@@ -27,7 +27,10 @@ import org.edgewise.driver.store.Manifest;
  * confounding through back-door paths, named by x's most probable parents (the variables the
  * adjustment formula conditions on; Pearl 2000 §3.3). A part is dominant when it is at least two
  * thirds of the two parts' absolute sum; the gap counts as nothing when it is within 0.005 or a
- * tenth of |Δ_obs| (common practice, not a test).
+ * tenth of |Δ_obs| (common practice, not a test). Where risks are not estimable (a case-control sample
+ * drawn on the outcome) the same split is taken on the log odds ratio — the model's conditional log
+ * odds ratio against the effect's, both unchanged by sampling on the outcome, and 0 in a network
+ * without a path — so the reason for the gap is named there too.
  */
 final class EffectSplit {
     /** Orders read at most to find x's parents (evenly spaced over the list). */
@@ -36,16 +39,20 @@ final class EffectSplit {
     private EffectSplit() {
     }
 
+    /** The scale of a split where risks are estimable. */
+    static final String RISK_DIFFERENCE = "risk difference";
+    /** The scale of a split where they are not (a case-control sample drawn on the outcome). */
+    static final String LOG_ODDS_RATIO = "log odds ratio";
+
     /**
-     * The split, or null without a reference intervention or where risks are not estimable.
+     * The split of the gap between {@code association} (the model's conditioning) and {@code setting}
+     * (the effect), both on {@code scale}: risk differences, or log odds ratios — the formula is the same,
+     * a network without a path having no effect on either scale (0).
      *
      * @param parentOf P(z → some intervened variable) per variable z (see {@link #parents})
      */
-    static EffectResult.Split of(Manifest m, int[] set, int[] target, double noPath, Double association, Double setting,
-                                 double[] parentOf) {
-        if (association == null || setting == null) {
-            return null;
-        }
+    static EffectResult.Split of(Manifest m, int[] set, int[] target, double noPath, double association, double setting,
+                                 double[] parentOf, String scale) {
         double direction = noPath * association;
         double confounding = (1 - noPath) * association - setting;
         double gap = association - setting;
@@ -72,27 +79,43 @@ final class EffectSplit {
         } else {
             cause = "both";
         }
+        String x = names(m, set);
+        String y = names(m, target);
         return new EffectResult.Split(noPath, 1 - noPath, association, setting, direction, confounding,
-                backDoor, cause, words(cause, noPath, association, setting, direction, confounding, backDoor));
+                backDoor, cause, words(cause, x, y, noPath, association, setting, direction, confounding, backDoor, scale), scale);
     }
 
-    /** The sentence the CLI and the report print. */
-    static String words(String cause, double noPath, double association, double setting, double direction, double confounding,
-                        List<String> backDoor) {
-        String through = backDoor.isEmpty() ? "back-door paths (no single parent of the set variable stands out)"
+    /** The names of the variables a question fixes, joined by commas. */
+    private static String names(Manifest m, int[] cells) {
+        List<String> out = new ArrayList<>();
+        for (int v = 0; v < cells.length; v++) {
+            if (cells[v] >= 0) {
+                out.add(m.variables().get(v).name());
+            }
+        }
+        return String.join(", ", out);
+    }
+
+    /**
+     * The sentence the CLI and the report print: the two figures, the cause that dominates and the
+     * parts of the gap, naming the set variables {@code x} and the outcome {@code y}.
+     */
+    static String words(String cause, String x, String y, double noPath, double association, double setting, double direction,
+                        double confounding, List<String> backDoor, String scale) {
+        String through = backDoor.isEmpty() ? "back-door paths (no single parent of " + x + " stands out)"
                 : "the back-door variable" + (backDoor.size() == 1 ? " " : "s ") + String.join(", ", backDoor);
-        association = tidy(association);
-        setting = tidy(setting);
-        direction = tidy(direction);
-        confounding = tidy(confounding);
-        String head = String.format(Locale.ROOT, "conditioning shows a difference of %+.4f, setting %+.4f", association, setting);
-        String parts = String.format(Locale.ROOT, " (of the gap, %+.4f from the networks in which the set variable cannot affect "
-                + "the outcome, probability %.4f; %+.4f from confounding in the networks in which it can, probability %.4f)",
-                direction, noPath, confounding, 1 - noPath);
+        boolean odds = LOG_ODDS_RATIO.equals(scale);
+        String head = odds
+                ? String.format(Locale.ROOT, "conditioning shows an odds ratio of %.4g, setting %.4g", Math.exp(association), Math.exp(setting))
+                : String.format(Locale.ROOT, "conditioning shows a difference of %+.4f, setting %+.4f", tidy(association), tidy(setting));
+        String parts = String.format(Locale.ROOT, " (of the gap%s, %+.4f from the networks in which %s cannot affect %s, "
+                + "probability %.4f; %+.4f from confounding in the networks in which it can, probability %.4f)",
+                odds ? " in log odds ratio" : "", tidy(direction), x, y, noPath, tidy(confounding), 1 - noPath);
         return switch (cause) {
             case "none" -> head + ": they agree, so the association is the effect";
-            case "unknown direction" -> head + ": the gap comes mostly from an unknown direction \u2014 in most networks that "
-                    + "fit, the set variable cannot affect the outcome, so their association is not an effect" + parts;
+            case "unknown direction" -> head + String.format(Locale.ROOT, ": the gap comes mostly from an unknown direction \u2014 "
+                    + "the data do not fix the directions between %s and %s, and in networks with posterior probability %.4f %s "
+                    + "cannot affect %s, so there the association is not an effect", x, y, noPath, x, y) + parts;
             case "confounding" -> head + ": the gap comes mostly from confounding through " + through + parts;
             default -> head + ": the gap comes from both an unknown direction and confounding through " + through + parts;
         };

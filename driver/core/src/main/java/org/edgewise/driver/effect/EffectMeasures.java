@@ -70,7 +70,7 @@ public final class EffectMeasures {
             return switch (this) {
                 case RISK_DIFFERENCE -> p - p0;
                 case RISK_RATIO -> Math.exp(Math.log(p) - Math.log(p0));
-                case ODDS_RATIO -> Math.exp(Math.log(p) - Math.log1p(-p) - Math.log(p0) + Math.log1p(-p0));
+                case ODDS_RATIO -> Math.exp(logOddsRatio(p, p0));
             };
         }
     }
@@ -94,6 +94,11 @@ public final class EffectMeasures {
     }
 
     private EffectMeasures() {
+    }
+
+    /** The log odds ratio log{[p / (1 − p)] / [p0 / (1 − p0)]}, in log space; NaN when undefined. */
+    public static double logOddsRatio(double p, double p0) {
+        return Math.log(p) - Math.log1p(-p) - Math.log(p0) + Math.log1p(-p0);
     }
 
     /** p with its odds multiplied by k (k = 1: p itself), in log-odds. */

@@ -74,6 +74,12 @@ public final class EffectSection {
                             + num(o.versusProbability()) + "</td>" : raw ? "<td></td>" : "").append("</tr>\n");
             h.append("<tr><th>difference</th><td class=\"num\">").append(num(r.difference())).append("</td><td class=\"num\">")
                     .append(num(r.observational().difference())).append("</td>").append(raw ? "<td></td>" : "").append("</tr>\n");
+            if (r.oddsRatio() != null) {
+                h.append("<tr><th>odds ratio</th><td class=\"num\">").append(num(modelOddsRatio(r))).append("</td><td class=\"num\">")
+                        .append(num(r.observational().oddsRatio())).append("</td>")
+                        .append(raw ? "<td class=\"num\">" + (o.oddsRatio() == null ? "" : "crude " + f(o.oddsRatio(), 4)) + "</td>" : "")
+                        .append("</tr>\n");
+            }
         }
         h.append("</table>\n");
         if (o != null) {
@@ -111,26 +117,34 @@ public final class EffectSection {
                 .append("</p></details>\n");
     }
 
-    /** The split of the posterior over "no path" and "a path", and what each explains of the association (HTML). */
-    private static void split(StringBuilder h, EffectResult.Split s) {
-        String cause = switch (s.cause()) {
+    /** The cause of the gap between conditioning and setting, in a few words (HTML-free). */
+    static String cause(EffectResult.Split s) {
+        String through = s.backDoor().isEmpty() ? "" : " through " + String.join(", ", s.backDoor());
+        return switch (s.cause()) {
             case "none" -> "none: setting and conditioning agree";
             case "unknown direction" -> "mostly an unknown direction";
-            case "confounding" -> "mostly confounding" + (s.backDoor().isEmpty() ? "" : " through " + String.join(", ", s.backDoor()));
-            default -> "both an unknown direction and confounding"
-                    + (s.backDoor().isEmpty() ? "" : " through " + String.join(", ", s.backDoor()));
+            case "confounding" -> "mostly confounding" + through;
+            default -> "both an unknown direction and confounding" + through;
         };
-        h.append("<p><b>Why conditioning and setting differ: ").append(esc(cause)).append(".</b></p>\n")
+    }
+
+    /** The split of the posterior over "no path" and "a path", and what each explains of the association (HTML). */
+    private static void split(StringBuilder h, EffectResult.Split s) {
+        boolean odds = "log odds ratio".equals(s.scale());
+        String unit = odds ? " (log odds ratio)" : "";
+        h.append("<p><b>Why conditioning and setting differ: ").append(esc(cause(s))).append(".</b></p>\n")
                 .append("<table>\n<tr><th>networks in which the set variable</th><th>posterior</th><th>part of the association "
-                        + "they explain</th></tr>\n")
+                        + "they explain").append(unit).append("</th></tr>\n")
                 .append("<tr><td>cannot affect the outcome (no directed path)</td><td class=\"num\">").append(f(s.noEffect(), 4))
                 .append("</td><td class=\"num\">").append(signed4(s.directionPart())).append(" (not an effect)</td></tr>\n")
                 .append("<tr><td>can affect it</td><td class=\"num\">").append(f(s.effect(), 4)).append("</td><td class=\"num\">")
                 .append(signed4(s.setting())).append(" effect, ").append(signed4(s.confoundingPart()))
                 .append(" confounding</td></tr>\n<tr><th>together</th><td class=\"num\">1</td><td class=\"num\">")
-                .append(signed4(s.association())).append(" (the model's conditioning difference)</td></tr>\n</table>\n")
+                .append(signed4(s.association())).append(odds ? " (the model's conditioning log odds ratio)"
+                        : " (the model's conditioning difference)").append("</td></tr>\n</table>\n")
                 .append("<p class=\"cap\">").append(esc(s.words())).append(". The split reads the association as alike in both "
-                        + "groups of networks (a first-order split).</p>\n");
+                        + "groups of networks (a first-order split)").append(odds ? "; it is taken on the log odds ratio because "
+                        + "risks are not estimable from this sample" : "").append(".</p>\n");
     }
 
     private static String signed4(double v) {
@@ -191,11 +205,36 @@ public final class EffectSection {
                     .append(')');
         }
         sb.append("; probability that it has no effect at all ").append(f(r.noPathProbability(), 2)).append('.');
-        if (r.observed() != null && r.observed().probability() != null && r.observed().versusProbability() != null) {
-            sb.append(" In the raw data: ").append(f(r.observed().probability(), 3)).append(" vs ")
-                    .append(f(r.observed().versusProbability(), 3)).append('.');
+        EffectResult.Observational c = r.observational();
+        if (c.difference() != null) {
+            sb.append(" Conditioning instead (the model's): ").append(signed(c.difference())).append('.');
+        } else if (c.oddsRatio() != null) {
+            sb.append(" Conditioning instead (the model's odds ratio): ").append(f(c.oddsRatio(), 3)).append('.');
+        }
+        EffectResult.Observed o = r.observed();
+        if (o != null && o.probability() != null && o.versusProbability() != null) {
+            boolean sample = r.design() != null && r.design().state() != null;
+            sb.append(" Raw frequencies in the data").append(sample ? " (shares in the case-control sample, not risks)" : "")
+                    .append(": ").append(o.events()).append('/').append(o.rows()).append(" = ").append(f(o.probability(), 3))
+                    .append(" vs ").append(o.versusEvents()).append('/').append(o.versusRows()).append(" = ")
+                    .append(f(o.versusProbability(), 3))
+                    .append(o.oddsRatio() == null ? "" : ", crude odds ratio " + f(o.oddsRatio(), 3)).append('.');
+        } else if (o != null) {
+            sb.append(" Raw frequencies: ").append(esc(o.label())).append('.');
+        }
+        if (r.split() != null) {
+            sb.append(" Why setting and conditioning differ: <b>").append(esc(cause(r.split()))).append("</b>")
+                    .append("unknown direction".equals(r.split().cause()) || "both".equals(r.split().cause())
+                            ? " (no directed path from the set variable to the outcome with probability " + f(r.split().noEffect(), 2) + ")"
+                            : "").append('.');
         }
         return sb.toString();
+    }
+
+    /** The model's odds ratio over every structure (the measure's estimate, or its overall figure when the estimate is of the draws with an effect). */
+    private static Double modelOddsRatio(EffectResult r) {
+        EffectResult.Measure m = r.oddsRatio();
+        return m.overallEstimate() != null ? m.overallEstimate() : m.estimate();
     }
 
     private static String signed(double v) {
@@ -207,7 +246,7 @@ public final class EffectSection {
     }
 
     private static String mcse(String estimate, double mcse) {
-        return "exact".equals(estimate) ? " (exact)"
+        return "exact".equals(estimate) ? " (exact)" : mcse < 1e-4 ? " (sampled; Monte Carlo error below 0.0001)"
                 : " (\u00b1 " + String.format(java.util.Locale.ROOT, "%.2g", mcse) + " from sampling)";
     }
 

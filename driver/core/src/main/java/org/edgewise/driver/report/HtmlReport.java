@@ -37,7 +37,7 @@ public final class HtmlReport {
             .key span{display:inline-block;margin-right:16px}.sw{display:inline-block;width:22px;height:4px;vertical-align:middle;margin-right:5px}
             code{background:#f0f4f8;padding:0 3px;border-radius:3px}
             .answer{border:2px solid #2c5d8a;background:#f5f9fd;padding:8px 18px;border-radius:8px;margin:14px 0}
-            .answer ul.cols{columns:2 330px;margin:4px 0}.caution h3{margin:4px 0;color:#8a4f00}
+            .answer ul.cols{columns:2 330px;margin:4px 0}.answer ul.dirs{margin:2px 0 6px 0}.caution h3{margin:4px 0;color:#8a4f00}
             details{margin:10px 0}details>summary{cursor:pointer;color:#2c5d8a;font-weight:600}
             .legend svg{vertical-align:middle;margin-right:6px}.legend span{display:inline-block;margin:2px 18px 2px 0}
             """;

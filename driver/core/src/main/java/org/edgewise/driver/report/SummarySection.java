@@ -51,7 +51,7 @@ final class SummarySection {
         if (strongest.size() > TOP) {
             h.append("<p class=\"cap\">and ").append(strongest.size() - TOP).append(" more in the graph below.</p>\n");
         }
-        h.append("<p><b>Directions:</b> ").append(directions(m, ce, shown, arrows, byTiers)).append("</p>\n");
+        h.append("<p><b>Directions:</b></p>\n").append(directions(m, ce, shown, arrows, byTiers)).append('\n');
         List<List<String>> tiers = r.settings() == null ? null : r.settings().tiers();
         if (tiers != null && !tiers.isEmpty()) {
             h.append("<p><b>Tiers you gave</b> (no arrow may point to an earlier tier): ").append(esc(tierText(tiers))).append("</p>\n");
@@ -118,34 +118,54 @@ final class SummarySection {
         h.append("</table>\n</details>\n");
     }
 
-    /** The directions sentence (HTML): what fixes the arrows drawn, and how many pairs stay open. */
+    /** Pairs named per list of the directions paragraph at most. */
+    static final int NAMED = 8;
+
+    /**
+     * The directions paragraph (HTML): by name, the directions the data fix (compelled), those the tiers
+     * fix, and the dependencies left open (either way as far as the data tell), so that the summary alone
+     * says which is which.
+     */
     static String directions(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> shown, int arrows, int byTiers) {
         if (ce.givenOrder()) {
-            return "every arrow is directed by the order you gave.";
+            return "<ul class=\"dirs\">\n<li>every arrow is directed by the order you gave</li>\n</ul>";
         }
         List<String> data = new java.util.ArrayList<>();
-        for (ConsensusEdges.Drawn d : shown) {
-            if (d.shape() == ConsensusEdges.Shape.ARROW && !d.byTiers()) {
-                data.add(esc(m.variables().get(d.from()) + " \u2192 " + m.variables().get(d.to())) + " " + Html.prob(d.p()));
+        List<String> tiers = new java.util.ArrayList<>();
+        List<String> open = new java.util.ArrayList<>();
+        List<ConsensusEdges.Drawn> sorted = new java.util.ArrayList<>(shown);
+        sorted.sort(java.util.Comparator.comparingDouble((ConsensusEdges.Drawn d) -> -d.p()));
+        for (ConsensusEdges.Drawn d : sorted) {
+            String a = m.variables().get(d.from());
+            String b = m.variables().get(d.to());
+            if (d.shape() == ConsensusEdges.Shape.LINE) {
+                open.add(esc(a + " \u2014 " + b));
+            } else if (d.byTiers()) {
+                tiers.add(esc(a + " \u2192 " + b));
+            } else {
+                data.add(esc(a + " \u2192 " + b) + " " + Html.prob(d.p()));
             }
         }
-        StringBuilder sb = new StringBuilder();
+        StringBuilder sb = new StringBuilder("<ul class=\"dirs\">\n<li><b>fixed by the data</b>");
         if (!ce.assessed()) {
-            sb.append("not assessed for this result (the dependencies are drawn as lines)");
-        } else if (data.isEmpty()) {
-            sb.append("the data fix no direction");
+            sb.append(": not assessed for this result (the dependencies are drawn as lines)");
         } else {
-            sb.append("the data fix ").append(data.size() == 1 ? "this one" : "these ").append(data.size() == 1 ? "" : data.size())
-                    .append(": <b>").append(String.join("; ", data)).append("</b> (the same in every network that fits equally well)");
+            sb.append(" (compelled: the same in every network that fits the data equally well): ")
+                    .append(data.isEmpty() ? "none" : "<b>" + named(data) + "</b>");
         }
-        if (byTiers > 0) {
-            sb.append("; the tiers you gave fix ").append(byTiers).append(byTiers == 1 ? " more" : " more");
+        sb.append("</li>\n");
+        if (byTiers > 0 || ce.tier() != null) {
+            sb.append("<li><b>fixed by the tiers you gave</b>: ").append(tiers.isEmpty() ? "none" : named(tiers)).append("</li>\n");
         }
-        int open = shown.size() - arrows;
-        if (ce.assessed() && open > 0) {
-            sb.append("; ").append(open).append(open == 1 ? " dependency runs" : " dependencies run").append(" either way as far as these data tell");
-        }
-        return sb.append('.').toString();
+        sb.append("<li><b>open</b> (").append(ce.assessed() ? "either way as far as these data tell" : "directions not assessed")
+                .append("): ").append(open.isEmpty() ? "none" : named(open)).append("</li>\n</ul>");
+        return sb.toString();
+    }
+
+    /** Up to {@value #NAMED} items joined by semicolons, then how many more. */
+    private static String named(List<String> items) {
+        return items.size() <= NAMED ? String.join("; ", items)
+                : String.join("; ", items.subList(0, NAMED)) + "; and " + (items.size() - NAMED) + " more";
     }
 
     static String tierText(List<List<String>> tiers) {

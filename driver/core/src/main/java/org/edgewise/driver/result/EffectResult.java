@@ -52,7 +52,7 @@ import org.edgewise.driver.UserError;
  * @param note              how to read it
  * @param split             where the gap between conditioning and setting comes from (networks
  *                          without a directed path vs with one), or null without a reference
- *                          intervention or where risks are not estimable
+ *                          intervention (on the log odds-ratio scale where risks are not estimable)
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 @JsonPropertyOrder({"do", "target", "given", "probability", "mcse", "estimate", "versus",
@@ -106,10 +106,13 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
 
     /**
      * The model's observational conditionals P(y | x = a[, w], D) and, with a reference, P(y | x = a0[, w], D)
-     * (null under a case-control design on y without a prevalence); {@code label} says what they are.
+     * (null under a case-control design on y without a prevalence); {@code oddsRatio}, with a reference, the
+     * odds ratio of the two (estimable under a case-control design too: sampling on y multiplies both odds
+     * by the same factor); {@code label} says what they are.
      */
     @JsonInclude(JsonInclude.Include.NON_NULL)
-    public record Observational(Double probability, Double versusProbability, Double difference, String label) {
+    public record Observational(Double probability, Double versusProbability, Double difference, String label,
+                                Double oddsRatio) {
     }
 
     /**
@@ -169,16 +172,20 @@ public record EffectResult(@JsonProperty("do") Map<String, String> intervention,
      *
      * @param noEffect        P(no directed path from the set variables to the outcome)
      * @param effect          1 − noEffect
-     * @param association     the model's observational difference P(y | x = a) − P(y | x = a0)
-     * @param setting         the effect's difference P(y | do(a)) − P(y | do(a0))
+     * @param association     the model's observational difference P(y | x = a) − P(y | x = a0) (on {@code scale})
+     * @param setting         the effect's difference P(y | do(a)) − P(y | do(a0)) (on {@code scale})
      * @param directionPart   the gap's part from networks without a path: noEffect × association
      * @param confoundingPart the gap's part from networks with one: effect × association − setting
      * @param backDoor        the set variable's most probable parents (P ≥ 0.1, at most three)
      * @param cause           {@code none}, {@code unknown direction}, {@code confounding} or {@code both}
      * @param words           the sentence the CLI and the report print
+     * @param scale           {@code risk difference}, or {@code log odds ratio} where risks are not estimable
+     *                        (a case-control sample drawn on the outcome): association and setting are then
+     *                        log odds ratios; null in results written before (risk difference)
      */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
     public record Split(double noEffect, double effect, double association, double setting, double directionPart,
-                        double confoundingPart, List<String> backDoor, String cause, String words) {
+                        double confoundingPart, List<String> backDoor, String cause, String words, String scale) {
     }
 
     /** Several results ({@code effect --cases}). */

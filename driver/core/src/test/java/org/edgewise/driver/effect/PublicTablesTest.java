@@ -69,6 +69,11 @@ public class PublicTablesTest {
         {{{5, 11, 13, 0}, {1, 13, 14, 0}}, {{57, 14, 75, 192}, {140, 80, 76, 20}}}};
 
     static LocalScores titanic() {
+        return LocalScores.build(titanicStore(), ScoringOptions.asStored());
+    }
+
+    /** The Titanic table as a store (d = 3, BDeu ESS 1): Class, Sex, Age, Survived, one row per person aboard. */
+    public static ScoreStore titanicStore() {
         List<Variable> vars = List.of(new Variable("Class", List.of("1st", "2nd", "3rd", "Crew")),
                 new Variable("Sex", List.of("Male", "Female")), new Variable("Age", List.of("Child", "Adult")),
                 new Variable("Survived", List.of("No", "Yes")));
@@ -82,8 +87,50 @@ public class PublicTablesTest {
                 }
             }
         }
-        ScoreStore st = InMemoryTally.tally(vars, rows.toArray(int[][]::new), 3, FamilyScore.withDefaults());
-        return LocalScores.build(st, ScoringOptions.asStored());
+        return InMemoryTally.tally(vars, rows.toArray(int[][]::new), 3, FamilyScore.withDefaults());
+    }
+
+    /**
+     * esoph (R datasets; Breslow &amp; Day 1980, Statistical Methods in Cancer Research, vol. I, IARC
+     * Scientific Publications 32, appendix I; the Ille-et-Vilaine case-control study of oesophageal
+     * cancer, Tuyns, Péquignot &amp; Jensen 1977): the 88 cells R lists, each {age group, alcohol group,
+     * tobacco group, cases, controls}, with R's labels shortened ("0-39g/day" → "0-39", "0-9g/day" →
+     * "0-9"); cells R leaves out have no subjects. Margins checked in {@link #esophMargins}: 200 cases,
+     * 775 controls, and 96 cases / 109 controls at 80 g/day or more (Breslow &amp; Day's dichotomised
+     * table, {@code EffectMeasuresTest}).
+     */
+    static final String[] AGE = {"25-34", "35-44", "45-54", "55-64", "65-74", "75+"};
+    static final String[] ALCOHOL = {"0-39", "40-79", "80-119", "120+"};
+    static final String[] TOBACCO = {"0-9", "10-19", "20-29", "30+"};
+    static final int[][] ESOPH = {
+        {0, 0, 0, 0, 40}, {0, 0, 1, 0, 10}, {0, 0, 2, 0, 6}, {0, 0, 3, 0, 5}, {0, 1, 0, 0, 27}, {0, 1, 1, 0, 7},
+        {0, 1, 2, 0, 4}, {0, 1, 3, 0, 7}, {0, 2, 0, 0, 2}, {0, 2, 1, 0, 1}, {0, 2, 3, 0, 2}, {0, 3, 0, 0, 1},
+        {0, 3, 1, 1, 0}, {0, 3, 2, 0, 1}, {0, 3, 3, 0, 2},
+        {1, 0, 0, 0, 60}, {1, 0, 1, 1, 13}, {1, 0, 2, 0, 7}, {1, 0, 3, 0, 8}, {1, 1, 0, 0, 35}, {1, 1, 1, 3, 20},
+        {1, 1, 2, 1, 13}, {1, 1, 3, 0, 8}, {1, 2, 0, 0, 11}, {1, 2, 1, 0, 6}, {1, 2, 2, 0, 2}, {1, 2, 3, 0, 1},
+        {1, 3, 0, 2, 1}, {1, 3, 1, 0, 3}, {1, 3, 2, 2, 2},
+        {2, 0, 0, 1, 45}, {2, 0, 1, 0, 18}, {2, 0, 2, 0, 10}, {2, 0, 3, 0, 4}, {2, 1, 0, 6, 32}, {2, 1, 1, 4, 17},
+        {2, 1, 2, 5, 10}, {2, 1, 3, 5, 2}, {2, 2, 0, 3, 13}, {2, 2, 1, 6, 8}, {2, 2, 2, 1, 4}, {2, 2, 3, 2, 2},
+        {2, 3, 0, 4, 0}, {2, 3, 1, 3, 1}, {2, 3, 2, 2, 1}, {2, 3, 3, 4, 0},
+        {3, 0, 0, 2, 47}, {3, 0, 1, 3, 19}, {3, 0, 2, 3, 9}, {3, 0, 3, 4, 2}, {3, 1, 0, 9, 31}, {3, 1, 1, 6, 15},
+        {3, 1, 2, 4, 13}, {3, 1, 3, 3, 3}, {3, 2, 0, 9, 9}, {3, 2, 1, 8, 7}, {3, 2, 2, 3, 3}, {3, 2, 3, 4, 0},
+        {3, 3, 0, 5, 5}, {3, 3, 1, 6, 1}, {3, 3, 2, 2, 1}, {3, 3, 3, 5, 1},
+        {4, 0, 0, 5, 43}, {4, 0, 1, 4, 10}, {4, 0, 2, 2, 5}, {4, 0, 3, 0, 2}, {4, 1, 0, 17, 17}, {4, 1, 1, 3, 7},
+        {4, 1, 2, 5, 4}, {4, 2, 0, 6, 7}, {4, 2, 1, 4, 8}, {4, 2, 2, 2, 1}, {4, 2, 3, 1, 0}, {4, 3, 0, 3, 1},
+        {4, 3, 1, 1, 1}, {4, 3, 2, 1, 0}, {4, 3, 3, 1, 0},
+        {5, 0, 0, 1, 17}, {5, 0, 1, 2, 4}, {5, 0, 3, 1, 2}, {5, 1, 0, 2, 3}, {5, 1, 1, 1, 2}, {5, 1, 2, 0, 3},
+        {5, 1, 3, 1, 0}, {5, 2, 0, 1, 0}, {5, 2, 1, 1, 0}, {5, 3, 0, 2, 0}, {5, 3, 1, 1, 0}};
+
+    /** The esoph table as a store (d = 3, BDeu ESS 1): agegp, alcgp, tobgp, status (control, case), one row per subject. */
+    public static ScoreStore esophStore() {
+        List<Variable> vars = List.of(new Variable("agegp", List.of(AGE)), new Variable("alcgp", List.of(ALCOHOL)),
+                new Variable("tobgp", List.of(TOBACCO)), new Variable("status", List.of("control", "case")));
+        List<int[]> rows = new ArrayList<>();
+        for (int[] c : ESOPH) {
+            EffectMeasuresTest.add(rows, c[3], c[0], c[1], c[2], 1);
+            EffectMeasuresTest.add(rows, c[4], c[0], c[1], c[2], 0);
+        }
+        return InMemoryTally.tally(vars, rows.toArray(int[][]::new), 3, FamilyScore.withDefaults());
     }
 
     static EffectResult effect(LocalScores ls, List<List<String>> tiers, String set, String target, String versus) {
@@ -164,6 +211,28 @@ public class PublicTablesTest {
                 "Class=1st", "Survived=Yes", "Class=3rd");
         within(first - third, r);
         splitAddsUp(r);
+    }
+
+    @Test
+    void esophMargins() {
+        // 88 cells as R lists them; 200 cases and 775 controls (Breslow & Day 1980); at 80 g/day or more
+        // 96 cases and 109 controls, the dichotomised table of EffectMeasuresTest
+        int cases = 0;
+        int controls = 0;
+        int heavyCases = 0;
+        int heavyControls = 0;
+        for (int[] c : ESOPH) {
+            cases += c[3];
+            controls += c[4];
+            heavyCases += c[1] >= 2 ? c[3] : 0;
+            heavyControls += c[1] >= 2 ? c[4] : 0;
+        }
+        assertEquals(88, ESOPH.length);
+        assertEquals(200, cases);
+        assertEquals(775, controls);
+        assertEquals(EffectMeasuresTest.CASES_HEAVY, heavyCases);
+        assertEquals(EffectMeasuresTest.CONTROLS_HEAVY, heavyControls);
+        assertEquals(975, esophStore().manifest().input().rows());
     }
 
     /** P(survived | age a, sex x, class c) from the table. */
