@@ -36,7 +36,7 @@ public class PublicTablesTest {
      * admissions at Berkeley, 1973, the six largest departments. {admitted, rejected} per
      * department A–F, men then women.
      */
-    static final int[][][] UCB = {
+    public static final int[][][] UCB = {
         {{512, 313}, {89, 19}}, {{353, 207}, {17, 8}}, {{120, 205}, {202, 391}},
         {{138, 279}, {131, 244}}, {{53, 138}, {94, 299}}, {{22, 351}, {24, 317}}};
 
@@ -64,7 +64,7 @@ public class PublicTablesTest {
      * Titanic (R datasets; Dawson 1995, Journal of Statistics Education 3(3)): the 2201 people aboard,
      * by class, sex, age and survival. [survived no/yes][age child/adult][sex male/female][class 1st, 2nd, 3rd, Crew].
      */
-    static final int[][][][] TITANIC = {
+    public static final int[][][][] TITANIC = {
         {{{0, 0, 35, 0}, {0, 0, 17, 0}}, {{118, 154, 387, 670}, {4, 13, 89, 3}}},
         {{{5, 11, 13, 0}, {1, 13, 14, 0}}, {{57, 14, 75, 192}, {140, 80, 76, 20}}}};
 
@@ -102,7 +102,7 @@ public class PublicTablesTest {
     static final String[] AGE = {"25-34", "35-44", "45-54", "55-64", "65-74", "75+"};
     static final String[] ALCOHOL = {"0-39", "40-79", "80-119", "120+"};
     static final String[] TOBACCO = {"0-9", "10-19", "20-29", "30+"};
-    static final int[][] ESOPH = {
+    public static final int[][] ESOPH = {
         {0, 0, 0, 0, 40}, {0, 0, 1, 0, 10}, {0, 0, 2, 0, 6}, {0, 0, 3, 0, 5}, {0, 1, 0, 0, 27}, {0, 1, 1, 0, 7},
         {0, 1, 2, 0, 4}, {0, 1, 3, 0, 7}, {0, 2, 0, 0, 2}, {0, 2, 1, 0, 1}, {0, 2, 3, 0, 2}, {0, 3, 0, 0, 1},
         {0, 3, 1, 1, 0}, {0, 3, 2, 0, 1}, {0, 3, 3, 0, 2},

@@ -176,7 +176,7 @@ class IdentifiableDirectionsTest {
         assertTrue(html.contains("<p><b>Tiers you gave</b> (no arrow may point to an earlier tier): season \u2192 ambient_heat, "
                 + "compressor_wear, compressor_age, sensor_fault</p>"), html);
         assertTrue(html.contains("<th>tiers</th><td>season ; ambient_heat, compressor_wear, compressor_age, sensor_fault</td>"), html);
-        assertTrue(html.contains("the tiers you gave fix 1 more"), html);
+        assertTrue(html.contains("<li><b>fixed by the tiers you gave</b>: season \u2192 ambient_heat</li>"), html);
         assertTrue(html.contains("One row per tier, the first tier at the top."), html);
         String dot = DotWriter.write(r, 0.5, null);
         assertTrue(dot.contains("\"season\" -> \"ambient_heat\" [label=\"0.99 fixed by the tiers\", penwidth=5.97, tooltip="), dot);
