@@ -58,14 +58,18 @@ public final class EdgesCommand implements Callable<Integer> {
             throw new UserError("--top-parents must be 0 or more, got " + topParents);
         }
         Scoring scoring = averaging.scoring();
+        averaging.unknown.bothAllowed = true;
         Averaging what = averaging.averaging("averaging", true, false);
         PrintWriter err = spec.commandLine().getErr();
         boolean allow = averaging.unknown.allowUnconverged;
-        EdgeResult result = EdgeAnalysis.run(scoring, what, topParents, ProgressBars.onTerminal(), r -> {
+        java.util.function.Consumer<EdgeResult> warn = r -> {
             if (r.diagnostics() != null && !r.diagnostics().converged()) {
                 err.println(UnknownOrderEdges.notConverged("edges", r.diagnostics(), allow));
             }
-        });
+        };
+        EdgeResult result = averaging.unknown.bothPriors()
+                ? EdgeAnalysis.runBothPriors(scoring, what, topParents, ProgressBars.onTerminal(), warn)
+                : EdgeAnalysis.run(scoring, what, topParents, ProgressBars.onTerminal(), warn);
         int status = ErrorReport.finished(result.diagnostics() == null ? null : result.diagnostics().converged(), allow);
         if (output.out != null) {
             output.writeJson(result);
@@ -143,6 +147,7 @@ public final class EdgesCommand implements Callable<Integer> {
         sb.append(String.format(Locale.ROOT, "  (%d of %d ordered pairs shown: posterior >= 0.001, at most %d; the JSON lists every pair)%n",
                 shown, sorted.size(), TABLE_EDGES));
         sb.append(fragility(r));
+        sb.append(priorFragility(r));
         if (r.parentSets() != null) {
             sb.append("\nMost probable parent sets\n");
             for (EdgeResult.VariableParents vp : r.parentSets()) {
@@ -198,6 +203,27 @@ public final class EdgesCommand implements Callable<Integer> {
         }
         return sb.append("  (a headline posterior >= 0.5 that falls below 0.5 at another ESS: the choice of ESS, not the data, settles it)\n")
                 .toString();
+    }
+
+    /**
+     * The lines of a result computed under both DAG priors: one per headline edge or compelled direction
+     * that crosses 0.5 between them, or a line saying none does; nothing otherwise.
+     */
+    static String priorFragility(EdgeResult r) {
+        EdgeResult.PriorComparison c = r.priorComparison();
+        if (c == null) {
+            return "";
+        }
+        StringBuilder sb = new StringBuilder("\n");
+        if (c.fragile().isEmpty()) {
+            return sb.append(String.format(Locale.ROOT, "no headline edge%s crosses 0.5 between the DAG priors (%s and %s)%n",
+                    r.essentialGraph() != null ? " or compelled direction" : "", r.dagPrior(), c.dagPrior())).toString();
+        }
+        for (EdgeResult.PriorFragile f : c.fragile()) {
+            sb.append("fragile between the DAG priors: ").append(Fragility.words(f, "->")).append('\n');
+        }
+        return sb.append("  (a posterior >= 0.5 under one DAG prior and below 0.5 under the other: the choice of prior, not the data, "
+                + "settles it)\n").toString();
     }
 
     private static double find(List<EdgeResult.Edge> edges, String from, String to) {

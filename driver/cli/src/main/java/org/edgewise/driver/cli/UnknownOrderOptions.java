@@ -71,7 +71,10 @@ public final class UnknownOrderOptions {
     @Option(names = {"--samples", "--order-samples"}, hidden = true, paramLabel = "K", description = "renamed --dag-samples")
     String oldSamples;
 
-    @Option(names = "--dag-prior", paramLabel = "structure-modular|order-modular", description = "prior over DAGs: structure-modular (default; every DAG with in-degree <= d weighted by its parent-set priors alone, uniform with --prior uniform) or order-modular (each DAG also weighted by its number of consistent orders); given an order both coincide") public String dagPrior;
+    @Option(names = "--dag-prior", paramLabel = "structure-modular|order-modular|both", description = "prior over DAGs: structure-modular (default; every DAG with in-degree <= d weighted by its parent-set priors alone, uniform with --prior uniform) or order-modular (each DAG also weighted by its number of consistent orders); given an order both coincide. edges also takes both: the structure-modular result with the order-modular posteriors beside it, and every headline edge or compelled direction that crosses 0.5 between the two marked as fragile") public String dagPrior;
+
+    /** Set by a command that can average under both DAG priors ({@code edges}): {@code --dag-prior both} is then accepted. */
+    boolean bothAllowed;
 
     /**
      * What to average over for {@code method} ({@code order}, {@code exact} or {@code mcmc}) with the
@@ -194,8 +197,20 @@ public final class UnknownOrderOptions {
         return Tiers.parse(tiers, "--tiers");
     }
 
-    /** The DAG prior asked for. */
+    /** Whether {@code --dag-prior both} was given. */
+    public boolean bothPriors() {
+        return dagPrior != null && dagPrior.trim().equalsIgnoreCase("both");
+    }
+
+    /** The DAG prior asked for (structure-modular, the first of the two, for {@code both}). */
     public DagPrior prior() {
+        if (bothPriors()) {
+            if (!bothAllowed) {
+                throw new UserError("--dag-prior both applies to edges only (it compares the edge posteriors under the two "
+                        + "priors): give structure-modular or order-modular");
+            }
+            return DagPrior.STRUCTURE_MODULAR;
+        }
         return DagPrior.parse(dagPrior == null ? "structure-modular" : dagPrior, "--dag-prior");
     }
 

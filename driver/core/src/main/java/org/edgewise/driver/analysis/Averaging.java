@@ -69,6 +69,12 @@ public record Averaging(Method method, String order, DagPrior dagPrior, List<Lis
                 maxSteps, maxSeconds, ancestors, markovBlanket, essentialGraph, dagSamples, dir);
     }
 
+    /** The same request under the DAG prior {@code p}. */
+    public Averaging withDagPrior(DagPrior p) {
+        return new Averaging(method, order, p, tiers, seed, chains, steps, burnIn, draws, rhatTarget, mcseTarget,
+                maxSteps, maxSeconds, ancestors, markovBlanket, essentialGraph, dagSamples, sample);
+    }
+
     /** Whether DAG-drawn features are asked for. */
     public boolean anyFeature() {
         return ancestors || markovBlanket || essentialGraph;

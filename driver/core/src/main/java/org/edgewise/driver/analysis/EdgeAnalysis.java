@@ -5,6 +5,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.function.Consumer;
 import org.edgewise.driver.ProgressListener;
+import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.dag.DrawnDags;
 import org.edgewise.driver.average.CandidateBoundary;
 import org.edgewise.driver.average.LocalScores;
@@ -17,6 +18,7 @@ import org.edgewise.driver.posterior.SavedSample;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.result.EdgeResult;
 import org.edgewise.driver.result.Fragility;
+import org.edgewise.driver.score.DagPrior;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.average.convergence.Estimate;
 import org.edgewise.driver.average.mcmc.McmcResult;
@@ -44,6 +46,33 @@ public final class EdgeAnalysis {
         Inputs in = Inputs.of(scoring, averaging);
         return run(in.store(), scoring.store(), in.saved(), in.options(), in.order(), in.settings(topParents), topParents,
                 progress, eachRun);
+    }
+
+    /**
+     * The averaged edges under both DAG priors over unknown orders (DESIGN.md, "DAG priors over unknown
+     * orders"): the result under the structure-modular prior (with its ESS sweep, if any), and beside it
+     * ({@link EdgeResult#priorComparison}) the same request under the order-modular prior at the first ESS,
+     * with the headline posteriors that cross 0.5 between the two ({@link Fragility#acrossPriors}).
+     * A request answered from a saved sample (its DAGs drawn once, under one prior) is refused.
+     */
+    public static EdgeResult runBothPriors(Scoring scoring, Averaging averaging, int topParents, ProgressListener progress,
+                                           Consumer<EdgeResult> eachRun) {
+        Inputs in = Inputs.of(scoring, averaging.withDagPrior(DagPrior.ORDER_MODULAR));
+        if (in.saved() != null || in.order() != null) {
+            throw new UserError(in.order() != null ? "given an order both DAG priors coincide: there is nothing to compare"
+                    : "both DAG priors need the structures averaged under each; this request answers from a saved sample of DAGs "
+                    + "drawn once, under one prior");
+        }
+        EdgeResult primary = run(scoring, averaging.withDagPrior(DagPrior.STRUCTURE_MODULAR), topParents, progress, eachRun);
+        EdgeResult other = run(in.store(), scoring.store(), null, List.of(in.options().get(0)), null, in.settings(topParents),
+                topParents, progress, eachRun);
+        return primary.withPriorComparison(comparison(primary, other));
+    }
+
+    /** {@code other} (the same request under the other DAG prior) as the comparison beside {@code r}. */
+    static EdgeResult.PriorComparison comparison(EdgeResult r, EdgeResult other) {
+        return new EdgeResult.PriorComparison(other.dagPrior(), other.logEvidence(), other.edges(), other.essentialGraph(),
+                Fragility.acrossPriors(r, other.dagPrior(), other.edges(), other.essentialGraph()));
     }
 
     /** As {@link #run(ScoreStore, Path, SampleFile.Loaded, List, int[], UnknownOrderSettings, int, ProgressListener, Consumer)} without a saved sample. */

@@ -59,6 +59,26 @@ final class Cautions {
     }
 
     /**
+     * The bullet (HTML) when a headline edge or compelled direction crosses 0.5 between the two DAG
+     * priors ({@link Fragility#acrossPriors}); empty when the other prior was not computed or none does.
+     */
+    static String priorFragile(EdgeResult r) {
+        EdgeResult.PriorComparison c = r.priorComparison();
+        if (c == null || c.fragile().isEmpty()) {
+            return "";
+        }
+        List<EdgeResult.PriorFragile> fr = c.fragile();
+        StringBuilder sb = new StringBuilder("<li><b>Fragile between the DAG priors:</b> ");
+        for (int i = 0; i < fr.size(); i++) {
+            sb.append(i == 0 ? "" : "; ").append(esc(Fragility.words(fr.get(i), "\u2192")));
+        }
+        return sb.append(". ").append(fr.size() == 1 ? "This posterior is" : "These posteriors are")
+                .append(" above 0.5 under one prior over networks and below 0.5 under the other: the choice of prior, not the "
+                        + "data, decides whether ").append(fr.size() == 1 ? "it" : "they").append(" would be drawn. Treat ")
+                .append(fr.size() == 1 ? "it" : "them").append(" as unsettled.</li>\n").toString();
+    }
+
+    /**
      * The pruned-candidates bullet (HTML): the children whose candidate sets still bound the posterior,
      * and those no rule could check; the widenings made; empty for a store tallied without pruning.
      */

@@ -75,6 +75,7 @@ final class SummarySection {
             h.append("<li><b>Every arrow follows the order you gave</b>: an assumption, not something learned from the data.</li>\n");
         }
         h.append(Cautions.fragile(r));
+        h.append(Cautions.priorFragile(r));
         h.append(Cautions.candidates(r));
         if (r.diagnostics() != null && !r.diagnostics().converged()) {
             h.append("<li><b>The sampler did not converge:</b> do not use these posteriors yet (see Convergence).</li>\n");
@@ -110,6 +111,9 @@ final class SummarySection {
         List<EdgeResult.Fragile> fragile = Cautions.fragileOf(r);
         if (fragile != null) {
             row(h, "fragile under the ESS sweep", fragileCell(r, fragile));
+        }
+        if (r.priorComparison() != null) {
+            row(h, "fragile between the DAG priors", priorFragileCell(r));
         }
         if (rec != null) {
             row(h, "recovery of the known network", "directed AUROC " + fig(rec.directed().auroc()) + ", skeleton AUROC "
@@ -196,6 +200,20 @@ final class SummarySection {
             sb.append(i == 0 ? "" : "<br>").append(esc(Fragility.words(fragile.get(i), "\u2192")));
         }
         return sb.append("</b> (above 0.5 here, below 0.5 at another ESS)").toString();
+    }
+
+    /** The cell (HTML) of the posteriors that cross 0.5 between the DAG priors, or none. */
+    static String priorFragileCell(EdgeResult r) {
+        EdgeResult.PriorComparison c = r.priorComparison();
+        if (c.fragile().isEmpty()) {
+            return "none: no headline edge" + (r.essentialGraph() != null ? " or compelled direction" : "")
+                    + " crosses 0.5 between the " + esc(String.valueOf(r.dagPrior())) + " and " + esc(c.dagPrior()) + " DAG priors";
+        }
+        StringBuilder sb = new StringBuilder("<b>");
+        for (int i = 0; i < c.fragile().size(); i++) {
+            sb.append(i == 0 ? "" : "<br>").append(esc(Fragility.words(c.fragile().get(i), "\u2192")));
+        }
+        return sb.append("</b>").toString();
     }
 
     /** The DAG prior as a table cell (HTML): the summary's and the provenance's. */

@@ -36,6 +36,9 @@ import java.util.Map;
  * @param candidateSearch        from a pruned store: which children were widened into the store's reserve,
  *                               and which could not be checked at all ({@link CandidateSearch}); null when
  *                               the store was not pruned. Older readers ignore it.
+ * @param priorComparison        with {@code edges --dag-prior both}: the same posteriors under the other DAG
+ *                               prior, and the headline posteriors that cross 0.5 between the two
+ *                               ({@link Fragility#acrossPriors}); null otherwise. Older readers ignore it.
  */
 @JsonInclude(JsonInclude.Include.NON_NULL)
 public record EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -45,7 +48,7 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                          Diagnostics diagnostics, List<Feature> features,
                          List<Sensitivity> sensitivity, String dagPrior,
                          List<EssentialPair> essentialGraph, List<Fragile> fragile, List<String> candidateBoundary,
-                         CandidateSearch candidateSearch)
+                         CandidateSearch candidateSearch, PriorComparison priorComparison)
         implements JsonResult {
     /** A result without the {@code fragile} list (computed by {@link Fragility} once the sweep is in). */
     public EdgeResult(String method, List<String> variables, Double logEvidence,
@@ -56,7 +59,7 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
                       List<Sensitivity> sensitivity, String dagPrior,
                       List<EssentialPair> essentialGraph) {
         this(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings, store, edges,
-                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, null, null, null);
+                parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, null, null, null, null);
     }
 
     /** The same result with {@code fragile} as its fragility list. */
@@ -81,7 +84,33 @@ public record EdgeResult(String method, List<String> variables, Double logEviden
     private EdgeResult copy(List<Fragile> fragile, List<String> boundary, CandidateSearch search) {
         return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
                 store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile,
-                boundary, search);
+                boundary, search, priorComparison);
+    }
+
+    /** The same result with {@code c}, the comparison with the other DAG prior, beside it. */
+    public EdgeResult withPriorComparison(PriorComparison c) {
+        return new EdgeResult(method, variables, logEvidence, logEvidenceNormalized, evidenceConvention, order, settings,
+                store, edges, parentSets, bestNetwork, diagnostics, features, sensitivity, dagPrior, essentialGraph, fragile,
+                candidateBoundary, candidateSearch, c);
+    }
+
+    /**
+     * The result's posteriors under the other DAG prior (same store, scoring, tiers and method): its
+     * {@code dagPrior}, log evidence, edges and essential graph (when computed), and {@code fragile}: the
+     * headline posteriors (≥ 0.5 under one prior) that fall below 0.5 under the other; empty when none does.
+     */
+    @JsonInclude(JsonInclude.Include.NON_NULL)
+    public record PriorComparison(String dagPrior, Double logEvidence, List<Edge> edges, List<EssentialPair> essentialGraph,
+                                  List<PriorFragile> fragile) {
+    }
+
+    /**
+     * A posterior that crosses 0.5 between the two DAG priors: {@code kind} {@code edge} (P(from → to)) or
+     * {@code compelled}; {@code posterior} under the result's own prior ({@code dagPrior}), {@code other}
+     * under the other ({@code otherDagPrior}).
+     */
+    public record PriorFragile(String kind, String from, String to, double posterior, String dagPrior, double other,
+                               String otherDagPrior) {
     }
 
     /**

@@ -74,6 +74,50 @@ public final class Fragility {
     }
 
     /**
+     * The headline posteriors of {@code r} that cross {@value #HEADLINE} between its DAG prior and
+     * {@code other}'s (the same request under the other prior): an edge or compelled direction at or
+     * above {@value #HEADLINE} under one prior and below it under the other — the choice of DAG prior,
+     * not the data, decides whether it is drawn. Edges first, then compelled directions (when both
+     * results carry the essential graph), each by the larger of its two posteriors.
+     */
+    public static List<EdgeResult.PriorFragile> acrossPriors(EdgeResult r, String otherPrior, List<EdgeResult.Edge> otherEdges,
+                                                             List<EdgeResult.EssentialPair> otherEssential) {
+        List<EdgeResult.PriorFragile> out = new ArrayList<>();
+        Map<String, Double> o = edges(otherEdges);
+        for (EdgeResult.Edge e : r.edges()) {
+            crossing(out, "edge", e.from(), e.to(), e.posterior(), o.get(e.from() + "\u0000" + e.to()), r.dagPrior(), otherPrior);
+        }
+        if (r.essentialGraph() != null && otherEssential != null) {
+            Map<String, Double> oc = compelled(otherEssential);
+            for (EdgeResult.EssentialPair p : r.essentialGraph()) {
+                crossing(out, "compelled", p.a(), p.b(), p.aToB(), oc.get(p.a() + "\u0000" + p.b()), r.dagPrior(), otherPrior);
+                crossing(out, "compelled", p.b(), p.a(), p.bToA(), oc.get(p.b() + "\u0000" + p.a()), r.dagPrior(), otherPrior);
+            }
+        }
+        out.sort(Comparator.comparing((EdgeResult.PriorFragile f) -> f.kind().equals("edge") ? 0 : 1)
+                .thenComparing(Comparator.comparingDouble((EdgeResult.PriorFragile f) -> Math.max(f.posterior(), f.other())).reversed())
+                .thenComparing(EdgeResult.PriorFragile::from).thenComparing(EdgeResult.PriorFragile::to));
+        return out;
+    }
+
+    private static void crossing(List<EdgeResult.PriorFragile> out, String kind, String from, String to, double p, Double other,
+                                 String prior, String otherPrior) {
+        double q = other == null ? 0 : other;
+        if (p >= HEADLINE != q >= HEADLINE) {
+            out.add(new EdgeResult.PriorFragile(kind, from, to, p, prior, q, otherPrior));
+        }
+    }
+
+    /**
+     * One posterior fragile between the DAG priors in words, e.g. {@code a -> b 0.56 under the
+     * structure-modular DAG prior, 0.41 under the order-modular}; {@code arrow} is how to draw the arrow.
+     */
+    public static String words(EdgeResult.PriorFragile f, String arrow) {
+        return String.format(Locale.ROOT, "%s %s %s%s %.2f under the %s DAG prior, %.2f under the %s", f.from(), arrow, f.to(),
+                f.kind().equals("compelled") ? " compelled" : "", f.posterior(), f.dagPrior(), f.other(), f.otherDagPrior());
+    }
+
+    /**
      * One fragile posterior in words, e.g. {@code a -> b 0.78 (0.92 at ESS 0.1, 0.00 at ESS 10)};
      * a compelled direction reads {@code a -> b compelled 0.78 (…)}. {@code arrow} is how to draw the arrow.
      */
