@@ -125,14 +125,24 @@ public final class Charts {
      * With {@code truth}, each drawn edge carries an {@link EdgeMark} (line pattern and glyph) and the
      * known edges of pairs not drawn are thin long dashes.
      */
+    /** The consensus graph shrinks to the page's width down to this share of its size, and scrolls beyond. */
+    static final double MIN_SCALE = 0.8;
+
     public static String graph(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> drawn, ConsensusLayout lay,
                                boolean[][] truth) {
+        return graph(m, ce, drawn, lay, truth, java.util.Set.of());
+    }
+
+    /** As above, the boxes of the variables named in {@code emphasis} drawn heavier and tinted (the variables asked about). */
+    static String graph(EdgeMatrix m, ConsensusEdges ce, List<ConsensusEdges.Drawn> drawn, ConsensusLayout lay,
+                        boolean[][] truth, java.util.Set<String> emphasis) {
         int n = m.size();
         double boxH = ConsensusLayout.BOX_H;
         StringBuilder s = Frame.of(lay.width(), lay.height()).open("graph", 12);
-        // the figure shrinks to the page's width rather than run off it
+        // the figure shrinks to the page's width rather than run off it, but not below four fifths of its
+        // size (labels stay readable): a wider one scrolls sideways in its box
         int at = s.indexOf("role=\"img\"");
-        s.insert(at, "style=\"max-width:100%;height:auto\" ");
+        s.insert(at, "style=\"max-width:100%;height:auto;min-width:" + c(MIN_SCALE * lay.width()) + "px\" ");
         s.append("<title>Consensus graph</title>\n<defs>");
         StringBuilder defs = s;
         int[] order = lay.order();
@@ -200,8 +210,10 @@ public final class Charts {
                     .append("</title>")
                     .append("<rect x=\"").append(c(x - lay.boxW(v) / 2)).append("\" y=\"").append(c(y - boxH / 2))
                     .append("\" width=\"").append(c(lay.boxW(v))).append("\" height=\"").append(c(boxH))
-                    .append("\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
+                    .append(emphasis.contains(name) ? "\" rx=\"8\" fill=\"#fdebc8\" stroke=\"#1f2d3d\" stroke-width=\"3\"/>"
+                            : "\" rx=\"8\" fill=\"#f4f7fb\" stroke=\"#34495e\" stroke-width=\"1.2\"/>")
                     .append("<text x=\"").append(c(x)).append("\" y=\"").append(c(y + 4))
+                    .append(emphasis.contains(name) ? "\" font-weight=\"bold" : "")
                     .append("\" text-anchor=\"middle\">").append(esc(Html.shorten(name, 20))).append("</text></g>\n");
         }
         return s.append("</svg>").toString();

@@ -83,7 +83,8 @@ public final class EffectSection {
         }
         h.append("</table>\n");
         if (o != null) {
-            h.append("<p class=\"cap\">Raw frequencies: ").append(esc(o.label()))
+            String label = o.label().startsWith("raw frequencies") ? "R" + o.label().substring(1) : "Raw frequencies: " + o.label();
+            h.append("<p class=\"cap\">").append(esc(label))
                     .append(o.oddsRatio() == null ? "" : "; crude odds ratio " + f(o.oddsRatio(), 4)).append(".</p>\n");
         }
         if (r.oddsRatio() != null) {

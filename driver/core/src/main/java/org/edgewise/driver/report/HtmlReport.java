@@ -105,9 +105,20 @@ public final class HtmlReport {
         if (effects != null && !effects.isEmpty()) {
             h.append(EffectSection.section(effects));
         }
-        h.append("<h2>Consensus graph</h2>\n<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
+        h.append("<h2>Consensus graph</h2>\n");
+        List<String> near = m.size() > Neighbourhood.FROM_VARIABLES
+                ? Neighbourhood.of(m, shown, Neighbourhood.queried(effects)) : null;
+        boolean fold = near != null && near.size() < m.size();
+        if (fold) {
+            neighbourhood(h, r, near, Neighbourhood.queried(effects), truth, truthName, threshold, hint);
+            h.append("<details><summary>The whole consensus graph (").append(m.size()).append(" variables)</summary>\n");
+        }
+        h.append("<div class=\"fig\">").append(Charts.graph(m, ce, shown, lay, t)).append("</div>\n");
         h.append("<p class=\"cap\">").append(Cautions.graphCaption(ce, threshold, hint)).append(' ').append(layoutWords(r, lay, m))
                 .append(" Hover over an edge for all its posteriors.</p>\n");
+        if (fold) {
+            h.append("</details>\n");
+        }
         if (t != null) {
             legend(h);
         }
@@ -131,6 +142,37 @@ public final class HtmlReport {
         ProvenanceSection.write(h, r, resultName);
         h.append("<p class=\"cap\">Written by Edgewise. This file is self-contained and loads nothing from the network.</p>\n");
         return h.append("</body>\n</html>\n").toString();
+    }
+
+    /**
+     * The neighbourhood of the variables asked about ({@link Neighbourhood}), drawn by the same rules as
+     * the whole graph on the result restricted to it, the asked variables emphasised.
+     */
+    private static void neighbourhood(StringBuilder h, EdgeResult r, List<String> near, java.util.Set<String> queried,
+                                      Network truth, String truthName, double threshold, AssessHint hint) {
+        EdgeResult sub = Neighbourhood.restrict(r, near);
+        EdgeMatrix sm = EdgeMatrix.of(sub);
+        ConsensusEdges sce = ConsensusEdges.of(sub, sm);
+        List<ConsensusEdges.Drawn> sshown = sce.drawn(threshold);
+        boolean[][] g = sce.layoutGraph(sshown);
+        boolean[][] t = truth == null ? null : EdgeRecovery.truthMatrix(sm, truth, truthName);
+        boolean[][] drawn = new boolean[sm.size()][sm.size()];
+        for (int a = 0; a < sm.size(); a++) {
+            for (int b = 0; b < sm.size(); b++) {
+                drawn[a][b] = g[a][b] || t != null && t[a][b] && !g[a][b] && !g[b][a];
+            }
+        }
+        ConsensusLayout lay = ConsensusLayout.of(sm, g, drawn, "order".equals(sub.method()) ? sub.order() : null,
+                sub.settings() == null ? null : sub.settings().tiers());
+        List<String> asked = new java.util.ArrayList<>(queried);
+        asked.retainAll(near);
+        h.append("<h3 id=\"neighbourhood\">Around the variables asked about</h3>\n<div class=\"fig\">")
+                .append(Charts.graph(sm, sce, sshown, lay, t, queried)).append("</div>\n")
+                .append("<p class=\"cap\">The variables asked about (heavy boxes: ").append(esc(String.join(", ", asked)))
+                .append(") and every variable joined to one of them with posterior above ").append(Html.f(threshold, 2))
+                .append(": ").append(near.size()).append(" of ").append(r.variables().size())
+                .append(" variables, drawn by the same rules as the whole graph, which is folded below. ")
+                .append(Cautions.graphCaption(sce, threshold, hint)).append("</p>\n");
     }
 
     /** How the graph is laid out, in words (HTML). */

@@ -70,19 +70,39 @@ class ReportScreenshotTest {
         return HtmlReport.render(r, "edges.json", net, "fleet-network.json", 0.5, AssessHint.API, RunHint.API, effects);
     }
 
-    /** 42 variables of a random network, partition MCMC with essential-graph features. */
+    /**
+     * 42 variables of a random network, partition MCMC with essential-graph features, and one effect
+     * along an edge of the network (averaged given the network's own order, which is its index order:
+     * a fixture for the page, not a check of the effect), so the report draws the neighbourhood of the
+     * variables asked about first and folds the whole graph below.
+     */
     static String wide() {
         Network net = RandomNetwork.generate("x", 42, 3, 2, 6, 3.0, 0.02, 42L);
         Path edges = SHOTS.resolve("random-42-edges.json");
-        if (REUSE && Files.isRegularFile(edges)) {
-            return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "random-42.json", 0.5);
+        Path effect = SHOTS.resolve("random-42-effect.json");
+        if (REUSE && Files.isRegularFile(edges) && Files.isRegularFile(effect)) {
+            return HtmlReport.render(ResultJson.readEdges(edges), "edges.json", net, "random-42.json", 0.5, AssessHint.API,
+                    RunHint.API, EffectResult.read(effect));
         }
         ScoreStore store = ReportFixtures.tally(net, 2000, 12);
         UnknownOrderSettings s = settings(UnknownOrderSettings.Method.MCMC, null, 2000L, false);
         EdgeResult r = EdgeAnalysis.run(store, Path.of("store"), List.of(ScoringOptions.asStored()), null, s, 3,
                 ProgressListener.NONE, x -> { });
+        int b = net.size() / 2;
+        int a = b - 1;
+        while (!net.hasEdge(a, b)) {
+            b += a == 0 ? 1 : 0;
+            a = a == 0 ? b - 1 : a - 1;
+        }
+        String x = net.names().get(a);
+        String y = net.names().get(b);
+        int[] order = java.util.stream.IntStream.range(0, net.size()).toArray();
+        List<EffectResult> effects = EffectAnalysis.run(new EffectAnalysis.Request(LocalScores.build(store, ScoringOptions.asStored()),
+                order, null, List.of(new EffectAnalysis.Question(x + "=s1", y + "=s1", null, x + "=s0", "")),
+                new EffectEngine.Settings(200, 5L, 1_000_000L)), ProgressListener.NONE);
         ResultJson.write(edges, true, r);
-        return HtmlReport.render(r, "edges.json", net, "random-42.json", 0.5);
+        ResultJson.write(effect, true, effects.get(0));
+        return HtmlReport.render(r, "edges.json", net, "random-42.json", 0.5, AssessHint.API, RunHint.API, effects);
     }
 
     @Test
@@ -91,7 +111,11 @@ class ReportScreenshotTest {
         Assumptions.assumeTrue(browser != null, "chromium is not installed; screenshots skipped");
         Files.createDirectories(SHOTS);
         shoot(browser, "demo-13", demo());
-        shoot(browser, "random-42", wide());
+        String wide = wide();
+        // the neighbourhood of the variables asked about comes first, the whole graph folded below it
+        assertTrue(wide.indexOf("id=\"neighbourhood\"") < wide.indexOf("<summary>The whole consensus graph (42 variables)</summary>")
+                && wide.contains("id=\"neighbourhood\""), "neighbourhood first");
+        shoot(browser, "random-42", wide);
     }
 
     static void shoot(String browser, String name, String html) throws Exception {
