@@ -96,7 +96,8 @@ public final class EdgesCommand implements Callable<Integer> {
         EdgeResult.Settings s = r.settings();
         sb.append(String.format(Locale.ROOT, "Edge posteriors (%s; DAG prior %s; score %s%s, prior %s, d = %d)%n",
                 r.order() == null ? r.method() : "order " + String.join(" < ", r.order()),
-                r.dagPrior(), s.score(), s.ess() == null ? "" : ", ESS " + num(s.ess()), s.prior(), s.maxParents()));
+                r.dagPrior() + (r.priorComparison() == null ? "" : ", compared with " + r.priorComparison().dagPrior()),
+                s.score(), s.ess() == null ? "" : ", ESS " + num(s.ess()), s.prior(), s.maxParents()));
         if (r.logEvidence() != null) {
             if (r.logEvidenceNormalized() != null) {
                 sb.append(String.format(Locale.ROOT, "log evidence %.6f (%s); with the prior renormalised per order %.6f%n",

@@ -187,6 +187,8 @@ class DagPriorFragilityTest {
 
         CliRun text = CliRun.of("edges", "--store", store.toString(), "--method", "exact", "--dag-prior", "both");
         assertEquals(0, text.status(), text.err());
+        assertTrue(text.out().startsWith("Edge posteriors (exact; DAG prior structure-modular, compared with order-modular; "),
+                text.out());
         assertTrue(text.out().contains("fragile between the DAG priors: v2 -> v3 0.56 under the structure-modular DAG prior, "
                 + "0.41 under the order-modular\n"), text.out());
 
@@ -195,6 +197,8 @@ class DagPriorFragilityTest {
         assertEquals(0, rep.status(), rep.err());
         String page = Files.readString(html);
         String summary = page.substring(page.indexOf("<h2 id=\"summary\">"), page.indexOf("<details><summary>How these figures"));
+        assertTrue(page.contains("<th>DAG prior</th><td>structure-modular; the order-modular posteriors computed beside it for "
+                + "comparison</td>"), summary);
         assertTrue(summary.contains("<li><b>Fragile between the DAG priors:</b> ") && summary.contains(
                 "v2 \u2192 v3 0.56 under the structure-modular DAG prior, 0.41 under the order-modular"), summary);
     }

@@ -219,6 +219,7 @@ final class SummarySection {
     /** The DAG prior as a table cell (HTML): the summary's and the provenance's. */
     static String dagPriorLabel(EdgeResult r) {
         return "order".equals(r.method()) ? "given order (both DAG priors coincide)"
-                : r.dagPrior() == null ? "not recorded" : esc(r.dagPrior());
+                : r.dagPrior() == null ? "not recorded" : esc(r.dagPrior()) + (r.priorComparison() == null ? ""
+                : "; the " + esc(r.priorComparison().dagPrior()) + " posteriors computed beside it for comparison");
     }
 }
