@@ -226,7 +226,8 @@ public final class EffectSection {
         if (r.split() != null) {
             sb.append(" Why setting and conditioning differ: <b>").append(esc(cause(r.split()))).append("</b>")
                     .append("unknown direction".equals(r.split().cause()) || "both".equals(r.split().cause())
-                            ? " (no directed path from the set variable to the outcome with probability " + f(r.split().noEffect(), 2) + ")"
+                            ? " (no directed path from " + esc(String.join(", ", r.intervention().keySet())) + " to "
+                            + esc(String.join(", ", r.target().keySet())) + " with probability " + f(r.split().noEffect(), 2) + ")"
                             : "").append('.');
         }
         return sb.toString();
