@@ -69,7 +69,6 @@ public final class EffectEngine {
 
     /** The effect of every query over the orders of {@code src}. */
     public static List<Effect> overOrders(LocalScores ls, EffectOrders src, List<EffectQuery> qs, Settings s) {
-        checkSize(ls);
         int n = ls.variableCount();
         List<int[]> orders = src.orders();
         int k = orders.size();
@@ -81,7 +80,7 @@ public final class EffectEngine {
         }
         SplittableRandom rng = new SplittableRandom(s.seed());
         int[] drawUnit = assign(logW, src.weighted(), s.draws(), rng);
-        long[][] masks = NoPath.variableMasks(ls);
+        long[][][] masks = NoPath.variableMasks(ls);
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
         Parameters theta = Parameters.draws(ls, rng);
         double[][][] terms = new double[qs.size()][k][];
@@ -148,7 +147,6 @@ public final class EffectEngine {
      * is refused before any numeric work.
      */
     public static List<Effect> overDags(LocalScores ls, WeightedDags dags, List<EffectQuery> qs, Settings s) {
-        checkSize(ls);
         int n = ls.variableCount();
         int k = dags.size();
         double[] logW = new double[k];
@@ -274,12 +272,6 @@ public final class EffectEngine {
             }
         }
         return joint;
-    }
-
-    private static void checkSize(LocalScores ls) {
-        if (ls.variableCount() > 64) {
-            throw new UserError("effect handles at most 64 variables, the store has " + ls.variableCount());
-        }
     }
 
     /** One (DAG, θ) draw: the effect of every query under it, and whether it has no path. */
