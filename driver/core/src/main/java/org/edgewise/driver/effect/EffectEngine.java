@@ -13,6 +13,7 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.DagInference;
 import org.edgewise.driver.query.CasePredictor;
 
 /**
@@ -154,14 +155,25 @@ public final class EffectEngine {
             logW[g] = Math.log(dags.weight(g));
         }
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
-        // draws repeat DAGs: each distinct DAG is planned and evaluated once (its rows are only read)
-        Map<String, Integer> seen = new HashMap<>();
+        // draws repeat DAGs, and DAGs that differ only away from the questions answer them alike: each distinct
+        // ancestral subgraph of target ∪ evidence ∪ intervened variables (DagInference.Subgraph) is planned and
+        // evaluated once (its rows are only read; the (DAG, θ) draws of its DAGs touch only its families)
+        boolean[] asked = new boolean[n];
+        for (EffectQuery q : qs) {
+            for (int v : q.setVariables()) {
+                asked[v] = true;
+            }
+            for (int v : outcomeVariables(q)) {
+                asked[v] = true;
+            }
+        }
+        Map<DagInference.Subgraph, Integer> seen = new HashMap<>();
         int[] firstOf = new int[k];
         List<DagEffects.OnDag> distinct = new ArrayList<>();
         int[] unitOf = new int[k];
         for (int g = 0; g < k; g++) {
             int[][] parents = dags.parents(g);
-            Integer u = seen.putIfAbsent(Arrays.deepToString(parents), distinct.size());
+            Integer u = seen.putIfAbsent(DagInference.Subgraph.of(parents, asked), distinct.size());
             if (u == null) {
                 u = distinct.size();
                 String where = dags.sampled() ? (dags.chains() > 0 ? "DAG " + (g % (k / dags.chains()) + 1) + " of chain "
