@@ -122,11 +122,23 @@ public final class SavedSample implements StructurePosterior {
      */
     @Override
     public double[][] setPosterior() {
-        if (setPosterior != null) {
-            return setPosterior;
+        if (setPosterior == null) {
+            setPosterior = frequencies(ls, d, draws(), "sample " + saved.path());
         }
+        return setPosterior;
+    }
+
+    /**
+     * Per child, the weighted share of the DAGs of {@code d} holding each of its allowed parent sets in {@code ls}:
+     * what {@link #setPosterior()} gives for a saved sample (and what {@code sample} judges the candidate boundary by).
+     */
+    public static double[][] frequencies(LocalScores ls, DagSample d) {
+        return frequencies(ls, d, new ParentListDraws(d.variables(), d.dags(), d.weights()), "the sample");
+    }
+
+    /** Summed per distinct DAG, each distinct parent list looked up once among the child's sets. */
+    private static double[][] frequencies(LocalScores ls, DagSample d, ParentListDraws all, String where) {
         int n = d.variables();
-        ParentListDraws all = draws();
         double[] w = all.distinctWeights();
         double total = 0;
         for (double x : w) {
@@ -154,19 +166,18 @@ public final class SavedSample implements StructurePosterior {
             }
             for (int u = 0; u < setOf.length; u++) {
                 if (setOf[u] < 0) {
-                    int[] at = firstDraw(all, u);
-                    throw new UserError("sample " + saved.path() + ": chain " + (at[0] + 1) + ", DAG " + (at[1] + 1) + " gives "
+                    int[] at = firstDraw(d, all, u);
+                    throw new UserError(where + ": chain " + (at[0] + 1) + ", DAG " + (at[1] + 1) + " gives "
                             + ls.store().variables().get(v).name() + " a parent set the store's scoring does not allow");
                 }
                 post[v][setOf[u]] += w[u] / total;
             }
         }
-        setPosterior = post;
         return post;
     }
 
     /** The first draw (chain, index) that is distinct DAG {@code u}. */
-    private int[] firstDraw(ParentListDraws all, int u) {
+    private static int[] firstDraw(DagSample d, ParentListDraws all, int u) {
         for (int c = 0; c < d.chains(); c++) {
             for (int k = 0; k < d.perChain(); k++) {
                 if (all.distinctOf(c, k) == u) {
@@ -237,12 +248,25 @@ public final class SavedSample implements StructurePosterior {
         DagMixture best = new DagMixture(ls.store(), ls.familyScore(), new int[][][] {mode}, null, 0, limit,
                 ls.options().names(), where);
         String prior = labels().dagPriorLabel("order-given");
-        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s), %d distinct; sampled", k, saved.path(),
-                saved.info().sampler(), mix.size());
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s), %d distinct; sampled%s", k, saved.path(),
+                saved.info().sampler(), mix.size(), boundaryNote());
         return new Cases(mix, topological(mode), over, "sampled DAGs", k,
                 "averaged over the sample's DAGs (" + over + "; " + prior + " DAG prior), each by exact inference with "
                         + "posterior-mean parameters:",
                 "under the most frequent DAG of the sample:", false, best);
+    }
+
+    /**
+     * The caution a prediction or effect from this sample carries when the store's pruned candidate sets bound the
+     * sampled posterior (the sample's {@code candidateBoundary}): "" when none does or the sample does not say.
+     */
+    String boundaryNote() {
+        List<String> b = saved.info().candidateBoundary();
+        if (b == null || b.isEmpty()) {
+            return "";
+        }
+        return "; CAUTION: the candidate sets pruned at tally time bound the posterior of " + String.join(", ", b)
+                + " (a parent beyond them may be missing from every DAG)";
     }
 
     /** The largest elimination table a saved-sample prediction builds (entries; 8 bytes each). */
@@ -274,8 +298,8 @@ public final class SavedSample implements StructurePosterior {
     @Override
     public EffectSource effectSource() {
         SampleFile.Info i = saved.info();
-        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse)", d.total(),
-                saved.path(), i.sampler());
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse%s)", d.total(),
+                saved.path(), i.sampler(), boundaryNote());
         return new OverDags(d.forEffects(), over, i.diagnostics() == null ? null : i.diagnostics().converged(),
                 i.diagnostics() == null ? null : i.diagnostics().maxRhat());
     }
