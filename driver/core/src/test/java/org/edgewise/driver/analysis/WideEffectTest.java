@@ -166,5 +166,9 @@ class WideEffectTest {
         assertEquals(wantVs, r.versus().probability(), 0.01 + 4 * (Double.isNaN(r.versus().mcse()) ? 0 : r.versus().mcse()),
                 "P(y | do(x = s0))");
         assertTrue(r.noPathProbability() < 0.5, "x -> y is an edge of the true network: " + r.noPathProbability());
+        // the raw frequencies beside it, from a stored family holding x and y (both past one 64-bit word): the
+        // conditional frequency counted here from the same rows (the definition), to rounding
+        assertEquals(conditional(rows, x, 1, y, 1), r.observed().probability(), 1e-12, "observed " + r.observed());
+        assertEquals(conditional(rows, x, 0, y, 1), r.observed().versusProbability(), 1e-12, "observed " + r.observed());
     }
 }
