@@ -56,6 +56,14 @@ public final class SampleCommand implements Callable<Integer> {
                         : String.format(Locale.ROOT, "; %s (largest R-hat %.3f, smallest effective sample size %.0f)",
                         s.converged() ? "converged" : "NOT converged", s.maxRhat(), s.minEss())));
         w.flush();
+        if (s.candidateBoundary() != null && !s.candidateBoundary().isEmpty()) {
+            PrintWriter err = spec.commandLine().getErr();
+            err.println("sample: CAUTION: the candidate sets pruned at tally time bound the sampled posterior of "
+                    + String.join(", ", s.candidateBoundary()) + " (a parent beyond them may be missing from every DAG); "
+                    + "predict and effect from this sample say so. Tally with more --candidates, or with --reserve M, to check "
+                    + "and widen them.");
+            err.flush();
+        }
         boolean allow = averaging.unknown.allowUnconverged;
         if (Boolean.FALSE.equals(s.converged())) {
             PrintWriter err = spec.commandLine().getErr();

@@ -43,7 +43,7 @@ public final class EdgeAnalysis {
      */
     public static EdgeResult run(Scoring scoring, Averaging averaging, int topParents, ProgressListener progress,
                                  Consumer<EdgeResult> eachRun) {
-        Inputs in = Inputs.of(scoring, averaging);
+        Inputs in = Inputs.of(scoring, averaging, false);
         return run(in.store(), scoring.store(), in.saved(), in.options(), in.order(), in.settings(topParents), topParents,
                 progress, eachRun);
     }

@@ -8,7 +8,10 @@ import org.edgewise.driver.average.UnknownOrderSettings;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.posterior.SampleFile;
 import org.edgewise.driver.store.MissingValues;
+import org.edgewise.driver.score.ScoreKind;
+import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.store.StoreReader;
 
 /**
  * A request's inputs, read and checked once for every service: the store, the given order (null
@@ -24,7 +27,37 @@ import org.edgewise.driver.store.ScoreStore;
  */
 record Inputs(ScoreStore store, int[] order, SampleFile.Loaded saved, List<ScoringOptions> options, Averaging averaging) {
     static Inputs of(Scoring scoring, Averaging averaging) {
-        ScoreStore store = scoring.read();
+        return of(scoring, averaging, true);
+    }
+
+    /**
+     * As {@link #of(Scoring, Averaging)}; without {@code counts} a request answered from a saved sample
+     * under the stored scoring reads only the store's families and scores ({@link StoreReader#readScores}):
+     * it weighs the saved DAGs and needs no counts. Anything else (sampling, rescoring) reads them.
+     */
+    static Inputs of(Scoring scoring, Averaging averaging, boolean counts) {
+        if (!counts && averaging.sample() != null) {
+            Inputs light = of(scoring, averaging, StoreReader.readScores(scoring.store()));
+            if (!rescores(light.store().manifest(), light.options())) {
+                return light;
+            }
+        }
+        return of(scoring, averaging, scoring.read());
+    }
+
+    /** Whether any of {@code options} scores families otherwise than the store did (then its counts are needed). */
+    private static boolean rescores(Manifest m, List<ScoringOptions> options) {
+        ScoreKind stored = ScoreKind.parse(m.score());
+        for (ScoringOptions o : options) {
+            ScoreKind kind = o.score() == null ? stored : o.score();
+            if (kind.rescores(stored, m.ess(), Double.isNaN(o.ess()) ? m.ess() : o.ess())) {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    private static Inputs of(Scoring scoring, Averaging averaging, ScoreStore store) {
         MissingValues mv = store.manifest().missingValues();
         if (mv != null && averaging.sample() == null) {
             if (averaging.order() != null) {

@@ -5,17 +5,20 @@ import java.nio.file.Path;
 import java.time.Instant;
 import java.time.temporal.ChronoUnit;
 import java.util.LinkedHashMap;
+import java.util.List;
 import java.util.Map;
 import org.edgewise.driver.AtomicWrite;
 import org.edgewise.driver.ProgressListener;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.Version;
+import org.edgewise.driver.average.CandidateBoundary;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.VariableOrder;
 import org.edgewise.driver.average.convergence.ChainDiagnostics;
 import org.edgewise.driver.average.mcmc.McmcResult;
 import org.edgewise.driver.posterior.DagSample;
 import org.edgewise.driver.posterior.SampleFile;
+import org.edgewise.driver.posterior.SavedSample;
 import org.edgewise.driver.posterior.StructurePosterior;
 import org.edgewise.driver.store.ScoreStore;
 
@@ -40,9 +43,15 @@ public final class SampleAnalysis {
                           String overwriteName) {
     }
 
-    /** What was written. */
+    /**
+     * What was written.
+     *
+     * @param candidateBoundary from a pruned store: the children whose candidate sets bound the sampled posterior
+     *                          (empty when none does); null when the store was not pruned
+     */
     public record Summary(Path out, String method, String sampler, int chains, int dagsPerChain, boolean weighted,
-                          long bytes, Boolean converged, Double maxRhat, Double minEss, double seconds) {
+                          long bytes, Boolean converged, Double maxRhat, Double minEss, double seconds,
+                          List<String> candidateBoundary) {
     }
 
     public static Summary run(Request r, ProgressListener progress) {
@@ -65,6 +74,12 @@ public final class SampleAnalysis {
                 chains.converged(), chains.stepsPerChain(), chains.burnIn(), chains.thin(), chains.samplingSeconds(),
                 chains.outcome().stop().label(), a.settings(0).rhatTarget(), (double) ChainDiagnostics.ESS_TARGET,
                 a.settings(0).targets().mcse());
+        // the children whose candidate sets bound what was sampled, judged on the saved DAGs' frequencies exactly as
+        // edges judges a saved sample (drawn over every stored family, reserve included); predict and effect repeat it
+        List<CandidateBoundary.Finding> found = CandidateBoundary.find(ls, SavedSample.frequencies(ls, d),
+                store.manifest().reserve() != null ? ls : null);
+        List<String> boundary = found == null ? null
+                : found.stream().map(f -> store.manifest().variables().get(f.child()).name()).toList();
         StructurePosterior.Labels l = p.labels();
         Map<String, Object> settings = new LinkedHashMap<>();
         if (chains != null) {
@@ -83,7 +98,7 @@ public final class SampleAnalysis {
         SampleFile.Info info = SampleFile.info(store.manifest(), r.scoring().store(), l.method(),
                 (chains == null ? "" : "sampled by chains: ") + drawn.sampler(), l.dagPrior() == null ? null : l.dagPrior().label(),
                 order == null ? null : VariableOrder.names(store.manifest(), order), p.tiers(), ls.options(), settings, a.seed(),
-                diag, d, Version.PROGRAM, Instant.now().truncatedTo(ChronoUnit.SECONDS).toString());
+                diag, d, Version.PROGRAM, Instant.now().truncatedTo(ChronoUnit.SECONDS).toString(), boundary);
         SampleFile.write(r.out(), r.overwrite(), r.overwriteName(), info, d);
         long bytes;
         try {
@@ -93,6 +108,6 @@ public final class SampleAnalysis {
         }
         return new Summary(r.out(), l.method(), info.sampler(), d.chains(), d.perChain(), d.weighted(), bytes,
                 diag == null ? null : diag.converged(), diag == null ? null : diag.maxRhat(),
-                diag == null ? null : diag.minEss(), (System.nanoTime() - t0) / 1e9);
+                diag == null ? null : diag.minEss(), (System.nanoTime() - t0) / 1e9, boundary);
     }
 }

@@ -67,7 +67,8 @@ final class TargetAnalysis {
             DagSample d = s.p().sampleDags(draws, s.seed()).dags();
             int[][][] dags = d.flatDags();
             double[] w = d.flatWeights();
-            iv = PredictionDraws.run(s.ls().store(), s.ls().familyScore(), dags, w, draws, s.seed(), s.target().intervalLevel(),
+            iv = PredictionDraws.run(s.ls().store(), s.ls().familyScore(), dags, w, d.chains(), draws, s.seed(),
+                    s.target().intervalLevel(),
                     tc, r, Math.min(s.maxHiddenStates(), MAX_TABLE), where, "the structure posterior's DAGs",
                     s.ls().options().names().maxHiddenStates());
         }

@@ -13,6 +13,7 @@ import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.givenorder.OrderPosterior;
 import org.edgewise.driver.average.givenorder.OrderSum;
 import org.edgewise.driver.query.CaseParser;
+import org.edgewise.driver.query.DagInference;
 import org.edgewise.driver.query.CasePredictor;
 
 /**
@@ -69,7 +70,6 @@ public final class EffectEngine {
 
     /** The effect of every query over the orders of {@code src}. */
     public static List<Effect> overOrders(LocalScores ls, EffectOrders src, List<EffectQuery> qs, Settings s) {
-        checkSize(ls);
         int n = ls.variableCount();
         List<int[]> orders = src.orders();
         int k = orders.size();
@@ -81,7 +81,7 @@ public final class EffectEngine {
         }
         SplittableRandom rng = new SplittableRandom(s.seed());
         int[] drawUnit = assign(logW, src.weighted(), s.draws(), rng);
-        long[][] masks = NoPath.variableMasks(ls);
+        long[][][] masks = NoPath.variableMasks(ls);
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
         Parameters theta = Parameters.draws(ls, rng);
         double[][][] terms = new double[qs.size()][k][];
@@ -148,7 +148,6 @@ public final class EffectEngine {
      * is refused before any numeric work.
      */
     public static List<Effect> overDags(LocalScores ls, WeightedDags dags, List<EffectQuery> qs, Settings s) {
-        checkSize(ls);
         int n = ls.variableCount();
         int k = dags.size();
         double[] logW = new double[k];
@@ -156,14 +155,25 @@ public final class EffectEngine {
             logW[g] = Math.log(dags.weight(g));
         }
         DagEffects dag = new DagEffects(ls.store(), s.maxHiddenStates(), ls.options().names().maxHiddenStates());
-        // draws repeat DAGs: each distinct DAG is planned and evaluated once (its rows are only read)
-        Map<String, Integer> seen = new HashMap<>();
+        // draws repeat DAGs, and DAGs that differ only away from the questions answer them alike: each distinct
+        // ancestral subgraph of target ∪ evidence ∪ intervened variables (DagInference.Subgraph) is planned and
+        // evaluated once (its rows are only read; the (DAG, θ) draws of its DAGs touch only its families)
+        boolean[] asked = new boolean[n];
+        for (EffectQuery q : qs) {
+            for (int v : q.setVariables()) {
+                asked[v] = true;
+            }
+            for (int v : outcomeVariables(q)) {
+                asked[v] = true;
+            }
+        }
+        Map<DagInference.Subgraph, Integer> seen = new HashMap<>();
         int[] firstOf = new int[k];
         List<DagEffects.OnDag> distinct = new ArrayList<>();
         int[] unitOf = new int[k];
         for (int g = 0; g < k; g++) {
             int[][] parents = dags.parents(g);
-            Integer u = seen.putIfAbsent(Arrays.deepToString(parents), distinct.size());
+            Integer u = seen.putIfAbsent(DagInference.Subgraph.of(parents, asked), distinct.size());
             if (u == null) {
                 u = distinct.size();
                 String where = dags.sampled() ? (dags.chains() > 0 ? "DAG " + (g % (k / dags.chains()) + 1) + " of chain "
@@ -274,12 +284,6 @@ public final class EffectEngine {
             }
         }
         return joint;
-    }
-
-    private static void checkSize(LocalScores ls) {
-        if (ls.variableCount() > 64) {
-            throw new UserError("effect handles at most 64 variables, the store has " + ls.variableCount());
-        }
     }
 
     /** One (DAG, θ) draw: the effect of every query under it, and whether it has no path. */

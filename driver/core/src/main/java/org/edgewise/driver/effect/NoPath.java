@@ -1,5 +1,6 @@
 package org.edgewise.driver.effect;
 
+import java.util.Arrays;
 import java.util.HashMap;
 import java.util.Map;
 import org.edgewise.driver.average.LocalScores;
@@ -24,17 +25,53 @@ final class NoPath {
     private NoPath() {
     }
 
-    /** Per child and parent set (aligned with {@link LocalScores#masks(int)}), the parents as a mask over variable indices. */
-    static long[][] variableMasks(LocalScores ls) {
+    /**
+     * Per child and parent set (aligned with {@link LocalScores#masks(int)}), the parents as a bitset over
+     * variable indices ({@code ⌈n/64⌉} words; any number of variables).
+     */
+    static long[][][] variableMasks(LocalScores ls) {
         int n = ls.variableCount();
-        long[][] out = new long[n][];
+        int words = (n + 63) >>> 6;
+        long[][][] out = new long[n][][];
         for (int c = 0; c < n; c++) {
-            out[c] = new long[ls.setCount(c)];
+            out[c] = new long[ls.setCount(c)][];
             for (int s = 0; s < out[c].length; s++) {
-                out[c][s] = Parameters.mask(ls.parents(c, s));
+                out[c][s] = Parameters.mask(ls.parents(c, s), words);
             }
         }
         return out;
+    }
+
+    /** A set of variables as a map key (content equality). */
+    private record State(long[] bits, int hash) {
+        State(long[] bits) {
+            this(bits, Arrays.hashCode(bits));
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof State s && hash == s.hash && Arrays.equals(bits, s.bits);
+        }
+
+        @Override
+        public int hashCode() {
+            return hash;
+        }
+
+        boolean meets(long[] mask) {
+            for (int w = 0; w < bits.length; w++) {
+                if ((bits[w] & mask[w]) != 0) {
+                    return true;
+                }
+            }
+            return false;
+        }
+
+        State with(int v) {
+            long[] b = bits.clone();
+            b[v >>> 6] |= 1L << v;
+            return new State(b);
+        }
     }
 
     /**
@@ -43,17 +80,17 @@ final class NoPath {
      *
      * @param order      the order
      * @param posteriors per child, the parent-set posteriors under the order (aligned with {@code masks})
-     * @param masks      per child and set, the parents as a mask over variable indices
+     * @param masks      per child and set, the parents as a bitset over variable indices
      */
-    static double exact(int[] order, double[][] posteriors, long[][] masks, boolean[] from, boolean[] to) {
+    static double exact(int[] order, double[][] posteriors, long[][][] masks, boolean[] from, boolean[] to) {
         int n = order.length;
         int first = -1;
         int last = -1;
-        long start = 0;
+        long[] start = new long[(n + 63) >>> 6];
         for (int p = 0; p < n; p++) {
             int v = order[p];
             if (from[v]) {
-                start |= 1L << v;
+                start[v >>> 6] |= 1L << v;
                 first = first < 0 ? p : first;
             }
             if (to[v]) {
@@ -63,21 +100,21 @@ final class NoPath {
         if (first < 0 || last < first) {
             return 1; // every outcome precedes every intervened variable
         }
-        Map<Long, Double> states = new HashMap<>();
-        states.put(start, 1.0);
+        Map<State, Double> states = new HashMap<>();
+        states.put(new State(start), 1.0);
         for (int p = first + 1; p <= last; p++) {
             int v = order[p];
             if (from[v]) {
                 continue;
             }
-            Map<Long, Double> next = new HashMap<>();
-            for (Map.Entry<Long, Double> e : states.entrySet()) {
-                long s = e.getKey();
+            Map<State, Double> next = new HashMap<>();
+            for (Map.Entry<State, Double> e : states.entrySet()) {
+                State s = e.getKey();
                 double in = 0;
                 double out = 0; // summed separately, not 1 − in, to keep small complements accurate
                 double[] w = posteriors[v];
                 for (int k = 0; k < w.length; k++) {
-                    if ((masks[v][k] & s) != 0) {
+                    if (s.meets(masks[v][k])) {
                         in += w[k];
                     } else {
                         out += w[k];
@@ -87,7 +124,7 @@ final class NoPath {
                     next.merge(s, e.getValue() * out, Double::sum);
                 }
                 if (!to[v] && in > 0) {
-                    next.merge(s | 1L << v, e.getValue() * in, Double::sum);
+                    next.merge(s.with(v), e.getValue() * in, Double::sum);
                 }
             }
             if (next.size() > MAX_STATES) {

@@ -41,22 +41,23 @@ public final class ObservedCounts {
      */
     public static Count of(ScoreStore store, int[] target, int[] condition) {
         int n = store.variableCount();
-        long need = 0;
+        int needed = 0;
         for (int v = 0; v < n; v++) {
             if (target[v] != CaseParser.HIDDEN || condition[v] != CaseParser.HIDDEN) {
-                need |= 1L << v;
+                needed++;
             }
         }
         FamilyCounts best = null;
         for (FamilyCounts fc : store.families()) {
-            long has = 1L << fc.child();
+            // the family holds every needed variable (any number of variables: counted, not a one-word mask)
+            int held = target[fc.child()] != CaseParser.HIDDEN || condition[fc.child()] != CaseParser.HIDDEN ? 1 : 0;
             for (int p : fc.parents()) {
-                has |= 1L << p;
+                held += target[p] != CaseParser.HIDDEN || condition[p] != CaseParser.HIDDEN ? 1 : 0;
             }
             boolean better = best == null || fc.parents().length < best.parents().length
                     || fc.parents().length == best.parents().length && target[fc.child()] != CaseParser.HIDDEN
                     && target[best.child()] == CaseParser.HIDDEN;
-            if ((has & need) == need && better) {
+            if (held == needed && better) {
                 best = fc;
             }
         }

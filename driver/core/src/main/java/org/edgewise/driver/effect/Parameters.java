@@ -26,21 +26,29 @@ import org.edgewise.driver.store.ScoreStore;
 final class Parameters {
     private final ScoreStore store;
     private final FamilyScore score;
-    private final Map<Long, Integer>[] familyOf;
+    /** Per child, its store families ordered by parent list (lexicographically): found by binary search, any width. */
+    private final int[][] familyOf;
     private final SplittableRandom rng;
     private final Map<Integer, double[][]> drawn = new HashMap<>();
 
-    @SuppressWarnings("unchecked")
     private Parameters(LocalScores ls, SplittableRandom rng) {
         this.store = ls.store();
         this.score = ls.familyScore();
         this.rng = rng;
         int n = ls.variableCount();
-        familyOf = new Map[n];
+        familyOf = new int[n][];
         for (int c = 0; c < n; c++) {
-            familyOf[c] = new HashMap<>();
-            for (int f = store.firstFamilyOf(c); f < store.endFamilyOf(c); f++) {
-                familyOf[c].put(mask(store.family(f).parents()), f);
+            int from = store.firstFamilyOf(c);
+            int to = store.endFamilyOf(c);
+            familyOf[c] = java.util.stream.IntStream.range(from, to).toArray();
+            boolean ordered = true;
+            for (int f = from + 1; f < to && ordered; f++) {
+                ordered = Arrays.compare(sorted(store.family(f - 1).parents()), sorted(store.family(f).parents())) < 0;
+            }
+            if (!ordered) {
+                familyOf[c] = java.util.stream.IntStream.range(from, to).boxed()
+                        .sorted((a, b) -> Arrays.compare(sorted(store.family(a).parents()), sorted(store.family(b).parents())))
+                        .mapToInt(Integer::intValue).toArray();
             }
         }
     }
@@ -62,11 +70,34 @@ final class Parameters {
 
     /** The store family of {@code child} with exactly these parents (an IllegalArgumentException when the store has none). */
     int family(int child, int[] parents) {
-        Integer f = familyOf[child].get(mask(parents));
-        if (f == null) {
-            throw new IllegalArgumentException("the store holds no family " + child + " <- " + Arrays.toString(parents));
+        int[] want = sorted(parents);
+        int[] fams = familyOf[child];
+        int lo = 0;
+        int hi = fams.length - 1;
+        while (lo <= hi) {
+            int mid = (lo + hi) >>> 1;
+            int cmp = Arrays.compare(sorted(store.family(fams[mid]).parents()), want);
+            if (cmp == 0) {
+                return fams[mid];
+            } else if (cmp < 0) {
+                lo = mid + 1;
+            } else {
+                hi = mid - 1;
+            }
         }
-        return f;
+        throw new IllegalArgumentException("the store holds no family " + child + " <- " + Arrays.toString(parents));
+    }
+
+    /** {@code vars} ascending (itself when it already is). */
+    static int[] sorted(int[] vars) {
+        for (int i = 1; i < vars.length; i++) {
+            if (vars[i] < vars[i - 1]) {
+                int[] s = vars.clone();
+                Arrays.sort(s);
+                return s;
+            }
+        }
+        return vars;
     }
 
     /** θ(k | j) of store family {@code f}: the posterior mean, or this draw's value. */
@@ -108,10 +139,11 @@ final class Parameters {
         return DirichletDraw.logGamma(shape, rng);
     }
 
-    static long mask(int[] vars) {
-        long m = 0;
+    /** The variables {@code vars} as a bitset of {@code words} 64-bit words (any number of variables). */
+    static long[] mask(int[] vars, int words) {
+        long[] m = new long[words];
         for (int v : vars) {
-            m |= 1L << v;
+            m[v >>> 6] |= 1L << v;
         }
         return m;
     }

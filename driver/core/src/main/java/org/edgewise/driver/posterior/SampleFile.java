@@ -108,27 +108,39 @@ public final class SampleFile {
      * @param sampler     what drew the DAGs, for people
      * @param dagPrior    the DAG prior, or null given an order (both coincide)
      * @param settings    the sampling settings as given (names as in results)
+     * @param candidateBoundary from a store tallied with pruned candidates: the children whose candidate sets bound
+     *                    the sampled posterior ({@link org.edgewise.driver.average.CandidateBoundary}; empty when none
+     *                    does); null when the store was not pruned or the sample predates this field
      */
     public record Info(int formatVersion, String kind, StoreRef store, String method, String sampler, String dagPrior,
                        List<String> order, List<List<String>> tiers, Scoring scoring, Map<String, Object> settings,
                        long seed, Diagnostics diagnostics, int chains, int dagsPerChain, boolean weighted,
-                       String program, String createdAt) {
+                       String program, String createdAt, List<String> candidateBoundary) {
     }
 
     /** A sample read back and checked. */
     public record Loaded(Path path, Info info, DagSample dags) {
     }
 
-    /** The manifest fields that come from the request, before the DAGs are known. */
+    /** As the other form, without a candidate boundary (a store that was not pruned). */
     public static Info info(Manifest store, Path storePath, String method, String sampler, String dagPrior,
                             List<String> order, List<List<String>> tiers, ScoringOptions scoring,
                             Map<String, Object> settings, long seed, Diagnostics diagnostics, DagSample d, String program,
                             String createdAt) {
+        return info(store, storePath, method, sampler, dagPrior, order, tiers, scoring, settings, seed, diagnostics, d, program,
+                createdAt, null);
+    }
+
+    /** The manifest fields that come from the request, before the DAGs are known. */
+    public static Info info(Manifest store, Path storePath, String method, String sampler, String dagPrior,
+                            List<String> order, List<List<String>> tiers, ScoringOptions scoring,
+                            Map<String, Object> settings, long seed, Diagnostics diagnostics, DagSample d, String program,
+                            String createdAt, List<String> candidateBoundary) {
         List<String> names = store.variables().stream().map(v -> v.name()).toList();
         return new Info(FORMAT_VERSION, KIND, new StoreRef(storePath.toString(),
                 store.input() == null ? null : store.input().fingerprint(), names), method, sampler, dagPrior, order,
                 tiers, Scoring.of(scoring), settings, seed, diagnostics, d.chains(), d.perChain(), d.weighted(),
-                program, createdAt);
+                program, createdAt, candidateBoundary);
     }
 
     /**

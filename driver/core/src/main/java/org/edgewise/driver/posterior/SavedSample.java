@@ -2,10 +2,8 @@ package org.edgewise.driver.posterior;
 
 import java.util.ArrayList;
 import java.util.Arrays;
-import java.util.HashMap;
 import java.util.List;
 import java.util.Locale;
-import java.util.Map;
 import org.edgewise.driver.UserError;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
@@ -35,6 +33,8 @@ public final class SavedSample implements StructurePosterior {
     private final UnknownOrderSettings s;
     private final DagSample d;
     private DrawnDags masks;
+    private ParentListDraws lists;
+    private double[][] setPosterior;
 
     /**
      * @param s which features to estimate (null: none); its sampling fields are not used
@@ -92,17 +92,23 @@ public final class SavedSample implements StructurePosterior {
         return d.chains() == 1;
     }
 
+    /** The saved DAGs as parent lists, mapped to their distinct DAGs once ({@link ParentListDraws}). */
+    private ParentListDraws draws() {
+        if (lists == null) {
+            lists = new ParentListDraws(d.variables(), d.dags(), d.weights());
+        }
+        return lists;
+    }
+
     @Override
     public EdgeEstimates edges() {
         int n = d.variables();
+        ParentListDraws all = draws();
         double[][] mean = new double[n][n];
         Estimate[][] est = new Estimate[n][n];
         for (int b = 0; b < n; b++) {
             for (int a : ls.candidates(b)) {
-                final int from = a;
-                final int to = b;
-                Estimate e = DagDraws.estimate((c, k) -> Arrays.binarySearch(d.dags()[c][k][to], from) >= 0,
-                        d.chains(), d.perChain(), 1, d.weights());
+                Estimate e = all.estimate(all.edge(a, b));
                 est[a][b] = e;
                 mean[a][b] = e.mean();
             }
@@ -110,36 +116,76 @@ public final class SavedSample implements StructurePosterior {
         return new EdgeEstimates(mean, est, d.total(), null, null);
     }
 
+    /**
+     * Per child, the weighted share of the saved DAGs holding each of its allowed parent sets: summed
+     * per distinct DAG, each distinct parent list looked up once among the child's sets.
+     */
     @Override
     public double[][] setPosterior() {
+        if (setPosterior == null) {
+            setPosterior = frequencies(ls, d, draws(), "sample " + saved.path());
+        }
+        return setPosterior;
+    }
+
+    /**
+     * Per child, the weighted share of the DAGs of {@code d} holding each of its allowed parent sets in {@code ls}:
+     * what {@link #setPosterior()} gives for a saved sample (and what {@code sample} judges the candidate boundary by).
+     */
+    public static double[][] frequencies(LocalScores ls, DagSample d) {
+        return frequencies(ls, d, new ParentListDraws(d.variables(), d.dags(), d.weights()), "the sample");
+    }
+
+    /** Summed per distinct DAG, each distinct parent list looked up once among the child's sets. */
+    private static double[][] frequencies(LocalScores ls, DagSample d, ParentListDraws all, String where) {
         int n = d.variables();
+        double[] w = all.distinctWeights();
+        double total = 0;
+        for (double x : w) {
+            total += x;
+        }
         double[][] post = new double[n][];
         for (int v = 0; v < n; v++) {
-            Map<String, Integer> index = new HashMap<>();
-            for (int set = 0; set < ls.setCount(v); set++) {
-                int[] pa = ls.parents(v, set).clone();
-                Arrays.sort(pa);
-                index.put(Arrays.toString(pa), set);
-            }
             post[v] = new double[ls.setCount(v)];
-            double total = 0;
-            for (int c = 0; c < d.chains(); c++) {
-                for (int k = 0; k < d.perChain(); k++) {
-                    Integer set = index.get(Arrays.toString(d.dags()[c][k][v]));
-                    if (set == null) {
-                        throw new UserError("sample " + saved.path() + ": chain " + (c + 1) + ", DAG " + (k + 1) + " gives "
-                                + ls.store().variables().get(v).name() + " a parent set the store's scoring does not allow");
+            int[] setOf = new int[all.distinctCount()];
+            Arrays.fill(setOf, -1);
+            for (int set = 0; set < ls.setCount(v); set++) {
+                int[] pa = ls.parents(v, set);
+                for (int i = 1; i < pa.length; i++) {
+                    if (pa[i] < pa[i - 1]) {
+                        pa = pa.clone();
+                        Arrays.sort(pa);
+                        break;
                     }
-                    double w = d.weighted() ? d.weights()[c][k] : 1.0;
-                    post[v][set] += w;
-                    total += w;
+                }
+                for (int u = 0; u < setOf.length; u++) {
+                    if (setOf[u] < 0 && Arrays.equals(pa, all.distinct(u)[v])) {
+                        setOf[u] = set;
+                    }
                 }
             }
-            for (int set = 0; set < post[v].length; set++) {
-                post[v][set] /= total;
+            for (int u = 0; u < setOf.length; u++) {
+                if (setOf[u] < 0) {
+                    int[] at = firstDraw(d, all, u);
+                    throw new UserError(where + ": chain " + (at[0] + 1) + ", DAG " + (at[1] + 1) + " gives "
+                            + ls.store().variables().get(v).name() + " a parent set the store's scoring does not allow");
+                }
+                post[v][setOf[u]] += w[u] / total;
             }
         }
         return post;
+    }
+
+    /** The first draw (chain, index) that is distinct DAG {@code u}. */
+    private static int[] firstDraw(DagSample d, ParentListDraws all, int u) {
+        for (int c = 0; c < d.chains(); c++) {
+            for (int k = 0; k < d.perChain(); k++) {
+                if (all.distinctOf(c, k) == u) {
+                    return new int[] {c, k};
+                }
+            }
+        }
+        throw new IllegalStateException("distinct DAG " + u + " has no draw");
     }
 
     /**
@@ -149,7 +195,7 @@ public final class SavedSample implements StructurePosterior {
     private DrawnDags masks() {
         if (masks == null) {
             if (d.variables() > DagLists.MAX_DRAW_VARIABLES) {
-                masks = new ParentListDraws(d.variables(), d.dags(), d.weights());
+                masks = draws();
                 return masks;
             }
             List<List<int[]>> chains = new ArrayList<>();
@@ -202,12 +248,25 @@ public final class SavedSample implements StructurePosterior {
         DagMixture best = new DagMixture(ls.store(), ls.familyScore(), new int[][][] {mode}, null, 0, limit,
                 ls.options().names(), where);
         String prior = labels().dagPriorLabel("order-given");
-        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s), %d distinct; sampled", k, saved.path(),
-                saved.info().sampler(), mix.size());
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s), %d distinct; sampled%s", k, saved.path(),
+                saved.info().sampler(), mix.size(), boundaryNote());
         return new Cases(mix, topological(mode), over, "sampled DAGs", k,
                 "averaged over the sample's DAGs (" + over + "; " + prior + " DAG prior), each by exact inference with "
                         + "posterior-mean parameters:",
                 "under the most frequent DAG of the sample:", false, best);
+    }
+
+    /**
+     * The caution a prediction or effect from this sample carries when the store's pruned candidate sets bound the
+     * sampled posterior (the sample's {@code candidateBoundary}): "" when none does or the sample does not say.
+     */
+    String boundaryNote() {
+        List<String> b = saved.info().candidateBoundary();
+        if (b == null || b.isEmpty()) {
+            return "";
+        }
+        return "; CAUTION: the candidate sets pruned at tally time bound the posterior of " + String.join(", ", b)
+                + " (a parent beyond them may be missing from every DAG)";
     }
 
     /** The largest elimination table a saved-sample prediction builds (entries; 8 bytes each). */
@@ -239,8 +298,8 @@ public final class SavedSample implements StructurePosterior {
     @Override
     public EffectSource effectSource() {
         SampleFile.Info i = saved.info();
-        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse)", d.total(),
-                saved.path(), i.sampler());
+        String over = String.format(Locale.ROOT, "%d DAGs of the saved sample %s (%s; sampled; see mcse%s)", d.total(),
+                saved.path(), i.sampler(), boundaryNote());
         return new OverDags(d.forEffects(), over, i.diagnostics() == null ? null : i.diagnostics().converged(),
                 i.diagnostics() == null ? null : i.diagnostics().maxRhat());
     }

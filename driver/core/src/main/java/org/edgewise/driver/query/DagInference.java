@@ -45,6 +45,74 @@ public final class DagInference {
     }
 
     /**
+     * The part of a DAG a question uses: the ancestral set A of some variables (the observed cells, or
+     * target ∪ evidence ∪ intervened variables) with every member's parent list. Any probability of
+     * cells in A — also after cutting the incoming edges of intervened variables in A, and whether a
+     * directed path leads from one variable of A to another — depends on the DAG only through it
+     * (the factors outside A sum to one; a path into a member of A runs through A). So DAGs of a
+     * sample with equal subgraphs answer a question alike, and are computed once. Equality is by content.
+     *
+     * @param signature for each member of A ascending: the member, its number of parents, its parents
+     */
+    public record Subgraph(int[] signature, int hash) {
+        /** The ancestral subgraph of the variables flagged in {@code roots} in the DAG {@code parents}. */
+        public static Subgraph of(int[][] parents, boolean[] roots) {
+            int n = parents.length;
+            boolean[] in = new boolean[n];
+            int[] stack = new int[n];
+            int top = 0;
+            int size = 0;
+            for (int v = 0; v < n; v++) {
+                if (roots[v]) {
+                    in[v] = true;
+                    stack[top++] = v;
+                }
+            }
+            while (top > 0) {
+                int v = stack[--top];
+                size += 2 + parents[v].length;
+                for (int p : parents[v]) {
+                    if (!in[p]) {
+                        in[p] = true;
+                        stack[top++] = p;
+                    }
+                }
+            }
+            int[] sig = new int[size];
+            int at = 0;
+            for (int v = 0; v < n; v++) {
+                if (in[v]) {
+                    sig[at++] = v;
+                    sig[at++] = parents[v].length;
+                    for (int p : parents[v]) {
+                        sig[at++] = p;
+                    }
+                }
+            }
+            return new Subgraph(sig, Arrays.hashCode(sig));
+        }
+
+        /** The subgraph of the observed cells of {@code states}. */
+        public static Subgraph observed(int[][] parents, int[] states) {
+            boolean[] roots = new boolean[states.length];
+            for (int v = 0; v < states.length; v++) {
+                roots[v] = states[v] != CaseParser.HIDDEN;
+            }
+            return of(parents, roots);
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Subgraph g && hash == g.hash && Arrays.equals(signature, g.signature);
+        }
+
+        @Override
+        public int hashCode() {
+            return hash;
+        }
+    }
+
+    /**
      * The ancestral set of the observed variables of {@code states} and the elimination order of
      * its hidden variables; no numeric work.
      *

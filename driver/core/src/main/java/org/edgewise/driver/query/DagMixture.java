@@ -111,20 +111,44 @@ public final class DagMixture implements CaseProbability {
         return true;
     }
 
-    /** log P(x | G, θ̄) per distinct DAG; every DAG planned (and refused) before any is evaluated. */
+    /**
+     * log P(x | G, θ̄) per distinct DAG; every DAG planned (and refused) before any is evaluated. DAGs that
+     * agree on the ancestral subgraph of the case's observed cells ({@link DagInference.Subgraph}) give the
+     * same value, so one of each such group is planned and evaluated and the rest share its value.
+     */
     private double[] perDag(int[] states) {
-        DagInference.Plan[] plans = new DagInference.Plan[distinct.length];
-        int[][] families = new int[distinct.length][];
+        int[] rep = new int[distinct.length];
+        Map<DagInference.Subgraph, Integer> groups = new HashMap<>();
         for (int u = 0; u < distinct.length; u++) {
-            plans[u] = DagInference.plan(distinct[u], arity, states);
-            if (plans[u].largest() > maxTable) {
+            rep[u] = groups.computeIfAbsent(DagInference.Subgraph.observed(distinct[u], states), key -> groups.size());
+        }
+        int[] member = new int[groups.size()];
+        for (int u = distinct.length - 1; u >= 0; u--) {
+            member[rep[u]] = u;
+        }
+        double[] byGroup = perGroup(states, member);
+        double[] out = new double[distinct.length];
+        for (int u = 0; u < distinct.length; u++) {
+            out[u] = byGroup[rep[u]];
+        }
+        return out;
+    }
+
+    /** log P(x | G, θ̄) for the distinct DAGs {@code which}; every one planned (and refused) before any is evaluated. */
+    private double[] perGroup(int[] states, int[] which) {
+        DagInference.Plan[] plans = new DagInference.Plan[which.length];
+        int[][] families = new int[which.length][];
+        for (int i = 0; i < which.length; i++) {
+            int u = which[i];
+            plans[i] = DagInference.plan(distinct[u], arity, states);
+            if (plans[i].largest() > maxTable) {
                 int g = first(u);
                 throw new UserError(String.format(Locale.ROOT, "%s: DAG %d (chain %d): summing out the hidden ancestors of the "
                         + "case by elimination would build a table of %.0f entries (limit %d); observe more of them, or raise %s",
-                        where, g % perChain() + 1, g / perChain() + 1, plans[u].largest(), maxTable, names.maxHiddenStates()));
+                        where, g % perChain() + 1, g / perChain() + 1, plans[i].largest(), maxTable, names.maxHiddenStates()));
             }
-            families[u] = new int[arity.length];
-            for (int v : plans[u].factors()) {
+            families[i] = new int[arity.length];
+            for (int v : plans[i].factors()) {
                 Integer f = familyOf[v].get(Arrays.toString(distinct[u][v]));
                 if (f == null) {
                     List<String> pa = new ArrayList<>();
@@ -134,13 +158,13 @@ public final class DagMixture implements CaseProbability {
                     throw new UserError(where + ": a DAG gives " + store.variables().get(v).name() + " the parents {"
                             + String.join(", ", pa) + "}, a family the store does not hold");
                 }
-                families[u][v] = f;
+                families[i][v] = f;
             }
         }
-        double[] out = new double[distinct.length];
-        for (int u = 0; u < distinct.length; u++) {
-            int[] fam = families[u];
-            out[u] = DagInference.logProbability(plans[u], distinct[u], arity, states, (v, j, k) -> logTheta(fam[v], j, k));
+        double[] out = new double[which.length];
+        for (int i = 0; i < which.length; i++) {
+            int[] fam = families[i];
+            out[i] = DagInference.logProbability(plans[i], distinct[which[i]], arity, states, (v, j, k) -> logTheta(fam[v], j, k));
         }
         return out;
     }

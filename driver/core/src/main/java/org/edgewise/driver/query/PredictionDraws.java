@@ -14,6 +14,7 @@ import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.ScoreStore;
 import org.edgewise.driver.average.convergence.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.QuantileMcse;
 
 /**
  * The posterior spread of a prediction: M draws of a network and its parameters, (G_m, θ_m) — G_m
@@ -23,9 +24,13 @@ import org.edgewise.driver.average.convergence.ChainDiagnostics;
  * its M values (Hyndman &amp; Fan 1996 type-7 quantiles). The values' mean estimates the
  * model-averaged P(y = k, e) / P(e) only approximately (a mean of ratios), so the point estimate is
  * taken elsewhere ({@link TargetPrediction}); the interval says how far a single (network,
- * parameters) can move it. Sampled: the interval's ends carry a Monte Carlo error, estimated per
- * end from the order statistics at M·p ± sqrt(M p (1 − p)) (the binomial spread of the count below a
- * quantile; Vehtari et al. 2021 use its exact Beta form), treating the draws as independent.
+ * parameters) can move it. Sampled: the interval's ends carry a Monte Carlo error per end
+ * ({@link QuantileMcse}, Vehtari et al. 2021's quantile MCSE). DAGs from chains (a saved MCMC sample,
+ * chains run now) are taken in chain order — draw t of chain c uses that chain's DAG at ⌊t · T / M_c⌋
+ * (M_c = ⌊M / chains⌋ draws per chain, T DAGs per chain), each with parameters of its own — and the error
+ * uses the effective sample size of the indicator below the quantile over those chains: a chain that
+ * dwells on a DAG for many draws gives correlated values, which independent-draw formulas miss.
+ * Independent or weighted DAGs are drawn at random by weight and their values are independent.
  *
  * <p>Every draw's parameters are drawn once (for the families of the variables the rows can reach)
  * and shared by every row, so one draw is one network. Memory: rows × states × M doubles for the
@@ -41,8 +46,11 @@ public final class PredictionDraws {
      * @param lower       per row and state the lower end
      * @param upper       the upper end
      * @param endpointMcse the largest Monte Carlo standard error of any end
+     * @param lowerMcse   per row and state the Monte Carlo standard error of the lower end
+     * @param upperMcse   that of the upper end
      */
-    public record Interval(double level, int draws, double[][] lower, double[][] upper, double endpointMcse) {
+    public record Interval(double level, int draws, double[][] lower, double[][] upper, double endpointMcse,
+                           double[][] lowerMcse, double[][] upperMcse) {
     }
 
     private PredictionDraws() {
@@ -59,6 +67,18 @@ public final class PredictionDraws {
     public static Interval run(ScoreStore store, FamilyScore score, int[][][] dags, double[] weights, int draws, long seed,
                                double level, TargetCases cases, int states, long maxTable, String[] where, String source,
                                String limitName) {
+        return run(store, score, dags, weights, 0, draws, seed, level, cases, states, maxTable, where, source, limitName);
+    }
+
+    /**
+     * As the other form, with {@code chains} &gt; 1 when {@code dags} are that many chains of equal length,
+     * chain after chain in draw order (0 or 1: independent draws); weighted chains are drawn as independent.
+     */
+    public static Interval run(ScoreStore store, FamilyScore score, int[][][] dags, double[] weights, int chains, int asked,
+                               long seed, double level, TargetCases cases, int states, long maxTable, String[] where,
+                               String source, String limitName) {
+        boolean ordered = chains > 1 && weights == null && asked >= 4 * chains && dags.length % chains == 0;
+        int draws = ordered ? asked / chains * chains : asked;
         int rows = cases.evidence().length;
         double values = (double) rows * states * draws;
         if (values > MAX_VALUES) {
@@ -74,7 +94,7 @@ public final class PredictionDraws {
         Map<String, Integer>[] familyOf = familyIndex(store);
         // a stream of its own: the caller may have drawn the DAGs with the same seed
         SplittableRandom rng = new SplittableRandom(seed * 0x9E3779B97F4A7C15L + 0x632BE59BD9B4E019L);
-        int[] unit = assign(dags.length, weights, draws, rng);
+        int[] unit = ordered ? inChainOrder(dags.length, chains, draws) : assign(dags.length, weights, draws, rng);
         boolean[] seen = new boolean[n];
         for (int[] e : cases.evidence()) {
             for (int v = 0; v < n; v++) {
@@ -119,6 +139,8 @@ public final class PredictionDraws {
         }
         double[][] lo = new double[rows][states];
         double[][] hi = new double[rows][states];
+        double[][] loMcse = new double[rows][states];
+        double[][] hiMcse = new double[rows][states];
         double pl = (1 - level) / 2;
         double ph = (1 + level) / 2;
         double worst = 0;
@@ -126,22 +148,39 @@ public final class PredictionDraws {
         for (int i = 0; i < rows; i++) {
             for (int k = 0; k < states; k++) {
                 System.arraycopy(all, (i * states + k) * draws, v, 0, draws);
+                double[][] byChain = ordered ? new double[chains][draws / chains] : new double[][] {v.clone()};
+                if (ordered) {
+                    for (int c = 0; c < chains; c++) {
+                        System.arraycopy(v, c * (draws / chains), byChain[c], 0, draws / chains);
+                    }
+                }
                 Arrays.sort(v);
                 lo[i][k] = ChainDiagnostics.sortedQuantile(v, pl);
                 hi[i][k] = ChainDiagnostics.sortedQuantile(v, ph);
-                worst = Math.max(worst, Math.max(endMcse(v, pl), endMcse(v, ph)));
+                loMcse[i][k] = QuantileMcse.of(byChain, pl, !ordered);
+                hiMcse[i][k] = QuantileMcse.of(byChain, ph, !ordered);
+                double e = Math.max(loMcse[i][k], hiMcse[i][k]);
+                worst = Math.max(worst, Double.isNaN(e) ? Double.POSITIVE_INFINITY : e);
             }
         }
-        return new Interval(level, draws, lo, hi, worst);
+        return new Interval(level, draws, lo, hi, worst, loMcse, hiMcse);
     }
 
-    /** Half the spread of the order statistics at M p ± sqrt(M p (1 − p)): one standard error of the p-quantile. */
-    static double endMcse(double[] sorted, double p) {
-        int m = sorted.length;
-        double s = Math.sqrt(m * p * (1 - p));
-        int a = Math.max(0, (int) Math.floor(m * p - s) - 1);
-        int b = Math.min(m - 1, (int) Math.ceil(m * p + s) - 1);
-        return b > a ? (sorted[b] - sorted[a]) / 2 : 0;
+    /**
+     * For each of {@code draws} draws (a multiple of {@code chains}), the DAG it uses when the {@code k} DAGs are
+     * {@code chains} chains in draw order: draw t of chain c takes that chain's DAG ⌊t · T / M_c⌋ (T = k / chains,
+     * M_c = draws / chains) — every chain thinned or repeated evenly, in order.
+     */
+    static int[] inChainOrder(int k, int chains, int draws) {
+        int per = k / chains;
+        int mc = draws / chains;
+        int[] unit = new int[draws];
+        for (int c = 0; c < chains; c++) {
+            for (int t = 0; t < mc; t++) {
+                unit[c * mc + t] = c * per + (int) ((long) t * per / mc);
+            }
+        }
+        return unit;
     }
 
     /** For each draw, the DAG it uses: in turn when there are as many equally weighted DAGs as draws, else at random by weight. */

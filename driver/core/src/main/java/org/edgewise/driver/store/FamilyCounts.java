@@ -13,15 +13,38 @@ package org.edgewise.driver.store;
  */
 public record FamilyCounts(int child, int[] parents, long[] configs, long[] counts) {
 
+    /** The observed configurations (a store read without its counts has none to give: a bug to ask). */
+    @Override
+    public long[] configs() {
+        if (configs == null) {
+            throw new IllegalStateException("the store was read without its counts (StoreReader.readScores)");
+        }
+        return configs;
+    }
+
+    /** The counts N_ijk (a store read without its counts has none to give: a bug to ask). */
+    @Override
+    public long[] counts() {
+        if (counts == null) {
+            throw new IllegalStateException("the store was read without its counts (StoreReader.readScores)");
+        }
+        return counts;
+    }
+
+    /** Whether the counts were read. */
+    public boolean hasCounts() {
+        return counts != null;
+    }
+
     /** Number of observed parent configurations. */
     public int rows() {
-        return configs.length;
+        return configs().length;
     }
 
     /** Total count Σ N_ijk (the number of rows counted). */
     public long total() {
         long s = 0;
-        for (long c : counts) {
+        for (long c : counts()) {
             s += c;
         }
         return s;

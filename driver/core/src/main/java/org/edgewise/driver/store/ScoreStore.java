@@ -49,6 +49,11 @@ public final class ScoreStore {
         return manifest.variables();
     }
 
+    /** Whether the families' counts were read (false for {@link StoreReader#readScores}: stored scores only). */
+    public boolean hasCounts() {
+        return families.isEmpty() || families.get(0).hasCounts();
+    }
+
     public int variableCount() {
         return manifest.variables().size();
     }

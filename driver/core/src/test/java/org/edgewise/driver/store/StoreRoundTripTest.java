@@ -51,6 +51,30 @@ class StoreRoundTripTest {
         assertFalse(Files.exists(store.resolve(".counts.parquet.crc")));
     }
 
+    /**
+     * A scores-only read gives the same families and stored scores as the full read (source: the same file), refuses
+     * to hand out counts it did not read (a bug to ask), and does not look at the counts part at all.
+     */
+    @Test
+    void scoresOnlyReadGivesTheFamiliesAndScoresWithoutCounts() throws Exception {
+        Path store = dir.resolve("s");
+        StoreWriter.write(store, manifest(), families(), new double[] {-1, -2, -3, -4}, false);
+        ScoreStore full = StoreReader.read(store);
+        ScoreStore light = StoreReader.readScores(store);
+        assertTrue(full.hasCounts());
+        assertFalse(light.hasCounts());
+        assertArrayEquals(full.logScores(), light.logScores());
+        for (int f = 0; f < 4; f++) {
+            assertArrayEquals(full.family(f).parents(), light.family(f).parents());
+            assertEquals(full.family(f).child(), light.family(f).child());
+        }
+        int f = 3;
+        assertThrows(IllegalStateException.class, () -> light.family(f).counts());
+        assertThrows(IllegalStateException.class, () -> light.family(f).configs());
+        Files.delete(store.resolve(StoreFormat.COUNTS));
+        assertEquals(-4, StoreReader.readScores(store).logScore(3));
+    }
+
     @Test
     void refusesToOverwriteWithoutPermission() {
         Path store = dir.resolve("s");

@@ -1,6 +1,8 @@
 package org.edgewise.driver.average.dag;
 
 import java.util.Arrays;
+import java.util.HashMap;
+import java.util.Map;
 import org.edgewise.driver.average.convergence.Estimate;
 
 /**
@@ -9,16 +11,31 @@ import org.edgewise.driver.average.convergence.Estimate;
  * draw per DAG ({@code group} 1), chains in draw order, optional weights; every estimate is
  * {@link DagDraws#estimate(DagDraws.Feature, int, int, int, double[][])}'s, so both representations
  * give the same figures on the same DAGs.
- * Memory: the DAGs as given (shared, not copied); when asked, per DAG its compelled parents
- * ({@link WideEssentialGraph}: at most its parents) and its ancestor sets (n × ⌈n/64⌉ longs:
- * 40 variables 320 bytes, 200 variables 6.4 KB).
+ *
+ * <p>Chains revisit the same DAGs: on the 40-variable sample of {@code scripts/bench sample-once},
+ * 6,536 draws hold 132 distinct DAGs. So each draw is mapped once to its distinct DAG, and everything
+ * structural (parent bitsets, the essential graph, ancestor sets) is computed once per distinct DAG.
+ * A feature is then the set of distinct DAGs where it holds; two features holding on the same set
+ * have the same per-draw values, hence the same estimate, which is computed once (the chain
+ * diagnostics behind an estimate, with their rank-normalisation and FFTs, are most of the cost).
+ * Memory: the DAGs as given (shared, not copied), one int per draw, per distinct DAG its parent,
+ * compelled-parent and (when asked) ancestor bitsets (3 × n × ⌈n/64⌉ longs: 40 variables 960 bytes),
+ * and per distinct feature pattern its estimate.
  */
 public final class ParentListDraws implements DrawnDags {
     private final int n;
+    private final int words;
     private final int[][][][] dags;
     private final double[][] weights;
-    private int[][][][] compelled;
-    private long[][][][] reach;
+    /** {@code id[c][k]}: the distinct DAG of draw k of chain c. */
+    private final int[][] id;
+    /** Per distinct DAG its parent lists (those of its first draw). */
+    private final int[][][] unique;
+    /** Per distinct DAG, node v's parents at words [v·words, (v+1)·words). */
+    private final long[][] parentBits;
+    private long[][] compelledBits;
+    private long[][] reachBits;
+    private final Map<Pattern, Estimate> cache = new HashMap<>();
 
     /**
      * @param dags    per chain, per draw, per node its parents ascending
@@ -26,8 +43,30 @@ public final class ParentListDraws implements DrawnDags {
      */
     public ParentListDraws(int n, int[][][][] dags, double[][] weights) {
         this.n = n;
+        this.words = (n + 63) >>> 6;
         this.dags = dags;
         this.weights = weights;
+        this.id = new int[dags.length][];
+        Map<DagKey, Integer> seen = new HashMap<>();
+        java.util.List<int[][]> list = new java.util.ArrayList<>();
+        for (int c = 0; c < dags.length; c++) {
+            id[c] = new int[dags[c].length];
+            for (int k = 0; k < dags[c].length; k++) {
+                DagKey key = new DagKey(dags[c][k]);
+                Integer u = seen.get(key);
+                if (u == null) {
+                    u = list.size();
+                    seen.put(key, u);
+                    list.add(dags[c][k]);
+                }
+                id[c][k] = u;
+            }
+        }
+        this.unique = list.toArray(new int[0][][]);
+        this.parentBits = new long[unique.length][];
+        for (int u = 0; u < unique.length; u++) {
+            parentBits[u] = bits(unique[u]);
+        }
     }
 
     /** The parents in {@code mask} (a parent bitmask, n ≤ 31), ascending. */
@@ -53,79 +92,188 @@ public final class ParentListDraws implements DrawnDags {
         return n;
     }
 
+    /** Number of distinct DAGs among the draws. */
+    public int distinctCount() {
+        return unique.length;
+    }
+
+    /** The distinct DAG of draw k of chain c (an index below {@link #distinctCount()}). */
+    public int distinctOf(int c, int k) {
+        return id[c][k];
+    }
+
+    /** The parent lists of distinct DAG {@code u} (shared: read only). */
+    public int[][] distinct(int u) {
+        return unique[u];
+    }
+
+    /**
+     * Per distinct DAG, the summed weight of its draws (their count when unweighted): what a
+     * frequency over the draws gives each distinct DAG.
+     */
+    public double[] distinctWeights() {
+        double[] w = new double[unique.length];
+        for (int c = 0; c < id.length; c++) {
+            for (int k = 0; k < id[c].length; k++) {
+                w[id[c][k]] += weights == null ? 1.0 : weights[c][k];
+            }
+        }
+        return w;
+    }
+
     @Override
     public Estimate estimate(DagDraws.Feature f) {
+        if (f instanceof Pattern p) {
+            Estimate e = cache.get(p);
+            if (e == null) {
+                e = DagDraws.estimate((c, k) -> p.holds(id[c][k]), dags.length, dags[0].length, 1, weights);
+                cache.put(p, e);
+            }
+            return e;
+        }
         return DagDraws.estimate(f, dags.length, dags[0].length, 1, weights);
     }
 
-    private static boolean has(int[] parents, int a) {
-        return Arrays.binarySearch(parents, a) >= 0;
+    /** A test on one distinct DAG. */
+    private interface OnDistinct {
+        boolean test(int u);
+    }
+
+    /** The feature that holds on the distinct DAGs where {@code t} does. */
+    private Pattern pattern(OnDistinct t) {
+        long[] holds = new long[(unique.length + 63) >>> 6];
+        for (int u = 0; u < unique.length; u++) {
+            if (t.test(u)) {
+                holds[u >>> 6] |= 1L << u;
+            }
+        }
+        return new Pattern(holds);
+    }
+
+    /** A feature as the set of distinct DAGs where it holds; equal sets are equal features. */
+    private final class Pattern implements DagDraws.Feature {
+        private final long[] holds;
+        private final int hash;
+
+        Pattern(long[] holds) {
+            this.holds = holds;
+            this.hash = Arrays.hashCode(holds);
+        }
+
+        boolean holds(int u) {
+            return (holds[u >>> 6] >>> u & 1L) != 0;
+        }
+
+        @Override
+        public boolean test(int chain, int k) {
+            return holds(id[chain][k]);
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Pattern p && Arrays.equals(holds, p.holds);
+        }
+
+        @Override
+        public int hashCode() {
+            return hash;
+        }
+    }
+
+    /** A DAG's parent lists as a hash key (content equality). */
+    private record DagKey(int[][] parents, int hash) {
+        DagKey(int[][] parents) {
+            this(parents, Arrays.deepHashCode(parents));
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof DagKey k && hash == k.hash && Arrays.deepEquals(parents, k.parents);
+        }
+
+        @Override
+        public int hashCode() {
+            return hash;
+        }
+    }
+
+    private long[] bits(int[][] lists) {
+        long[] out = new long[n * words];
+        for (int v = 0; v < n; v++) {
+            for (int p : lists[v]) {
+                out[v * words + (p >>> 6)] |= 1L << p;
+            }
+        }
+        return out;
+    }
+
+    /** Whether bit {@code a} of node {@code b}'s row is set in {@code rows}. */
+    private boolean bit(long[] rows, int b, int a) {
+        return (rows[b * words + (a >>> 6)] >>> a & 1L) != 0;
+    }
+
+    private long[][] compelledBits() {
+        if (compelledBits == null) {
+            compelledBits = new long[unique.length][];
+            for (int u = 0; u < unique.length; u++) {
+                compelledBits[u] = bits(WideEssentialGraph.compelled(unique[u]));
+            }
+        }
+        return compelledBits;
     }
 
     @Override
     public DagDraws.Feature edge(int a, int b) {
-        return (c, k) -> has(dags[c][k][b], a);
+        return pattern(u -> bit(parentBits[u], b, a));
     }
 
     @Override
     public DagDraws.Feature adjacent(int a, int b) {
-        return (c, k) -> has(dags[c][k][b], a) || has(dags[c][k][a], b);
-    }
-
-    private int[][] compelledOf(int c, int k) {
-        if (compelled == null) {
-            compelled = new int[dags.length][][][];
-            for (int i = 0; i < dags.length; i++) {
-                compelled[i] = new int[dags[i].length][][];
-                for (int j = 0; j < dags[i].length; j++) {
-                    compelled[i][j] = WideEssentialGraph.compelled(dags[i][j]);
-                }
-            }
-        }
-        return compelled[c][k];
+        return pattern(u -> bit(parentBits[u], b, a) || bit(parentBits[u], a, b));
     }
 
     @Override
     public DagDraws.Feature compelled(int a, int b) {
-        compelledOf(0, 0);
-        return (c, k) -> has(compelledOf(c, k)[b], a);
+        long[][] cb = compelledBits();
+        return pattern(u -> bit(cb[u], b, a));
     }
 
     @Override
     public DagDraws.Feature reversible(int a, int b) {
-        compelledOf(0, 0);
-        return (c, k) -> (has(dags[c][k][b], a) || has(dags[c][k][a], b))
-                && !has(compelledOf(c, k)[b], a) && !has(compelledOf(c, k)[a], b);
+        long[][] cb = compelledBits();
+        return pattern(u -> (bit(parentBits[u], b, a) || bit(parentBits[u], a, b)) && !bit(cb[u], b, a) && !bit(cb[u], a, b));
     }
 
     @Override
     public DagDraws.Feature ancestor(int a, int b) {
-        if (reach == null) {
-            reach = new long[dags.length][][][];
-            for (int c = 0; c < dags.length; c++) {
-                reach[c] = new long[dags[c].length][][];
-                for (int k = 0; k < dags[c].length; k++) {
-                    reach[c][k] = ancestors(dags[c][k]);
+        if (reachBits == null) {
+            reachBits = new long[unique.length][];
+            for (int u = 0; u < unique.length; u++) {
+                long[][] anc = ancestors(unique[u]);
+                long[] rows = new long[n * words];
+                for (int v = 0; v < n; v++) {
+                    System.arraycopy(anc[v], 0, rows, v * words, words);
                 }
+                reachBits[u] = rows;
             }
         }
-        return (c, k) -> WideEssentialGraph.get(reach[c][k][b], a);
+        return pattern(u -> bit(reachBits[u], b, a));
     }
 
     @Override
     public DagDraws.Feature blanket(int a, int b) {
-        return (c, k) -> {
-            int[][] g = dags[c][k];
-            if (has(g[b], a) || has(g[a], b)) {
+        return pattern(u -> {
+            long[] g = parentBits[u];
+            if (bit(g, b, a) || bit(g, a, b)) {
                 return true;
             }
             for (int v = 0; v < n; v++) {
-                if (has(g[v], a) && has(g[v], b)) {
+                if (bit(g, v, a) && bit(g, v, b)) {
                     return true;
                 }
             }
             return false;
-        };
+        });
     }
 
     /**

@@ -106,6 +106,76 @@ class ParentListDrawsTest {
         }
     }
 
+    /**
+     * Chains that revisit DAGs (every draw one of 7 DAGs): the estimates computed once per distinct DAG and per
+     * distinct feature pattern equal the per-draw ones of the bitmask path (source: the same frequencies and chain
+     * diagnostics over the same draws, {@link DagDraws}, whose essential graphs {@link EssentialGraphTest} checks
+     * against brute-force equivalence classes); the distinct DAGs and their summed weights are what the draws hold.
+     */
+    @Test
+    void revisitedDagsAreComputedOnceAndEstimateAsEveryDraw() {
+        SplittableRandom rng = new SplittableRandom(23);
+        int n = 8;
+        int[][] pool = new int[7][];
+        for (int i = 0; i < pool.length; i++) {
+            pool[i] = randomDag(n, 0.35, rng);
+        }
+        int chains = 3;
+        int per = 80;
+        List<List<int[]>> masks = new ArrayList<>();
+        int[][][][] lists = new int[chains][per][][];
+        double[][] w = new double[chains][per];
+        double[] poolWeight = new double[pool.length];
+        java.util.Set<Integer> used = new java.util.TreeSet<>();
+        for (int c = 0; c < chains; c++) {
+            List<int[]> chain = new ArrayList<>();
+            int at = rng.nextInt(pool.length);
+            for (int k = 0; k < per; k++) {
+                if (rng.nextDouble() < 0.2) {
+                    at = rng.nextInt(pool.length); // sticky: chains dwell on a DAG, as MCMC does
+                }
+                chain.add(pool[at]);
+                lists[c][k] = lists(pool[at]);
+                w[c][k] = 0.5 + rng.nextDouble();
+                poolWeight[at] += w[c][k];
+                used.add(at);
+            }
+            masks.add(chain);
+        }
+        DagDraws a = new DagDraws(n, masks, 1, w);
+        ParentListDraws b = new ParentListDraws(n, lists, w);
+        assertEquals(used.size(), b.distinctCount());
+        double[] dw = b.distinctWeights();
+        for (int u = 0; u < b.distinctCount(); u++) {
+            int[][] g = b.distinct(u);
+            int found = -1;
+            for (int i = 0; i < pool.length; i++) {
+                if (java.util.Arrays.deepEquals(lists(pool[i]), g)) {
+                    found = i;
+                }
+            }
+            assertEquals(poolWeight[found], dw[u], 1e-9);
+        }
+        for (int x = 0; x < n; x++) {
+            for (int y = 0; y < n; y++) {
+                if (x == y) {
+                    continue;
+                }
+                same(a.estimate(a.edge(x, y)), b.estimate(b.edge(x, y)));
+                same(a.estimate(a.adjacent(x, y)), b.estimate(b.adjacent(x, y)));
+                same(a.estimate(a.compelled(x, y)), b.estimate(b.compelled(x, y)));
+                same(a.estimate(a.reversible(x, y)), b.estimate(b.reversible(x, y)));
+                same(a.estimate(a.ancestor(x, y)), b.estimate(b.ancestor(x, y)));
+                same(a.estimate(a.blanket(x, y)), b.estimate(b.blanket(x, y)));
+                for (int c = 0; c < chains; c++) {
+                    for (int k = 0; k < per; k += 7) {
+                        assertEquals(a.compelled(x, y).test(c, k), b.compelled(x, y).test(c, k));
+                    }
+                }
+            }
+        }
+    }
+
     static void same(Estimate x, Estimate y) {
         assertEquals(x, y);
     }
