@@ -3,6 +3,7 @@ package org.edgewise.driver.average.partition;
 import java.util.ArrayList;
 import java.util.List;
 import org.edgewise.driver.average.ChildTables;
+import org.edgewise.driver.average.DominatedSets;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
