@@ -270,6 +270,58 @@ public final class LocalScores {
     }
 
     /**
+     * The same tables keeping of each child only the parent sets {@code keep[child]} (ascending
+     * indices into {@link #masks(int)}; a null row keeps every set): candidates unchanged, so a mask
+     * means the same parents in both and edge positions agree. Returns this object when nothing is
+     * dropped. Memory: one long, two doubles and one int per kept set.
+     */
+    public LocalScores restrictedTo(int[][] keep) {
+        int n = candidates.length;
+        if (keep.length != n) {
+            throw new IllegalArgumentException("sets kept for " + keep.length + " children, expected " + n);
+        }
+        boolean same = true;
+        for (int c = 0; c < n; c++) {
+            same &= keep[c] == null || keep[c].length == masks[c].length;
+        }
+        if (same) {
+            return this;
+        }
+        long[][] m = new long[n][];
+        double[][] w = new double[n][];
+        double[][] lp = new double[n][];
+        int[][] f = new int[n][];
+        for (int c = 0; c < n; c++) {
+            if (keep[c] == null) {
+                m[c] = masks[c];
+                w[c] = weights[c];
+                lp[c] = logPriors[c];
+                f[c] = families[c];
+                continue;
+            }
+            int k = keep[c].length;
+            if (k == 0) {
+                throw new IllegalArgumentException("child " + c + ": no parent set kept");
+            }
+            m[c] = new long[k];
+            w[c] = new double[k];
+            lp[c] = new double[k];
+            f[c] = new int[k];
+            for (int j = 0; j < k; j++) {
+                int s = keep[c][j];
+                if (j > 0 && s <= keep[c][j - 1]) {
+                    throw new IllegalArgumentException("child " + c + ": kept sets not ascending");
+                }
+                m[c][j] = masks[c][s];
+                w[c][j] = weights[c][s];
+                lp[c][j] = logPriors[c][s];
+                f[c][j] = families[c][s];
+            }
+        }
+        return new LocalScores(store, familyScore, options, candidates, m, w, lp, f);
+    }
+
+    /**
      * The same tables with other weights (same shape as {@link #weights(int)}): e.g. the family
      * scores of the data plus one case, for an exact predictive probability as a ratio of exact
      * sums ({@code query.ExactCasePrediction}). Memory: one double per allowed parent set.

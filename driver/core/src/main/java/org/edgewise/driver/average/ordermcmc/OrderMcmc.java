@@ -2,6 +2,7 @@ package org.edgewise.driver.average.ordermcmc;
 
 import java.util.SplittableRandom;
 import org.edgewise.driver.average.ChildTables;
+import org.edgewise.driver.average.DominatedSets;
 import org.edgewise.driver.average.LocalScores;
 import org.edgewise.driver.average.OrderConstraints;
 import org.edgewise.driver.average.convergence.MultiChainDiagnostics;
@@ -52,8 +53,13 @@ public final class OrderMcmc {
         return (order, seed) -> OrderChain.climbed(ls, tables, oc, cpos, offset, order, seed);
     }
 
-    /** Runs the chains. {@code listener} may be null. */
-    public static McmcResult run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
+    /**
+     * Runs the chains on the parent sets {@link DominatedSets} keeps (every edge and feature posterior
+     * within its stated ε of the full target; the result indexes no parent set). {@code listener}
+     * may be null.
+     */
+    public static McmcResult run(LocalScores full, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
+        LocalScores ls = full.restrictedTo(DominatedSets.keep(full, DominatedSets.MARGIN));
         int[][] cpos = ChainSet.candidatePositions(ls);
         int[] offset = ChainSet.edgeOffsets(ls);
         int rungs = s.rungsFor(ls.variableCount());

@@ -54,6 +54,27 @@ public class OrderMcmcTest {
     }
 
     @Test
+    void runOnTheKeptParentSetsAgreesWithTheExactSumOverEverySet() {
+        // 8 ternary variables, 1,000 rows: DominatedSets leaves sets out at its margin (checked), the exact
+        // order sum (Koivisto & Sood 2004) uses every set; within 0.05 and 5 MCSE (+0.005), as above
+        ScoreStore s = TestStores.random(8, 3, 2, 1_000, 71);
+        LocalScores ls = TestStores.scores(s);
+        int[][] keep = org.edgewise.driver.average.DominatedSets.keep(ls, org.edgewise.driver.average.DominatedSets.MARGIN);
+        assertTrue(java.util.Arrays.stream(keep).anyMatch(java.util.Objects::nonNull), "nothing left out");
+        double[][] exact = ExactOrderSum.run(ls, OrderConstraints.none(8)).edgePosterior();
+        McmcResult mc = OrderMcmc.run(ls, OrderConstraints.none(8), McmcSettings.defaults(3).withSteps(40_000, 10_000), null);
+        assertTrue(maxDiff(mc, exact) < 0.05, "max |mcmc - exact| = " + maxDiff(mc, exact));
+        for (int a = 0; a < 8; a++) {
+            for (int b = 0; b < 8; b++) {
+                Estimate e = mc.edges()[a][b];
+                if (e != null && !Double.isNaN(e.mcse())) {
+                    assertEquals(exact[a][b], e.mean(), 5 * e.mcse() + 0.005, a + "->" + b);
+                }
+            }
+        }
+    }
+
+    @Test
     void agreesWithExactUnderTiersAndRequiredEdges() {
         ScoreStore s = TestStores.random(8, 2, 2, 400, 17);
         LocalScores ls = TestStores.scores(s, List.of(new EdgeRule("v1", "v2")), List.of(new EdgeRule("v6", "v0")));
