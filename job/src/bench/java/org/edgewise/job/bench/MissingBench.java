@@ -55,8 +55,9 @@ public final class MissingBench {
             SyntheticTable.generate(csv, rows, vars, 3, 6, seed);
         }
         Path masked = dir.resolve("masked-" + rows + "x" + vars + "-" + seed + "-" + share + ".csv");
-        if (!Files.exists(masked)) {
-            mask(csv, masked, share, seed);
+        Path alone = dir.resolve("incomplete-" + rows + "x" + vars + "-" + seed + "-" + share + ".csv");
+        if (!Files.exists(masked) || !Files.exists(alone)) {
+            mask(csv, masked, alone, share, seed);
         }
         SparkSession spark = SparkSession.builder().appName("edgewise bench missing").master(o.get("--master"))
                 .config("spark.ui.enabled", "false")
@@ -72,6 +73,9 @@ public final class MissingBench {
             TallyJob.Summary avg = TallyJob.run(spark, options(masked, dir.resolve("store-average"), d,
                     TallyOptions.MissingPolicy.AVERAGE, rounds));
             double avgSeconds = (System.nanoTime() - t1) / 1e9;
+            // the incomplete rows alone, their values before masking: one counting pass of a plain tally
+            double countIncomplete = org.edgewise.job.CountTiming.countSeconds(spark, options(alone,
+                    dir.resolve("store-unused"), d, TallyOptions.MissingPolicy.ERROR, null));
             AugmentedTally.Report r = avg.missingValues();
             StringBuilder sb = new StringBuilder();
             sb.append(String.format(Locale.ROOT, "missing: %,d rows × %d variables, d = %d, %s, %d cores, load %s%n", rows,
@@ -93,11 +97,9 @@ public final class MissingBench {
             sb.append(String.format(Locale.ROOT, "    per round and chain: %.1f s; the plain tally's time scaled to the"
                     + " incomplete rows: %.1f s (ratio %.2f)%n", perRound / r.chains(), plainSeconds * r.incompleteRowShare(),
                     perRound / r.chains() / (plainSeconds * r.incompleteRowShare())));
-            // counting the incomplete rows alone, estimated from the one count of the complete rows (same kernels)
-            double countIncomplete = r.completeRowsSeconds() * r.incompleteRows() / Math.max(1, rows - r.incompleteRows());
-            sb.append(String.format(Locale.ROOT, "    counting the incomplete rows alone (the complete rows' count scaled): %.1f s;"
-                    + " per round and chain %.2f×, per round %.2f×%n", countIncomplete, perRound / r.chains() / countIncomplete,
-                    perRound / countIncomplete));
+            sb.append(String.format(Locale.ROOT, "    counting the incomplete rows alone (a plain tally's counting pass over"
+                    + " their values before masking: count, marginalise, score): %.1f s; per round %.2f×, per round and chain"
+                    + " %.2f×%n", countIncomplete, perRound / countIncomplete, perRound / r.chains() / countIncomplete));
             sb.append(String.format(Locale.ROOT, "    largest split-R̂ over rounds %.4f, %s%n", r.maxRhat(),
                     r.converged() ? "converged" : "not converged"));
             System.out.print(sb);
@@ -115,9 +117,10 @@ public final class MissingBench {
     /**
      * Hides one or two cells (never v0's) of a row with a probability that depends on the observed v0
      * (missing at random): three times as likely when v0 is not in its first state, scaled so that
-     * {@code share} of the rows are incomplete on average (v0's first-state frequency counted first).
+     * {@code share} of the rows are incomplete on average (v0's first-state frequency counted first); {@code alone}
+     * gets the incomplete rows with their values before masking.
      */
-    static void mask(Path in, Path out, double share, long seed) throws IOException {
+    static void mask(Path in, Path out, Path alone, double share, long seed) throws IOException {
         String s0 = firstState(in);
         long first = 0;
         long all = 0;
@@ -133,14 +136,21 @@ public final class MissingBench {
         double f0 = (double) first / all;
         double k = share / (0.5 * f0 + 1.5 * (1 - f0));
         SplittableRandom rng = new SplittableRandom(seed);
+        Path aloneTmp = alone.resolveSibling(alone.getFileName() + ".tmp");
         AtomicWrite.file(out, tmp -> {
-            try (BufferedReader r = Files.newBufferedReader(in); BufferedWriter w = Files.newBufferedWriter(tmp)) {
-                w.write(r.readLine());
+            try (BufferedReader r = Files.newBufferedReader(in); BufferedWriter w = Files.newBufferedWriter(tmp);
+                 BufferedWriter a = Files.newBufferedWriter(aloneTmp)) {
+                String header = r.readLine();
+                w.write(header);
                 w.newLine();
+                a.write(header);
+                a.newLine();
                 for (String line; (line = r.readLine()) != null; ) {
                     String[] f = line.split(",", -1);
                     double p = Math.min(1, k * (f[0].equals(s0) ? 0.5 : 1.5));
                     if (rng.nextDouble() < p) {
+                        a.write(line);
+                        a.newLine();
                         int hide = 1 + rng.nextInt(2);
                         for (int h = 0; h < hide; h++) {
                             f[1 + rng.nextInt(f.length - 1)] = "";
@@ -151,6 +161,7 @@ public final class MissingBench {
                 }
             }
         });
+        Files.move(aloneTmp, alone, java.nio.file.StandardCopyOption.REPLACE_EXISTING);
     }
 
     /** The label of v0's first state in the synthetic tables. */

@@ -63,7 +63,7 @@ class MissingValuesStoreTest {
             }
         }
         shape = InMemoryTally.tally(vars, start, 2, BDEU);
-        recount = (chain, round, net, seed) -> {
+        recount = Augmentation.chainByChain((chain, round, net, seed) -> {
             SplittableRandom rng = new SplittableRandom(seed);
             int[][] filled = new int[rows.length][];
             for (int t = 0; t < rows.length; t++) {
@@ -76,7 +76,7 @@ class MissingValuesStoreTest {
             }
             ScoreStore s = InMemoryTally.tally(vars, filled, 2, BDEU);
             return new Augmentation.Completed(s.families(), s.logScores());
-        };
+        });
         Augmentation.Settings settings = new Augmentation.Settings(40, 10, 2, 40, 3);
         Augmentation.Outcome o = Augmentation.run(shape.manifest(), BDEU,
                 DrawnNetwork.marginals(new int[] {2, 2, 2}, new long[][] {{30, 30}, {30, 29}, {30, 29}}, 1), settings,

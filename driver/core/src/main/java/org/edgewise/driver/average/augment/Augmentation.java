@@ -40,9 +40,29 @@ public final class Augmentation {
     private Augmentation() {
     }
 
-    /** The counts and scores of one chain's completed table, for a given network and seed. */
+    /**
+     * The counts and scores of every chain's completed table in one round: chain c's missing cells
+     * redrawn under {@code networks[c]} with the seed {@code seeds[c]} (so that one pass over the rows
+     * can serve every chain).
+     */
     public interface Recount {
+        Completed[] recount(int round, DrawnNetwork[] networks, long[] seeds);
+    }
+
+    /** One chain's completed table for a network and seed: a {@link Recount} done chain by chain ({@link #chainByChain}). */
+    public interface ChainRecount {
         Completed recount(int chain, int round, DrawnNetwork network, long seed);
+    }
+
+    /** The {@link Recount} that recounts each chain in turn. */
+    public static Recount chainByChain(ChainRecount r) {
+        return (round, networks, seeds) -> {
+            Completed[] out = new Completed[networks.length];
+            for (int c = 0; c < networks.length; c++) {
+                out[c] = r.recount(c, round, networks[c], seeds[c]);
+            }
+            return out;
+        };
     }
 
     /** Sees each round end: its index (0-based) and the seconds it took over every chain. */
@@ -108,18 +128,24 @@ public final class Augmentation {
         ScoreStore last = null;
         for (int t = 0; t < s.rounds(); t++) {
             long t0 = System.nanoTime();
+            long[] seeds = new long[chains];
             for (int c = 0; c < chains; c++) {
-                Completed done = recount.recount(c, t, net[c], rng[c].nextLong());
-                ScoreStore store = new ScoreStore(manifest, done.families(), done.logScores());
-                List<int[]> dags = dags(store, manifest, t >= s.burnIn() ? s.drawsPerRound() : 1, rng[c].nextLong());
-                if (t >= s.burnIn()) {
+                seeds[c] = rng[c].nextLong();
+            }
+            Completed[] done = recount.recount(t, net.clone(), seeds);
+            int round = t;
+            // the chains' draws are independent given their tables: in parallel, each from its own stream
+            ScoreStore[] stores = new ScoreStore[chains];
+            java.util.stream.IntStream.range(0, chains).parallel().forEach(c -> {
+                ScoreStore store = new ScoreStore(manifest, done[c].families(), done[c].logScores());
+                List<int[]> dags = dags(store, manifest, round >= s.burnIn() ? s.drawsPerRound() : 1, rng[c].nextLong());
+                if (round >= s.burnIn()) {
                     kept.get(c).addAll(dags);
                 }
                 net[c] = DrawnNetwork.draw(store, score, ParentListDraws.parentLists(dags.get(0)), rng[c]);
-                if (c == 0) {
-                    last = store;
-                }
-            }
+                stores[c] = store;
+            });
+            last = stores[0];
             seconds[t] = (System.nanoTime() - t0) / 1e9;
             listener.round(t, seconds[t]);
         }

@@ -135,7 +135,7 @@ class AugmentationTest {
             }
         }
         ScoreStore shape = InMemoryTally.tally(vars, start, d, BDEU);
-        Augmentation.Recount recount = (chain, round, net, seed) -> {
+        Augmentation.Recount recount = Augmentation.chainByChain((chain, round, net, seed) -> {
             SplittableRandom rng = new SplittableRandom(seed);
             int[][] filled = copy(rows);
             for (int[] x : filled) {
@@ -146,7 +146,7 @@ class AugmentationTest {
             }
             ScoreStore t = InMemoryTally.tally(vars, filled, d, BDEU);
             return new Augmentation.Completed(t.families(), t.logScores());
-        };
+        });
         return Augmentation.run(shape.manifest(), BDEU, DrawnNetwork.marginals(arity, observed, 1), s, recount,
                 (round, secs) -> { });
     }
