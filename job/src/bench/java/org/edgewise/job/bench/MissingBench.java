@@ -64,22 +64,27 @@ public final class MissingBench {
                 .config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1")
                 .getOrCreate();
         spark.sparkContext().setLogLevel("WARN");
+        String loadStart = load();
         try {
             long t0 = System.nanoTime();
             TallyJob.Summary plain = TallyJob.run(spark, options(csv, dir.resolve("store-complete"), d,
                     TallyOptions.MissingPolicy.ERROR, null));
             double plainSeconds = (System.nanoTime() - t0) / 1e9;
+            // the incomplete rows alone, their values before masking: one counting pass of a plain tally,
+            // timed just before and just after the rounds (the machine's load changes over a run)
+            TallyOptions aloneOptions = options(alone, dir.resolve("store-unused"), d, TallyOptions.MissingPolicy.ERROR, null);
+            double countBefore = org.edgewise.job.CountTiming.countSeconds(spark, aloneOptions);
             long t1 = System.nanoTime();
             TallyJob.Summary avg = TallyJob.run(spark, options(masked, dir.resolve("store-average"), d,
                     TallyOptions.MissingPolicy.AVERAGE, rounds));
             double avgSeconds = (System.nanoTime() - t1) / 1e9;
-            // the incomplete rows alone, their values before masking: one counting pass of a plain tally
-            double countIncomplete = org.edgewise.job.CountTiming.countSeconds(spark, options(alone,
-                    dir.resolve("store-unused"), d, TallyOptions.MissingPolicy.ERROR, null));
+            double countAfter = org.edgewise.job.CountTiming.countSeconds(spark, aloneOptions);
+            double countIncomplete = (countBefore + countAfter) / 2;
             AugmentedTally.Report r = avg.missingValues();
             StringBuilder sb = new StringBuilder();
-            sb.append(String.format(Locale.ROOT, "missing: %,d rows × %d variables, d = %d, %s, %d cores, load %s%n", rows,
-                    vars, d, o.get("--master"), Runtime.getRuntime().availableProcessors(), load()));
+            sb.append(String.format(Locale.ROOT, "missing: %,d rows × %d variables, d = %d, %s, %d cores, load average %s at the"
+                    + " start, %s at the end%n", rows, vars, d, o.get("--master"), Runtime.getRuntime().availableProcessors(),
+                    loadStart, load()));
             sb.append(String.format(Locale.ROOT, "  plain tally of the complete table: %,d families in %.1f s%n",
                     plain.families(), plainSeconds));
             sb.append(String.format(Locale.ROOT, "  --missing average: %,d incomplete rows (%.1f%%), %d rounds × %d chains,"
@@ -98,8 +103,9 @@ public final class MissingBench {
                     + " incomplete rows: %.1f s (ratio %.2f)%n", perRound / r.chains(), plainSeconds * r.incompleteRowShare(),
                     perRound / r.chains() / (plainSeconds * r.incompleteRowShare())));
             sb.append(String.format(Locale.ROOT, "    counting the incomplete rows alone (a plain tally's counting pass over"
-                    + " their values before masking: count, marginalise, score): %.1f s; per round %.2f×, per round and chain"
-                    + " %.2f×%n", countIncomplete, perRound / countIncomplete, perRound / r.chains() / countIncomplete));
+                    + " their values before masking: count, marginalise, score; before and after the rounds): %.1f s and %.1f s,"
+                    + " mean %.1f s; per round %.2f×, per round and chain %.2f×%n", countBefore, countAfter, countIncomplete,
+                    perRound / countIncomplete, perRound / r.chains() / countIncomplete));
             sb.append(String.format(Locale.ROOT, "    largest split-R̂ over rounds %.4f, %s%n", r.maxRhat(),
                     r.converged() ? "converged" : "not converged"));
             System.out.print(sb);
