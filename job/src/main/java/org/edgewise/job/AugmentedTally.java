@@ -92,7 +92,8 @@ public final class AugmentedTally {
             }
             FamilyScore score = FamilyScore.of(o.score(), o.ess());
             FamilyPlan plan = FamilyPlan.families(arity, cand, req, o.maxParents());
-            Augmentation.Settings s = Augmentation.Settings.of(o.roundsOrDefault(), o.seedOrDefault());
+            Augmentation.Settings s = o.rounds() == null ? Augmentation.Settings.untilConverged(o.seedOrDefault())
+                    : Augmentation.Settings.of(o.rounds(), o.seedOrDefault());
             int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
             long bytes = IncompleteRows.bytes(incompleteRows, n, plan.totalCells(), s.chains(), threads);
             long c0 = System.nanoTime();
@@ -108,21 +109,26 @@ public final class AugmentedTally {
             }
             double completeSeconds = (System.nanoTime() - c0) / 1e9;
             DrawnNetwork first = DrawnNetwork.marginals(arity, marginals, o.score().usesEss() ? o.ess() : 1);
-            Augmentation.Outcome outcome = Augmentation.run(manifest, score, first, s, recount, (round, secs) ->
-                    LOG.info("missing values: round {} of {} ({} chains) in {} s", round + 1, s.rounds(), s.chains(),
-                            String.format(Locale.ROOT, "%.1f", secs)));
+            Augmentation.Outcome outcome = Augmentation.run(manifest, score, first, s, recount, (round, secs, check) ->
+                    LOG.info("missing values: round {}{} ({} chains) in {} s{}", round + 1,
+                            s.untilConverged() ? " (until converged, at most " + s.rounds() + ")" : " of " + s.rounds(),
+                            s.chains(), String.format(Locale.ROOT, "%.1f", secs), check == null ? ""
+                                    : String.format(Locale.ROOT, "; over rounds %d-%d largest R̂ %.4f, smallest bulk ESS %.0f%s",
+                                    check.fromRound(), check.toRound(), check.maxRhat(), check.minEss(),
+                                    check.converged() ? " (converged)" : "")));
+            Augmentation.Settings ran = outcome.settings();
             Map<String, Double> share = new LinkedHashMap<>();
             for (int v = 0; v < n; v++) {
                 share.put(names.get(v), (double) missingCells[v] / rows);
             }
-            MissingValues mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, s.rounds(), s.burnIn(),
-                    s.chains(), s.drawsPerRound(), s.seed(), DagPrior.ORDER_MODULAR.label(), MissingValues.SAMPLE,
+            MissingValues mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, ran.rounds(), ran.burnIn(),
+                    ran.chains(), ran.drawsPerRound(), ran.seed(), DagPrior.ORDER_MODULAR.label(), MissingValues.SAMPLE,
                     "the completed table of chain 1's last round", incompleteRows, (double) incompleteRows / rows, share);
             Manifest m = manifest.withMissingValues(mv);
             double secs = (System.nanoTime() - start) / 1e9;
             MissingValuesStore.Convergence conv = MissingValuesStore.write(o.out(), m, outcome, secs, o.overwrite(),
                     "--overwrite");
-            return new Report(incompleteRows, (double) incompleteRows / rows, share, s.rounds(), s.burnIn(), s.chains(),
+            return new Report(incompleteRows, (double) incompleteRows / rows, share, ran.rounds(), ran.burnIn(), ran.chains(),
                     outcome.roundSeconds(), completeSeconds, conv.maxRhat(), conv.converged());
         } finally {
             complete.unpersist(false);

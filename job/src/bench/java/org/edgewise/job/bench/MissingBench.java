@@ -19,7 +19,7 @@ import org.edgewise.job.TallyOptions;
 
 /**
  * {@code scripts/bench missing}: {@code tally --missing average} on a synthetic table (by default
- * 1,000,000 rows × 20 variables, d = 3, local[2]) whose rows are incomplete with a probability that
+ * 1,000,000 rows × 20 variables, d = 3, local[2], rounds until converged) whose rows are incomplete with a probability that
  * depends on the observed first variable (missing at random; 30 % of the rows on average, one or two
  * cells hidden in each, never v0), beside a plain tally of the complete table in the same run: the
  * time of every round, of the one count of the complete rows, and in all, and the largest R̂ over
@@ -33,7 +33,7 @@ public final class MissingBench {
 
     public static void main(String[] args) throws IOException {
         Map<String, String> o = new LinkedHashMap<>(Map.of("--rows", "1000000", "--vars", "20", "--max-parents", "3",
-                "--rounds", "10", "--incomplete", "0.3", "--master", "local[2]", "--dir", "job/target/bench",
+                "--rounds", "until-converged", "--incomplete", "0.3", "--master", "local[2]", "--dir", "job/target/bench",
                 "--seed", "20261205"));
         for (int i = 0; i + 1 < args.length; i += 2) {
             if (!o.containsKey(args[i])) {
@@ -45,7 +45,7 @@ public final class MissingBench {
         int rows = Integer.parseInt(o.get("--rows"));
         int vars = Integer.parseInt(o.get("--vars"));
         int d = Integer.parseInt(o.get("--max-parents"));
-        int rounds = Integer.parseInt(o.get("--rounds"));
+        Integer rounds = o.get("--rounds").equals("until-converged") ? null : Integer.valueOf(o.get("--rounds"));
         double share = Double.parseDouble(o.get("--incomplete"));
         long seed = Long.parseLong(o.get("--seed"));
         Path dir = Path.of(o.get("--dir")).toAbsolutePath();
@@ -87,9 +87,9 @@ public final class MissingBench {
                     loadStart, load()));
             sb.append(String.format(Locale.ROOT, "  plain tally of the complete table: %,d families in %.1f s%n",
                     plain.families(), plainSeconds));
-            sb.append(String.format(Locale.ROOT, "  --missing average: %,d incomplete rows (%.1f%%), %d rounds × %d chains,"
+            sb.append(String.format(Locale.ROOT, "  --missing average: %,d incomplete rows (%.1f%%), %d rounds × %d chains%s,"
                     + " burn-in %d: %.1f s in all%n", r.incompleteRows(), 100 * r.incompleteRowShare(), r.rounds(), r.chains(),
-                    r.burnIn(), avgSeconds));
+                    rounds == null ? " (until converged)" : "", r.burnIn(), avgSeconds));
             sb.append(String.format(Locale.ROOT, "    complete rows counted once: %.1f s%n", r.completeRowsSeconds()));
             double sum = 0;
             StringBuilder each = new StringBuilder();
