@@ -41,6 +41,12 @@ import org.slf4j.LoggerFactory;
 public final class AugmentedTally {
     private static final Logger LOG = LoggerFactory.getLogger(AugmentedTally.class);
 
+    /**
+     * Most bytes the incomplete rows and their round's counts may take on the driver ({@link IncompleteRows#bytes});
+     * beyond it they are redrawn on the cluster. Negative: a quarter of the driver's heap (tests lower it).
+     */
+    static volatile long driverBound = -1;
+
     private AugmentedTally() {
     }
 
@@ -98,7 +104,8 @@ public final class AugmentedTally {
             long bytes = IncompleteRows.bytes(incompleteRows, n, plan.totalCells(), s.chains(), threads);
             long c0 = System.nanoTime();
             Augmentation.Recount recount;
-            if (bytes <= Runtime.getRuntime().maxMemory() / 4 && incompleteRows * n < Integer.MAX_VALUE) {
+            long bound = driverBound >= 0 ? driverBound : Runtime.getRuntime().maxMemory() / 4;
+            if (bytes <= bound && incompleteRows * n < Integer.MAX_VALUE) {
                 LOG.info("missing values: the {} incomplete rows redrawn and counted on the driver ({} threads, {})",
                         incompleteRows, threads, FamilyPlan.bytes(bytes));
                 recount = onDriver(complete, incomplete, plan, score, o, names, rows, n, threads);

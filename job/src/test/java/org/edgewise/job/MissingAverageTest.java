@@ -158,4 +158,32 @@ class MissingAverageTest {
         assertTrue(!java.util.Arrays.equals(java.nio.file.Files.readAllBytes(outs[1].resolve("sample/dags.bin")),
                 java.nio.file.Files.readAllBytes(outs[2].resolve("sample/dags.bin"))), "seed 6 drew what seed 5 drew");
     }
+
+    /**
+     * Incomplete rows that would not fit the driver's memory bound are redrawn on the cluster, chain by
+     * chain (the bound lowered to 0 here): the same shares and sample shape as on the driver, every family
+     * counting all 40 rows.
+     */
+    @Test
+    void rowsBeyondTheDriversBoundAreRedrawnOnTheCluster() {
+        Path in = table(dir.resolve("cluster.csv"));
+        Path out = dir.resolve("cluster");
+        AugmentedTally.driverBound = 0;
+        TestTables.Run r;
+        try {
+            r = TestTables.tally(spark, "--input", in.toString(), "--out", out.toString(), "--missing", "average",
+                    "--rounds", "4", "--seed", "3");
+        } finally {
+            AugmentedTally.driverBound = -1;
+        }
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.out().contains("incomplete rows 4 (10.0%); missing cells per variable: b 7.5%, c 5.0%"), r.out());
+        ScoreStore s = StoreReader.read(out);
+        for (int f = 0; f < s.families().size(); f++) {
+            assertEquals(40, s.family(f).total(), "family " + f);
+        }
+        SampleFile.Loaded sample = SampleFile.read(out.resolve(s.manifest().missingValues().sample()), s.manifest(), out);
+        assertEquals(2, sample.dags().chains());
+        assertEquals(2 * s.manifest().missingValues().drawsPerRound(), sample.dags().perChain());
+    }
 }
