@@ -82,7 +82,7 @@ public final class AugmentedTally {
         JavaRDD<Block> incomplete = blocks.map(b -> MissingCells.select(b, false)).filter(b -> b.rows() > 0)
                 .persist(StorageLevel.MEMORY_AND_DISK_SER());
         try {
-            long incompleteRows = incomplete.map(b -> (long) b.rows()).fold(0L, Long::sum);
+            long incompleteRows = incomplete.map(MissingCells::units).fold(0L, Long::sum);
             long completeRows = rows - incompleteRows;
             int[] ar = arity.clone();
             long[] widest = incomplete.map(b -> MissingCells.largestJoint(b, ar)).fold(new long[] {1}, MissingCells::larger);
@@ -109,6 +109,12 @@ public final class AugmentedTally {
                 LOG.info("missing values: the {} incomplete rows redrawn and counted on the driver ({} threads, {})",
                         incompleteRows, threads, FamilyPlan.bytes(bytes));
                 recount = onDriver(complete, incomplete, plan, score, o, names, rows, n, threads);
+            } else if (o.weight() != null) {
+                throw new UserError("--missing average with --weight " + o.weight() + ": the incomplete lines stand for "
+                        + String.format(Locale.ROOT, "%,d", incompleteRows) + " rows, whose draws need "
+                        + FamilyPlan.bytes(bytes) + " on the driver, more than a quarter of its memory ("
+                        + FamilyPlan.bytes(Runtime.getRuntime().maxMemory()) + "); give the driver more memory,"
+                        + " or choose --missing drop");
             } else {
                 LOG.info("missing values: the {} incomplete rows redrawn and counted on the cluster ({} would not fit the"
                         + " driver's memory)", incompleteRows, FamilyPlan.bytes(bytes));

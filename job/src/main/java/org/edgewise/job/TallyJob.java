@@ -90,11 +90,9 @@ public final class TallyJob {
         // the family count depends only on the header and d: refused before the rows are read
         FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(),
                 o.candidates() == null ? null : o.candidates() + (o.reserve() == null ? 0 : o.reserve()));
-        if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && (o.candidates() != null || o.weight() != null)) {
-            throw new UserError("--missing average does not take " + (o.candidates() != null ? "--candidates" : "--weight")
-                    + ": " + (o.candidates() != null ? "candidates chosen on one completion would bound every round"
-                    : "a line standing for many rows would get one completion for all of them")
-                    + "; choose --missing drop or state with it");
+        if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && o.candidates() != null) {
+            throw new UserError("--missing average does not take --candidates: candidates chosen on one completion would"
+                    + " bound every round; choose --missing drop or state with it");
         }
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
@@ -170,7 +168,7 @@ public final class TallyJob {
                     missingCells[v] = scan.stats().missing(v);
                 }
                 Manifest m = Manifest.of("edgewise", Version.PROGRAM, Instant.now().toString(),
-                        new InputInfo(o.inputs(), table.format(), rows, 0, o.missing().label(), fingerprint, null),
+                        new InputInfo(o.inputs(), table.format(), rows, 0, o.missing().label(), fingerprint, o.weight()),
                         variables, o.maxParents(), null, cons.forbid(), cons.require(), cons.tiers(), o.score().label(),
                         o.ess());
                 AugmentedTally.Report rep = AugmentedTally.run(blocks, o, names, arity, cand, req, m, rows, missingCells,

@@ -186,4 +186,49 @@ class MissingAverageTest {
         assertEquals(2, sample.dags().chains());
         assertEquals(2 * s.manifest().missingValues().drawsPerRound(), sample.dags().perChain());
     }
+
+    /**
+     * A table of counts with empty cells: {@code --weight} gives the store of its expansion to one row
+     * per unit, byte for byte (Parquet parts and sample) — each unit of an incomplete line is redrawn on
+     * its own, in the expansion's canonical order — with the same shares of missing cells.
+     */
+    @Test
+    void aTableOfCountsWithMissingCellsGivesTheStoreOfItsExpansion() throws java.io.IOException {
+        List<String[]> lines = new ArrayList<>();
+        List<String[]> expanded = new ArrayList<>();
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(23);
+        for (int i = 0; i < 60; i++) {
+            int a = rng.nextInt(2);
+            int b = rng.nextDouble() < 0.8 ? a : 1 - a;
+            int c = rng.nextDouble() < 0.7 ? b : rng.nextInt(3);
+            String[] row = {"a" + a, "b" + b, "c" + c};
+            if (rng.nextDouble() < 0.3) {
+                row[1 + rng.nextInt(2)] = "";
+            }
+            int w = 1 + rng.nextInt(6);
+            lines.add(new String[] {row[0], row[1], row[2], String.valueOf(w)});
+            for (int k = 0; k < w; k++) {
+                expanded.add(row);
+            }
+        }
+        Path weighted = TestTables.csv(dir.resolve("counts.csv"), List.of("a", "b", "c", "n"), lines);
+        Path rows = TestTables.csv(dir.resolve("expanded.csv"), List.of("a", "b", "c"), expanded);
+        Path w = dir.resolve("weighted");
+        Path e = dir.resolve("expanded");
+        TestTables.Run rw = TestTables.tally(spark, "--input", weighted.toString(), "--out", w.toString(), "--weight", "n",
+                "--missing", "average", "--rounds", "4", "--seed", "8");
+        assertEquals(0, rw.status(), rw.err());
+        TestTables.Run re = TestTables.tally(spark, "--input", rows.toString(), "--out", e.toString(), "--missing",
+                "average", "--rounds", "4", "--seed", "8", "--partitions", "2");
+        assertEquals(0, re.status(), re.err());
+        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES, "sample/dags.bin")) {
+            assertTrue(java.util.Arrays.equals(java.nio.file.Files.readAllBytes(w.resolve(part)),
+                    java.nio.file.Files.readAllBytes(e.resolve(part))), part + " differs from the expansion's");
+        }
+        MissingValues mw = StoreReader.read(w).manifest().missingValues();
+        MissingValues me = StoreReader.read(e).manifest().missingValues();
+        assertEquals(me.incompleteRows(), mw.incompleteRows());
+        assertEquals(me.missingCellShare(), mw.missingCellShare());
+        assertEquals(StoreReader.read(e).manifest().input().fingerprint(), StoreReader.read(w).manifest().input().fingerprint());
+    }
 }

@@ -59,14 +59,15 @@ public final class IncompleteRows {
         return rows * n + 2L * rows * 16 + cells * chains * (4L * threads + 8) + cells * 8;
     }
 
-    /** The incomplete rows of {@code blocks} (every row of them has a {@link Block#MISSING} cell), in canonical order. */
+    /**
+     * The incomplete rows of {@code blocks} (every row of them has a {@link Block#MISSING} cell), in
+     * canonical order; a line of a table of counts stands for as many rows as its weight, each redrawn
+     * on its own (so the rows are those of the expanded table, in the same order).
+     */
     public static IncompleteRows of(List<Block> blocks, int n) {
         long total = 0;
         for (Block b : blocks) {
-            if (b.weights() != null) {
-                throw new IllegalArgumentException("weighted rows are redrawn on the cluster");
-            }
-            total += b.rows();
+            total += MissingCells.units(b);
         }
         if (total > Integer.MAX_VALUE / Math.max(1, n)) {
             throw new IllegalArgumentException(total + " incomplete rows of " + n + " cells do not fit one array");
@@ -77,7 +78,7 @@ public final class IncompleteRows {
         int i = 0;
         for (Block b : blocks) {
             byte[][] cols = b.cols();
-            for (int t = 0; t < b.rows(); t++, i++) {
+            for (int t = 0; t < b.rows(); t++) {
                 long mk = 0;
                 for (int v = 0; v < n; v++) {
                     byte c = cols[v][t];
@@ -90,6 +91,13 @@ public final class IncompleteRows {
                     throw new IllegalArgumentException("a complete row among the incomplete ones");
                 }
                 mask[i] = mk;
+                long w = b.weights() == null ? 1 : b.weights()[t];
+                for (long k = 1; k < w; k++) {
+                    System.arraycopy(flat, i * n, flat, (i + 1) * n, n);
+                    mask[i + 1] = mk;
+                    i++;
+                }
+                i++;
             }
         }
         Integer[] order = new Integer[m];
