@@ -2,6 +2,7 @@ package org.edgewise.job;
 
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
@@ -20,7 +21,9 @@ import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.MissingValues;
+import org.edgewise.job.augment.IncompleteRows;
 import org.edgewise.job.augment.MissingCells;
+import org.edgewise.job.count.CoverBatch;
 import org.edgewise.job.input.Block;
 import org.edgewise.job.plan.FamilyPlan;
 import org.slf4j.Logger;
@@ -37,6 +40,12 @@ import org.slf4j.LoggerFactory;
  */
 public final class AugmentedTally {
     private static final Logger LOG = LoggerFactory.getLogger(AugmentedTally.class);
+
+    /**
+     * Most bytes the incomplete rows and their round's counts may take on the driver ({@link IncompleteRows#bytes});
+     * beyond it they are redrawn on the cluster. Negative: a quarter of the driver's heap (tests lower it).
+     */
+    static volatile long driverBound = -1;
 
     private AugmentedTally() {
     }
@@ -73,7 +82,7 @@ public final class AugmentedTally {
         JavaRDD<Block> incomplete = blocks.map(b -> MissingCells.select(b, false)).filter(b -> b.rows() > 0)
                 .persist(StorageLevel.MEMORY_AND_DISK_SER());
         try {
-            long incompleteRows = incomplete.map(b -> (long) b.rows()).fold(0L, Long::sum);
+            long incompleteRows = incomplete.map(MissingCells::units).fold(0L, Long::sum);
             long completeRows = rows - incompleteRows;
             int[] ar = arity.clone();
             long[] widest = incomplete.map(b -> MissingCells.largestJoint(b, ar)).fold(new long[] {1}, MissingCells::larger);
@@ -89,55 +98,133 @@ public final class AugmentedTally {
             }
             FamilyScore score = FamilyScore.of(o.score(), o.ess());
             FamilyPlan plan = FamilyPlan.families(arity, cand, req, o.maxParents());
+            Augmentation.Settings s = o.rounds() == null ? Augmentation.Settings.untilConverged(o.seedOrDefault())
+                    : Augmentation.Settings.of(o.rounds(), o.seedOrDefault());
+            int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
+            long bytes = IncompleteRows.bytes(incompleteRows, n, plan.totalCells(), s.chains(), threads);
             long c0 = System.nanoTime();
-            FamilyCounts[] fixed = TallyJob.count(complete, plan, score, o.memoryBudget(), names, completeRows,
-                    "families, complete rows").families();
+            Augmentation.Recount recount;
+            long bound = driverBound >= 0 ? driverBound : Runtime.getRuntime().maxMemory() / 4;
+            if (bytes <= bound && incompleteRows * n < Integer.MAX_VALUE) {
+                LOG.info("missing values: the {} incomplete rows redrawn and counted on the driver ({} threads, {})",
+                        incompleteRows, threads, FamilyPlan.bytes(bytes));
+                recount = onDriver(complete, incomplete, plan, score, o, names, rows, n, threads);
+            } else if (o.weight() != null) {
+                throw new UserError("--missing average with --weight " + o.weight() + ": the incomplete lines stand for "
+                        + String.format(Locale.ROOT, "%,d", incompleteRows) + " rows, whose draws need "
+                        + FamilyPlan.bytes(bytes) + " on the driver, more than a quarter of its memory ("
+                        + FamilyPlan.bytes(Runtime.getRuntime().maxMemory()) + "); give the driver more memory,"
+                        + " or choose --missing drop");
+            } else {
+                LOG.info("missing values: the {} incomplete rows redrawn and counted on the cluster ({} would not fit the"
+                        + " driver's memory)", incompleteRows, FamilyPlan.bytes(bytes));
+                recount = onCluster(complete, incomplete, plan, score, o, names, arity, rows, completeRows, incompleteRows);
+            }
             double completeSeconds = (System.nanoTime() - c0) / 1e9;
-            Augmentation.Settings s = Augmentation.Settings.of(o.roundsOrDefault(), o.seedOrDefault());
-            Augmentation.Recount recount = (chain, round, net, seed) -> {
-                Broadcast<DrawnNetwork> b = org.apache.spark.api.java.JavaSparkContext.fromSparkContext(blocks.context()).broadcast(net);
-                JavaRDD<Block> filled = incomplete.mapPartitionsWithIndex((part, it) -> {
-                    SplittableRandom rng = new SplittableRandom(seed ^ (0x9E3779B97F4A7C15L * (part + 1)));
-                    List<Block> out = new ArrayList<>();
-                    it.forEachRemaining(blk -> out.add(MissingCells.complete(blk, b.value(), rng)));
-                    return out.iterator();
-                }, true);
-                FamilyCounts[] redrawn = TallyJob.count(filled, plan, score, o.memoryBudget(), names, incompleteRows,
-                        "families, completed rows, chain " + (chain + 1) + " round " + (round + 1)).families();
-                b.destroy();
-                List<FamilyCounts> all = new ArrayList<>(fixed.length);
-                double[] scores = new double[fixed.length];
-                for (int f = 0; f < fixed.length; f++) {
-                    FamilyCounts fc = MissingCells.add(fixed[f], redrawn[f], arity[fixed[f].child()]);
-                    double q = 1;
-                    for (int p : fc.parents()) {
-                        q *= arity[p];
-                    }
-                    all.add(fc);
-                    scores[f] = score.logScore(fc.counts(), arity[fc.child()], q);
-                }
-                return new Augmentation.Completed(all, scores);
-            };
             DrawnNetwork first = DrawnNetwork.marginals(arity, marginals, o.score().usesEss() ? o.ess() : 1);
-            Augmentation.Outcome outcome = Augmentation.run(manifest, score, first, s, recount, (round, secs) ->
-                    LOG.info("missing values: round {} of {} ({} chains) in {} s", round + 1, s.rounds(), s.chains(),
-                            String.format(Locale.ROOT, "%.1f", secs)));
+            Augmentation.Outcome outcome = Augmentation.run(manifest, score, first, s, recount, (round, secs, check) ->
+                    LOG.info("missing values: round {}{} ({} chains) in {} s{}", round + 1,
+                            s.untilConverged() ? " (until converged, at most " + s.rounds() + ")" : " of " + s.rounds(),
+                            s.chains(), String.format(Locale.ROOT, "%.1f", secs), check == null ? ""
+                                    : String.format(Locale.ROOT, "; over rounds %d-%d largest R̂ %.4f, smallest bulk ESS %.0f%s",
+                                    check.fromRound(), check.toRound(), check.maxRhat(), check.minEss(),
+                                    check.converged() ? " (converged)" : "")));
+            Augmentation.Settings ran = outcome.settings();
             Map<String, Double> share = new LinkedHashMap<>();
             for (int v = 0; v < n; v++) {
                 share.put(names.get(v), (double) missingCells[v] / rows);
             }
-            MissingValues mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, s.rounds(), s.burnIn(),
-                    s.chains(), s.drawsPerRound(), s.seed(), DagPrior.ORDER_MODULAR.label(), MissingValues.SAMPLE,
+            MissingValues mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, ran.rounds(), ran.burnIn(),
+                    ran.chains(), ran.drawsPerRound(), ran.seed(), DagPrior.ORDER_MODULAR.label(), MissingValues.SAMPLE,
                     "the completed table of chain 1's last round", incompleteRows, (double) incompleteRows / rows, share);
             Manifest m = manifest.withMissingValues(mv);
             double secs = (System.nanoTime() - start) / 1e9;
             MissingValuesStore.Convergence conv = MissingValuesStore.write(o.out(), m, outcome, secs, o.overwrite(),
                     "--overwrite");
-            return new Report(incompleteRows, (double) incompleteRows / rows, share, s.rounds(), s.burnIn(), s.chains(),
+            return new Report(incompleteRows, (double) incompleteRows / rows, share, ran.rounds(), ran.burnIn(), ran.chains(),
                     outcome.roundSeconds(), completeSeconds, conv.maxRhat(), conv.converged());
         } finally {
             complete.unpersist(false);
             incomplete.unpersist(false);
         }
+    }
+
+    /**
+     * The rounds on the Spark driver ({@link IncompleteRows}): the complete rows counted once on the
+     * cluster, the incomplete rows collected once in canonical order and their fixed sets counted once;
+     * each round redraws and counts every chain in one multi-threaded pass over the incomplete rows,
+     * then marginalises and scores the families. The counts do not depend on the partitioning.
+     */
+    static Augmentation.Recount onDriver(JavaRDD<Block> complete, JavaRDD<Block> incomplete, FamilyPlan plan,
+                                         FamilyScore score, TallyOptions o, List<String> names, long rows, int n,
+                                         int threads) {
+        List<int[]> ids = plan.batches(o.memoryBudget(), names);
+        CoverBatch[] kernels = new CoverBatch[ids.size()];
+        long[][] fixed = new long[ids.size()][];
+        for (int b = 0; b < kernels.length; b++) {
+            kernels[b] = TallyJob.kernel(plan, ids.get(b));
+            fixed[b] = TallyJob.dense(complete, kernels[b]);
+        }
+        IncompleteRows inc = IncompleteRows.of(incomplete.collect(), n);
+        long[][] once = inc.fixedCounts(kernels);
+        for (int b = 0; b < kernels.length; b++) {
+            CoverBatch.sum(fixed[b], once[b]);
+        }
+        int[][] byCover = TallyJob.familiesByCover(plan);
+        return (round, networks, seeds) -> {
+            long r0 = System.nanoTime();
+            long[][][] redrawn = inc.round(kernels, networks, seeds, threads);
+            long r1 = System.nanoTime();
+            Augmentation.Completed[] out = new Augmentation.Completed[networks.length];
+            for (int c = 0; c < networks.length; c++) {
+                FamilyCounts[] fams = new FamilyCounts[plan.familyCount()];
+                double[] scores = new double[plan.familyCount()];
+                for (int b = 0; b < kernels.length; b++) {
+                    long[] dense = CoverBatch.sum(redrawn[c][b], fixed[b]);
+                    TallyJob.families(plan, ids.get(b), byCover, kernels[b], dense, score, rows, fams, scores);
+                }
+                out[c] = new Augmentation.Completed(Arrays.asList(fams), scores);
+            }
+            LOG.info("missing values: round {}: redrawn and counted in {} s, families marginalised and scored in {} s",
+                    round + 1, String.format(Locale.ROOT, "%.2f", (r1 - r0) / 1e9),
+                    String.format(Locale.ROOT, "%.2f", (System.nanoTime() - r1) / 1e9));
+            return out;
+        };
+    }
+
+    /**
+     * The rounds on the cluster, chain by chain: one Spark pass per chain and round redraws every
+     * missing cell (each task's stream from the round's seed and its partition index: the draws depend
+     * on the partitioning) and counts the completed rows, added to the complete rows' counts.
+     */
+    static Augmentation.Recount onCluster(JavaRDD<Block> complete, JavaRDD<Block> incomplete, FamilyPlan plan,
+                                          FamilyScore score, TallyOptions o, List<String> names, int[] arity, long rows,
+                                          long completeRows, long incompleteRows) {
+        FamilyCounts[] fixed = TallyJob.count(complete, plan, score, o.memoryBudget(), names, completeRows,
+                "families, complete rows").families();
+        return Augmentation.chainByChain((chain, round, net, seed) -> {
+            Broadcast<DrawnNetwork> b = org.apache.spark.api.java.JavaSparkContext.fromSparkContext(incomplete.context()).broadcast(net);
+            JavaRDD<Block> filled = incomplete.mapPartitionsWithIndex((part, it) -> {
+                SplittableRandom rng = new SplittableRandom(seed ^ (0x9E3779B97F4A7C15L * (part + 1)));
+                List<Block> out = new ArrayList<>();
+                it.forEachRemaining(blk -> out.add(MissingCells.complete(blk, b.value(), rng)));
+                return out.iterator();
+            }, true);
+            FamilyCounts[] redrawn = TallyJob.count(filled, plan, score, o.memoryBudget(), names, incompleteRows,
+                    "families, completed rows, chain " + (chain + 1) + " round " + (round + 1)).families();
+            b.destroy();
+            List<FamilyCounts> all = new ArrayList<>(fixed.length);
+            double[] scores = new double[fixed.length];
+            for (int f = 0; f < fixed.length; f++) {
+                FamilyCounts fc = MissingCells.add(fixed[f], redrawn[f], arity[fixed[f].child()]);
+                double q = 1;
+                for (int p : fc.parents()) {
+                    q *= arity[p];
+                }
+                all.add(fc);
+                scores[f] = score.logScore(fc.counts(), arity[fc.child()], q);
+            }
+            return new Augmentation.Completed(all, scores);
+        });
     }
 }

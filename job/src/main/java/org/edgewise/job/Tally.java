@@ -201,7 +201,7 @@ public final class Tally {
         return this;
     }
 
-    /** {@code missing("average")}: rounds of data augmentation per chain, 2 to 100,000, the first half burn-in (default 20). */
+    /** {@code missing("average")}: rounds of data augmentation per chain, 2 to 100,000, the first half burn-in (default: until converged, at most 100). */
     public Tally rounds(int r) {
         if (r < 2 || r > 100_000) {
             throw new UserError("rounds must be between 2 and 100000, got " + r);

@@ -90,11 +90,9 @@ public final class TallyJob {
         // the family count depends only on the header and d: refused before the rows are read
         FamilyPlan.checkBeforeScan(cons.candidates(), cons.required(), o.maxParents(),
                 o.candidates() == null ? null : o.candidates() + (o.reserve() == null ? 0 : o.reserve()));
-        if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && (o.candidates() != null || o.weight() != null)) {
-            throw new UserError("--missing average does not take " + (o.candidates() != null ? "--candidates" : "--weight")
-                    + ": " + (o.candidates() != null ? "candidates chosen on one completion would bound every round"
-                    : "a line standing for many rows would get one completion for all of them")
-                    + "; choose --missing drop or state with it");
+        if (o.missing() == TallyOptions.MissingPolicy.AVERAGE && o.candidates() != null) {
+            throw new UserError("--missing average does not take --candidates: candidates chosen on one completion would"
+                    + " bound every round; choose --missing drop or state with it");
         }
         TableScan.Result scan = TableScan.scan(table, o);
         Encoding enc = scan.encoding();
@@ -170,7 +168,7 @@ public final class TallyJob {
                     missingCells[v] = scan.stats().missing(v);
                 }
                 Manifest m = Manifest.of("edgewise", Version.PROGRAM, Instant.now().toString(),
-                        new InputInfo(o.inputs(), table.format(), rows, 0, o.missing().label(), fingerprint, null),
+                        new InputInfo(o.inputs(), table.format(), rows, 0, o.missing().label(), fingerprint, o.weight()),
                         variables, o.maxParents(), null, cons.forbid(), cons.require(), cons.tiers(), o.score().label(),
                         o.ess());
                 AugmentedTally.Report rep = AugmentedTally.run(blocks, o, names, arity, cand, req, m, rows, missingCells,
@@ -218,8 +216,38 @@ public final class TallyJob {
         LOG.info("plan ({}): {} families from {} variable sets, {} count cells, {} {} (per-task budget {})", what,
                 plan.familyCount(), plan.coverCount(), String.format(Locale.ROOT, "%,d", plan.totalCells()),
                 batches.size(), batches.size() == 1 ? "batch" : "batches", FamilyPlan.bytes(budget));
-        int[] arity = plan.arity();
-        // families of each cover set
+        int[][] byCover = familiesByCover(plan);
+        FamilyCounts[] out = new FamilyCounts[plan.familyCount()];
+        double[] scores = new double[plan.familyCount()];
+        int done = 0;
+        TallyProgress progress = TallyProgress.start(what, plan.familyCount(), batches.size(), rows, LOG);
+        for (int b = 0; b < batches.size(); b++) {
+            int[] ids = batches.get(b);
+            CoverBatch cb = kernel(plan, ids);
+            long[] dense = dense(blocks, cb);
+            done += families(plan, ids, byCover, cb, dense, score, rows, out, scores);
+            progress.update(b + 1, done, System.nanoTime());
+        }
+        return new Counted(out, scores, batches.size());
+    }
+
+    /** The counting kernel of one batch (the plan's cover sets {@code ids}, in that order). */
+    static CoverBatch kernel(FamilyPlan plan, int[] ids) {
+        int[][] sets = new int[ids.length][];
+        for (int k = 0; k < ids.length; k++) {
+            sets[k] = plan.cover(ids[k]);
+        }
+        return new CoverBatch(sets, plan.arity());
+    }
+
+    /** One pass over the blocks: the batch's dense counts (per partition, then summed). */
+    static long[] dense(JavaRDD<Block> blocks, CoverBatch cb) {
+        return blocks.mapPartitions(it -> Collections.singletonList(cb.countPartition(it)).iterator())
+                .treeReduce(CoverBatch::sum, 2);
+    }
+
+    /** The families of each cover set, by cover set. */
+    static int[][] familiesByCover(FamilyPlan plan) {
         List<List<Integer>> byCover = new ArrayList<>();
         for (int s = 0; s < plan.coverCount(); s++) {
             byCover.add(new ArrayList<>());
@@ -227,37 +255,49 @@ public final class TallyJob {
         for (int f = 0; f < plan.familyCount(); f++) {
             byCover.get(plan.coverOf(f)).add(f);
         }
-        FamilyCounts[] out = new FamilyCounts[plan.familyCount()];
-        double[] scores = new double[plan.familyCount()];
-        int done = 0;
-        TallyProgress progress = TallyProgress.start(what, plan.familyCount(), batches.size(), rows, LOG);
-        for (int b = 0; b < batches.size(); b++) {
-            int[] ids = batches.get(b);
-            int[][] sets = new int[ids.length][];
-            for (int k = 0; k < ids.length; k++) {
-                sets[k] = plan.cover(ids[k]);
-            }
-            CoverBatch cb = new CoverBatch(sets, arity);
-            long[] dense = blocks.mapPartitions(it -> Collections.singletonList(cb.countPartition(it)).iterator())
-                    .treeReduce(CoverBatch::sum, 2);
-            for (int k = 0; k < ids.length; k++) {
-                for (int f : byCover.get(ids[k])) {
-                    FamilyCounts fc = Marginal.family(dense, cb.offset(k), sets[k], arity, plan.child(f), plan.parents(f));
-                    if (fc.total() != rows) {
-                        throw new IllegalStateException("family " + f + " sums to " + fc.total() + ", not " + rows);
-                    }
-                    double q = 1;
-                    for (int p : fc.parents()) {
-                        q *= arity[p];
-                    }
-                    out[f] = fc;
-                    scores[f] = score.logScore(fc.counts(), arity[fc.child()], q);
-                    done++;
-                }
-            }
-            progress.update(b + 1, done, System.nanoTime());
+        int[][] out = new int[plan.coverCount()][];
+        for (int s = 0; s < out.length; s++) {
+            out[s] = byCover.get(s).stream().mapToInt(Integer::intValue).toArray();
         }
-        return new Counted(out, scores, batches.size());
+        return out;
+    }
+
+    /**
+     * Marginalises and scores the families of one batch from its dense counts into {@code out} and
+     * {@code scores} (families in parallel; each writes only its own slot). Returns how many.
+     */
+    static int families(FamilyPlan plan, int[] ids, int[][] byCover, CoverBatch cb, long[] dense, FamilyScore score,
+                        long rows, FamilyCounts[] out, double[] scores) {
+        int[] arity = plan.arity();
+        int count = 0;
+        for (int k = 0; k < ids.length; k++) {
+            count += byCover[ids[k]].length;
+        }
+        int[] setOf = new int[count];
+        int[] fam = new int[count];
+        int i = 0;
+        for (int k = 0; k < ids.length; k++) {
+            for (int f : byCover[ids[k]]) {
+                setOf[i] = k;
+                fam[i++] = f;
+            }
+        }
+        java.util.stream.IntStream.range(0, count).parallel().forEach(x -> {
+            int k = setOf[x];
+            int f = fam[x];
+            FamilyCounts fc = Marginal.family(dense, cb.offset(k), plan.cover(ids[k]), arity, plan.child(f),
+                    plan.parents(f));
+            if (fc.total() != rows) {
+                throw new IllegalStateException("family " + f + " sums to " + fc.total() + ", not " + rows);
+            }
+            double q = 1;
+            for (int p : fc.parents()) {
+                q *= arity[p];
+            }
+            out[f] = fc;
+            scores[f] = score.logScore(fc.counts(), arity[fc.child()], q);
+        });
+        return count;
     }
 
     private static boolean anyMissing(org.edgewise.job.input.ColumnStats stats, int n) {

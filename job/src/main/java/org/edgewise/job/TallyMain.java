@@ -14,6 +14,7 @@ import java.util.concurrent.Callable;
 import org.apache.spark.sql.SparkSession;
 import org.edgewise.driver.ErrorReport;
 import org.edgewise.driver.UserError;
+import org.edgewise.driver.average.augment.Augmentation;
 import org.edgewise.driver.Version;
 import org.edgewise.driver.Tiers;
 import org.edgewise.driver.score.ScoreKind;
@@ -78,7 +79,9 @@ public final class TallyMain implements Callable<Integer> {
             + TallyOptions.DEFAULT_SEED + ")") Long seed;
 
     @Option(names = "--rounds", paramLabel = "R", description = "--missing average: rounds of data augmentation per chain, "
-            + "the first half burn-in (default " + TallyOptions.DEFAULT_ROUNDS + ")") Integer rounds;
+            + "the first half burn-in (default: until converged, R-hat < 1.01 and bulk effective sample size >= 400 for every "
+            + "edge over the second half of the rounds, checked from round " + Augmentation.Settings.MIN_ROUNDS + " on, at most "
+            + Augmentation.Settings.MAX_ROUNDS + " rounds)") Integer rounds;
 
     @Option(names = "--weight", paramLabel = "COL", description = "a table of counts: column COL holds the number of rows each line stands for "
             + "(a whole number, 0 or more); counts, scores and fingerprint are those of the table expanded to one row per unit. COL is never a variable") String weight;

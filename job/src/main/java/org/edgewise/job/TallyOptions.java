@@ -27,7 +27,7 @@ import org.edgewise.driver.store.EdgeRule;
  * @param weight       the column holding the number of rows each line stands for (a table of
  *                     counts), never a variable; null when every line is one row
  * @param seed         the seed of data augmentation ({@link MissingPolicy#AVERAGE}); null when not given
- * @param rounds       rounds of data augmentation per chain; null when not given
+ * @param rounds       rounds of data augmentation per chain; null when not given (until converged)
  * @param reserve      with {@code candidates}: per child, how many further candidates (the next by the
  *                     same gain) to count families over and list as the manifest's {@code reserve}, for
  *                     the driver to widen a child into; null for none
@@ -39,8 +39,6 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
                            ScoreKind score, double ess, Integer partitions, long memoryBudget,
                            java.nio.charset.Charset encoding, String weight, Long seed, Integer rounds,
                            Integer reserve) {
-    /** Rounds of data augmentation per chain when {@code rounds} is not given. */
-    public static final int DEFAULT_ROUNDS = 20;
     /** The seed of data augmentation when {@code seed} is not given. */
     public static final long DEFAULT_SEED = 1;
 
@@ -96,11 +94,6 @@ public record TallyOptions(List<String> inputs, String format, char delimiter, P
     /** The seed of data augmentation (the default when not given). */
     public long seedOrDefault() {
         return seed == null ? DEFAULT_SEED : seed;
-    }
-
-    /** Rounds of data augmentation per chain (the default when not given). */
-    public int roundsOrDefault() {
-        return rounds == null ? DEFAULT_ROUNDS : rounds;
     }
 
     public TallyOptions {

@@ -119,4 +119,116 @@ class MissingAverageTest {
         assertEquals("tally: --rounds does not apply without --missing average: it counts rounds of data augmentation",
                 r.err());
     }
+
+    /**
+     * The incomplete rows are redrawn in a canonical order, each from its own stream (IncompleteRows):
+     * one partition or three give byte-identical Parquet parts and sample; another seed draws otherwise.
+     */
+    @Test
+    void oneOrManyPartitionsGiveTheSameStore() throws java.io.IOException {
+        List<String[]> rows = new ArrayList<>();
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(17);
+        for (int i = 0; i < 400; i++) {
+            int a = rng.nextInt(2);
+            int b = rng.nextDouble() < 0.8 ? a : 1 - a;
+            int c = rng.nextDouble() < 0.7 ? b : rng.nextInt(3);
+            String[] row = {"a" + a, "b" + b, "c" + c};
+            if (rng.nextDouble() < 0.3) {
+                row[1 + rng.nextInt(2)] = "";
+            }
+            rows.add(row);
+        }
+        Path in = TestTables.csv(dir.resolve("parts.csv"), List.of("a", "b", "c"), rows);
+        Path[] outs = new Path[3];
+        String[][] extra = {{"--partitions", "1", "--seed", "5"}, {"--partitions", "3", "--seed", "5"},
+            {"--partitions", "3", "--seed", "6"}};
+        for (int k = 0; k < 3; k++) {
+            outs[k] = dir.resolve("parts" + k);
+            List<String> args = new ArrayList<>(List.of("--input", in.toString(), "--out", outs[k].toString(), "--missing",
+                    "average", "--rounds", "4"));
+            args.addAll(List.of(extra[k]));
+            TestTables.Run r = TestTables.tally(spark, args.toArray(String[]::new));
+            assertEquals(0, r.status(), r.err());
+        }
+        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES, "sample/dags.bin")) {
+            byte[] one = java.nio.file.Files.readAllBytes(outs[0].resolve(part));
+            assertTrue(java.util.Arrays.equals(one, java.nio.file.Files.readAllBytes(outs[1].resolve(part))),
+                    part + " differs between 1 and 3 partitions");
+        }
+        assertTrue(!java.util.Arrays.equals(java.nio.file.Files.readAllBytes(outs[1].resolve("sample/dags.bin")),
+                java.nio.file.Files.readAllBytes(outs[2].resolve("sample/dags.bin"))), "seed 6 drew what seed 5 drew");
+    }
+
+    /**
+     * Incomplete rows that would not fit the driver's memory bound are redrawn on the cluster, chain by
+     * chain (the bound lowered to 0 here): the same shares and sample shape as on the driver, every family
+     * counting all 40 rows.
+     */
+    @Test
+    void rowsBeyondTheDriversBoundAreRedrawnOnTheCluster() {
+        Path in = table(dir.resolve("cluster.csv"));
+        Path out = dir.resolve("cluster");
+        AugmentedTally.driverBound = 0;
+        TestTables.Run r;
+        try {
+            r = TestTables.tally(spark, "--input", in.toString(), "--out", out.toString(), "--missing", "average",
+                    "--rounds", "4", "--seed", "3");
+        } finally {
+            AugmentedTally.driverBound = -1;
+        }
+        assertEquals(0, r.status(), r.err());
+        assertTrue(r.out().contains("incomplete rows 4 (10.0%); missing cells per variable: b 7.5%, c 5.0%"), r.out());
+        ScoreStore s = StoreReader.read(out);
+        for (int f = 0; f < s.families().size(); f++) {
+            assertEquals(40, s.family(f).total(), "family " + f);
+        }
+        SampleFile.Loaded sample = SampleFile.read(out.resolve(s.manifest().missingValues().sample()), s.manifest(), out);
+        assertEquals(2, sample.dags().chains());
+        assertEquals(2 * s.manifest().missingValues().drawsPerRound(), sample.dags().perChain());
+    }
+
+    /**
+     * A table of counts with empty cells: {@code --weight} gives the store of its expansion to one row
+     * per unit, byte for byte (Parquet parts and sample) — each unit of an incomplete line is redrawn on
+     * its own, in the expansion's canonical order — with the same shares of missing cells.
+     */
+    @Test
+    void aTableOfCountsWithMissingCellsGivesTheStoreOfItsExpansion() throws java.io.IOException {
+        List<String[]> lines = new ArrayList<>();
+        List<String[]> expanded = new ArrayList<>();
+        java.util.SplittableRandom rng = new java.util.SplittableRandom(23);
+        for (int i = 0; i < 60; i++) {
+            int a = rng.nextInt(2);
+            int b = rng.nextDouble() < 0.8 ? a : 1 - a;
+            int c = rng.nextDouble() < 0.7 ? b : rng.nextInt(3);
+            String[] row = {"a" + a, "b" + b, "c" + c};
+            if (rng.nextDouble() < 0.3) {
+                row[1 + rng.nextInt(2)] = "";
+            }
+            int w = 1 + rng.nextInt(6);
+            lines.add(new String[] {row[0], row[1], row[2], String.valueOf(w)});
+            for (int k = 0; k < w; k++) {
+                expanded.add(row);
+            }
+        }
+        Path weighted = TestTables.csv(dir.resolve("counts.csv"), List.of("a", "b", "c", "n"), lines);
+        Path rows = TestTables.csv(dir.resolve("expanded.csv"), List.of("a", "b", "c"), expanded);
+        Path w = dir.resolve("weighted");
+        Path e = dir.resolve("expanded");
+        TestTables.Run rw = TestTables.tally(spark, "--input", weighted.toString(), "--out", w.toString(), "--weight", "n",
+                "--missing", "average", "--rounds", "4", "--seed", "8");
+        assertEquals(0, rw.status(), rw.err());
+        TestTables.Run re = TestTables.tally(spark, "--input", rows.toString(), "--out", e.toString(), "--missing",
+                "average", "--rounds", "4", "--seed", "8", "--partitions", "2");
+        assertEquals(0, re.status(), re.err());
+        for (String part : List.of(StoreFormat.COUNTS, StoreFormat.SCORES, "sample/dags.bin")) {
+            assertTrue(java.util.Arrays.equals(java.nio.file.Files.readAllBytes(w.resolve(part)),
+                    java.nio.file.Files.readAllBytes(e.resolve(part))), part + " differs from the expansion's");
+        }
+        MissingValues mw = StoreReader.read(w).manifest().missingValues();
+        MissingValues me = StoreReader.read(e).manifest().missingValues();
+        assertEquals(me.incompleteRows(), mw.incompleteRows());
+        assertEquals(me.missingCellShare(), mw.missingCellShare());
+        assertEquals(StoreReader.read(e).manifest().input().fingerprint(), StoreReader.read(w).manifest().input().fingerprint());
+    }
 }

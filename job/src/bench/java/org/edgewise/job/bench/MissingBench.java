@@ -19,7 +19,7 @@ import org.edgewise.job.TallyOptions;
 
 /**
  * {@code scripts/bench missing}: {@code tally --missing average} on a synthetic table (by default
- * 1,000,000 rows × 20 variables, d = 3, local[2]) whose rows are incomplete with a probability that
+ * 1,000,000 rows × 20 variables, d = 3, local[2], rounds until converged) whose rows are incomplete with a probability that
  * depends on the observed first variable (missing at random; 30 % of the rows on average, one or two
  * cells hidden in each, never v0), beside a plain tally of the complete table in the same run: the
  * time of every round, of the one count of the complete rows, and in all, and the largest R̂ over
@@ -33,7 +33,7 @@ public final class MissingBench {
 
     public static void main(String[] args) throws IOException {
         Map<String, String> o = new LinkedHashMap<>(Map.of("--rows", "1000000", "--vars", "20", "--max-parents", "3",
-                "--rounds", "10", "--incomplete", "0.3", "--master", "local[2]", "--dir", "job/target/bench",
+                "--rounds", "until-converged", "--incomplete", "0.3", "--master", "local[2]", "--dir", "job/target/bench",
                 "--seed", "20261205"));
         for (int i = 0; i + 1 < args.length; i += 2) {
             if (!o.containsKey(args[i])) {
@@ -45,7 +45,7 @@ public final class MissingBench {
         int rows = Integer.parseInt(o.get("--rows"));
         int vars = Integer.parseInt(o.get("--vars"));
         int d = Integer.parseInt(o.get("--max-parents"));
-        int rounds = Integer.parseInt(o.get("--rounds"));
+        Integer rounds = o.get("--rounds").equals("until-converged") ? null : Integer.valueOf(o.get("--rounds"));
         double share = Double.parseDouble(o.get("--incomplete"));
         long seed = Long.parseLong(o.get("--seed"));
         Path dir = Path.of(o.get("--dir")).toAbsolutePath();
@@ -55,32 +55,41 @@ public final class MissingBench {
             SyntheticTable.generate(csv, rows, vars, 3, 6, seed);
         }
         Path masked = dir.resolve("masked-" + rows + "x" + vars + "-" + seed + "-" + share + ".csv");
-        if (!Files.exists(masked)) {
-            mask(csv, masked, share, seed);
+        Path alone = dir.resolve("incomplete-" + rows + "x" + vars + "-" + seed + "-" + share + ".csv");
+        if (!Files.exists(masked) || !Files.exists(alone)) {
+            mask(csv, masked, alone, share, seed);
         }
         SparkSession spark = SparkSession.builder().appName("edgewise bench missing").master(o.get("--master"))
                 .config("spark.ui.enabled", "false")
                 .config("spark.driver.host", "127.0.0.1").config("spark.driver.bindAddress", "127.0.0.1")
                 .getOrCreate();
         spark.sparkContext().setLogLevel("WARN");
+        String loadStart = load();
         try {
             long t0 = System.nanoTime();
             TallyJob.Summary plain = TallyJob.run(spark, options(csv, dir.resolve("store-complete"), d,
                     TallyOptions.MissingPolicy.ERROR, null));
             double plainSeconds = (System.nanoTime() - t0) / 1e9;
+            // the incomplete rows alone, their values before masking: one counting pass of a plain tally,
+            // timed just before and just after the rounds (the machine's load changes over a run)
+            TallyOptions aloneOptions = options(alone, dir.resolve("store-unused"), d, TallyOptions.MissingPolicy.ERROR, null);
+            double countBefore = org.edgewise.job.CountTiming.countSeconds(spark, aloneOptions);
             long t1 = System.nanoTime();
             TallyJob.Summary avg = TallyJob.run(spark, options(masked, dir.resolve("store-average"), d,
                     TallyOptions.MissingPolicy.AVERAGE, rounds));
             double avgSeconds = (System.nanoTime() - t1) / 1e9;
+            double countAfter = org.edgewise.job.CountTiming.countSeconds(spark, aloneOptions);
+            double countIncomplete = (countBefore + countAfter) / 2;
             AugmentedTally.Report r = avg.missingValues();
             StringBuilder sb = new StringBuilder();
-            sb.append(String.format(Locale.ROOT, "missing: %,d rows × %d variables, d = %d, %s, %d cores, load %s%n", rows,
-                    vars, d, o.get("--master"), Runtime.getRuntime().availableProcessors(), load()));
+            sb.append(String.format(Locale.ROOT, "missing: %,d rows × %d variables, d = %d, %s, %d cores, load average %s at the"
+                    + " start, %s at the end%n", rows, vars, d, o.get("--master"), Runtime.getRuntime().availableProcessors(),
+                    loadStart, load()));
             sb.append(String.format(Locale.ROOT, "  plain tally of the complete table: %,d families in %.1f s%n",
                     plain.families(), plainSeconds));
-            sb.append(String.format(Locale.ROOT, "  --missing average: %,d incomplete rows (%.1f%%), %d rounds × %d chains,"
+            sb.append(String.format(Locale.ROOT, "  --missing average: %,d incomplete rows (%.1f%%), %d rounds × %d chains%s,"
                     + " burn-in %d: %.1f s in all%n", r.incompleteRows(), 100 * r.incompleteRowShare(), r.rounds(), r.chains(),
-                    r.burnIn(), avgSeconds));
+                    rounds == null ? " (until converged)" : "", r.burnIn(), avgSeconds));
             sb.append(String.format(Locale.ROOT, "    complete rows counted once: %.1f s%n", r.completeRowsSeconds()));
             double sum = 0;
             StringBuilder each = new StringBuilder();
@@ -93,11 +102,10 @@ public final class MissingBench {
             sb.append(String.format(Locale.ROOT, "    per round and chain: %.1f s; the plain tally's time scaled to the"
                     + " incomplete rows: %.1f s (ratio %.2f)%n", perRound / r.chains(), plainSeconds * r.incompleteRowShare(),
                     perRound / r.chains() / (plainSeconds * r.incompleteRowShare())));
-            // counting the incomplete rows alone, estimated from the one count of the complete rows (same kernels)
-            double countIncomplete = r.completeRowsSeconds() * r.incompleteRows() / Math.max(1, rows - r.incompleteRows());
-            sb.append(String.format(Locale.ROOT, "    counting the incomplete rows alone (the complete rows' count scaled): %.1f s;"
-                    + " per round and chain %.2f×, per round %.2f×%n", countIncomplete, perRound / r.chains() / countIncomplete,
-                    perRound / countIncomplete));
+            sb.append(String.format(Locale.ROOT, "    counting the incomplete rows alone (a plain tally's counting pass over"
+                    + " their values before masking: count, marginalise, score; before and after the rounds): %.1f s and %.1f s,"
+                    + " mean %.1f s; per round %.2f×, per round and chain %.2f×%n", countBefore, countAfter, countIncomplete,
+                    perRound / countIncomplete, perRound / r.chains() / countIncomplete));
             sb.append(String.format(Locale.ROOT, "    largest split-R̂ over rounds %.4f, %s%n", r.maxRhat(),
                     r.converged() ? "converged" : "not converged"));
             System.out.print(sb);
@@ -115,9 +123,10 @@ public final class MissingBench {
     /**
      * Hides one or two cells (never v0's) of a row with a probability that depends on the observed v0
      * (missing at random): three times as likely when v0 is not in its first state, scaled so that
-     * {@code share} of the rows are incomplete on average (v0's first-state frequency counted first).
+     * {@code share} of the rows are incomplete on average (v0's first-state frequency counted first); {@code alone}
+     * gets the incomplete rows with their values before masking.
      */
-    static void mask(Path in, Path out, double share, long seed) throws IOException {
+    static void mask(Path in, Path out, Path alone, double share, long seed) throws IOException {
         String s0 = firstState(in);
         long first = 0;
         long all = 0;
@@ -133,14 +142,21 @@ public final class MissingBench {
         double f0 = (double) first / all;
         double k = share / (0.5 * f0 + 1.5 * (1 - f0));
         SplittableRandom rng = new SplittableRandom(seed);
+        Path aloneTmp = alone.resolveSibling(alone.getFileName() + ".tmp");
         AtomicWrite.file(out, tmp -> {
-            try (BufferedReader r = Files.newBufferedReader(in); BufferedWriter w = Files.newBufferedWriter(tmp)) {
-                w.write(r.readLine());
+            try (BufferedReader r = Files.newBufferedReader(in); BufferedWriter w = Files.newBufferedWriter(tmp);
+                 BufferedWriter a = Files.newBufferedWriter(aloneTmp)) {
+                String header = r.readLine();
+                w.write(header);
                 w.newLine();
+                a.write(header);
+                a.newLine();
                 for (String line; (line = r.readLine()) != null; ) {
                     String[] f = line.split(",", -1);
                     double p = Math.min(1, k * (f[0].equals(s0) ? 0.5 : 1.5));
                     if (rng.nextDouble() < p) {
+                        a.write(line);
+                        a.newLine();
                         int hide = 1 + rng.nextInt(2);
                         for (int h = 0; h < hide; h++) {
                             f[1 + rng.nextInt(f.length - 1)] = "";
@@ -151,6 +167,7 @@ public final class MissingBench {
                 }
             }
         });
+        Files.move(aloneTmp, alone, java.nio.file.StandardCopyOption.REPLACE_EXISTING);
     }
 
     /** The label of v0's first state in the synthetic tables. */

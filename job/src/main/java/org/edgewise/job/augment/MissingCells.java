@@ -50,13 +50,26 @@ public final class MissingCells {
         return new Block(k, out, w);
     }
 
-    /** Per variable (256 slots each, flat), the count of each state among its observed cells. */
+    /** Rows {@code b} stands for: its weights' sum, or its rows when unweighted. */
+    public static long units(Block b) {
+        if (b.weights() == null) {
+            return b.rows();
+        }
+        long u = 0;
+        for (int t = 0; t < b.rows(); t++) {
+            u += b.weights()[t];
+        }
+        return u;
+    }
+
+    /** Per variable (256 slots each, flat), the count of each state among its observed cells (weighted rows by their weight). */
     public static long[] observed(Block b) {
         byte[][] cols = b.cols();
         long[] h = new long[cols.length * 256];
+        long[] w = b.weights();
         for (int v = 0; v < cols.length; v++) {
             for (int t = 0; t < b.rows(); t++) {
-                h[v * 256 + (cols[v][t] & 0xFF)]++;
+                h[v * 256 + (cols[v][t] & 0xFF)] += w == null ? 1 : w[t];
             }
             h[v * 256 + Block.MISSING] = 0;
         }

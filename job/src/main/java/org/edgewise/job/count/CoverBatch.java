@@ -35,6 +35,8 @@ public final class CoverBatch implements Serializable {
     /** groups: prefix variables, and for each member its set index. */
     private final int[][] groupPrefix;
     private final int[][] groupMembers;
+    /** Marks "every group, in order" for the kernel. */
+    private static final int[] ALL_GROUPS = new int[0];
 
     /**
      * @param sets  the variable sets, sorted lexicographically, each sorted ascending
@@ -145,11 +147,65 @@ public final class CoverBatch implements Serializable {
 
     /** The kernel: for each group, the prefix index of every row once, then one increment per row per member. */
     void countBlock(Block b, int[] counts, int[] pre) {
-        int n = b.rows();
-        byte[][] cols = b.cols();
+        count(b.cols(), b.rows(), counts, pre, ALL_GROUPS, groupMembers);
+    }
+
+    /**
+     * The sets of this batch that hold a variable of {@code mask} (bit v for variable v;
+     * {@code meets}) or none of them ({@code !meets}): the selection {@link #count(byte[][], int, int[], int[], Selection)}
+     * counts. With both, every set is in exactly one of the two selections.
+     */
+    public Selection select(long mask, boolean meets) {
+        List<Integer> gs = new ArrayList<>();
+        List<int[]> ms = new ArrayList<>();
         for (int g = 0; g < groupPrefix.length; g++) {
+            long prefixMask = 0;
+            for (int v : groupPrefix[g]) {
+                prefixMask |= 1L << v;
+            }
+            List<Integer> keep = new ArrayList<>();
+            for (int m : groupMembers[g]) {
+                int[] set = sets[m];
+                boolean hit = (prefixMask & mask) != 0 || (mask >>> set[set.length - 1] & 1) != 0;
+                if (hit == meets) {
+                    keep.add(m);
+                }
+            }
+            if (!keep.isEmpty()) {
+                gs.add(g);
+                ms.add(keep.stream().mapToInt(Integer::intValue).toArray());
+            }
+        }
+        return new Selection(gs.stream().mapToInt(Integer::intValue).toArray(), ms.toArray(int[][]::new));
+    }
+
+    /** Some sets of a batch, by group: {@code groups[i]} and its members {@code members[i]} (set indices). */
+    public record Selection(int[] groups, int[][] members) implements Serializable {
+        /** Count of sets selected. */
+        public int sets() {
+            int s = 0;
+            for (int[] m : members) {
+                s += m.length;
+            }
+            return s;
+        }
+    }
+
+    /**
+     * The kernel over the selected sets only: {@code n} column-major rows {@code cols} (no missing cell
+     * in a selected set's variables) counted into the batch's cells, {@code counts} indexed as in
+     * {@link #countPartition} (the whole batch); {@code pre} holds at least n ints.
+     */
+    public void count(byte[][] cols, int n, int[] counts, int[] pre, Selection sel) {
+        count(cols, n, counts, pre, sel.groups(), sel.members());
+    }
+
+    /** The one kernel: for the groups {@code gs} and, of group gs[i], the members {@code ms[i]}. */
+    private void count(byte[][] cols, int n, int[] counts, int[] pre, int[] gs, int[][] ms0) {
+        for (int gi = 0; gi < (gs == ALL_GROUPS ? groupPrefix.length : gs.length); gi++) {
+            int g = gs == ALL_GROUPS ? gi : gs[gi];
             prefix(g, cols, n, pre);
-            int[] ms = groupMembers[g];
+            int[] ms = ms0[gi];
             int i = 0;
             // members two at a time: one load of the prefix index feeds two independent increment
             // chains, which hides the latency of repeated increments of the same cell

@@ -63,7 +63,7 @@ class MissingValuesStoreTest {
             }
         }
         shape = InMemoryTally.tally(vars, start, 2, BDEU);
-        recount = (chain, round, net, seed) -> {
+        recount = Augmentation.chainByChain((chain, round, net, seed) -> {
             SplittableRandom rng = new SplittableRandom(seed);
             int[][] filled = new int[rows.length][];
             for (int t = 0; t < rows.length; t++) {
@@ -76,11 +76,11 @@ class MissingValuesStoreTest {
             }
             ScoreStore s = InMemoryTally.tally(vars, filled, 2, BDEU);
             return new Augmentation.Completed(s.families(), s.logScores());
-        };
+        });
         Augmentation.Settings settings = new Augmentation.Settings(40, 10, 2, 40, 3);
         Augmentation.Outcome o = Augmentation.run(shape.manifest(), BDEU,
                 DrawnNetwork.marginals(new int[] {2, 2, 2}, new long[][] {{30, 30}, {30, 29}, {30, 29}}, 1), settings,
-                recount, (r, s) -> { });
+                recount, (r, s, check) -> { });
         mv = new MissingValues(MissingValues.METHOD, MissingValues.ASSUMPTION, 40, 10, 2, 40, 3, "order-modular",
                 MissingValues.SAMPLE, "the completed table of chain 1's last round", 2, 2 / 60.0,
                 new java.util.LinkedHashMap<>(Map.of("x0", 0.0)));
@@ -129,7 +129,7 @@ class MissingValuesStoreTest {
         Path few = dir.resolve("few");
         MissingValuesStore.write(few, shape.manifest().withMissingValues(mv), Augmentation.run(shape.manifest(), BDEU,
                 DrawnNetwork.marginals(new int[] {2, 2, 2}, new long[][] {{30, 30}, {30, 29}, {30, 29}}, 1),
-                new Augmentation.Settings(4, 2, 2, 5, 3), recount, (r, s) -> { }), 1.0, false, "overwrite");
+                new Augmentation.Settings(4, 2, 2, 5, 3), recount, (r, s, check) -> { }), 1.0, false, "overwrite");
         CliRun r = CliRun.of("edges", "--store", few.toString());
         assertEquals(3, r.status(), r.err());
         assertTrue(r.err().contains("WARNING: not converged (a fixed number of rounds of data augmentation was run over the"

@@ -8,8 +8,6 @@ import org.edgewise.driver.Version;
 import org.edgewise.driver.average.ScoringOptions;
 import org.edgewise.driver.average.augment.Augmentation;
 import org.edgewise.driver.average.convergence.ChainDiagnostics;
-import org.edgewise.driver.average.convergence.Estimate;
-import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.dag.ParentListDraws;
 import org.edgewise.driver.posterior.DagSample;
 import org.edgewise.driver.posterior.SampleFile;
@@ -58,7 +56,7 @@ public final class MissingValuesStore {
         settings.put("chains", s.chains());
         settings.put("drawsPerRound", s.drawsPerRound());
         SampleFile.Diagnostics diag = new SampleFile.Diagnostics(conv.maxRhat(), conv.minEss(), conv.converged(),
-                s.rounds(), s.burnIn(), 1, seconds, "rounds", ChainDiagnostics.RHAT_TARGET, ChainDiagnostics.ESS_TARGET, null);
+                s.rounds(), s.burnIn(), 1, seconds, !s.untilConverged() ? "rounds" : conv.converged() ? "converged" : "max-rounds", ChainDiagnostics.RHAT_TARGET, ChainDiagnostics.ESS_TARGET, null);
         MissingValues mv = manifest.missingValues();
         ScoreStore last = o.last();
         SampleFile.Info info = SampleFile.info(manifest, target, "mcmc", mv.describe(), mv.dagPrior(), null,
@@ -88,33 +86,7 @@ public final class MissingValuesStore {
 
     /** Split-R̂ and bulk ESS of every edge indicator over the chains' kept DAGs (parent bitmasks). */
     static Convergence convergence(List<List<int[]>> kept, int n) {
-        int chains = kept.size();
-        int per = kept.get(0).size();
-        double maxRhat = Double.NaN;
-        double minEss = Double.POSITIVE_INFINITY;
-        boolean converged = true;
-        for (int a = 0; a < n; a++) {
-            for (int b = 0; b < n; b++) {
-                if (a == b) {
-                    continue;
-                }
-                int bit = 1 << a;
-                int to = b;
-                Estimate e = DagDraws.estimate((c, k) -> (kept.get(c).get(k)[to] & bit) != 0, chains, per, 1, null);
-                if (!Double.isNaN(e.rhat())) {
-                    maxRhat = Double.isNaN(maxRhat) ? e.rhat() : Math.max(maxRhat, e.rhat());
-                }
-                if (!Double.isNaN(e.ess())) {
-                    minEss = Math.min(minEss, e.ess());
-                }
-                // R̂ < 1.01 and bulk ESS ≥ 400 (Vehtari et al. 2021), or too steady to matter
-                converged &= switch (e.state()) {
-                    case CONSTANT, SETTLED, NEGLIGIBLE -> true;
-                    case STUCK, TRAP -> false;
-                    case VARIES -> e.rhat() < ChainDiagnostics.RHAT_TARGET && e.ess() >= ChainDiagnostics.ESS_TARGET;
-                };
-            }
-        }
-        return new Convergence(maxRhat, Double.isInfinite(minEss) ? 0 : minEss, converged);
+        Augmentation.Check c = Augmentation.check(kept, n, 0, 0);
+        return new Convergence(c.maxRhat(), c.minEss(), c.converged());
     }
 }

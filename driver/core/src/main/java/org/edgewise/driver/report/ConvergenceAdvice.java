@@ -41,6 +41,7 @@ public final class ConvergenceAdvice {
             case "max-steps" -> "the step cap was reached before every target was met";
             case "steps" -> "a fixed number of steps was run, with no check until converged";
             case "rounds" -> "a fixed number of rounds of data augmentation was run over the missing values";
+            case "max-rounds" -> "the cap on rounds of data augmentation was reached before every target was met";
             default -> r;
         };
     }
@@ -109,7 +110,7 @@ public final class ConvergenceAdvice {
             case "steps" -> "run longer: raise the steps per chain (" + h.steps() + ") or run until converged instead ("
                     + h.untilConverged() + ")";
             case "max-steps" -> "run longer: raise or drop the step cap (" + h.maxSteps() + ")";
-            case "rounds" -> "run longer: tally the table again with more rounds of data augmentation";
+            case "rounds", "max-rounds" -> "run longer: tally the table again with more rounds of data augmentation";
             default -> "run longer: raise the time budget (" + h.maxTime() + ")";
         };
     }

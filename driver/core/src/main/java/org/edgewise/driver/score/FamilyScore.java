@@ -82,6 +82,8 @@ public final class FamilyScore {
     public double logScore(long[] counts, int fromRow, int rows, int r, double q) {
         double a = cellAlpha(r, q);
         double aj = a * r;
+        double lga = LogRising.logGammaOf(a);
+        double lgaj = LogRising.logGammaOf(aj);
         double sum = 0;
         int base = fromRow * r;
         for (int j = 0; j < rows; j++) {
@@ -90,12 +92,12 @@ public final class FamilyScore {
             for (int k = 0; k < r; k++) {
                 long n = counts[base + j * r + k];
                 if (n != 0) {
-                    row += LogRising.of(a, n);
+                    row += LogRising.of(a, n, lga);
                     nij += n;
                 }
             }
             if (nij != 0) {
-                sum += row - LogRising.of(aj, nij);
+                sum += row - LogRising.of(aj, nij, lgaj);
             }
         }
         if (!Double.isFinite(sum)) {

@@ -38,6 +38,14 @@ public final class LogRising {
 
     /** ln (a)_n = lnΓ(a + n) − lnΓ(a) for a &gt; 0, n ≥ 0. */
     public static double of(double a, long n) {
+        return of(a, n, Double.NaN);
+    }
+
+    /**
+     * As {@link #of(double, long)}, with lnΓ(a) given ({@link #logGammaOf}; NaN: computed when
+     * needed) — the same value, for a caller that sums many terms of one a.
+     */
+    public static double of(double a, long n, double logGammaA) {
         if (n == 0) {
             return 0;
         }
@@ -52,7 +60,12 @@ public final class LogRising {
             double x = a + n;
             return (a - 0.5) * Math.log1p(n / a) + n * Math.log(x) - n + (series(x) - series(a));
         }
-        return Gamma.logGamma(a + n) - Gamma.logGamma(a);
+        return Gamma.logGamma(a + n) - (Double.isNaN(logGammaA) ? Gamma.logGamma(a) : logGammaA);
+    }
+
+    /** lnΓ(a) where {@link #of(double, long, double)} uses it (a &lt; {@link #STIRLING_FROM}), else NaN. */
+    public static double logGammaOf(double a) {
+        return a < STIRLING_FROM ? Gamma.logGamma(a) : Double.NaN;
     }
 
     /** S(x) of Stirling's series, x ≥ 10 (Horner in 1/x²). */

@@ -12,6 +12,9 @@ import org.edgewise.driver.score.FamilyScore;
 import org.edgewise.driver.store.FamilyCounts;
 import org.edgewise.driver.store.Manifest;
 import org.edgewise.driver.store.ScoreStore;
+import org.edgewise.driver.average.convergence.ChainDiagnostics;
+import org.edgewise.driver.average.convergence.Estimate;
+import org.edgewise.driver.average.dag.DagDraws;
 import org.edgewise.driver.average.dag.ParentListDraws;
 
 /**
@@ -40,14 +43,77 @@ public final class Augmentation {
     private Augmentation() {
     }
 
-    /** The counts and scores of one chain's completed table, for a given network and seed. */
+    /**
+     * The counts and scores of every chain's completed table in one round: chain c's missing cells
+     * redrawn under {@code networks[c]} with the seed {@code seeds[c]} (so that one pass over the rows
+     * can serve every chain).
+     */
     public interface Recount {
+        Completed[] recount(int round, DrawnNetwork[] networks, long[] seeds);
+    }
+
+    /** One chain's completed table for a network and seed: a {@link Recount} done chain by chain ({@link #chainByChain}). */
+    public interface ChainRecount {
         Completed recount(int chain, int round, DrawnNetwork network, long seed);
     }
 
-    /** Sees each round end: its index (0-based) and the seconds it took over every chain. */
+    /** The {@link Recount} that recounts each chain in turn. */
+    public static Recount chainByChain(ChainRecount r) {
+        return (round, networks, seeds) -> {
+            Completed[] out = new Completed[networks.length];
+            for (int c = 0; c < networks.length; c++) {
+                out[c] = r.recount(c, round, networks[c], seeds[c]);
+            }
+            return out;
+        };
+    }
+
+    /**
+     * Sees each round end: its index (0-based), the seconds it took over every chain, and the check of
+     * the rounds that would be kept if the run stopped there (null before any).
+     */
     public interface RoundListener {
-        void round(int round, double seconds);
+        void round(int round, double seconds, Check check);
+    }
+
+    /**
+     * The largest split-R̂ and smallest bulk ESS over the edge indicators of the kept DAGs, over the
+     * rounds {@code fromRound}..{@code toRound} (1-based, inclusive), and the verdict: R̂ &lt; 1.01 and
+     * bulk ESS ≥ 400 for every edge indicator that varies (Vehtari et al. 2021).
+     */
+    public record Check(double maxRhat, double minEss, boolean converged, int fromRound, int toRound) {
+    }
+
+    /** Split-R̂ and bulk ESS of every edge indicator over the chains' DAGs (parent bitmasks, draw order). */
+    public static Check check(List<List<int[]>> kept, int n, int fromRound, int toRound) {
+        int chains = kept.size();
+        int per = kept.get(0).size();
+        double maxRhat = Double.NaN;
+        double minEss = Double.POSITIVE_INFINITY;
+        boolean converged = true;
+        for (int a = 0; a < n; a++) {
+            for (int b = 0; b < n; b++) {
+                if (a == b) {
+                    continue;
+                }
+                int bit = 1 << a;
+                int to = b;
+                Estimate e = DagDraws.estimate((c, k) -> (kept.get(c).get(k)[to] & bit) != 0, chains, per, 1, null);
+                if (!Double.isNaN(e.rhat())) {
+                    maxRhat = Double.isNaN(maxRhat) ? e.rhat() : Math.max(maxRhat, e.rhat());
+                }
+                if (!Double.isNaN(e.ess())) {
+                    minEss = Math.min(minEss, e.ess());
+                }
+                // R̂ < 1.01 and bulk ESS ≥ 400 (Vehtari et al. 2021), or too steady to matter
+                converged &= switch (e.state()) {
+                    case CONSTANT, SETTLED, NEGLIGIBLE -> true;
+                    case STUCK, TRAP -> false;
+                    case VARIES -> e.rhat() < ChainDiagnostics.RHAT_TARGET && e.ess() >= ChainDiagnostics.ESS_TARGET;
+                };
+            }
+        }
+        return new Check(maxRhat, Double.isInfinite(minEss) ? 0 : minEss, converged, fromRound, toRound);
     }
 
     /** Families grouped by child, as a store holds them, with their log scores. */
@@ -61,7 +127,17 @@ public final class Augmentation {
      * @param drawsPerRound DAGs drawn from each kept round's completed table
      * @param seed          the seed every draw derives from
      */
-    public record Settings(int rounds, int burnIn, int chains, int drawsPerRound, long seed) {
+    public record Settings(int rounds, int burnIn, int chains, int drawsPerRound, long seed, boolean untilConverged) {
+        /** Rounds at least, when running until converged (the first check). */
+        public static final int MIN_ROUNDS = 10;
+        /** Rounds at most, when running until converged. */
+        public static final int MAX_ROUNDS = 100;
+
+        /** A fixed number of rounds. */
+        public Settings(int rounds, int burnIn, int chains, int drawsPerRound, long seed) {
+            this(rounds, burnIn, chains, drawsPerRound, seed, false);
+        }
+
         /** Chains kept apart for R̂ (Gelman &amp; Rubin 1992: several; two is the least). */
         public static final int CHAINS = 2;
         /** DAGs drawn per kept round: exact draws given the round's table, cheap beside the Spark pass. */
@@ -70,6 +146,15 @@ public final class Augmentation {
         /** {@code rounds} rounds, the first half burn-in (common practice, Gelman et al., Bayesian Data Analysis). */
         public static Settings of(int rounds, long seed) {
             return new Settings(rounds, rounds / 2, CHAINS, DRAWS_PER_ROUND, seed);
+        }
+
+        /**
+         * Until converged: after each round from {@link #MIN_ROUNDS} on, the second half of the rounds so far
+         * is checked ({@link #check}); the run stops once it has converged, or after {@link #MAX_ROUNDS}.
+         * {@code rounds} and {@code burnIn} are then the cap and its half; the outcome's settings the rounds run.
+         */
+        public static Settings untilConverged(long seed) {
+            return new Settings(MAX_ROUNDS, MAX_ROUNDS / 2, CHAINS, DRAWS_PER_ROUND, seed, true);
         }
 
         public int keptRounds() {
@@ -95,35 +180,64 @@ public final class Augmentation {
     public static Outcome run(Manifest manifest, FamilyScore score, DrawnNetwork start, Settings s, Recount recount,
                               RoundListener listener) {
         int chains = s.chains();
+        int n = manifest.variableCount();
         SplittableRandom[] rng = new SplittableRandom[chains];
         SplittableRandom root = new SplittableRandom(s.seed());
         DrawnNetwork[] net = new DrawnNetwork[chains];
-        List<List<int[]>> kept = new ArrayList<>();
+        // per chain and round, the DAGs drawn (burn-in rounds of a fixed run draw one, not kept)
+        List<List<List<int[]>>> drawn = new ArrayList<>();
         for (int c = 0; c < chains; c++) {
             rng[c] = root.split();
             net[c] = start;
-            kept.add(new ArrayList<>());
+            drawn.add(new ArrayList<>());
         }
         double[] seconds = new double[s.rounds()];
         ScoreStore last = null;
+        int done = 0;
         for (int t = 0; t < s.rounds(); t++) {
             long t0 = System.nanoTime();
+            long[] seeds = new long[chains];
             for (int c = 0; c < chains; c++) {
-                Completed done = recount.recount(c, t, net[c], rng[c].nextLong());
-                ScoreStore store = new ScoreStore(manifest, done.families(), done.logScores());
-                List<int[]> dags = dags(store, manifest, t >= s.burnIn() ? s.drawsPerRound() : 1, rng[c].nextLong());
-                if (t >= s.burnIn()) {
-                    kept.get(c).addAll(dags);
-                }
-                net[c] = DrawnNetwork.draw(store, score, ParentListDraws.parentLists(dags.get(0)), rng[c]);
-                if (c == 0) {
-                    last = store;
-                }
+                seeds[c] = rng[c].nextLong();
             }
+            Completed[] tables = recount.recount(t, net.clone(), seeds);
+            int round = t;
+            boolean keepable = s.untilConverged() || t >= s.burnIn();
+            // the chains' draws are independent given their tables: in parallel, each from its own stream
+            ScoreStore[] stores = new ScoreStore[chains];
+            java.util.stream.IntStream.range(0, chains).parallel().forEach(c -> {
+                ScoreStore store = new ScoreStore(manifest, tables[c].families(), tables[c].logScores());
+                List<int[]> dags = dags(store, manifest, keepable ? s.drawsPerRound() : 1, rng[c].nextLong());
+                drawn.get(c).add(dags);
+                net[c] = DrawnNetwork.draw(store, score, ParentListDraws.parentLists(dags.get(0)), rng[c]);
+                stores[c] = store;
+            });
+            last = stores[0];
             seconds[t] = (System.nanoTime() - t0) / 1e9;
-            listener.round(t, seconds[t]);
+            done = t + 1;
+            int burn = s.untilConverged() ? done / 2 : s.burnIn();
+            Check check = done > burn ? check(kept(drawn, burn, done), n, burn + 1, done) : null;
+            listener.round(t, seconds[t], check);
+            if (s.untilConverged() && done >= Settings.MIN_ROUNDS && check != null && check.converged()) {
+                break;
+            }
         }
-        return new Outcome(kept, last, seconds, s);
+        int burn = s.untilConverged() ? done / 2 : s.burnIn();
+        Settings ran = new Settings(done, burn, chains, s.drawsPerRound(), s.seed(), s.untilConverged());
+        return new Outcome(kept(drawn, burn, done), last, java.util.Arrays.copyOf(seconds, done), ran);
+    }
+
+    /** Per chain, the DAGs of rounds burn..done−1 (0-based) in draw order. */
+    private static List<List<int[]>> kept(List<List<List<int[]>>> drawn, int burn, int done) {
+        List<List<int[]>> out = new ArrayList<>();
+        for (List<List<int[]>> chain : drawn) {
+            List<int[]> k = new ArrayList<>();
+            for (int t = burn; t < done; t++) {
+                k.addAll(chain.get(t));
+            }
+            out.add(k);
+        }
+        return out;
     }
 
     /** {@code count} exact order-modular DAG draws from the completed table's posterior. */

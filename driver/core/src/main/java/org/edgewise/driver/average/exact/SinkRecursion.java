@@ -85,24 +85,30 @@ final class SinkRecursion {
         double[] f = new double[full + 1];
         Arrays.fill(f, Double.NEGATIVE_INFINITY);
         f[0] = 0;
-        double[] t = new double[n];
         for (int k = 1; k <= n; k++) {
-            for (int s : bySize[k]) {
-                int m = maximal == null ? s : maximal[s];
-                if (m < 0) {
-                    continue;
+            int[] level = bySize[k];
+            // the sets of one size depend only on the smaller ones: in parallel, each written once
+            int parts = level.length < 4096 ? 1 : threads;
+            IntStream.range(0, parts).parallel().forEach(th -> {
+                double[] t = new double[n];
+                for (int idx = th; idx < level.length; idx += parts) {
+                    int s = level[idx];
+                    int m = maximal == null ? s : maximal[s];
+                    if (m < 0) {
+                        continue;
+                    }
+                    int len = 0;
+                    double max = Double.NEGATIVE_INFINITY;
+                    for (int rest = m; rest != 0; rest &= rest - 1) {
+                        int i = Integer.numberOfTrailingZeros(rest);
+                        int prev = s & ~(1 << i);
+                        double v = alpha[i][ExactOrderSum.compress(prev, i)] + f[prev];
+                        t[len++] = v;
+                        max = Math.max(max, v);
+                    }
+                    f[s] = LogSum.of(t, len, max);
                 }
-                int len = 0;
-                double max = Double.NEGATIVE_INFINITY;
-                for (int rest = m; rest != 0; rest &= rest - 1) {
-                    int i = Integer.numberOfTrailingZeros(rest);
-                    int prev = s & ~(1 << i);
-                    double v = alpha[i][ExactOrderSum.compress(prev, i)] + f[prev];
-                    t[len++] = v;
-                    max = Math.max(max, v);
-                }
-                f[s] = LogSum.of(t, len, max);
-            }
+            });
         }
         return f;
     }

@@ -114,6 +114,12 @@ class AugmentationTest {
 
     /** Data augmentation in memory: every round redraws the cells marked −1 and tallies the table again. */
     static Augmentation.Outcome augment(List<Variable> vars, int[][] rows, int d, Augmentation.Settings s) {
+        return augmentWith(vars, rows, d, s, new ArrayList<>());
+    }
+
+    /** As {@link #augment}, collecting each round's check. */
+    static Augmentation.Outcome augmentWith(List<Variable> vars, int[][] rows, int d, Augmentation.Settings s,
+                                            List<Augmentation.Check> checks) {
         int n = vars.size();
         int[] arity = new int[n];
         long[][] observed = new long[n][];
@@ -135,7 +141,7 @@ class AugmentationTest {
             }
         }
         ScoreStore shape = InMemoryTally.tally(vars, start, d, BDEU);
-        Augmentation.Recount recount = (chain, round, net, seed) -> {
+        Augmentation.Recount recount = Augmentation.chainByChain((chain, round, net, seed) -> {
             SplittableRandom rng = new SplittableRandom(seed);
             int[][] filled = copy(rows);
             for (int[] x : filled) {
@@ -146,9 +152,9 @@ class AugmentationTest {
             }
             ScoreStore t = InMemoryTally.tally(vars, filled, d, BDEU);
             return new Augmentation.Completed(t.families(), t.logScores());
-        };
+        });
         return Augmentation.run(shape.manifest(), BDEU, DrawnNetwork.marginals(arity, observed, 1), s, recount,
-                (round, secs) -> { });
+                (round, secs, check) -> checks.add(check));
     }
 
     /** P(a → b) over the kept DAGs with its Monte Carlo error (chains in draw order). */
@@ -182,6 +188,45 @@ class AugmentationTest {
             }
         }
         System.out.printf(Locale.ROOT, "augmentation vs the sum over 256 completions: largest edge gap %.4f%n", worst);
+    }
+
+    /**
+     * Until converged: rounds from the first check (10) on until the second half of the rounds has split-R̂
+     * &lt; 1.01 and bulk ESS ≥ 400 for every edge (Vehtari et al. 2021, recomputed here from the kept DAGs), the
+     * kept DAGs those of the second half; and the edges still match the sum over every completion.
+     */
+    @Test
+    void untilConvergedStopsAtTheFirstConvergedCheckAndKeepsTheSecondHalf() {
+        List<Variable> vars = binary(4);
+        int[][] rows = rows(100, 7);
+        int[][] holes = {{3, 1}, {3, 2}, {10, 0}, {10, 3}, {25, 2}, {40, 1}, {61, 3}, {88, 0}};
+        for (int[] h : holes) {
+            rows[h[0]][h[1]] = -1;
+        }
+        Augmentation.Settings s = Augmentation.Settings.untilConverged(11);
+        List<Augmentation.Check> checks = new ArrayList<>();
+        Augmentation.Outcome o = augmentWith(vars, rows, 3, s, checks);
+        int done = o.settings().rounds();
+        assertTrue(done >= Augmentation.Settings.MIN_ROUNDS && done <= Augmentation.Settings.MAX_ROUNDS, "rounds " + done);
+        assertEquals(done / 2, o.settings().burnIn());
+        assertEquals(done, checks.size());
+        assertEquals((done - done / 2) * s.drawsPerRound(), o.kept().get(0).size());
+        Augmentation.Check last = Augmentation.check(o.kept(), 4, done / 2 + 1, done);
+        assertEquals(done < Augmentation.Settings.MAX_ROUNDS, last.converged(), "stopped at round " + done);
+        // no earlier check from the first one on said converged
+        for (int t = Augmentation.Settings.MIN_ROUNDS; t < done; t++) {
+            assertTrue(!checks.get(t - 1).converged(), "round " + t + " had converged already");
+        }
+        double[][] exact = exactEdges(vars, rows, 3);
+        for (int a = 0; a < 4; a++) {
+            for (int b = 0; b < 4; b++) {
+                if (a != b) {
+                    Estimate e = edge(o, a, b);
+                    assertTrue(Math.abs(e.mean() - exact[a][b]) <= 0.03 + 4 * e.mcse(), String.format(Locale.ROOT,
+                            "P(x%d -> x%d): augmented %.4f ± %.4f, exact %.4f", a, b, e.mean(), e.mcse(), exact[a][b]));
+                }
+            }
+        }
     }
 
     @Test
