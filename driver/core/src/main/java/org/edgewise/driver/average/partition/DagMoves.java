@@ -28,6 +28,7 @@ final class DagMoves {
     private final int[] savedSet = new int[BLOCK];
     private final double[][] bucket = new double[BLOCK][1 << BLOCK];
     private final double[] dagLog = new double[DAGS[BLOCK].length];
+    private final double[] dagWeight = new double[DAGS[BLOCK].length];
     private final double[] bucketSum = new double[1 << BLOCK];
     private final int[][] effective = new int[BLOCK][16];
 
@@ -38,6 +39,8 @@ final class DagMoves {
      * drawn ones (0: every block uniform, the former move, with the same random stream).
      */
     double strongShare = STRONG_SHARE;
+    /** Whether the block move's draw of a DAG takes each weight's exp twice, as it did (tests, benchmarks: the same draws). */
+    boolean expTwice;
     /** Default {@link #strongShare}. */
     static final double STRONG_SHARE = 0;
 
@@ -275,16 +278,23 @@ final class DagMoves {
         if (!(max > Double.NEGATIVE_INFINITY)) {
             return -1;
         }
+        if (expTwice) {
+            return drawIndexExpTwice(logW, count, max);
+        }
+        // each weight's exp once (kept for the inversion: the same numbers as taking it twice)
+        double[] e = dagWeight;
         double total = 0;
         for (int k = 0; k < count; k++) {
-            total += Math.exp(logW[k] - max);
+            double x = logW[k] > Double.NEGATIVE_INFINITY ? Math.exp(logW[k] - max) : 0;
+            e[k] = x;
+            total += x;
         }
         double u = rng.nextDouble() * total;
         int last = -1;
         for (int k = 0; k < count; k++) {
             if (logW[k] > Double.NEGATIVE_INFINITY) {
                 last = k;
-                u -= Math.exp(logW[k] - max);
+                u -= e[k];
                 if (u < 0) {
                     break;
                 }
@@ -445,6 +455,26 @@ final class DagMoves {
         dag.setParents(i, newI);
         dag.setParents(j, newJ);
         return true;
+    }
+
+    /** The former {@link #drawIndex}: each exp taken twice (benchmarks side by side; the same draws). */
+    private int drawIndexExpTwice(double[] logW, int count, double max) {
+        double total = 0;
+        for (int k = 0; k < count; k++) {
+            total += Math.exp(logW[k] - max);
+        }
+        double u = rng.nextDouble() * total;
+        int last = -1;
+        for (int k = 0; k < count; k++) {
+            if (logW[k] > Double.NEGATIVE_INFINITY) {
+                last = k;
+                u -= Math.exp(logW[k] - max);
+                if (u < 0) {
+                    break;
+                }
+            }
+        }
+        return last;
     }
 
     /** Every candidate of child i, as a mask. */

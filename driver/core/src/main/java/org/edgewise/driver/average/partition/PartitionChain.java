@@ -137,7 +137,7 @@ public final class PartitionChain extends SteppedChain {
      * Whether Λ follows a DAG move by relayering and rescoring all n nodes (O(n·K), the former way;
      * tests compare it draw for draw) instead of only the nodes whose layer or masks move.
      */
-    boolean fullFollow = true;
+    boolean fullFollow;
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
                    SplittableRandom rng, DrawStore draws, Mix mix) {
@@ -242,6 +242,12 @@ public final class PartitionChain extends SteppedChain {
     /** Sets the share of block moves on v and its strongest candidates ({@link DagMoves#block}; tests, benchmarks). */
     void strongBlockShare(double share) {
         dagMoves.strongShare = share;
+    }
+
+    /** The former step, for tests and benchmarks side by side: full relayering and the block draw's exps taken twice. */
+    void former() {
+        fullFollow = true;
+        dagMoves.expTwice = true;
     }
 
     /** Current log π(Λ) (tests). */

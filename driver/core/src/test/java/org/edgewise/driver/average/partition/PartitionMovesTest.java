@@ -148,8 +148,9 @@ class PartitionMovesTest {
     }
 
     /**
-     * Following a DAG move by relayering and rescoring only what moved is a change of speed alone:
-     * against the former full relayering and rescoring of all n nodes (the brute force), the same
+     * Following a DAG move by relayering and rescoring only what moved, and the block move's DAG
+     * draw taking each exp once, are changes of speed alone: against the former step (full
+     * relayering and rescoring of all n nodes — the brute force — and each exp taken twice), the same
      * seed gives the same DAG and partition after every step, and the same log π(Λ) up to the order
      * of a sum; on a 12-variable windowed store (deep layerings, many moves that shift a layer) and
      * a 60-variable one (many nodes the incremental follow skips).
@@ -160,8 +161,7 @@ class PartitionMovesTest {
             LocalScores ls = TestStores.scores(TestStores.windowed(n, 3, 3, 300, 23 + n));
             PartitionChain fast = chain(ls, OrderConstraints.none(n), PartitionChain.Mix.DEFAULT, 11);
             PartitionChain full = chain(ls, OrderConstraints.none(n), PartitionChain.Mix.DEFAULT, 11);
-            full.fullFollow = true;
-            fast.fullFollow = false;
+            full.former();
             for (int t = 0; t < 30_000; t++) {
                 fast.step();
                 full.step();
