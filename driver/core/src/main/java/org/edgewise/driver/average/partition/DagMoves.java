@@ -28,8 +28,21 @@ final class DagMoves {
     private final int[] savedSet = new int[BLOCK];
     private final double[][] bucket = new double[BLOCK][1 << BLOCK];
     private final double[] dagLog = new double[DAGS[BLOCK].length];
+    private final double[] dagWeight = new double[DAGS[BLOCK].length];
     private final double[] bucketSum = new double[1 << BLOCK];
     private final int[][] effective = new int[BLOCK][16];
+
+    /** Per child, the positions of its {@value #BLOCK} − 1 strongest candidates ({@link #strongest(LocalScores, int)}). */
+    private final int[][] strongest;
+    /**
+     * The share of block moves whose block is v and its strongest candidates rather than uniformly
+     * drawn ones (0: every block uniform, the former move, with the same random stream).
+     */
+    double strongShare = STRONG_SHARE;
+    /** Whether the block move's draw of a DAG takes each weight's exp twice, as it did (tests, benchmarks: the same draws). */
+    boolean expTwice;
+    /** Default {@link #strongShare}. */
+    static final double STRONG_SHARE = 0;
 
     /** Largest block of the block move. */
     static final int BLOCK = 4;
@@ -82,13 +95,47 @@ final class DagMoves {
         inBlock = new int[n];
         java.util.Arrays.fill(inBlock, -1);
         reach = new int[n];
+        strongest = new int[n][];
+        for (int v = 0; v < n; v++) {
+            strongest[v] = strongest(ls, v);
+        }
+    }
+
+    /**
+     * Child v's candidates by the weight of the single-parent set {x} (−∞ when {x} is not an allowed
+     * set: on the non-dominated sets, when the empty set dominates it), strongest first, as positions
+     * in its candidate list; the first {@value #BLOCK} − 1 of them. Fixed by the scores alone.
+     */
+    private static int[] strongest(LocalScores ls, int v) {
+        int k = ls.candidates(v).length;
+        double[] single = new double[k];
+        java.util.Arrays.fill(single, Double.NEGATIVE_INFINITY);
+        long[] masks = ls.masks(v);
+        for (int s = 0; s < masks.length; s++) {
+            if (Long.bitCount(masks[s]) == 1) {
+                single[Long.numberOfTrailingZeros(masks[s])] = ls.weights(v)[s];
+            }
+        }
+        Integer[] pos = new Integer[k];
+        for (int x = 0; x < k; x++) {
+            pos[x] = x;
+        }
+        java.util.Arrays.sort(pos, (a, b) -> Double.compare(single[b], single[a]));
+        int[] out = new int[Math.min(BLOCK - 1, k)];
+        for (int x = 0; x < out.length; x++) {
+            out[x] = pos[x];
+        }
+        return out;
     }
 
     /**
      * A block Gibbs move: the parent sets of up to {@value #BLOCK} nodes drawn jointly from their full
      * conditional P(U_S | G without S's parents, D). The block S is v (uniform) and up to three of
-     * its candidates (uniform, without replacement) — chosen without looking at G, so the draw is a
-     * heat-bath step on S and needs no accept/reject. With S's parents removed (G₋S), u ⇝ x in G₋S
+     * its candidates: with probability {@link #strongShare} its three strongest (by the weight of the
+     * single-parent set, fixed by the scores: a group of strongly dependent neighbours, whose
+     * directions mix slowest, is then proposed as one block), else three drawn uniformly without
+     * replacement — chosen without looking at G either way, so the draw is a heat-bath step on S
+     * and needs no accept/reject (a mixture of such steps leaves the posterior invariant too). With S's parents removed (G₋S), u ⇝ x in G₋S
      * never passes through another block node, and a new G is acyclic iff the "effective" graph on
      * S is: u → w when u ∈ U_w, or when some parent x ∈ U_w outside S is reachable from u in G₋S.
      * So each block node's allowed sets are bucketed by their effective parent set E ⊆ S (sets
@@ -104,11 +151,16 @@ final class DagMoves {
         int[] cand = ls.candidates(v);
         int m = 1 + Math.min(BLOCK - 1, cand.length);
         block[0] = v;
+        boolean strong = strongShare > 0 && rng.nextDouble() < strongShare;
         for (int p = 1; p < m; p++) {
             int x;
-            do {
-                x = cand[rng.nextInt(cand.length)];
-            } while (inBlock[x] >= 0 || x == v);
+            if (strong) {
+                x = cand[strongest[v][p - 1]];
+            } else {
+                do {
+                    x = cand[rng.nextInt(cand.length)];
+                } while (inBlock[x] >= 0 || x == v);
+            }
             block[p] = x;
             inBlock[x] = p;
         }
@@ -226,16 +278,23 @@ final class DagMoves {
         if (!(max > Double.NEGATIVE_INFINITY)) {
             return -1;
         }
+        if (expTwice) {
+            return drawIndexExpTwice(logW, count, max);
+        }
+        // each weight's exp once (kept for the inversion: the same numbers as taking it twice)
+        double[] e = dagWeight;
         double total = 0;
         for (int k = 0; k < count; k++) {
-            total += Math.exp(logW[k] - max);
+            double x = logW[k] > Double.NEGATIVE_INFINITY ? Math.exp(logW[k] - max) : 0;
+            e[k] = x;
+            total += x;
         }
         double u = rng.nextDouble() * total;
         int last = -1;
         for (int k = 0; k < count; k++) {
             if (logW[k] > Double.NEGATIVE_INFINITY) {
                 last = k;
-                u -= Math.exp(logW[k] - max);
+                u -= e[k];
                 if (u < 0) {
                     break;
                 }
@@ -396,6 +455,26 @@ final class DagMoves {
         dag.setParents(i, newI);
         dag.setParents(j, newJ);
         return true;
+    }
+
+    /** The former {@link #drawIndex}: each exp taken twice (benchmarks side by side; the same draws). */
+    private int drawIndexExpTwice(double[] logW, int count, double max) {
+        double total = 0;
+        for (int k = 0; k < count; k++) {
+            total += Math.exp(logW[k] - max);
+        }
+        double u = rng.nextDouble() * total;
+        int last = -1;
+        for (int k = 0; k < count; k++) {
+            if (logW[k] > Double.NEGATIVE_INFINITY) {
+                last = k;
+                u -= Math.exp(logW[k] - max);
+                if (u < 0) {
+                    break;
+                }
+            }
+        }
+        return last;
     }
 
     /** Every candidate of child i, as a mask. */

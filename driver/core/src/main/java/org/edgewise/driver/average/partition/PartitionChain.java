@@ -31,8 +31,11 @@ import org.edgewise.driver.average.mcmc.SteppedChain;
  * tabulated, the sum is taken directly over the child's allowed parent sets, O(#sets) (≤ 299 for
  * 12 candidates and d = 3; {@link PartitionMcmc} runs the chains on the sets that
  * {@link org.edgewise.driver.average.DominatedSets} keeps, 1 % of them on a 40-variable table with
- * 100,000 rows and no candidate limit, within a stated 10⁻¹² of the full posterior). Cost per move: the masks (B, T) of every node, O(n·K) word operations,
- * and the rescoring of the nodes whose masks changed. The partition, its bookkeeping and the
+ * 100,000 rows and no candidate limit, within a stated 10⁻¹² of the full posterior). Cost per move: a partition move
+ * recomputes the masks (B, T) of every node, O(n·K) word operations, and rescores the nodes whose
+ * masks changed; after a DAG move only the nodes whose layer moved and the children that have one
+ * of them as a candidate are looked at ({@link PartitionState#followDag}; the same draws as the
+ * full O(n·K) relayering, tested). The partition, its bookkeeping and the
  * partition proposals live in {@link PartitionState}, the DAG moves in {@link DagMoves}; this class
  * mixes the moves and records the draws.
  *
@@ -130,6 +133,11 @@ public final class PartitionChain extends SteppedChain {
     /** The chain's DAG, whose partition is Λ (drawn from P(G | Λ, D) after every partition move). */
     private PartitionDag dag;
     private DagMoves dagMoves;
+    /**
+     * Whether Λ follows a DAG move by relayering and rescoring all n nodes (O(n·K), the former way;
+     * tests compare it draw for draw) instead of only the nodes whose layer or masks move.
+     */
+    boolean fullFollow;
 
     PartitionChain(LocalScores ls, ChildTables tables, OrderConstraints oc, int[] edgeOffset, boolean features,
                    SplittableRandom rng, DrawStore draws, Mix mix) {
@@ -212,21 +220,35 @@ public final class PartitionChain extends SteppedChain {
     /**
      * Bytes a partition chain holds beyond an order chain's state (for {@link McmcMemory}): its
      * partition state and scratch, {@value #STATE_BYTES_PER_VARIABLE} bytes per variable (4 int and
-     * 9 long/double arrays of length n, 7 int scratch arrays of {@link PartitionDag} and
-     * {@link DagMoves}); the children bitsets, 8·⌈n/64⌉ bytes per variable; and per child the set
-     * index, 12 bytes per slot of an open-addressing table of at most 4 × its allowed sets.
+     * 9 long/double arrays of length n, 14 int scratch arrays of {@link PartitionDag},
+     * {@link PartitionState} and {@link DagMoves}, one boolean, and the block move's three strongest
+     * candidates); the children bitsets, 8·⌈n/64⌉ bytes
+     * per variable; per candidate edge 4 bytes (who has x as a candidate, for the incremental
+     * follow); and per child the set index, 12 bytes per slot of an open-addressing table of at most
+     * 4 × its allowed sets.
      */
     public static long extraBytes(LocalScores ls) {
         int n = ls.variableCount();
         long bytes = (long) STATE_BYTES_PER_VARIABLE * n + 8L * ((n + 63) >>> 6) * n;
         for (int i = 0; i < n; i++) {
-            bytes += 12L * PartitionDag.slots(ls.setCount(i));
+            bytes += 12L * PartitionDag.slots(ls.setCount(i)) + 4L * ls.candidates(i).length;
         }
         return bytes;
     }
 
     /** Bytes of partition state and scratch per variable (see {@link #extraBytes}). */
-    static final int STATE_BYTES_PER_VARIABLE = 4 * 4 + 9 * 8 + 7 * 4;
+    static final int STATE_BYTES_PER_VARIABLE = 4 * 4 + 9 * 8 + 14 * 4 + 1 + 3 * 4;
+
+    /** Sets the share of block moves on v and its strongest candidates ({@link DagMoves#block}; tests, benchmarks). */
+    void strongBlockShare(double share) {
+        dagMoves.strongShare = share;
+    }
+
+    /** The former step, for tests and benchmarks side by side: full relayering and the block draw's exps taken twice. */
+    void former() {
+        fullFollow = true;
+        dagMoves.expTwice = true;
+    }
 
     /** Current log π(Λ) (tests). */
     double logScore() {
@@ -254,6 +276,7 @@ public final class PartitionChain extends SteppedChain {
             return;
         }
         double u = rng.nextDouble();
+        dag.clearDirty();
         for (int k = 0; k < Mix.DAG_MOVES; k++) {
             double share = mix.dagShare(k);
             if (u < share) {
@@ -311,8 +334,13 @@ public final class PartitionChain extends SteppedChain {
 
     /** Λ follows the chain's DAG after a DAG move: its partition, rescored and made the state. */
     private void follow() {
-        part.proposeLayers(dag);
-        double delta = part.rescore();
+        double delta;
+        if (fullFollow) {
+            part.proposeLayers(dag);
+            delta = part.rescore();
+        } else {
+            delta = part.followDag(dag);
+        }
         if (!(delta > Double.NEGATIVE_INFINITY)) {
             throw new IllegalStateException("the partition of an accepted DAG has no weight");
         }

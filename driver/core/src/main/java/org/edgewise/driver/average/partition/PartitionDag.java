@@ -34,6 +34,16 @@ final class PartitionDag {
     private int[] work;
     /** Children of every node as bitsets over the nodes, kept up to date by {@link #setMask}: n²/8 bytes. */
     private final long[][] children;
+    /** The children whose masks changed since {@link #clearDirty} (each once), for {@link #relayer}. */
+    private final int[] dirty;
+    private final int[] dirtyMark;
+    private int dirtyStamp = 1;
+    private int dirtyCount;
+    /** {@link #relayer}'s work queue (circular, each node at most once: {@code queued}) and its changed marks. */
+    private final int[] queue;
+    private final boolean[] queued;
+    private final int[] movedMark;
+    private int movedStamp;
 
     PartitionDag(LocalScores ls, int[] sets) {
         this.ls = ls;
@@ -76,6 +86,11 @@ final class PartitionDag {
         for (int i = 0; i < n; i++) {
             link(i, mask[i], true);
         }
+        dirty = new int[n];
+        dirtyMark = new int[n];
+        queue = new int[n];
+        queued = new boolean[n];
+        movedMark = new int[n];
     }
 
     /** Slots of the set index of a child with {@code sets} allowed sets: a power of two, load ≤ 1/2. */
@@ -117,10 +132,78 @@ final class PartitionDag {
 
     /** Sets child's parents to {@code m} without a set index (a temporary state while a move looks at G0). */
     void setMask(int child, long m) {
+        if (dirtyMark[child] != dirtyStamp) {
+            dirtyMark[child] = dirtyStamp;
+            dirty[dirtyCount++] = child;
+        }
         edges += Long.bitCount(m) - Long.bitCount(mask[child]);
         link(child, mask[child] & ~m, false);
         link(child, m & ~mask[child], true);
         mask[child] = m;
+    }
+
+    /** Forgets which masks changed: {@link #relayer} will look at the changes made from now on. */
+    void clearDirty() {
+        dirtyStamp++;
+        dirtyCount = 0;
+    }
+
+    /**
+     * Brings {@code el} from the layering of G before the changes since {@link #clearDirty} to the
+     * layering of G now — the same array {@link #layers} fills, by propagation from the changed
+     * children instead of over all n nodes: a node is re-evaluated (longest path = 1 + its parents'
+     * largest) when its parents changed or a parent's layer moved, and its children are queued when
+     * its own layer moves. On a DAG the equations have one solution, which every node meets once no
+     * node is queued. Writes the nodes whose layer was rewritten (each once; a node may end where it
+     * began) to {@code moved} and returns their number. O(touched · (n/64 + in-degree)).
+     */
+    int relayer(int[] el, int[] moved) {
+        int head = 0;
+        int tail = 0;
+        int pending = 0;
+        for (int k = 0; k < dirtyCount; k++) {
+            int v = dirty[k];
+            if (!queued[v]) {
+                queued[v] = true;
+                queue[tail] = v;
+                tail = tail + 1 == n ? 0 : tail + 1;
+                pending++;
+            }
+        }
+        movedStamp++;
+        int count = 0;
+        while (pending > 0) {
+            int x = queue[head];
+            head = head + 1 == n ? 0 : head + 1;
+            pending--;
+            queued[x] = false;
+            int[] cand = ls.candidates(x);
+            int d = 0;
+            for (long r = mask[x]; r != 0; r &= r - 1) {
+                d = Math.max(d, el[cand[Long.numberOfTrailingZeros(r)]] + 1);
+            }
+            if (d == el[x]) {
+                continue;
+            }
+            el[x] = d;
+            if (movedMark[x] != movedStamp) {
+                movedMark[x] = movedStamp;
+                moved[count++] = x;
+            }
+            long[] cs = children[x];
+            for (int w = 0; w < cs.length; w++) {
+                for (long r = cs[w]; r != 0; r &= r - 1) {
+                    int c = (w << 6) + Long.numberOfTrailingZeros(r);
+                    if (!queued[c]) {
+                        queued[c] = true;
+                        queue[tail] = c;
+                        tail = tail + 1 == n ? 0 : tail + 1;
+                        pending++;
+                    }
+                }
+            }
+        }
+        return count;
     }
 
     /** Adds (or removes) {@code child} to the children of the candidates in {@code m}. */

@@ -70,10 +70,23 @@ public final class PartitionMcmc {
      * {@code ls}'s sets whatever was left out.
      */
     public static Result run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener, double margin) {
+        return run(ls, oc, s, listener, margin, Tuning.DEFAULT);
+    }
+
+    /**
+     * How the chains step, for benchmarks side by side: the former step ({@link PartitionChain#former}:
+     * full relayering after a DAG move, the block draw's exps taken twice; the same draws) and the share of block moves on a child's strongest candidates.
+     */
+    record Tuning(boolean former, double strongShare) {
+        static final Tuning DEFAULT = new Tuning(false, DagMoves.STRONG_SHARE);
+    }
+
+    static Result run(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener, double margin,
+                      Tuning tuning) {
         checkTiers(ls, oc);
         int[][] keep = DominatedSets.keep(ls, margin);
         LocalScores kept = ls.restrictedTo(keep);
-        Result r = runOn(kept, oc, s, listener);
+        Result r = runOn(kept, oc, s, listener, tuning);
         return kept == ls ? r : widen(ls, keep, r);
     }
 
@@ -106,12 +119,18 @@ public final class PartitionMcmc {
         return new Result(r.chains(), dags, post, r.partitions());
     }
 
-    private static Result runOn(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener) {
+    private static Result runOn(LocalScores ls, OrderConstraints oc, McmcSettings s, ChainRunner.Listener listener, Tuning tuning) {
         int[] offset = ChainSet.edgeOffsets(ls);
         int[][] cpos = ChainSet.candidatePositions(ls);
-        ChainSet.Run<PartitionChain> run = ChainSet.runChains(ls, offset, s, 1, PartitionChain.extraBytes(ls), listener, (tables, rng, store, start) ->
-                new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT,
-                        start.order(oc, OrderMcmc.climb(ls, tables, oc, cpos, offset))));
+        ChainSet.Run<PartitionChain> run = ChainSet.runChains(ls, offset, s, 1, PartitionChain.extraBytes(ls), listener, (tables, rng, store, start) -> {
+            PartitionChain c = new PartitionChain(ls, tables, oc, offset, s.features(), rng, store, PartitionChain.Mix.DEFAULT,
+                    start.order(oc, OrderMcmc.climb(ls, tables, oc, cpos, offset)));
+            if (tuning.former()) {
+                c.former();
+            }
+            c.strongBlockShare(tuning.strongShare());
+            return c;
+        });
         List<PartitionChain> chains = run.chains();
         ChainRunner.Outcome out = run.outcome();
         McmcResult r = run.result();

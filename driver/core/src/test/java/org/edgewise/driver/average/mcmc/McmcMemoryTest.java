@@ -65,11 +65,12 @@ class McmcMemoryTest {
     void partitionChainsAddTheirDagAndSetIndex() {
         // 5 variables, each with the other 4 as candidates and d = 2: 1 + 4 + 6 = 11 allowed sets → a set index of
         // 32 slots (the power of two with load ≤ 1/2) of 12 bytes = 384 bytes per child, 1,920 in all; children
-        // bitsets 5 × 8 bytes = 40; partition state and scratch (4·4 + 9·8 + 7·4) · 5 = 580 bytes: 2,540 per chain
+        // bitsets 5 × 8 bytes = 40; partition state and scratch (4·4 + 9·8 + 14·4 + 1 + 3·4) · 5 = 785 bytes; the index of
+        // who has whom as a candidate, 4 bytes × 20 candidate edges = 80: 2,825 per chain
         LocalScores ls = TestStores.scores(TestStores.random(5, 2, 2, 100, 3));
-        assertEquals(2_540, PartitionChain.extraBytes(ls));
+        assertEquals(2_825, PartitionChain.extraBytes(ls));
         McmcSettings s = McmcSettings.defaults(1).withChains(4, 100);
-        assertEquals(McmcMemory.plan(ls, s, 1).totalBytes() + 4 * 2_540, McmcMemory.plan(ls, s, 1, 2_540).totalBytes());
+        assertEquals(McmcMemory.plan(ls, s, 1).totalBytes() + 4 * 2_825, McmcMemory.plan(ls, s, 1, 2_825).totalBytes());
     }
 
     @Test
