@@ -176,6 +176,14 @@ final class PartitionState {
             return 0;
         }
         seenMark[i] = seenStamp;
+        return stage(i);
+    }
+
+    /**
+     * Node i's masks under the proposal; when they differ from the current ones, its new score is
+     * staged for {@link #commit} and its change returned (0 when unchanged, −∞ when no allowed set).
+     */
+    private double stage(int i) {
         long b = scores.predMask(i, newElem);
         long t = scores.lastMask(i, newElem);
         boolean first = newElem[i] == 0;
@@ -292,22 +300,11 @@ final class PartitionState {
         chCount = 0;
         double delta = 0;
         for (int i = 0; i < n; i++) {
-            long b = scores.predMask(i, newElem);
-            long t = scores.lastMask(i, newElem);
-            boolean first = newElem[i] == 0;
-            if (b == pred[i] && t == last[i] && first == (elem[i] == 0)) {
-                continue;
-            }
-            double l = scores.childScore(i, newElem[i], b, t);
-            if (!(l > Double.NEGATIVE_INFINITY)) {
+            double d = stage(i);
+            if (!(d > Double.NEGATIVE_INFINITY)) {
                 return Double.NEGATIVE_INFINITY;
             }
-            chChild[chCount] = i;
-            chPred[chCount] = b;
-            chLast[chCount] = t;
-            chLog[chCount] = l;
-            chCount++;
-            delta += l - logSum[i];
+            delta += d;
         }
         return delta;
     }
